@@ -1,0 +1,19 @@
+// FileError: one problem found in an input file, located by path and line.
+// Shared by robot model files and scenario files.
+#pragma once
+
+#include <string>
+
+namespace upright {
+
+struct FileError {
+  std::string path;
+  int line = 0;  // 1-based; 0 when the problem is not tied to a line (file missing, unreadable)
+  std::string message;
+  // "path:line: message", or "path: message" when line is 0.
+  std::string ToString() const {
+    return line > 0 ? path + ":" + std::to_string(line) + ": " + message : path + ": " + message;
+  }
+};
+
+}  // namespace upright

@@ -1,0 +1,42 @@
+// DC motor and gearbox of one wheel: a command (terminal voltage, or wheel torque through a
+// current-limited drive) and the wheel's speed relative to the chassis → current and wheel torque.
+// Armature inductance is neglected (electrical time constant ≪ the physics step).
+#pragma once
+
+#include <string>
+
+#include "upright/model/robot_model.hpp"
+
+namespace upright::sim {
+
+enum class DriveMode {
+  kVoltage,  // command = motor terminal voltage, V; the drive still limits current
+  kTorque,   // command = wheel torque, N·m; the drive sets current, up to the supply voltage
+};
+
+struct MotorOutput {
+  double voltage_V = 0;         // terminal voltage applied
+  double current_A = 0;         // armature current
+  double wheel_torque_Nm = 0;   // on the wheel (and −this on the chassis), friction included
+  bool voltage_saturated = false;  // the command asked for more than the supply
+  bool current_saturated = false;  // the current limit cut the command
+  double power_W() const { return voltage_V * current_A; }  // electrical power drawn
+};
+
+// One evaluation of the motor equations:
+//   i = (V − K_e n ω_rel) / R, |V| ≤ supply, |i| ≤ current limit,
+//   τ_wheel = n η K_t i − b ω_rel − c · sat(ω_rel / coulomb_band)
+// ω_rel: wheel speed relative to the chassis, rad/s. coulomb_band_rad_s > 0 smooths the Coulomb
+// friction's sign near zero speed (see MotorCoulombBand).
+MotorOutput EvaluateMotor(const MotorModel& motor, DriveMode mode, double command,
+                          double rel_speed_rad_s, double coulomb_band_rad_s);
+
+// The speed band over which Coulomb friction ramps linearly from −c to +c: wide enough that the
+// explicit friction term stays stable at step dt_s on a wheel of spin inertia I, narrow enough
+// (≥ 1e-3 rad/s) to look like a sharp Coulomb law.
+double MotorCoulombBand(const MotorModel& motor, double spin_inertia_kgm2, double dt_s);
+
+const char* ToString(DriveMode mode);
+bool FromString(const std::string& text, DriveMode* mode);
+
+}  // namespace upright::sim

@@ -1,0 +1,28 @@
+// The subcommands of `upright`: each takes its parsed arguments and returns the process exit code
+// (0 success, 1 a run failed, 2 bad input or usage).
+#pragma once
+
+#include <string>
+#include <vector>
+
+namespace upright::cli {
+
+inline constexpr int kExitOk = 0;
+inline constexpr int kExitFailed = 1;
+inline constexpr int kExitBadInput = 2;
+
+// `upright check FILE...`: validates robot model files; prints every problem as path:line.
+int RunCheck(const std::vector<std::string>& files);
+
+struct PlantDemoOptions {
+  std::string model_path;     // robot model file
+  double duration_s = 6.0;    // simulated time
+  double push_N = 0;          // half-sine push peak; 0 = a size derived from the robot's mass
+  double print_every_s = 0.5; // state line interval
+};
+
+// `upright demo`: the demo robot balancing under a simple built-in state feedback while it is
+// pushed, printing a few lines of state.
+int RunPlantDemo(const PlantDemoOptions& options);
+
+}  // namespace upright::cli
