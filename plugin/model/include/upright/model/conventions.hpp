@@ -13,7 +13,7 @@ namespace upright {
 //
 // Pitch θ: rotation about body +y. θ > 0 when the chassis leans forward (its top moves toward +x,
 //   its centre of mass ahead of the axle).
-// Yaw ψ: rotation about +z. ψ > 0 turns left. Roll: rotation about +x, > 0 leans right side up.
+// Yaw ψ: rotation about +z. ψ > 0 turns left. Roll: rotation about +x; > 0 raises the left side.
 // Wheel angle φ: rotation of a wheel about body +y. φ̇ > 0 rolls the robot forward. Encoders
 //   measure the angle of the wheel RELATIVE to the chassis, φ_rel = φ_abs − θ; the ground
 //   position of a rolling wheel is x = r (φ_rel + θ).

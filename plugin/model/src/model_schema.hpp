@@ -1,0 +1,93 @@
+// The model file schema as data: elements, fields (attribute → RobotModel member, default, range)
+// and rules across fields. One set of tables drives loading (model_file.cpp), validation of models
+// built in code (model_validate.cpp) and the documentation (model_schema_markdown.cpp).
+#pragma once
+
+#include <optional>
+#include <span>
+#include <string>
+#include <string_view>
+
+#include "upright/model/robot_model.hpp"
+
+namespace upright::internal {
+
+inline constexpr long long kModelSchemaVersion = 1;
+
+// A latency beyond this many control periods is rejected: it keeps the plant's delay line short,
+// and a value that large is far more likely a unit slip (ms written as s) than a real sensor chain.
+inline constexpr double kMaxLatencyControlPeriods = 50;
+
+// A model while it is being read: the RobotModel plus the fields a file may give that only feed
+// other fields (the chassis box, from which the chassis inertia follows).
+struct ModelDraft {
+  RobotModel model;
+  double box_length_m = 0;
+  double box_width_m = 0;
+  double box_height_m = 0;
+};
+
+enum class Bound { kNone, kOpen, kClosed };
+
+struct Limit {
+  Bound bound = Bound::kNone;
+  double value = 0;
+};
+
+enum class Occurs {
+  kRequired,
+  kOptional,
+  kOneOf,  // exactly one element of the same one-of group under the same parent
+};
+
+struct ElementRule {
+  std::string_view path;  // below <robot>, "chassis/outline"
+  Occurs occurs = Occurs::kRequired;
+  std::string_view group = {};              // the one-of group, for Occurs::kOneOf
+  bool* (*present)(RobotModel&) = nullptr;  // set true when the element is given, if any
+  std::string_view meaning = {};
+};
+
+struct FieldRule {
+  std::string_view element;    // path below <robot>
+  std::string_view attribute;  // unit in the name
+  std::string_view unit;       // for the documentation
+  double* (*field)(ModelDraft&);
+  bool required = false;  // must be given when its element is
+  double default_value = 0;
+  // A default that depends on other fields; also fills a required field whose element is absent
+  // (chassis inertia from the box).
+  double (*derive)(const ModelDraft&) = nullptr;
+  std::string_view default_text = {};  // how the documentation states a derived default
+  Limit min = {};
+  Limit max = {};
+  bool whole = false;
+  bool file_only = false;  // not a RobotModel member; ValidateModel skips it
+  std::string_view meaning = {};
+};
+
+// A rule relating several fields. `check` returns the message when the rule is broken; it is run
+// only once every field keeps its own rule.
+struct CrossRule {
+  std::string_view element;  // whose line a file message carries
+  std::string_view rule;     // for the documentation
+  std::optional<std::string> (*check)(const RobotModel&);
+};
+
+std::span<const ElementRule> ElementRules();
+std::span<const FieldRule> FieldRules();
+std::span<const CrossRule> CrossRules();
+
+// The rule of an element for `path`, or nullptr.
+const ElementRule* FindElementRule(std::string_view path);
+
+// "chassis mass_kg = -3: must be > 0", or nullopt when `value` keeps the field's rule.
+std::optional<std::string> CheckField(const FieldRule& rule, double value);
+
+// The allowed values as the documentation shows them: "> 0", "(0, 1]", "whole, >= 1", "any".
+std::string RangeText(const FieldRule& rule);
+
+// Shortest text that reads back as the same double: 0.25, -3, 1e-05.
+std::string FormatNumber(double value);
+
+}  // namespace upright::internal

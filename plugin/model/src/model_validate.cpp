@@ -1,0 +1,28 @@
+#include <string>
+#include <vector>
+
+#include "model_schema.hpp"
+#include "upright/model/model_file.hpp"
+
+namespace upright {
+
+std::vector<std::string> ValidateModel(const RobotModel& model) {
+  internal::ModelDraft draft{.model = model};
+  std::vector<std::string> problems;
+  if (model.name.empty()) problems.push_back("robot name = '': must not be empty");
+  for (const internal::FieldRule& rule : internal::FieldRules()) {
+    if (rule.file_only) continue;
+    const internal::ElementRule* element = internal::FindElementRule(rule.element);
+    if (element != nullptr && element->present != nullptr && !*element->present(draft.model)) {
+      continue;
+    }
+    if (auto problem = internal::CheckField(rule, *rule.field(draft))) problems.push_back(*problem);
+  }
+  if (!problems.empty()) return problems;
+  for (const internal::CrossRule& rule : internal::CrossRules()) {
+    if (auto problem = rule.check(model)) problems.push_back(*problem);
+  }
+  return problems;
+}
+
+}  // namespace upright

@@ -1,0 +1,329 @@
+#include "upright/model/xml_reader.hpp"
+
+#include <tinyxml2.h>
+
+#include <algorithm>
+#include <cerrno>
+#include <charconv>
+#include <cmath>
+#include <cstdio>
+#include <cstring>
+#include <system_error>
+#include <utility>
+
+namespace upright {
+namespace internal {
+
+// One element, copied out of the parser's tree together with what the caller has asked of it.
+struct XmlNode {
+  std::string name;
+  std::string label;
+  int line = 0;
+  std::vector<std::pair<std::string, std::string>> attributes;  // in file order
+  std::vector<std::size_t> children;                            // indices into XmlTree::nodes
+  bool has_text = false;                                        // text other than white space
+  std::vector<std::string> asked_attributes;                    // in the order asked
+  std::vector<std::string> asked_children;
+  bool reached = false;  // handed to the caller, so its unread parts are worth reporting
+};
+
+struct XmlTree {
+  std::string path;
+  std::vector<XmlNode> nodes;  // pre-order, so index order is file order; nodes[0] is the root
+  std::vector<FileError> errors;
+
+  void Error(int line, std::string message) {
+    errors.push_back(FileError{path, line, std::move(message)});
+  }
+};
+
+}  // namespace internal
+
+namespace {
+
+using internal::XmlNode;
+using internal::XmlTree;
+
+void Remember(std::vector<std::string>& names, std::string_view name) {
+  if (std::find(names.begin(), names.end(), name) == names.end()) names.emplace_back(name);
+}
+
+std::string JoinNames(const std::vector<std::string>& names) {
+  std::string joined;
+  for (const std::string& name : names) joined += (joined.empty() ? "" : ", ") + name;
+  return joined;
+}
+
+// The parser's own description of a syntax error, without its "Error=… Line number=N: " lead.
+std::string ParserMessage(const tinyxml2::XMLDocument& doc) {
+  std::string message = std::string("malformed XML: ") + doc.ErrorName();
+  const std::string detail = doc.ErrorStr();
+  const std::size_t colon = detail.find(": ");
+  if (colon != std::string::npos) message += " (" + detail.substr(colon + 2) + ")";
+  return message;
+}
+
+void Flatten(const tinyxml2::XMLElement& element, const std::string& label, XmlTree& tree) {
+  const std::size_t index = tree.nodes.size();
+  XmlNode node;
+  node.name = element.Name();
+  node.label = label;
+  node.line = element.GetLineNum();
+  for (const tinyxml2::XMLAttribute* a = element.FirstAttribute(); a != nullptr; a = a->Next()) {
+    node.attributes.emplace_back(a->Name(), a->Value());
+  }
+  tree.nodes.push_back(std::move(node));
+  for (const tinyxml2::XMLNode* child = element.FirstChild(); child != nullptr;
+       child = child->NextSibling()) {
+    if (const tinyxml2::XMLElement* child_element = child->ToElement()) {
+      const std::size_t child_index = tree.nodes.size();
+      const std::string child_label =
+          index == 0 ? std::string(child_element->Name()) : label + "/" + child_element->Name();
+      Flatten(*child_element, child_label, tree);
+      tree.nodes[index].children.push_back(child_index);
+    } else if (const tinyxml2::XMLText* text = child->ToText()) {
+      const std::string_view value = text->Value();
+      if (value.find_first_not_of(" \t\r\n") != std::string_view::npos) {
+        tree.nodes[index].has_text = true;
+      }
+    }
+  }
+}
+
+std::unique_ptr<XmlTree> BuildTree(std::string_view text, const std::string& path) {
+  auto tree = std::make_unique<XmlTree>();
+  tree->path = path;
+  tinyxml2::XMLDocument doc;
+  doc.Parse(text.data(), text.size());
+  if (doc.Error()) {
+    tree->Error(doc.ErrorLineNum(), ParserMessage(doc));
+    return tree;
+  }
+  const tinyxml2::XMLElement* root = doc.FirstChildElement();
+  if (root == nullptr) {
+    tree->Error(0, "no root element");
+    return tree;
+  }
+  Flatten(*root, root->Name(), *tree);
+  for (const tinyxml2::XMLElement* extra = root->NextSiblingElement(); extra != nullptr;
+       extra = extra->NextSiblingElement()) {
+    tree->Error(extra->GetLineNum(), std::string("second top-level element <") + extra->Name() +
+                                         "> (a file holds one root element)");
+  }
+  return tree;
+}
+
+}  // namespace
+
+XmlDocument::XmlDocument(std::unique_ptr<internal::XmlTree> tree) : tree_(std::move(tree)) {}
+XmlDocument::XmlDocument(XmlDocument&&) noexcept = default;
+XmlDocument& XmlDocument::operator=(XmlDocument&&) noexcept = default;
+XmlDocument::~XmlDocument() = default;
+
+XmlDocument XmlDocument::Open(const std::string& path) {
+  std::FILE* file = std::fopen(path.c_str(), "rb");
+  if (file == nullptr) {
+    auto tree = std::make_unique<XmlTree>();
+    tree->path = path;
+    tree->Error(0, std::string("cannot open file: ") + std::strerror(errno));
+    return XmlDocument(std::move(tree));
+  }
+  std::string text;
+  char buffer[4096];
+  std::size_t count = 0;
+  while ((count = std::fread(buffer, 1, sizeof buffer, file)) > 0) text.append(buffer, count);
+  const bool failed = std::ferror(file) != 0;
+  std::fclose(file);
+  if (failed) {
+    auto tree = std::make_unique<XmlTree>();
+    tree->path = path;
+    tree->Error(0, "cannot read file");
+    return XmlDocument(std::move(tree));
+  }
+  return Parse(text, path);
+}
+
+XmlDocument XmlDocument::Parse(std::string_view text, const std::string& path) {
+  return XmlDocument(BuildTree(text, path));
+}
+
+const std::string& XmlDocument::path() const { return tree_->path; }
+
+bool XmlDocument::parsed() const { return !tree_->nodes.empty(); }
+
+XmlElement XmlDocument::Root() {
+  tree_->nodes.at(0).reached = true;
+  return XmlElement(tree_.get(), 0);
+}
+
+void XmlDocument::AddError(int line, std::string message) {
+  tree_->Error(line, std::move(message));
+}
+
+void XmlDocument::ReportUnread() {
+  for (const XmlNode& node : tree_->nodes) {
+    if (!node.reached) continue;
+    for (const auto& [name, value] : node.attributes) {
+      if (std::find(node.asked_attributes.begin(), node.asked_attributes.end(), name) !=
+          node.asked_attributes.end()) {
+        continue;
+      }
+      tree_->Error(node.line,
+                   node.label + ": unknown attribute '" + name + "' " +
+                       (node.asked_attributes.empty()
+                            ? "(this element takes no attributes)"
+                            : "(expected one of: " + JoinNames(node.asked_attributes) + ")"));
+    }
+    for (const std::size_t child_index : node.children) {
+      const XmlNode& child = tree_->nodes[child_index];
+      if (std::find(node.asked_children.begin(), node.asked_children.end(), child.name) !=
+          node.asked_children.end()) {
+        continue;
+      }
+      tree_->Error(child.line,
+                   node.label + ": unknown element <" + child.name + "> " +
+                       (node.asked_children.empty()
+                            ? "(this element takes no child elements)"
+                            : "(expected one of: " + JoinNames(node.asked_children) + ")"));
+    }
+    if (node.has_text) tree_->Error(node.line, node.label + ": unexpected text inside the element");
+  }
+}
+
+bool XmlDocument::HasErrors() const { return !tree_->errors.empty(); }
+
+std::vector<FileError> XmlDocument::errors() const {
+  std::vector<FileError> sorted = tree_->errors;
+  std::stable_sort(sorted.begin(), sorted.end(),
+                   [](const FileError& a, const FileError& b) { return a.line < b.line; });
+  return sorted;
+}
+
+const std::string& XmlElement::name() const { return tree_->nodes[index_].name; }
+
+const std::string& XmlElement::label() const { return tree_->nodes[index_].label; }
+
+int XmlElement::line() const { return tree_->nodes[index_].line; }
+
+const std::string* XmlElement::AskAttribute(std::string_view attribute, Presence presence) {
+  XmlNode& node = tree_->nodes[index_];
+  Remember(node.asked_attributes, attribute);
+  for (const auto& [name, value] : node.attributes) {
+    if (name == attribute) return &value;
+  }
+  if (presence == Presence::kRequired) {
+    tree_->Error(node.line,
+                 node.label + ": missing required attribute '" + std::string(attribute) + "'");
+  }
+  return nullptr;
+}
+
+void XmlElement::ValueError(std::string_view attribute, const std::string& text,
+                            std::string_view problem) {
+  tree_->Error(line(), label() + " " + std::string(attribute) + " = '" + text +
+                           "': " + std::string(problem));
+}
+
+bool XmlElement::Has(std::string_view attribute) {
+  return AskAttribute(attribute, Presence::kOptional) != nullptr;
+}
+
+std::optional<std::string> XmlElement::String(std::string_view attribute, Presence presence) {
+  const std::string* text = AskAttribute(attribute, presence);
+  if (text == nullptr) return std::nullopt;
+  return *text;
+}
+
+std::optional<double> XmlElement::Double(std::string_view attribute, Presence presence) {
+  const std::string* text = AskAttribute(attribute, presence);
+  if (text == nullptr) return std::nullopt;
+  if (text->empty()) {
+    ValueError(attribute, *text, "empty (expected a finite number)");
+    return std::nullopt;
+  }
+  double value = 0;
+  const char* end = text->data() + text->size();
+  const auto [stop, status] = std::from_chars(text->data(), end, value);
+  if (status == std::errc::result_out_of_range) {
+    ValueError(attribute, *text, "out of the range of a double (expected a finite number)");
+    return std::nullopt;
+  }
+  if (status != std::errc{} || stop != end) {
+    ValueError(attribute, *text, "not a number (expected a finite decimal number such as 0.25)");
+    return std::nullopt;
+  }
+  if (!std::isfinite(value)) {
+    ValueError(attribute, *text, "not finite (expected a finite number)");
+    return std::nullopt;
+  }
+  return value;
+}
+
+std::optional<long long> XmlElement::Integer(std::string_view attribute, Presence presence) {
+  const std::string* text = AskAttribute(attribute, presence);
+  if (text == nullptr) return std::nullopt;
+  if (text->empty()) {
+    ValueError(attribute, *text, "empty (expected a whole number)");
+    return std::nullopt;
+  }
+  long long value = 0;
+  const char* end = text->data() + text->size();
+  const auto [stop, status] = std::from_chars(text->data(), end, value);
+  if (status == std::errc::result_out_of_range) {
+    ValueError(attribute, *text, "too large (expected a whole number)");
+    return std::nullopt;
+  }
+  if (status != std::errc{} || stop != end) {
+    ValueError(attribute, *text, "not a whole number (expected digits such as 42)");
+    return std::nullopt;
+  }
+  return value;
+}
+
+std::optional<std::size_t> XmlElement::Choice(std::string_view attribute,
+                                              std::span<const std::string_view> choices,
+                                              Presence presence) {
+  const std::string* text = AskAttribute(attribute, presence);
+  if (text == nullptr) return std::nullopt;
+  for (std::size_t i = 0; i < choices.size(); ++i) {
+    if (choices[i] == *text) return i;
+  }
+  std::string expected;
+  for (const std::string_view choice : choices) {
+    expected += (expected.empty() ? "" : ", ") + std::string(choice);
+  }
+  ValueError(attribute, *text, "not a known value (expected one of: " + expected + ")");
+  return std::nullopt;
+}
+
+std::optional<XmlElement> XmlElement::Child(std::string_view name, Presence presence) {
+  std::vector<XmlElement> found = Children(name);
+  if (found.empty()) {
+    if (presence == Presence::kRequired) {
+      tree_->Error(line(), label() + ": missing required element <" + std::string(name) + ">");
+    }
+    return std::nullopt;
+  }
+  for (std::size_t i = 1; i < found.size(); ++i) {
+    XmlNode& duplicate = tree_->nodes[found[i].index_];
+    duplicate.reached = false;
+    tree_->Error(duplicate.line, label() + ": duplicate element <" + std::string(name) +
+                                     "> (first at line " + std::to_string(found[0].line()) + ")");
+  }
+  return found[0];
+}
+
+std::vector<XmlElement> XmlElement::Children(std::string_view name) {
+  XmlNode& node = tree_->nodes[index_];
+  Remember(node.asked_children, name);
+  std::vector<XmlElement> found;
+  for (const std::size_t child_index : node.children) {
+    XmlNode& child = tree_->nodes[child_index];
+    if (child.name != name) continue;
+    child.reached = true;
+    found.push_back(XmlElement(tree_, child_index));
+  }
+  return found;
+}
+
+}  // namespace upright

@@ -1,0 +1,205 @@
+#include "upright/model/xml_reader.hpp"
+
+#include <gtest/gtest.h>
+
+#include <array>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace upright {
+namespace {
+
+std::vector<std::string> Texts(const XmlDocument& doc) {
+  std::vector<std::string> texts;
+  for (const FileError& error : doc.errors()) texts.push_back(error.ToString());
+  return texts;
+}
+
+TEST(XmlReader, ReadsTypedAttributes) {
+  XmlDocument doc = XmlDocument::Parse(
+      R"(<thing label="left wheel" gain="-2.5e-3" count="-42" mode="fast"/>)", "t.xml");
+  ASSERT_TRUE(doc.parsed());
+  XmlElement root = doc.Root();
+  EXPECT_EQ(root.name(), "thing");
+  EXPECT_EQ(root.label(), "thing");
+  EXPECT_EQ(root.line(), 1);
+  EXPECT_EQ(root.String("label", Presence::kRequired), "left wheel");
+  EXPECT_EQ(root.Double("gain", Presence::kRequired), -2.5e-3);
+  EXPECT_EQ(root.Integer("count", Presence::kRequired), -42);
+  constexpr std::array<std::string_view, 2> kModes = {"slow", "fast"};
+  EXPECT_EQ(root.Choice("mode", kModes, Presence::kRequired), 1u);
+  EXPECT_FALSE(root.Double("absent", Presence::kOptional).has_value());
+  doc.ReportUnread();
+  EXPECT_FALSE(doc.HasErrors());
+}
+
+TEST(XmlReader, RejectsNumbersThatAreNotWholeAttributes) {
+  XmlDocument doc = XmlDocument::Parse(
+      R"(<t a="1.5x" b="" c="nan" d="inf" e=" 1" f="1e999" g="-inf"/>)", "t.xml");
+  XmlElement root = doc.Root();
+  for (const char* name : {"a", "b", "c", "d", "e", "f", "g"}) {
+    EXPECT_FALSE(root.Double(name, Presence::kRequired).has_value()) << name;
+  }
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{
+                "t.xml:1: t a = '1.5x': not a number (expected a finite decimal number such as "
+                "0.25)",
+                "t.xml:1: t b = '': empty (expected a finite number)",
+                "t.xml:1: t c = 'nan': not finite (expected a finite number)",
+                "t.xml:1: t d = 'inf': not finite (expected a finite number)",
+                "t.xml:1: t e = ' 1': not a number (expected a finite decimal number such as "
+                "0.25)",
+                "t.xml:1: t f = '1e999': out of the range of a double (expected a finite number)",
+                "t.xml:1: t g = '-inf': not finite (expected a finite number)",
+            }));
+}
+
+TEST(XmlReader, RejectsFractionInWholeNumber) {
+  XmlDocument doc = XmlDocument::Parse(R"(<t n="4.5"/>)", "t.xml");
+  EXPECT_FALSE(doc.Root().Integer("n", Presence::kRequired).has_value());
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{
+                "t.xml:1: t n = '4.5': not a whole number (expected digits such as 42)"}));
+}
+
+TEST(XmlReader, RejectsValueOutsideChoices) {
+  XmlDocument doc = XmlDocument::Parse(R"(<t mode="medium"/>)", "t.xml");
+  constexpr std::array<std::string_view, 2> kModes = {"slow", "fast"};
+  EXPECT_FALSE(doc.Root().Choice("mode", kModes, Presence::kRequired).has_value());
+  EXPECT_EQ(Texts(doc), (std::vector<std::string>{"t.xml:1: t mode = 'medium': not a known value "
+                                                  "(expected one of: slow, fast)"}));
+}
+
+TEST(XmlReader, ReportsMissingRequiredAttributeAndChild) {
+  XmlDocument doc = XmlDocument::Parse("<t>\n</t>", "t.xml");
+  XmlElement root = doc.Root();
+  EXPECT_FALSE(root.Double("mass_kg", Presence::kRequired).has_value());
+  EXPECT_FALSE(root.Child("part", Presence::kRequired).has_value());
+  EXPECT_FALSE(root.Child("extra", Presence::kOptional).has_value());
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{"t.xml:1: t: missing required attribute 'mass_kg'",
+                                      "t.xml:1: t: missing required element <part>"}));
+}
+
+TEST(XmlReader, LabelsNestedElementsByPathBelowRoot) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <a>\n    <b/>\n  </a>\n</r>", "t.xml");
+  XmlElement a = *doc.Root().Child("a", Presence::kRequired);
+  XmlElement b = *a.Child("b", Presence::kRequired);
+  EXPECT_EQ(a.label(), "a");
+  EXPECT_EQ(b.label(), "a/b");
+  EXPECT_EQ(b.line(), 3);
+}
+
+TEST(XmlReader, ReportsUnreadAttributesAndElementsOfReachedElementsOnly) {
+  XmlDocument doc = XmlDocument::Parse(
+      "<r known=\"1\" stray=\"2\">\n"
+      "  <a x=\"1\" y=\"2\"/>\n"
+      "  <other>\n"
+      "    <deep z=\"3\"/>\n"
+      "  </other>\n"
+      "</r>",
+      "t.xml");
+  XmlElement root = doc.Root();
+  root.Double("known", Presence::kRequired);
+  root.Double("also", Presence::kOptional);
+  root.Child("a", Presence::kRequired)->Double("x", Presence::kRequired);
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc), (std::vector<std::string>{
+                            "t.xml:1: r: unknown attribute 'stray' (expected one of: known, also)",
+                            "t.xml:2: a: unknown attribute 'y' (expected one of: x)",
+                            "t.xml:3: r: unknown element <other> (expected one of: a)",
+                        }));
+}
+
+TEST(XmlReader, ReportsAttributesOnElementThatTakesNone) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <flag on=\"1\"/>\n</r>", "t.xml");
+  doc.Root().Child("flag", Presence::kRequired);
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc), (std::vector<std::string>{
+                            "t.xml:2: flag: unknown attribute 'on' (this element takes no "
+                            "attributes)"}));
+}
+
+TEST(XmlReader, ReportsTextInsideElement) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  stray words\n</r>", "t.xml");
+  doc.Root();
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{"t.xml:1: r: unexpected text inside the element"}));
+}
+
+TEST(XmlReader, ReportsDuplicateChildAtItsLine) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <a/>\n  <b/>\n  <a q=\"1\"/>\n</r>", "t.xml");
+  XmlElement root = doc.Root();
+  EXPECT_EQ(root.Child("a", Presence::kRequired)->line(), 2);
+  root.Child("b", Presence::kRequired);
+  doc.ReportUnread();
+  // The duplicate's own attributes are not reported: the duplicate itself is the problem.
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{"t.xml:4: r: duplicate element <a> (first at line 2)"}));
+}
+
+TEST(XmlReader, ChildrenReturnsRepeatedElementsInFileOrder) {
+  XmlDocument doc =
+      XmlDocument::Parse("<r>\n  <e t=\"1\"/>\n  <f/>\n  <e t=\"2\"/>\n</r>", "t.xml");
+  XmlElement root = doc.Root();
+  std::vector<XmlElement> events = root.Children("e");
+  ASSERT_EQ(events.size(), 2u);
+  EXPECT_EQ(events[0].Double("t", Presence::kRequired), 1.0);
+  EXPECT_EQ(events[1].Double("t", Presence::kRequired), 2.0);
+  EXPECT_EQ(events[1].line(), 4);
+  root.Children("f");
+  doc.ReportUnread();
+  EXPECT_FALSE(doc.HasErrors());
+}
+
+TEST(XmlReader, ReportsMalformedXmlAtParserLine) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <a/>\n  <b x=\"1/>\n</r>", "t.xml");
+  EXPECT_FALSE(doc.parsed());
+  const std::vector<FileError> errors = doc.errors();
+  ASSERT_EQ(errors.size(), 1u);
+  EXPECT_EQ(errors[0].line, 3);
+  EXPECT_EQ(errors[0].message.rfind("malformed XML: XML_ERROR_PARSING_ATTRIBUTE", 0), 0u)
+      << errors[0].message;
+}
+
+TEST(XmlReader, ReportsEmptyDocument) {
+  XmlDocument doc = XmlDocument::Parse("", "t.xml");
+  EXPECT_FALSE(doc.parsed());
+  ASSERT_EQ(doc.errors().size(), 1u);
+  EXPECT_EQ(doc.errors()[0].ToString(), "t.xml: malformed XML: XML_ERROR_EMPTY_DOCUMENT");
+}
+
+TEST(XmlReader, ReportsSecondTopLevelElement) {
+  XmlDocument doc = XmlDocument::Parse("<r/>\n<s/>", "t.xml");
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{
+                "t.xml:2: second top-level element <s> (a file holds one root element)"}));
+}
+
+TEST(XmlReader, ReportsMissingFileWithoutLine) {
+  XmlDocument doc = XmlDocument::Open("no/such/file.xml");
+  EXPECT_FALSE(doc.parsed());
+  EXPECT_EQ(
+      Texts(doc),
+      (std::vector<std::string>{"no/such/file.xml: cannot open file: No such file or directory"}));
+}
+
+TEST(XmlReader, ReturnsErrorsInLineOrder) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <a v=\"x\"/>\n  <b v=\"y\"/>\n</r>", "t.xml");
+  XmlElement root = doc.Root();
+  XmlElement b = *root.Child("b", Presence::kRequired);
+  XmlElement a = *root.Child("a", Presence::kRequired);
+  b.Double("v", Presence::kRequired);
+  a.Double("v", Presence::kRequired);
+  doc.AddError(1, "first");
+  const std::vector<FileError> errors = doc.errors();
+  ASSERT_EQ(errors.size(), 3u);
+  EXPECT_EQ(errors[0].line, 1);
+  EXPECT_EQ(errors[1].line, 2);
+  EXPECT_EQ(errors[2].line, 3);
+}
+
+}  // namespace
+}  // namespace upright
