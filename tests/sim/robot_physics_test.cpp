@@ -1,0 +1,139 @@
+// The whole robot in the plant against the planar wheeled-inverted-pendulum equations: falling
+// from a small tilt and answering a wheel-torque step, as the linearised model predicts within
+// BULLET-NOTES tolerances, and as the nonlinear equations (integrated finely here) predict with an
+// error that shrinks when the physics step is halved.
+#include <gtest/gtest.h>
+
+#include <array>
+#include <cmath>
+#include <functional>
+
+#include "upright/model/conventions.hpp"
+#include "upright/model/model_file.hpp"
+#include "upright/sim/plant.hpp"
+
+namespace upright::sim {
+namespace {
+
+constexpr double kG = kStandardGravity_m_s2;
+
+// A plain test robot with round numbers: no motor friction, no rolling resistance, exact sensors.
+RobotModel PendulumRobot() {
+  RobotModel m;
+  m.name = "pendulum-test";
+  m.chassis = {.mass_kg = 10, .pitch_inertia_kgm2 = 0.3, .roll_inertia_kgm2 = 0.3,
+               .yaw_inertia_kgm2 = 0.2, .com_height_m = 0.25, .com_forward_m = 0,
+               .outline_front_m = 0.15, .outline_rear_m = -0.15, .outline_bottom_m = -0.05,
+               .outline_top_m = 0.6, .outline_width_m = 0.3};
+  m.wheel = {.radius_m = 0.1, .width_m = 0.05, .mass_kg = 1, .spin_inertia_kgm2 = 0.005,
+             .diameter_inertia_kgm2 = 1.0 * (3 * 0.01 + 0.0025) / 12, .track_m = 0.4,
+             .friction = 1.0, .rolling_resistance = 0};
+  m.motor = {.torque_constant_Nm_per_A = 0.05, .back_emf_V_s_per_rad = 0.05,
+             .resistance_ohm = 0.5, .gear_ratio = 10, .gear_efficiency = 1, .supply_V = 24,
+             .current_limit_A = 30, .viscous_friction_Nm_s_per_rad = 0, .coulomb_friction_Nm = 0};
+  m.sensors.imu_rate_hz = 1000;
+  m.sensors.imu_z_m = 0.2;
+  m.sensors.encoder_counts_per_rev = 4096;
+  m.control_rate_hz = 200;
+  return m;
+}
+
+// Planar wheeled inverted pendulum, wheels rolling without slip, states [x, ẋ, θ, θ̇], total wheel
+// torque u (CONTROL-NOTES.md, derived by hand; cross-check Pathak, Franch and Agrawal, IEEE T-RO
+// 21(3), 2005, from memory):
+//   M_x ẍ + m_b l (cosθ θ̈ − sinθ θ̇²) = u / r
+//   m_b l cosθ ẍ + J_θ θ̈ − m_b g l sinθ = −u
+struct Pendulum {
+  double mb, l, jt, mx, r;
+  explicit Pendulum(const RobotModel& m)
+      : mb(m.chassis.mass_kg),
+        l(m.chassis.com_height_m),
+        jt(m.chassis.pitch_inertia_kgm2 + mb * l * l),
+        mx(mb + 2 * m.wheel.mass_kg + 2 * m.wheel.spin_inertia_kgm2 / (m.wheel.radius_m * m.wheel.radius_m)),
+        r(m.wheel.radius_m) {}
+  double delta() const { return mx * jt - mb * mb * l * l; }
+  double lambda() const { return std::sqrt(mx * mb * kG * l / delta()); }  // falling rate, 1/s
+  double b_pitch() const { return -(mx * r + mb * l) / (r * delta()); }    // θ̈ per unit u
+
+  using State = std::array<double, 4>;
+  State Derivative(const State& s, double u) const {
+    const double c = std::cos(s[2]), sn = std::sin(s[2]);
+    const double a11 = mx, a12 = mb * l * c, a22 = jt;
+    const double f1 = u / r + mb * l * sn * s[3] * s[3], f2 = mb * kG * l * sn - u;
+    const double det = a11 * a22 - a12 * a12;
+    return {s[1], (a22 * f1 - a12 * f2) / det, s[3], (a11 * f2 - a12 * f1) / det};
+  }
+  // θ(t) by classical fourth-order Runge–Kutta with a 10 µs step.
+  double PitchAt(double t_end, double theta0, double u) const {
+    State s{0, 0, theta0, 0};
+    const double h = 1e-5;
+    for (long i = 0, n = std::lround(t_end / h); i < n; ++i) {
+      auto add = [](const State& a, const State& b, double k) {
+        return State{a[0] + k * b[0], a[1] + k * b[1], a[2] + k * b[2], a[3] + k * b[3]};
+      };
+      const State k1 = Derivative(s, u), k2 = Derivative(add(s, k1, h / 2), u);
+      const State k3 = Derivative(add(s, k2, h / 2), u), k4 = Derivative(add(s, k3, h), u);
+      for (int j = 0; j < 4; ++j) s[j] += h / 6 * (k1[j] + 2 * k2[j] + 2 * k3[j] + k4[j]);
+    }
+    return s[2];
+  }
+};
+
+// Pitch of the plant robot after t_end with a constant torque per wheel, from pitch theta0.
+double PlantPitchAt(double dt, double t_end, double theta0, double torque_per_wheel_Nm) {
+  PlantOptions options;
+  options.dt_s = dt;
+  options.drive = DriveMode::kTorque;
+  options.sensor_noise = false;
+  options.initial.pitch_rad = theta0;
+  std::string error;
+  auto plant = Plant::Create(PendulumRobot(), options, &error);
+  EXPECT_NE(plant, nullptr) << error;
+  if (!plant) return NAN;
+  plant->SetCommand(torque_per_wheel_Nm, torque_per_wheel_Nm);
+  for (long i = 0, n = std::lround(t_end / dt); i < n; ++i) plant->Step();
+  return plant->truth().pitch_rad;
+}
+
+TEST(RobotPhysics, UnpoweredRobotFallsAsThetaZeroCoshLambdaT) {
+  // Linearised: θ(t) = θ0 cosh(λ t), λ² = M_x m_b g l / Δ (CONTROL-NOTES.md, derived). BULLET-NOTES
+  // tolerance: 1 % at 0.25 s.
+  const Pendulum p(PendulumRobot());
+  const double theta0 = 0.01, t = 0.25;
+  const double linear = theta0 * std::cosh(p.lambda() * t);
+  EXPECT_NEAR(PlantPitchAt(0.001, t, theta0, 0) / linear, 1.0, 0.01);
+}
+
+TEST(RobotPhysics, WheelTorqueStepPitchesTheChassisBackAsTheLinearModelSays) {
+  // Linearised with θ0 = 0: θ(t) = (b_θ u / λ²)(cosh λt − 1), b_θ < 0: a positive wheel torque
+  // pitches the chassis back (CONTROL-NOTES.md, derived). BULLET-NOTES tolerance: 2 % at 0.1 s.
+  const Pendulum p(PendulumRobot());
+  const double torque = 0.5, u = 2 * torque, t = 0.1;
+  const double lambda = p.lambda();
+  const double linear = p.b_pitch() * u / (lambda * lambda) * (std::cosh(lambda * t) - 1);
+  const double pitch = PlantPitchAt(0.001, t, 0, torque);
+  EXPECT_LT(pitch, 0);
+  EXPECT_NEAR(pitch / linear, 1.0, 0.02);
+}
+
+TEST(RobotPhysics, PlantConvergesToTheNonlinearEquationsAsTheStepShrinks) {
+  // Against the nonlinear equations, at a tilt where sinθ ≠ θ matters (θ ≈ 0.2 rad by 0.5 s), the
+  // plant's error comes from its semi-implicit Euler step and shrinks when dt is halved.
+  const Pendulum p(PendulumRobot());
+  struct Case {
+    double t, theta0, torque;
+  };
+  for (const Case c : {Case{0.5, 0.01, 0.0}, Case{0.25, 0.0, 0.5}}) {
+    const double reference = p.PitchAt(c.t, c.theta0, 2 * c.torque);
+    double error[2];
+    for (int k = 0; k < 2; ++k) {
+      const double dt = 0.001 / (1 << k);
+      error[k] = std::abs(PlantPitchAt(dt, c.t, c.theta0, c.torque) / reference - 1);
+      EXPECT_LT(error[k], 0.01) << "t = " << c.t << ", dt = " << dt;
+    }
+    EXPECT_LT(error[1], 0.6 * error[0]) << "t = " << c.t;  // seen: 3.6e-3 → 1.8e-3
+  }
+}
+
+}  // namespace
+}  // namespace upright::sim
