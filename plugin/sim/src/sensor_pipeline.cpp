@@ -29,10 +29,10 @@ SensorPipeline::SensorPipeline(const SensorModel& sensors, double control_rate_h
       random_(seed),
       ring_(static_cast<size_t>(latency_steps_ + control_steps_ + 1)) {
   // White noise of density N sampled every T seconds has σ = N / √T (common practice for MEMS
-  // IMU noise models, from memory).
-  const double sample_rate_hz = 1.0 / (static_cast<double>(imu_steps_) * dt_s);
-  gyro_sigma_rad_s_ = sensors.gyro_noise_rad_s_rthz * std::sqrt(sample_rate_hz);
-  accel_sigma_m_s2_ = sensors.accel_noise_m_s2_rthz * std::sqrt(sample_rate_hz);
+  // IMU noise models, from memory). The IMU's own rate sets T, also when it samples faster than
+  // the physics steps and only its latest sample is seen.
+  gyro_sigma_rad_s_ = sensors.gyro_noise_rad_s_rthz * std::sqrt(sensors.imu_rate_hz);
+  accel_sigma_m_s2_ = sensors.accel_noise_m_s2_rthz * std::sqrt(sensors.imu_rate_hz);
 }
 
 const Measurement& SensorPipeline::Delayed(long step, long extra_delay) const {

@@ -114,7 +114,7 @@ std::vector<std::pair<double, double>> ProfilePolyline(const Terrain& t, double 
   // Flat lead-in split into pieces no longer than max_piece_m, so triangles stay of similar size.
   auto add_line_to = [&](double x1, double z1) {
     const auto [x0, z0] = pts.back();
-    const int n = std::max(1, static_cast<int>(std::ceil((x1 - x0) / max_piece_m)));
+    const int n = std::max(1, static_cast<int>(std::ceil(std::hypot(x1 - x0, z1 - z0) / max_piece_m)));
     for (int i = 1; i <= n; ++i) pts.emplace_back(x0 + (x1 - x0) * i / n, z0 + (z1 - z0) * i / n);
   };
   pts.emplace_back(x_begin, 0.0);
@@ -136,7 +136,9 @@ std::vector<std::pair<double, double>> ProfilePolyline(const Terrain& t, double 
         add_line_to(x, z);
         break;
       case SegmentKind::kBump: {
-        const int n = std::max(16, static_cast<int>(std::ceil(s.length_m / max_piece_m)));
+        // The bump's arc is at most L √(1 + (π h / L)²) long (its steepest slope is π h / L).
+        const double arc_m = std::hypot(s.length_m, kPi * s.height_m);
+        const int n = std::max(16, static_cast<int>(std::ceil(arc_m / max_piece_m)));
         for (int i = 1; i <= n; ++i) {
           const double u = static_cast<double>(i) / n;
           pts.emplace_back(x + u * s.length_m, z + s.height_m * BumpShape(u));

@@ -124,6 +124,9 @@ void World::AddGround(const Terrain& terrain, double mesh_cell_m) {
         nx * (ny + 1), mesh_vertices_.data(), 3 * sizeof(double));
     mesh_arrays_.reset(arrays);
     auto mesh = std::make_unique<btBvhTriangleMeshShape>(arrays, true);
+    // A small margin lets a wheel resting exactly on the mesh touch it from the first step
+    // (sphere–triangle contacts otherwise appear only once the sphere penetrates).
+    mesh->setMargin(1e-4);
     triangle_info_ = std::make_unique<btTriangleInfoMap>();
     btGenerateInternalEdgeInfo(mesh.get(), triangle_info_.get());
     ground_shape_ = std::move(mesh);

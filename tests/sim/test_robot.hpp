@@ -1,0 +1,93 @@
+// A small, valid robot built in code for the plant tests: round numbers, so that every expected
+// value in a test follows from a handbook formula and these inputs. Invented test data, not a
+// real robot; tests change the few fields they need on a copy.
+#pragma once
+
+#include <bit>
+#include <cstdint>
+#include <string>
+
+#include "upright/model/conventions.hpp"
+#include "upright/model/robot_model.hpp"
+
+namespace upright::sim::testing {
+
+// Chassis 10 kg with its COM 0.2 m straight above the axle; two 2 kg disc wheels of radius 0.1 m
+// (spin inertia ½ m r² = 0.01 kg·m²); motors with n η K_t / R = 10 × 0.8 × 0.05 / 2.5 =
+// 0.16 N·m/V at the wheel and electrical damping n² η K_t K_e / R = 0.08 N·m·s/rad; ideal
+// sensors at 1 kHz; controller at 100 Hz; no payload.
+inline RobotModel MakeTestRobot() {
+  RobotModel m;
+  m.name = "test-robot";
+  ChassisModel& c = m.chassis;
+  c.mass_kg = 10;
+  c.pitch_inertia_kgm2 = 0.4;
+  c.roll_inertia_kgm2 = 0.4;
+  c.yaw_inertia_kgm2 = 0.2;
+  c.com_height_m = 0.2;
+  c.com_forward_m = 0;
+  c.outline_front_m = 0.15;
+  c.outline_rear_m = -0.15;
+  c.outline_bottom_m = -0.05;
+  c.outline_top_m = 0.5;
+  c.outline_width_m = 0.3;
+  WheelModel& w = m.wheel;
+  w.radius_m = 0.1;
+  w.width_m = 0.04;
+  w.mass_kg = 2;
+  w.spin_inertia_kgm2 = 0.01;  // ½ m r², uniform disc (handbook, from memory)
+  // Uniform cylinder about a diameter, m (3 r² + w²) / 12 (handbook, from memory).
+  w.diameter_inertia_kgm2 = 2.0 * (3 * 0.1 * 0.1 + 0.04 * 0.04) / 12;
+  w.track_m = 0.4;
+  w.friction = 1.0;
+  w.rolling_resistance = 0;
+  MotorModel& mo = m.motor;
+  mo.torque_constant_Nm_per_A = 0.05;
+  mo.back_emf_V_s_per_rad = 0.05;
+  mo.resistance_ohm = 2.5;
+  mo.gear_ratio = 10;
+  mo.gear_efficiency = 0.8;
+  mo.supply_V = 12;
+  mo.current_limit_A = 4;
+  mo.viscous_friction_Nm_s_per_rad = 0.02;
+  mo.coulomb_friction_Nm = 0.01;
+  SensorModel& s = m.sensors;
+  s.imu_rate_hz = 1000;
+  s.imu_x_m = 0;
+  s.imu_y_m = 0;
+  s.imu_z_m = 0.2;  // at the chassis COM
+  s.encoder_counts_per_rev = 4096;
+  s.latency_s = 0;
+  m.control_rate_hz = 100;
+  return m;
+}
+
+// The test robot with the motor's mechanical friction removed (pure electrical motor).
+inline RobotModel MakeFrictionlessTestRobot() {
+  RobotModel m = MakeTestRobot();
+  m.motor.viscous_friction_Nm_s_per_rad = 0;
+  m.motor.coulomb_friction_Nm = 0;
+  return m;
+}
+
+// Total mass that rolls on the wheels: chassis plus both wheels (kg).
+inline double RollingMass(const RobotModel& m) { return m.chassis.mass_kg + 2 * m.wheel.mass_kg; }
+
+// FNV-1a over the bit patterns of doubles: equal hashes mean bit-identical sequences
+// (FNV-1a 64-bit offset basis and prime, from memory).
+class TraceHash {
+ public:
+  void Add(double value) {
+    const auto bits = std::bit_cast<std::uint64_t>(value);
+    for (int i = 0; i < 8; ++i) {
+      hash_ ^= (bits >> (8 * i)) & 0xffu;
+      hash_ *= 0x100000001b3ULL;
+    }
+  }
+  std::uint64_t value() const { return hash_; }
+
+ private:
+  std::uint64_t hash_ = 0xcbf29ce484222325ULL;
+};
+
+}  // namespace upright::sim::testing
