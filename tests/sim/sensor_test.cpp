@@ -17,25 +17,13 @@
 namespace upright::sim {
 namespace {
 
+using testing::MakePlant;
 using testing::MakeTestRobot;
+using testing::Unpowered;
 using testing::TraceHash;
 
 constexpr double kG = kStandardGravity_m_s2;
 
-std::unique_ptr<Plant> MakePlant(const RobotModel& model, const PlantOptions& options) {
-  std::string error;
-  auto plant = Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
-  return plant;
-}
-
-// Unpowered: a torque drive commanded to zero lets the wheels turn freely (no back-EMF braking).
-PlantOptions Unpowered() {
-  PlantOptions options;
-  options.drive = DriveMode::kTorque;
-  options.sensor_noise = false;
-  return options;
-}
 
 PlantOptions OnTheStand(bool noise) {
   PlantOptions options;

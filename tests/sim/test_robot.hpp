@@ -3,12 +3,16 @@
 // real robot; tests change the few fields they need on a copy.
 #pragma once
 
+#include <gtest/gtest.h>
+
 #include <bit>
 #include <cstdint>
+#include <memory>
 #include <string>
 
 #include "upright/model/conventions.hpp"
 #include "upright/model/robot_model.hpp"
+#include "upright/sim/plant.hpp"
 
 namespace upright::sim::testing {
 
@@ -68,6 +72,22 @@ inline RobotModel MakeFrictionlessTestRobot() {
   m.motor.viscous_friction_Nm_s_per_rad = 0;
   m.motor.coulomb_friction_Nm = 0;
   return m;
+}
+
+// A plant for the test, or a test failure naming why it could not be built.
+inline std::unique_ptr<Plant> MakePlant(const RobotModel& model, const PlantOptions& options) {
+  std::string error;
+  auto plant = Plant::Create(model, options, &error);
+  EXPECT_NE(plant, nullptr) << error;
+  return plant;
+}
+
+// Unpowered: a torque drive commanded to zero lets the wheels turn freely (no back-EMF braking).
+inline PlantOptions Unpowered() {
+  PlantOptions options;
+  options.drive = DriveMode::kTorque;
+  options.sensor_noise = false;
+  return options;
 }
 
 // Total mass that rolls on the wheels: chassis plus both wheels (kg).
