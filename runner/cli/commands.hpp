@@ -5,6 +5,8 @@
 #include <string>
 #include <vector>
 
+#include "upright/design/design_set.hpp"
+
 namespace upright::cli {
 
 inline constexpr int kExitOk = 0;
@@ -13,6 +15,17 @@ inline constexpr int kExitBadInput = 2;
 
 // `upright check FILE...`: validates robot model files; prints every problem as path:line.
 int RunCheck(const std::vector<std::string>& files);
+
+struct DesignOptions {
+  std::string model_path;
+  bool json = false;  // one JSON object on stdout instead of text
+  std::string input_text = "torque";  // --input, parsed into request.input
+  design::DesignRequest request;
+};
+
+// `upright design MODEL`: linear model, controller gains, poles, norms and margins. Exit 1 when a
+// design fails (its reason printed), 2 on bad input.
+int RunDesign(const DesignOptions& options);
 
 struct PlantDemoOptions {
   std::string model_path;     // robot model file

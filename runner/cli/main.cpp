@@ -6,6 +6,41 @@
 #include "commands.hpp"
 #include "upright_version.hpp"
 
+namespace {
+
+void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
+  auto& r = o->request;
+  auto& w = r.weights;
+  cmd->add_option("MODEL", o->model_path, "Robot model file (.xml)")->required();
+  cmd->add_flag("--json", o->json, "Print one JSON object instead of text");
+  cmd->add_option("--rate", r.rate_hz, "Controller sample rate, Hz (default: the model's)");
+  cmd->add_option("--gamma", r.gamma, "H-infinity gamma (default: --gamma-factor x gamma_opt)");
+  cmd->add_option("--gamma-factor", r.gamma_factor, "gamma as a multiple of gamma_opt")
+      ->capture_default_str();
+  cmd->add_option("--input", o->input_text, "Design input: torque or voltage")
+      ->check(CLI::IsMember({"torque", "voltage"}))
+      ->capture_default_str();
+  cmd->add_option("--push-height-m", r.push_height_m,
+                  "Height of the design push above the axle (default: the COM height)");
+  cmd->add_option("--push-scale-N", r.push_scale_N,
+                  "Size of the design push, N (default: 10 % of the robot's weight)");
+  cmd->add_option("--max-drift-m", w.max_drift_m, "Weight: acceptable drift")->capture_default_str();
+  cmd->add_option("--max-speed-m-s", w.max_speed_m_s, "Weight: acceptable speed error")
+      ->capture_default_str();
+  cmd->add_option("--max-tilt-deg", w.max_tilt_deg, "Weight: acceptable tilt")->capture_default_str();
+  cmd->add_option("--max-tilt-rate-deg-s", w.max_tilt_rate_deg_s, "Weight: acceptable tilt rate")
+      ->capture_default_str();
+  cmd->add_option("--max-yaw-deg", w.max_yaw_deg, "Weight: acceptable heading error")
+      ->capture_default_str();
+  cmd->add_option("--max-yaw-rate-deg-s", w.max_yaw_rate_deg_s, "Weight: acceptable yaw-rate error")
+      ->capture_default_str();
+  cmd->add_option("--max-input-fraction", w.max_input_fraction,
+                  "Weight: acceptable wheel input, as a fraction of stall torque or supply")
+      ->capture_default_str();
+}
+
+}  // namespace
+
 int main(int argc, char** argv) {
   CLI::App app{
       "upright: tests balance controllers for two-wheeled self-balancing robots on a rigid-body "
@@ -17,6 +52,11 @@ int main(int argc, char** argv) {
   std::vector<std::string> check_files;
   auto* check = app.add_subcommand("check", "Validate robot model files; exit 0 when all are valid");
   check->add_option("FILE", check_files, "Robot model files (.xml)")->required();
+
+  upright::cli::DesignOptions design;
+  auto* design_cmd = app.add_subcommand(
+      "design", "Linear model, LQR / H-infinity / LQG / PID gains, poles, norms and margins");
+  AddDesignOptions(design_cmd, &design);
 
   upright::cli::PlantDemoOptions demo;
   demo.model_path = std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml";
@@ -38,6 +78,12 @@ int main(int argc, char** argv) {
     return code == 0 ? 0 : upright::cli::kExitBadInput;
   }
   if (check->parsed()) return upright::cli::RunCheck(check_files);
+  if (design_cmd->parsed()) {
+    design.request.input = design.input_text == "voltage"
+                               ? upright::design::InputKind::kVoltage
+                               : upright::design::InputKind::kTorque;
+    return upright::cli::RunDesign(design);
+  }
   if (demo_cmd->parsed()) return upright::cli::RunPlantDemo(demo);
   return upright::cli::kExitBadInput;
 }

@@ -90,6 +90,43 @@ TEST(Cli, CheckRejectsAMissingFileAndAnUnknownRoot) {
   EXPECT_NE(r.output.find("<vehicle>"), std::string::npos) << r.output;
 }
 
+TEST(Cli, DesignPrintsEveryControllerForBothDemoRobots) {
+  for (const char* name : {"courier.xml", "tabletop.xml"}) {
+    const Result r = RunUpright("design " + Models() + name);
+    EXPECT_EQ(r.exit_code, 0) << r.output;
+    for (const char* part : {"== LQR: ok", "== H-infinity state feedback: ok", "gamma_opt",
+                             "== LQG", "== PID cascade", "input margins", "push norm"}) {
+      EXPECT_NE(r.output.find(part), std::string::npos) << name << ": " << part;
+    }
+  }
+}
+
+TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
+  const Result r = RunUpright("design --json " + Models() + "courier.xml");
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  for (const char* key : {"\"A\":[[", "\"B\":[[", "\"lqr\":{", "\"hinf\":{", "\"lqg\":{",
+                          "\"K\":[[", "\"poles\":[[", "\"gamma\":", "\"gamma_opt\":",
+                          "\"norm\":", "\"margins\":{", "\"gain_low\":", "\"gain_high\":",
+                          "\"phase_deg\":", "\"disk_alpha\":", "\"delay_s\":"}) {
+    EXPECT_NE(r.output.find(key), std::string::npos) << key;
+  }
+  EXPECT_EQ(r.output.front(), '{');
+}
+
+TEST(Cli, DesignWithAnInfeasibleGammaExitsOneWithTheReason) {
+  const Result r = RunUpright("design --gamma 0.001 " + Models() + "courier.xml");
+  EXPECT_EQ(r.exit_code, 1) << r.output;
+  EXPECT_NE(r.output.find("design failed: H-infinity at gamma = 0.001"), std::string::npos)
+      << r.output;
+}
+
+TEST(Cli, DesignRejectsBadWeightsAsBadInput) {
+  const Result r = RunUpright("design --max-tilt-deg -1 " + Models() + "courier.xml");
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find("DesignWeights::max_tilt_deg = -1, must be > 0"), std::string::npos)
+      << r.output;
+}
+
 TEST(Cli, DemoBalancesThroughThePush) {
   const Result r = RunUpright("demo --duration-s 3");
   EXPECT_EQ(r.exit_code, 0) << r.output;

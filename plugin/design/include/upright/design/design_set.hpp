@@ -1,0 +1,65 @@
+// DesignSet: everything `upright design` reports for one robot — the linear model and, for each
+// built-in controller (LQR, H-infinity, LQG, PID), its gains, closed-loop poles, push norm and
+// margins, or the reason it could not be designed.
+#pragma once
+
+#include <string>
+
+#include "upright/design/closed_loop.hpp"
+#include "upright/design/linear_model.hpp"
+#include "upright/design/pid.hpp"
+#include "upright/design/synthesis.hpp"
+#include "upright/design/weights.hpp"
+#include "upright/model/robot_model.hpp"
+
+namespace upright::design {
+
+struct DesignRequest {
+  InputKind input = InputKind::kTorque;
+  double rate_hz = 0;           // controller sample rate; 0 = the model's control rate
+  double gamma = 0;             // H-infinity γ; 0 = gamma_factor × γ_opt
+  double gamma_factor = 1.1;    // > 1
+  double push_height_m = -1;    // < 0: at the lumped COM height
+  double push_scale_N = 0;      // w = 1 means this push; 0 = 10 % of the robot's weight
+  DesignWeights weights;
+  // True when valid; otherwise false and the first broken rule in *error.
+  bool IsValid(std::string* error) const;
+};
+
+struct ControllerReport {
+  bool ok = false;
+  std::string message = "not designed";
+  Gain K = Gain::Zero();          // continuous state feedback (LQG: its regulator)
+  Gain K_discrete = Gain::Zero(); // at the sample rate, zero-order hold (LQR, LQG)
+  LoopAnalysis loop;
+};
+
+struct HinfReport : ControllerReport {
+  double gamma = 0;
+  double gamma_opt = 0;
+};
+
+struct LqgReport : ControllerReport {
+  SensorLinearisation sensors;
+  Eigen::MatrixXd L;           // continuous Kalman–Bucy gain (for the analysis)
+  Eigen::MatrixXd L_discrete;  // discrete measurement-update gain at the sample rate
+};
+
+struct PidReport : ControllerReport {
+  PidGains gains;
+};
+
+struct DesignSet {
+  LinearModel plant;
+  DesignRequest request;  // with defaults resolved (rate, push scale, γ)
+  Performance performance;
+  ControllerReport lqr;
+  HinfReport hinf;
+  LqgReport lqg;
+  PidReport pid;
+  bool all_ok() const { return lqr.ok && hinf.ok && lqg.ok && pid.ok; }
+};
+
+DesignSet DesignAll(const RobotModel& model, const DesignRequest& request);
+
+}  // namespace upright::design

@@ -1,0 +1,168 @@
+#include "upright/design/closed_loop.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <vector>
+
+namespace upright::design {
+namespace {
+
+using Eigen::MatrixXd;
+
+// Plant with the controller's loop closed on every channel except `open` (−1: all closed), as one
+// state-space system with states [x; xc]. Its input is the plant input of channel `open` (or the
+// push w when open < 0); its output is u_c of that channel (or z).
+struct Interconnection {
+  MatrixXd A, B, C, D;
+};
+
+// The plant as the loop sees it: states the controller never reads and that act on nothing
+// (position and heading, for a controller of speed and yaw rate only) are left out, since they
+// only integrate the others and would show as spurious poles at zero.
+struct LoopPlant {
+  MatrixXd A, B, E, Q;  // Q: the performance weight on the kept states
+  Measurement meas;
+};
+
+LoopPlant Reduce(const LinearModel& plant, const Measurement& meas, const StateMatrix& Q) {
+  std::vector<int> keep;
+  for (int i = 0; i < kStates; ++i) {
+    const bool read = meas.Cy.col(i).cwiseAbs().maxCoeff() > 0;
+    const bool acts = plant.A.col(i).cwiseAbs().maxCoeff() > 0;
+    if (read || acts) keep.push_back(i);
+  }
+  const int n = static_cast<int>(keep.size());
+  LoopPlant r;
+  r.A.resize(n, n);
+  r.B.resize(n, kInputs);
+  r.E.resize(n, kDisturbances);
+  r.Q.resize(n, n);
+  r.meas.Cy.resize(meas.Cy.rows(), n);
+  r.meas.Dy = meas.Dy;
+  for (int i = 0; i < n; ++i) {
+    r.B.row(i) = plant.B.row(keep[i]);
+    r.E.row(i) = plant.E.row(keep[i]);
+    r.meas.Cy.col(i) = meas.Cy.col(keep[i]);
+    for (int j = 0; j < n; ++j) {
+      r.A(i, j) = plant.A(keep[i], keep[j]);
+      r.Q(i, j) = Q(keep[i], keep[j]);
+    }
+  }
+  return r;
+}
+
+// Solves the algebraic loop y = Cy x + Dy u_p, u_c = Cc xc + Dc y, for loop-free forms: requires
+// Dc Dy = 0 (a controller with direct feedthrough reads sensors without it, and vice versa).
+Interconnection Connect(const LoopPlant& plant, const LinearController& ctrl,
+                        const Performance* performance, int open) {
+  const Measurement& meas = plant.meas;
+  const int n = static_cast<int>(plant.A.rows()), nc = ctrl.states();
+  // u_c = Cc xc + Dc (Cy x + Dy u_p); with Dc Dy = 0: u_c = Dc Cy x + (Cc) xc + (Dc Dy = 0).
+  // The plant input u_p equals u_c except on the open channel, where it is the external v.
+  // y = Cy x + Dy u_p feeds the controller states: ẋc = Ac xc + Bc y.
+  MatrixXd select_closed = MatrixXd::Identity(kInputs, kInputs);  // picks u_c into u_p
+  MatrixXd select_open = MatrixXd::Zero(kInputs, 1);             // puts v into u_p
+  if (open >= 0) {
+    select_closed(open, open) = 0;
+    select_open(open, 0) = 1;
+  }
+  // u_c = Ux [x; xc]
+  MatrixXd Ux(kInputs, n + nc);
+  Ux << ctrl.Dc * meas.Cy, ctrl.Cc;
+  // u_p = select_closed Ux [x; xc] + select_open v
+  const MatrixXd Up = select_closed * Ux;
+  // With Dy ≠ 0 the controller state equation sees u_p through y.
+  Interconnection s;
+  s.A = MatrixXd::Zero(n + nc, n + nc);
+  s.A.topRows(n) = plant.B * Up;
+  s.A.topLeftCorner(n, n) += plant.A;
+  if (nc > 0) {
+    s.A.bottomRows(nc) = ctrl.Bc * meas.Dy * Up;
+    s.A.block(n, 0, nc, n) += ctrl.Bc * meas.Cy;
+    s.A.bottomRightCorner(nc, nc) += ctrl.Ac;
+  }
+  if (open >= 0) {
+    s.B = MatrixXd::Zero(n + nc, 1);
+    s.B.topRows(n) = plant.B * select_open;
+    if (nc > 0) s.B.bottomRows(nc) = ctrl.Bc * meas.Dy * select_open;
+    // Loop gain under negative feedback: L = −(v → u_c of the open channel).
+    s.C = -Ux.row(open);
+    s.D = MatrixXd::Zero(1, 1);
+  } else {
+    s.B = MatrixXd::Zero(n + nc, 1);
+    s.B.topRows(n) = plant.E.col(0) * performance->push_scale_N;
+    // z = [Q½ x; R½ u_p]
+    const MatrixXd q_half = plant.Q.cwiseSqrt();  // Q is diagonal (Bryson's rule)
+    const MatrixXd r_half = performance->R.cwiseSqrt();
+    s.C = MatrixXd::Zero(n + kInputs, n + nc);
+    s.C.topLeftCorner(n, n) = q_half;
+    s.C.bottomRows(kInputs) = r_half * Up;
+    s.D = MatrixXd::Zero(n + kInputs, 1);
+  }
+  return s;
+}
+
+}  // namespace
+
+Measurement FullState() {
+  return {MatrixXd::Identity(kStates, kStates), MatrixXd::Zero(kStates, kInputs)};
+}
+
+LinearController StateFeedback(const Eigen::Matrix<double, kInputs, kStates>& K) {
+  LinearController c;
+  c.Ac = MatrixXd::Zero(0, 0);
+  c.Bc = MatrixXd::Zero(0, kStates);
+  c.Cc = MatrixXd::Zero(kInputs, 0);
+  c.Dc = -K;
+  return c;
+}
+
+LoopAnalysis AnalyseLoop(const LinearModel& plant, const Measurement& meas,
+                         const LinearController& ctrl, const Performance& performance) {
+  LoopAnalysis out;
+  if (ctrl.Dc.size() > 0 && meas.Dy.size() > 0 && (ctrl.Dc * meas.Dy).norm() > 0) {
+    out.message = "controller feedthrough on a sensor that feels the input (an algebraic loop)";
+    return out;
+  }
+  const LoopPlant reduced = Reduce(plant, meas, performance.Q);
+  const Interconnection closed = Connect(reduced, ctrl, &performance, -1);
+  const Eigen::VectorXcd eig = closed.A.eigenvalues();
+  out.poles.assign(eig.data(), eig.data() + eig.size());
+  std::sort(out.poles.begin(), out.poles.end(), [](auto a, auto b) {
+    return a.real() != b.real() ? a.real() < b.real() : a.imag() < b.imag();
+  });
+  const double worst = out.poles.empty() ? -1 : out.poles.back().real();
+  if (!(worst < 0)) {
+    out.push_norm = std::numeric_limits<double>::infinity();
+    out.message = "closed loop unstable: pole at " + std::to_string(out.poles.back().real()) +
+                  (out.poles.back().imag() != 0
+                       ? (" + " + std::to_string(std::abs(out.poles.back().imag())) + "i")
+                       : std::string());
+    return out;
+  }
+  const NormResult norm = HinfNorm({closed.A, closed.B, closed.C, closed.D});
+  out.push_norm = norm.norm;
+  for (int j = 0; j < kInputs; ++j) {
+    const Interconnection loop = Connect(reduced, ctrl, nullptr, j);
+    out.channel_margins.push_back(SisoMargins({loop.A, loop.B, loop.C, loop.D}));
+  }
+  const LoopMargins& l = out.channel_margins[0];
+  const LoopMargins& r = out.channel_margins[1];
+  LoopMargins& w = out.margins;
+  w.gain_low = std::max(l.gain_low, r.gain_low);
+  w.gain_high = std::min(l.gain_high, r.gain_high);
+  w.phase_deg = std::min(l.phase_deg, r.phase_deg);
+  w.disk_alpha = std::min(l.disk_alpha, r.disk_alpha);
+  w.disk_gain_low = std::max(l.disk_gain_low, r.disk_gain_low);
+  w.disk_gain_high = std::min(l.disk_gain_high, r.disk_gain_high);
+  w.disk_phase_deg = std::min(l.disk_phase_deg, r.disk_phase_deg);
+  w.delay_s = std::min(l.delay_s, r.delay_s);
+  w.ok = l.ok && r.ok && norm.ok;
+  w.message = !l.ok ? l.message : !r.ok ? r.message : norm.ok ? "ok" : norm.message;
+  out.ok = w.ok;
+  out.message = w.message;
+  return out;
+}
+
+}  // namespace upright::design

@@ -1,0 +1,142 @@
+#include "upright/design/design_set.hpp"
+
+#include <cmath>
+#include <sstream>
+
+#include "upright/model/conventions.hpp"
+
+namespace upright::design {
+namespace {
+
+// Process noise the LQG filter assumes (tuning defaults; common practice): a push disturbance of
+// 5 % of the robot's weight and a pitch torque of 5 % of the gravity torque of its COM at 10 cm,
+// per control sample.
+ProcessNoise DefaultProcessNoise(const LinearModel& plant, double total_mass_kg) {
+  ProcessNoise noise;
+  noise.push_sigma_N = 0.05 * total_mass_kg * kStandardGravity_m_s2;
+  noise.torque_sigma_Nm = 0.05 * plant.body.mass_kg * kStandardGravity_m_s2 * 0.1;
+  return noise;
+}
+
+void Finish(ControllerReport* report, const LinearModel& plant, const Measurement& meas,
+            const LinearController& ctrl, const Performance& perf) {
+  report->loop = AnalyseLoop(plant, meas, ctrl, perf);
+  report->ok = report->loop.ok;
+  report->message = report->loop.message;
+}
+
+}  // namespace
+
+bool DesignRequest::IsValid(std::string* error) const {
+  std::ostringstream why;
+  if (!(rate_hz >= 0) || !std::isfinite(rate_hz)) {
+    why << "DesignRequest::rate_hz = " << rate_hz << ", must be > 0 (or 0 for the model's)";
+  } else if (!(gamma >= 0) || !std::isfinite(gamma)) {
+    why << "DesignRequest::gamma = " << gamma << ", must be > 0 (or 0 for " << gamma_factor
+        << " x gamma_opt)";
+  } else if (!(gamma_factor > 1) || !std::isfinite(gamma_factor)) {
+    why << "DesignRequest::gamma_factor = " << gamma_factor << ", must be > 1";
+  } else if (!(push_scale_N >= 0) || !std::isfinite(push_scale_N)) {
+    why << "DesignRequest::push_scale_N = " << push_scale_N << ", must be >= 0";
+  } else if (!std::isfinite(push_height_m)) {
+    why << "DesignRequest::push_height_m = " << push_height_m << ", must be finite";
+  } else {
+    std::string weights_error;
+    if (!weights.IsValid(&weights_error)) why << weights_error;
+  }
+  if (why.tellp() == 0) return true;
+  if (error) *error = why.str();
+  return false;
+}
+
+DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
+  DesignSet set;
+  set.request = request;
+  DesignRequest& req = set.request;
+  if (req.rate_hz == 0) req.rate_hz = model.control_rate_hz;
+  set.plant = Linearise(model, req.input, req.push_height_m);
+  const LinearModel& plant = set.plant;
+  const double total_mass_kg = model.chassis.mass_kg + 2 * model.wheel.mass_kg +
+                               (model.payload.present ? model.payload.mass_kg : 0.0);
+  if (req.push_scale_N == 0) req.push_scale_N = 0.1 * total_mass_kg * kStandardGravity_m_s2;
+  const double period_s = 1 / req.rate_hz;
+  Performance& perf = set.performance;
+  perf.Q = StateWeight(req.weights);
+  perf.R = InputWeight(req.weights, model, req.input);
+  perf.push_scale_N = req.push_scale_N;
+
+  // LQR.
+  const GainResult lqr = RobotLqr(plant, perf.Q, perf.R);
+  const GainResult lqr_d = RobotDiscreteLqr(plant, perf.Q, perf.R, period_s);
+  if (lqr.ok() && lqr_d.ok()) {
+    set.lqr.K = lqr.K;
+    set.lqr.K_discrete = lqr_d.K;
+    Finish(&set.lqr, plant, FullState(), StateFeedback(lqr.K), perf);
+  } else {
+    set.lqr.message = lqr.ok() ? lqr_d.message : lqr.message;
+  }
+
+  // H-infinity state feedback at γ = factor × γ_opt, or the γ asked for.
+  const GammaSearch search = RobotOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N);
+  set.hinf.gamma_opt = search.gamma_opt;
+  if (!search.ok()) {
+    set.hinf.message = search.message;
+  } else {
+    if (req.gamma == 0) req.gamma = req.gamma_factor * search.gamma_opt;
+    set.hinf.gamma = req.gamma;
+    const GainResult hinf = RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, req.gamma);
+    if (hinf.ok()) {
+      set.hinf.K = hinf.K;
+      Finish(&set.hinf, plant, FullState(), StateFeedback(hinf.K), perf);
+      if (set.hinf.ok && !(set.hinf.loop.push_norm < req.gamma)) {
+        set.hinf.ok = false;
+        std::ostringstream why;
+        why << "H-infinity: closed-loop norm " << set.hinf.loop.push_norm
+            << " is not below gamma = " << req.gamma;
+        set.hinf.message = why.str();
+      }
+    } else {
+      std::ostringstream why;
+      why << hinf.message << " (gamma_opt = " << search.gamma_opt << ")";
+      set.hinf.message = why.str();
+    }
+  }
+
+  // LQG: the LQR regulator on a Kalman estimate from the model's sensors.
+  set.lqg.sensors = LineariseSensors(model, plant);
+  const ProcessNoise noise = DefaultProcessNoise(plant, total_mass_kg);
+  const KalmanResult kb = RobotKalmanBucy(plant, set.lqg.sensors, noise, period_s);
+  const KalmanResult kd = RobotDiscreteKalman(plant, set.lqg.sensors, noise, period_s);
+  if (!lqr.ok() || !lqr_d.ok()) {
+    set.lqg.message = "LQG needs the LQR regulator: " + set.lqr.message;
+  } else if (!kb.ok() || !kd.ok()) {
+    set.lqg.message = kb.ok() ? kd.message : kb.message;
+  } else {
+    set.lqg.K = lqr.K;
+    set.lqg.K_discrete = lqr_d.K;
+    set.lqg.L = kb.L;
+    set.lqg.L_discrete = kd.L;
+    // x̂̇ = A x̂ + B u + L (y − C x̂ − D u), u = −K x̂.
+    const SensorLinearisation& s = set.lqg.sensors;
+    LinearController ctrl;
+    ctrl.Ac = plant.A - plant.B * lqr.K - kb.L * s.C + kb.L * s.D * lqr.K;
+    ctrl.Bc = kb.L;
+    ctrl.Cc = -lqr.K;
+    ctrl.Dc = Eigen::MatrixXd::Zero(kInputs, s.C.rows());
+    Finish(&set.lqg, plant, Measurement{s.C, s.D}, ctrl, perf);
+  }
+
+  // PID cascade (torque based: its gains are wheel torques per unit error).
+  if (req.input != InputKind::kTorque) {
+    set.pid.message = "the PID cascade is tuned for torque input only";
+  } else {
+    set.pid.gains = TunePid(plant, req.weights.max_tilt_deg);
+    Measurement meas;
+    LinearController ctrl;
+    PidAsLinearController(set.pid.gains, &meas, &ctrl);
+    Finish(&set.pid, plant, meas, ctrl, perf);
+  }
+  return set;
+}
+
+}  // namespace upright::design

@@ -1,0 +1,102 @@
+#include <cmath>
+
+#include "upright/design/synthesis.hpp"
+#include "upright/model/conventions.hpp"
+
+namespace upright::design {
+namespace {
+
+using Eigen::MatrixXd;
+
+// Variance of uniform quantisation with step q: q² / 12 (Widrow, quantisation noise model;
+// handbook, from memory).
+double QuantisationVariance(double step) { return step * step / 12; }
+
+// Disturbance input matrix of the push and pitch torque, and their per-sample covariance plus the
+// floor on every state.
+MatrixXd DiscreteProcessNoise(const LinearModel& plant, const ProcessNoise& noise,
+                              double period_s) {
+  MatrixXd Ad, Gd;
+  DiscretiseZoh(plant.A, plant.E, period_s, &Ad, &Gd);
+  const Eigen::Vector2d variance(noise.push_sigma_N * noise.push_sigma_N,
+                                 noise.torque_sigma_Nm * noise.torque_sigma_Nm);
+  return Gd * variance.asDiagonal() * Gd.transpose() +
+         noise.floor * MatrixXd::Identity(kStates, kStates);
+}
+
+}  // namespace
+
+SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel& plant) {
+  const SensorModel& s = model.sensors;
+  const double r = model.wheel.radius_m, half_track = model.wheel.track_m / 2;
+  const double g = kStandardGravity_m_s2;
+  const double count_rad = 2 * kPi / s.encoder_counts_per_rev;
+  // A sampled white-noise density N gives σ² = N² f_s per sample (as the plant samples it).
+  const double gyro_var = s.gyro_noise_rad_s_rthz * s.gyro_noise_rad_s_rthz * s.imu_rate_hz +
+                          QuantisationVariance(s.gyro_resolution_rad_s);
+  const double accel_var = s.accel_noise_m_s2_rthz * s.accel_noise_m_s2_rthz * s.imu_rate_hz +
+                           QuantisationVariance(s.accel_resolution_m_s2);
+  SensorLinearisation out;
+  constexpr int m = SensorLinearisation::kMeasurements;
+  out.C = MatrixXd::Zero(m, kStates);
+  out.D = MatrixXd::Zero(m, kInputs);
+  Eigen::Matrix<double, m, 1> variance;
+  // Mean encoder angle relative to the chassis: x / r − θ.
+  out.C(0, kX) = 1 / r;
+  out.C(0, kPitch) = -1;
+  variance(0) = QuantisationVariance(count_rad) / 2;
+  // Gyro pitch rate.
+  out.C(1, kPitchRate) = 1;
+  variance(1) = gyro_var;
+  // Heading from the encoder difference: r (φ_R − φ_L) / (2 d).
+  out.C(2, kYaw) = 1;
+  variance(2) = 2 * QuantisationVariance(count_rad) * (r / (2 * half_track)) * (r / (2 * half_track));
+  // Gyro yaw rate.
+  out.C(3, kYawRate) = 1;
+  variance(3) = gyro_var;
+  // Accelerometer tilt: f_x / g ≈ θ + (ẍ + h θ̈) / g at an IMU h above the axle.
+  const double h = s.imu_z_m;
+  out.C.row(4) = (plant.A.row(kXDot) + h * plant.A.row(kPitchRate)) / g;
+  out.C(4, kPitch) += 1;
+  out.D.row(4) = (plant.B.row(kXDot) + h * plant.B.row(kPitchRate)) / g;
+  variance(4) = accel_var / (g * g);
+  // A floor keeps the filter well posed for ideal sensors.
+  out.Rv = variance.cwiseMax(1e-12).asDiagonal();
+  return out;
+}
+
+namespace {
+
+KalmanResult FromGain(const GainResult& gain, Eigen::MatrixXd P) {
+  KalmanResult out;
+  out.failure = gain.failure;
+  out.message = gain.message;
+  if (gain.ok()) {
+    out.L = gain.K;
+    out.P = std::move(P);
+  }
+  return out;
+}
+
+}  // namespace
+
+KalmanResult RobotDiscreteKalman(const LinearModel& plant, const SensorLinearisation& sensors,
+                                 const ProcessNoise& noise, double period_s) {
+  MatrixXd Ad, Bd, P;
+  DiscretiseZoh(plant.A, plant.B, period_s, &Ad, &Bd);
+  const GainResult gain = DiscreteKalmanGain(
+      Ad, sensors.C, DiscreteProcessNoise(plant, noise, period_s), sensors.Rv, &P);
+  return FromGain(gain, P);
+}
+
+KalmanResult RobotKalmanBucy(const LinearModel& plant, const SensorLinearisation& sensors,
+                             const ProcessNoise& noise, double period_s) {
+  // Per-sample variances σ² over a period T are white-noise intensities σ² T.
+  MatrixXd P;
+  const GainResult gain =
+      KalmanBucyGain(plant.A, sensors.C, DiscreteProcessNoise(plant, noise, period_s) / period_s,
+                     sensors.Rv * period_s, &P);
+  return FromGain(gain, P);
+}
+
+}  // namespace upright::design

@@ -1,0 +1,254 @@
+// Continuous algebraic Riccati equation: Schur method on the Hamiltonian with Newton–Kleinman
+// refinement, and the scaled matrix sign function as an independent second method. Both run the
+// same checks on the way in and on the candidate they produce.
+#include <Eigen/Dense>
+#include <cmath>
+#include <complex>
+#include <limits>
+#include <string>
+
+#include "riccati_common.hpp"
+#include "schur_reorder.hpp"
+#include "upright/design/riccati.hpp"
+
+namespace upright::design {
+namespace {
+
+using internal::FormatComplex;
+using internal::FormatNumber;
+using internal::RiccatiProblem;
+
+constexpr double kEpsilon = std::numeric_limits<double>::epsilon();
+// Newton–Kleinman steps tried after the subspace method; each is kept only if it lowers the
+// residual.
+constexpr int kRefinementSteps = 2;
+// A candidate X whose antisymmetric part exceeds this share of ‖X‖ did not come from a
+// Lagrangian subspace and is rejected.
+constexpr double kAsymmetryTolerance = 1e-6;
+// Sign iteration: at most this many steps; determinant scaling stops once the relative change
+// falls below kSignScalingOff; converged at kSignTolerance or when the change stops shrinking.
+constexpr int kSignMaxIterations = 100;
+constexpr double kSignScalingOff = 1e-2;
+constexpr double kSignTolerance = 1e-14;
+
+// The Hamiltonian [Ā, −αG; −Q̄/α, −Āᵀ] of the scaled unknown Y = X/α. α = √(‖Q̄‖/‖G‖) balances
+// the two off-diagonal blocks; the scaling is a similarity, so the eigenvalues are those of the
+// unscaled Hamiltonian.
+struct ScaledHamiltonian {
+  Eigen::MatrixXd H;
+  double alpha = 1;
+};
+
+ScaledHamiltonian BuildHamiltonian(const RiccatiProblem& problem) {
+  const Eigen::Index n = problem.A.rows();
+  ScaledHamiltonian result;
+  const double g_norm = problem.G.norm();
+  const double q_norm = problem.Q_bar.norm();
+  if (g_norm > 0 && q_norm > 0) result.alpha = std::sqrt(q_norm / g_norm);
+  result.H.resize(2 * n, 2 * n);
+  result.H << problem.A_bar, -result.alpha * problem.G, -problem.Q_bar / result.alpha,
+      -problem.A_bar.transpose();
+  return result;
+}
+
+// True, with a message, when an eigenvalue of the Hamiltonian lies within kBoundaryTolerance·‖H‖_F
+// of the imaginary axis: then no stabilising solution exists.
+bool OnImaginaryAxis(const Eigen::VectorXcd& eigenvalues, double h_norm, std::string* message) {
+  Eigen::Index index = 0;
+  const double closest = eigenvalues.real().cwiseAbs().minCoeff(&index);
+  if (closest > internal::kBoundaryTolerance * h_norm) return false;
+  *message = "Hamiltonian eigenvalue " + FormatComplex(eigenvalues(index)) +
+             " lies on the imaginary axis (|Re λ| ≤ " + FormatNumber(internal::kBoundaryTolerance) +
+             "·‖H‖_F = " + FormatNumber(internal::kBoundaryTolerance * h_norm) +
+             "): no stabilising solution";
+  return true;
+}
+
+// Checks every CARE solver runs before it starts: valid input and a stabilisable pair.
+bool PrepareCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, const Eigen::MatrixXd& Q,
+                 const Eigen::MatrixXd& R, const Eigen::MatrixXd& S, RiccatiProblem* problem,
+                 RiccatiResult* result) {
+  std::string message;
+  if (!internal::PrepareRiccatiProblem(A, B, Q, R, S, "CARE", problem, &message)) {
+    *result = internal::Fail(*result, SolveFailure::kInvalidInput, message);
+    return false;
+  }
+  if (internal::FindUnstabilisableMode(problem->A, problem->B, false, &message)) {
+    *result = internal::Fail(*result, SolveFailure::kNotStabilisable, message);
+    return false;
+  }
+  return true;
+}
+
+// Newton–Kleinman: with A_c = A − B K(X), the correction Δ solves A_cᵀΔ + ΔA_c + res(X) = 0.
+// A step is kept only when it lowers the relative residual.
+Eigen::MatrixXd RefineCare(const RiccatiProblem& problem, Eigen::MatrixXd X) {
+  Eigen::MatrixXd residual;
+  double relative = internal::CareResidual(problem, X, &residual);
+  for (int step = 0; step < kRefinementSteps; ++step) {
+    const Eigen::MatrixXd closed_loop = problem.A - problem.B * internal::CareGain(problem, X);
+    const LyapunovResult correction = SolveLyapunov(closed_loop.transpose(), residual);
+    if (!correction.ok()) break;
+    Eigen::MatrixXd candidate = X + correction.X;
+    candidate = 0.5 * (candidate + candidate.transpose()).eval();
+    Eigen::MatrixXd candidate_residual;
+    const double candidate_relative =
+        internal::CareResidual(problem, candidate, &candidate_residual);
+    if (!(candidate_relative < relative)) break;
+    X = std::move(candidate);
+    residual = std::move(candidate_residual);
+    relative = candidate_relative;
+  }
+  return X;
+}
+
+// The checks on a candidate: symmetry, then (after refinement when asked for) the residual, a
+// Hurwitz closed loop, and X ≥ 0 when required.
+enum class Refinement { kNone, kNewton };
+
+RiccatiResult ValidateCare(const RiccatiProblem& problem, Eigen::MatrixXd X, Refinement refinement,
+                           const RiccatiOptions& options, RiccatiResult result) {
+  const double asymmetry = (X - X.transpose()).norm();
+  if (!(asymmetry <= kAsymmetryTolerance * X.norm())) {
+    return internal::Fail(result, SolveFailure::kIllConditioned,
+                          "the candidate X is not symmetric (‖X − Xᵀ‖_F = " +
+                              FormatNumber(asymmetry) + ", ‖X‖_F = " + FormatNumber(X.norm()) +
+                              "): the stable subspace was not computed reliably");
+  }
+  X = 0.5 * (X + X.transpose()).eval();
+  if (refinement == Refinement::kNewton) X = RefineCare(problem, X);
+  result.X = X;
+  Eigen::MatrixXd residual;
+  result.relative_residual = internal::CareResidual(problem, X, &residual);
+  if (!(result.relative_residual <= options.residual_tolerance)) {
+    return internal::Fail(result, SolveFailure::kResidualTooLarge,
+                          "relative residual " + FormatNumber(result.relative_residual) +
+                              " exceeds the tolerance " + FormatNumber(options.residual_tolerance));
+  }
+  const Eigen::MatrixXd closed_loop = problem.A - problem.B * internal::CareGain(problem, X);
+  const std::complex<double> rightmost = internal::RightmostEigenvalue(closed_loop);
+  if (!(rightmost.real() < 0)) {
+    return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
+                          "closed loop A − BK has the eigenvalue " + FormatComplex(rightmost) +
+                              ", not in the open left half-plane: X is not stabilising");
+  }
+  std::string message;
+  if (options.require_psd && internal::IsClearlyIndefinite(X, &message)) {
+    return internal::Fail(result, SolveFailure::kNotPositiveSemidefinite, message);
+  }
+  result.failure = SolveFailure::kNone;
+  result.message = "ok";
+  return result;
+}
+
+// σ_min/σ_max of a (non-empty) basis matrix; 0 when the matrix vanishes.
+double ReciprocalCondition(const Eigen::MatrixXcd& matrix) {
+  const Eigen::VectorXd sigma = Eigen::JacobiSVD<Eigen::MatrixXcd>(matrix).singularValues();
+  return sigma(0) > 0 ? sigma(sigma.size() - 1) / sigma(0) : 0;
+}
+
+}  // namespace
+
+RiccatiResult SolveCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                        const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
+                        const Eigen::MatrixXd& S, const RiccatiOptions& options) {
+  RiccatiResult result;
+  RiccatiProblem problem;
+  if (!PrepareCare(A, B, Q, R, S, &problem, &result)) return result;
+  const Eigen::Index n = problem.A.rows();
+
+  const ScaledHamiltonian hamiltonian = BuildHamiltonian(problem);
+  Eigen::ComplexSchur<Eigen::MatrixXcd> schur(hamiltonian.H.cast<std::complex<double>>());
+  if (schur.info() != Eigen::Success) {
+    return internal::Fail(result, SolveFailure::kIllConditioned,
+                          "the Schur decomposition of the Hamiltonian did not converge");
+  }
+  Eigen::MatrixXcd T = schur.matrixT();
+  Eigen::MatrixXcd U = schur.matrixU();
+  std::string message;
+  if (OnImaginaryAxis(T.diagonal(), hamiltonian.H.norm(), &message)) {
+    return internal::Fail(result, SolveFailure::kNoStabilisingSolution, message);
+  }
+  const Eigen::Index stable =
+      internal::ReorderSchur(&T, &U, [](std::complex<double> z) { return z.real() < 0; });
+  if (stable != n) {
+    return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
+                          "the Hamiltonian has " + std::to_string(stable) +
+                              " eigenvalues in the open left half-plane, expected " +
+                              std::to_string(n));
+  }
+
+  // The stable subspace is spanned by [U11; U21] = [I; Y] U11, so Y = U21 U11⁻¹.
+  const Eigen::MatrixXcd u11 = U.topLeftCorner(n, n);
+  const Eigen::MatrixXcd u21 = U.bottomLeftCorner(n, n);
+  const double rcond = ReciprocalCondition(u11);
+  if (!(rcond > internal::kRcondTolerance)) {
+    return internal::Fail(result, SolveFailure::kIllConditioned,
+                          "the stable-subspace basis U11 has rcond " + FormatNumber(rcond) +
+                              ", singular to working precision: X would be unbounded");
+  }
+  const Eigen::MatrixXcd y_transpose = u11.transpose().partialPivLu().solve(u21.transpose());
+  const Eigen::MatrixXd X = hamiltonian.alpha * y_transpose.transpose().real();
+  return ValidateCare(problem, X, Refinement::kNewton, options, result);
+}
+
+RiccatiResult SolveCareBySign(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                              const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
+                              const Eigen::MatrixXd& S, const RiccatiOptions& options) {
+  RiccatiResult result;
+  RiccatiProblem problem;
+  if (!PrepareCare(A, B, Q, R, S, &problem, &result)) return result;
+  const Eigen::Index n = problem.A.rows();
+  const Eigen::Index size = 2 * n;
+
+  const ScaledHamiltonian hamiltonian = BuildHamiltonian(problem);
+  std::string message;
+  if (OnImaginaryAxis(hamiltonian.H.eigenvalues(), hamiltonian.H.norm(), &message)) {
+    return internal::Fail(result, SolveFailure::kNoStabilisingSolution, message);
+  }
+
+  // Z ← ½(cZ + (cZ)⁻¹) with c = |det Z|^(−1/2n) until the step stops changing Z.
+  Eigen::MatrixXd Z = hamiltonian.H;
+  bool scaling = true;
+  bool converged = false;
+  double previous_change = std::numeric_limits<double>::infinity();
+  for (int iteration = 0; iteration < kSignMaxIterations && !converged; ++iteration) {
+    const Eigen::PartialPivLU<Eigen::MatrixXd> lu(Z);
+    double c = 1;
+    if (scaling) {
+      const double log_det = lu.matrixLU().diagonal().cwiseAbs().array().log().sum();
+      c = std::exp(-log_det / static_cast<double>(size));
+    }
+    if (!std::isfinite(c) || !(lu.rcond() > kEpsilon)) {
+      return internal::Fail(
+          result, SolveFailure::kIllConditioned,
+          "the sign iteration met a singular iterate (rcond " + FormatNumber(lu.rcond()) + ")");
+    }
+    const Eigen::MatrixXd next = 0.5 * (c * Z + lu.inverse() / c);
+    const double change = (next - Z).lpNorm<1>() / next.lpNorm<1>();
+    Z = next;
+    if (change < kSignScalingOff) scaling = false;
+    converged = change <= kSignTolerance || (!scaling && change >= previous_change);
+    previous_change = change;
+  }
+  if (!converged) {
+    return internal::Fail(
+        result, SolveFailure::kIllConditioned,
+        "the sign iteration did not converge in " + std::to_string(kSignMaxIterations) + " steps");
+  }
+
+  // (W + I) [I; Y] = 0 on the stable subspace: [W12; W22 + I] Y = −[W11 + I; W21].
+  Eigen::MatrixXd lhs(size, n), rhs(size, n);
+  lhs << Z.topRightCorner(n, n), Z.bottomRightCorner(n, n) + Eigen::MatrixXd::Identity(n, n);
+  rhs << Z.topLeftCorner(n, n) + Eigen::MatrixXd::Identity(n, n), Z.bottomLeftCorner(n, n);
+  const double rcond = ReciprocalCondition(lhs.cast<std::complex<double>>());
+  if (!(rcond > internal::kRcondTolerance)) {
+    return internal::Fail(result, SolveFailure::kIllConditioned,
+                          "[W12; W22 + I] from the sign function is rank deficient (rcond " +
+                              FormatNumber(rcond) + "): X would be unbounded");
+  }
+  const Eigen::MatrixXd X = hamiltonian.alpha * lhs.colPivHouseholderQr().solve(-rhs);
+  return ValidateCare(problem, X, Refinement::kNone, options, result);
+}
+
+}  // namespace upright::design

@@ -1,0 +1,51 @@
+#include "upright/design/weights.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <sstream>
+
+#include "upright/model/conventions.hpp"
+
+namespace upright::design {
+
+bool DesignWeights::IsValid(std::string* error) const {
+  const std::pair<const char*, double> positive[] = {
+      {"max_drift_m", max_drift_m},         {"max_speed_m_s", max_speed_m_s},
+      {"max_tilt_deg", max_tilt_deg},       {"max_tilt_rate_deg_s", max_tilt_rate_deg_s},
+      {"max_yaw_deg", max_yaw_deg},         {"max_yaw_rate_deg_s", max_yaw_rate_deg_s}};
+  std::ostringstream why;
+  for (const auto& [name, value] : positive) {
+    if (!(value > 0) || !std::isfinite(value)) {
+      why << "DesignWeights::" << name << " = " << value << ", must be > 0";
+      break;
+    }
+  }
+  if (why.tellp() == 0 && !(max_input_fraction > 0 && max_input_fraction <= 1)) {
+    why << "DesignWeights::max_input_fraction = " << max_input_fraction << ", must be in (0, 1]";
+  }
+  if (why.tellp() == 0) return true;
+  if (error) *error = why.str();
+  return false;
+}
+
+double InputLimit(const RobotModel& model, InputKind input) {
+  const MotorModel& m = model.motor;
+  if (input == InputKind::kVoltage) return m.supply_V;
+  return m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A *
+         std::min(m.supply_V / m.resistance_ohm, m.current_limit_A);
+}
+
+StateMatrix StateWeight(const DesignWeights& w) {
+  const double deg = kPi / 180;
+  StateVector max;
+  max << w.max_drift_m, w.max_speed_m_s, w.max_tilt_deg * deg, w.max_tilt_rate_deg_s * deg,
+      w.max_yaw_deg * deg, w.max_yaw_rate_deg_s * deg;
+  return max.cwiseProduct(max).cwiseInverse().asDiagonal();
+}
+
+Eigen::Matrix2d InputWeight(const DesignWeights& w, const RobotModel& model, InputKind input) {
+  const double max = w.max_input_fraction * InputLimit(model, input);
+  return Eigen::Matrix2d::Identity() / (max * max);
+}
+
+}  // namespace upright::design

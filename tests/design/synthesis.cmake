@@ -1,0 +1,7 @@
+# Linear model and controller synthesis tests.
+upright_test(upright_linear_model_test
+  SOURCES linear_model_test.cpp
+  LIBS upright::design upright::sim upright::model)
+upright_test(upright_synthesis_test
+  SOURCES synthesis_test.cpp
+  LIBS upright::design upright::sim upright::model)
