@@ -1,0 +1,140 @@
+// The controller host: modules run at their rate with the command held between ticks; outputs
+// left unwritten or non-finite, error statuses and exceptions become recorded faults, and other
+// runs go on.
+#include <gtest/gtest.h>
+
+#include <cmath>
+
+#include "upright/host/controller_host.hpp"
+#include "upright/model/model_file.hpp"
+
+namespace upright::host {
+namespace {
+
+RobotModel Courier() {
+  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  EXPECT_TRUE(loaded.ok());
+  return loaded.model;
+}
+
+std::shared_ptr<Module> Load(const std::string& name) {
+  std::string error;
+  auto module = Module::Load(std::string(UPRIGHT_TEST_MODULE_DIR) + "/" + name + ".so", &error);
+  EXPECT_NE(module, nullptr) << error;
+  return module;
+}
+
+struct HostRun {
+  std::unique_ptr<ControllerHost> host;
+  std::unique_ptr<sim::Plant> plant;
+  long steps_done = 0;
+  bool faulted = false;
+};
+
+// Creates host and plant for `module` and runs up to `steps` physics steps, stopping at a fault.
+HostRun RunModule(const std::string& module, long steps, ControllerSpec spec = {}) {
+  HostRun run;
+  const RobotModel model = Courier();
+  spec.module = Load(module);
+  sim::PlantOptions options;
+  std::string error;
+  run.host = ControllerHost::Create(spec, model, options.dt_s, &error);
+  EXPECT_NE(run.host, nullptr) << error;
+  if (!run.host) return run;
+  options.drive = run.host->drive();
+  run.plant = sim::Plant::Create(model, options, &error);
+  EXPECT_NE(run.plant, nullptr) << error;
+  for (; run.steps_done < steps; ++run.steps_done) {
+    if (!run.host->Tick(*run.plant, Reference{})) {
+      run.faulted = true;
+      break;
+    }
+    run.plant->Step();
+  }
+  return run;
+}
+
+TEST(ControllerHost, StepsAtTheControllerRateAndHoldsTheCommand) {
+  // The courier's control rate is 200 Hz with 1 ms physics steps: a tick every 5 steps.
+  const HostRun run = RunModule("faulty_0", 50);
+  ASSERT_FALSE(run.faulted) << run.host->fault();
+  EXPECT_EQ(run.host->period_steps(), 5);
+  EXPECT_EQ(run.host->drive(), sim::DriveMode::kTorque);
+  ASSERT_EQ(run.host->diagnostic_names().size(), 1u);
+  EXPECT_EQ(run.host->diagnostic_names()[0], "ticks");
+  EXPECT_EQ(run.host->diagnostics()[0], 10.0);  // steps 0, 5, ..., 45
+}
+
+TEST(ControllerHost, AnOptionalRateOverridesTheRobots) {
+  ControllerSpec spec;
+  spec.rate_hz = 100;
+  const HostRun run = RunModule("faulty_0", 50, spec);
+  EXPECT_EQ(run.host->period_steps(), 10);
+  EXPECT_EQ(run.host->diagnostics()[0], 5.0);
+}
+
+TEST(ControllerHost, RejectsARateThatIsNoWholeNumberOfSteps) {
+  ControllerSpec spec;
+  spec.module = Load("faulty_0");
+  spec.rate_hz = 300;
+  std::string error;
+  EXPECT_EQ(ControllerHost::Create(spec, Courier(), 0.001, &error), nullptr);
+  EXPECT_NE(error.find("rate_hz = 300 must give a period of a whole number"), std::string::npos)
+      << error;
+}
+
+TEST(ControllerHost, AModuleThatRefusesItsConfigurationIsReportedAtCreate) {
+  ControllerSpec spec;
+  spec.module = Load("faulty_5");
+  std::string error;
+  EXPECT_EQ(ControllerHost::Create(spec, Courier(), 0.001, &error), nullptr);
+  EXPECT_NE(error.find("create failed (status 2): gain = banana: must be a number"),
+            std::string::npos)
+      << error;
+}
+
+TEST(ControllerHost, AnUnwrittenOutputIsAFault) {
+  const HostRun run = RunModule("faulty_1", 100);
+  EXPECT_TRUE(run.faulted);
+  EXPECT_EQ(run.steps_done, 0);
+  EXPECT_EQ(run.host->fault(),
+            "controller 'faulty' returned a non-finite right command (NaN: left unwritten?)");
+}
+
+TEST(ControllerHost, AnInfiniteCommandIsAFault) {
+  const HostRun run = RunModule("faulty_6", 100);
+  EXPECT_TRUE(run.faulted);
+  EXPECT_EQ(run.host->fault(), "controller 'faulty' returned a non-finite left command (infinite)");
+}
+
+TEST(ControllerHost, AnErrorStatusIsAFaultWithTheModulesMessageAndTime) {
+  const HostRun run = RunModule("faulty_2", 100);
+  EXPECT_TRUE(run.faulted);
+  EXPECT_EQ(run.steps_done, 10);  // third tick: steps 0, 5, 10
+  EXPECT_DOUBLE_EQ(run.host->fault_time_s(), 0.010);
+  EXPECT_EQ(run.host->fault(),
+            "controller 'faulty' step failed (status 1): estimator diverged at tick 3");
+}
+
+TEST(ControllerHost, AnExceptionThrownThroughTheAbiIsAFaultAndLaterRunsGoOn) {
+  const HostRun bad = RunModule("throwing", 100);
+  EXPECT_TRUE(bad.faulted);
+  EXPECT_EQ(bad.host->fault(), "controller 'throwing' threw an exception: matrix not invertible");
+  // The plant's motors are switched off at the fault.
+  EXPECT_EQ(bad.plant->motors()[0].wheel_torque_Nm, 0.0);
+  const HostRun good = RunModule("faulty_0", 100);
+  EXPECT_FALSE(good.faulted);
+  EXPECT_EQ(good.steps_done, 100);
+}
+
+TEST(ControllerHost, ResetClearsAFaultAndRestartsTheModule) {
+  HostRun run = RunModule("faulty_2", 100);
+  ASSERT_TRUE(run.faulted);
+  std::string error;
+  ASSERT_TRUE(run.host->Reset(&error)) << error;
+  EXPECT_FALSE(run.host->faulted());
+  EXPECT_TRUE(run.host->Tick(*run.plant, Reference{}) || run.plant->step_count() % 5 != 0);
+}
+
+}  // namespace
+}  // namespace upright::host
