@@ -71,6 +71,22 @@ TEST(Sensor, AccelerometerReadsPlusGStandingStillOnFlatGround) {
   EXPECT_NEAR(Mean(ay), 0, 0.002 * kG);
 }
 
+TEST(Sensor, AccelerometerReadsMinusGSineThetaOnXHeldTiltedForward) {
+  // Held still, tilted forward by θ on the stand: the specific force is +g up in the world, which
+  // in the body frame is (−g sin θ, 0, g cos θ) (rotation about +y; conventions.hpp), so a tilt
+  // estimate is atan2(−f_x, f_z). Exact sensors, so to round-off.
+  PlantOptions options = OnTheStand(false);
+  const double theta = 0.2;
+  options.initial.pitch_rad = theta;
+  auto plant = MakePlant(MakeTestRobot(), options);
+  ASSERT_NE(plant, nullptr);
+  for (int k = 0; k < 10; ++k) plant->Step();
+  const SensorSample s = plant->Sense();
+  EXPECT_NEAR(s.accel_m_s2[0], -kG * std::sin(theta), 1e-9);
+  EXPECT_NEAR(s.accel_m_s2[2], kG * std::cos(theta), 1e-9);
+  EXPECT_NEAR(std::atan2(-s.accel_m_s2[0], s.accel_m_s2[2]), theta, 1e-12);
+}
+
 TEST(Sensor, GyroReadsPositiveYWhileFallingForward) {
   PlantOptions options = Unpowered();
   options.initial.pitch_rad = 0.05;

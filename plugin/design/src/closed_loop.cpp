@@ -147,21 +147,9 @@ LoopAnalysis AnalyseLoop(const LinearModel& plant, const Measurement& meas,
     const Interconnection loop = Connect(reduced, ctrl, nullptr, j);
     out.channel_margins.push_back(SisoMargins({loop.A, loop.B, loop.C, loop.D}));
   }
-  const LoopMargins& l = out.channel_margins[0];
-  const LoopMargins& r = out.channel_margins[1];
-  LoopMargins& w = out.margins;
-  w.gain_low = std::max(l.gain_low, r.gain_low);
-  w.gain_high = std::min(l.gain_high, r.gain_high);
-  w.phase_deg = std::min(l.phase_deg, r.phase_deg);
-  w.disk_alpha = std::min(l.disk_alpha, r.disk_alpha);
-  w.disk_gain_low = std::max(l.disk_gain_low, r.disk_gain_low);
-  w.disk_gain_high = std::min(l.disk_gain_high, r.disk_gain_high);
-  w.disk_phase_deg = std::min(l.disk_phase_deg, r.disk_phase_deg);
-  w.delay_s = std::min(l.delay_s, r.delay_s);
-  w.ok = l.ok && r.ok && norm.ok;
-  w.message = !l.ok ? l.message : !r.ok ? r.message : norm.ok ? "ok" : norm.message;
-  out.ok = w.ok;
-  out.message = w.message;
+  out.margins = WorstOf(out.channel_margins);
+  out.ok = out.margins.ok && norm.ok;
+  out.message = !out.margins.ok ? out.margins.message : norm.ok ? "ok" : norm.message;
   return out;
 }
 

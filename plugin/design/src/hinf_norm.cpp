@@ -130,8 +130,6 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
       bound.Consider(s, std::abs(lambda));
       if (lambda.imag() > 0) bound.Consider(s, lambda.imag());
     }
-  }
-  if (poles.size() > 0) {
     // A coarse geometric grid from a hundredth of the slowest pole to a hundred times the fastest:
     // a lower bound close to the norm keeps γ away from σ̄(D), where the level-set problem is
     // ill-conditioned, and shows whether G vanishes (a non-zero G of order n vanishes at no more

@@ -361,15 +361,14 @@ LoopMargins InputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   return result;
 }
 
-LoopMargins WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                              const Eigen::MatrixXd& K) {
+LoopMargins WorstOf(const std::vector<LoopMargins>& channels) {
   LoopMargins worst;
-  if (B.cols() == 0) {
-    worst.message = "WorstInputMargins: B has no columns";
+  if (channels.empty()) {
+    worst.message = "no input channels";
     return worst;
   }
-  for (Eigen::Index j = 0; j < B.cols(); ++j) {
-    const LoopMargins c = InputMargins(A, B, K, static_cast<int>(j));
+  for (size_t j = 0; j < channels.size(); ++j) {
+    const LoopMargins& c = channels[j];
     if (!c.ok) return c;
     if (j == 0) {
       worst = c;
@@ -396,7 +395,18 @@ LoopMargins WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B
       worst.disk_rad_s = c.disk_rad_s;
     }
   }
-  worst.message = "worst over " + std::to_string(B.cols()) + " input channels";
+  worst.message = "worst over " + std::to_string(channels.size()) + " input channels";
+  return worst;
+}
+
+LoopMargins WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                              const Eigen::MatrixXd& K) {
+  std::vector<LoopMargins> channels;
+  for (Eigen::Index j = 0; j < B.cols(); ++j) {
+    channels.push_back(InputMargins(A, B, K, static_cast<int>(j)));
+  }
+  LoopMargins worst = WorstOf(channels);
+  if (B.cols() == 0) worst.message = "WorstInputMargins: B has no columns";
   return worst;
 }
 

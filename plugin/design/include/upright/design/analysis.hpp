@@ -6,6 +6,7 @@
 #include <Eigen/Dense>
 #include <limits>
 #include <string>
+#include <vector>
 
 namespace upright::design {
 
@@ -62,6 +63,9 @@ struct LoopMargins {
 // ok = false with a message.
 LoopMargins InputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
                          const Eigen::MatrixXd& K, int channel);
+// The worst of each figure over channels (largest gain_low, smallest gain_high, phase, disk α and
+// delay, each with its own frequency); the first failed channel if any failed.
+LoopMargins WorstOf(const std::vector<LoopMargins>& channels);
 LoopMargins WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
                               const Eigen::MatrixXd& K);
 

@@ -73,7 +73,7 @@ GammaSearch RobotOptimalGamma(const LinearModel& plant, const StateMatrix& Q,
 
 // The sensors an estimator uses, linearised: y = C x + D u with white noise of covariance Rv
 // (per sample at the control rate). Rows: mean encoder angle (x/r − θ), gyro pitch rate, heading
-// from the encoder difference, gyro yaw rate, accelerometer tilt (f_x / g ≈ θ + (ẍ + h θ̈)/g).
+// from the encoder difference, gyro yaw rate, accelerometer along x (f_x / g ≈ −θ + (ẍ + h θ̈)/g).
 struct SensorLinearisation {
   Eigen::MatrixXd C, D, Rv;
   static constexpr int kMeasurements = 5;

@@ -21,7 +21,8 @@ namespace upright {
 //   positive torque drives forward and pitches the chassis back.
 // Left wheel at y = +track/2, right wheel at y = −track/2. Arrays of two are [left, right].
 // Gyro: body-frame angular rate (rad/s); a forward lean rate reads +y.
-// Accelerometer: body-frame specific force f = Rᵀ(a − g), m/s²; a robot at rest reads +9.81 on z.
+// Accelerometer: body-frame specific force f = Rᵀ(a − g), m/s²; a robot at rest reads +9.81 on z,
+//   and one standing still tilted forward by θ reads −g sin θ on x (tilt = atan2(−f_x, f_z)).
 
 inline constexpr double kStandardGravity_m_s2 = 9.80665;  // CGPM 1901 standard gravity
 inline constexpr double kPi = 3.14159265358979323846;
