@@ -75,11 +75,29 @@ inline std::string CheckAndNormalise(StateSpace* s) {
   return {};
 }
 
+// The power of two f that balances a column 1-norm c against a row 1-norm r (c f ≈ r / f), or 1
+// when scaling would not shrink c + r by 5 % (the test of LAPACK dgebal).
+inline double BalanceFactor(double c, double r) {
+  constexpr double kRadix = 2.0;
+  const double before = c + r;
+  double f = 1;
+  while (c < r / kRadix && f < 1e150) {
+    c *= kRadix;
+    r /= kRadix;
+    f *= kRadix;
+  }
+  while (c >= r * kRadix && f > 1e-150) {
+    c /= kRadix;
+    r *= kRadix;
+    f /= kRadix;
+  }
+  return c + r < 0.95 * before ? f : 1.0;
+}
+
 // Diagonal similarity by powers of two that balances the off-diagonal row and column 1-norms
 // (Parlett and Reinsch 1969; LAPACK dgebal without permutations). The eigenvalues are unchanged
 // and come out more accurately for badly scaled matrices.
 inline Eigen::MatrixXd Balance(Eigen::MatrixXd m) {
-  constexpr double kRadix = 2.0;
   constexpr int kMaxSweeps = 100;
   const Eigen::Index n = m.rows();
   bool converged = false;
@@ -89,19 +107,8 @@ inline Eigen::MatrixXd Balance(Eigen::MatrixXd m) {
       double c = m.col(i).cwiseAbs().sum() - std::abs(m(i, i));
       double r = m.row(i).cwiseAbs().sum() - std::abs(m(i, i));
       if (!(c > 0) || !(r > 0) || !std::isfinite(c + r)) continue;
-      const double before = c + r;
-      double f = 1;
-      while (c < r / kRadix && f < 1e150) {
-        c *= kRadix;
-        r /= kRadix;
-        f *= kRadix;
-      }
-      while (c >= r * kRadix && f > 1e-150) {
-        c /= kRadix;
-        r *= kRadix;
-        f /= kRadix;
-      }
-      if (c + r < 0.95 * before) {
+      const double f = BalanceFactor(c, r);
+      if (f != 1) {
         converged = false;
         m.row(i) /= f;
         m.col(i) *= f;
@@ -117,7 +124,6 @@ inline Eigen::MatrixXd Balance(Eigen::MatrixXd m) {
 // the eigenvalue problems built from the realisation become better conditioned when the states
 // have very different scales, such as a large state-feedback gain.
 inline void BalanceStates(StateSpace* s) {
-  constexpr double kRadix = 2.0;
   constexpr int kMaxSweeps = 100;
   const Eigen::Index n = s->A.rows();
   bool converged = false;
@@ -128,19 +134,8 @@ inline void BalanceStates(StateSpace* s) {
       double c = s->A.col(i).cwiseAbs().sum() + s->C.col(i).cwiseAbs().sum() - diagonal;
       double r = s->A.row(i).cwiseAbs().sum() + s->B.row(i).cwiseAbs().sum() - diagonal;
       if (!(c > 0) || !(r > 0) || !std::isfinite(c + r)) continue;
-      const double before = c + r;
-      double f = 1;
-      while (c < r / kRadix && f < 1e150) {
-        c *= kRadix;
-        r /= kRadix;
-        f *= kRadix;
-      }
-      while (c >= r * kRadix && f > 1e-150) {
-        c /= kRadix;
-        r *= kRadix;
-        f /= kRadix;
-      }
-      if (c + r < 0.95 * before) {
+      const double f = BalanceFactor(c, r);
+      if (f != 1) {
         converged = false;
         s->A.row(i) /= f;
         s->B.row(i) /= f;

@@ -64,21 +64,36 @@ LyapunovResult Finish(const Eigen::MatrixXcd& U, const Eigen::MatrixXcd& Y,
   return result;
 }
 
+// A = U T Uᴴ (complex Schur form) and F = Uᴴ Q U, the equation's right side in that basis.
+struct SchurForm {
+  Eigen::MatrixXcd T, U, F;
+};
+
+bool SchurOf(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q, SchurForm* form,
+             LyapunovResult* result) {
+  const Eigen::ComplexSchur<Eigen::MatrixXcd> schur(A.cast<Complex>());
+  if (schur.info() != Eigen::Success) {
+    result->failure = SolveFailure::kIllConditioned;
+    result->message = "the Schur decomposition of A did not converge";
+    return false;
+  }
+  form->T = schur.matrixT();
+  form->U = schur.matrixU();
+  form->F = form->U.adjoint() * Q.cast<Complex>() * form->U;
+  return true;
+}
+
 }  // namespace
 
 LyapunovResult SolveLyapunov(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q) {
   LyapunovResult result;
   if (!PrepareLyapunov(A, Q, "Lyapunov equation", &result)) return result;
   const Eigen::Index n = A.rows();
-  const Eigen::ComplexSchur<Eigen::MatrixXcd> schur(A.cast<Complex>());
-  if (schur.info() != Eigen::Success) {
-    result.failure = SolveFailure::kIllConditioned;
-    result.message = "the Schur decomposition of A did not converge";
-    return result;
-  }
-  const Eigen::MatrixXcd& T = schur.matrixT();
-  const Eigen::MatrixXcd& U = schur.matrixU();
-  const Eigen::MatrixXcd F = U.adjoint() * Q.cast<Complex>() * U;
+  SchurForm form;
+  if (!SchurOf(A, Q, &form, &result)) return result;
+  const Eigen::MatrixXcd& T = form.T;
+  const Eigen::MatrixXcd& U = form.U;
+  const Eigen::MatrixXcd& F = form.F;
   const double scale = std::max(T.norm(), std::numeric_limits<double>::min());
 
   // Column j of T Y + Y Tᴴ = −F: (T + conj(t_jj) I) y_j = −f_j − Σ_{k>j} y_k conj(t_jk).
@@ -104,15 +119,11 @@ LyapunovResult SolveDiscreteLyapunov(const Eigen::MatrixXd& A, const Eigen::Matr
   LyapunovResult result;
   if (!PrepareLyapunov(A, Q, "discrete Lyapunov equation", &result)) return result;
   const Eigen::Index n = A.rows();
-  const Eigen::ComplexSchur<Eigen::MatrixXcd> schur(A.cast<Complex>());
-  if (schur.info() != Eigen::Success) {
-    result.failure = SolveFailure::kIllConditioned;
-    result.message = "the Schur decomposition of A did not converge";
-    return result;
-  }
-  const Eigen::MatrixXcd& T = schur.matrixT();
-  const Eigen::MatrixXcd& U = schur.matrixU();
-  const Eigen::MatrixXcd F = U.adjoint() * Q.cast<Complex>() * U;
+  SchurForm form;
+  if (!SchurOf(A, Q, &form, &result)) return result;
+  const Eigen::MatrixXcd& T = form.T;
+  const Eigen::MatrixXcd& U = form.U;
+  const Eigen::MatrixXcd& F = form.F;
   const double scale = std::max(1.0, T.squaredNorm());
 
   // Column j of T Y Tᴴ − Y = −F. With p = Σ_{k>j} y_k conj(t_jk) (known columns), column j of
