@@ -1,0 +1,110 @@
+// Built-in module `hinf`: H-infinity state feedback against a push. The state (estimated from the
+// sensors, or true) and the reference in each tick; wheel commands u = u_ss − K e out, K the
+// central H-infinity gain at γ = gamma_factor × γ_opt (or the `gamma` given), designed at create.
+#include <memory>
+#include <sstream>
+
+#include "kit/abi_model.hpp"
+#include "kit/config.hpp"
+#include "kit/module_adapter.hpp"
+#include "kit/state_estimator.hpp"
+#include "kit/state_feedback.hpp"
+#include "upright/design/synthesis.hpp"
+#include "upright/design/weights.hpp"
+#include "upright/model/conventions.hpp"
+
+namespace upright::controllers {
+namespace {
+
+class HinfController {
+ public:
+  static constexpr const char* kName = "hinf";
+
+  static std::unique_ptr<HinfController> Create(const ModuleContext& context,
+                                                upright_create_result* result) {
+    ConfigReader reader(context.config);
+    const CommonConfig config =
+        ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
+    double gamma = 0;
+    double gamma_factor = 1.1;  // γ just above the optimum, as `upright design` reports
+    reader.Number("gamma", NumberRule::kPositive, &gamma);
+    reader.Number("gamma_factor", NumberRule::kAboveOne, &gamma_factor);
+    if (reader.Has("gamma") && reader.Has("gamma_factor")) {
+      throw ModuleError(UPRIGHT_BAD_CONFIG, "gamma and gamma_factor: give one of them, not both");
+    }
+    reader.Finish();
+    const design::LinearModel plant =
+        LinearFromAbi(context.linear_abi, context.robot_abi, config.input);
+    const design::StateMatrix Q = design::StateWeight(config.weights);
+    const Eigen::Matrix2d R = design::InputWeight(config.weights, context.robot, config.input);
+    // The disturbance w = 1 is a push of 10 % of the robot's weight, as in `upright design`.
+    const double push_scale_N = 0.1 * TotalMass(context.robot_abi) * kStandardGravity_m_s2;
+    const design::GammaSearch search = design::RobotOptimalGamma(plant, Q, R, push_scale_N);
+    if (!search.ok()) {
+      throw ModuleError(UPRIGHT_UNSUPPORTED, "H-infinity gamma search failed: " + search.message);
+    }
+    if (gamma == 0) {
+      gamma = gamma_factor * search.gamma_opt;
+    } else if (!(gamma > search.gamma_opt)) {
+      std::ostringstream why;
+      why << "gamma = " << gamma << ": must be > gamma_opt = " << search.gamma_opt
+          << " for this robot and these weights";
+      throw ModuleError(UPRIGHT_BAD_CONFIG, why.str());
+    }
+    // The continuous-time gain, applied at the module's rate: at the demo robots' control rates
+    // (≥ 100 Hz, well above the closed-loop bandwidth) the sampling itself changes it little.
+    // Sampling together with the sensors' latency and the encoder rate's averaging does matter
+    // on voltage commands: on the courier robot with the estimated state the loop chatters at
+    // the Nyquist rate (±10 V at 100 Hz) while it balances.
+    const design::GainResult hinf = design::RobotHinf(plant, Q, R, push_scale_N, gamma);
+    if (!hinf.ok()) {
+      std::ostringstream why;
+      why << "H-infinity design at gamma = " << gamma << " failed: " << hinf.message;
+      throw ModuleError(UPRIGHT_UNSUPPORTED, why.str());
+    }
+    std::vector<const char*> diagnostics = StateFeedbackLaw::DiagnosticNames();
+    diagnostics.push_back("gamma");
+    Declare(config.input, diagnostics, result);
+    std::ostringstream log;
+    log << "hinf: gamma = " << gamma << " (gamma_opt = " << search.gamma_opt << "), K =\n"
+        << hinf.K;
+    context.Log(UPRIGHT_LOG_DEBUG, log.str());
+    const EstimatorSettings estimator = SettingsFor(context, config, plant);
+    return std::unique_ptr<HinfController>(new HinfController(
+        StateSource(config.state, estimator),
+        StateFeedbackLaw(plant, hinf.K, design::InputLimit(context.robot, config.input),
+                         ReferenceTracker(context.period_s, config.max_accel_m_s2)),
+        gamma));
+  }
+
+  void Reset() {
+    source_.Reset();
+    law_.Reset();
+  }
+
+  const char* Step(const upright_step_input& input, upright_step_output* output) {
+    const design::StateVector* state = nullptr;
+    if (const char* why = source_.Update(input, &state)) return why;
+    if (const char* why = law_.Step(input.reference, *state, output)) return why;
+    output->diagnostics[gamma_slot_] = gamma_;
+    return nullptr;
+  }
+
+ private:
+  HinfController(StateSource source, StateFeedbackLaw law, double gamma)
+      : source_(std::move(source)), law_(std::move(law)), gamma_(gamma) {}
+
+  // The gamma diagnostic follows the state-feedback ones.
+  const std::size_t gamma_slot_ = StateFeedbackLaw::DiagnosticNames().size();
+
+  StateSource source_;
+  StateFeedbackLaw law_;
+  double gamma_;
+};
+
+}  // namespace
+}  // namespace upright::controllers
+
+extern "C" UPRIGHT_CONTROLLER_EXPORT const upright_controller_api* upright_controller_entry(void) {
+  return upright::controllers::ModuleAdapter<upright::controllers::HinfController>::Api();
+}

@@ -1,0 +1,66 @@
+// Module configuration (internal to the built-in modules): the scenario's key/value text in,
+// typed settings out. An unknown key, a repeated key or a bad value is UPRIGHT_BAD_CONFIG with a
+// message naming the key, the value and the rule ("max_tilt_deg = -1: must be > 0").
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "kit/module_context.hpp"
+#include "upright/design/linear_model.hpp"
+#include "upright/design/weights.hpp"
+
+namespace upright::controllers {
+
+// The rule a number must keep.
+enum class NumberRule {
+  kPositive,  // > 0
+  kAboveOne,  // > 1
+  kFraction,  // in (0, 1]
+};
+
+// Reads a module's entries by key (`entries` must outlive the reader). Each read marks its key as
+// known; Finish() then rejects any entry no read asked for. Every failure throws
+// ModuleError(UPRIGHT_BAD_CONFIG).
+class ConfigReader {
+ public:
+  explicit ConfigReader(const ConfigEntries& entries);  // throws on a repeated key
+  bool Has(const std::string& key) const;
+  // Sets *value from `key` when present: a finite decimal number keeping `rule`.
+  void Number(const std::string& key, NumberRule rule, double* value);
+  // Sets *index to the position of `key`'s value in `choices` when present.
+  void Choice(const std::string& key, const std::vector<std::string>& choices, int* index);
+  // Throws for the first entry none of the reads above asked for, listing the known keys.
+  void Finish() const;
+
+ private:
+  const std::string* Find(const std::string& key);
+  const ConfigEntries& entries_;
+  std::vector<std::string> known_;
+};
+
+// Where a state-feedback module takes the robot's state from.
+enum class StateChoice {
+  kEstimated,  // from the sensor samples (the module's own estimator)
+  kTrue,       // the true state the host hands over (only when the scenario allows it)
+};
+
+// The keys every built-in shares, with their defaults.
+struct CommonConfig {
+  StateChoice state = StateChoice::kEstimated;           // `state` = estimated | true
+  design::InputKind input = design::InputKind::kTorque;  // `input` = torque | voltage
+  design::DesignWeights weights;  // max_drift_m, max_speed_m_s, max_tilt_deg, ... (weights.hpp)
+  // `tilt_filter_s`: the complementary filter's time constant; 0.5 s is common practice for
+  // balancing robots (slow enough to average out accelerations, fast enough for gyro bias).
+  double tilt_filter_s = 0.5;
+  // `max_accel_m_s2`: how fast the speed reference may change. Default g tan(max_tilt_deg) (at
+  // most g): the steady lean that acceleration takes is the tilt the weights accept.
+  double max_accel_m_s2 = 0;
+};
+
+// Reads the common keys. `true_state_available` comes from the host: `state = true` without it
+// is a bad configuration. `voltage_allowed` false: `input = voltage` is one too.
+CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
+                              bool voltage_allowed);
+
+}  // namespace upright::controllers

@@ -1,0 +1,123 @@
+// Module adapter (internal to the built-in modules): a C++ controller class in, the C function
+// table of upright/controller_abi.h out. Create arguments, step inputs and outputs flow through
+// it unchanged; every exception is caught here and becomes a status code and a message, so none
+// ever crosses the C boundary.
+//
+// A controller class provides:
+//   static constexpr const char* kName;  // the table's short name
+//   static std::unique_ptr<C> Create(const ModuleContext& context, upright_create_result* result);
+//       // may throw (ModuleError for a status other than UPRIGHT_ERROR)
+//   void Reset();
+//   const char* Step(const upright_step_input& input, upright_step_output* output);
+//       // nullptr when all is well, else a message in static storage: no allocation per tick
+#pragma once
+
+#include <algorithm>
+#include <cstddef>
+#include <cstring>
+#include <exception>
+#include <memory>
+#include <new>
+
+#include "kit/module_context.hpp"
+#include "upright/controller_abi.h"
+
+namespace upright::controllers {
+
+// Copies `text` into a caller's error buffer of `size` bytes, truncated and NUL-terminated; no
+// allocation, so it is safe in step.
+inline void WriteMessage(const char* text, char* buffer, std::size_t size) {
+  if (!buffer || size == 0) return;
+  const std::size_t length = std::min(std::strlen(text), size - 1);
+  std::memcpy(buffer, text, length);
+  buffer[length] = '\0';
+}
+
+template <typename Controller>
+class ModuleAdapter {
+ public:
+  static const upright_controller_api* Api() {
+    static const upright_controller_api kApi = {sizeof(upright_controller_api),
+                                                UPRIGHT_CONTROLLER_ABI_VERSION,
+                                                Controller::kName,
+                                                &Create,
+                                                &Reset,
+                                                &Step,
+                                                &Destroy};
+    return &kApi;
+  }
+
+ private:
+  // Runs `call`, returning its status; an exception becomes a status and a message.
+  template <typename Call>
+  static int Guard(Call call, char* error, std::size_t error_size) noexcept {
+    try {
+      return call();
+    } catch (const ModuleError& e) {
+      WriteMessage(e.what(), error, error_size);
+      return e.status();
+    } catch (const std::bad_alloc&) {
+      WriteMessage("out of memory", error, error_size);
+    } catch (const std::exception& e) {
+      WriteMessage(e.what(), error, error_size);
+    } catch (...) {
+      WriteMessage("an exception of unknown type", error, error_size);
+    }
+    return UPRIGHT_ERROR;
+  }
+
+  static int Create(const upright_create_args* args, upright_create_result* result, void** instance,
+                    char* error, std::size_t error_size) noexcept {
+    if (instance) *instance = nullptr;
+    return Guard(
+        [&] {
+          if (!instance) throw ModuleError(UPRIGHT_ERROR, "create: instance is NULL");
+          if (!result || result->struct_size < sizeof(upright_create_result)) {
+            throw ModuleError(UPRIGHT_ERROR,
+                              "create: result is NULL or shorter than version 1's "
+                              "upright_create_result");
+          }
+          const ModuleContext context = ContextFromArgs(args);
+          std::unique_ptr<Controller> controller = Controller::Create(context, result);
+          *instance = controller.release();
+          return UPRIGHT_OK;
+        },
+        error, error_size);
+  }
+
+  static int Reset(void* instance, char* error, std::size_t error_size) noexcept {
+    return Guard(
+        [&] {
+          if (!instance) throw ModuleError(UPRIGHT_ERROR, "reset: instance is NULL");
+          static_cast<Controller*>(instance)->Reset();
+          return UPRIGHT_OK;
+        },
+        error, error_size);
+  }
+
+  static int Step(void* instance, const upright_step_input* input, upright_step_output* output,
+                  char* error, std::size_t error_size) noexcept {
+    return Guard(
+        [&] {
+          const char* why = nullptr;
+          if (!instance || !input || !output) {
+            why = "step: instance, input or output is NULL";
+          } else if (input->struct_size < sizeof(upright_step_input) ||
+                     input->sensors.struct_size < sizeof(upright_sensor_sample) ||
+                     input->reference.struct_size < sizeof(upright_reference) ||
+                     output->struct_size < sizeof(upright_step_output)) {
+            why = "step: an input or output struct is shorter than version 1's";
+          } else {
+            why = static_cast<Controller*>(instance)->Step(*input, output);
+          }
+          if (!why) return UPRIGHT_OK;
+          WriteMessage(why, error, error_size);
+          return UPRIGHT_ERROR;
+        },
+        error, error_size);
+  }
+
+  static void Destroy(void* instance) noexcept { delete static_cast<Controller*>(instance); }
+};
+
+}  // namespace upright::controllers

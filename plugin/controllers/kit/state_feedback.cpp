@@ -1,0 +1,48 @@
+#include "kit/state_feedback.hpp"
+
+namespace upright::controllers {
+
+const std::vector<const char*>& StateFeedbackLaw::DiagnosticNames() {
+  static const std::vector<const char*> kNames = {"pitch_est_rad", "pitch_rate_est_rad_s",
+                                                  "x_est_m",       "speed_est_m_s",
+                                                  "yaw_est_rad",   "x_error_m"};
+  return kNames;
+}
+
+StateFeedbackLaw::StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain,
+                                   double input_limit, const ReferenceTracker& tracker)
+    : gain_(gain),
+      steady_(plant),
+      input_limit_(input_limit),
+      equilibrium_pitch_rad_(plant.equilibrium_pitch_rad),
+      tracker_(tracker) {}
+
+void StateFeedbackLaw::Reset() {
+  tracker_.Reset();
+  error_.setZero();
+  command_.setZero();
+}
+
+const char* StateFeedbackLaw::Step(const upright_reference& reference,
+                                   const design::StateVector& state, upright_step_output* output) {
+  if (const char* why = tracker_.Follow(reference)) return why;
+  double lean_rad = 0;
+  Eigen::Vector2d steady_input;
+  steady_.For(tracker_.speed_m_s(), tracker_.accel_m_s2(), tracker_.yaw_rate_rad_s(), &lean_rad,
+              &steady_input);
+  tracker_.Error(state, &error_);
+  error_(design::kPitch) -= lean_rad;
+  command_ = Clamped(steady_input - gain_ * error_, input_limit_);
+  output->command[0] = command_(0);
+  output->command[1] = command_(1);
+  double* d = output->diagnostics;
+  d[0] = state(design::kPitch) + equilibrium_pitch_rad_;
+  d[1] = state(design::kPitchRate);
+  d[2] = state(design::kX);
+  d[3] = state(design::kXDot);
+  d[4] = state(design::kYaw);
+  d[5] = error_(design::kX);
+  return nullptr;
+}
+
+}  // namespace upright::controllers

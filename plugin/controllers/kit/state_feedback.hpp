@@ -1,0 +1,43 @@
+// State-feedback law (internal to the built-in modules): each tick's state (estimated or true)
+// and reference in; the wheel commands u = u_ss − K e on the error from the steady motion the
+// reference asks for (integrated position and heading, speed, yaw rate, and the lean its
+// acceleration takes), limited per wheel, and the diagnostics every state-feedback module
+// reports, out.
+#pragma once
+
+#include <vector>
+
+#include "kit/tracking.hpp"
+#include "upright/controller_abi.h"
+#include "upright/design/linear_model.hpp"
+#include "upright/design/synthesis.hpp"
+
+namespace upright::controllers {
+
+class StateFeedbackLaw {
+ public:
+  // The diagnostics Step writes, in order, into the first slots of the output.
+  static const std::vector<const char*>& DiagnosticNames();
+
+  // `gain`: u = −K e, for `plant`'s input kind; `input_limit` per wheel, V or N·m; `tracker`
+  // as configured, at its reset state.
+  StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain, double input_limit,
+                   const ReferenceTracker& tracker);
+  void Reset();
+  // Writes the commands and the diagnostics; nullptr, or a message in static storage.
+  const char* Step(const upright_reference& reference, const design::StateVector& state,
+                   upright_step_output* output);
+  // The commands of the latest Step (zero before the first).
+  const Eigen::Vector2d& command() const { return command_; }
+
+ private:
+  design::Gain gain_;
+  SteadyMotion steady_;
+  double input_limit_;
+  double equilibrium_pitch_rad_;
+  ReferenceTracker tracker_;
+  design::StateVector error_ = design::StateVector::Zero();
+  Eigen::Vector2d command_ = Eigen::Vector2d::Zero();
+};
+
+}  // namespace upright::controllers

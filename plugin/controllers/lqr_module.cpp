@@ -1,0 +1,71 @@
+// Built-in module `lqr`: discrete LQR state feedback. The state (estimated from the sensors, or
+// true) and the reference in each tick; wheel commands u = u_ss − K e out, K designed at create
+// for the module's own rate (zero-order hold) from the design weights.
+#include <memory>
+#include <sstream>
+
+#include "kit/abi_model.hpp"
+#include "kit/config.hpp"
+#include "kit/module_adapter.hpp"
+#include "kit/state_estimator.hpp"
+#include "kit/state_feedback.hpp"
+#include "upright/design/synthesis.hpp"
+#include "upright/design/weights.hpp"
+
+namespace upright::controllers {
+namespace {
+
+class LqrController {
+ public:
+  static constexpr const char* kName = "lqr";
+
+  static std::unique_ptr<LqrController> Create(const ModuleContext& context,
+                                               upright_create_result* result) {
+    ConfigReader reader(context.config);
+    const CommonConfig config =
+        ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
+    reader.Finish();
+    const design::LinearModel plant =
+        LinearFromAbi(context.linear_abi, context.robot_abi, config.input);
+    const design::GainResult lqr = design::RobotDiscreteLqr(
+        plant, design::StateWeight(config.weights),
+        design::InputWeight(config.weights, context.robot, config.input), context.period_s);
+    if (!lqr.ok()) {
+      throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete LQR design failed: " + lqr.message);
+    }
+    Declare(config.input, StateFeedbackLaw::DiagnosticNames(), result);
+    std::ostringstream log;
+    log << "lqr: discrete LQR at " << context.rate_hz << " Hz, K =\n" << lqr.K;
+    context.Log(UPRIGHT_LOG_DEBUG, log.str());
+    const EstimatorSettings estimator = SettingsFor(context, config, plant);
+    return std::unique_ptr<LqrController>(new LqrController(
+        StateSource(config.state, estimator),
+        StateFeedbackLaw(plant, lqr.K, design::InputLimit(context.robot, config.input),
+                         ReferenceTracker(context.period_s, config.max_accel_m_s2))));
+  }
+
+  void Reset() {
+    source_.Reset();
+    law_.Reset();
+  }
+
+  const char* Step(const upright_step_input& input, upright_step_output* output) {
+    const design::StateVector* state = nullptr;
+    if (const char* why = source_.Update(input, &state)) return why;
+    return law_.Step(input.reference, *state, output);
+  }
+
+ private:
+  LqrController(StateSource source, StateFeedbackLaw law)
+      : source_(std::move(source)), law_(std::move(law)) {}
+
+  StateSource source_;
+  StateFeedbackLaw law_;
+};
+
+}  // namespace
+}  // namespace upright::controllers
+
+extern "C" UPRIGHT_CONTROLLER_EXPORT const upright_controller_api* upright_controller_entry(void) {
+  return upright::controllers::ModuleAdapter<upright::controllers::LqrController>::Api();
+}

@@ -1,0 +1,132 @@
+// Configuration of the built-in modules through ControllerHost::Create: unknown keys, bad values
+// and impossible requests are refused with messages naming the key, the value and the rule; what
+// a module declares (command kind, diagnostics) follows its configuration.
+#include <gtest/gtest.h>
+
+#include <algorithm>
+#include <string>
+#include <utility>
+
+#include "builtin_run.hpp"
+
+namespace upright::host {
+namespace {
+
+using testing::Config;
+using testing::CreateBuiltin;
+using testing::DemoRobot;
+
+// The error of a create that must fail.
+std::string Refusal(const std::string& module, const Config& config, bool true_state = false) {
+  std::string error;
+  auto host = CreateBuiltin(module, DemoRobot("courier"), config, true_state, &error);
+  EXPECT_EQ(host, nullptr) << module << " accepted the configuration";
+  return error;
+}
+
+class EveryBuiltin : public ::testing::TestWithParam<std::string> {};
+
+TEST_P(EveryBuiltin, RefusesAnUnknownKeyNamingItAndItsValue) {
+  const std::string error = Refusal(GetParam(), {{"max_tilt", "3"}});
+  EXPECT_NE(error.find("status 2"), std::string::npos) << error;  // UPRIGHT_BAD_CONFIG
+  EXPECT_NE(error.find("unknown key max_tilt (= 3)"), std::string::npos) << error;
+  EXPECT_NE(error.find("max_tilt_deg"), std::string::npos) << error;  // the keys it knows
+}
+
+TEST_P(EveryBuiltin, RefusesBadValuesNamingKeyValueAndRule) {
+  const std::pair<Config, std::string> cases[] = {
+      {{{"max_tilt_deg", "-1"}}, "max_tilt_deg = -1: must be > 0"},
+      {{{"max_drift_m", "0"}}, "max_drift_m = 0: must be > 0"},
+      {{{"max_input_fraction", "1.5"}}, "max_input_fraction = 1.5: must be in (0, 1]"},
+      {{{"tilt_filter_s", "fast"}}, "tilt_filter_s = fast: must be a finite decimal number"},
+      {{{"max_speed_m_s", "inf"}}, "max_speed_m_s = inf: must be a finite decimal number"},
+      {{{"max_accel_m_s2", "0.5 m/s2"}}, "max_accel_m_s2 = 0.5 m/s2: must be a finite decimal"},
+      {{{"state", "maybe"}}, "state = maybe: must be one of estimated, true"},
+      {{{"input", "current"}}, "input = current: must be one of torque, voltage"},
+      {{{"max_yaw_deg", "10"}, {"max_yaw_deg", "20"}}, "max_yaw_deg = 20: given twice"},
+  };
+  for (const auto& [config, message] : cases) {
+    const std::string error = Refusal(GetParam(), config);
+    EXPECT_NE(error.find("status 2"), std::string::npos) << error;
+    EXPECT_NE(error.find(message), std::string::npos) << error;
+  }
+}
+
+TEST_P(EveryBuiltin, RefusesTheTrueStateWhenTheHostDoesNotOfferIt) {
+  const std::string error = Refusal(GetParam(), {{"state", "true"}}, /*true_state=*/false);
+  EXPECT_NE(error.find("status 2"), std::string::npos) << error;
+  EXPECT_NE(error.find("state = true: the host offers no true state"), std::string::npos) << error;
+}
+
+TEST_P(EveryBuiltin, AcceptsTheTrueStateWhenOffered) {
+  std::string error;
+  auto host = CreateBuiltin(GetParam(), DemoRobot("courier"), {{"state", "true"}}, true, &error);
+  EXPECT_NE(host, nullptr) << error;
+}
+
+TEST_P(EveryBuiltin, CommandsTorqueByDefaultAndDeclaresItsEstimate) {
+  std::string error;
+  auto host = CreateBuiltin(GetParam(), DemoRobot("tabletop"), {}, false, &error);
+  ASSERT_NE(host, nullptr) << error;
+  EXPECT_EQ(host->drive(), sim::DriveMode::kTorque);
+  const auto& names = host->diagnostic_names();
+  EXPECT_NE(std::find(names.begin(), names.end(), "pitch_est_rad"), names.end());
+}
+
+INSTANTIATE_TEST_SUITE_P(Builtins, EveryBuiltin, ::testing::Values("lqr", "hinf", "lqg", "pid"));
+
+class StateFeedbackBuiltin : public ::testing::TestWithParam<std::string> {};
+
+TEST_P(StateFeedbackBuiltin, CommandsVoltageWhenAsked) {
+  std::string error;
+  auto host =
+      CreateBuiltin(GetParam(), DemoRobot("courier"), {{"input", "voltage"}}, false, &error);
+  ASSERT_NE(host, nullptr) << error;
+  EXPECT_EQ(host->drive(), sim::DriveMode::kVoltage);
+  const auto& names = host->diagnostic_names();
+  EXPECT_NE(std::find(names.begin(), names.end(), "x_est_m"), names.end());
+}
+
+INSTANTIATE_TEST_SUITE_P(Builtins, StateFeedbackBuiltin, ::testing::Values("lqr", "hinf", "lqg"));
+
+TEST(PidModule, RefusesVoltageCommands) {
+  const std::string error = Refusal("pid", {{"input", "voltage"}});
+  EXPECT_NE(error.find("status 2"), std::string::npos) << error;
+  EXPECT_NE(error.find("input = voltage: this controller commands torque only"), std::string::npos)
+      << error;
+}
+
+TEST(HinfModule, RefusesAGammaAtOrBelowTheOptimum) {
+  const std::string error = Refusal("hinf", {{"gamma", "0.001"}});
+  EXPECT_NE(error.find("status 2"), std::string::npos) << error;
+  EXPECT_NE(error.find("gamma = 0.001: must be > gamma_opt = "), std::string::npos) << error;
+}
+
+TEST(HinfModule, RefusesAGammaFactorOfOneOrLess) {
+  const std::string error = Refusal("hinf", {{"gamma_factor", "1"}});
+  EXPECT_NE(error.find("gamma_factor = 1: must be > 1"), std::string::npos) << error;
+}
+
+TEST(HinfModule, RefusesGammaAndGammaFactorTogether) {
+  const std::string error = Refusal("hinf", {{"gamma", "10"}, {"gamma_factor", "2"}});
+  EXPECT_NE(error.find("gamma and gamma_factor: give one of them, not both"), std::string::npos)
+      << error;
+}
+
+TEST(HinfModule, DeclaresItsGamma) {
+  std::string error;
+  auto host = CreateBuiltin("hinf", DemoRobot("courier"), {{"gamma", "10"}}, false, &error);
+  ASSERT_NE(host, nullptr) << error;
+  const auto& names = host->diagnostic_names();
+  EXPECT_NE(std::find(names.begin(), names.end(), "gamma"), names.end());
+}
+
+TEST(LqrModule, KeyValuesMayCarrySurroundingSpaces) {
+  std::string error;
+  auto host = CreateBuiltin("lqr", DemoRobot("courier"),
+                            {{"max_tilt_deg", " 4 "}, {"state", " estimated"}}, false, &error);
+  EXPECT_NE(host, nullptr) << error;
+}
+
+}  // namespace
+}  // namespace upright::host
