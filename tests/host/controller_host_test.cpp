@@ -65,6 +65,16 @@ TEST(ControllerHost, StepsAtTheControllerRateAndHoldsTheCommand) {
   EXPECT_EQ(run.host->diagnostics()[0], 10.0);  // steps 0, 5, ..., 45
 }
 
+TEST(ControllerHost, PassesTheModulesLogMessagesToTheCallerWithTheirLevel) {
+  ControllerSpec spec;
+  std::vector<std::pair<int, std::string>> messages;
+  spec.log = [&](int level, const std::string& message) { messages.emplace_back(level, message); };
+  RunModule("faulty_0", 1, spec);
+  ASSERT_EQ(messages.size(), 1u);
+  EXPECT_EQ(messages[0].first, UPRIGHT_LOG_INFO);
+  EXPECT_EQ(messages[0].second, "created");
+}
+
 TEST(ControllerHost, AnOptionalRateOverridesTheRobots) {
   ControllerSpec spec;
   spec.rate_hz = 100;

@@ -57,6 +57,7 @@ std::unique_ptr<ControllerHost> ControllerHost::Create(const ControllerSpec& spe
   host->module_ = spec.module;
   host->period_steps_ = std::lround(steps);
   host->true_state_ = spec.true_state;
+  host->log_ = spec.log;
 
   const upright_robot robot = internal::RobotForModule(model);
   const upright_linear_model linear = internal::LinearForModule(model);
@@ -71,6 +72,8 @@ std::unique_ptr<ControllerHost> ControllerHost::Create(const ControllerSpec& spe
   args.true_state_available = spec.true_state ? 1 : 0;
   args.config = config.data();
   args.config_count = static_cast<uint32_t>(config.size());
+  args.log = &ControllerHost::LogFromModule;
+  args.log_host = host.get();
   upright_create_result result{};
   result.struct_size = sizeof result;
   // An out-of-range kind, so a module that declares none is caught below.
@@ -119,6 +122,11 @@ ControllerHost::~ControllerHost() {
       // A module that throws while being destroyed has nothing left to report to.
     }
   }
+}
+
+void ControllerHost::LogFromModule(void* host, upright_log_level level, const char* message) {
+  const auto* self = static_cast<const ControllerHost*>(host);
+  if (self && self->log_ && message) self->log_(static_cast<int>(level), message);
 }
 
 std::string ControllerHost::Who() const { return "controller '" + module_->name() + "'"; }

@@ -111,7 +111,7 @@ typedef struct upright_create_args {
   int true_state_available;          /* nonzero: each tick's input carries the true state */
   const upright_config_entry* config;
   uint32_t config_count;
-  upright_log_fn log;                /* may be called from create, reset and step */
+  upright_log_fn log;                /* may be called from create, reset and step; may be NULL */
   void* log_host;                    /* pass back as the callback's first argument */
 } upright_create_args;
 

@@ -16,7 +16,7 @@
 
 static int Create(const upright_create_args* args, upright_create_result* result, void** instance,
                   char* error, size_t error_size) {
-  (void)args;
+  if (args->log) args->log(args->log_host, UPRIGHT_LOG_INFO, "created");
   if (FAULT == 5) {
     snprintf(error, error_size, "gain = banana: must be a number");
     return UPRIGHT_BAD_CONFIG;

@@ -4,6 +4,7 @@
 #pragma once
 
 #include <array>
+#include <functional>
 #include <memory>
 #include <string>
 #include <utility>
@@ -21,6 +22,8 @@ struct ControllerSpec {
   std::vector<std::pair<std::string, std::string>> config;  // key/value from the scenario
   double rate_hz = 0;        // 0: the robot's control rate
   bool true_state = false;   // hand the module the true state each tick
+  // Receives the module's log messages (level as in upright_log_level); empty drops them.
+  std::function<void(int level, const std::string& message)> log;
 };
 
 // What the module is asked to follow.
@@ -64,7 +67,10 @@ class ControllerHost {
   void Fail(double time_s, std::string message);
   std::string Who() const;  // "controller 'name'", for messages
 
+  static void LogFromModule(void* host, upright_log_level level, const char* message);
+
   std::shared_ptr<Module> module_;
+  std::function<void(int, const std::string&)> log_;
   void* instance_ = nullptr;
   sim::DriveMode drive_ = sim::DriveMode::kVoltage;
   long period_steps_ = 1;
