@@ -123,26 +123,21 @@ class LqgController {
     reader.Finish();
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, config.input);
-    const design::GainResult lqr = design::RobotDiscreteLqr(
-        plant, design::StateWeight(config.weights),
-        design::InputWeight(config.weights, context.robot, config.input), context.period_s);
-    if (!lqr.ok()) {
-      throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete LQR design failed: " + lqr.message);
-    }
+    const design::Gain gain = DiscreteLqrFor(context, config, plant);
     const Filter filter = DesignFilter(context, plant);
     std::vector<const char*> diagnostics = StateFeedbackLaw::DiagnosticNames();
     diagnostics.push_back("accel_innovation");
     Declare(config.input, diagnostics, result);
     std::ostringstream log;
     log << "lqg: discrete LQR and Kalman filter at " << context.rate_hz << " Hz, K =\n"
-        << lqr.K << "\nL =\n"
+        << gain << "\nL =\n"
         << filter.L;
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     return std::unique_ptr<LqgController>(new LqgController(
         config.state, context.robot, plant.equilibrium_pitch_rad, filter,
         StateSource(config.state, estimator),
-        StateFeedbackLaw(plant, lqr.K, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw(plant, gain, design::InputLimit(context.robot, config.input),
                          ReferenceTracker(context.period_s, config.max_accel_m_s2))));
   }
 

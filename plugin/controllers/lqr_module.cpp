@@ -27,20 +27,15 @@ class LqrController {
     reader.Finish();
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, config.input);
-    const design::GainResult lqr = design::RobotDiscreteLqr(
-        plant, design::StateWeight(config.weights),
-        design::InputWeight(config.weights, context.robot, config.input), context.period_s);
-    if (!lqr.ok()) {
-      throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete LQR design failed: " + lqr.message);
-    }
+    const design::Gain gain = DiscreteLqrFor(context, config, plant);
     Declare(config.input, StateFeedbackLaw::DiagnosticNames(), result);
     std::ostringstream log;
-    log << "lqr: discrete LQR at " << context.rate_hz << " Hz, K =\n" << lqr.K;
+    log << "lqr: discrete LQR at " << context.rate_hz << " Hz, K =\n" << gain;
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     return std::unique_ptr<LqrController>(new LqrController(
         StateSource(config.state, estimator),
-        StateFeedbackLaw(plant, lqr.K, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw(plant, gain, design::InputLimit(context.robot, config.input),
                          ReferenceTracker(context.period_s, config.max_accel_m_s2))));
   }
 

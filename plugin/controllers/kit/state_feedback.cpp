@@ -1,6 +1,19 @@
 #include "kit/state_feedback.hpp"
 
+#include "upright/design/weights.hpp"
+
 namespace upright::controllers {
+
+design::Gain DiscreteLqrFor(const ModuleContext& context, const CommonConfig& config,
+                            const design::LinearModel& plant) {
+  const design::GainResult lqr = design::RobotDiscreteLqr(
+      plant, design::StateWeight(config.weights),
+      design::InputWeight(config.weights, context.robot, config.input), context.period_s);
+  if (!lqr.ok()) {
+    throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete LQR design failed: " + lqr.message);
+  }
+  return lqr.K;
+}
 
 const std::vector<const char*>& StateFeedbackLaw::DiagnosticNames() {
   static const std::vector<const char*> kNames = {"pitch_est_rad", "pitch_rate_est_rad_s",

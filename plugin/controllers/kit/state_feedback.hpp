@@ -7,12 +7,19 @@
 
 #include <vector>
 
+#include "kit/config.hpp"
+#include "kit/module_context.hpp"
 #include "kit/tracking.hpp"
 #include "upright/controller_abi.h"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/synthesis.hpp"
 
 namespace upright::controllers {
+
+// The discrete LQR gain at the module's rate (zero-order hold) from the configured weights, for
+// `plant`'s input kind; throws ModuleError (UPRIGHT_UNSUPPORTED) when the design fails.
+design::Gain DiscreteLqrFor(const ModuleContext& context, const CommonConfig& config,
+                            const design::LinearModel& plant);
 
 class StateFeedbackLaw {
  public:
