@@ -3,11 +3,22 @@
 #include <algorithm>
 #include <cmath>
 
+#include "upright/model/check.hpp"
+
 namespace upright::sim {
 
 MotorOutput EvaluateMotor(const MotorModel& m, DriveMode mode, double command,
-                          double rel_speed_rad_s, double coulomb_band_rad_s) {
+                          double rel_speed_rad_s, double coulomb_band_rad_s,
+                          double torque_scale) {
+  UPRIGHT_CHECK(torque_scale >= 0 && torque_scale <= 1, "torque_scale = %g", torque_scale);
+  const double coulomb_Nm =
+      m.coulomb_friction_Nm * std::clamp(rel_speed_rad_s / coulomb_band_rad_s, -1.0, 1.0);
+  const double viscous_Nm = m.viscous_friction_Nm_s_per_rad * rel_speed_rad_s;
   MotorOutput out;
+  if (torque_scale == 0) {  // open circuit: nothing flows, only the gearbox drags
+    out.wheel_torque_Nm = -viscous_Nm - coulomb_Nm;
+    return out;
+  }
   const double back_emf_V = m.back_emf_V_s_per_rad * m.gear_ratio * rel_speed_rad_s;
   const double limit_A = m.current_limit_A;
   if (mode == DriveMode::kVoltage) {
@@ -34,11 +45,9 @@ MotorOutput EvaluateMotor(const MotorModel& m, DriveMode mode, double command,
     out.current_A = std::clamp(out.current_A, -limit_A, limit_A);
     out.voltage_V = m.resistance_ohm * out.current_A + back_emf_V;
   }
-  const double coulomb_Nm =
-      m.coulomb_friction_Nm * std::clamp(rel_speed_rad_s / coulomb_band_rad_s, -1.0, 1.0);
-  out.wheel_torque_Nm = m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A *
-                            out.current_A -
-                        m.viscous_friction_Nm_s_per_rad * rel_speed_rad_s - coulomb_Nm;
+  out.wheel_torque_Nm = torque_scale * m.gear_ratio * m.gear_efficiency *
+                            m.torque_constant_Nm_per_A * out.current_A -
+                        viscous_Nm - coulomb_Nm;
   return out;
 }
 

@@ -107,6 +107,7 @@ class PlantImpl {
     payload_stiffness_N_m_ = p.mass_kg * omega * omega;
     payload_damping_N_s_m_ = 2 * p.mass_kg * omega;
     pushes_.reserve(16);
+    motor_faults_.reserve(16);
     UpdateReadouts();
   }
 
@@ -116,7 +117,9 @@ class PlantImpl {
     for (int i : {kLeftWheelLink, kRightWheelLink}) {
       const auto side = static_cast<size_t>(i);
       motors_[side] = EvaluateMotor(model_.motor, options_.drive, command_[side],
-                                    body->getJointVel(i), coulomb_band_rad_s_);
+                                    body->getJointVel(i), coulomb_band_rad_s_,
+                                    TorqueScale(i == kLeftWheelLink ? MotorSide::kLeft
+                                                                    : MotorSide::kRight));
       body->addJointTorque(i, motors_[side].wheel_torque_Nm);
       // Rolling resistance: a torque against the wheel's absolute spin, reacted by the ground.
       const double rolling_Nm = model_.wheel.rolling_resistance *
@@ -143,6 +146,18 @@ class PlantImpl {
     return true;
   }
 
+  bool AddMotorFault(const MotorFault& fault, std::string* error) {
+    if (!fault.IsValid(error)) return false;
+    motor_faults_.push_back({fault, FirstStepAtOrAfter(fault.start_s, options_.dt_s)});
+    return true;
+  }
+
+  bool AddSensorFault(const SensorFault& fault, std::string* error) {
+    if (!fault.IsValid(error)) return false;
+    sensors_.AddFault(fault);
+    return true;
+  }
+
   void SetCommand(double left, double right) { command_ = {left, right}; }
   void SetPayloadTarget(double x_m) {
     payload_target_m_ = std::clamp(x_m, model_.payload.min_x_m, model_.payload.max_x_m);
@@ -161,6 +176,24 @@ class PlantImpl {
   ContactState contact_;
 
  private:
+  struct TimedMotorFault {
+    MotorFault fault;
+    long first_step = 0;  // the first physics step it acts on
+  };
+
+  // The torque scale of one motor for the step about to be taken: that of the latest started
+  // fault on it (the last added among equal starts), 1 when none has started.
+  double TorqueScale(MotorSide side) const {
+    const TimedMotorFault* acting = nullptr;
+    for (const TimedMotorFault& f : motor_faults_) {
+      if (step_ < f.first_step || (f.fault.side != side && f.fault.side != MotorSide::kBoth)) {
+        continue;
+      }
+      if (acting == nullptr || f.fault.start_s >= acting->fault.start_s) acting = &f;
+    }
+    return acting == nullptr ? 1.0 : acting->fault.torque_scale;
+  }
+
   void ApplyPushes() {
     const double t0 = static_cast<double>(step_) * options_.dt_s, t1 = t0 + options_.dt_s;
     btVector3 force(0, 0, 0), torque(0, 0, 0);
@@ -242,6 +275,7 @@ class PlantImpl {
 
   std::array<double, 2> command_{};
   std::vector<Push> pushes_;
+  std::vector<TimedMotorFault> motor_faults_;
   double payload_target_m_ = 0;
   double payload_stiffness_N_m_ = 0, payload_damping_N_s_m_ = 0;
   double coulomb_band_rad_s_ = 0, rolling_band_rad_s_ = 0;
@@ -273,6 +307,12 @@ Plant::~Plant() = default;
 
 void Plant::SetCommand(double left, double right) { impl_->SetCommand(left, right); }
 bool Plant::AddPush(const Push& push, std::string* error) { return impl_->AddPush(push, error); }
+bool Plant::AddMotorFault(const MotorFault& fault, std::string* error) {
+  return impl_->AddMotorFault(fault, error);
+}
+bool Plant::AddSensorFault(const SensorFault& fault, std::string* error) {
+  return impl_->AddSensorFault(fault, error);
+}
 void Plant::SetPayloadTarget(double x_m) { impl_->SetPayloadTarget(x_m); }
 void Plant::Step() { impl_->Step(); }
 double Plant::time_s() const { return impl_->truth_.time_s; }

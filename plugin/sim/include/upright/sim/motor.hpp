@@ -1,6 +1,6 @@
 // DC motor and gearbox of one wheel: a command (terminal voltage, or wheel torque through a
-// current-limited drive) and the wheel's speed relative to the chassis → current and wheel torque.
-// Armature inductance is neglected (electrical time constant ≪ the physics step).
+// current-limited drive), the wheel's speed relative to the chassis and a fault's torque scale →
+// current and wheel torque. Armature inductance is neglected (electrical time constant ≪ the step).
 #pragma once
 
 #include <string>
@@ -25,11 +25,15 @@ struct MotorOutput {
 
 // One evaluation of the motor equations:
 //   i = (V − K_e n ω_rel) / R, |V| ≤ supply, |i| ≤ current limit,
-//   τ_wheel = n η K_t i − b ω_rel − c · sat(ω_rel / coulomb_band)
+//   τ_wheel = s · n η K_t i − b ω_rel − c · sat(ω_rel / coulomb_band)
 // ω_rel: wheel speed relative to the chassis, rad/s. coulomb_band_rad_s > 0 smooths the Coulomb
-// friction's sign near zero speed (see MotorCoulombBand).
+// friction's sign near zero speed (see MotorCoulombBand). s = torque_scale in [0, 1] is a motor
+// fault (faults.hpp): for s > 0 voltage and current are those of a healthy motor and only the
+// electromagnetic torque is scaled; s = 0 is an open circuit: V = 0, i = 0 (so no back-EMF
+// braking and no power drawn), no saturation, and only the friction terms remain.
 MotorOutput EvaluateMotor(const MotorModel& motor, DriveMode mode, double command,
-                          double rel_speed_rad_s, double coulomb_band_rad_s);
+                          double rel_speed_rad_s, double coulomb_band_rad_s,
+                          double torque_scale = 1.0);
 
 // The speed band over which Coulomb friction ramps linearly from −c to +c: wide enough that the
 // explicit friction term stays stable at step dt_s on a wheel of spin inertia I, narrow enough

@@ -1,6 +1,7 @@
 // Plant: one run's physics — a fresh headless Bullet world holding the robot (chassis, two wheels,
 // optional payload), the terrain, motors and sensors. Wheel commands and pushes go in; the true
 // state, sampled sensors, motor and contact readouts come out, one fixed physics step at a time.
+// Motor and sensor faults go in like pushes, timed to the step (faults.hpp).
 #pragma once
 
 #include <array>
@@ -10,6 +11,7 @@
 #include <vector>
 
 #include "upright/model/robot_model.hpp"
+#include "upright/sim/faults.hpp"
 #include "upright/sim/motor.hpp"
 #include "upright/sim/push.hpp"
 #include "upright/sim/terrain.hpp"
@@ -97,6 +99,13 @@ class Plant {
   void SetCommand(double left, double right);
   // A push, evaluated at every step it overlaps. False (and *error) when the push is invalid.
   bool AddPush(const Push& push, std::string* error);
+  // A motor fault, acting on every step from FirstStepAtOrAfter(start_s, dt_s) on; motors()
+  // reports the faulted current, torque and power. False (and *error) when it is invalid.
+  bool AddMotorFault(const MotorFault& fault, std::string* error);
+  // A sensor fault on the samples of the states in its window (faults.hpp), seen through Sense()
+  // after the latency; one starting at 0 added before the first Step() covers the initial sample
+  // too. False (and *error) when it is invalid.
+  bool AddSensorFault(const SensorFault& fault, std::string* error);
   // Payload carriage target along the deck, body x (m); clamped to the travel limits.
   void SetPayloadTarget(double x_m);
   // Advances one physics step of PlantOptions::dt_s.
