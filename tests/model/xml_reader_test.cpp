@@ -129,6 +129,47 @@ TEST(XmlReader, ReportsTextInsideElement) {
             (std::vector<std::string>{"t.xml:1: r: unexpected text inside the element"}));
 }
 
+TEST(XmlReader, TextCollapsesWhiteSpaceAndIsNotUnexpectedOnceRead) {
+  XmlDocument doc = XmlDocument::Parse(
+      "<r>\n  <note>\n    Two\tlines\r\n    of   text &amp; more.\n  </note>\n</r>", "t.xml");
+  XmlElement note = *doc.Root().Child("note", Presence::kRequired);
+  EXPECT_EQ(note.Text(Presence::kRequired), "Two lines of text & more.");
+  doc.ReportUnread();
+  EXPECT_FALSE(doc.HasErrors()) << Texts(doc)[0];
+}
+
+TEST(XmlReader, TextIsOwnTextOnlyAndLeavesChildElementsToBeAskedFor) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <note>A <b>bold</b> claim.</note>\n</r>", "t.xml");
+  XmlElement note = *doc.Root().Child("note", Presence::kRequired);
+  EXPECT_EQ(note.Text(Presence::kRequired), "A claim.");
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc), (std::vector<std::string>{
+                            "t.xml:2: note: unknown element <b> (this element takes no child "
+                            "elements)"}));
+}
+
+TEST(XmlReader, ReportsRequiredEmptyTextAtElementLine) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <a>  \n  </a>\n  <b/>\n  <c></c>\n</r>", "t.xml");
+  XmlElement root = doc.Root();
+  EXPECT_FALSE(root.Child("a", Presence::kRequired)->Text(Presence::kRequired).has_value());
+  EXPECT_FALSE(root.Child("b", Presence::kRequired)->Text(Presence::kRequired).has_value());
+  EXPECT_FALSE(root.Child("c", Presence::kRequired)->Text(Presence::kOptional).has_value());
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{"t.xml:2: a: missing required text inside the element",
+                                      "t.xml:4: b: missing required text inside the element"}));
+}
+
+TEST(XmlReader, ReportsTextOfElementWhoseTextWasNotRead) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <a>read</a>\n  <b>not read</b>\n</r>", "t.xml");
+  XmlElement root = doc.Root();
+  EXPECT_EQ(root.Child("a", Presence::kRequired)->Text(Presence::kOptional), "read");
+  root.Child("b", Presence::kRequired);
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc),
+            (std::vector<std::string>{"t.xml:3: b: unexpected text inside the element"}));
+}
+
 TEST(XmlReader, ReportsDuplicateChildAtItsLine) {
   XmlDocument doc = XmlDocument::Parse("<r>\n  <a/>\n  <b/>\n  <a q=\"1\"/>\n</r>", "t.xml");
   XmlElement root = doc.Root();
@@ -152,6 +193,44 @@ TEST(XmlReader, ChildrenReturnsRepeatedElementsInFileOrder) {
   root.Children("f");
   doc.ReportUnread();
   EXPECT_FALSE(doc.HasErrors());
+}
+
+TEST(XmlReader, ChildrenOfSeveralNamesKeepFileOrderOnOneLineAndAcrossLines) {
+  XmlDocument doc = XmlDocument::Parse(
+      "<r>\n"
+      "  <up n=\"1\"/> <flat n=\"2\"/><up n=\"3\"/>\n"
+      "  <other/>\n"
+      "  <flat n=\"4\"/>\n"
+      "  <up n=\"5\"/>\n"
+      "</r>",
+      "t.xml");
+  XmlElement root = doc.Root();
+  constexpr std::array<std::string_view, 2> kKinds = {"up", "flat"};
+  std::vector<XmlElement> parts = root.Children(kKinds);
+  ASSERT_EQ(parts.size(), 5u);
+  const std::vector<std::string> names = {parts[0].name(), parts[1].name(), parts[2].name(),
+                                          parts[3].name(), parts[4].name()};
+  EXPECT_EQ(names, (std::vector<std::string>{"up", "flat", "up", "flat", "up"}));
+  const std::vector<int> lines = {parts[0].line(), parts[1].line(), parts[2].line(),
+                                  parts[3].line(), parts[4].line()};
+  EXPECT_EQ(lines, (std::vector<int>{2, 2, 2, 4, 5}));
+  for (std::size_t i = 0; i < parts.size(); ++i) {
+    EXPECT_EQ(parts[i].Integer("n", Presence::kRequired), static_cast<long long>(i + 1));
+  }
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc), (std::vector<std::string>{
+                            "t.xml:3: r: unknown element <other> (expected one of: up, flat)"}));
+}
+
+TEST(XmlReader, ChildrenOfSeveralNamesCountEveryNameAsAskedEvenWhenAbsent) {
+  XmlDocument doc = XmlDocument::Parse("<r>\n  <down/>\n  <x/>\n</r>", "t.xml");
+  XmlElement root = doc.Root();
+  constexpr std::array<std::string_view, 3> kKinds = {"up", "flat", "down"};
+  EXPECT_EQ(root.Children(kKinds).size(), 1u);
+  EXPECT_TRUE(root.Children("friction").empty());
+  doc.ReportUnread();
+  EXPECT_EQ(Texts(doc), (std::vector<std::string>{"t.xml:3: r: unknown element <x> (expected one "
+                                                  "of: up, flat, down, friction)"}));
 }
 
 TEST(XmlReader, ReportsMalformedXmlAtParserLine) {

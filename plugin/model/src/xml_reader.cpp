@@ -21,10 +21,14 @@ struct XmlNode {
   int line = 0;
   std::vector<std::pair<std::string, std::string>> attributes;  // in file order
   std::vector<std::size_t> children;                            // indices into XmlTree::nodes
-  bool has_text = false;                                        // text other than white space
   std::vector<std::string> asked_attributes;                    // in the order asked
   std::vector<std::string> asked_children;
   bool reached = false;  // handed to the caller, so its unread parts are worth reporting
+  // The element's own text pieces joined as written (entities replaced), whether any of it is
+  // more than white space, and whether the caller asked for it.
+  std::string text;
+  bool has_text = false;
+  bool text_read = false;
 };
 
 struct XmlTree {
@@ -43,6 +47,22 @@ namespace {
 
 using internal::XmlNode;
 using internal::XmlTree;
+
+// XML's white space characters.
+constexpr std::string_view kSpace = " \t\r\n";
+
+// `text` with every run of white space made one space, and none at either end.
+std::string CollapseSpace(std::string_view text) {
+  std::string collapsed;
+  std::size_t at = text.find_first_not_of(kSpace);
+  while (at != std::string_view::npos) {
+    const std::size_t end = std::min(text.find_first_of(kSpace, at), text.size());
+    if (!collapsed.empty()) collapsed += ' ';
+    collapsed += text.substr(at, end - at);
+    at = text.find_first_not_of(kSpace, end);
+  }
+  return collapsed;
+}
 
 void Remember(std::vector<std::string>& names, std::string_view name) {
   if (std::find(names.begin(), names.end(), name) == names.end()) names.emplace_back(name);
@@ -83,7 +103,8 @@ void Flatten(const tinyxml2::XMLElement& element, const std::string& label, XmlT
       tree.nodes[index].children.push_back(child_index);
     } else if (const tinyxml2::XMLText* text = child->ToText()) {
       const std::string_view value = text->Value();
-      if (value.find_first_not_of(" \t\r\n") != std::string_view::npos) {
+      tree.nodes[index].text += value;
+      if (value.find_first_not_of(kSpace) != std::string_view::npos) {
         tree.nodes[index].has_text = true;
       }
     }
@@ -186,7 +207,9 @@ void XmlDocument::ReportUnread() {
                             ? "(this element takes no child elements)"
                             : "(expected one of: " + JoinNames(node.asked_children) + ")"));
     }
-    if (node.has_text) tree_->Error(node.line, node.label + ": unexpected text inside the element");
+    if (node.has_text && !node.text_read) {
+      tree_->Error(node.line, node.label + ": unexpected text inside the element");
+    }
   }
 }
 
@@ -296,6 +319,17 @@ std::optional<std::size_t> XmlElement::Choice(std::string_view attribute,
   return std::nullopt;
 }
 
+std::optional<std::string> XmlElement::Text(Presence presence) {
+  XmlNode& node = tree_->nodes[index_];
+  node.text_read = true;
+  std::string text = CollapseSpace(node.text);
+  if (!text.empty()) return text;
+  if (presence == Presence::kRequired) {
+    tree_->Error(node.line, node.label + ": missing required text inside the element");
+  }
+  return std::nullopt;
+}
+
 std::optional<XmlElement> XmlElement::Child(std::string_view name, Presence presence) {
   std::vector<XmlElement> found = Children(name);
   if (found.empty()) {
@@ -314,12 +348,16 @@ std::optional<XmlElement> XmlElement::Child(std::string_view name, Presence pres
 }
 
 std::vector<XmlElement> XmlElement::Children(std::string_view name) {
+  return Children(std::span<const std::string_view>(&name, 1));
+}
+
+std::vector<XmlElement> XmlElement::Children(std::span<const std::string_view> names) {
   XmlNode& node = tree_->nodes[index_];
-  Remember(node.asked_children, name);
+  for (const std::string_view name : names) Remember(node.asked_children, name);
   std::vector<XmlElement> found;
   for (const std::size_t child_index : node.children) {
     XmlNode& child = tree_->nodes[child_index];
-    if (child.name != name) continue;
+    if (std::find(names.begin(), names.end(), child.name) == names.end()) continue;
     child.reached = true;
     found.push_back(XmlElement(tree_, child_index));
   }

@@ -1,6 +1,6 @@
-// Strict reading of XML input files (robot models, scenarios): file or text → elements and typed
-// attribute values. Every problem becomes a FileError (path:line); attributes and child elements
-// that the caller never asks for are reported as unknown, so a misspelt name cannot pass silently.
+// Strict reading of XML input files (robot models, scenarios): file or text → elements, typed
+// attribute values and element text. Every problem becomes a FileError (path:line); attributes,
+// child elements and text the caller never asks for are reported, so a misspelt name cannot pass.
 #pragma once
 
 #include <cstddef>
@@ -46,7 +46,7 @@ class XmlDocument {
   // Records a problem found by the caller (a rule across several fields, say).
   void AddError(int line, std::string message);
   // Reports, on every element the caller has reached, each attribute and child element it never
-  // asked for, and any text inside the element. Call once, after reading.
+  // asked for, and any text inside the element that it never read. Call once, after reading.
   void ReportUnread();
   bool HasErrors() const;
   // Every problem so far, ordered by line (problems not tied to a line first).
@@ -78,10 +78,18 @@ class XmlElement {
   std::optional<std::size_t> Choice(std::string_view attribute,
                                     std::span<const std::string_view> choices, Presence presence);
 
+  // The element's own text (not its child elements'), with every run of white space collapsed to
+  // one space and leading and trailing white space removed; nullopt when that leaves nothing.
+  // Marks the text as read, so ReportUnread does not call it unexpected.
+  std::optional<std::string> Text(Presence presence);
+
   // The child element called `name`; a second one is a duplicate error.
   std::optional<XmlElement> Child(std::string_view name, Presence presence);
   // Every child element called `name`, in file order, for elements that may repeat.
   std::vector<XmlElement> Children(std::string_view name);
+  // Every child element whose name is one of `names`, in file order across the names (for a
+  // sequence of mixed kinds); each name counts as asked for.
+  std::vector<XmlElement> Children(std::span<const std::string_view> names);
 
  private:
   friend class XmlDocument;
