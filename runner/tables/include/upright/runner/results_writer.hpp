@@ -1,0 +1,28 @@
+// Results folder of a batch: a BatchResult in; the tidy summary, the comparison against each
+// scenario's baseline, the ranking, one trace per traced run and the manifest out. Every file goes
+// to a temporary name first and is renamed into place, so an interrupted write never leaves a
+// half-written table.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "upright/runner/run_result.hpp"
+
+namespace upright::runner {
+
+// Writes summary.csv/.md, compare.csv/.md, ranking.csv/.md, traces/<TraceFileName>.csv (runs with
+// trace.rate_hz > 0) and, last, manifest.json into `dir`, creating it and its parents. Every file
+// but the manifest depends only on the runs' contents and order, never on timing or job count:
+// identical batches give byte-identical files. False and *error (naming the path) when the folder
+// cannot be made, two traced runs map to the same trace file, or a file cannot be written.
+bool WriteResults(const std::string& dir, const BatchResult& batch, std::string* error);
+
+// The names of the files WriteResults writes at the top of `dir`, for messages and tests.
+const std::vector<std::string>& ResultFileNames();
+
+// traces/<file name> of a run: "<scenario>__<controller>__seed<seed>.csv" with any character
+// other than [A-Za-z0-9._-] replaced by '_'.
+std::string TraceFileName(const RunResult& run);
+
+}  // namespace upright::runner

@@ -1,0 +1,77 @@
+#include "batch_groups.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+namespace upright::runner::internal {
+
+bool WasPlayed(const RunResult& run) {
+  return run.metrics.status != RunStatus::kNotRun && run.metrics.status != RunStatus::kSetupFailed;
+}
+
+double MeanOver(const std::vector<const RunResult*>& runs, double RunMetrics::*field, int* count) {
+  double sum = 0;
+  int n = 0;
+  for (const RunResult* run : runs) {
+    if (!WasPlayed(*run)) continue;
+    const double value = run->metrics.*field;
+    if (std::isnan(value)) continue;
+    sum += value;
+    ++n;
+  }
+  if (count != nullptr) *count = n;
+  return n > 0 ? sum / n : std::numeric_limits<double>::quiet_NaN();
+}
+
+double ControllerGroup::SurvivalRate() const {
+  if (runs.empty()) return std::numeric_limits<double>::quiet_NaN();
+  return static_cast<double>(survived) / static_cast<double>(runs.size());
+}
+
+const ControllerGroup* ScenarioGroup::Baseline() const {
+  for (const ControllerGroup& controller : controllers) {
+    if (controller.baseline) return &controller;
+  }
+  return nullptr;
+}
+
+std::vector<ScenarioGroup> GroupBatch(const BatchResult& batch) {
+  std::vector<ScenarioGroup> groups;
+  for (const RunResult& run : batch.runs) {
+    auto scenario = std::find_if(groups.begin(), groups.end(),
+                                 [&](const ScenarioGroup& g) { return g.name == run.scenario; });
+    if (scenario == groups.end()) {
+      ScenarioGroup group;
+      group.name = run.scenario;
+      for (const ScenarioInfo& info : batch.scenarios) {
+        if (info.name == run.scenario) {
+          group.info = &info;
+          break;
+        }
+      }
+      groups.push_back(std::move(group));
+      scenario = groups.end() - 1;
+    }
+    if (std::find(scenario->seeds.begin(), scenario->seeds.end(), run.seed) ==
+        scenario->seeds.end()) {
+      scenario->seeds.push_back(run.seed);
+    }
+    auto controller =
+        std::find_if(scenario->controllers.begin(), scenario->controllers.end(),
+                     [&](const ControllerGroup& g) { return g.name == run.controller; });
+    if (controller == scenario->controllers.end()) {
+      ControllerGroup group;
+      group.name = run.controller;
+      scenario->controllers.push_back(std::move(group));
+      controller = scenario->controllers.end() - 1;
+    }
+    controller->baseline = controller->baseline || run.baseline;
+    controller->runs.push_back(&run);
+    if (WasPlayed(run)) ++controller->played;
+    if (run.metrics.status == RunStatus::kOk) ++controller->survived;
+  }
+  return groups;
+}
+
+}  // namespace upright::runner::internal

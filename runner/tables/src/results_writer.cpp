@@ -1,0 +1,105 @@
+// WriteResults: builds each file's text from the batch, then writes them one by one, each
+// atomically; manifest.json goes last, so its presence means the folder is complete.
+#include "upright/runner/results_writer.hpp"
+
+#include <filesystem>
+#include <functional>
+#include <map>
+#include <system_error>
+#include <utility>
+
+#include "batch_groups.hpp"
+#include "compare_table.hpp"
+#include "manifest_json.hpp"
+#include "ranking_table.hpp"
+#include "summary_table.hpp"
+#include "trace_csv.hpp"
+#include "upright/runner/atomic_file.hpp"
+
+namespace upright::runner {
+namespace {
+
+bool MakeDirectory(const std::filesystem::path& path, std::string* error) {
+  std::error_code code;
+  std::filesystem::create_directories(path, code);
+  if (!code && std::filesystem::is_directory(path, code)) return true;
+  if (error != nullptr) {
+    *error = "cannot create folder " + path.string() + ": " +
+             (code ? code.message() : std::string("a file of that name is in the way"));
+  }
+  return false;
+}
+
+bool Write(const std::filesystem::path& path, const std::string& text, std::string* error) {
+  return WriteFileAtomically(path.string(), text, error);
+}
+
+}  // namespace
+
+const std::vector<std::string>& ResultFileNames() {
+  static const std::vector<std::string> kNames = {"summary.csv",  "summary.md",  "compare.csv",
+                                                  "compare.md",   "ranking.csv", "ranking.md",
+                                                  "manifest.json"};
+  return kNames;
+}
+
+std::string TraceFileName(const RunResult& run) {
+  std::string name = run.scenario + "__" + run.controller + "__seed" + std::to_string(run.seed);
+  for (char& c : name) {
+    const bool kept = (c >= 'A' && c <= 'Z') || (c >= 'a' && c <= 'z') || (c >= '0' && c <= '9') ||
+                      c == '.' || c == '_' || c == '-';
+    if (!kept) c = '_';
+  }
+  return name + ".csv";
+}
+
+bool WriteResults(const std::string& dir, const BatchResult& batch, std::string* error) {
+  const std::filesystem::path root(dir);
+
+  // Trace paths first: two runs whose names differ only in replaced characters would overwrite
+  // each other's trace.
+  std::vector<std::string> trace_files(batch.runs.size());
+  std::map<std::string, std::size_t> run_of_trace;
+  for (std::size_t i = 0; i < batch.runs.size(); ++i) {
+    const RunResult& run = batch.runs[i];
+    if (!(run.trace.rate_hz > 0)) continue;
+    trace_files[i] = "traces/" + TraceFileName(run);
+    const auto [entry, fresh] = run_of_trace.emplace(trace_files[i], i);
+    if (fresh) continue;
+    if (error != nullptr) {
+      const RunResult& other = batch.runs[entry->second];
+      *error = "cannot write " + (root / trace_files[i]).string() + ": runs " + other.scenario +
+               " / " + other.controller + " / seed " + std::to_string(other.seed) + " and " +
+               run.scenario + " / " + run.controller + " / seed " + std::to_string(run.seed) +
+               " map to the same trace file; rename one";
+    }
+    return false;
+  }
+
+  if (!MakeDirectory(root, error)) return false;
+  const std::vector<internal::ScenarioGroup> groups = internal::GroupBatch(batch);
+  const std::pair<const char*, std::function<std::string()>> tables[] = {
+      {"summary.csv", [&] { return internal::SummaryCsv(batch); }},
+      {"summary.md", [&] { return internal::SummaryMarkdown(groups); }},
+      {"compare.csv", [&] { return internal::CompareCsv(groups); }},
+      {"compare.md", [&] { return internal::CompareMarkdown(groups); }},
+      {"ranking.csv", [&] { return internal::RankingCsv(groups); }},
+      {"ranking.md", [&] { return internal::RankingMarkdown(groups); }},
+  };
+  for (const auto& [name, build] : tables) {
+    if (!Write(root / name, build(), error)) return false;
+  }
+
+  if (!run_of_trace.empty()) {
+    if (!MakeDirectory(root / "traces", error)) return false;
+    for (std::size_t i = 0; i < batch.runs.size(); ++i) {
+      if (trace_files[i].empty()) continue;
+      if (!Write(root / trace_files[i], internal::TraceCsv(batch.runs[i].trace), error)) {
+        return false;
+      }
+    }
+  }
+  return Write(root / "manifest.json", internal::ManifestJson(batch, trace_files), error);
+}
+
+}  // namespace upright::runner

@@ -1,0 +1,93 @@
+#include "trace_csv.hpp"
+
+#include <algorithm>
+#include <array>
+#include <vector>
+
+#include "text_format.hpp"
+
+namespace upright::runner::internal {
+namespace {
+
+struct TraceColumn {
+  const char* name;
+  double TraceRow::*field;
+};
+
+// In TraceRow's declaration order, named as its fields.
+constexpr std::array<TraceColumn, 27> kTraceColumns = {{
+    {"time_s", &TraceRow::time_s},
+    {"x_m", &TraceRow::x_m},
+    {"y_m", &TraceRow::y_m},
+    {"pitch_deg", &TraceRow::pitch_deg},
+    {"pitch_rate_deg_s", &TraceRow::pitch_rate_deg_s},
+    {"yaw_deg", &TraceRow::yaw_deg},
+    {"speed_m_s", &TraceRow::speed_m_s},
+    {"ref_speed_m_s", &TraceRow::ref_speed_m_s},
+    {"ref_yaw_rate_deg_s", &TraceRow::ref_yaw_rate_deg_s},
+    {"drift_m", &TraceRow::drift_m},
+    {"gyro_y_rad_s", &TraceRow::gyro_y_rad_s},
+    {"accel_x_m_s2", &TraceRow::accel_x_m_s2},
+    {"encoder_left_rad", &TraceRow::encoder_left_rad},
+    {"encoder_right_rad", &TraceRow::encoder_right_rad},
+    {"command_left", &TraceRow::command_left},
+    {"command_right", &TraceRow::command_right},
+    {"voltage_left_V", &TraceRow::voltage_left_V},
+    {"voltage_right_V", &TraceRow::voltage_right_V},
+    {"current_left_A", &TraceRow::current_left_A},
+    {"current_right_A", &TraceRow::current_right_A},
+    {"torque_left_Nm", &TraceRow::torque_left_Nm},
+    {"torque_right_Nm", &TraceRow::torque_right_Nm},
+    {"load_left_N", &TraceRow::load_left_N},
+    {"load_right_N", &TraceRow::load_right_N},
+    {"slip_left", &TraceRow::slip_left},
+    {"slip_right", &TraceRow::slip_right},
+    {"payload_x_m", &TraceRow::payload_x_m},
+}};
+
+// A struct of doubles only: a field added to TraceRow without a column here fails to compile.
+static_assert(sizeof(TraceRow) == kTraceColumns.size() * sizeof(double),
+              "every TraceRow field needs a column in kTraceColumns");
+
+}  // namespace
+
+std::string TraceCsv(const Trace& trace) {
+  std::string csv;
+  // About 10 characters per number: one allocation for the whole trace in the usual case.
+  csv.reserve((trace.rows.size() + 1) * (kTraceColumns.size() * 10 + 8));
+  for (const TraceColumn& column : kTraceColumns) {
+    csv += column.name;
+    csv += ',';
+  }
+  csv += "event\n";
+
+  // Marks in time order (stable, so equal times keep their order).
+  std::vector<const EventMark*> marks;
+  marks.reserve(trace.marks.size());
+  for (const EventMark& mark : trace.marks) marks.push_back(&mark);
+  std::stable_sort(marks.begin(), marks.end(),
+                   [](const EventMark* a, const EventMark* b) { return a->time_s < b->time_s; });
+
+  std::size_t next_mark = 0;
+  std::string labels;
+  for (std::size_t r = 0; r < trace.rows.size(); ++r) {
+    const TraceRow& row = trace.rows[r];
+    for (const TraceColumn& column : kTraceColumns) {
+      AppendNumber(&csv, row.*column.field);
+      csv += ',';
+    }
+    const bool last = r + 1 == trace.rows.size();
+    labels.clear();
+    while (next_mark < marks.size() &&
+           (last || marks[next_mark]->time_s < trace.rows[r + 1].time_s)) {
+      if (!labels.empty()) labels += "; ";
+      labels += marks[next_mark]->label;
+      ++next_mark;
+    }
+    AppendCsvField(&csv, labels);
+    csv += '\n';
+  }
+  return csv;
+}
+
+}  // namespace upright::runner::internal

@@ -1,0 +1,104 @@
+#include "upright/runner/metric_settings.hpp"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <limits>
+#include <string>
+#include <utility>
+
+#include "upright/runner/run_metrics.hpp"
+
+namespace upright::runner {
+namespace {
+
+TEST(MetricSettings, DefaultsAreValid) {
+  std::string error;
+  EXPECT_TRUE(MetricSettings{}.IsValid(&error)) << error;
+}
+
+TEST(MetricSettings, RejectsZeroWindowNamingFieldValueAndRule) {
+  MetricSettings s;
+  s.window_s = 0;
+  std::string error;
+  EXPECT_FALSE(s.IsValid(&error));
+  EXPECT_EQ(error, "MetricSettings::window_s = 0, must be > 0");
+}
+
+TEST(MetricSettings, RejectsEachBrokenRule) {
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  const double inf = std::numeric_limits<double>::infinity();
+  struct Case {
+    void (*set)(MetricSettings*);
+    const char* message;
+  };
+  const Case cases[] = {
+      {[](MetricSettings* s) { s->fall_tilt_deg = 0; },
+       "MetricSettings::fall_tilt_deg = 0, must be in (0, 90]"},
+      {[](MetricSettings* s) { s->fall_tilt_deg = 91; },
+       "MetricSettings::fall_tilt_deg = 91, must be in (0, 90]"},
+      {[](MetricSettings* s) { s->tilt_band_deg = -1; },
+       "MetricSettings::tilt_band_deg = -1, must be > 0"},
+      {[](MetricSettings* s) { s->drift_band_m = 0; },
+       "MetricSettings::drift_band_m = 0, must be > 0"},
+      {[](MetricSettings* s) { s->window_s = -2; }, "MetricSettings::window_s = -2, must be > 0"},
+      {[](MetricSettings* s) { s->slip_threshold = 0; },
+       "MetricSettings::slip_threshold = 0, must be in (0, 1]"},
+      {[](MetricSettings* s) { s->slip_threshold = 1.5; },
+       "MetricSettings::slip_threshold = 1.5, must be in (0, 1]"},
+  };
+  for (const Case& c : cases) {
+    MetricSettings s;
+    c.set(&s);
+    std::string error;
+    EXPECT_FALSE(s.IsValid(&error)) << c.message;
+    EXPECT_EQ(error, c.message);
+  }
+  MetricSettings s;
+  s.window_s = nan;
+  EXPECT_FALSE(s.IsValid(nullptr));
+  s = MetricSettings{};
+  s.window_s = inf;
+  std::string error;
+  EXPECT_FALSE(s.IsValid(&error));
+  EXPECT_EQ(error, "MetricSettings::window_s = inf, must be finite");
+  s = MetricSettings{};
+  s.fall_tilt_deg = 90;  // the closed end of (0, 90]
+  s.slip_threshold = 1;  // the closed end of (0, 1]
+  EXPECT_TRUE(s.IsValid(&error)) << error;
+}
+
+TEST(RunStatus, StringsRoundTrip) {
+  const std::pair<RunStatus, const char*> names[] = {
+      {RunStatus::kNotRun, "not_run"},
+      {RunStatus::kOk, "ok"},
+      {RunStatus::kFell, "fell"},
+      {RunStatus::kControllerFault, "controller_fault"},
+      {RunStatus::kNumericFailure, "numeric_failure"},
+      {RunStatus::kSetupFailed, "setup_failed"},
+  };
+  for (const auto& [status, name] : names) {
+    EXPECT_STREQ(ToString(status), name);
+    RunStatus parsed = RunStatus::kNotRun;
+    EXPECT_TRUE(FromString(name, &parsed)) << name;
+    EXPECT_EQ(parsed, status);
+  }
+}
+
+TEST(RunStatus, RejectsUnknownText) {
+  RunStatus parsed = RunStatus::kOk;
+  EXPECT_FALSE(FromString("OK", &parsed));
+  EXPECT_FALSE(FromString("", &parsed));
+  EXPECT_EQ(parsed, RunStatus::kOk);
+}
+
+TEST(RunMetrics, StartsNotRun) {
+  const RunMetrics m;
+  EXPECT_EQ(m.status, RunStatus::kNotRun);
+  EXPECT_EQ(m.message, "not run");
+  EXPECT_TRUE(std::isnan(m.fall_time_s));
+  EXPECT_TRUE(std::isnan(m.tilt_settle_s));
+}
+
+}  // namespace
+}  // namespace upright::runner

@@ -1,0 +1,587 @@
+#include "upright/runner/results_writer.hpp"
+
+#include <gtest/gtest.h>
+#include <unistd.h>
+
+#include <cmath>
+#include <filesystem>
+#include <fstream>
+#include <limits>
+#include <map>
+#include <sstream>
+#include <string>
+#include <vector>
+
+namespace upright::runner {
+namespace {
+
+namespace fs = std::filesystem;
+
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+// The figures a test run sets; the rest take fixed values (see MakeRun). Values are invented demo
+// data, chosen as binary fractions so means come out exact.
+struct Figures {
+  double tilt_deg, drift_m, tilt_settle_s, drift_settle_s, rms_tilt_deg, effort, current_A,
+      saturation, energy_J;
+};
+
+RunResult MakeRun(const std::string& scenario, const std::string& controller, std::uint64_t seed,
+                  bool baseline, RunStatus status, const Figures& f) {
+  RunResult run;
+  run.scenario = scenario;
+  run.controller = controller;
+  run.seed = seed;
+  run.baseline = baseline;
+  RunMetrics& m = run.metrics;
+  m.status = status;
+  m.message = status == RunStatus::kOk ? "survived" : "fell";
+  m.end_time_s = 5;
+  m.max_tilt_deg = f.tilt_deg;
+  m.max_drift_m = f.drift_m;
+  m.tilt_settle_s = f.tilt_settle_s;
+  m.drift_settle_s = f.drift_settle_s;
+  m.tilt_overshoot_pct = 10;
+  m.rms_tilt_deg = f.rms_tilt_deg;
+  m.iae_tilt_deg_s = 1;
+  m.effort_Nm2s = f.effort;
+  m.peak_torque_Nm = 2;
+  m.peak_current_A = f.current_A;
+  m.saturation_frac = f.saturation;
+  m.max_slip_ratio = 0;
+  m.slip_time_s = 0;
+  m.energy_J = f.energy_J;
+  run.steps = 5000;
+  run.wall_s = 0.25;
+  return run;
+}
+
+ScenarioInfo MakeInfo(const std::string& name, std::vector<std::string> controllers) {
+  ScenarioInfo info;
+  info.name = name;
+  info.path = "scenarios/" + name + ".xml";
+  info.sha256 = std::string(64, 'a');
+  info.model_name = "demo_bot";
+  info.model_path = "models/demo_bot.xml";
+  info.model_sha256 = std::string(64, 'b');
+  info.dt_s = 0.001;
+  info.duration_s = 5;
+  info.controllers = std::move(controllers);
+  info.baseline = "lqr";
+  info.seeds = {1, 2};
+  return info;
+}
+
+// Two scenarios; "ramp" runs lqr (baseline), hinf and pid, "shove" runs lqr and hinf; seeds 1, 2.
+// pid falls on ramp seed 1; hinf's drift does not settle on ramp seed 1; ramp/lqr/seed 1 has a
+// trace with marks.
+BatchResult MakeBatch() {
+  BatchResult batch;
+  batch.tool_version = "0.1.0-test";
+  batch.jobs = 2;
+  batch.trace_rate_hz = 100;
+  batch.wall_s = 1.5;
+  batch.scenarios = {MakeInfo("ramp", {"lqr", "hinf", "pid"}), MakeInfo("shove", {"lqr", "hinf"})};
+
+  const RunStatus ok = RunStatus::kOk;
+  //                         tilt  drift  t_set d_set  rms    effort cur   sat     energy
+  batch.runs.push_back(MakeRun("ramp", "lqr", 1, true, ok, {2, 0.125, 1, 2, 0.5, 10, 4, 0, 20}));
+  batch.runs.push_back(
+      MakeRun("ramp", "lqr", 2, true, ok, {4, 0.375, 2, 3, 0.75, 14, 6, 0.125, 24}));
+  batch.runs.push_back(
+      MakeRun("ramp", "hinf", 1, false, ok, {1.5, 0.25, 1, kNaN, 0.5, 15, 5, 0.0625, 25}));
+  batch.runs.push_back(
+      MakeRun("ramp", "hinf", 2, false, ok, {1.5, 0.25, 1, 4, 0.5, 15, 5.02, 0.0625, 25}));
+  batch.runs.push_back(MakeRun("ramp", "pid", 1, false, RunStatus::kFell,
+                               {45, 0.75, kNaN, kNaN, 10, 30, 12, 0.375, 30}));
+  batch.runs.push_back(MakeRun("ramp", "pid", 2, false, ok, {6, 0.5, 3, 3, 1, 20, 8, 0.125, 26}));
+  for (std::uint64_t seed : {1, 2}) {
+    batch.runs.push_back(MakeRun("shove", "lqr", seed, true, ok, {2, 0.5, 1, 2, 0.5, 8, 4, 0, 16}));
+  }
+  for (std::uint64_t seed : {1, 2}) {
+    batch.runs.push_back(
+        MakeRun("shove", "hinf", seed, false, ok, {3, 0.5, 1, 2, 0.5, 8, 4, 0, 16}));
+  }
+  for (RunResult& run : batch.runs) {
+    if (run.controller == "hinf") run.metrics.tilt_overshoot_pct = kNaN;  // never applies
+  }
+
+  RunResult& fell = batch.runs[4];
+  fell.metrics.fall_time_s = 3.25;
+  fell.metrics.end_time_s = 3.25;
+  fell.metrics.message = "tilt 45.2 deg, \"hard\" fall\nat 3.25 s";
+  for (std::uint64_t i : {4, 5}) {
+    batch.runs[i].metrics.max_slip_ratio = 0.5;
+    batch.runs[i].metrics.slip_time_s = 0.25;
+  }
+
+  Trace& trace = batch.runs[0].trace;
+  trace.rate_hz = 100;
+  for (int i = 0; i < 4; ++i) {
+    TraceRow row;
+    row.time_s = 0.01 * i;
+    row.pitch_deg = 1.23456789 * i;
+    row.payload_x_m = -0.5;
+    trace.rows.push_back(row);
+  }
+  trace.rows[2].speed_m_s = kNaN;
+  trace.marks = {
+      {0.0, "start"}, {0.015, "push 120 N, \"half-sine\""}, {0.015, "second"}, {0.5, "fall"}};
+  return batch;
+}
+
+std::string Read(const fs::path& path) {
+  std::ifstream file(path, std::ios::binary);
+  std::stringstream text;
+  text << file.rdbuf();
+  return text.str();
+}
+
+std::vector<std::string> Lines(const std::string& text) {
+  std::vector<std::string> lines;
+  std::stringstream stream(text);
+  std::string line;
+  while (std::getline(stream, line)) lines.push_back(line);
+  return lines;
+}
+
+// Splits one CSV record without quoted fields.
+std::vector<std::string> Cells(const std::string& line) {
+  std::vector<std::string> cells;
+  std::string cell;
+  std::stringstream stream(line);
+  while (std::getline(stream, cell, ',')) cells.push_back(cell);
+  if (!line.empty() && line.back() == ',') cells.push_back("");
+  return cells;
+}
+
+// The compare.csv record for (scenario, controller, metric), or "" when missing.
+std::string CompareRecord(const std::string& csv, const std::string& scenario,
+                          const std::string& controller, const std::string& metric) {
+  for (const std::string& line : Lines(csv)) {
+    const std::vector<std::string> cells = Cells(line);
+    if (cells.size() >= 4 && cells[0] == scenario && cells[2] == controller && cells[3] == metric) {
+      return line;
+    }
+  }
+  return "";
+}
+
+class ResultsWriter : public ::testing::Test {
+ protected:
+  void SetUp() override {
+    root_ =
+        fs::temp_directory_path() / ("upright_results_writer_test_" + std::to_string(::getpid()));
+    fs::remove_all(root_);
+  }
+  void TearDown() override { fs::remove_all(root_); }
+
+  // Writes `batch` into root_/name and returns the folder.
+  fs::path WriteInto(const std::string& name, const BatchResult& batch) {
+    const fs::path dir = root_ / name / "nested";
+    std::string error;
+    EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+    return dir;
+  }
+
+  fs::path root_;
+};
+
+TEST_F(ResultsWriter, WritesEveryFileAndNoTemporary) {
+  const fs::path dir = WriteInto("a", MakeBatch());
+  for (const std::string& name : ResultFileNames()) {
+    EXPECT_TRUE(fs::is_regular_file(dir / name)) << name;
+  }
+  EXPECT_EQ(ResultFileNames().size(), 7u);
+  EXPECT_TRUE(fs::is_regular_file(dir / "traces" / "ramp__lqr__seed1.csv"));
+  int traces = 0;
+  for (const auto& entry : fs::recursive_directory_iterator(dir)) {
+    EXPECT_EQ(entry.path().filename().string().find(".tmp."), std::string::npos) << entry.path();
+    if (entry.path().parent_path().filename() == "traces") ++traces;
+  }
+  EXPECT_EQ(traces, 1);  // only the run with a trace rate
+}
+
+TEST_F(ResultsWriter, SummaryCsvHasOneRowPerRunWithExactCells) {
+  const std::string csv = Read(WriteInto("a", MakeBatch()) / "summary.csv");
+  const std::vector<std::string> lines = Lines(csv);
+  EXPECT_EQ(lines[0],
+            "scenario,controller,seed,baseline,status,survived,fall_time_s,max_tilt_deg,"
+            "max_drift_m,tilt_settle_s,drift_settle_s,tilt_overshoot_pct,rms_tilt_deg,"
+            "iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,saturation_frac,"
+            "max_slip_ratio,slip_time_s,energy_J,end_time_s,message");
+  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,1,,2,0.125,1,2,10,0.5,1,10,2,4,0,0,0,20,5,survived");
+  // hinf seed 1: the unsettled drift and the inapplicable overshoot are empty fields.
+  EXPECT_EQ(lines[3], "ramp,hinf,1,false,ok,1,,1.5,0.25,1,,,0.5,1,15,2,5,0.0625,0,0,25,5,survived");
+  // The fall: status, survived 0, fall time; the message quoted per RFC 4180 (comma, doubled
+  // quotes, a line break inside the quotes), so this record spans two lines.
+  EXPECT_EQ(lines[5] + "\n" + lines[6],
+            "ramp,pid,1,false,fell,0,3.25,45,0.75,,,10,10,1,30,2,12,0.375,0.5,0.25,30,3.25,"
+            "\"tilt 45.2 deg, \"\"hard\"\" fall\nat 3.25 s\"");
+  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,1,,3,0.5,1,2,,0.5,1,8,2,4,0,0,0,16,5,survived");
+  EXPECT_EQ(lines.size(), 12u);  // header + 10 runs, one of them on two lines
+}
+
+TEST_F(ResultsWriter, NumbersUseSixSignificantDigitsWithoutLocale) {
+  BatchResult batch = MakeBatch();
+  batch.runs[1].metrics.max_tilt_deg = 3.14159265358979;
+  batch.runs[1].metrics.energy_J = 1234567.89;
+  batch.runs[1].metrics.effort_Nm2s = 0.000012345678;
+  batch.runs[1].metrics.peak_torque_Nm = -0.0;
+  const std::vector<std::string> cells =
+      Cells(Lines(Read(WriteInto("a", batch) / "summary.csv"))[2]);
+  // printf("%.6g") of each value (C standard §7.21.6.1, the g conversion).
+  EXPECT_EQ(cells[7], "3.14159");
+  EXPECT_EQ(cells[20], "1.23457e+06");
+  EXPECT_EQ(cells[14], "1.23457e-05");
+  EXPECT_EQ(cells[15], "0");
+}
+
+TEST_F(ResultsWriter, SummaryMarkdownShowsMeansOverSeeds) {
+  const std::string md = Read(WriteInto("a", MakeBatch()) / "summary.md");
+  EXPECT_NE(md.find("## ramp\n\nRobot: demo_bot · baseline: lqr · seeds: 1, 2\n"),
+            std::string::npos)
+      << md;
+  EXPECT_NE(md.find("| controller | survived | max tilt (deg) | max drift (m) | tilt settle (s) | "
+                    "drift settle (s) | tilt overshoot (%) | RMS tilt (deg) | effort (N²m²s) | "
+                    "peak current (A) | saturation (%) | max slip ratio | energy (J) |"),
+            std::string::npos)
+      << md;
+  // Means of the two seeds, 3 significant digits: tilt (2+4)/2, drift (0.125+0.375)/2, ...
+  EXPECT_NE(md.find("| lqr (baseline) | 2/2 | 3.00 | 0.250 | 1.50 | 2.50 | 10.0 | 0.625 | 12.0 | "
+                    "5.00 | 6.25 | 0 | 22.0 |"),
+            std::string::npos)
+      << md;
+  // hinf's drift settled in one seed of two: that seed's time with the "*" marker; overshoot
+  // never applied: "—".
+  EXPECT_NE(md.find("| hinf | 2/2 | 1.50 | 0.250 | 1.00 | 4.00* | — | 0.500 | 15.0 | 5.01 | 6.25 | "
+                    "0 | 25.0 |"),
+            std::string::npos)
+      << md;
+  // pid fell in seed 1: 1/2 survived; its settling times are those of seed 2 alone, marked.
+  EXPECT_NE(md.find("| pid | 1/2 | 25.5 | 0.625 | 3.00* | 3.00* | 10.0 | 5.50 | 25.0 | 10.0 | "
+                    "25.0 | 0.500 | 28.0 |"),
+            std::string::npos)
+      << md;
+  EXPECT_NE(md.find("— : no run gave a value"), std::string::npos);
+  EXPECT_NE(md.find("* : mean over the runs that settled"), std::string::npos);
+}
+
+TEST_F(ResultsWriter, ComparePercentagesAndVerdictsAgainstBaseline) {
+  const std::string csv = Read(WriteInto("a", MakeBatch()) / "compare.csv");
+  EXPECT_EQ(Lines(csv)[0],
+            "scenario,baseline,controller,metric,better_when,baseline_mean,controller_mean,"
+            "diff_pct,verdict");
+  // Worked by hand from the means: (c − b) / |b| · 100.
+  // (1.5 − 3) / 3 = −50 %: lower tilt is better.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "max_tilt_deg"),
+            "ramp,lqr,hinf,max_tilt_deg,lower,3,1.5,-50,better");
+  // (1 − 1.5) / 1.5 = −33.333 %.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "tilt_settle_s"),
+            "ramp,lqr,hinf,tilt_settle_s,lower,1.5,1,-33.3333,better");
+  // Mean over the settled seed only: (4 − 2.5) / 2.5 = +60 %.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "drift_settle_s"),
+            "ramp,lqr,hinf,drift_settle_s,lower,2.5,4,60,worse");
+  // (25 − 22) / 22 = +13.636 %.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "energy_J"),
+            "ramp,lqr,hinf,energy_J,lower,22,25,13.6364,worse");
+  // (5.01 − 5) / 5 = +0.2 %: inside the 0.5 % band, so the same.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "peak_current_A"),
+            "ramp,lqr,hinf,peak_current_A,lower,5,5.01,0.2,same");
+  // Exactly equal means.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "max_drift_m"),
+            "ramp,lqr,hinf,max_drift_m,lower,0.25,0.25,0,same");
+  // Missing controller mean, and a zero baseline: n/a with no percentage.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "tilt_overshoot_pct"),
+            "ramp,lqr,hinf,tilt_overshoot_pct,lower,10,,,n/a");
+  EXPECT_EQ(CompareRecord(csv, "ramp", "pid", "max_slip_ratio"),
+            "ramp,lqr,pid,max_slip_ratio,lower,0,0.5,,n/a");
+  // Survival is better when higher: (0.5 − 1) / 1 = −50 %.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "pid", "survival_rate"),
+            "ramp,lqr,pid,survival_rate,higher,1,0.5,-50,worse");
+  // (3 − 2) / 2 = +50 % in the other scenario.
+  EXPECT_EQ(CompareRecord(csv, "shove", "hinf", "max_tilt_deg"),
+            "shove,lqr,hinf,max_tilt_deg,lower,2,3,50,worse");
+  // The baseline is not compared with itself, and pid did not run in shove.
+  EXPECT_EQ(CompareRecord(csv, "ramp", "lqr", "max_tilt_deg"), "");
+  EXPECT_EQ(CompareRecord(csv, "shove", "pid", "max_tilt_deg"), "");
+  // 2 comparisons in ramp + 1 in shove, each survival + 14 figures, + header.
+  EXPECT_EQ(Lines(csv).size(), 3u * 15u + 1u);
+
+  const std::string md = Read(WriteInto("b", MakeBatch()) / "compare.md");
+  EXPECT_NE(md.find("| metric | lqr (baseline) | hinf | pid |"), std::string::npos) << md;
+  EXPECT_NE(md.find("| max tilt (deg) | 3.00 | 1.50 (-50.0 %) ✔ better | 25.5 (+750 %) ✘ worse |"),
+            std::string::npos)
+      << md;
+  EXPECT_NE(md.find("| survival (%) | 100 | 100 (0 %) ≈ same | 50.0 (-50.0 %) ✘ worse |"),
+            std::string::npos)
+      << md;
+  EXPECT_NE(md.find("| tilt overshoot (%) | 10.0 | — n/a | 10.0 (0 %) ≈ same |"), std::string::npos)
+      << md;
+}
+
+// Per-scenario score by the rule in ranking.md: Σ w · mean / best mean over Σ w, weights max tilt
+// 2, max drift 1, tilt settle 1, RMS tilt 1, drift settle 0.5, effort 0.5, peak current 0.5,
+// saturation 0.5, energy 0.5. Each term below is mean / best, worked by hand from MakeBatch.
+double Score(const std::vector<std::pair<double, double>>& weighted_ratios) {
+  double sum = 0, weights = 0;
+  for (const auto& [weight, ratio] : weighted_ratios) {
+    sum += weight * ratio;
+    weights += weight;
+  }
+  return sum / weights;
+}
+
+TEST_F(ResultsWriter, RankingOrderAndScoresWorkedByHand) {
+  // ramp: unsettled tilt counts 2 × 3 s (pid seed 2, the longest) = 6 s; unsettled drift
+  // 2 × 4 s = 8 s (hinf seed 2).
+  // Means:      tilt   drift  t_set        rms    d_set        effort cur   sat     energy
+  //   lqr       3      0.25   1.5          0.625  2.5          12     5     0.0625  22
+  //   hinf      1.5    0.25   1            0.5    (8+4)/2=6    15     5.01  0.0625  25
+  //   pid       25.5   0.625  (6+3)/2=4.5  5.5    (8+3)/2=5.5  25     10    0.25    28
+  const double lqr_ramp = Score({{2, 3 / 1.5},
+                                 {1, 1},
+                                 {1, 1.5 / 1},
+                                 {1, 0.625 / 0.5},
+                                 {0.5, 1},
+                                 {0.5, 1},
+                                 {0.5, 1},
+                                 {0.5, 1},
+                                 {0.5, 1}});
+  const double hinf_ramp = Score({{2, 1},
+                                  {1, 1},
+                                  {1, 1},
+                                  {1, 1},
+                                  {0.5, 6 / 2.5},
+                                  {0.5, 15.0 / 12},
+                                  {0.5, 5.01 / 5},
+                                  {0.5, 1},
+                                  {0.5, 25.0 / 22}});
+  const double pid_ramp = Score({{2, 25.5 / 1.5},
+                                 {1, 0.625 / 0.25},
+                                 {1, 4.5 / 1},
+                                 {1, 5.5 / 0.5},
+                                 {0.5, 5.5 / 2.5},
+                                 {0.5, 25.0 / 12},
+                                 {0.5, 10.0 / 5},
+                                 {0.5, 0.25 / 0.0625},
+                                 {0.5, 28.0 / 22}});
+  // shove: every saturation is 0, so no smallest positive mean: the figure is left out.
+  const double lqr_shove =
+      Score({{2, 1}, {1, 1}, {1, 1}, {1, 1}, {0.5, 1}, {0.5, 1}, {0.5, 1}, {0.5, 1}});
+  const double hinf_shove =
+      Score({{2, 3.0 / 2}, {1, 1}, {1, 1}, {1, 1}, {0.5, 1}, {0.5, 1}, {0.5, 1}, {0.5, 1}});
+  const double lqr = (lqr_ramp + lqr_shove) / 2;     // 1.18333
+  const double hinf = (hinf_ramp + hinf_shove) / 2;  // 1.13104
+  ASSERT_LT(hinf, lqr);
+  ASSERT_LT(hinf_ramp, lqr_ramp);
+  ASSERT_LT(lqr_shove, hinf_shove);
+
+  const std::vector<std::string> lines = Lines(Read(WriteInto("a", MakeBatch()) / "ranking.csv"));
+  ASSERT_EQ(lines.size(), 4u);
+  EXPECT_EQ(lines[0],
+            "rank,controller,survival_rate,survived,runs,score,scenarios_scored,"
+            "rank_ramp,rank_shove");
+  // Both survive everything: hinf's lower score first. pid fell once: last, whatever its score;
+  // it did not run in shove, so has no rank there and is scored on ramp alone.
+  const std::vector<std::string> hinf_row = Cells(lines[1]);
+  const std::vector<std::string> lqr_row = Cells(lines[2]);
+  const std::vector<std::string> pid_row = Cells(lines[3]);
+  ASSERT_EQ(hinf_row.size(), 9u);
+  ASSERT_EQ(pid_row.size(), 9u);
+  EXPECT_EQ(hinf_row[1], "hinf");
+  EXPECT_EQ(lqr_row[1], "lqr");
+  EXPECT_EQ(pid_row[1], "pid");
+  EXPECT_EQ(lines[1].substr(0, 13), "1,hinf,1,4,4,");
+  EXPECT_EQ(lines[3].substr(0, 14), "3,pid,0.5,1,2,");
+  // Scores print with 6 significant digits: relative tolerance 1e-5.
+  EXPECT_NEAR(std::stod(hinf_row[5]), hinf, 1e-5 * hinf);
+  EXPECT_NEAR(std::stod(lqr_row[5]), lqr, 1e-5 * lqr);
+  EXPECT_NEAR(std::stod(pid_row[5]), pid_ramp, 1e-5 * pid_ramp);
+  // Per-scenario ranks: ramp hinf, lqr, pid; shove lqr, hinf.
+  EXPECT_EQ(hinf_row[6] + " " + hinf_row[7] + " " + hinf_row[8], "2 1 2");
+  EXPECT_EQ(lqr_row[6] + " " + lqr_row[7] + " " + lqr_row[8], "2 2 1");
+  EXPECT_EQ(pid_row[6] + " " + pid_row[7] + " [" + pid_row[8] + "]", "1 3 []");
+
+  const std::string md = Read(WriteInto("b", MakeBatch()) / "ranking.md");
+  EXPECT_NE(md.find("| rank | controller | survived | score | ramp | shove |"), std::string::npos);
+  EXPECT_NE(md.find("| 3 | pid | 1/2 |"), std::string::npos) << md;
+  EXPECT_NE(md.find(" | 3 | — |\n"), std::string::npos) << md;
+  EXPECT_NE(md.find("max tilt 2, max drift 1, tilt settle 1, RMS tilt 1, drift settle 0.5"),
+            std::string::npos)
+      << md;
+}
+
+TEST_F(ResultsWriter, RankingPutsSurvivalFirstThenScoreThenName) {
+  // "risky" has the better figures but falls once; "zeta" and "alpha" have identical figures.
+  BatchResult batch;
+  const Figures good{1, 0.25, 1, 1, 0.5, 5, 2, 0, 10};
+  const Figures plain{2, 0.5, 2, 2, 1, 10, 4, 0, 20};
+  for (std::uint64_t seed : {1, 2}) {
+    batch.runs.push_back(MakeRun("s", "zeta", seed, true, RunStatus::kOk, plain));
+  }
+  batch.runs.push_back(MakeRun("s", "risky", 1, false, RunStatus::kFell, good));
+  batch.runs.push_back(MakeRun("s", "risky", 2, false, RunStatus::kOk, good));
+  for (std::uint64_t seed : {1, 2}) {
+    batch.runs.push_back(MakeRun("s", "alpha", seed, false, RunStatus::kOk, plain));
+  }
+  const std::vector<std::string> lines = Lines(Read(WriteInto("a", batch) / "ranking.csv"));
+  ASSERT_EQ(lines.size(), 4u);
+  EXPECT_EQ(Cells(lines[1])[1], "alpha");
+  EXPECT_EQ(Cells(lines[2])[1], "zeta");
+  EXPECT_EQ(Cells(lines[3])[1], "risky");
+  // risky's mean is the smallest of every figure, the others' twice as large (all saturations
+  // are 0, so that figure is left out): scores 1 and 2. Only the fall puts risky last.
+  EXPECT_EQ(Cells(lines[3])[5], "1");
+  EXPECT_EQ(Cells(lines[1])[5], "2");
+  EXPECT_EQ(Cells(lines[2])[5], "2");
+}
+
+TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
+  // Seed 2's set-up failed: its figures are only defaults (0) and stay out of the means, but the
+  // run counts among the runs that did not survive.
+  BatchResult batch;
+  batch.runs.push_back(
+      MakeRun("s", "a", 1, true, RunStatus::kOk, {2, 0.25, 1, 1, 0.5, 10, 4, 0, 20}));
+  RunResult failed;
+  failed.scenario = "s";
+  failed.controller = "a";
+  failed.seed = 2;
+  failed.baseline = true;
+  failed.metrics.status = RunStatus::kSetupFailed;
+  failed.metrics.message = "module not found";
+  batch.runs.push_back(failed);
+  const fs::path dir = WriteInto("a", batch);
+  const std::string md = Read(dir / "summary.md");
+  EXPECT_NE(md.find("| a (baseline) | 1/2 | 2.00 | 0.250 | 1.00 | 1.00 | 10.0 | 0.500 | 10.0 | "
+                    "4.00 | 0 | 0 | 20.0 |"),
+            std::string::npos)
+      << md;
+  EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2],
+            "s,a,2,true,setup_failed,0,,0,0,,,,0,0,0,0,0,0,0,0,0,0,module not found");
+  EXPECT_EQ(Lines(Read(dir / "ranking.csv"))[1].substr(0, 14), "1,a,0.5,1,2,1,");
+}
+
+TEST_F(ResultsWriter, TraceHasFieldColumnsAndEventLabels) {
+  const std::string csv = Read(WriteInto("a", MakeBatch()) / "traces" / "ramp__lqr__seed1.csv");
+  const std::vector<std::string> lines = Lines(csv);
+  ASSERT_EQ(lines.size(), 5u);
+  EXPECT_EQ(lines[0],
+            "time_s,x_m,y_m,pitch_deg,pitch_rate_deg_s,yaw_deg,speed_m_s,ref_speed_m_s,"
+            "ref_yaw_rate_deg_s,drift_m,gyro_y_rad_s,accel_x_m_s2,encoder_left_rad,"
+            "encoder_right_rad,command_left,command_right,voltage_left_V,voltage_right_V,"
+            "current_left_A,current_right_A,torque_left_Nm,torque_right_Nm,load_left_N,"
+            "load_right_N,slip_left,slip_right,payload_x_m,event");
+  EXPECT_EQ(lines[1], "0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,start");
+  // Both marks at 0.015 s lie in [0.01, 0.02): joined with "; ", quoted for the comma and quotes.
+  EXPECT_EQ(lines[2],
+            "0.01,0,0,1.23457,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,"
+            "\"push 120 N, \"\"half-sine\"\"; second\"");
+  // NaN speed: an empty field; no mark in [0.02, 0.03).
+  EXPECT_EQ(lines[3], "0.02,0,0,2.46914,0,0,,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,");
+  // The mark after the last row belongs to the last row.
+  EXPECT_EQ(lines[4], "0.03,0,0,3.7037,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,fall");
+}
+
+TEST_F(ResultsWriter, TraceFileNameReplacesUnsafeCharacters) {
+  RunResult run;
+  run.scenario = "wet ramp";
+  run.controller = "pd/v2:fast";
+  run.seed = 42;
+  EXPECT_EQ(TraceFileName(run), "wet_ramp__pd_v2_fast__seed42.csv");
+}
+
+TEST_F(ResultsWriter, ClashingTraceNamesAreRefused) {
+  BatchResult batch = MakeBatch();
+  batch.runs[1].trace.rate_hz = 100;
+  batch.runs[1].seed = 1;
+  batch.runs[1].controller = "lqr";  // same scenario, controller and seed as run 0
+  std::string error;
+  EXPECT_FALSE(WriteResults((root_ / "a").string(), batch, &error));
+  EXPECT_NE(error.find("ramp__lqr__seed1.csv"), std::string::npos) << error;
+}
+
+TEST_F(ResultsWriter, WritingTwiceGivesIdenticalTablesAndTraces) {
+  const BatchResult first = MakeBatch();
+  BatchResult second = MakeBatch();
+  // Timing and job count reach the manifest only.
+  second.jobs = 1;
+  second.wall_s = 9.75;
+  for (RunResult& run : second.runs) run.wall_s = 3.5;
+  const fs::path a = WriteInto("a", first);
+  const fs::path b = WriteInto("b", second);
+  int compared = 0;
+  for (const auto& entry : fs::recursive_directory_iterator(a)) {
+    if (!entry.is_regular_file()) continue;
+    const fs::path relative = fs::relative(entry.path(), a);
+    if (relative == "manifest.json") {
+      EXPECT_NE(Read(entry.path()), Read(b / relative));
+      continue;
+    }
+    EXPECT_EQ(Read(entry.path()), Read(b / relative)) << relative;
+    ++compared;
+  }
+  EXPECT_EQ(compared, 7);  // six tables and one trace
+  // Writing again over an existing folder gives the same bytes.
+  std::string error;
+  ASSERT_TRUE(WriteResults(a.string(), first, &error)) << error;
+  EXPECT_EQ(Read(a / "summary.csv"), Read(b / "summary.csv"));
+}
+
+TEST_F(ResultsWriter, ManifestRecordsInputsAndRunsWithEscapedStrings) {
+  BatchResult batch = MakeBatch();
+  batch.scenarios[0].path = "C:\\robots\\\"ramp\"\tv1\x01\n";
+  const std::string json = Read(WriteInto("a", batch) / "manifest.json");
+  // RFC 8259 §7: '"' and '\' escaped, tab and line feed as \t and \n, U+0001 as \u0001.
+  EXPECT_NE(json.find("\"path\": \"C:\\\\robots\\\\\\\"ramp\\\"\\tv1\\u0001\\n\""),
+            std::string::npos)
+      << json;
+  EXPECT_NE(json.find("\"tool_version\": \"0.1.0-test\""), std::string::npos);
+  EXPECT_NE(json.find("\"jobs\": 2"), std::string::npos);
+  EXPECT_NE(json.find("\"trace_rate_hz\": 100"), std::string::npos);
+  EXPECT_NE(json.find("\"dt_s\": 0.001"), std::string::npos);
+  EXPECT_NE(json.find("\"sha256\": \"" + std::string(64, 'a') + "\""), std::string::npos);
+  EXPECT_NE(json.find("\"model_sha256\": \"" + std::string(64, 'b') + "\""), std::string::npos);
+  EXPECT_NE(json.find("\"baseline\": \"lqr\""), std::string::npos);
+  EXPECT_NE(json.find("\"trace\": \"traces/ramp__lqr__seed1.csv\""), std::string::npos);
+  EXPECT_NE(json.find("\"status\": \"fell\""), std::string::npos);
+  EXPECT_NE(json.find("\"steps\": 5000"), std::string::npos);
+  // Nine of the ten runs have no trace.
+  std::size_t nulls = 0;
+  for (std::size_t at = json.find("\"trace\": null"); at != std::string::npos;
+       at = json.find("\"trace\": null", at + 1)) {
+    ++nulls;
+  }
+  EXPECT_EQ(nulls, 9u);
+  // No raw control character but the line breaks between values (RFC 8259 §7).
+  int control = 0;
+  for (char c : json) {
+    if (c != '\n' && static_cast<unsigned char>(c) < 0x20) ++control;
+  }
+  EXPECT_EQ(control, 0);
+}
+
+TEST_F(ResultsWriter, UnwritableFolderFailsNamingThePath) {
+  // A regular file where a parent folder should be: no user, root included, can create it.
+  fs::create_directories(root_);
+  { std::ofstream(root_ / "plain_file") << "x"; }
+  const std::string dir = (root_ / "plain_file" / "results").string();
+  std::string error;
+  EXPECT_FALSE(WriteResults(dir, MakeBatch(), &error));
+  EXPECT_NE(error.find(dir), std::string::npos) << error;
+}
+
+TEST_F(ResultsWriter, UnwritableFileFailsNamingIt) {
+  // A non-empty folder in the place of summary.csv: the rename over it fails.
+  const fs::path dir = root_ / "a";
+  fs::create_directories(dir / "summary.csv" / "inside");
+  std::string error;
+  EXPECT_FALSE(WriteResults(dir.string(), MakeBatch(), &error));
+  EXPECT_NE(error.find((dir / "summary.csv").string()), std::string::npos) << error;
+  for (const auto& entry : fs::directory_iterator(dir)) {
+    EXPECT_EQ(entry.path().filename().string().find(".tmp."), std::string::npos) << entry.path();
+  }
+}
+
+}  // namespace
+}  // namespace upright::runner

@@ -1,0 +1,185 @@
+#include "upright/runner/step_response.hpp"
+
+#include <gtest/gtest.h>
+
+#include <cmath>
+#include <cstddef>
+#include <vector>
+
+namespace upright::runner {
+namespace {
+
+constexpr double kPi = 3.14159265358979323846;
+constexpr double kDt = 0.001;  // 1 kHz sampling
+
+// Unit step response of the standard underdamped second-order system ωn² / (s² + 2ζωn s + ωn²):
+// y(t) = 1 − e^{−ζωn t} (cos ωd t + ζ/√(1−ζ²) sin ωd t), ωd = ωn √(1−ζ²)
+// (handbook formula: Ogata, Modern Control Engineering, ch. 5, transient response of second-order
+// systems).
+struct SecondOrder {
+  double zeta;
+  double wn;
+  double wd() const { return wn * std::sqrt(1 - zeta * zeta); }
+  double sigma() const { return zeta * wn; }
+  double Y(double t) const {
+    const double r = zeta / std::sqrt(1 - zeta * zeta);
+    return 1 - std::exp(-sigma() * t) * (std::cos(wd() * t) + r * std::sin(wd() * t));
+  }
+  // |y − 1| on the decaying side of lobe k. y − 1 = −e^{−σt} sin(ωd t + φ) / √(1−ζ²) with
+  // φ = acos ζ, so y' ∝ sin(ωd t): the extrema are at t_k = kπ/ωd, where |y − 1| = e^{−σ t_k},
+  // and |y − 1| falls monotonically from t_k to the zero at ((k+1)π − φ)/ωd.
+  double PeakDeviation(int k) const { return std::exp(-sigma() * k * kPi / wd()); }
+  // The exact settling time into ±band: the last time |y − 1| = band, on the falling side of the
+  // last lobe whose peak exceeds the band, found by bisection to 1e-13 s.
+  double ExactSettlingTime(double band) const {
+    int k = 0;
+    while (PeakDeviation(k + 1) > band) ++k;
+    double lo = k * kPi / wd();
+    double hi = ((k + 1) * kPi - std::acos(zeta)) / wd();
+    while (hi - lo > 1e-13) {
+      const double mid = 0.5 * (lo + hi);
+      (std::abs(Y(mid) - 1) > band ? lo : hi) = mid;
+    }
+    return hi;
+  }
+  std::vector<double> Sampled(double duration_s) const {
+    std::vector<double> y;
+    for (long i = 0; static_cast<double>(i) * kDt <= duration_s; ++i) {
+      y.push_back(Y(static_cast<double>(i) * kDt));
+    }
+    return y;
+  }
+};
+
+class SecondOrderStep : public ::testing::TestWithParam<double> {};
+
+TEST_P(SecondOrderStep, OvershootMatchesTheDampingFormula) {
+  const SecondOrder sys{GetParam(), 2 * kPi};  // ωn = 2π rad/s (1 Hz)
+  const std::vector<double> y = sys.Sampled(10);
+  // Mp = 100 exp(−ζπ / √(1−ζ²)) % (Ogata, ch. 5).
+  const double expected = 100 * std::exp(-sys.zeta * kPi / std::sqrt(1 - sys.zeta * sys.zeta));
+  // The nearest sample lies within one step of the peak, where |y''| = ωn² e^{−σ t_p} ≤ ωn², so
+  // the sampled maximum is low by at most ½ ωn² dt² (≈ 2e-3 percentage points here).
+  const double tolerance_pct = 100 * 0.5 * sys.wn * sys.wn * kDt * kDt;
+  const double measured = StepOvershootPct(y, 0, 1);
+  EXPECT_LE(measured, expected + 1e-9);
+  EXPECT_NEAR(measured, expected, tolerance_pct);
+}
+
+TEST_P(SecondOrderStep, PeakTimeIsHalfTheDampedPeriod) {
+  const SecondOrder sys{GetParam(), 2 * kPi};
+  const std::vector<double> y = sys.Sampled(10);
+  // t_p = π / ωd (Ogata, ch. 5); the sampled peak is one of the samples either side of it.
+  EXPECT_NEAR(PeakTime(y, kDt, 0, 1), kPi / sys.wd(), kDt);
+}
+
+TEST_P(SecondOrderStep, SettlingTimeMatchesTheExactLastBandCrossing) {
+  const SecondOrder sys{GetParam(), 2 * kPi};
+  const std::vector<double> y = sys.Sampled(10);
+  const double band = 0.02;  // the 2 % criterion
+  const double exact = sys.ExactSettlingTime(band);
+  const double measured = SettlingTime(y, kDt, 1, band);
+  // Samples are held: the answer is the first sample after the last crossing, so within
+  // [exact, exact + dt).
+  EXPECT_GE(measured, exact - 1e-12);
+  EXPECT_LT(measured, exact + kDt);
+  // The envelope e^{−σt}/√(1−ζ²) bounds |y − 1|, so the settling time can be no later than the
+  // envelope's own time into the band (of which 4/(ζωn) is the usual rounding); it is an upper
+  // bound, not an estimate.
+  const double envelope_s = std::log(1 / (band * std::sqrt(1 - sys.zeta * sys.zeta))) / sys.sigma();
+  EXPECT_LE(exact, envelope_s);
+}
+
+INSTANTIATE_TEST_SUITE_P(Damping, SecondOrderStep, ::testing::Values(0.2, 0.5, 0.7));
+
+TEST(SettlingTime, AllSamplesInBandIsZero) {
+  const std::vector<double> y = {1.01, 0.99, 1.0, 1.015};
+  EXPECT_EQ(SettlingTime(y, kDt, 1.0, 0.02), 0);
+}
+
+TEST(SettlingTime, LastSampleOutOfBandIsNaN) {
+  const std::vector<double> y = {1.0, 1.0, 1.0, 1.05};
+  EXPECT_TRUE(std::isnan(SettlingTime(y, kDt, 1.0, 0.02)));
+}
+
+TEST(SettlingTime, IsTheTimeOfTheFirstSampleOfTheFinalInBandRun) {
+  // Out, in, out, in, in: the final in-band run starts at index 3.
+  const std::vector<double> y = {2.0, 1.0, 0.5, 1.01, 0.99};
+  EXPECT_DOUBLE_EQ(SettlingTime(y, 0.25, 1.0, 0.02), 0.75);
+}
+
+TEST(SettlingTime, NonFiniteSampleCountsAsOutOfBand) {
+  const std::vector<double> y = {1.0, std::nan(""), 1.0};
+  EXPECT_DOUBLE_EQ(SettlingTime(y, 0.5, 1.0, 0.02), 1.0);
+}
+
+TEST(SettlingTime, EmptySignalIsNaN) { EXPECT_TRUE(std::isnan(SettlingTime({}, kDt, 1.0, 0.02))); }
+
+TEST(AnalyseExcursion, DampedSinusoidReboundRatioIsTheHalfPeriodDecay) {
+  // y = e^{−at} sin ωt. y' = e^{−at}(ω cos ωt − a sin ωt) = 0 where tan ωt = ω/a: the extrema
+  // are t₁ = atan(ω/a)/ω and every π/ω after it. Half a period later sin(ωt₁ + π) = −sin ωt₁, so
+  // |y(t₁ + π/ω)| / |y(t₁)| = e^{−aπ/ω}: the rebound over the first peak.
+  const double a = 1.5, w = 2 * kPi * 1.3;
+  std::vector<double> y;
+  for (long i = 0; i <= 5000; ++i) {
+    const double t = static_cast<double>(i) * kDt;
+    y.push_back(std::exp(-a * t) * std::sin(w * t));
+  }
+  const Excursion e = AnalyseExcursion(y, kDt, 0);
+  const double t1 = std::atan(w / a) / w;
+  EXPECT_NEAR(e.first_peak_time_s, t1, kDt);
+  EXPECT_NEAR(e.first_peak, std::exp(-a * t1) * std::sin(w * t1), 1e-4);
+  // Each sampled peak is low by at most ½|y''| dt² with |y''| ≤ e^{−at}(ω + a)², relative to a
+  // peak of e^{−at} ω/√(a² + ω²); the ratio's relative error is at most twice that (≈ 1.1e-4).
+  const double peak_rel = 0.5 * (w + a) * (w + a) * kDt * kDt * std::sqrt(a * a + w * w) / w;
+  const double expected = 100 * std::exp(-a * kPi / w);
+  EXPECT_NEAR(e.overshoot_pct, expected, expected * 2 * peak_rel);
+  EXPECT_NEAR(e.rebound / e.first_peak, std::exp(-a * kPi / w),
+              std::exp(-a * kPi / w) * 2 * peak_rel);
+}
+
+TEST(AnalyseExcursion, NegativeFirstExcursionIsMirrored) {
+  const std::vector<double> y = {0.0, -1.0, -4.0, -2.0, 1.0, 0.5, -0.2};
+  const Excursion e = AnalyseExcursion(y, 0.1, 0);
+  EXPECT_DOUBLE_EQ(e.first_peak, 4.0);
+  EXPECT_DOUBLE_EQ(e.first_peak_time_s, 0.2);
+  EXPECT_DOUBLE_EQ(e.rebound, 1.0);
+  EXPECT_DOUBLE_EQ(e.overshoot_pct, 25.0);
+}
+
+TEST(AnalyseExcursion, NoCrossingIsZeroOvershoot) {
+  const std::vector<double> y = {3.0, 2.0, 1.5, 1.1, 1.0};
+  const Excursion e = AnalyseExcursion(y, 0.1, 1.0);
+  EXPECT_DOUBLE_EQ(e.first_peak, 2.0);
+  EXPECT_EQ(e.rebound, 0);
+  EXPECT_EQ(e.overshoot_pct, 0);
+}
+
+TEST(AnalyseExcursion, SignalAtTheFinalValueHasNoOvershoot) {
+  const std::vector<double> y = {2.0, 2.0, 2.0};
+  const Excursion e = AnalyseExcursion(y, 0.1, 2.0);
+  EXPECT_EQ(e.first_peak, 0);
+  EXPECT_TRUE(std::isnan(e.overshoot_pct));
+}
+
+TEST(StepOvershoot, DownwardStepMeasuresBelowTheFinalValue) {
+  // From 10 down to 4, undershooting to 3: 1 / 6 of the step.
+  const std::vector<double> y = {10.0, 6.0, 3.0, 4.5, 4.0};
+  EXPECT_NEAR(StepOvershootPct(y, 10, 4), 100.0 / 6.0, 1e-12);
+  EXPECT_DOUBLE_EQ(PeakTime(y, 0.5, 10, 4), 1.0);
+}
+
+TEST(StepOvershoot, MonotoneResponseHasNone) {
+  const std::vector<double> y = {0.0, 0.5, 0.9, 1.0};
+  EXPECT_EQ(StepOvershootPct(y, 0, 1), 0);
+  EXPECT_DOUBLE_EQ(PeakTime(y, 0.5, 0, 1), 1.5);
+}
+
+TEST(StepOvershoot, ZeroStepIsNaN) {
+  const std::vector<double> y = {1.0, 2.0};
+  EXPECT_TRUE(std::isnan(StepOvershootPct(y, 1, 1)));
+  EXPECT_TRUE(std::isnan(PeakTime(y, 0.1, 1, 1)));
+}
+
+}  // namespace
+}  // namespace upright::runner

@@ -1,0 +1,5 @@
+# tables tests: SHA-256 against the standard's examples, atomic writes, and the results folder of a
+# synthetic batch checked cell by cell.
+upright_test(upright_runner_tables_test
+  SOURCES results_writer_test.cpp sha256_test.cpp atomic_file_test.cpp
+  LIBS upright_runner_tables)
