@@ -5,6 +5,7 @@
 
 #include "commands.hpp"
 #include "upright/model/model_file.hpp"
+#include "upright/runner/scenario_file.hpp"
 
 namespace upright::cli {
 namespace {
@@ -24,9 +25,21 @@ int RunCheck(const std::vector<std::string>& files) {
   int bad = 0;
   for (const auto& path : files) {
     const std::string root = RootName(path);
+    if (root == "scenario") {
+      const runner::ScenarioLoadResult scenario = runner::LoadScenarioFile(path);
+      if (scenario.ok()) {
+        std::cout << path << ": ok (scenario '" << scenario.scenario.name << "', robot '"
+                  << scenario.scenario.model.name << "', " << scenario.scenario.controllers.size()
+                  << " controller(s))\n";
+      } else {
+        for (const auto& e : scenario.errors) std::cerr << e.ToString() << "\n";
+        ++bad;
+      }
+      continue;
+    }
     if (!root.empty() && root != "robot") {
       std::cerr << path << ": root element <" << root << "> is not a known file kind "
-                << "(expected <robot>)\n";
+                << "(expected <robot> or <scenario>)\n";
       ++bad;
       continue;
     }

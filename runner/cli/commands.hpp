@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "upright/design/design_set.hpp"
+#include "upright/runner/batch.hpp"
 
 namespace upright::cli {
 
@@ -13,12 +14,13 @@ inline constexpr int kExitOk = 0;
 inline constexpr int kExitFailed = 1;
 inline constexpr int kExitBadInput = 2;
 
-// `upright check FILE...`: validates robot model files; prints every problem as path:line.
+// `upright check FILE...`: validates robot model and scenario files (by their root element);
+// prints every problem as path:line.
 int RunCheck(const std::vector<std::string>& files);
 
 struct DesignOptions {
   std::string model_path;
-  bool json = false;  // one JSON object on stdout instead of text
+  bool json = false;                  // one JSON object on stdout instead of text
   std::string input_text = "torque";  // --input, parsed into request.input
   design::DesignRequest request;
 };
@@ -27,15 +29,19 @@ struct DesignOptions {
 // design fails (its reason printed), 2 on bad input.
 int RunDesign(const DesignOptions& options);
 
-struct PlantDemoOptions {
-  std::string model_path;     // robot model file
-  double duration_s = 6.0;    // simulated time
-  double push_N = 0;          // half-sine push peak; 0 = a size derived from the robot's mass
-  double print_every_s = 0.5; // state line interval
+struct RunCommandOptions {
+  std::vector<std::string> scenario_paths;  // scenario files; `demo`: empty = the demo suite
+  std::string out_dir;                      // "": results/<scenario or folder name>
+  runner::BatchOptions batch;               // jobs, seeds, trace rate
+  std::string verb = "upright run:";        // how the first line starts
 };
 
-// `upright demo`: the demo robot balancing under a simple built-in state feedback while it is
-// pushed, printing a few lines of state.
-int RunPlantDemo(const PlantDemoOptions& options);
+// `upright run SCENARIO...`: every scenario × controller × seed, tables into the results folder.
+// Exit 2 when a file is invalid (nothing runs), 1 when a run could not start (a module missing)
+// or the results cannot be written; falls are results, not failures.
+int RunScenarios(const RunCommandOptions& options);
+
+// `upright demo`: the scenarios/ suite into results/demo.
+int RunDemo(const RunCommandOptions& options);
 
 }  // namespace upright::cli

@@ -1,6 +1,5 @@
 // Entry point of the `upright` program: parses the command line and dispatches to a subcommand.
 #include <CLI/CLI.hpp>
-
 #include <iostream>
 
 #include "commands.hpp"
@@ -24,10 +23,12 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
                   "Height of the design push above the axle (default: the COM height)");
   cmd->add_option("--push-scale-N", r.push_scale_N,
                   "Size of the design push, N (default: 10 % of the robot's weight)");
-  cmd->add_option("--max-drift-m", w.max_drift_m, "Weight: acceptable drift")->capture_default_str();
+  cmd->add_option("--max-drift-m", w.max_drift_m, "Weight: acceptable drift")
+      ->capture_default_str();
   cmd->add_option("--max-speed-m-s", w.max_speed_m_s, "Weight: acceptable speed error")
       ->capture_default_str();
-  cmd->add_option("--max-tilt-deg", w.max_tilt_deg, "Weight: acceptable tilt")->capture_default_str();
+  cmd->add_option("--max-tilt-deg", w.max_tilt_deg, "Weight: acceptable tilt")
+      ->capture_default_str();
   cmd->add_option("--max-tilt-rate-deg-s", w.max_tilt_rate_deg_s, "Weight: acceptable tilt rate")
       ->capture_default_str();
   cmd->add_option("--max-yaw-deg", w.max_yaw_deg, "Weight: acceptable heading error")
@@ -36,6 +37,23 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
       ->capture_default_str();
   cmd->add_option("--max-input-fraction", w.max_input_fraction,
                   "Weight: acceptable wheel input, as a fraction of stall torque or supply")
+      ->capture_default_str();
+}
+
+void AddRunOptions(CLI::App* cmd, upright::cli::RunCommandOptions* o) {
+  cmd->add_option(
+      "--out", o->out_dir,
+      "Results folder (default: results/<scenario name>, or the scenarios' folder name)");
+  cmd->add_option("--jobs", o->batch.jobs, "Runs in parallel (0: one per core)")
+      ->check(CLI::Range(0, 1024))
+      ->capture_default_str();
+  cmd->add_option("--seeds", o->batch.seed_count,
+                  "Noise seeds 1..N for every scenario (0: each file's own seeds)")
+      ->check(CLI::Range(0, 100000))
+      ->capture_default_str();
+  cmd->add_option("--trace-rate", o->batch.run.trace_rate_hz,
+                  "Trace rows per simulated second, Hz (0: no traces)")
+      ->check(CLI::Range(0.0, 1e6))
       ->capture_default_str();
 }
 
@@ -50,26 +68,27 @@ int main(int argc, char** argv) {
   app.require_subcommand(1);
 
   std::vector<std::string> check_files;
-  auto* check = app.add_subcommand("check", "Validate robot model files; exit 0 when all are valid");
-  check->add_option("FILE", check_files, "Robot model files (.xml)")->required();
+  auto* check = app.add_subcommand(
+      "check", "Validate robot model and scenario files; exit 0 when all are valid");
+  check->add_option("FILE", check_files, "Robot model or scenario files (.xml)")->required();
 
   upright::cli::DesignOptions design;
   auto* design_cmd = app.add_subcommand(
       "design", "Linear model, LQR / H-infinity / LQG / PID gains, poles, norms and margins");
   AddDesignOptions(design_cmd, &design);
 
-  upright::cli::PlantDemoOptions demo;
-  demo.model_path = std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml";
+  upright::cli::RunCommandOptions run;
+  auto* run_cmd = app.add_subcommand(
+      "run",
+      "Run every scenario x controller x seed; write summary, comparison and ranking tables");
+  run_cmd->add_option("SCENARIO", run.scenario_paths, "Scenario files (.xml)")->required();
+  AddRunOptions(run_cmd, &run);
+
+  upright::cli::RunCommandOptions demo;
   auto* demo_cmd = app.add_subcommand(
-      "demo", "Show the demo robot balancing under a simple state feedback while it is pushed");
-  demo_cmd->add_option("--model", demo.model_path, "Robot model file")->capture_default_str();
-  demo_cmd->add_option("--duration-s", demo.duration_s, "Simulated time, s")
-      ->check(CLI::Range(0.5, 600.0))
-      ->capture_default_str();
-  demo_cmd->add_option("--push-N", demo.push_N,
-                       "Half-sine push peak force, N (0: 15 % of the robot's weight)")
-      ->check(CLI::Range(0.0, 1e5))
-      ->capture_default_str();
+      "demo",
+      "Run the invented demo suite (scenarios/) into results/demo and say where the tables are");
+  AddRunOptions(demo_cmd, &demo);
 
   try {
     app.parse(argc, argv);
@@ -79,11 +98,11 @@ int main(int argc, char** argv) {
   }
   if (check->parsed()) return upright::cli::RunCheck(check_files);
   if (design_cmd->parsed()) {
-    design.request.input = design.input_text == "voltage"
-                               ? upright::design::InputKind::kVoltage
-                               : upright::design::InputKind::kTorque;
+    design.request.input = design.input_text == "voltage" ? upright::design::InputKind::kVoltage
+                                                          : upright::design::InputKind::kTorque;
     return upright::cli::RunDesign(design);
   }
-  if (demo_cmd->parsed()) return upright::cli::RunPlantDemo(demo);
+  if (run_cmd->parsed()) return upright::cli::RunScenarios(run);
+  if (demo_cmd->parsed()) return upright::cli::RunDemo(demo);
   return upright::cli::kExitBadInput;
 }

@@ -1,13 +1,14 @@
-// End-to-end tests of the `upright` program: exit codes, messages with path:line, the demo.
+// End-to-end tests of the `upright` program: exit codes, messages with path:line, runs and the
+// demo suite.
 #include <gtest/gtest.h>
+#include <sys/wait.h>
+#include <unistd.h>
 
 #include <array>
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <string>
-#include <sys/wait.h>
-#include <unistd.h>
 
 namespace {
 
@@ -16,9 +17,11 @@ struct Result {
   std::string output;  // stdout and stderr together
 };
 
-Result RunUpright(const std::string& args) {
+// Runs `upright ARGS` (in folder `cwd` when given) and collects its output and exit code.
+Result RunUpright(const std::string& args, const std::string& cwd = "") {
   Result r;
-  const std::string command = std::string(UPRIGHT_EXE) + " " + args + " 2>&1";
+  const std::string command =
+      (cwd.empty() ? "" : "cd " + cwd + " && ") + std::string(UPRIGHT_EXE) + " " + args + " 2>&1";
   FILE* pipe = popen(command.c_str(), "r");
   if (pipe == nullptr) return r;
   std::array<char, 4096> buffer;
@@ -104,10 +107,10 @@ TEST(Cli, DesignPrintsEveryControllerForBothDemoRobots) {
 TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
   const Result r = RunUpright("design --json " + Models() + "courier.xml");
   EXPECT_EQ(r.exit_code, 0) << r.output;
-  for (const char* key : {"\"A\":[[", "\"B\":[[", "\"lqr\":{", "\"hinf\":{", "\"lqg\":{",
-                          "\"K\":[[", "\"poles\":[[", "\"gamma\":", "\"gamma_opt\":",
-                          "\"norm\":", "\"margins\":{", "\"gain_low\":", "\"gain_high\":",
-                          "\"phase_deg\":", "\"disk_alpha\":", "\"delay_s\":"}) {
+  for (const char* key :
+       {"\"A\":[[", "\"B\":[[", "\"lqr\":{", "\"hinf\":{", "\"lqg\":{", "\"K\":[[", "\"poles\":[[",
+        "\"gamma\":", "\"gamma_opt\":", "\"norm\":", "\"margins\":{",
+        "\"gain_low\":", "\"gain_high\":", "\"phase_deg\":", "\"disk_alpha\":", "\"delay_s\":"}) {
     EXPECT_NE(r.output.find(key), std::string::npos) << key;
   }
   EXPECT_EQ(r.output.front(), '{');
@@ -127,17 +130,106 @@ TEST(Cli, DesignRejectsBadWeightsAsBadInput) {
       << r.output;
 }
 
-TEST(Cli, DemoBalancesThroughThePush) {
-  const Result r = RunUpright("demo --duration-s 3");
-  EXPECT_EQ(r.exit_code, 0) << r.output;
-  EXPECT_NE(r.output.find("balanced for 3.0 s"), std::string::npos) << r.output;
+// A short scenario for the courier robot: two built-ins, a half-sine shove.
+std::string ShortScenario(const std::string& name, const std::string& extra = "") {
+  return WriteTemp(name + ".xml", R"(<scenario name=")" + name + R"(" schema="1" duration_s="2">
+  <description>Test: a parked courier shoved once.</description>
+  <robot file=")" + Models() + R"(courier.xml"/>
+  <timeline>
+    <push at_s="0.5" shape="half-sine" peak_N="80" duration_s="0.2"/>
+  </timeline>
+  <controllers baseline="lqr">
+    <controller name="lqr" builtin="lqr"/>
+    <controller name="pid" builtin="pid"/>)" +
+                                      extra + R"(
+  </controllers>
+</scenario>)");
 }
 
-TEST(Cli, DemoFailsWhenTheRobotFalls) {
-  // A shove of 20 times the robot's weight knocks any balance law over.
-  const Result r = RunUpright("demo --duration-s 3 --push-N 6000");
+std::filesystem::path TempOut(const std::string& name) {
+  const auto dir =
+      std::filesystem::temp_directory_path() / ("upright_cli_" + std::to_string(getpid())) / name;
+  std::filesystem::remove_all(dir);
+  return dir;
+}
+
+std::size_t CountFiles(const std::filesystem::path& dir) {
+  std::size_t n = 0;
+  for (const auto& e : std::filesystem::recursive_directory_iterator(dir)) n += e.is_regular_file();
+  return n;
+}
+
+TEST(Cli, CheckAcceptsEveryDemoScenario) {
+  std::string args = "check";
+  for (const auto& e :
+       std::filesystem::directory_iterator(std::string(UPRIGHT_SOURCE_DIR) + "/scenarios")) {
+    if (e.path().extension() == ".xml") args += " " + e.path().string();
+  }
+  const Result r = RunUpright(args);
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find("ok (scenario 'courier-shove-half-sine', robot 'courier'"),
+            std::string::npos)
+      << r.output;
+}
+
+TEST(Cli, RunWritesEveryResultFileAndSaysWhere) {
+  const auto out = TempOut("run");
+  const Result r = RunUpright("run " + ShortScenario("short") + " --out " + out.string() +
+                              " --jobs 2 --seeds 2");
+  ASSERT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find("4 run(s)"), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find(out.string() + "/summary.md"), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find("Simulation only"), std::string::npos) << r.output;
+  for (const char* name : {"summary.csv", "summary.md", "compare.csv", "compare.md", "ranking.csv",
+                           "ranking.md", "manifest.json"}) {
+    EXPECT_TRUE(std::filesystem::is_regular_file(out / name)) << name;
+  }
+  // 2 controllers × 2 seeds: four traces, and nothing else (no temporary left behind).
+  EXPECT_EQ(CountFiles(out / "traces"), 4u);
+  EXPECT_EQ(CountFiles(out), 7u + 4u);
+  std::ifstream summary(out / "summary.csv");
+  std::string header;
+  std::getline(summary, header);
+  EXPECT_EQ(header.rfind("scenario,controller,seed,", 0), 0u) << header;
+}
+
+TEST(Cli, RunRejectsAnInvalidScenarioWithItsLineAndRunsNothing) {
+  const auto out = TempOut("invalid");
+  const std::string path = ShortScenario("invalid", R"(
+    <controller name="lqr" builtin="lqr"/>)");
+  const Result r = RunUpright("run " + path + " --out " + out.string());
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find(path + ":"), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find("nothing was run"), std::string::npos) << r.output;
+  EXPECT_FALSE(std::filesystem::exists(out));
+}
+
+TEST(Cli, RunWithABrokenModuleFileExitsOneAndStillWritesTheTables) {
+  const auto out = TempOut("missing");
+  const std::string not_a_module = WriteTemp("not_a_module.so", "plain text\n");
+  const Result r = RunUpright("run " + ShortScenario("missing", R"(
+    <controller name="mine" file=")" + not_a_module + R"("/>)") +
+                              " --out " + out.string() + " --trace-rate 0");
   EXPECT_EQ(r.exit_code, 1) << r.output;
-  EXPECT_NE(r.output.find("fell"), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find("missing / mine: "), std::string::npos) << r.output;
+  EXPECT_TRUE(std::filesystem::is_regular_file(out / "summary.csv"));
+}
+
+TEST(Cli, DemoRunsTheWholeSuiteIntoResultsDemo) {
+  const auto cwd = TempOut("demo");
+  std::filesystem::create_directories(cwd);
+  const Result demo = RunUpright("demo --jobs 2 --trace-rate 10 --seeds 1", cwd.string());
+  ASSERT_EQ(demo.exit_code, 0) << demo.output;
+  EXPECT_NE(demo.output.find("results/demo/summary.md"), std::string::npos) << demo.output;
+  const auto out = cwd / "results" / "demo";
+  EXPECT_TRUE(std::filesystem::is_regular_file(out / "ranking.md"));
+  // Every demo scenario compares at least the four built-ins: one trace per scenario × controller.
+  std::size_t scenarios = 0;
+  for (const auto& e :
+       std::filesystem::directory_iterator(std::string(UPRIGHT_SOURCE_DIR) + "/scenarios")) {
+    scenarios += e.path().extension() == ".xml";
+  }
+  EXPECT_GE(CountFiles(out / "traces"), 4 * scenarios);
 }
 
 }  // namespace

@@ -1,0 +1,30 @@
+// One run: a scenario, one of its controllers and a noise seed in; a fresh plant and controller
+// instance stepped through the timeline, the metrics and (optionally) a trace out. A run ends at
+// the scenario's duration or as soon as its outcome is decided (a fall, a controller fault, a
+// numeric failure); such a run is a result with its status, never an exception.
+#pragma once
+
+#include <cstddef>
+#include <cstdint>
+#include <memory>
+#include <string>
+
+#include "upright/host/module.hpp"
+#include "upright/runner/run_result.hpp"
+#include "upright/runner/scenario.hpp"
+
+namespace upright::runner {
+
+struct RunOptions {
+  double trace_rate_hz = 100;  // trace rows per simulated second; 0 records no trace
+  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
+  bool IsValid(std::string* error) const;
+};
+
+// Runs controller `controller` (index into scenario.controllers) with noise seed `seed`, using the
+// already loaded `module` (null: the run is a kSetupFailed result carrying `load_error`).
+RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                 const std::shared_ptr<host::Module>& module, const std::string& load_error,
+                 const RunOptions& options);
+
+}  // namespace upright::runner

@@ -1,0 +1,221 @@
+#include "upright/runner/run_one.hpp"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <sstream>
+
+#include "timeline.hpp"
+#include "upright/design/linear_model.hpp"
+#include "upright/host/controller_host.hpp"
+#include "upright/model/conventions.hpp"
+#include "upright/runner/metric_recorder.hpp"
+#include "upright/sim/plant.hpp"
+
+namespace upright::runner {
+namespace {
+
+constexpr double kDeg = 180 / kPi;
+
+std::string Format(const char* format, double a, double b = 0) {
+  char text[200];
+  std::snprintf(text, sizeof text, format, a, b);
+  return text;
+}
+
+// The readings the metrics take after a step; no allocation.
+StepSample Sample(const sim::Plant& plant, double equilibrium_pitch_rad, double drift_m) {
+  const sim::TrueState& s = plant.truth();
+  const sim::MotorState& m = plant.motors();
+  const sim::ContactState& c = plant.contact();
+  StepSample out;
+  out.time_s = s.time_s;
+  out.tilt_rad = s.pitch_rad - equilibrium_pitch_rad;
+  out.drift_m = drift_m;
+  for (int i = 0; i < 2; ++i) {
+    out.torque_Nm[i] = m[i].wheel_torque_Nm;
+    out.current_A[i] = m[i].current_A;
+    out.power_W[i] = m[i].power_W();
+    out.saturated = out.saturated || m[i].voltage_saturated || m[i].current_saturated;
+    out.slip_ratio[i] = c.wheels[i].slip_ratio;
+    out.touching[i] = c.wheels[i].touching;
+  }
+  return out;
+}
+
+TraceRow Row(const sim::Plant& plant, const host::ControllerHost& host,
+             const internal::Timeline& timeline, double drift_m) {
+  const sim::TrueState& s = plant.truth();
+  const sim::MotorState& m = plant.motors();
+  const sim::ContactState& c = plant.contact();
+  const sim::SensorSample sensed = plant.Sense();
+  const auto command = host.command();
+  TraceRow r;
+  r.time_s = s.time_s;
+  r.x_m = s.x_m;
+  r.y_m = s.y_m;
+  r.pitch_deg = s.pitch_rad * kDeg;
+  r.pitch_rate_deg_s = s.pitch_rate_rad_s * kDeg;
+  r.yaw_deg = s.yaw_rad * kDeg;
+  r.speed_m_s = s.forward_speed_m_s;
+  r.ref_speed_m_s = timeline.reference().forward_speed_m_s;
+  r.ref_yaw_rate_deg_s = timeline.reference().yaw_rate_rad_s * kDeg;
+  r.drift_m = drift_m;
+  r.gyro_y_rad_s = sensed.gyro_rad_s[1];
+  r.accel_x_m_s2 = sensed.accel_m_s2[0];
+  r.encoder_left_rad = sensed.encoder_angle_rad[kLeft];
+  r.encoder_right_rad = sensed.encoder_angle_rad[kRight];
+  r.command_left = std::isfinite(command[kLeft]) ? command[kLeft] : 0;
+  r.command_right = std::isfinite(command[kRight]) ? command[kRight] : 0;
+  r.voltage_left_V = m[kLeft].voltage_V;
+  r.voltage_right_V = m[kRight].voltage_V;
+  r.current_left_A = m[kLeft].current_A;
+  r.current_right_A = m[kRight].current_A;
+  r.torque_left_Nm = m[kLeft].wheel_torque_Nm;
+  r.torque_right_Nm = m[kRight].wheel_torque_Nm;
+  r.load_left_N = c.wheels[kLeft].normal_N;
+  r.load_right_N = c.wheels[kRight].normal_N;
+  r.slip_left = c.wheels[kLeft].slip_ratio;
+  r.slip_right = c.wheels[kRight].slip_ratio;
+  r.payload_x_m = s.payload_x_m;
+  return r;
+}
+
+}  // namespace
+
+bool RunOptions::IsValid(std::string* error) const {
+  if (!(trace_rate_hz >= 0) || !std::isfinite(trace_rate_hz)) {
+    std::ostringstream why;
+    why << "RunOptions::trace_rate_hz = " << trace_rate_hz << ", must be >= 0 and finite";
+    *error = why.str();
+    return false;
+  }
+  return true;
+}
+
+RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                 const std::shared_ptr<host::Module>& module, const std::string& load_error,
+                 const RunOptions& options) {
+  const auto wall_start = std::chrono::steady_clock::now();
+  const ControllerEntry& entry = scenario.controllers.at(controller);
+  RunResult result;
+  result.scenario = scenario.name;
+  result.controller = entry.name;
+  result.seed = seed;
+  result.baseline = controller == scenario.baseline;
+  const auto finish = [&](RunStatus status, std::string message) {
+    result.metrics.status = status;
+    result.metrics.message = std::move(message);
+    result.wall_s =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
+    return result;
+  };
+  std::string error;
+  if (!options.IsValid(&error)) return finish(RunStatus::kSetupFailed, error);
+  if (!module) return finish(RunStatus::kSetupFailed, load_error);
+
+  // The controller first: the plant's drive mode is the module's.
+  host::ControllerSpec spec;
+  spec.module = module;
+  spec.config = entry.config;
+  spec.rate_hz = entry.rate_hz;
+  spec.true_state = entry.true_state;
+  auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
+  if (!host) return finish(RunStatus::kSetupFailed, error);
+
+  sim::PlantOptions plant_options;
+  plant_options.dt_s = scenario.dt_s;
+  plant_options.solver_iterations = scenario.solver_iterations;
+  plant_options.terrain = scenario.terrain;
+  plant_options.initial = scenario.initial;
+  plant_options.drive = host->drive();
+  plant_options.seed = seed;
+  plant_options.sensor_noise = scenario.sensor_noise;
+  auto plant = sim::Plant::Create(scenario.model, plant_options, &error);
+  if (!plant) return finish(RunStatus::kSetupFailed, error);
+  for (const auto& p : scenario.pushes) {
+    if (!plant->AddPush(p, &error)) return finish(RunStatus::kSetupFailed, error);
+  }
+  for (const auto& f : scenario.motor_faults) {
+    if (!plant->AddMotorFault(f, &error)) return finish(RunStatus::kSetupFailed, error);
+  }
+  for (const auto& f : scenario.sensor_faults) {
+    if (!plant->AddSensorFault(f, &error)) return finish(RunStatus::kSetupFailed, error);
+  }
+
+  const double equilibrium_pitch_rad =
+      design::Linearise(scenario.model, design::InputKind::kTorque).equilibrium_pitch_rad;
+  const double fall_tilt_rad = scenario.metrics.fall_tilt_deg / kDeg;
+  const double dt_s = scenario.dt_s;
+  const long total_steps = std::lround(scenario.duration_s / dt_s);
+  MetricRecorder recorder(scenario.metrics, dt_s, scenario.duration_s,
+                          internal::Timeline::DisturbanceStarts(scenario));
+  internal::Timeline timeline(scenario);
+
+  // Trace rows every `trace_every` steps, the storage reserved up front.
+  long trace_every = 0;
+  if (options.trace_rate_hz > 0) {
+    trace_every = std::max(1L, std::lround(1.0 / (options.trace_rate_hz * dt_s)));
+    result.trace.rate_hz = 1.0 / (static_cast<double>(trace_every) * dt_s);
+    result.trace.rows.reserve(static_cast<std::size_t>(total_steps / trace_every + 2));
+    result.trace.marks = internal::Timeline::Marks(scenario);
+  }
+  const auto drift = [&] {
+    const sim::TrueState& s = plant->truth();
+    return std::hypot(s.x_m - timeline.path_x_m(), s.y_m - timeline.path_y_m());
+  };
+  if (trace_every > 0) result.trace.rows.push_back(Row(*plant, *host, timeline, 0));
+
+  RunStatus status = RunStatus::kOk;
+  std::string message;
+  for (long step = 0; step < total_steps; ++step) {
+    timeline.Advance(plant->step_count());
+    if (scenario.model.payload.present && !scenario.payload_shifts.empty()) {
+      plant->SetPayloadTarget(timeline.payload_target_m());
+    }
+    if (!host->Tick(*plant, timeline.reference())) {
+      status = RunStatus::kControllerFault;
+      message = host->fault();
+      break;
+    }
+    plant->Step();
+    timeline.Integrate(dt_s);
+    if (plant->diverged()) {
+      status = RunStatus::kNumericFailure;
+      message = Format("the physics state became non-finite at t = %.3f s", plant->time_s());
+      break;
+    }
+    const double drift_m = drift();
+    recorder.Add(Sample(*plant, equilibrium_pitch_rad, drift_m));
+    if (trace_every > 0 && plant->step_count() % trace_every == 0) {
+      result.trace.rows.push_back(Row(*plant, *host, timeline, drift_m));
+    }
+    const double tilt_rad = plant->truth().pitch_rad - equilibrium_pitch_rad;
+    const bool on_ground = plant->contact().chassis_on_ground;
+    if (on_ground || std::abs(tilt_rad) > fall_tilt_rad) {
+      status = RunStatus::kFell;
+      message = on_ground
+                    ? Format("fell at t = %.3f s: the chassis touched the ground", plant->time_s())
+                    : Format("fell at t = %.3f s: tilt %.1f deg beyond the limit", plant->time_s(),
+                             tilt_rad * kDeg);
+      break;
+    }
+  }
+  if (status == RunStatus::kOk) message = "survived";
+  if (trace_every > 0 && status != RunStatus::kOk) {
+    // The end of a run cut short, among the event marks in time order.
+    const double end_s =
+        status == RunStatus::kControllerFault ? host->fault_time_s() : plant->time_s();
+    auto& marks = result.trace.marks;
+    const auto at = std::upper_bound(marks.begin(), marks.end(), end_s,
+                                     [](double t, const EventMark& m) { return t < m.time_s; });
+    marks.insert(at, {end_s, ToString(status)});
+  }
+  result.steps = plant->step_count();
+  result.metrics = recorder.Finish(status, message);
+  const RunMetrics metrics = result.metrics;
+  return finish(metrics.status, metrics.message);
+}
+
+}  // namespace upright::runner

@@ -1,0 +1,116 @@
+#include "timeline.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <string>
+
+#include "upright/model/conventions.hpp"
+
+namespace upright::runner::internal {
+namespace {
+
+// 0 before start, rising linearly to 1 over `length` (at once when length is 0).
+double Ramp(double time_s, double start_s, double length_s) {
+  if (time_s < start_s) return 0;
+  if (length_s <= 0 || time_s >= start_s + length_s) return 1;
+  return (time_s - start_s) / length_s;
+}
+
+std::string Format(const char* format, double a, double b = 0, double c = 0) {
+  char text[160];
+  std::snprintf(text, sizeof text, format, a, b, c);
+  return text;
+}
+
+}  // namespace
+
+Timeline::Timeline(const Scenario& scenario) : scenario_(scenario) {
+  payload_base_m_ = scenario.model.payload.present ? scenario.model.payload.x_m : 0.0;
+  payload_target_m_ = payload_base_m_;
+  path_x_m_ = scenario.initial.x_m;
+}
+
+void Timeline::Advance(long step) {
+  const auto& drives = scenario_.drives;
+  const double dt_s = scenario_.dt_s;
+  const double time_s = static_cast<double>(step) * dt_s;
+  const auto started = [&](double start_s) {
+    return sim::FirstStepAtOrAfter(start_s, dt_s) <= step;
+  };
+  while (next_drive_ < drives.size() && started(drives[next_drive_].start_s)) {
+    const DriveChange& d = drives[next_drive_++];
+    from_speed_ = reference_.forward_speed_m_s;
+    from_yaw_rate_ = reference_.yaw_rate_rad_s;
+    to_speed_ = d.speed_m_s;
+    to_yaw_rate_ = d.yaw_rate_rad_s;
+    ramp_start_s_ = d.start_s;
+    ramp_s_ = d.ramp_s;
+  }
+  if (next_drive_ > 0) {
+    const double f = Ramp(std::max(time_s, ramp_start_s_), ramp_start_s_, ramp_s_);
+    reference_.forward_speed_m_s = from_speed_ + f * (to_speed_ - from_speed_);
+    reference_.yaw_rate_rad_s = from_yaw_rate_ + f * (to_yaw_rate_ - from_yaw_rate_);
+  }
+  if (!scenario_.payload_shifts.empty()) {
+    double target = payload_base_m_;
+    payload_moving_ = false;
+    for (const PayloadShift& p : scenario_.payload_shifts) {
+      const double f =
+          started(p.start_s) ? Ramp(std::max(time_s, p.start_s), p.start_s, p.duration_s) : 0.0;
+      target += f * p.distance_m;
+      payload_moving_ = payload_moving_ || (f > 0 && f < 1);
+    }
+    payload_target_m_ = target;
+  }
+}
+
+void Timeline::Integrate(double dt_s) {
+  // Forward Euler on the reference held over the step, as the controller's own integrator does.
+  path_x_m_ += reference_.forward_speed_m_s * std::cos(path_yaw_rad_) * dt_s;
+  path_y_m_ += reference_.forward_speed_m_s * std::sin(path_yaw_rad_) * dt_s;
+  path_yaw_rad_ += reference_.yaw_rate_rad_s * dt_s;
+}
+
+std::vector<double> Timeline::DisturbanceStarts(const Scenario& s) {
+  std::vector<double> starts;
+  if (s.initial.pitch_rad != 0 || s.initial.speed_m_s != 0) starts.push_back(0);
+  for (const auto& p : s.pushes) starts.push_back(p.start_s);
+  for (const auto& p : s.payload_shifts) starts.push_back(p.start_s);
+  for (const auto& f : s.motor_faults) starts.push_back(f.start_s);
+  for (const auto& f : s.sensor_faults) starts.push_back(f.start_s);
+  std::sort(starts.begin(), starts.end());
+  starts.erase(std::unique(starts.begin(), starts.end()), starts.end());
+  return starts;
+}
+
+std::vector<EventMark> Timeline::Marks(const Scenario& s) {
+  std::vector<EventMark> marks;
+  for (const auto& p : s.pushes) {
+    marks.push_back({p.start_s, Format("push %.0f N ", p.peak_N) + sim::ToString(p.shape) +
+                                    Format(" %.3g s", p.duration_s)});
+  }
+  for (const auto& p : s.payload_shifts) {
+    marks.push_back(
+        {p.start_s, Format("payload shift %+.3g m over %.3g s", p.distance_m, p.duration_s)});
+  }
+  for (const auto& d : s.drives) {
+    marks.push_back({d.start_s, Format("drive %.3g m/s, %.3g deg/s over %.3g s", d.speed_m_s,
+                                       d.yaw_rate_rad_s * 180 / kPi, d.ramp_s)});
+  }
+  for (const auto& f : s.motor_faults) {
+    marks.push_back({f.start_s, std::string("motor fault ") + sim::ToString(f.side) +
+                                    Format(" torque x%.3g", f.torque_scale)});
+  }
+  for (const auto& f : s.sensor_faults) {
+    std::string label =
+        std::string("sensor fault ") + sim::ToString(f.channel) + " " + sim::ToString(f.kind);
+    if (f.kind == sim::SensorFaultKind::kBias) label += Format(" %+.3g", f.value);
+    marks.push_back({f.start_s, label});
+  }
+  std::stable_sort(marks.begin(), marks.end(),
+                   [](const EventMark& a, const EventMark& b) { return a.time_s < b.time_s; });
+  return marks;
+}
+
+}  // namespace upright::runner::internal
