@@ -4,11 +4,13 @@
 #pragma once
 
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <utility>
 #include <vector>
 
 #include "upright/model/robot_model.hpp"
+#include "upright/runner/dispersion.hpp"
 #include "upright/runner/metric_settings.hpp"
 #include "upright/sim/faults.hpp"
 #include "upright/sim/plant.hpp"
@@ -53,7 +55,10 @@ struct Scenario {
   std::string description;  // one or two sentences, from the file
   std::string path;         // the scenario file, as given
   std::string model_path;   // the robot model file, resolved against the scenario's folder
-  RobotModel model;
+  RobotModel model;         // the robot the controllers are designed for
+  // The robot as built, when it differs from `model` (a sweep's sampled robot, an envelope over a
+  // robot parameter); the plant is built from it.
+  std::optional<RobotModel> plant_model;
 
   double duration_s = 10;  // a whole number of physics steps
   double dt_s = 0.001;     // physics step
@@ -76,6 +81,13 @@ struct Scenario {
                                              // one run per seed and controller
 
   MetricSettings metrics;
+
+  // Monte Carlo spreads (<dispersions>), in file order: read by `upright sweep`, ignored by runs.
+  // Each names a parameter that exists in this scenario, at most once.
+  std::vector<Dispersion> dispersions;
+
+  // The robot the plant is built from.
+  const RobotModel& built_model() const { return plant_model ? *plant_model : model; }
 };
 
 }  // namespace upright::runner

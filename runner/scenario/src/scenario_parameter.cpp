@@ -1,0 +1,323 @@
+// Scenario parameters by path: parse "a/b[2].attr", find the number it names, and check what a new
+// value touches.
+#include "upright/runner/scenario_parameter.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <functional>
+#include <sstream>
+
+#include "upright/model/conventions.hpp"
+#include "upright/model/model_field.hpp"
+#include "upright/model/model_file.hpp"
+
+namespace upright::runner {
+namespace {
+
+constexpr double kDeg = kPi / 180;
+
+struct Path {
+  std::string element;    // "timeline/push", "robot/sensors/gyro", "ground"
+  std::size_t index = 0;  // 1-based index of the last element, 0 when none was written
+  std::string attribute;  // "peak_N"
+};
+
+bool ParsePath(const std::string& text, Path* path, std::string* error) {
+  const auto dot = text.rfind('.');
+  if (dot == std::string::npos || dot == 0 || dot + 1 == text.size()) {
+    *error = "parameter '" + text + "': expected element path '.' attribute, as in " +
+             "timeline/push[1].peak_N";
+    return false;
+  }
+  path->attribute = text.substr(dot + 1);
+  std::string element = text.substr(0, dot);
+  const auto open = element.find('[');
+  if (open != std::string::npos) {
+    const auto close = element.find(']', open);
+    const std::string digits = element.substr(open + 1, close - open - 1);
+    if (close != element.size() - 1 || digits.empty() ||
+        !std::all_of(digits.begin(), digits.end(), [](char c) { return c >= '0' && c <= '9'; }) ||
+        std::stoul(digits) == 0) {
+      *error = "parameter '" + text + "': an index is [1], [2], ... after the last element";
+      return false;
+    }
+    path->index = std::stoul(digits);
+    element = element.substr(0, open);
+  }
+  path->element = element;
+  return true;
+}
+
+// A number inside the scenario: where it lives, how the file's unit converts to SI.
+struct Slot {
+  double* si = nullptr;
+  double per_file_unit = 1;  // SI value of one file unit (kDeg for degrees)
+};
+
+std::string Num(double value) {
+  std::ostringstream text;
+  text << value;
+  return text.str();
+}
+
+// The element list a timeline path names, with its size, or nullptr.
+template <typename T>
+T* Pick(std::vector<T>& list, const Path& path, std::string* error) {
+  const std::size_t i = path.index == 0 ? 1 : path.index;
+  if (i > list.size()) {
+    const std::string name = path.element.substr(path.element.rfind('/') + 1);
+    std::ostringstream why;
+    why << path.element << "[" << i << "]." << path.attribute << ": the scenario has "
+        << list.size() << " <" << name << "> element" << (list.size() == 1 ? "" : "s");
+    *error = why.str();
+    return nullptr;
+  }
+  return &list[i - 1];
+}
+
+bool Unknown(const Path& path, const std::string& choices, std::string* error) {
+  *error = "no parameter " + path.element + "." + path.attribute + " (" + choices + ")";
+  return false;
+}
+
+// Finds the slot for a scenario (not robot) path.
+bool FindSlot(Scenario& s, const Path& p, Slot* slot, std::string* error) {
+  const std::string& a = p.attribute;
+  const auto choose = [&](std::initializer_list<std::pair<const char*, Slot>> slots,
+                          const std::string& list) {
+    for (const auto& [name, candidate] : slots) {
+      if (a == name) {
+        *slot = candidate;
+        return true;
+      }
+    }
+    return Unknown(p, list, error);
+  };
+  if (p.element == "start") {
+    return choose({{"x_m", {&s.initial.x_m}},
+                   {"pitch_deg", {&s.initial.pitch_rad, kDeg}},
+                   {"speed_m_s", {&s.initial.speed_m_s}}},
+                  "start: x_m, pitch_deg, speed_m_s");
+  }
+  if (p.element == "ground") {
+    if (s.terrain.kind != sim::TerrainKind::kSlope || a != "slope_deg") {
+      return Unknown(p, "ground: slope_deg, on a slope", error);
+    }
+    *slot = {&s.terrain.slope_deg};
+    return true;
+  }
+  if (p.element == "ground/friction") {
+    auto* r = Pick(s.terrain.friction_regions, p, error);
+    return r && choose({{"friction", {&r->friction}},
+                        {"start_x_m", {&r->start_x_m}},
+                        {"end_x_m", {&r->end_x_m}}},
+                       "ground/friction: friction, start_x_m, end_x_m");
+  }
+  if (p.element == "timeline/push") {
+    auto* e = Pick(s.pushes, p, error);
+    return e && choose({{"at_s", {&e->start_s}},
+                        {"peak_N", {&e->peak_N}},
+                        {"duration_s", {&e->duration_s}},
+                        {"height_m", {&e->height_m}},
+                        {"direction_deg", {&e->direction_deg}}},
+                       "timeline/push: at_s, peak_N, duration_s, height_m, direction_deg");
+  }
+  if (p.element == "timeline/payload_shift") {
+    auto* e = Pick(s.payload_shifts, p, error);
+    return e && choose({{"at_s", {&e->start_s}},
+                        {"distance_m", {&e->distance_m}},
+                        {"duration_s", {&e->duration_s}}},
+                       "timeline/payload_shift: at_s, distance_m, duration_s");
+  }
+  if (p.element == "timeline/drive") {
+    auto* e = Pick(s.drives, p, error);
+    return e && choose({{"at_s", {&e->start_s}},
+                        {"speed_m_s", {&e->speed_m_s}},
+                        {"yaw_rate_deg_s", {&e->yaw_rate_rad_s, kDeg}},
+                        {"ramp_s", {&e->ramp_s}}},
+                       "timeline/drive: at_s, speed_m_s, yaw_rate_deg_s, ramp_s");
+  }
+  if (p.element == "timeline/motor_fault") {
+    auto* e = Pick(s.motor_faults, p, error);
+    return e && choose({{"at_s", {&e->start_s}}, {"torque_scale", {&e->torque_scale}}},
+                       "timeline/motor_fault: at_s, torque_scale");
+  }
+  if (p.element == "timeline/sensor_fault") {
+    auto* e = Pick(s.sensor_faults, p, error);
+    return e &&
+           choose(
+               {{"at_s", {&e->start_s}}, {"value", {&e->value}}, {"duration_s", {&e->duration_s}}},
+               "timeline/sensor_fault: at_s, value, duration_s");
+  }
+  *error = "no parameter element '" + p.element + "' (elements: start, ground, ground/friction, " +
+           "timeline/push, timeline/payload_shift, timeline/drive, timeline/motor_fault, " +
+           "timeline/sensor_fault, robot/...)";
+  return false;
+}
+
+// The carriage target at the breakpoints of the payload shifts, each side of any jump, must stay
+// within the travel (the plant would clamp it; a scenario asking for more is wrong).
+bool PayloadWithinTravel(const Scenario& s, std::string* error) {
+  const RobotModel& robot = s.built_model();
+  if (s.payload_shifts.empty()) return true;
+  if (!robot.payload.present) {
+    *error = "robot '" + robot.name + "' has no payload to shift";
+    return false;
+  }
+  std::vector<double> times;
+  for (const auto& p : s.payload_shifts) {
+    times.push_back(p.start_s);
+    times.push_back(p.start_s + p.duration_s);
+  }
+  for (const double t : times) {
+    for (const bool jumps_included : {false, true}) {
+      double target = robot.payload.x_m;
+      for (const auto& p : s.payload_shifts) {
+        double f = 0;
+        if (p.duration_s > 0) {
+          f = std::clamp((t - p.start_s) / p.duration_s, 0.0, 1.0);
+        } else {
+          f = (t > p.start_s || (jumps_included && t == p.start_s)) ? 1.0 : 0.0;
+        }
+        target += f * p.distance_m;
+      }
+      if (target < robot.payload.min_x_m - 1e-12 || target > robot.payload.max_x_m + 1e-12) {
+        std::ostringstream why;
+        why << "the payload target reaches " << target << " m at " << t
+            << " s, outside the carriage travel [" << robot.payload.min_x_m << ", "
+            << robot.payload.max_x_m << "] m";
+        *error = why.str();
+        return false;
+      }
+    }
+  }
+  return true;
+}
+
+// What a changed scenario must still keep.
+bool Check(Scenario& s, std::string* error) {
+  const auto in_run = [&](double start_s, const char* what) {
+    if (start_s >= 0 && start_s < s.duration_s) return true;
+    std::ostringstream why;
+    why << what << " at_s = " << start_s << ": must be in [0, " << s.duration_s << ")";
+    *error = why.str();
+    return false;
+  };
+  if (!s.terrain.IsValid(error)) return false;
+  for (const auto& p : s.pushes) {
+    if (!p.IsValid(error) || !in_run(p.start_s, "push")) return false;
+  }
+  for (const auto& p : s.payload_shifts) {
+    if (!in_run(p.start_s, "payload shift")) return false;
+    if (!(p.duration_s >= 0)) {
+      *error = "payload shift duration_s must be >= 0";
+      return false;
+    }
+  }
+  for (const auto& d : s.drives) {
+    if (!in_run(d.start_s, "drive change")) return false;
+    if (!(d.ramp_s >= 0)) {
+      *error = "drive change ramp_s must be >= 0";
+      return false;
+    }
+  }
+  for (const auto& f : s.motor_faults) {
+    if (!f.IsValid(error) || !in_run(f.start_s, "motor fault")) return false;
+  }
+  for (const auto& f : s.sensor_faults) {
+    if (!f.IsValid(error) || !in_run(f.start_s, "sensor fault")) return false;
+  }
+  if (!(std::abs(s.initial.pitch_rad) < kPi / 2)) {
+    *error = "start pitch_deg must be in (-90, 90)";
+    return false;
+  }
+  if (s.plant_model) {
+    const auto problems = ValidateModel(*s.plant_model);
+    if (!problems.empty()) {
+      *error = "robot: " + problems.front();
+      return false;
+    }
+  }
+  if (!PayloadWithinTravel(s, error)) return false;
+  // Keep every timeline list in start-time order, as the timeline expects.
+  const auto by_start = [](const auto& a, const auto& b) { return a.start_s < b.start_s; };
+  std::stable_sort(s.pushes.begin(), s.pushes.end(), by_start);
+  std::stable_sort(s.payload_shifts.begin(), s.payload_shifts.end(), by_start);
+  std::stable_sort(s.drives.begin(), s.drives.end(), by_start);
+  std::stable_sort(s.motor_faults.begin(), s.motor_faults.end(), by_start);
+  std::stable_sort(s.sensor_faults.begin(), s.sensor_faults.end(), by_start);
+  return true;
+}
+
+// "robot/chassis" → "chassis"; false when the path is not a robot path.
+bool RobotElement(const Path& p, std::string* element) {
+  const std::string prefix = "robot/";
+  if (p.element.rfind(prefix, 0) != 0 || p.index != 0) return false;
+  *element = p.element.substr(prefix.size());
+  return true;
+}
+
+}  // namespace
+
+const std::vector<std::string>& ScenarioParameterHelp() {
+  static const std::vector<std::string> help{
+      "start.x_m | pitch_deg | speed_m_s",
+      "ground.slope_deg (a slope)",
+      "ground/friction[i].friction | start_x_m | end_x_m",
+      "timeline/push[i].at_s | peak_N | duration_s | height_m | direction_deg",
+      "timeline/payload_shift[i].at_s | distance_m | duration_s",
+      "timeline/drive[i].at_s | speed_m_s | yaw_rate_deg_s | ramp_s",
+      "timeline/motor_fault[i].at_s | torque_scale",
+      "timeline/sensor_fault[i].at_s | value | duration_s",
+      "robot/<element>.<attribute>: any numeric robot model field (models/README.md), e.g. "
+      "robot/chassis.mass_kg, robot/wheels.friction, robot/sensors/gyro.bias_y_rad_s",
+  };
+  return help;
+}
+
+bool GetScenarioParameter(const Scenario& scenario, const std::string& path, double* value,
+                          std::string* error) {
+  Path p;
+  if (!ParsePath(path, &p, error)) return false;
+  std::string element;
+  if (RobotElement(p, &element)) {
+    return GetModelField(scenario.built_model(), element, p.attribute, value, error);
+  }
+  Scenario copy = scenario;  // FindSlot hands out pointers into a scenario it may change
+  Slot slot;
+  if (!FindSlot(copy, p, &slot, error)) return false;
+  *value = *slot.si / slot.per_file_unit;
+  return true;
+}
+
+bool SetScenarioParameter(Scenario* scenario, const std::string& path, double value,
+                          std::string* error) {
+  Path p;
+  if (!ParsePath(path, &p, error)) return false;
+  if (!std::isfinite(value)) {
+    *error = path + " = " + Num(value) + ": must be a finite number";
+    return false;
+  }
+  Scenario changed = *scenario;
+  std::string element;
+  if (RobotElement(p, &element)) {
+    RobotModel robot = changed.built_model();
+    if (!SetModelField(&robot, element, p.attribute, value, error)) {
+      *error = path + " = " + Num(value) + ": " + *error;
+      return false;
+    }
+    changed.plant_model = robot;
+  } else {
+    Slot slot;
+    if (!FindSlot(changed, p, &slot, error)) return false;
+    *slot.si = value * slot.per_file_unit;
+  }
+  if (!Check(changed, error)) {
+    *error = path + " = " + Num(value) + ": " + *error;
+    return false;
+  }
+  *scenario = std::move(changed);
+  return true;
+}
+
+}  // namespace upright::runner
