@@ -99,6 +99,28 @@ TEST(RunOne, AModuleThatDidNotLoadIsASetupFailureCarryingWhy) {
   EXPECT_EQ(r.metrics.message, "/nowhere/x.so: cannot open");
 }
 
+TEST(RunOne, AProbeStopsOnceTheRobotHasSettledAndNotBefore) {
+  const std::string text = ShoveText(60);
+  Scenario s = ScenarioFromText(text);
+  s.duration_s = 10;
+  RunOptions probe;
+  probe.trace_rate_hz = 0;
+  probe.stop_when_settled = true;
+  const RunResult settled = RunOne(s, 0, 7, Builtin("lqr"), "", probe);
+  EXPECT_EQ(settled.metrics.status, RunStatus::kOk);
+  EXPECT_NE(settled.metrics.message.find("stopped early"), std::string::npos)
+      << settled.metrics.message;
+  // Not before the push has ended (0.7 s) and the robot has been quiet for the hold (1 s).
+  EXPECT_GT(settled.metrics.end_time_s, 1.7);
+  EXPECT_LT(settled.metrics.end_time_s, 10.0);
+
+  // A reference still asking for motion at the end: nothing is decided early.
+  s.drives.push_back({/*start_s=*/0.2, /*ramp_s=*/1.0, /*speed_m_s=*/0.3, 0.0});
+  const RunResult driving = RunOne(s, 0, 7, Builtin("lqr"), "", probe);
+  EXPECT_EQ(driving.metrics.status, RunStatus::kOk) << driving.metrics.message;
+  EXPECT_NEAR(driving.metrics.end_time_s, 10.0, 1e-9);
+}
+
 TEST(RunOne, TheSameSeedGivesTheSameRunAndAnotherSeedDoesNot) {
   const Scenario s = ScenarioFromText(ShoveText(60));
   const auto module = Builtin("lqr");

@@ -4,6 +4,7 @@
 #include <chrono>
 #include <cmath>
 #include <cstdio>
+#include <limits>
 #include <sstream>
 
 #include "timeline.hpp"
@@ -85,13 +86,16 @@ TraceRow Row(const sim::Plant& plant, const host::ControllerHost& host,
 }  // namespace
 
 bool RunOptions::IsValid(std::string* error) const {
+  std::ostringstream why;
   if (!(trace_rate_hz >= 0) || !std::isfinite(trace_rate_hz)) {
-    std::ostringstream why;
     why << "RunOptions::trace_rate_hz = " << trace_rate_hz << ", must be >= 0 and finite";
-    *error = why.str();
-    return false;
+  } else if (!(settle_hold_s > 0) || !std::isfinite(settle_hold_s)) {
+    why << "RunOptions::settle_hold_s = " << settle_hold_s << ", must be > 0 and finite";
+  } else {
+    return true;
   }
-  return true;
+  *error = why.str();
+  return false;
 }
 
 RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
@@ -132,7 +136,7 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   plant_options.drive = host->drive();
   plant_options.seed = seed;
   plant_options.sensor_noise = scenario.sensor_noise;
-  auto plant = sim::Plant::Create(scenario.model, plant_options, &error);
+  auto plant = sim::Plant::Create(scenario.built_model(), plant_options, &error);
   if (!plant) return finish(RunStatus::kSetupFailed, error);
   for (const auto& p : scenario.pushes) {
     if (!plant->AddPush(p, &error)) return finish(RunStatus::kSetupFailed, error);
@@ -145,7 +149,7 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   }
 
   const double equilibrium_pitch_rad =
-      design::Linearise(scenario.model, design::InputKind::kTorque).equilibrium_pitch_rad;
+      design::Linearise(scenario.built_model(), design::InputKind::kTorque).equilibrium_pitch_rad;
   const double fall_tilt_rad = scenario.metrics.fall_tilt_deg / kDeg;
   const double dt_s = scenario.dt_s;
   const long total_steps = std::lround(scenario.duration_s / dt_s);
@@ -167,11 +171,19 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   };
   if (trace_every > 0) result.trace.rows.push_back(Row(*plant, *host, timeline, 0));
 
+  // Early settling (envelope probes): from when on a quiet robot has nothing more coming to it.
+  const double quiet_from_s = options.stop_when_settled ? internal::Timeline::QuietFrom(scenario)
+                                                        : std::numeric_limits<double>::infinity();
+  const long hold_steps = std::max(1L, std::lround(options.settle_hold_s / dt_s));
+  const double tilt_band_rad = scenario.metrics.tilt_band_deg / kDeg;
+  const double rate_band_rad_s = 5 / kDeg;
+  long quiet_steps = 0;
+
   RunStatus status = RunStatus::kOk;
   std::string message;
   for (long step = 0; step < total_steps; ++step) {
     timeline.Advance(plant->step_count());
-    if (scenario.model.payload.present && !scenario.payload_shifts.empty()) {
+    if (scenario.built_model().payload.present && !scenario.payload_shifts.empty()) {
       plant->SetPayloadTarget(timeline.payload_target_m());
     }
     if (!host->Tick(*plant, timeline.reference())) {
@@ -201,8 +213,19 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
                              tilt_rad * kDeg);
       break;
     }
+    if (plant->time_s() >= quiet_from_s) {
+      const sim::TrueState& s = plant->truth();
+      const bool quiet = std::abs(tilt_rad) <= tilt_band_rad &&
+                         std::abs(s.pitch_rate_rad_s) <= rate_band_rad_s &&
+                         std::abs(s.forward_speed_m_s) < 0.05;
+      quiet_steps = quiet ? quiet_steps + 1 : 0;
+      if (quiet_steps >= hold_steps) {
+        message = Format("settled by t = %.3f s; stopped early", plant->time_s());
+        break;
+      }
+    }
   }
-  if (status == RunStatus::kOk) message = "survived";
+  if (status == RunStatus::kOk && message.empty()) message = "survived";
   if (trace_every > 0 && status != RunStatus::kOk) {
     // The end of a run cut short, among the event marks in time order.
     const double end_s =

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <limits>
 #include <string>
 
 #include "upright/model/conventions.hpp"
@@ -26,7 +27,8 @@ std::string Format(const char* format, double a, double b = 0, double c = 0) {
 }  // namespace
 
 Timeline::Timeline(const Scenario& scenario) : scenario_(scenario) {
-  payload_base_m_ = scenario.model.payload.present ? scenario.model.payload.x_m : 0.0;
+  const RobotModel& robot = scenario.built_model();
+  payload_base_m_ = robot.payload.present ? robot.payload.x_m : 0.0;
   payload_target_m_ = payload_base_m_;
   path_x_m_ = scenario.initial.x_m;
 }
@@ -82,6 +84,25 @@ std::vector<double> Timeline::DisturbanceStarts(const Scenario& s) {
   std::sort(starts.begin(), starts.end());
   starts.erase(std::unique(starts.begin(), starts.end()), starts.end());
   return starts;
+}
+
+double Timeline::QuietFrom(const Scenario& s) {
+  if (!s.drives.empty()) {
+    const DriveChange& last = s.drives.back();
+    if (last.speed_m_s != 0 || last.yaw_rate_rad_s != 0) {
+      return std::numeric_limits<double>::infinity();
+    }
+  }
+  double from = 0;
+  const auto after = [&](double t) { from = std::max(from, t); };
+  for (const auto& p : s.pushes) after(std::isfinite(p.end_s()) ? p.end_s() : p.start_s);
+  for (const auto& p : s.payload_shifts) after(p.start_s + p.duration_s);
+  for (const auto& d : s.drives) after(d.start_s + d.ramp_s);
+  for (const auto& f : s.motor_faults) after(f.start_s);
+  for (const auto& f : s.sensor_faults) {
+    after(std::isfinite(f.duration_s) ? f.start_s + f.duration_s : f.start_s);
+  }
+  return from;
 }
 
 std::vector<EventMark> Timeline::Marks(const Scenario& s) {

@@ -33,6 +33,10 @@ class Timeline {
   // When each disturbance began (pushes, payload shifts, faults, and t = 0 when the robot starts
   // away from rest upright), ascending, duplicates removed.
   static std::vector<double> DisturbanceStarts(const Scenario& scenario);
+  // When every timed event has begun and ended (a step push or sensor fault counts from its
+  // start: its effect is steady after that), provided the reference is then at rest; infinity
+  // when the reference is still asking for motion at the end. Envelope probes stop early after it.
+  static double QuietFrom(const Scenario& scenario);
   // One mark per event start, in time order, for traces.
   static std::vector<EventMark> Marks(const Scenario& scenario);
 

@@ -17,6 +17,12 @@ namespace upright::runner {
 
 struct RunOptions {
   double trace_rate_hz = 100;  // trace rows per simulated second; 0 records no trace
+  // Envelope probes: also end a run as survived once its outcome is decided that way — every
+  // timed event has begun (and a push, shift or ramp has ended), the reference is at rest, and
+  // for settle_hold_s the robot has stood still (|speed| < 0.05 m/s) upright (|tilt| within the
+  // scenario's tilt band, |pitch rate| < 5 deg/s). The metrics then cover the run so far.
+  bool stop_when_settled = false;
+  double settle_hold_s = 1.0;
   // True when valid; otherwise false and the broken rule in *error, naming the field and value.
   bool IsValid(std::string* error) const;
 };
