@@ -8,6 +8,7 @@
 #include <sstream>
 
 #include "abi_fill.hpp"
+#include "upright/model/check.hpp"
 
 namespace upright::host {
 namespace {
@@ -56,6 +57,7 @@ std::unique_ptr<ControllerHost> ControllerHost::Create(const ControllerSpec& spe
   std::unique_ptr<ControllerHost> host(new ControllerHost());
   host->module_ = spec.module;
   host->period_steps_ = std::lround(steps);
+  host->dt_s_ = dt_s;
   host->true_state_ = spec.true_state;
   host->log_ = spec.log;
 
@@ -139,8 +141,21 @@ void ControllerHost::Fail(double time_s, std::string message) {
 bool ControllerHost::Tick(sim::Plant& plant, const Reference& reference) {
   if (faulted()) return false;
   if (plant.step_count() % period_steps_ != 0) return true;
-  const double t = plant.time_s();
-  const sim::SensorSample s = plant.Sense();
+  if (!Tick(plant.step_count(), plant.Sense(), true_state_ ? &plant.truth() : nullptr, reference)) {
+    plant.SetCommand(0, 0);
+    return false;
+  }
+  plant.SetCommand(output_.command[0], output_.command[1]);
+  return true;
+}
+
+bool ControllerHost::Tick(long step, const sim::SensorSample& s, const sim::TrueState* truth,
+                          const Reference& reference) {
+  if (faulted()) return false;
+  if (step % period_steps_ != 0) return true;
+  UPRIGHT_CHECK(truth != nullptr || !true_state_, "%s reads the true state; none was given",
+                Who().c_str());
+  const double t = static_cast<double>(step) * dt_s_;
   upright_sensor_sample& in = input_.sensors;
   in.time_s = s.time_s;
   for (int i = 0; i < 3; ++i) {
@@ -155,7 +170,7 @@ bool ControllerHost::Tick(sim::Plant& plant, const Reference& reference) {
   input_.reference.yaw_rate_rad_s = reference.yaw_rate_rad_s;
   input_.truth = nullptr;
   if (true_state_) {
-    const sim::TrueState& x = plant.truth();
+    const sim::TrueState& x = *truth;
     truth_.x_m = x.x_m;
     truth_.y_m = x.y_m;
     truth_.pitch_rad = x.pitch_rad;
@@ -199,12 +214,7 @@ bool ControllerHost::Tick(sim::Plant& plant, const Reference& reference) {
       }
     }
   }
-  if (faulted()) {
-    plant.SetCommand(0, 0);
-    return false;
-  }
-  plant.SetCommand(output_.command[0], output_.command[1]);
-  return true;
+  return !faulted();
 }
 
 bool ControllerHost::Reset(std::string* error) {

@@ -89,6 +89,7 @@ BatchResult RunBatch(const std::vector<Scenario>& scenarios, const BatchOptions&
   BatchResult batch;
   batch.tool_version = tool_version;
   batch.trace_rate_hz = options.run.trace_rate_hz;
+  batch.linear_twin = options.run.linear_twin;
 
   // Every module file once, before any thread starts.
   const std::vector<std::string> dirs =

@@ -11,7 +11,9 @@
 #include "upright/design/linear_model.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/model/conventions.hpp"
+#include "upright/runner/linear_twin.hpp"
 #include "upright/runner/metric_recorder.hpp"
+#include "upright/runner/twin_gap.hpp"
 #include "upright/sim/plant.hpp"
 
 namespace upright::runner {
@@ -81,6 +83,42 @@ TraceRow Row(const sim::Plant& plant, const host::ControllerHost& host,
   r.slip_right = c.wheels[kRight].slip_ratio;
   r.payload_x_m = s.payload_x_m;
   return r;
+}
+
+// The linear twin of this run (RunOptions::linear_twin): the same drive from a timeline of its
+// own, the twin over the scenario's whole duration, its gap to `plant` and its trace columns.
+void AddLinearTwin(const Scenario& scenario, std::size_t controller,
+                   const std::shared_ptr<host::Module>& module, const TiltDriftSeries& plant,
+                   long total_steps, RunResult* result) {
+  DrivePlan plan;
+  plan.reference.reserve(static_cast<std::size_t>(total_steps));
+  plan.path_x_m.reserve(static_cast<std::size_t>(total_steps));
+  plan.path_y_m.reserve(static_cast<std::size_t>(total_steps));
+  internal::Timeline timeline(scenario);
+  for (long step = 0; step < total_steps; ++step) {
+    timeline.Advance(step);
+    plan.reference.push_back(timeline.reference());
+    timeline.Integrate(scenario.dt_s);
+    plan.path_x_m.push_back(timeline.path_x_m());
+    plan.path_y_m.push_back(timeline.path_y_m());
+  }
+  TwinRun twin;
+  std::string error;
+  if (!RunLinearTwin(scenario, controller, module, plan, &twin, &error)) {
+    result->gap.twin_message = "not run: " + error;
+    return;
+  }
+  result->gap = CompareTwin(twin.series, plant);
+  result->gap.not_modelled = NotModelled(scenario);
+  result->gap.twin_message = twin.message;
+  if (!(result->trace.rate_hz > 0)) return;
+  result->trace.has_twin = true;
+  for (TraceRow& row : result->trace.rows) {
+    const auto k = static_cast<std::size_t>(std::lround(row.time_s / scenario.dt_s));
+    if (k >= twin.pitch_rad.size()) continue;
+    row.twin_pitch_deg = twin.pitch_rad[k] * kDeg;
+    row.twin_x_m = twin.x_m[k];
+  }
 }
 
 }  // namespace
@@ -170,6 +208,13 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     return std::hypot(s.x_m - timeline.path_x_m(), s.y_m - timeline.path_y_m());
   };
   if (trace_every > 0) result.trace.rows.push_back(Row(*plant, *host, timeline, 0));
+  // The linear twin compares against tilt and drift at every step, the storage reserved here.
+  TiltDriftSeries plant_series;
+  if (options.linear_twin) {
+    plant_series.dt_s = dt_s;
+    plant_series.Reserve(static_cast<std::size_t>(total_steps + 1));
+    plant_series.Add(plant->truth().pitch_rad - equilibrium_pitch_rad, 0);
+  }
 
   // Early settling (envelope probes): from when on a quiet robot has nothing more coming to it.
   const double quiet_from_s = options.stop_when_settled ? internal::Timeline::QuietFrom(scenario)
@@ -200,6 +245,9 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     }
     const double drift_m = drift();
     recorder.Add(Sample(*plant, equilibrium_pitch_rad, drift_m));
+    if (options.linear_twin) {
+      plant_series.Add(plant->truth().pitch_rad - equilibrium_pitch_rad, drift_m);
+    }
     if (trace_every > 0 && plant->step_count() % trace_every == 0) {
       result.trace.rows.push_back(Row(*plant, *host, timeline, drift_m));
     }
@@ -236,6 +284,9 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     marks.insert(at, {end_s, ToString(status)});
   }
   result.steps = plant->step_count();
+  if (options.linear_twin) {
+    AddLinearTwin(scenario, controller, module, plant_series, total_steps, &result);
+  }
   result.metrics = recorder.Finish(status, message);
   const RunMetrics metrics = result.metrics;
   return finish(metrics.status, metrics.message);

@@ -10,6 +10,7 @@
 
 #include "batch_groups.hpp"
 #include "compare_table.hpp"
+#include "gap_table.hpp"
 #include "manifest_json.hpp"
 #include "ranking_table.hpp"
 #include "summary_table.hpp"
@@ -88,6 +89,10 @@ bool WriteResults(const std::string& dir, const BatchResult& batch, std::string*
   };
   for (const auto& [name, build] : tables) {
     if (!Write(root / name, build(), error)) return false;
+  }
+  if (batch.linear_twin) {
+    if (!Write(root / "gap.csv", internal::GapCsv(batch), error)) return false;
+    if (!Write(root / "gap.md", internal::GapMarkdown(groups), error)) return false;
   }
 
   if (!run_of_trace.empty()) {

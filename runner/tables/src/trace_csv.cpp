@@ -45,9 +45,15 @@ constexpr std::array<TraceColumn, 27> kTraceColumns = {{
     {"payload_x_m", &TraceRow::payload_x_m},
 }};
 
+// The linear twin's columns, after the others, in traces of runs that ran it (Trace::has_twin).
+constexpr std::array<TraceColumn, 2> kTwinColumns = {{
+    {"twin_pitch_deg", &TraceRow::twin_pitch_deg},
+    {"twin_x_m", &TraceRow::twin_x_m},
+}};
+
 // A struct of doubles only: a field added to TraceRow without a column here fails to compile.
-static_assert(sizeof(TraceRow) == kTraceColumns.size() * sizeof(double),
-              "every TraceRow field needs a column in kTraceColumns");
+static_assert(sizeof(TraceRow) == (kTraceColumns.size() + kTwinColumns.size()) * sizeof(double),
+              "every TraceRow field needs a column in kTraceColumns or kTwinColumns");
 
 }  // namespace
 
@@ -55,8 +61,13 @@ std::string TraceCsv(const Trace& trace) {
   std::string csv;
   // About 10 characters per number: one allocation for the whole trace in the usual case.
   csv.reserve((trace.rows.size() + 1) * (kTraceColumns.size() * 10 + 8));
+  const std::size_t twin_columns = trace.has_twin ? kTwinColumns.size() : 0;
   for (const TraceColumn& column : kTraceColumns) {
     csv += column.name;
+    csv += ',';
+  }
+  for (std::size_t c = 0; c < twin_columns; ++c) {
+    csv += kTwinColumns[c].name;
     csv += ',';
   }
   csv += "event\n";
@@ -74,6 +85,10 @@ std::string TraceCsv(const Trace& trace) {
     const TraceRow& row = trace.rows[r];
     for (const TraceColumn& column : kTraceColumns) {
       AppendNumber(&csv, row.*column.field);
+      csv += ',';
+    }
+    for (std::size_t c = 0; c < twin_columns; ++c) {
+      AppendNumber(&csv, row.*kTwinColumns[c].field);
       csv += ',';
     }
     const bool last = r + 1 == trace.rows.size();

@@ -1,5 +1,6 @@
 // traces/<run>.csv: one run's sampled trace as CSV — one column per TraceRow field (named as the
-// field), then `event`: the labels of the marks that fall within the row's sample interval.
+// field; the linear twin's two only when the run ran it), then `event`: the labels of the marks
+// that fall within the row's sample interval.
 #pragma once
 
 #include <string>

@@ -50,6 +50,12 @@ class ControllerHost {
   // module and sets the plant's command, held until the next tick. False once the module has
   // faulted (the plant's command is then left at zero); fault() says why.
   bool Tick(sim::Plant& plant, const Reference& reference);
+  // The same without a plant, for any simulation of the robot: call before every physics step
+  // `step` (0, 1, ...) with what the sensors read then and, when the module reads it, the true
+  // state (may be null otherwise). On a control tick it steps the module; the caller applies
+  // command() until the next tick. False once the module has faulted (hold zero then).
+  bool Tick(long step, const sim::SensorSample& sensed, const sim::TrueState* truth,
+            const Reference& reference);
   // Back to the state just after creation, for a new run.
   bool Reset(std::string* error);
 
@@ -74,6 +80,7 @@ class ControllerHost {
   void* instance_ = nullptr;
   sim::DriveMode drive_ = sim::DriveMode::kVoltage;
   long period_steps_ = 1;
+  double dt_s_ = 0;  // the physics step, for the time of a fault
   bool true_state_ = false;
   std::vector<std::string> diagnostic_names_;
   upright_step_input input_{};

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <cstdint>
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -32,6 +33,9 @@ struct TraceRow {
   double load_left_N = 0, load_right_N = 0;        // ground normal loads
   double slip_left = 0, slip_right = 0;            // slip ratios
   double payload_x_m = 0;                          // carriage position on the deck
+  // The linear twin at the same time (Trace::has_twin; NaN where the twin had stopped).
+  double twin_pitch_deg = std::numeric_limits<double>::quiet_NaN();
+  double twin_x_m = std::numeric_limits<double>::quiet_NaN();  // axle midpoint, world x
 };
 
 // A moment worth marking in a trace: an event starting, a fault, a fall.
@@ -44,6 +48,26 @@ struct Trace {
   double rate_hz = 0;  // 0: no trace recorded
   std::vector<TraceRow> rows;
   std::vector<EventMark> marks;  // in time order
+  bool has_twin = false;         // rows carry the linear twin's columns
+};
+
+// The linear twin against the plant for one run (RunOptions::linear_twin; runner/twin). Peaks are
+// each model's own over its own run (the twin always runs the scenario's whole duration unless it
+// stops, see twin_message); divergence times compare the two at the same physics steps, while
+// both ran, against the bands stated beside them. NaN: does not apply (never diverged, no twin).
+struct GapFigures {
+  bool ran = false;  // the twin was asked for and built
+  double peak_tilt_linear_deg = std::numeric_limits<double>::quiet_NaN();
+  double peak_tilt_plant_deg = std::numeric_limits<double>::quiet_NaN();
+  double peak_drift_linear_m = std::numeric_limits<double>::quiet_NaN();
+  double peak_drift_plant_m = std::numeric_limits<double>::quiet_NaN();
+  double tilt_band_deg = std::numeric_limits<double>::quiet_NaN();  // the |Δtilt| band used
+  double drift_band_m = std::numeric_limits<double>::quiet_NaN();   // the |Δdrift| band used
+  // First time |Δtilt| (|Δdrift|) exceeded its band; NaN when it never did.
+  double tilt_diverge_s = std::numeric_limits<double>::quiet_NaN();
+  double drift_diverge_s = std::numeric_limits<double>::quiet_NaN();
+  std::string not_modelled;  // the scenario's events the linear model leaves out, "; "-joined
+  std::string twin_message;  // empty when the twin ran to the end; otherwise why it stopped
 };
 
 struct RunResult {
@@ -55,6 +79,7 @@ struct RunResult {
   Trace trace;
   long steps = 0;     // physics steps taken
   double wall_s = 0;  // wall-clock time of the run (manifest only, never in tables)
+  GapFigures gap;     // the linear twin's comparison, when asked for
 };
 
 // What the manifest says about one scenario of a batch.
@@ -81,6 +106,7 @@ struct BatchResult {
   int jobs = 1;
   double trace_rate_hz = 0;
   double wall_s = 0;
+  bool linear_twin = false;  // every run also ran the linear twin (gap.csv, gap.md)
 };
 
 }  // namespace upright::runner

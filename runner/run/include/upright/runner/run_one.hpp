@@ -23,6 +23,9 @@ struct RunOptions {
   // scenario's tilt band, |pitch rate| < 5 deg/s). The metrics then cover the run so far.
   bool stop_when_settled = false;
   double settle_hold_s = 1.0;
+  // Also replay the run on the linear robot (runner/twin: linear_twin.hpp) for the scenario's
+  // whole duration and compare: RunResult::gap, and twin columns in the trace.
+  bool linear_twin = false;
   // True when valid; otherwise false and the broken rule in *error, naming the field and value.
   bool IsValid(std::string* error) const;
 };

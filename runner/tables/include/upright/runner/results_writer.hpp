@@ -11,14 +11,16 @@
 
 namespace upright::runner {
 
-// Writes summary.csv/.md, compare.csv/.md, ranking.csv/.md, traces/<TraceFileName>.csv (runs with
-// trace.rate_hz > 0) and, last, manifest.json into `dir`, creating it and its parents. Every file
-// but the manifest depends only on the runs' contents and order, never on timing or job count:
-// identical batches give byte-identical files. False and *error (naming the path) when the folder
+// Writes summary.csv/.md, compare.csv/.md, ranking.csv/.md, gap.csv/.md (only when
+// batch.linear_twin), traces/<TraceFileName>.csv (runs with trace.rate_hz > 0) and, last,
+// manifest.json into `dir`, creating it and its parents. Every file but the manifest depends
+// only on the runs' contents and order, never on timing or job count: identical batches give
+// byte-identical files. False and *error (naming the path) when the folder
 // cannot be made, two traced runs map to the same trace file, or a file cannot be written.
 bool WriteResults(const std::string& dir, const BatchResult& batch, std::string* error);
 
-// The names of the files WriteResults writes at the top of `dir`, for messages and tests.
+// The names of the files WriteResults writes at the top of `dir`, for messages and tests (a
+// batch that ran the linear twin adds gap.csv and gap.md).
 const std::vector<std::string>& ResultFileNames();
 
 // traces/<file name> of a run: "<scenario>__<controller>__seed<seed>.csv" with any character
