@@ -532,7 +532,7 @@ TEST_F(ScenarioFileTest, ReportsUnknownAttributesAndElements) {
                   "dt_s, duration_s, solver_iterations, sensor_noise)"});
   EXPECT_EQ(Errors(Before("  <weather rain=\"1\"/>")),
             Lines{"t.xml:4: scenario: unknown element <weather> (expected one of: description, "
-                  "robot, ground, start, timeline, controllers, seeds, metrics)"});
+                  "robot, ground, start, timeline, controllers, seeds, metrics, dispersions)"});
   EXPECT_EQ(Errors(Edit(R"(duration_s="0.1"/>)", R"(duration_s="0.1" force_N="3"/>)")),
             Lines{"t.xml:5: timeline/push: unknown attribute 'force_N' (expected one of: at_s, "
                   "shape, peak_N, duration_s, direction_deg, height_m)"});

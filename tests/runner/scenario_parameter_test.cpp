@@ -94,6 +94,10 @@ TEST(ScenarioParameter, RefusesWhatTheScenarioCannotHoldAndLeavesItUnchanged) {
   EXPECT_EQ(error, "timeline/push[1].at_s = 6: push at_s = 6: must be in [0, 6)");
   EXPECT_FALSE(SetScenarioParameter(&s, "timeline/payload_shift[1].distance_m", 0.5, &error));
   EXPECT_NE(error.find("outside the carriage travel [-0.15, 0.15] m"), std::string::npos) << error;
+  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/push[1].height_m", 0.9, &error));
+  EXPECT_EQ(error,
+            "timeline/push[1].height_m = 0.9: push height_m = 0.9: must be within the chassis "
+            "outline [-0.1, 0.65] m");
   EXPECT_FALSE(SetScenarioParameter(&s, "robot/chassis.mass_kg", 0, &error));
   EXPECT_EQ(error, "robot/chassis.mass_kg = 0: chassis mass_kg = 0: must be in (0, 1000]");
   EXPECT_FALSE(SetScenarioParameter(&s, "ground.slope_deg", 3, &error));

@@ -10,6 +10,7 @@
 #include <system_error>
 #include <utility>
 
+#include "scenario_dispersions.hpp"
 #include "scenario_reading.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
@@ -282,6 +283,7 @@ ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::str
   ReadSeeds(root, context, &scenario);
   ReadMetrics(root, context, &scenario);
   CheckRobotRates(root, context);
+  internal::ReadDispersions(root, context, &scenario);  // last: it needs the whole scenario
   doc.ReportUnread();
 
   result.errors = doc.errors();

@@ -204,8 +204,14 @@ bool Check(Scenario& s, std::string* error) {
     return false;
   };
   if (!s.terrain.IsValid(error)) return false;
+  const ChassisModel& chassis = s.built_model().chassis;
   for (const auto& p : s.pushes) {
     if (!p.IsValid(error) || !in_run(p.start_s, "push")) return false;
+    if (p.height_m < chassis.outline_bottom_m || p.height_m > chassis.outline_top_m) {
+      *error = "push height_m = " + Num(p.height_m) + ": must be within the chassis outline [" +
+               Num(chassis.outline_bottom_m) + ", " + Num(chassis.outline_top_m) + "] m";
+      return false;
+    }
   }
   for (const auto& p : s.payload_shifts) {
     if (!in_run(p.start_s, "payload shift")) return false;
