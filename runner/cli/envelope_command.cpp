@@ -1,0 +1,166 @@
+// `upright envelope`: a scenario file and a parameter path in; every controller's bisection (and
+// with --vary2 a survival map) run in parallel with a progress line on a terminal; envelope.csv,
+// envelope.md, envelope_map.csv and manifest.json written and each controller's envelope printed.
+#include "envelope_command.hpp"
+
+#include <unistd.h>
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <iostream>
+
+#include "commands.hpp"
+#include "upright/runner/envelope.hpp"
+#include "upright/runner/envelope_writer.hpp"
+#include "upright/runner/scenario_file.hpp"
+#include "upright/runner/scenario_parameter.hpp"
+#include "upright_version.hpp"
+
+namespace upright::cli {
+namespace {
+
+std::string Clock(double seconds) {
+  const long s = std::lround(std::max(0.0, seconds));
+  char text[32];
+  std::snprintf(text, sizeof text, "%ld:%02ld", s / 60, s % 60);
+  return text;
+}
+
+// An option that sets a std::optional<double> when given.
+void AddOptionalNumber(CLI::App* cmd, const std::string& name, std::optional<double>* target,
+                       const std::string& help) {
+  cmd->add_option_function<double>(
+      name, [target](const double& value) { *target = value; }, help);
+}
+
+std::string Range(const runner::ParameterAxis& axis) {
+  char text[128];
+  std::snprintf(text, sizeof text, "from %g to %g%s%s", axis.lo, axis.hi,
+                axis.unit.empty() ? "" : " ", axis.unit.c_str());
+  return axis.path + " " + text;
+}
+
+}  // namespace
+
+CLI::App* AddEnvelopeCommand(CLI::App* app, EnvelopeCommandOptions* o) {
+  auto* cmd = app->add_subcommand(
+      "envelope",
+      "Each controller's survival envelope: the hardest value of a scenario parameter it "
+      "survives on every seed, found by bisection; with --vary2, a survival map over two");
+  cmd->add_option("SCENARIO", o->scenario_path, "Scenario file (.xml)")->required();
+  cmd->add_option("--vary", o->vary, "Parameter path, e.g. timeline/push[1].peak_N (see below)")
+      ->required();
+  AddOptionalNumber(cmd, "--lo", &o->lo,
+                    "Range start, in the parameter's unit (default: 0.25 x the scenario's value)");
+  AddOptionalNumber(cmd, "--hi", &o->hi, "Range end (default: 4 x the scenario's value)");
+  AddOptionalNumber(cmd, "--tol", &o->tol,
+                    "Bisection tolerance, in the parameter's unit (default: (hi - lo) / 200)");
+  cmd->add_option("--vary2", o->vary2, "A second parameter path: also a survival map over both");
+  AddOptionalNumber(cmd, "--lo2", &o->lo2, "Range start of the second parameter");
+  AddOptionalNumber(cmd, "--hi2", &o->hi2, "Range end of the second parameter");
+  cmd->add_option("--grid", o->grid, "Map points per axis, ends included")
+      ->check(CLI::Range(2, 101))
+      ->capture_default_str();
+  cmd->add_option("--jobs", o->jobs, "Runs in parallel (0: one per core)")
+      ->check(CLI::Range(0, 1024))
+      ->capture_default_str();
+  cmd->add_option("--seeds", o->seed_count,
+                  "Noise seeds 1..N for every probe (0: the scenario's own seeds)")
+      ->check(CLI::Range(0, 100000))
+      ->capture_default_str();
+  cmd->add_option("--out", o->out_dir,
+                  "Results folder (default: results/<scenario name>-envelope)");
+  std::string footer =
+      "Parameter paths read like the scenario file (an index [i] counts elements of one kind "
+      "from 1, in start-time order), in the file's units:\n";
+  for (const std::string& line : runner::ScenarioParameterHelp()) footer += "  " + line + "\n";
+  cmd->footer(footer);
+  return cmd;
+}
+
+int RunEnvelope(const EnvelopeCommandOptions& options) {
+  runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(options.scenario_path);
+  if (!loaded.ok()) {
+    for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
+    std::cerr << options.scenario_path << ": invalid; nothing was run\n";
+    return kExitBadInput;
+  }
+  const runner::Scenario& scenario = loaded.scenario;
+  runner::EnvelopeOptions envelope_options;
+  envelope_options.param = options.vary;
+  envelope_options.lo = options.lo;
+  envelope_options.hi = options.hi;
+  envelope_options.tol = options.tol;
+  envelope_options.param2 = options.vary2;
+  envelope_options.lo2 = options.lo2;
+  envelope_options.hi2 = options.hi2;
+  envelope_options.grid = options.grid;
+  envelope_options.jobs = options.jobs;
+  envelope_options.seed_count = options.seed_count;
+  runner::EnvelopePlan plan;
+  std::string error;
+  if (!runner::PlanEnvelope(scenario, envelope_options, &plan, &error)) {
+    std::cerr << options.scenario_path << ": " << error << "\n"
+              << "(parameter paths: upright envelope --help; nothing was run)\n";
+    return kExitBadInput;
+  }
+  const std::string out_dir =
+      options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
+
+  const bool terminal = isatty(STDERR_FILENO) != 0;
+  const auto start = std::chrono::steady_clock::now();
+  std::printf("upright envelope: %s, %s to within %g%s%s; %zu controller(s) x %zu seed(s)\n",
+              scenario.name.c_str(), Range(plan.axis).c_str(), plan.tol,
+              plan.axis.unit.empty() ? "" : " ", plan.axis.unit.c_str(),
+              scenario.controllers.size(), plan.seeds.size());
+  if (plan.axis2) {
+    std::printf("  and a %d x %d survival map over %s\n", plan.grid, plan.grid,
+                Range(*plan.axis2).c_str());
+  }
+  std::printf("  at most %zu run(s) into %s\n", plan.max_runs, out_dir.c_str());
+  std::fflush(stdout);
+  bool line_open = false;  // a progress line without its newline yet
+  const runner::ProgressFn progress = [&](std::size_t done, std::size_t all) {
+    if (!terminal) return;
+    line_open = done != all;
+    const double elapsed =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    const double eta = elapsed / static_cast<double>(done) * static_cast<double>(all - done);
+    std::fprintf(stderr, "\r  %zu/%zu runs  %3.0f %%  elapsed %s  left ~%s   ", done, all,
+                 100.0 * static_cast<double>(done) / static_cast<double>(all),
+                 Clock(elapsed).c_str(), Clock(eta).c_str());
+    if (done == all) std::fputc('\n', stderr);
+  };
+  const runner::EnvelopeResult result =
+      runner::RunEnvelope(scenario, envelope_options, plan, UPRIGHT_VERSION, progress);
+  // The runs expected can shrink after the last one (a bisection that ended early).
+  if (line_open) std::fputc('\n', stderr);
+  if (!runner::WriteEnvelopeResults(out_dir, result, &error)) {
+    std::cerr << error << "\n";
+    return kExitFailed;
+  }
+
+  std::size_t width = 0;
+  for (const auto& c : result.controllers) width = std::max(width, c.controller.size());
+  for (const auto& c : result.controllers) {
+    std::printf("  %-*s  %s (%d probe(s))\n", static_cast<int>(width), c.controller.c_str(),
+                runner::EnvelopeOutcomeText(c, plan).c_str(), c.bisect.probes);
+  }
+  for (const auto& m : result.maps) {
+    if (!m.setup_error.empty()) {
+      std::printf("  %s map: some points could not run: %s\n", m.controller.c_str(),
+                  m.setup_error.c_str());
+    }
+  }
+  std::printf("%zu run(s); %.1f s on %d job(s)\n", result.runs, result.wall_s, result.jobs);
+  std::printf("tables: %s/envelope.md, %s/envelope.csv%s\n", out_dir.c_str(), out_dir.c_str(),
+              plan.axis2 ? (", " + out_dir + "/envelope_map.csv").c_str() : "");
+  std::printf(
+      "Simulation only: validate on hardware with a tether or spotter, at low speed first, "
+      "within local rules.\n");
+  return result.any_setup_failed() ? kExitFailed : kExitOk;
+}
+
+}  // namespace upright::cli

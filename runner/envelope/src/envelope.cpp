@@ -1,0 +1,485 @@
+#include "upright/runner/envelope.hpp"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <exception>
+#include <map>
+#include <memory>
+#include <sstream>
+#include <thread>
+#include <utility>
+
+#include "parallel_for.hpp"
+#include "parameter_unit.hpp"
+#include "round_value.hpp"
+#include "upright/host/module.hpp"
+#include "upright/runner/run_one.hpp"
+#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/sha256.hpp"
+
+namespace upright::runner {
+namespace {
+
+std::string Num(double value) {
+  std::ostringstream text;
+  text << value;
+  return text.str();
+}
+
+// A loaded module, or why it could not be loaded.
+struct LoadedModule {
+  std::shared_ptr<host::Module> module;
+  std::string error;
+};
+
+LoadedModule Load(const ControllerEntry& entry, const std::vector<std::string>& dirs) {
+  LoadedModule loaded;
+  std::string path = entry.module;
+  if (entry.builtin) {
+    path = host::FindBuiltinModule(entry.module, dirs, &loaded.error);
+    if (path.empty()) return loaded;
+  }
+  loaded.module = host::Module::Load(path, &loaded.error);
+  return loaded;
+}
+
+// Every controller's module, loaded once per distinct module before any thread starts.
+std::vector<const LoadedModule*> LoadModules(
+    const Scenario& scenario, const std::vector<std::string>& module_dirs,
+    std::map<std::pair<bool, std::string>, LoadedModule>* store) {
+  const std::vector<std::string> dirs =
+      module_dirs.empty() ? host::DefaultModuleDirs() : module_dirs;
+  std::vector<const LoadedModule*> modules;
+  for (const ControllerEntry& entry : scenario.controllers) {
+    const auto key = std::make_pair(entry.builtin, entry.module);
+    if (!store->count(key)) store->emplace(key, Load(entry, dirs));
+    modules.push_back(&store->at(key));
+  }
+  return modules;
+}
+
+std::vector<std::uint64_t> SeedsOf(const Scenario& scenario, int seed_count) {
+  if (seed_count <= 0) return scenario.seeds;
+  std::vector<std::uint64_t> seeds;
+  for (int i = 1; i <= seed_count; ++i) seeds.push_back(static_cast<std::uint64_t>(i));
+  return seeds;
+}
+
+ScenarioInfo Describe(const Scenario& scenario, const std::vector<std::uint64_t>& seeds) {
+  ScenarioInfo info;
+  info.name = scenario.name;
+  info.path = scenario.path;
+  std::string ignored;  // an unreadable file leaves its hash empty in the manifest
+  info.sha256 = Sha256OfFile(scenario.path, &ignored);
+  info.model_name = scenario.model.name;
+  info.model_path = scenario.model_path;
+  info.model_sha256 = Sha256OfFile(scenario.model_path, &ignored);
+  info.dt_s = scenario.dt_s;
+  info.duration_s = scenario.duration_s;
+  for (const auto& c : scenario.controllers) info.controllers.push_back(c.name);
+  info.baseline = scenario.controllers.at(scenario.baseline).name;
+  info.seeds = seeds;
+  return info;
+}
+
+// The axis of `path` with its defaults resolved, the ends checked against the scenario.
+bool ResolveAxis(const Scenario& scenario, const std::string& path, std::optional<double> lo,
+                 std::optional<double> hi, ParameterAxis* axis, std::string* error) {
+  axis->path = path;
+  axis->unit = internal::ParameterUnit(path);
+  if (!GetScenarioParameter(scenario, path, &axis->scenario_value, error)) return false;
+  const double v = axis->scenario_value;
+  if ((!lo || !hi) && v == 0) {
+    *error = path + ": the scenario's value is 0, so there is no default range (0.25 to 4 times " +
+             "it); give the range (--lo and --hi)";
+    return false;
+  }
+  axis->lo = lo ? *lo : std::min(0.25 * v, 4 * v);
+  axis->hi = hi ? *hi : std::max(0.25 * v, 4 * v);
+  if (!(axis->lo < axis->hi)) {
+    *error = path + ": range start " + Num(axis->lo) + " must be below its end " + Num(axis->hi) +
+             (lo && hi ? "" : " (defaults: 0.25 and 4 times the scenario's value " + Num(v) + ")");
+    return false;
+  }
+  return true;
+}
+
+// k + 2 probes for a bisection from width w to tol, k = ⌈log2(w / tol)⌉ (bisect.hpp).
+std::size_t BracketedProbes(double width, double tol) {
+  return 2 + static_cast<std::size_t>(std::max(0.0, std::ceil(std::log2(width / tol))));
+}
+
+// One grid value: lo … hi in grid − 1 equal steps, the last exactly hi; rounded for reading.
+double GridValue(const ParameterAxis& axis, int i, int grid) {
+  if (i == grid - 1) return axis.hi;
+  return internal::RoundForReading(axis.lo + (axis.hi - axis.lo) * static_cast<double>(i) /
+                                                 static_cast<double>(grid - 1));
+}
+
+// What a probe run comes to, kept small.
+struct RunVerdict {
+  RunStatus status = RunStatus::kNotRun;
+  std::string message;
+};
+
+// One run of one probe scenario, never throwing.
+RunVerdict RunProbe(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                    const LoadedModule& loaded, const RunOptions& run_options) {
+  RunVerdict verdict;
+  try {
+    const RunResult r =
+        RunOne(scenario, controller, seed, loaded.module, loaded.error, run_options);
+    verdict.status = r.metrics.status;
+    verdict.message = r.metrics.message;
+  } catch (const std::exception& e) {
+    // Out of memory and the like: the probe could not be run.
+    verdict.status = RunStatus::kSetupFailed;
+    verdict.message = std::string("the run stopped on an error: ") + e.what();
+  }
+  return verdict;
+}
+
+// How the seeds of one probe went.
+struct ProbeTally {
+  int survived = 0;
+  std::string failure;      // the first failing seed (seed order)
+  std::string setup_error;  // the first seed that could not be run
+};
+
+ProbeTally Tally(const std::vector<std::uint64_t>& seeds, const RunVerdict* verdicts) {
+  ProbeTally tally;
+  for (std::size_t k = 0; k < seeds.size(); ++k) {
+    const RunVerdict& v = verdicts[k];
+    if (v.status == RunStatus::kOk) {
+      ++tally.survived;
+      continue;
+    }
+    if (v.status == RunStatus::kSetupFailed && tally.setup_error.empty()) {
+      tally.setup_error = v.message;
+    }
+    if (tally.failure.empty()) {
+      // "seed 2: fell at t = ...", or with the status named when the message does not start so.
+      const std::string status = ToString(v.status);
+      tally.failure = "seed " + std::to_string(seeds[k]) + ": " +
+                      (v.message.rfind(status, 0) == 0 ? "" : status + ": ") + v.message;
+    }
+  }
+  return tally;
+}
+
+// The scenario with the parameters set; false and *error when it refuses a value.
+bool ProbeScenario(const Scenario& scenario, const std::string& path, double value,
+                   const std::string& path2, double value2, Scenario* probe, std::string* error) {
+  *probe = scenario;
+  if (!SetScenarioParameter(probe, path, value, error)) return false;
+  return path2.empty() || SetScenarioParameter(probe, path2, value2, error);
+}
+
+}  // namespace
+
+bool EnvelopeOptions::IsValid(std::string* error) const {
+  std::ostringstream why;
+  const auto finite_if_set = [](const std::optional<double>& v) { return !v || std::isfinite(*v); };
+  if (param.empty()) {
+    why << "EnvelopeOptions::param is empty, must name a scenario parameter";
+  } else if (!finite_if_set(lo) || !finite_if_set(hi)) {
+    why << "EnvelopeOptions::lo = " << lo.value_or(0) << ", hi = " << hi.value_or(0)
+        << ", must be finite";
+  } else if (lo && hi && !(*lo < *hi)) {
+    why << "EnvelopeOptions::lo = " << *lo << ", must be < hi = " << *hi;
+  } else if (tol && !(std::isfinite(*tol) && *tol > 0)) {
+    why << "EnvelopeOptions::tol = " << *tol << ", must be > 0 and finite";
+  } else if (param2.empty() && (lo2 || hi2)) {
+    why << "EnvelopeOptions::lo2/hi2 are set without param2, must come with a second parameter";
+  } else if (!param2.empty() && param2 == param) {
+    why << "EnvelopeOptions::param2 = " << param2 << ", must differ from param";
+  } else if (!finite_if_set(lo2) || !finite_if_set(hi2)) {
+    why << "EnvelopeOptions::lo2 = " << lo2.value_or(0) << ", hi2 = " << hi2.value_or(0)
+        << ", must be finite";
+  } else if (lo2 && hi2 && !(*lo2 < *hi2)) {
+    why << "EnvelopeOptions::lo2 = " << *lo2 << ", must be < hi2 = " << *hi2;
+  } else if (grid < 2 || grid > 101) {
+    why << "EnvelopeOptions::grid = " << grid << ", must be in [2, 101]";
+  } else if (jobs < 0) {
+    why << "EnvelopeOptions::jobs = " << jobs << ", must be >= 0 (0: one per core)";
+  } else if (seed_count < 0) {
+    why << "EnvelopeOptions::seed_count = " << seed_count
+        << ", must be >= 0 (0: the scenario's seeds)";
+  } else if (!(std::isfinite(settle_hold_s) && settle_hold_s > 0)) {
+    why << "EnvelopeOptions::settle_hold_s = " << settle_hold_s << ", must be > 0 and finite";
+  } else {
+    return true;
+  }
+  *error = why.str();
+  return false;
+}
+
+bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, EnvelopePlan* plan,
+                  std::string* error) {
+  if (!options.IsValid(error)) return false;
+  EnvelopePlan p;
+  if (!ResolveAxis(scenario, options.param, options.lo, options.hi, &p.axis, error)) return false;
+  p.tol = options.tol ? *options.tol : (p.axis.hi - p.axis.lo) / 200;
+  if (!options.param2.empty()) {
+    ParameterAxis axis2;
+    if (!ResolveAxis(scenario, options.param2, options.lo2, options.hi2, &axis2, error)) {
+      return false;
+    }
+    p.axis2 = axis2;
+    p.grid = options.grid;
+  }
+  // Both ends, and with a map its four corners, must make a valid scenario.
+  Scenario probe;
+  for (const double value : {p.axis.lo, p.axis.hi}) {
+    if (!ProbeScenario(scenario, p.axis.path, value, "", 0, &probe, error)) return false;
+    if (p.axis2) {
+      for (const double value2 : {p.axis2->lo, p.axis2->hi}) {
+        if (!ProbeScenario(scenario, p.axis.path, value, p.axis2->path, value2, &probe, error)) {
+          return false;
+        }
+      }
+    }
+  }
+  p.seeds = SeedsOf(scenario, options.seed_count);
+  const std::size_t per_probe = scenario.controllers.size() * p.seeds.size();
+  p.max_runs = per_probe * BracketedProbes(p.axis.hi - p.axis.lo, p.tol);
+  if (p.axis2) p.max_runs += per_probe * static_cast<std::size_t>(p.grid * p.grid);
+  *plan = std::move(p);
+  return true;
+}
+
+bool EnvelopeResult::any_setup_failed() const {
+  for (const auto& c : controllers) {
+    if (!c.setup_error.empty()) return true;
+  }
+  for (const auto& m : maps) {
+    if (!m.setup_error.empty()) return true;
+  }
+  return false;
+}
+
+EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& options,
+                           const EnvelopePlan& plan, const std::string& tool_version,
+                           const ProgressFn& progress) {
+  const auto wall_start = std::chrono::steady_clock::now();
+  EnvelopeResult result;
+  result.tool_version = tool_version;
+  result.scenario = Describe(scenario, plan.seeds);
+  result.plan = plan;
+  const unsigned cores = std::max(1u, std::thread::hardware_concurrency());
+  const std::size_t jobs = options.jobs > 0 ? static_cast<std::size_t>(options.jobs) : cores;
+  result.jobs = static_cast<int>(jobs);
+
+  std::map<std::pair<bool, std::string>, LoadedModule> store;
+  const std::vector<const LoadedModule*> modules =
+      LoadModules(scenario, options.module_dirs, &store);
+  RunOptions run_options;
+  run_options.trace_rate_hz = 0;
+  run_options.stop_when_settled = true;
+  run_options.settle_hold_s = options.settle_hold_s;
+
+  const std::vector<std::uint64_t>& seeds = plan.seeds;
+  const std::size_t n_seeds = seeds.size();
+  const std::size_t n_controllers = scenario.controllers.size();
+
+  // Progress: runs done against the runs still expected, each controller's share shrinking to
+  // what it used once its bisection ends.
+  std::size_t done = 0;
+  std::vector<std::size_t> expected(
+      n_controllers, n_seeds * BracketedProbes(plan.axis.hi - plan.axis.lo, plan.tol));
+  const std::size_t map_runs =
+      plan.axis2 ? n_controllers * n_seeds * static_cast<std::size_t>(plan.grid * plan.grid) : 0;
+  const auto total = [&] {
+    std::size_t sum = map_runs;
+    for (const std::size_t e : expected) sum += e;
+    return sum;
+  };
+  std::size_t total_now = total();
+  const auto after_each = [&] {
+    ++done;
+    if (progress) progress(done, total_now);
+  };
+
+  // Bisections side by side, one round of probes at a time.
+  std::vector<Bisection> bisections;
+  std::vector<bool> active(n_controllers, true);
+  for (std::size_t c = 0; c < n_controllers; ++c) {
+    ControllerEnvelope envelope;
+    envelope.controller = scenario.controllers[c].name;
+    envelope.baseline = c == scenario.baseline;
+    if (!modules[c]->module) {
+      envelope.setup_error = modules[c]->error;
+      active[c] = false;
+      expected[c] = 0;
+    }
+    result.controllers.push_back(envelope);
+    bisections.emplace_back(plan.axis.lo, plan.axis.hi, plan.tol);
+  }
+  total_now = total();
+  std::vector<std::size_t> used(n_controllers, 0);  // runs made per controller
+
+  struct Probe {
+    std::size_t controller = 0;
+    double value = 0;
+    Scenario scenario;
+  };
+  for (;;) {
+    std::vector<Probe> probes;
+    for (std::size_t c = 0; c < n_controllers; ++c) {
+      if (!active[c]) continue;
+      for (const double value : bisections[c].Pending()) {
+        Probe probe;
+        probe.controller = c;
+        probe.value = value;
+        std::string error;
+        if (!ProbeScenario(scenario, plan.axis.path, value, "", 0, &probe.scenario, &error)) {
+          result.controllers[c].setup_error = error;
+          active[c] = false;
+          break;
+        }
+        probes.push_back(std::move(probe));
+      }
+      if (!active[c]) {
+        probes.erase(std::remove_if(probes.begin(), probes.end(),
+                                    [c](const Probe& p) { return p.controller == c; }),
+                     probes.end());
+        expected[c] = used[c];
+      }
+    }
+    total_now = total();
+    if (probes.empty()) break;
+
+    std::vector<RunVerdict> verdicts(probes.size() * n_seeds);
+    internal::ParallelFor(
+        verdicts.size(), jobs,
+        [&](std::size_t i) {
+          const Probe& probe = probes[i / n_seeds];
+          verdicts[i] = RunProbe(probe.scenario, probe.controller, seeds[i % n_seeds],
+                                 *modules[probe.controller], run_options);
+        },
+        after_each);
+
+    // Verdicts back to each bisection, in the order its values were pending.
+    std::vector<std::vector<bool>> survived(n_controllers);
+    for (std::size_t p = 0; p < probes.size(); ++p) {
+      const std::size_t c = probes[p].controller;
+      used[c] += n_seeds;
+      const ProbeTally tally = Tally(seeds, &verdicts[p * n_seeds]);
+      ControllerEnvelope& envelope = result.controllers[c];
+      envelope.probes.push_back(
+          {probes[p].value, tally.survived, static_cast<int>(n_seeds), tally.failure});
+      if (!active[c]) continue;  // an earlier probe of this round could not run
+      if (!tally.setup_error.empty()) {
+        envelope.setup_error = tally.setup_error;
+        active[c] = false;
+        continue;
+      }
+      survived[c].push_back(tally.survived == static_cast<int>(n_seeds));
+    }
+    for (std::size_t c = 0; c < n_controllers; ++c) {
+      if (!active[c]) {
+        expected[c] = std::min(expected[c], used[c]);
+        continue;
+      }
+      if (survived[c].empty()) continue;
+      bisections[c].Record(survived[c]);
+      if (bisections[c].done()) {
+        active[c] = false;
+        expected[c] = used[c];
+      }
+    }
+    total_now = total();
+  }
+
+  for (std::size_t c = 0; c < n_controllers; ++c) {
+    ControllerEnvelope& envelope = result.controllers[c];
+    envelope.bisect = bisections[c].result();
+    if (!envelope.setup_error.empty()) {
+      // Cut short: no bisection answer, only the probes made.
+      envelope.bisect = BisectResult{};
+      envelope.bisect.probes = static_cast<int>(envelope.probes.size());
+    } else if (envelope.bisect.outcome == BisectOutcome::kBracketed) {
+      for (const ProbeRecord& probe : envelope.probes) {
+        if (probe.value == envelope.bisect.first_failing_value) envelope.failure = probe.failure;
+      }
+    }
+    result.runs += used[c];
+  }
+
+  if (plan.axis2) {
+    const ParameterAxis& a1 = plan.axis;
+    const ParameterAxis& a2 = *plan.axis2;
+    const std::size_t grid = static_cast<std::size_t>(plan.grid);
+    const std::size_t n_points = grid * grid;
+    // One scenario per point, shared by the controllers; a point the scenario refuses is kept
+    // with its reason.
+    std::vector<Scenario> points(n_points);
+    std::vector<std::string> refused(n_points);
+    for (std::size_t i2 = 0; i2 < grid; ++i2) {
+      for (std::size_t i1 = 0; i1 < grid; ++i1) {
+        const std::size_t k = i2 * grid + i1;
+        ProbeScenario(scenario, a1.path, GridValue(a1, static_cast<int>(i1), plan.grid), a2.path,
+                      GridValue(a2, static_cast<int>(i2), plan.grid), &points[k], &refused[k]);
+      }
+    }
+    // Tasks: controller by controller, point by point, seed by seed; only what can run.
+    struct MapTask {
+      std::size_t controller = 0, point = 0, seed = 0;
+    };
+    std::vector<MapTask> tasks;
+    for (std::size_t c = 0; c < n_controllers; ++c) {
+      if (!modules[c]->module) continue;
+      for (std::size_t k = 0; k < n_points; ++k) {
+        if (!refused[k].empty()) continue;
+        for (std::size_t s = 0; s < n_seeds; ++s) tasks.push_back({c, k, s});
+      }
+    }
+    total_now = done + tasks.size();
+    std::vector<RunVerdict> verdicts(tasks.size());
+    internal::ParallelFor(
+        tasks.size(), jobs,
+        [&](std::size_t i) {
+          const MapTask& t = tasks[i];
+          verdicts[i] = RunProbe(points[t.point], t.controller, seeds[t.seed],
+                                 *modules[t.controller], run_options);
+        },
+        after_each);
+    result.runs += tasks.size();
+
+    std::size_t next_task = 0;
+    for (std::size_t c = 0; c < n_controllers; ++c) {
+      ControllerMap map;
+      map.controller = scenario.controllers[c].name;
+      if (!modules[c]->module) map.setup_error = modules[c]->error;
+      for (std::size_t k = 0; k < n_points; ++k) {
+        MapPoint point;
+        point.value = GridValue(a1, static_cast<int>(k % grid), plan.grid);
+        point.value2 = GridValue(a2, static_cast<int>(k / grid), plan.grid);
+        point.seeds = static_cast<int>(n_seeds);
+        if (!modules[c]->module) {
+          point.setup_failed = true;
+        } else if (!refused[k].empty()) {
+          point.setup_failed = true;
+          if (map.setup_error.empty()) map.setup_error = refused[k];
+        } else {
+          const ProbeTally tally = Tally(seeds, &verdicts[next_task]);
+          next_task += n_seeds;
+          point.seeds_survived = tally.survived;
+          if (!tally.setup_error.empty()) {
+            point.setup_failed = true;
+            if (map.setup_error.empty()) map.setup_error = tally.setup_error;
+          }
+        }
+        map.points.push_back(point);
+      }
+      result.maps.push_back(std::move(map));
+    }
+  }
+
+  result.wall_s =
+      std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
+  return result;
+}
+
+}  // namespace upright::runner

@@ -1,0 +1,41 @@
+// WriteEnvelopeResults: builds each file's text from the result, then writes them one by one, each
+// atomically; manifest.json goes last, so its presence means the folder is complete.
+#include "upright/runner/envelope_writer.hpp"
+
+#include <filesystem>
+#include <system_error>
+
+#include "envelope_tables.hpp"
+#include "upright/runner/atomic_file.hpp"
+
+namespace upright::runner {
+
+std::vector<std::string> EnvelopeFileNames(const EnvelopeResult& result) {
+  std::vector<std::string> names = {"envelope.csv", "envelope.md"};
+  if (result.plan.axis2) names.push_back("envelope_map.csv");
+  names.push_back("manifest.json");
+  return names;
+}
+
+bool WriteEnvelopeResults(const std::string& dir, const EnvelopeResult& result,
+                          std::string* error) {
+  const std::filesystem::path root(dir);
+  std::error_code code;
+  std::filesystem::create_directories(root, code);
+  if (code || !std::filesystem::is_directory(root, code)) {
+    *error = "cannot create folder " + root.string() + ": " +
+             (code ? code.message() : std::string("a file of that name is in the way"));
+    return false;
+  }
+  const auto write = [&](const char* name, const std::string& text) {
+    return WriteFileAtomically((root / name).string(), text, error);
+  };
+  if (!write("envelope.csv", internal::EnvelopeCsv(result))) return false;
+  if (!write("envelope.md", internal::EnvelopeMarkdown(result))) return false;
+  if (result.plan.axis2 && !write("envelope_map.csv", internal::EnvelopeMapCsv(result))) {
+    return false;
+  }
+  return write("manifest.json", internal::EnvelopeManifestJson(result));
+}
+
+}  // namespace upright::runner
