@@ -3,6 +3,8 @@
 #include <iostream>
 
 #include "commands.hpp"
+#include "envelope_command.hpp"
+#include "sweep_command.hpp"
 #include "upright_version.hpp"
 
 namespace {
@@ -55,6 +57,10 @@ void AddRunOptions(CLI::App* cmd, upright::cli::RunCommandOptions* o) {
                   "Trace rows per simulated second, Hz (0: no traces)")
       ->check(CLI::Range(0.0, 1e6))
       ->capture_default_str();
+  cmd->add_flag("--linear-twin", o->batch.run.linear_twin,
+                "Also play each run on the linear model the controllers are designed on (same "
+                "module, rate, pushes; ideal sensors, no contact or limits) and write gap.csv and "
+                "gap.md: where the linear prediction and the physics part");
 }
 
 }  // namespace
@@ -90,6 +96,27 @@ int main(int argc, char** argv) {
       "Run the invented demo suite (scenarios/) into results/demo and say where the tables are");
   AddRunOptions(demo_cmd, &demo);
 
+  upright::cli::SweepCommandOptions sweep;
+  auto* sweep_cmd = app.add_subcommand(
+      "sweep",
+      "Monte Carlo over the scenario's <dispersions>: survival rate with a 95 % interval, figure "
+      "percentiles, paired comparison with the baseline");
+  sweep_cmd->add_option("SCENARIO", sweep.scenario_path, "Scenario file (.xml) with <dispersions>")
+      ->required();
+  sweep_cmd->add_option("--samples", sweep.samples, "Samples N; every controller runs on each")
+      ->required()
+      ->check(CLI::Range(1, 1000000));
+  sweep_cmd->add_option("--seed", sweep.seed, "Sweep seed: the same seed draws the same samples")
+      ->capture_default_str();
+  sweep_cmd->add_option("--out", sweep.out_dir,
+                        "Results folder (default: results/<scenario name>-sweep)");
+  sweep_cmd->add_option("--jobs", sweep.jobs, "Runs in parallel (0: one per core)")
+      ->check(CLI::Range(0, 1024))
+      ->capture_default_str();
+
+  upright::cli::EnvelopeCommandOptions envelope;
+  auto* envelope_cmd = upright::cli::AddEnvelopeCommand(&app, &envelope);
+
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -104,5 +131,7 @@ int main(int argc, char** argv) {
   }
   if (run_cmd->parsed()) return upright::cli::RunScenarios(run);
   if (demo_cmd->parsed()) return upright::cli::RunDemo(demo);
+  if (sweep_cmd->parsed()) return upright::cli::RunSweep(sweep);
+  if (envelope_cmd->parsed()) return upright::cli::RunEnvelope(envelope);
   return upright::cli::kExitBadInput;
 }

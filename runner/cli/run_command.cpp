@@ -110,8 +110,10 @@ int RunScenarios(const RunCommandOptions& options) {
                   run.metrics.message.c_str());
     }
   }
-  std::printf("tables: %s/summary.md, %s/compare.md, %s/ranking.md\n", out_dir.c_str(),
+  std::printf("tables: %s/summary.md, %s/compare.md, %s/ranking.md", out_dir.c_str(),
               out_dir.c_str(), out_dir.c_str());
+  if (batch.linear_twin) std::printf(", %s/gap.md", out_dir.c_str());
+  std::printf("\n");
   std::printf(
       "Simulation only: validate on hardware with a tether or spotter, at low speed first, "
       "within local rules.\n");

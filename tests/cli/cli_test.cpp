@@ -193,6 +193,16 @@ TEST(Cli, RunWritesEveryResultFileAndSaysWhere) {
   EXPECT_EQ(header.rfind("scenario,controller,seed,", 0), 0u) << header;
 }
 
+TEST(Cli, LinearTwinAddsTheGapTables) {
+  const auto out = TempOut("twin");
+  const Result r = RunUpright("run " + ShortScenario("twin") + " --out " + out.string() +
+                              " --linear-twin --trace-rate 0");
+  ASSERT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find(out.string() + "/gap.md"), std::string::npos) << r.output;
+  EXPECT_TRUE(std::filesystem::is_regular_file(out / "gap.csv"));
+  EXPECT_TRUE(std::filesystem::is_regular_file(out / "gap.md"));
+}
+
 TEST(Cli, RunRejectsAnInvalidScenarioWithItsLineAndRunsNothing) {
   const auto out = TempOut("invalid");
   const std::string path = ShortScenario("invalid", R"(
