@@ -13,6 +13,7 @@ packages=(
   libgtest-dev           # tests
   libslicot-dev liblapack-dev libblas-dev gfortran   # reference checks of the control solvers
   python3 python3-numpy python3-scipy                # reference checks of the control solvers
+  chromium               # the report test renders the HTML report headless
 )
 
 missing=()

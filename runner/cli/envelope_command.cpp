@@ -3,30 +3,20 @@
 // envelope.md, envelope_map.csv and manifest.json written and each controller's envelope printed.
 #include "envelope_command.hpp"
 
-#include <unistd.h>
-
 #include <algorithm>
-#include <chrono>
-#include <cmath>
 #include <cstdio>
 #include <iostream>
 
 #include "commands.hpp"
+#include "load_scenario.hpp"
+#include "progress.hpp"
 #include "upright/runner/envelope.hpp"
 #include "upright/runner/envelope_writer.hpp"
-#include "upright/runner/scenario_file.hpp"
 #include "upright/runner/scenario_parameter.hpp"
 #include "upright_version.hpp"
 
 namespace upright::cli {
 namespace {
-
-std::string Clock(double seconds) {
-  const long s = std::lround(std::max(0.0, seconds));
-  char text[32];
-  std::snprintf(text, sizeof text, "%ld:%02ld", s / 60, s % 60);
-  return text;
-}
 
 // An option that sets a std::optional<double> when given.
 void AddOptionalNumber(CLI::App* cmd, const std::string& name, std::optional<double>* target,
@@ -81,13 +71,8 @@ CLI::App* AddEnvelopeCommand(CLI::App* app, EnvelopeCommandOptions* o) {
 }
 
 int RunEnvelope(const EnvelopeCommandOptions& options) {
-  runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(options.scenario_path);
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
-    std::cerr << options.scenario_path << ": invalid; nothing was run\n";
-    return kExitBadInput;
-  }
-  const runner::Scenario& scenario = loaded.scenario;
+  runner::Scenario scenario;
+  if (!LoadScenarioOrSayWhy(options.scenario_path, &scenario)) return kExitBadInput;
   runner::EnvelopeOptions envelope_options;
   envelope_options.param = options.vary;
   envelope_options.lo = options.lo;
@@ -109,8 +94,7 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
   const std::string out_dir =
       options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
 
-  const bool terminal = isatty(STDERR_FILENO) != 0;
-  const auto start = std::chrono::steady_clock::now();
+  ProgressLine progress_line;
   std::printf("upright envelope: %s, %s to within %g%s%s; %zu controller(s) x %zu seed(s)\n",
               scenario.name.c_str(), Range(plan.axis).c_str(), plan.tol,
               plan.axis.unit.empty() ? "" : " ", plan.axis.unit.c_str(),
@@ -121,22 +105,10 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
   }
   std::printf("  at most %zu run(s) into %s\n", plan.max_runs, out_dir.c_str());
   std::fflush(stdout);
-  bool line_open = false;  // a progress line without its newline yet
-  const runner::ProgressFn progress = [&](std::size_t done, std::size_t all) {
-    if (!terminal) return;
-    line_open = done != all;
-    const double elapsed =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    const double eta = elapsed / static_cast<double>(done) * static_cast<double>(all - done);
-    std::fprintf(stderr, "\r  %zu/%zu runs  %3.0f %%  elapsed %s  left ~%s   ", done, all,
-                 100.0 * static_cast<double>(done) / static_cast<double>(all),
-                 Clock(elapsed).c_str(), Clock(eta).c_str());
-    if (done == all) std::fputc('\n', stderr);
-  };
-  const runner::EnvelopeResult result =
-      runner::RunEnvelope(scenario, envelope_options, plan, UPRIGHT_VERSION, progress);
+  const runner::EnvelopeResult result = runner::RunEnvelope(
+      scenario, envelope_options, plan, UPRIGHT_VERSION, progress_line.Callback());
   // The runs expected can shrink after the last one (a bisection that ended early).
-  if (line_open) std::fputc('\n', stderr);
+  progress_line.Close();
   if (!runner::WriteEnvelopeResults(out_dir, result, &error)) {
     std::cerr << error << "\n";
     return kExitFailed;

@@ -4,6 +4,7 @@
 
 #include "commands.hpp"
 #include "envelope_command.hpp"
+#include "report_command.hpp"
 #include "sweep_command.hpp"
 #include "upright_version.hpp"
 
@@ -93,7 +94,8 @@ int main(int argc, char** argv) {
   upright::cli::RunCommandOptions demo;
   auto* demo_cmd = app.add_subcommand(
       "demo",
-      "Run the invented demo suite (scenarios/) into results/demo and say where the tables are");
+      "Run the invented demo suite (scenarios/) with its linear twins, an envelope and a sweep of "
+      "the shove, into results/demo, and write the report");
   AddRunOptions(demo_cmd, &demo);
 
   upright::cli::SweepCommandOptions sweep;
@@ -117,6 +119,9 @@ int main(int argc, char** argv) {
   upright::cli::EnvelopeCommandOptions envelope;
   auto* envelope_cmd = upright::cli::AddEnvelopeCommand(&app, &envelope);
 
+  std::string report_dir;
+  auto* report_cmd = upright::cli::AddReportCommand(&app, &report_dir);
+
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
@@ -133,5 +138,6 @@ int main(int argc, char** argv) {
   if (demo_cmd->parsed()) return upright::cli::RunDemo(demo);
   if (sweep_cmd->parsed()) return upright::cli::RunSweep(sweep);
   if (envelope_cmd->parsed()) return upright::cli::RunEnvelope(envelope);
+  if (report_cmd->parsed()) return upright::cli::RunReport(report_dir);
   return upright::cli::kExitBadInput;
 }

@@ -1,15 +1,17 @@
 // `upright run` and `upright demo`: scenario files in; every scenario × controller × seed run in
 // parallel with a progress line on a terminal; the results folder written (tables, traces,
 // manifest) and its location printed.
-#include <unistd.h>
-
-#include <chrono>
+#include <algorithm>
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
 
 #include "commands.hpp"
+#include "envelope_command.hpp"
+#include "progress.hpp"
+#include "sweep_command.hpp"
 #include "upright/runner/batch.hpp"
+#include "upright/runner/report.hpp"
 #include "upright/runner/results_writer.hpp"
 #include "upright/runner/scenario_file.hpp"
 #include "upright_version.hpp"
@@ -28,13 +30,6 @@ std::string DefaultOutDir(const std::vector<runner::Scenario>& scenarios) {
     if (fs::absolute(s.path).parent_path() != folder) return "results/batch";
   }
   return "results/" + folder.filename().string();
-}
-
-std::string Clock(double seconds) {
-  const long s = std::lround(std::max(0.0, seconds));
-  char text[32];
-  std::snprintf(text, sizeof text, "%ld:%02ld", s / 60, s % 60);
-  return text;
 }
 
 }  // namespace
@@ -75,23 +70,12 @@ int RunScenarios(const RunCommandOptions& options) {
   const std::string out_dir = options.out_dir.empty() ? DefaultOutDir(scenarios) : options.out_dir;
   const std::size_t total = runner::CountRuns(scenarios, batch_options);
 
-  const bool terminal = isatty(STDERR_FILENO) != 0;
-  const auto start = std::chrono::steady_clock::now();
+  ProgressLine progress_line;
   std::printf("%s %zu scenario(s), %zu run(s) into %s\n", options.verb.c_str(), scenarios.size(),
               total, out_dir.c_str());
   std::fflush(stdout);
-  const runner::ProgressFn progress = [&](std::size_t done, std::size_t all) {
-    if (!terminal) return;
-    const double elapsed =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    const double eta = elapsed / static_cast<double>(done) * static_cast<double>(all - done);
-    std::fprintf(stderr, "\r  %zu/%zu runs  %3.0f %%  elapsed %s  left ~%s   ", done, all,
-                 100.0 * static_cast<double>(done) / static_cast<double>(all),
-                 Clock(elapsed).c_str(), Clock(eta).c_str());
-    if (done == all) std::fputc('\n', stderr);
-  };
   const runner::BatchResult batch =
-      runner::RunBatch(scenarios, batch_options, UPRIGHT_VERSION, progress);
+      runner::RunBatch(scenarios, batch_options, UPRIGHT_VERSION, progress_line.Callback());
   if (!runner::WriteResults(out_dir, batch, &error)) {
     std::cerr << error << "\n";
     return kExitFailed;
@@ -124,8 +108,8 @@ int RunScenarios(const RunCommandOptions& options) {
 int RunDemo(const RunCommandOptions& options) {
   RunCommandOptions demo = options;
   demo.verb = "upright demo: the invented demo suite,";
+  const fs::path folder = fs::path(UPRIGHT_SOURCE_DIR) / "scenarios";
   if (demo.scenario_paths.empty()) {
-    const fs::path folder = fs::path(UPRIGHT_SOURCE_DIR) / "scenarios";
     std::error_code ec;
     for (const auto& entry : fs::directory_iterator(folder, ec)) {
       if (entry.path().extension() == ".xml") demo.scenario_paths.push_back(entry.path().string());
@@ -138,7 +122,43 @@ int RunDemo(const RunCommandOptions& options) {
     std::sort(demo.scenario_paths.begin(), demo.scenario_paths.end());
   }
   if (demo.out_dir.empty()) demo.out_dir = "results/demo";
-  return RunScenarios(demo);
+  // The whole picture: every scenario with its linear twin, then the margin and the spread of
+  // the shove every controller meets, then one report over all of it.
+  demo.batch.run.linear_twin = true;
+  if (const int code = RunScenarios(demo); code != kExitOk) return code;
+
+  const std::string shove = (folder / "courier-shove-half-sine.xml").string();
+  EnvelopeCommandOptions envelope;
+  envelope.scenario_path = shove;
+  envelope.vary = "timeline/push[1].peak_N";
+  envelope.lo = 40;
+  envelope.hi = 640;
+  envelope.tol = 5;
+  envelope.vary2 = "timeline/push[1].height_m";
+  envelope.lo2 = 0.05;
+  envelope.hi2 = 0.65;
+  envelope.grid = 7;
+  envelope.seed_count = 1;
+  envelope.jobs = demo.batch.jobs;
+  envelope.out_dir = demo.out_dir + "/envelope";
+  std::printf("\nupright demo: the push each controller survives in %s\n", shove.c_str());
+  if (const int code = RunEnvelope(envelope); code != kExitOk) return code;
+
+  SweepCommandOptions sweep;
+  sweep.scenario_path = shove;
+  sweep.samples = 50;
+  sweep.jobs = demo.batch.jobs;
+  sweep.out_dir = demo.out_dir + "/sweep";
+  std::printf("\nupright demo: the same shove on 50 robots drawn from its spreads\n");
+  if (const int code = RunSweep(sweep); code != kExitOk) return code;
+
+  std::string report_path, error;
+  if (!runner::WriteReport(demo.out_dir, &report_path, &error)) {
+    std::cerr << error << "\n";
+    return kExitFailed;
+  }
+  std::printf("\nreport: %s (open it in any browser; it needs no network)\n", report_path.c_str());
+  return kExitOk;
 }
 
 }  // namespace upright::cli

@@ -3,40 +3,21 @@
 // each controller's survival printed.
 #include "sweep_command.hpp"
 
-#include <unistd.h>
-
-#include <algorithm>
-#include <chrono>
-#include <cmath>
 #include <cstdio>
 #include <iostream>
 
 #include "commands.hpp"
-#include "upright/runner/scenario_file.hpp"
+#include "load_scenario.hpp"
+#include "progress.hpp"
 #include "upright/runner/sweep.hpp"
 #include "upright/runner/sweep_writer.hpp"
 #include "upright_version.hpp"
 
 namespace upright::cli {
-namespace {
-
-std::string Clock(double seconds) {
-  const long s = std::lround(std::max(0.0, seconds));
-  char text[32];
-  std::snprintf(text, sizeof text, "%ld:%02ld", s / 60, s % 60);
-  return text;
-}
-
-}  // namespace
 
 int RunSweep(const SweepCommandOptions& options) {
-  runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(options.scenario_path);
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
-    std::cerr << options.scenario_path << ": invalid; nothing was run\n";
-    return kExitBadInput;
-  }
-  const runner::Scenario& scenario = loaded.scenario;
+  runner::Scenario scenario;
+  if (!LoadScenarioOrSayWhy(options.scenario_path, &scenario)) return kExitBadInput;
   if (scenario.dispersions.empty()) {
     std::cerr << options.scenario_path << ": the scenario declares no dispersions, so there is "
               << "nothing to sample. Add, inside <scenario>:\n"
@@ -61,25 +42,14 @@ int RunSweep(const SweepCommandOptions& options) {
       options.out_dir.empty() ? "results/" + scenario.name + "-sweep" : options.out_dir;
   const std::size_t total = static_cast<std::size_t>(options.samples) * scenario.controllers.size();
 
-  const bool terminal = isatty(STDERR_FILENO) != 0;
-  const auto start = std::chrono::steady_clock::now();
+  ProgressLine progress_line;
   std::printf(
       "upright sweep: %s, %d sample(s) x %zu controller(s) = %zu run(s), seed %llu, into %s\n",
       scenario.name.c_str(), options.samples, scenario.controllers.size(), total,
       static_cast<unsigned long long>(options.seed), out_dir.c_str());
   std::fflush(stdout);
-  const runner::ProgressFn progress = [&](std::size_t done, std::size_t all) {
-    if (!terminal) return;
-    const double elapsed =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    const double eta = elapsed / static_cast<double>(done) * static_cast<double>(all - done);
-    std::fprintf(stderr, "\r  %zu/%zu runs  %3.0f %%  elapsed %s  left ~%s   ", done, all,
-                 100.0 * static_cast<double>(done) / static_cast<double>(all),
-                 Clock(elapsed).c_str(), Clock(eta).c_str());
-    if (done == all) std::fputc('\n', stderr);
-  };
   const runner::SweepResult result =
-      runner::RunSweepSamples(scenario, sweep_options, UPRIGHT_VERSION, progress);
+      runner::RunSweepSamples(scenario, sweep_options, UPRIGHT_VERSION, progress_line.Callback());
   if (!result.module_error.empty()) {
     std::cerr << options.scenario_path << ": " << result.module_error << "; nothing was run\n";
     return kExitFailed;

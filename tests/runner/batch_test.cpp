@@ -11,64 +11,45 @@ namespace upright::runner {
 namespace {
 
 using testing::ReadFile;
+using testing::RunWithOneJobAndTwo;
 using testing::ScenarioFromText;
-using testing::ScratchDir;
-
-const char* kTwoControllers = R"(<scenario name="two" schema="1" duration_s="1.5">
-  <description>Test: two controllers, two seeds, a step push.</description>
-  <robot file="../models/courier.xml"/>
-  <timeline>
-    <push at_s="0.3" shape="step" peak_N="40" duration_s="0.4"/>
-  </timeline>
-  <controllers baseline="pid">
-    <controller name="lqr" builtin="lqr"/>
-    <controller name="pid" builtin="pid"/>
-  </controllers>
-  <seeds list="1 2"/>
-</scenario>)";
+using testing::TwoControllersText;
 
 TEST(Batch, TablesAreByteIdenticalWithOneJobOrTwo) {
-  const std::vector<Scenario> scenarios{ScenarioFromText(kTwoControllers, "two.xml")};
-  BatchOptions one, two;
-  one.jobs = 1;
-  two.jobs = 2;
-  one.run.trace_rate_hz = two.run.trace_rate_hz = 20;
-  const BatchResult a = RunBatch(scenarios, one, "test", nullptr);
-  const BatchResult b = RunBatch(scenarios, two, "test", nullptr);
-  ASSERT_EQ(a.runs.size(), 4u);
-  ASSERT_EQ(b.runs.size(), 4u);
-  EXPECT_EQ(b.jobs, 2);
+  BatchOptions options;
+  options.run.trace_rate_hz = 20;
+  const testing::OneJobAndTwo both =
+      RunWithOneJobAndTwo({ScenarioFromText(TwoControllersText(), "two.xml")}, options, "batch");
+  ASSERT_EQ(both.one.runs.size(), 4u);
+  ASSERT_EQ(both.two.runs.size(), 4u);
+  EXPECT_EQ(both.two.jobs, 2);
   // Scenario order, then controller order, then seed order.
-  EXPECT_EQ(a.runs[0].controller, "lqr");
-  EXPECT_EQ(a.runs[1].seed, 2u);
-  EXPECT_EQ(a.runs[2].controller, "pid");
-  EXPECT_TRUE(a.runs[2].baseline);
+  EXPECT_EQ(both.one.runs[0].controller, "lqr");
+  EXPECT_EQ(both.one.runs[1].seed, 2u);
+  EXPECT_EQ(both.one.runs[2].controller, "pid");
+  EXPECT_TRUE(both.one.runs[2].baseline);
 
-  const auto dir_a = ScratchDir("jobs1"), dir_b = ScratchDir("jobs2");
-  std::string error;
-  ASSERT_TRUE(WriteResults(dir_a.string(), a, &error)) << error;
-  ASSERT_TRUE(WriteResults(dir_b.string(), b, &error)) << error;
   for (const auto& name : ResultFileNames()) {
     if (name == "manifest.json") continue;  // wall times and the job count differ by design
-    const std::string text = ReadFile(dir_a / name);
+    const std::string text = ReadFile(both.dir_one / name);
     EXPECT_FALSE(text.empty()) << name;
-    EXPECT_EQ(text, ReadFile(dir_b / name)) << name;
+    EXPECT_EQ(text, ReadFile(both.dir_two / name)) << name;
   }
-  for (const auto& run : a.runs) {
+  for (const auto& run : both.one.runs) {
     const auto trace = std::filesystem::path("traces") / TraceFileName(run);
-    EXPECT_EQ(ReadFile(dir_a / trace), ReadFile(dir_b / trace)) << trace;
+    EXPECT_EQ(ReadFile(both.dir_one / trace), ReadFile(both.dir_two / trace)) << trace;
   }
 }
 
 TEST(Batch, SeedCountOverridesTheFilesSeeds) {
-  const std::vector<Scenario> scenarios{ScenarioFromText(kTwoControllers, "two.xml")};
+  const std::vector<Scenario> scenarios{ScenarioFromText(TwoControllersText(), "two.xml")};
   BatchOptions options;
   options.seed_count = 3;
   EXPECT_EQ(CountRuns(scenarios, options), 6u);
 }
 
 TEST(Batch, AMissingModuleFileGivesFailedRowsAndTheRestRun) {
-  Scenario s = ScenarioFromText(kTwoControllers, "two.xml");
+  Scenario s = ScenarioFromText(TwoControllersText(), "two.xml");
   s.controllers[1].builtin = false;
   s.controllers[1].module = "/nonexistent/upright_nothing.so";
   BatchOptions options;

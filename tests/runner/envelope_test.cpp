@@ -10,7 +10,6 @@
 
 #include "parameter_unit.hpp"
 #include "run_test_support.hpp"
-#include "upright/host/module.hpp"
 #include "upright/runner/envelope_writer.hpp"
 #include "upright/runner/run_one.hpp"
 #include "upright/runner/scenario_parameter.hpp"
@@ -151,10 +150,8 @@ TEST(Envelope, PushPeakIsBracketedAndTheSurvivedValueSurvives) {
   EXPECT_FALSE(r.any_setup_failed());
 
   // The probes at the two values, rerun here: one survives, the other does not.
-  std::string load_error;
-  const auto module = host::Module::Load(
-      host::FindBuiltinModule("lqr", host::DefaultModuleDirs(), &load_error), &load_error);
-  ASSERT_NE(module, nullptr) << load_error;
+  const auto module = testing::BuiltinModule("lqr");
+  ASSERT_NE(module, nullptr);
   RunOptions run_options;
   run_options.trace_rate_hz = 0;
   run_options.stop_when_settled = true;

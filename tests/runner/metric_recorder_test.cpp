@@ -42,6 +42,18 @@ void Feed(MetricRecorder* recorder, long steps,
   }
 }
 
+// The metrics of a survived 6 s run (default settings) disturbed at `start_s` whose tilt is
+// tilt(t).
+RunMetrics TiltOnlyRun(const std::function<double(double)>& tilt, double start_s) {
+  MetricRecorder recorder(MetricSettings{}, kDt, 6.0, {start_s});
+  Feed(&recorder, 6000, [&](long, double t) {
+    StepSample s;
+    s.tilt_rad = tilt(t);
+    return s;
+  });
+  return recorder.Finish(RunStatus::kOk, "survived");
+}
+
 // The mean of f over the last 0.1·window_s of the window's samples ending at sample `last`: the
 // final value as the README's "Metrics" section defines it, evaluated on the analytic signal.
 double FinalValue(const std::function<double(double)>& f, long last, double window_s) {
@@ -215,13 +227,7 @@ TEST(MetricRecorder, OvershootOfADampedOscillationIsTheHalfPeriodDecay) {
     const double s = t - start_s;
     return s < 0 ? 0 : a_rad * std::exp(-a * s) * std::sin(w * s);
   };
-  MetricRecorder recorder(MetricSettings{}, kDt, 6.0, {start_s});
-  Feed(&recorder, 6000, [&](long, double t) {
-    StepSample s;
-    s.tilt_rad = tilt(t);
-    return s;
-  });
-  const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
+  const RunMetrics m = TiltOnlyRun(tilt, start_s);
   const double f = FinalValue(tilt, 4999, 4.0);  // the window [1, 5] s ends at sample 4999
   const double t1 = std::atan(w / a) / w;
   const double p1 = a_rad * std::exp(-a * t1) * std::sin(w * t1);
@@ -372,13 +378,7 @@ TEST(MetricRecorder, InBandWiggleBeforeTheExcursionDoesNotPickItsSide) {
     if (x < 0) return 0.0;
     return x < 0.0045 ? -1e-4 : 0.2 * std::exp(-(x - 0.005) / 0.3);
   };
-  MetricRecorder recorder(MetricSettings{}, kDt, 6.0, {start_s});
-  Feed(&recorder, 6000, [&](long, double t) {
-    StepSample s;
-    s.tilt_rad = tilt(t);
-    return s;
-  });
-  const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
+  const RunMetrics m = TiltOnlyRun(tilt, start_s);
   // As for any monotone decay, the only rebound is the tail mean less the last sample.
   const double f = FinalValue(tilt, 4999, 4.0);
   EXPECT_NEAR(m.tilt_overshoot_pct, 100 * (f - tilt(TimeOf(4999))) / (tilt(TimeOf(1004)) - f),

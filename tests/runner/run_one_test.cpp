@@ -7,21 +7,12 @@
 #include <cmath>
 
 #include "run_test_support.hpp"
-#include "upright/host/module.hpp"
 
 namespace upright::runner {
 namespace {
 
+using testing::BuiltinModule;
 using testing::ScenarioFromText;
-
-std::shared_ptr<host::Module> Builtin(const std::string& name) {
-  std::string error;
-  const std::string path = host::FindBuiltinModule(name, host::DefaultModuleDirs(), &error);
-  EXPECT_FALSE(path.empty()) << error;
-  auto module = host::Module::Load(path, &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
-}
 
 // A parked courier shoved by a half-sine push of `peak_N` at 0.5 s, for 3 s.
 std::string ShoveText(double peak_N, const std::string& lqr_settings = "") {
@@ -44,7 +35,7 @@ TEST(RunOne, SurvivesAModestPushWithATraceAtTheAskedRate) {
   const Scenario s = ScenarioFromText(ShoveText(60));
   RunOptions options;
   options.trace_rate_hz = 50;
-  const RunResult r = RunOne(s, 0, 7, Builtin("lqr"), "", options);
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", options);
   EXPECT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
   EXPECT_EQ(r.scenario, "shove");
   EXPECT_EQ(r.controller, "lqr");
@@ -73,7 +64,7 @@ TEST(RunOne, SurvivesAModestPushWithATraceAtTheAskedRate) {
 
 TEST(RunOne, AFallEndsTheRunAtOnceWithItsTime) {
   const Scenario s = ScenarioFromText(ShoveText(2500));
-  const RunResult r = RunOne(s, 0, 7, Builtin("lqr"), "", RunOptions{});
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
   ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
   EXPECT_GT(r.metrics.fall_time_s, 0.5);
   EXPECT_LT(r.metrics.fall_time_s, 3.0);
@@ -86,7 +77,7 @@ TEST(RunOne, AFallEndsTheRunAtOnceWithItsTime) {
 
 TEST(RunOne, AControllerThatRefusesItsSettingsIsASetupFailure) {
   const Scenario s = ScenarioFromText(ShoveText(60, R"(<setting key="no_such_key" value="1"/>)"));
-  const RunResult r = RunOne(s, 0, 7, Builtin("lqr"), "", RunOptions{});
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
   EXPECT_EQ(r.metrics.status, RunStatus::kSetupFailed);
   EXPECT_NE(r.metrics.message.find("no_such_key"), std::string::npos) << r.metrics.message;
   EXPECT_EQ(r.steps, 0);
@@ -106,7 +97,7 @@ TEST(RunOne, AProbeStopsOnceTheRobotHasSettledAndNotBefore) {
   RunOptions probe;
   probe.trace_rate_hz = 0;
   probe.stop_when_settled = true;
-  const RunResult settled = RunOne(s, 0, 7, Builtin("lqr"), "", probe);
+  const RunResult settled = RunOne(s, 0, 7, BuiltinModule("lqr"), "", probe);
   EXPECT_EQ(settled.metrics.status, RunStatus::kOk);
   EXPECT_NE(settled.metrics.message.find("stopped early"), std::string::npos)
       << settled.metrics.message;
@@ -116,14 +107,14 @@ TEST(RunOne, AProbeStopsOnceTheRobotHasSettledAndNotBefore) {
 
   // A reference still asking for motion at the end: nothing is decided early.
   s.drives.push_back({/*start_s=*/0.2, /*ramp_s=*/1.0, /*speed_m_s=*/0.3, 0.0});
-  const RunResult driving = RunOne(s, 0, 7, Builtin("lqr"), "", probe);
+  const RunResult driving = RunOne(s, 0, 7, BuiltinModule("lqr"), "", probe);
   EXPECT_EQ(driving.metrics.status, RunStatus::kOk) << driving.metrics.message;
   EXPECT_NEAR(driving.metrics.end_time_s, 10.0, 1e-9);
 }
 
 TEST(RunOne, TheSameSeedGivesTheSameRunAndAnotherSeedDoesNot) {
   const Scenario s = ScenarioFromText(ShoveText(60));
-  const auto module = Builtin("lqr");
+  const auto module = BuiltinModule("lqr");
   const RunResult a = RunOne(s, 0, 7, module, "", RunOptions{});
   const RunResult b = RunOne(s, 0, 7, module, "", RunOptions{});
   const RunResult c = RunOne(s, 0, 8, module, "", RunOptions{});

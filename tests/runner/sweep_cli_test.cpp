@@ -1,9 +1,7 @@
 // `upright sweep` as a user runs it: exit codes and messages for bad input and a module that will
 // not load, and a tiny sweep writing its three files.
 #include <gtest/gtest.h>
-#include <sys/wait.h>
 
-#include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <string>
@@ -14,25 +12,13 @@ namespace upright::runner {
 namespace {
 
 namespace fs = std::filesystem;
+using testing::ProgramOutcome;
 using testing::ReadFile;
 using testing::ScratchDir;
 
-struct Outcome {
-  int code = -1;
-  std::string out;  // stdout and stderr together
-};
-
-Outcome RunUpright(const std::string& arguments) {
-  Outcome outcome;
-  const std::string command = std::string(UPRIGHT_EXE) + " " + arguments + " 2>&1";
-  FILE* pipe = popen(command.c_str(), "r");
-  if (pipe == nullptr) return outcome;
-  char buffer[4096];
-  for (std::size_t n; (n = fread(buffer, 1, sizeof buffer, pipe)) > 0;)
-    outcome.out.append(buffer, n);
-  const int status = pclose(pipe);
-  outcome.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return outcome;
+// `upright ARGUMENTS`: its exit code and output.
+ProgramOutcome RunUpright(const std::string& arguments) {
+  return testing::RunProgram(UPRIGHT_EXE, arguments);
 }
 
 const std::string kScenarios = std::string(UPRIGHT_SOURCE_DIR) + "/scenarios";
@@ -57,7 +43,8 @@ std::string TinyScenario(const std::string& controller_line) {
 }
 
 TEST(SweepCommand, SaysHowToDeclareDispersionsWhenThereAreNone) {
-  const Outcome o = RunUpright("sweep " + kScenarios + "/courier-bump-impulse.xml --samples 3");
+  const ProgramOutcome o =
+      RunUpright("sweep " + kScenarios + "/courier-bump-impulse.xml --samples 3");
   EXPECT_EQ(o.code, 2) << o.out;
   EXPECT_NE(o.out.find("declares no dispersions"), std::string::npos) << o.out;
   EXPECT_NE(o.out.find("<spread param=\"robot/chassis.mass_kg\" kind=\"normal\""),
@@ -77,8 +64,8 @@ TEST(SweepCommand, FailsWhenAModuleCannotLoad) {
   std::ofstream(dir / "not_a_module.so") << "stand-in";
   std::ofstream(dir / "tiny.xml") << TinyScenario(
       R"(<controller name="mine" file="not_a_module.so"/>)");
-  const Outcome o = RunUpright("sweep " + (dir / "tiny.xml").string() + " --samples 2 --out " +
-                               (dir / "out").string());
+  const ProgramOutcome o = RunUpright("sweep " + (dir / "tiny.xml").string() +
+                                      " --samples 2 --out " + (dir / "out").string());
   EXPECT_EQ(o.code, 1) << o.out;
   EXPECT_NE(o.out.find("controller 'mine'"), std::string::npos) << o.out;
   EXPECT_FALSE(fs::exists(dir / "out" / "sweep.csv"));
@@ -87,8 +74,9 @@ TEST(SweepCommand, FailsWhenAModuleCannotLoad) {
 TEST(SweepCommand, WritesTheThreeFiles) {
   const fs::path dir = ScratchDir("sweep-cli-tiny");
   std::ofstream(dir / "tiny.xml") << TinyScenario(R"(<controller name="lqr" builtin="lqr"/>)");
-  const Outcome o = RunUpright("sweep " + (dir / "tiny.xml").string() +
-                               " --samples 2 --seed 9 --jobs 1 --out " + (dir / "out").string());
+  const ProgramOutcome o =
+      RunUpright("sweep " + (dir / "tiny.xml").string() + " --samples 2 --seed 9 --jobs 1 --out " +
+                 (dir / "out").string());
   EXPECT_EQ(o.code, 0) << o.out;
   EXPECT_NE(o.out.find("lqr"), std::string::npos) << o.out;
   for (const char* name : {"sweep.csv", "sweep.md", "manifest.json"}) {

@@ -5,21 +5,12 @@
 #include <algorithm>
 #include <cmath>
 
+#include "run_test_support.hpp"
 #include "upright/host/controller_host.hpp"
-#include "upright/host/module.hpp"
 #include "upright/model/model_file.hpp"
 
 namespace upright::host {
 namespace {
-
-std::shared_ptr<Module> Builtin(const std::string& name) {
-  std::string error;
-  const std::string path = FindBuiltinModule(name, DefaultModuleDirs(), &error);
-  EXPECT_FALSE(path.empty()) << error;
-  auto module = Module::Load(path, &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
-}
 
 // Drives a plant from 2° with one host through the plant path while a second instance of the same
 // module, fed the plant's samples through the plant-free tick, must command the same bits.
@@ -27,7 +18,7 @@ void ExpectSameCommands(const std::string& module_name, bool true_state) {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   ASSERT_TRUE(loaded.ok());
   ControllerSpec spec;
-  spec.module = Builtin(module_name);
+  spec.module = runner::testing::BuiltinModule(module_name);
   spec.true_state = true_state;
   sim::PlantOptions options;
   options.initial.pitch_rad = 2 * 3.141592653589793 / 180;

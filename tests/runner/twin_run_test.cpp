@@ -6,7 +6,6 @@
 #include <cmath>
 
 #include "run_test_support.hpp"
-#include "upright/host/module.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/linear_twin.hpp"
 #include "upright/runner/results_writer.hpp"
@@ -16,18 +15,12 @@
 namespace upright::runner {
 namespace {
 
+using testing::BuiltinModule;
 using testing::ReadFile;
+using testing::RunWithOneJobAndTwo;
 using testing::ScenarioFromText;
 using testing::ScratchDir;
-
-std::shared_ptr<host::Module> Builtin(const std::string& name) {
-  std::string error;
-  const std::string path = host::FindBuiltinModule(name, host::DefaultModuleDirs(), &error);
-  EXPECT_FALSE(path.empty()) << error;
-  auto module = host::Module::Load(path, &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
-}
+using testing::TwoControllersText;
 
 // The parked courier under LQR (or `controller`, a <controller> element named "lqr"), exact
 // sensors, knocked at 0.5 s by an impulse of `peak_N` for 60 ms at 0.55 m above the axle (the
@@ -68,7 +61,7 @@ TEST(LinearTwin, FollowsThePlantThroughAPushWithinTheMotorsLimits) {
   // centimetres over 4 s, measured) through an estimator that cannot tell them from tilt, held
   // by the wheels' friction; the twin's sensors are ideal, so they are zeroed here to compare
   // the mechanics alone.
-  const RunResult r = RunOne(Knock(250, true), 0, 1, Builtin("lqr"), "", WithTwin());
+  const RunResult r = RunOne(Knock(250, true), 0, 1, BuiltinModule("lqr"), "", WithTwin());
   ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
   EXPECT_EQ(r.metrics.saturation_frac, 0);  // 13.5 A of the 20 A limit at the peak
   const GapFigures& g = r.gap;
@@ -96,7 +89,7 @@ TEST(LinearTwin, FollowsThePlantInVoltageModeAndOnTheTrueState) {
       RunOne(Knock(250, true,
                    R"(<controller name="lqr" builtin="lqr"><setting key="input" value="voltage"/>)"
                    R"(</controller>)"),
-             0, 1, Builtin("lqr"), "", WithTwin());
+             0, 1, BuiltinModule("lqr"), "", WithTwin());
   ASSERT_EQ(voltage.metrics.status, RunStatus::kOk) << voltage.metrics.message;
   EXPECT_NEAR(voltage.gap.peak_tilt_linear_deg / voltage.gap.peak_tilt_plant_deg, 1, 0.05);
   EXPECT_TRUE(std::isnan(voltage.gap.tilt_diverge_s)) << voltage.gap.tilt_diverge_s;
@@ -105,7 +98,7 @@ TEST(LinearTwin, FollowsThePlantInVoltageModeAndOnTheTrueState) {
   const RunResult truth = RunOne(Knock(250, true,
                                        R"(<controller name="lqr" builtin="lqr" true_state="true">)"
                                        R"(<setting key="state" value="true"/></controller>)"),
-                                 0, 1, Builtin("lqr"), "", WithTwin());
+                                 0, 1, BuiltinModule("lqr"), "", WithTwin());
   ASSERT_EQ(truth.metrics.status, RunStatus::kOk) << truth.metrics.message;
   EXPECT_NEAR(truth.gap.peak_tilt_linear_deg / truth.gap.peak_tilt_plant_deg, 1, 0.10);
   EXPECT_TRUE(std::isnan(truth.gap.tilt_diverge_s)) << truth.gap.tilt_diverge_s;
@@ -114,7 +107,7 @@ TEST(LinearTwin, FollowsThePlantInVoltageModeAndOnTheTrueState) {
 TEST(LinearTwin, PartsFromThePlantOnAPushThatSaturatesTheMotors) {
   // 42 N·s: the plant runs into the 20 A current limit, tilts faster than the unlimited linear
   // robot, and its chassis touches the ground at about 11°; the twin recovers from 18°.
-  const RunResult r = RunOne(Knock(700, false), 0, 1, Builtin("lqr"), "", WithTwin());
+  const RunResult r = RunOne(Knock(700, false), 0, 1, BuiltinModule("lqr"), "", WithTwin());
   ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
   EXPECT_GT(r.metrics.saturation_frac, 0.05);
   const GapFigures& g = r.gap;
@@ -127,7 +120,7 @@ TEST(LinearTwin, PartsFromThePlantOnAPushThatSaturatesTheMotors) {
 }
 
 TEST(LinearTwin, AddsItsColumnsToTheTraceUntilTheTwinStops) {
-  const RunResult r = RunOne(Knock(250, false), 0, 1, Builtin("lqr"), "", WithTwin(50));
+  const RunResult r = RunOne(Knock(250, false), 0, 1, BuiltinModule("lqr"), "", WithTwin(50));
   ASSERT_TRUE(r.trace.has_twin);
   ASSERT_EQ(r.trace.rows.size(), 201u);
   EXPECT_EQ(r.trace.rows[0].twin_pitch_deg, 0);
@@ -142,7 +135,7 @@ TEST(LinearTwin, AddsItsColumnsToTheTraceUntilTheTwinStops) {
   EXPECT_LE(peak_deg, r.gap.peak_tilt_linear_deg + 1e-12);
   EXPECT_GT(peak_deg, 0.95 * r.gap.peak_tilt_linear_deg);
 
-  const RunResult plain = RunOne(Knock(250, false), 0, 1, Builtin("lqr"), "", RunOptions{});
+  const RunResult plain = RunOne(Knock(250, false), 0, 1, BuiltinModule("lqr"), "", RunOptions{});
   EXPECT_FALSE(plain.trace.has_twin);
   EXPECT_FALSE(plain.gap.ran);
 }
@@ -153,53 +146,38 @@ TEST(LinearTwin, RefusesADrivePlanOfUnequalLists) {
   plan.path_x_m.resize(10);
   TwinRun twin;
   std::string error;
-  EXPECT_FALSE(RunLinearTwin(Knock(250, false), 0, Builtin("lqr"), plan, &twin, &error));
+  EXPECT_FALSE(RunLinearTwin(Knock(250, false), 0, BuiltinModule("lqr"), plan, &twin, &error));
   EXPECT_NE(error.find("differ in length"), std::string::npos) << error;
 }
 
-const char* kTwoControllers = R"(<scenario name="two" schema="1" duration_s="1.5">
-  <description>Test: two controllers, two seeds, a step push and a drive.</description>
-  <robot file="../models/courier.xml"/>
-  <timeline>
-    <push at_s="0.3" shape="step" peak_N="40" duration_s="0.4"/>
-    <drive at_s="0.8" speed_m_s="0.3" ramp_s="0.4"/>
-  </timeline>
-  <controllers baseline="pid">
-    <controller name="lqr" builtin="lqr"/>
-    <controller name="pid" builtin="pid"/>
-  </controllers>
-  <seeds list="1 2"/>
-</scenario>)";
+// Scenario "two" with a drive after the push (the twin models no drive).
+std::string TwoWithDrive() {
+  return TwoControllersText(R"(    <drive at_s="0.8" speed_m_s="0.3" ramp_s="0.4"/>
+)");
+}
 
 TEST(LinearTwin, GapTablesAreByteIdenticalWithOneJobOrTwo) {
-  const std::vector<Scenario> scenarios{ScenarioFromText(kTwoControllers, "two.xml")};
-  BatchOptions one, two;
-  one.jobs = 1;
-  two.jobs = 2;
-  one.run.trace_rate_hz = two.run.trace_rate_hz = 20;
-  one.run.linear_twin = two.run.linear_twin = true;
-  const BatchResult a = RunBatch(scenarios, one, "test", nullptr);
-  const BatchResult b = RunBatch(scenarios, two, "test", nullptr);
-  EXPECT_TRUE(a.linear_twin);
-  ASSERT_EQ(a.runs.size(), 4u);
-  const auto dir_a = ScratchDir("twin-jobs1"), dir_b = ScratchDir("twin-jobs2");
-  std::string error;
-  ASSERT_TRUE(WriteResults(dir_a.string(), a, &error)) << error;
-  ASSERT_TRUE(WriteResults(dir_b.string(), b, &error)) << error;
+  BatchOptions options;
+  options.run.trace_rate_hz = 20;
+  options.run.linear_twin = true;
+  const testing::OneJobAndTwo both =
+      RunWithOneJobAndTwo({ScenarioFromText(TwoWithDrive(), "two.xml")}, options, "twin");
+  EXPECT_TRUE(both.one.linear_twin);
+  ASSERT_EQ(both.one.runs.size(), 4u);
   for (const char* name : {"gap.csv", "gap.md"}) {
-    const std::string text = ReadFile(dir_a / name);
+    const std::string text = ReadFile(both.dir_one / name);
     EXPECT_FALSE(text.empty()) << name;
-    EXPECT_EQ(text, ReadFile(dir_b / name)) << name;
+    EXPECT_EQ(text, ReadFile(both.dir_two / name)) << name;
   }
-  for (const auto& run : a.runs) {
+  for (const auto& run : both.one.runs) {
     const auto trace = std::filesystem::path("traces") / TraceFileName(run);
-    const std::string text = ReadFile(dir_a / trace);
+    const std::string text = ReadFile(both.dir_one / trace);
     EXPECT_NE(text.find(",twin_pitch_deg,twin_x_m,event\n"), std::string::npos) << trace;
-    EXPECT_EQ(text, ReadFile(dir_b / trace)) << trace;
+    EXPECT_EQ(text, ReadFile(both.dir_two / trace)) << trace;
   }
 
   // gap.csv: the header, then one row per run in batch order naming the drive as not modelled.
-  const std::string csv = ReadFile(dir_a / "gap.csv");
+  const std::string csv = ReadFile(both.dir_one / "gap.csv");
   EXPECT_EQ(csv.substr(0, csv.find('\n')),
             "scenario,controller,seed,peak_tilt_linear_deg,peak_tilt_plant_deg,"
             "peak_drift_linear_m,peak_drift_plant_m,tilt_diverge_s,drift_diverge_s,plant_status,"
@@ -212,13 +190,13 @@ TEST(LinearTwin, GapTablesAreByteIdenticalWithOneJobOrTwo) {
   EXPECT_EQ(bands.tilt_floor_deg, 1.0);
   EXPECT_EQ(bands.drift_floor_m, 0.05);
   EXPECT_EQ(bands.fraction, 0.10);
-  const std::string md = ReadFile(dir_a / "gap.md");
+  const std::string md = ReadFile(both.dir_one / "gap.md");
   EXPECT_NE(md.find("max(1°, 10 % of the plant's peak tilt)"), std::string::npos);
   EXPECT_NE(md.find("max(0.05 m, 10 % of the plant's peak drift)"), std::string::npos);
 }
 
 TEST(LinearTwin, NoGapTablesWithoutTheTwin) {
-  const std::vector<Scenario> scenarios{ScenarioFromText(kTwoControllers, "two.xml")};
+  const std::vector<Scenario> scenarios{ScenarioFromText(TwoWithDrive(), "two.xml")};
   BatchOptions options;
   options.run.trace_rate_hz = 20;
   const BatchResult batch = RunBatch(scenarios, options, "test", nullptr);

@@ -3,20 +3,15 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
-#include <exception>
-#include <map>
-#include <memory>
 #include <sstream>
-#include <thread>
 #include <utility>
 
-#include "parallel_for.hpp"
 #include "parameter_unit.hpp"
 #include "round_value.hpp"
-#include "upright/host/module.hpp"
+#include "upright/runner/modules.hpp"
+#include "upright/runner/parallel_for.hpp"
 #include "upright/runner/run_one.hpp"
 #include "upright/runner/scenario_parameter.hpp"
-#include "upright/runner/sha256.hpp"
 
 namespace upright::runner {
 namespace {
@@ -25,62 +20,6 @@ std::string Num(double value) {
   std::ostringstream text;
   text << value;
   return text.str();
-}
-
-// A loaded module, or why it could not be loaded.
-struct LoadedModule {
-  std::shared_ptr<host::Module> module;
-  std::string error;
-};
-
-LoadedModule Load(const ControllerEntry& entry, const std::vector<std::string>& dirs) {
-  LoadedModule loaded;
-  std::string path = entry.module;
-  if (entry.builtin) {
-    path = host::FindBuiltinModule(entry.module, dirs, &loaded.error);
-    if (path.empty()) return loaded;
-  }
-  loaded.module = host::Module::Load(path, &loaded.error);
-  return loaded;
-}
-
-// Every controller's module, loaded once per distinct module before any thread starts.
-std::vector<const LoadedModule*> LoadModules(
-    const Scenario& scenario, const std::vector<std::string>& module_dirs,
-    std::map<std::pair<bool, std::string>, LoadedModule>* store) {
-  const std::vector<std::string> dirs =
-      module_dirs.empty() ? host::DefaultModuleDirs() : module_dirs;
-  std::vector<const LoadedModule*> modules;
-  for (const ControllerEntry& entry : scenario.controllers) {
-    const auto key = std::make_pair(entry.builtin, entry.module);
-    if (!store->count(key)) store->emplace(key, Load(entry, dirs));
-    modules.push_back(&store->at(key));
-  }
-  return modules;
-}
-
-std::vector<std::uint64_t> SeedsOf(const Scenario& scenario, int seed_count) {
-  if (seed_count <= 0) return scenario.seeds;
-  std::vector<std::uint64_t> seeds;
-  for (int i = 1; i <= seed_count; ++i) seeds.push_back(static_cast<std::uint64_t>(i));
-  return seeds;
-}
-
-ScenarioInfo Describe(const Scenario& scenario, const std::vector<std::uint64_t>& seeds) {
-  ScenarioInfo info;
-  info.name = scenario.name;
-  info.path = scenario.path;
-  std::string ignored;  // an unreadable file leaves its hash empty in the manifest
-  info.sha256 = Sha256OfFile(scenario.path, &ignored);
-  info.model_name = scenario.model.name;
-  info.model_path = scenario.model_path;
-  info.model_sha256 = Sha256OfFile(scenario.model_path, &ignored);
-  info.dt_s = scenario.dt_s;
-  info.duration_s = scenario.duration_s;
-  for (const auto& c : scenario.controllers) info.controllers.push_back(c.name);
-  info.baseline = scenario.controllers.at(scenario.baseline).name;
-  info.seeds = seeds;
-  return info;
 }
 
 // The axis of `path` with its defaults resolved, the ends checked against the scenario.
@@ -126,18 +65,9 @@ struct RunVerdict {
 // One run of one probe scenario, never throwing.
 RunVerdict RunProbe(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
                     const LoadedModule& loaded, const RunOptions& run_options) {
-  RunVerdict verdict;
-  try {
-    const RunResult r =
-        RunOne(scenario, controller, seed, loaded.module, loaded.error, run_options);
-    verdict.status = r.metrics.status;
-    verdict.message = r.metrics.message;
-  } catch (const std::exception& e) {
-    // Out of memory and the like: the probe could not be run.
-    verdict.status = RunStatus::kSetupFailed;
-    verdict.message = std::string("the run stopped on an error: ") + e.what();
-  }
-  return verdict;
+  const RunResult r =
+      RunOneSafely(scenario, controller, seed, loaded.module, loaded.error, run_options);
+  return {r.metrics.status, r.metrics.message};
 }
 
 // How the seeds of one probe went.
@@ -241,7 +171,7 @@ bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, Enve
       }
     }
   }
-  p.seeds = SeedsOf(scenario, options.seed_count);
+  p.seeds = RunSeeds(scenario, options.seed_count);
   const std::size_t per_probe = scenario.controllers.size() * p.seeds.size();
   p.max_runs = per_probe * BracketedProbes(p.axis.hi - p.axis.lo, p.tol);
   if (p.axis2) p.max_runs += per_probe * static_cast<std::size_t>(p.grid * p.grid);
@@ -265,15 +195,17 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
   const auto wall_start = std::chrono::steady_clock::now();
   EnvelopeResult result;
   result.tool_version = tool_version;
-  result.scenario = Describe(scenario, plan.seeds);
+  result.scenario = DescribeScenario(scenario, plan.seeds);
   result.plan = plan;
-  const unsigned cores = std::max(1u, std::thread::hardware_concurrency());
-  const std::size_t jobs = options.jobs > 0 ? static_cast<std::size_t>(options.jobs) : cores;
+  const std::size_t jobs = JobsWanted(options.jobs);
   result.jobs = static_cast<int>(jobs);
 
-  std::map<std::pair<bool, std::string>, LoadedModule> store;
-  const std::vector<const LoadedModule*> modules =
-      LoadModules(scenario, options.module_dirs, &store);
+  // Every controller's module, loaded once per distinct module before any thread starts.
+  const ModuleSet module_set({&scenario, 1}, options.module_dirs);
+  std::vector<const LoadedModule*> modules;
+  for (const ControllerEntry& entry : scenario.controllers) {
+    modules.push_back(&module_set.Get(entry));
+  }
   RunOptions run_options;
   run_options.trace_rate_hz = 0;
   run_options.stop_when_settled = true;
@@ -351,7 +283,7 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
     if (probes.empty()) break;
 
     std::vector<RunVerdict> verdicts(probes.size() * n_seeds);
-    internal::ParallelFor(
+    ParallelFor(
         verdicts.size(), jobs,
         [&](std::size_t i) {
           const Probe& probe = probes[i / n_seeds];
@@ -437,7 +369,7 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
     }
     total_now = done + tasks.size();
     std::vector<RunVerdict> verdicts(tasks.size());
-    internal::ParallelFor(
+    ParallelFor(
         tasks.size(), jobs,
         [&](std::size_t i) {
           const MapTask& t = tasks[i];

@@ -5,9 +5,10 @@
 #include <cmath>
 #include <cstdio>
 
-#include "json_text.hpp"
-#include "text_format.hpp"
 #include "upright/runner/envelope_writer.hpp"
+#include "upright/runner/json_text.hpp"
+#include "upright/runner/scenario_info_json.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {
@@ -201,7 +202,6 @@ std::string EnvelopeMarkdown(const EnvelopeResult& result) {
 
 std::string EnvelopeManifestJson(const EnvelopeResult& result) {
   const EnvelopePlan& plan = result.plan;
-  const ScenarioInfo& info = result.scenario;
   JsonText json;
   json.BeginObject();
   json.String("tool_version", result.tool_version);
@@ -210,18 +210,7 @@ std::string EnvelopeManifestJson(const EnvelopeResult& result) {
   json.Unsigned("runs", result.runs);
   json.Number("wall_s", result.wall_s);
   json.BeginObject("scenario");
-  json.String("name", info.name);
-  json.String("path", info.path);
-  json.String("sha256", info.sha256);
-  json.String("model_name", info.model_name);
-  json.String("model_path", info.model_path);
-  json.String("model_sha256", info.model_sha256);
-  json.Number("dt_s", info.dt_s);
-  json.Number("duration_s", info.duration_s);
-  json.BeginArray("controllers");
-  for (const std::string& controller : info.controllers) json.String({}, controller);
-  json.EndArray();
-  json.String("baseline", info.baseline);
+  AppendScenarioInfoFields(&json, result.scenario);
   json.EndObject();
   json.BeginArray("seeds");
   for (std::uint64_t seed : plan.seeds) json.Unsigned({}, seed);

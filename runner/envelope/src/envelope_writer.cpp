@@ -3,10 +3,10 @@
 #include "upright/runner/envelope_writer.hpp"
 
 #include <filesystem>
-#include <system_error>
 
 #include "envelope_tables.hpp"
 #include "upright/runner/atomic_file.hpp"
+#include "upright/runner/make_results_folder.hpp"
 
 namespace upright::runner {
 
@@ -19,14 +19,8 @@ std::vector<std::string> EnvelopeFileNames(const EnvelopeResult& result) {
 
 bool WriteEnvelopeResults(const std::string& dir, const EnvelopeResult& result,
                           std::string* error) {
+  if (!MakeResultsFolder(dir, error)) return false;
   const std::filesystem::path root(dir);
-  std::error_code code;
-  std::filesystem::create_directories(root, code);
-  if (code || !std::filesystem::is_directory(root, code)) {
-    *error = "cannot create folder " + root.string() + ": " +
-             (code ? code.message() : std::string("a file of that name is in the way"));
-    return false;
-  }
   const auto write = [&](const char* name, const std::string& text) {
     return WriteFileAtomically((root / name).string(), text, error);
   };

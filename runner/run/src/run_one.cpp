@@ -4,6 +4,7 @@
 #include <chrono>
 #include <cmath>
 #include <cstdio>
+#include <exception>
 #include <limits>
 #include <sstream>
 
@@ -290,6 +291,29 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   result.metrics = recorder.Finish(status, message);
   const RunMetrics metrics = result.metrics;
   return finish(metrics.status, metrics.message);
+}
+
+RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                         const std::string& message) {
+  RunResult failed;
+  failed.scenario = scenario.name;
+  failed.controller = scenario.controllers[controller].name;
+  failed.seed = seed;
+  failed.baseline = controller == scenario.baseline;
+  failed.metrics.status = RunStatus::kSetupFailed;
+  failed.metrics.message = message;
+  return failed;
+}
+
+RunResult RunOneSafely(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                       const std::shared_ptr<host::Module>& module, const std::string& load_error,
+                       const RunOptions& options) {
+  try {
+    return RunOne(scenario, controller, seed, module, load_error, options);
+  } catch (const std::exception& e) {
+    return SetupFailedRun(scenario, controller, seed,
+                          std::string("the run stopped on an error: ") + e.what());
+  }
 }
 
 }  // namespace upright::runner

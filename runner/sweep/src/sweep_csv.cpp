@@ -1,25 +1,20 @@
 // sweep.csv: one row per sample × controller, sample by sample — the sampled values, the status
 // and every figure summary.csv has, in its column order.
 #include "exact_number.hpp"
-#include "metric_columns.hpp"
-#include "text_format.hpp"
+#include "upright/runner/metric_columns.hpp"
 #include "upright/runner/sweep_writer.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner {
 
 std::string SweepCsv(const SweepResult& result) {
-  using internal::AppendCsvField;
   std::string csv = "sample,controller,noise_seed";
   for (const Dispersion& d : result.dispersions) {
     csv += ',';
     AppendCsvField(&csv, d.param);
   }
-  csv += ",status,survived";
-  for (const internal::MetricColumn& column : internal::MetricColumns()) {
-    csv += ',';
-    csv += column.name;
-  }
-  csv += ",message\n";
+  AppendOutcomeHeader(&csv);
+  csv += '\n';
   for (const SweepSample& sample : result.samples) {
     for (std::size_t c = 0; c < result.controller_count(); ++c) {
       const RunResult& run = result.run(sample.index, c);
@@ -32,15 +27,7 @@ std::string SweepCsv(const SweepResult& result) {
         csv += ',';
         internal::AppendExactNumber(&csv, value);
       }
-      csv += ',';
-      csv += ToString(run.metrics.status);
-      csv += run.metrics.status == RunStatus::kOk ? ",1" : ",0";
-      for (const internal::MetricColumn& column : internal::MetricColumns()) {
-        csv += ',';
-        internal::AppendNumber(&csv, run.metrics.*column.field);
-      }
-      csv += ',';
-      AppendCsvField(&csv, run.metrics.message);
+      AppendOutcomeCells(&csv, run.metrics);
       csv += '\n';
     }
   }

@@ -1,30 +1,19 @@
 // manifest.json of a sweep: what was run (tool version, input hashes, seed, samples, the
 // dispersions and how samples are seeded) and how long it took.
-#include "json_text.hpp"
+#include "upright/runner/json_text.hpp"
+#include "upright/runner/scenario_info_json.hpp"
 #include "upright/runner/sweep_sampling.hpp"
 #include "upright/runner/sweep_writer.hpp"
 
 namespace upright::runner {
 
 std::string SweepManifestJson(const SweepResult& result) {
-  internal::JsonText json;
+  JsonText json;
   json.BeginObject();
   json.String("tool_version", result.tool_version);
   json.String("command", "sweep");
-  const ScenarioInfo& info = result.scenario;
   json.BeginObject("scenario");
-  json.String("name", info.name);
-  json.String("path", info.path);
-  json.String("sha256", info.sha256);
-  json.String("model_name", info.model_name);
-  json.String("model_path", info.model_path);
-  json.String("model_sha256", info.model_sha256);
-  json.Number("dt_s", info.dt_s);
-  json.Number("duration_s", info.duration_s);
-  json.BeginArray("controllers");
-  for (const std::string& controller : info.controllers) json.String({}, controller);
-  json.EndArray();
-  json.String("baseline", info.baseline);
+  AppendScenarioInfoFields(&json, result.scenario);
   json.EndObject();
   json.Unsigned("seed", result.seed);
   json.Unsigned("samples", result.samples.size());

@@ -7,28 +7,25 @@
 #include <vector>
 
 #include "exact_number.hpp"
-#include "metric_columns.hpp"
-#include "text_format.hpp"
 #include "upright/model/check.hpp"
+#include "upright/runner/metric_columns.hpp"
 #include "upright/runner/sweep_writer.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner {
 namespace {
-
-using internal::FormatReadable;
-using internal::MarkdownCell;
 
 // The figures whose spread sweep.md shows, by their summary.csv column name.
 constexpr std::array<std::string_view, 5> kFigures = {
     "max_tilt_deg", "max_drift_m", "tilt_settle_s", "peak_current_A", "effort_Nm2s"};
 constexpr std::array<double, 3> kPercents = {50, 90, 99};
 
-const internal::MetricColumn& Column(std::string_view name) {
-  for (const internal::MetricColumn& column : internal::MetricColumns()) {
+const MetricColumn& Column(std::string_view name) {
+  for (const MetricColumn& column : MetricColumns()) {
     if (name == column.name) return column;
   }
   UPRIGHT_CHECK(false, "no metric column %.*s", static_cast<int>(name.size()), name.data());
-  return internal::MetricColumns().front();
+  return MetricColumns().front();
 }
 
 std::string Percent(double fraction) { return FormatReadable(100 * fraction) + " %"; }
@@ -85,7 +82,7 @@ void AppendFigures(const SweepResult& result, std::string* md) {
       "runs p99 lies between the two largest. A tilt settle time of a run that survived but did "
       "not settle within the window ranks above every settled one (\"unsettled\").\n";
   for (const std::string_view name : kFigures) {
-    const internal::MetricColumn& column = Column(name);
+    const MetricColumn& column = Column(name);
     const bool settle = name == "tilt_settle_s";
     *md += "\n### " + std::string(column.label) + "\n\n| controller | runs | p50 | p90 | p99 |\n";
     *md += "|---|---:|---:|---:|---:|\n";

@@ -3,9 +3,9 @@
 #include "upright/runner/sweep_writer.hpp"
 
 #include <filesystem>
-#include <system_error>
 
 #include "upright/runner/atomic_file.hpp"
+#include "upright/runner/make_results_folder.hpp"
 
 namespace upright::runner {
 
@@ -15,14 +15,8 @@ const std::vector<std::string>& SweepFileNames() {
 }
 
 bool WriteSweepResults(const std::string& dir, const SweepResult& result, std::string* error) {
+  if (!MakeResultsFolder(dir, error)) return false;
   const std::filesystem::path root(dir);
-  std::error_code code;
-  std::filesystem::create_directories(root, code);
-  if (code || !std::filesystem::is_directory(root, code)) {
-    *error = "cannot create folder " + root.string() + ": " +
-             (code ? code.message() : std::string("a file of that name is in the way"));
-    return false;
-  }
   return WriteFileAtomically((root / "sweep.csv").string(), SweepCsv(result), error) &&
          WriteFileAtomically((root / "sweep.md").string(), SweepMarkdown(result), error) &&
          WriteFileAtomically((root / "manifest.json").string(), SweepManifestJson(result), error);

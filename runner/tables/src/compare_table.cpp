@@ -3,8 +3,8 @@
 #include <cmath>
 #include <limits>
 
-#include "metric_columns.hpp"
-#include "text_format.hpp"
+#include "upright/runner/metric_columns.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {

@@ -1,6 +1,6 @@
 #include "gap_table.hpp"
 
-#include "text_format.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {

@@ -1,9 +1,9 @@
-#include "json_text.hpp"
+#include "upright/runner/json_text.hpp"
 
 #include <charconv>
 #include <cmath>
 
-namespace upright::runner::internal {
+namespace upright::runner {
 
 void AppendJsonString(std::string* out, std::string_view text) {
   // RFC 8259 §7: quotation mark, reverse solidus and the control characters U+0000–U+001F must be
@@ -116,4 +116,4 @@ void JsonText::Close(char bracket) {
   if (depth_ == 0) out_ += '\n';
 }
 
-}  // namespace upright::runner::internal
+}  // namespace upright::runner

@@ -1,6 +1,7 @@
 #include "manifest_json.hpp"
 
-#include "json_text.hpp"
+#include "upright/runner/json_text.hpp"
+#include "upright/runner/scenario_info_json.hpp"
 
 namespace upright::runner::internal {
 
@@ -14,18 +15,7 @@ std::string ManifestJson(const BatchResult& batch, const std::vector<std::string
   json.BeginArray("scenarios");
   for (const ScenarioInfo& info : batch.scenarios) {
     json.BeginObject();
-    json.String("name", info.name);
-    json.String("path", info.path);
-    json.String("sha256", info.sha256);
-    json.String("model_name", info.model_name);
-    json.String("model_path", info.model_path);
-    json.String("model_sha256", info.model_sha256);
-    json.Number("dt_s", info.dt_s);
-    json.Number("duration_s", info.duration_s);
-    json.BeginArray("controllers");
-    for (const std::string& controller : info.controllers) json.String({}, controller);
-    json.EndArray();
-    json.String("baseline", info.baseline);
+    AppendScenarioInfoFields(&json, info);
     json.BeginArray("seeds");
     for (std::uint64_t seed : info.seeds) json.Unsigned({}, seed);
     json.EndArray();

@@ -1,8 +1,10 @@
-#include "metric_columns.hpp"
+#include "upright/runner/metric_columns.hpp"
 
 #include <array>
 
-namespace upright::runner::internal {
+#include "upright/runner/text_format.hpp"
+
+namespace upright::runner {
 namespace {
 
 constexpr std::array<MetricColumn, 16> kColumns = {{
@@ -28,4 +30,25 @@ constexpr std::array<MetricColumn, 16> kColumns = {{
 
 std::span<const MetricColumn> MetricColumns() { return kColumns; }
 
-}  // namespace upright::runner::internal
+void AppendOutcomeHeader(std::string* csv) {
+  *csv += ",status,survived";
+  for (const MetricColumn& column : kColumns) {
+    *csv += ',';
+    *csv += column.name;
+  }
+  *csv += ",message";
+}
+
+void AppendOutcomeCells(std::string* csv, const RunMetrics& metrics) {
+  *csv += ',';
+  *csv += ToString(metrics.status);
+  *csv += metrics.status == RunStatus::kOk ? ",1" : ",0";
+  for (const MetricColumn& column : kColumns) {
+    *csv += ',';
+    AppendNumber(csv, metrics.*column.field);
+  }
+  *csv += ',';
+  AppendCsvField(csv, metrics.message);
+}
+
+}  // namespace upright::runner

@@ -5,7 +5,7 @@
 #include <cmath>
 #include <limits>
 
-#include "text_format.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {

@@ -5,7 +5,6 @@
 #include <filesystem>
 #include <functional>
 #include <map>
-#include <system_error>
 #include <utility>
 
 #include "batch_groups.hpp"
@@ -16,20 +15,10 @@
 #include "summary_table.hpp"
 #include "trace_csv.hpp"
 #include "upright/runner/atomic_file.hpp"
+#include "upright/runner/make_results_folder.hpp"
 
 namespace upright::runner {
 namespace {
-
-bool MakeDirectory(const std::filesystem::path& path, std::string* error) {
-  std::error_code code;
-  std::filesystem::create_directories(path, code);
-  if (!code && std::filesystem::is_directory(path, code)) return true;
-  if (error != nullptr) {
-    *error = "cannot create folder " + path.string() + ": " +
-             (code ? code.message() : std::string("a file of that name is in the way"));
-  }
-  return false;
-}
 
 bool Write(const std::filesystem::path& path, const std::string& text, std::string* error) {
   return WriteFileAtomically(path.string(), text, error);
@@ -77,7 +66,7 @@ bool WriteResults(const std::string& dir, const BatchResult& batch, std::string*
     return false;
   }
 
-  if (!MakeDirectory(root, error)) return false;
+  if (!MakeResultsFolder(root.string(), error)) return false;
   const std::vector<internal::ScenarioGroup> groups = internal::GroupBatch(batch);
   const std::pair<const char*, std::function<std::string()>> tables[] = {
       {"summary.csv", [&] { return internal::SummaryCsv(batch); }},
@@ -96,7 +85,7 @@ bool WriteResults(const std::string& dir, const BatchResult& batch, std::string*
   }
 
   if (!run_of_trace.empty()) {
-    if (!MakeDirectory(root / "traces", error)) return false;
+    if (!MakeResultsFolder((root / "traces").string(), error)) return false;
     for (std::size_t i = 0; i < batch.runs.size(); ++i) {
       if (trace_files[i].empty()) continue;
       if (!Write(root / trace_files[i], internal::TraceCsv(batch.runs[i].trace), error)) {

@@ -3,8 +3,8 @@
 #include <array>
 #include <cmath>
 
-#include "metric_columns.hpp"
-#include "text_format.hpp"
+#include "upright/runner/metric_columns.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {
@@ -43,27 +43,17 @@ std::string JoinSeeds(const std::vector<std::uint64_t>& seeds) {
 }  // namespace
 
 std::string SummaryCsv(const BatchResult& batch) {
-  std::string csv = "scenario,controller,seed,baseline,status,survived";
-  for (const MetricColumn& column : MetricColumns()) {
-    csv += ',';
-    csv += column.name;
-  }
-  csv += ",message\n";
+  std::string csv = "scenario,controller,seed,baseline";
+  AppendOutcomeHeader(&csv);
+  csv += '\n';
   for (const RunResult& run : batch.runs) {
     AppendCsvField(&csv, run.scenario);
     csv += ',';
     AppendCsvField(&csv, run.controller);
     csv += ',';
     csv += std::to_string(run.seed);
-    csv += run.baseline ? ",true," : ",false,";
-    csv += ToString(run.metrics.status);
-    csv += run.metrics.status == RunStatus::kOk ? ",1" : ",0";
-    for (const MetricColumn& column : MetricColumns()) {
-      csv += ',';
-      AppendNumber(&csv, run.metrics.*column.field);
-    }
-    csv += ',';
-    AppendCsvField(&csv, run.metrics.message);
+    csv += run.baseline ? ",true" : ",false";
+    AppendOutcomeCells(&csv, run.metrics);
     csv += '\n';
   }
   return csv;

@@ -1,9 +1,9 @@
-#include "text_format.hpp"
+#include "upright/runner/text_format.hpp"
 
 #include <charconv>
 #include <cmath>
 
-namespace upright::runner::internal {
+namespace upright::runner {
 
 void AppendNumber(std::string* out, double value) {
   if (std::isnan(value)) return;
@@ -78,4 +78,4 @@ void AppendMarkdownCell(std::string* md, std::string_view text) {
   md->append(" |");
 }
 
-}  // namespace upright::runner::internal
+}  // namespace upright::runner

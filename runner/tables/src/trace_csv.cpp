@@ -4,7 +4,7 @@
 #include <array>
 #include <vector>
 
-#include "text_format.hpp"
+#include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {

@@ -1,8 +1,10 @@
 // Batch: scenarios × controllers × seeds, run in parallel (one world per run, results in a fixed
-// order whatever the number of jobs), with progress reported as runs finish.
+// order whatever the number of jobs), with progress reported as runs finish. Also the seeds a
+// scenario runs with and its manifest description, which envelopes and sweeps share.
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <functional>
 #include <string>
 #include <vector>
@@ -33,5 +35,13 @@ BatchResult RunBatch(const std::vector<Scenario>& scenarios, const BatchOptions&
 
 // The number of runs RunBatch would make.
 std::size_t CountRuns(const std::vector<Scenario>& scenarios, const BatchOptions& options);
+
+// The noise seeds a scenario runs with: 1..seed_count when seed_count > 0, else the file's own.
+std::vector<std::uint64_t> RunSeeds(const Scenario& scenario, int seed_count);
+
+// What a manifest says about `scenario` run with `seeds`: its name, its file and its robot model
+// file with their SHA-256 (empty for a file that cannot be read), step, duration, controllers and
+// baseline.
+ScenarioInfo DescribeScenario(const Scenario& scenario, const std::vector<std::uint64_t>& seeds);
 
 }  // namespace upright::runner

@@ -36,4 +36,15 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
                  const std::shared_ptr<host::Module>& module, const std::string& load_error,
                  const RunOptions& options);
 
+// The row of a run that could not happen: controller `controller` of `scenario` with `seed`,
+// status kSetupFailed and `message`, nothing else filled in.
+RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                         const std::string& message);
+
+// RunOne for a worker thread: never throws. An exception (out of memory and the like) becomes a
+// SetupFailedRun with the message "the run stopped on an error: <what>".
+RunResult RunOneSafely(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                       const std::shared_ptr<host::Module>& module, const std::string& load_error,
+                       const RunOptions& options);
+
 }  // namespace upright::runner

@@ -1,18 +1,20 @@
-// JsonText: a small writer of indented JSON (RFC 8259) for the manifest — keys and values in, text
-// out. Strings are escaped per RFC 8259 §7; numbers print in their shortest exact form and
-// non-finite ones as null, since JSON has no NaN or infinity.
+// JsonText: a small writer of indented JSON (RFC 8259) for the manifest of every results folder
+// (runs, sweeps, envelopes) — keys and values in, text out. Strings are escaped per RFC 8259 §7;
+// numbers print in their shortest exact form and non-finite ones as null, since JSON has no NaN or
+// infinity.
 #pragma once
 
 #include <cstdint>
 #include <string>
 #include <string_view>
 
-namespace upright::runner::internal {
+namespace upright::runner {
 
 // Appends `text` as a JSON string: quotes, '"' and '\' escaped, control characters as \b \f \n \r
 // \t or \u00XX; every other byte (UTF-8 included) as is.
 void AppendJsonString(std::string* out, std::string_view text);
 
+// One JSON document built value by value, in the order written.
 class JsonText {
  public:
   // Inside an object every value takes a key; inside an array (or at the top) the key is empty.
@@ -39,4 +41,4 @@ class JsonText {
   bool first_in_container_ = true;
 };
 
-}  // namespace upright::runner::internal
+}  // namespace upright::runner

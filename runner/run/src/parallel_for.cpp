@@ -1,4 +1,4 @@
-#include "parallel_for.hpp"
+#include "upright/runner/parallel_for.hpp"
 
 #include <algorithm>
 #include <atomic>
@@ -6,7 +6,12 @@
 #include <thread>
 #include <vector>
 
-namespace upright::runner::internal {
+namespace upright::runner {
+
+std::size_t JobsWanted(int jobs) {
+  if (jobs > 0) return static_cast<std::size_t>(jobs);
+  return std::max(1u, std::thread::hardware_concurrency());
+}
 
 void ParallelFor(std::size_t n, std::size_t jobs, const std::function<void(std::size_t)>& task,
                  const std::function<void()>& after_each) {
@@ -28,4 +33,4 @@ void ParallelFor(std::size_t n, std::size_t jobs, const std::function<void(std::
   for (auto& w : workers) w.join();
 }
 
-}  // namespace upright::runner::internal
+}  // namespace upright::runner

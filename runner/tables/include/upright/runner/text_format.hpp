@@ -1,11 +1,12 @@
-// Text pieces every table shares: numbers in a fixed, locale-independent form, CSV fields quoted
-// per RFC 4180 and Markdown cells made safe. The same value always gives the same bytes.
+// Text pieces every results table shares (runs, sweeps, envelopes): numbers in a fixed,
+// locale-independent form, CSV fields quoted per RFC 4180 and Markdown cells made safe. The same
+// value always gives the same bytes.
 #pragma once
 
 #include <string>
 #include <string_view>
 
-namespace upright::runner::internal {
+namespace upright::runner {
 
 // Appends `value` as printf "%.6g" would in the "C" locale (std::to_chars); -0 prints as 0, NaN
 // as nothing (an empty CSV field), ±inf as "inf" / "-inf".
@@ -29,4 +30,4 @@ std::string MarkdownCell(std::string_view text);
 // Appends " <text> |": the next cell of a Markdown table row, `text` already made safe.
 void AppendMarkdownCell(std::string* md, std::string_view text);
 
-}  // namespace upright::runner::internal
+}  // namespace upright::runner

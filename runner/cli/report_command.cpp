@@ -1,0 +1,42 @@
+// `upright report DIR`: the report of a results folder, and where it went.
+#include "report_command.hpp"
+
+#include <cstdio>
+
+#include "commands.hpp"
+#include "upright/runner/report.hpp"
+
+namespace upright::cli {
+
+CLI::App* AddReportCommand(CLI::App* app, std::string* dir) {
+  auto* cmd = app->add_subcommand(
+      "report",
+      "Write DIR/report.html: one self-contained page (no network) with time plots, the tables, "
+      "envelope, sweep and gap charts of the results folder DIR and of results folders inside it");
+  cmd->add_option("DIR", *dir, "Results folder (of upright run, demo, envelope or sweep)")
+      ->required();
+  return cmd;
+}
+
+int RunReport(const std::string& dir) {
+  const runner::ReportOutcome outcome = runner::MakeReport(dir);
+  switch (outcome.status) {
+    case runner::ReportStatus::kWritten:
+      break;
+    case runner::ReportStatus::kNoResults:
+    case runner::ReportStatus::kBadInput:
+      std::fprintf(stderr, "%s\n", outcome.message.c_str());
+      return kExitBadInput;
+    case runner::ReportStatus::kWriteFailed:
+      std::fprintf(stderr, "%s\n", outcome.message.c_str());
+      return kExitFailed;
+  }
+  std::printf("upright report: %s (%.1f kB, %zu results folder(s))\n", outcome.path.c_str(),
+              static_cast<double>(outcome.bytes) / 1000.0, outcome.folders);
+  std::printf(
+      "Simulation only: validate on hardware with a tether or spotter, at low speed first, "
+      "within local rules.\n");
+  return kExitOk;
+}
+
+}  // namespace upright::cli

@@ -1,0 +1,47 @@
+// What the report takes from a results folder's manifest.json: the tool version, the input files
+// with their SHA-256, the trace of each run, and the envelope's parameters or the sweep's spreads.
+// Fields the manifest lacks stay empty; timings are never read, so the report does not vary.
+#pragma once
+
+#include <cstdint>
+#include <string>
+#include <vector>
+
+namespace upright::runner::report {
+
+struct ManifestScenario {
+  std::string name, path, sha256;
+  std::string model_name, model_path, model_sha256;
+  std::string baseline;
+};
+
+struct ManifestRun {
+  std::string scenario, controller;
+  std::uint64_t seed = 0;
+  std::string trace;  // relative to the folder; "" when the run has no trace
+};
+
+// One swept or bisected parameter, or one spread of a sweep ("kind" and its numbers as text).
+struct ManifestParameter {
+  std::string path, unit, kind;
+  std::vector<std::pair<std::string, std::string>> numbers;  // name → value as written
+  double scenario_value = 0;
+  bool has_scenario_value = false;
+};
+
+struct ManifestInfo {
+  bool present = false;  // manifest.json was there and parsed
+  std::string tool_version;
+  std::string command;  // "envelope", "sweep", or "" for run and demo
+  std::vector<ManifestScenario> scenarios;
+  std::vector<ManifestRun> runs;
+  std::vector<ManifestParameter> parameters;   // envelope: the parameter, then parameter2
+  std::vector<ManifestParameter> dispersions;  // sweep: the spreads in file order
+  std::string sweep_seed, samples;             // sweep: as written
+};
+
+// Reads <dir>/manifest.json. A missing file gives present = false and true; a malformed one
+// false and *error ("<path>:<line>: ...").
+bool ReadManifest(const std::string& dir, ManifestInfo* info, std::string* error);
+
+}  // namespace upright::runner::report

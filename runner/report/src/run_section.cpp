@@ -1,0 +1,522 @@
+// The section of an `upright run` / `upright demo` results folder.
+#include <algorithm>
+#include <charconv>
+#include <cmath>
+#include <cstdint>
+#include <filesystem>
+#include <map>
+
+#include "bar_charts.hpp"
+#include "html_table.hpp"
+#include "html_text.hpp"
+#include "line_plot.hpp"
+#include "sections.hpp"
+#include "trace_reader.hpp"
+#include "upright/runner/csv_reader.hpp"
+#include "upright/runner/results_writer.hpp"
+#include "upright/runner/run_metrics.hpp"
+
+namespace upright::runner::report {
+namespace {
+
+namespace fs = std::filesystem;
+
+// Column indices a table must have; false and *error naming the first one missing.
+bool Columns(const CsvTable& table, const std::string& path,
+             std::initializer_list<const char*> names, std::vector<int>* columns,
+             std::string* error) {
+  columns->clear();
+  for (const char* name : names) {
+    const int c = table.Column(name);
+    if (c < 0) {
+      *error = path + ":1: no column '" + name + "' in the header";
+      return false;
+    }
+    columns->push_back(c);
+  }
+  return true;
+}
+
+std::uint64_t SeedOf(const std::string& text) {
+  std::uint64_t seed = 0;
+  std::from_chars(text.data(), text.data() + text.size(), seed);
+  return seed;
+}
+
+bool IsStatusWord(const std::string& label) {
+  RunStatus status;
+  return FromString(label, &status);
+}
+
+std::string Words(std::string text) {
+  std::replace(text.begin(), text.end(), '_', ' ');
+  return text;
+}
+
+// One row of summary.csv, by name.
+struct RunRow {
+  std::string scenario, controller, seed_text, status;
+  std::uint64_t seed = 0;
+  bool baseline = false;
+  double fall_time_s = kNoValue, end_time_s = kNoValue;
+  const std::vector<std::string>* cells = nullptr;
+};
+
+struct ScenarioRuns {
+  std::string name;
+  std::vector<std::string> controllers;  // in file order
+  std::string baseline;
+  std::vector<std::uint64_t> seeds;  // ascending
+  std::vector<const RunRow*> rows;   // in file order
+};
+
+struct ControllerTrace {
+  std::string controller;
+  std::size_t style = 0;
+  const RunRow* run = nullptr;
+  bool loaded = false;
+  TraceSignals signals;
+};
+
+struct Signal {
+  const char* kind;
+  const char* title;
+  const char* y_label;
+  std::vector<double> TraceSignals::*values;
+  std::vector<double> TraceSignals::*twin;  // nullptr: no twin line
+};
+
+constexpr Signal kSignals[] = {
+    {"tilt", "Tilt", "tilt, pitch (deg)", &TraceSignals::pitch_deg, &TraceSignals::twin_pitch_deg},
+    {"position", "Position", "axle x (m)", &TraceSignals::x_m, &TraceSignals::twin_x_m},
+    {"drift", "Drift from the commanded path", "drift (m)", &TraceSignals::drift_m, nullptr},
+    {"torque", "Wheel torque, mean of left and right", "torque (N·m)", &TraceSignals::torque_Nm,
+     nullptr},
+    {"slip", "Slip ratio, the wheel with the larger |slip|", "slip ratio (–)", &TraceSignals::slip,
+     nullptr},
+};
+
+double LastFinite(const std::vector<double>& values) {
+  for (auto it = values.rbegin(); it != values.rend(); ++it) {
+    if (std::isfinite(*it)) return *it;
+  }
+  return kNoValue;
+}
+
+std::string TracePath(const ResultsFolder& folder, const ManifestInfo& manifest,
+                      const RunRow& run) {
+  for (const ManifestRun& m : manifest.runs) {
+    if (m.scenario == run.scenario && m.controller == run.controller && m.seed == run.seed &&
+        !m.trace.empty()) {
+      return (fs::path(folder.path) / m.trace).string();
+    }
+  }
+  RunResult named;
+  named.scenario = run.scenario;
+  named.controller = run.controller;
+  named.seed = run.seed;
+  return (fs::path(folder.path) / "traces" / TraceFileName(named)).string();
+}
+
+// The plots of one scenario: one figure per signal, every controller's first-seed trace in it.
+bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
+                 const ReportOptions& options, const ScenarioRuns& scenario, std::string* html,
+                 std::string* error) {
+  std::vector<ControllerTrace> traces;
+  std::vector<std::string> missing;
+  std::string seeds_used;
+  for (std::size_t c = 0; c < scenario.controllers.size(); ++c) {
+    ControllerTrace t;
+    t.controller = scenario.controllers[c];
+    t.style = c;
+    // Seed 1 when the controller ran it, else its smallest seed.
+    for (const RunRow* row : scenario.rows) {
+      if (row->controller != t.controller) continue;
+      if (t.run == nullptr || (row->seed == 1) || (t.run->seed != 1 && row->seed < t.run->seed)) {
+        t.run = row;
+      }
+    }
+    if (t.run == nullptr) continue;
+    const std::string path = TracePath(folder, manifest, *t.run);
+    std::error_code ec;
+    if (!fs::is_regular_file(path, ec)) {
+      if (t.run->status != "setup_failed") missing.push_back(t.controller);
+      traces.push_back(std::move(t));
+      continue;
+    }
+    if (!ReadTrace(path, &t.signals, error)) return false;
+    t.loaded = !t.signals.time_s.empty();
+    const std::string seed = "seed " + t.run->seed_text;
+    if (seeds_used.find(seed) == std::string::npos) {
+      seeds_used += (seeds_used.empty() ? "" : ", ") + seed;
+    }
+    traces.push_back(std::move(t));
+  }
+  const bool any =
+      std::any_of(traces.begin(), traces.end(), [](const ControllerTrace& t) { return t.loaded; });
+  if (!any) {
+    *html +=
+        "<p class=\"muted\">No traces for this scenario in the folder (run with "
+        "<code>--trace-rate</code> above 0 to plot them).</p>";
+    return true;
+  }
+
+  // The scenario's events: from the trace that ran longest, since a run cut short carries the
+  // later events on its last row. Status marks ("fell") are drawn per run instead.
+  const ControllerTrace* longest = nullptr;
+  for (const ControllerTrace& t : traces) {
+    if (!t.loaded) continue;
+    if (longest == nullptr || t.signals.time_s.back() > longest->signals.time_s.back()) {
+      longest = &t;
+    }
+  }
+  std::vector<PlotEvent> events;
+  for (const TraceLabel& label : longest->signals.labels) {
+    if (IsStatusWord(label.label)) continue;
+    events.push_back({label.time_s, "E" + std::to_string(events.size() + 1), label.label});
+  }
+  double x_max = 0;
+  for (const ControllerTrace& t : traces) {
+    if (t.loaded) x_max = std::max(x_max, t.signals.time_s.back());
+  }
+
+  *html += "<p>Traces of " + Escape(seeds_used.empty() ? "no seed" : seeds_used) +
+           " (seed 1 when it was run, else each controller's first seed), thinned to at most " +
+           std::to_string(options.max_points) +
+           " samples per line by min/max decimation, which keeps every peak.";
+  if (!missing.empty()) {
+    std::string names;
+    for (const auto& m : missing) names += (names.empty() ? "" : ", ") + m;
+    *html += " No trace file for " + Escape(names) + ".";
+  }
+  *html += "</p>";
+  if (!events.empty()) {
+    *html += "<p>Events (dashed lines, at the trace row that carries them):";
+    for (const PlotEvent& e : events) {
+      *html += " <strong>" + Escape(e.tag) + "</strong> " + FormatFixed(e.time_s, 2) + " s " +
+               Escape(e.label) + ";";
+    }
+    html->back() = '.';
+    *html += "</p>";
+  }
+
+  *html += "<div class=\"figures\">";
+  for (const Signal& signal : kSignals) {
+    LinePlot plot;
+    plot.kind = signal.kind;
+    plot.scenario = scenario.name;
+    plot.title = signal.title;
+    plot.y_label = signal.y_label;
+    plot.x_max_s = x_max;
+    plot.events = events;
+    for (const ControllerTrace& t : traces) {
+      if (!t.loaded) continue;
+      const TraceSignals& s = t.signals;
+      plot.series.push_back({t.controller, t.style, false, s.time_s, s.*signal.values});
+      if (signal.twin != nullptr && s.has_twin) {
+        plot.series.push_back(
+            {t.controller + " (linear twin)", t.style, true, s.time_s, s.*signal.twin});
+      }
+      if (t.run->status != "ok") {
+        const double at = std::isfinite(t.run->fall_time_s) ? t.run->fall_time_s : s.time_s.back();
+        plot.marks.push_back(
+            {s.time_s.back(), LastFinite(s.*signal.values), t.style,
+             t.controller + " " + Words(t.run->status) + " at " + FormatFixed(at, 3) + " s"});
+      }
+    }
+    *html += RenderLinePlot(plot, options.max_points);
+  }
+  *html += "</div>";
+  return true;
+}
+
+HtmlCell StatusCell(const std::string& status) {
+  if (status == "ok") return {"✔ ok", false, ""};
+  if (status == "setup_failed" || status == "not_run") return {"! " + Words(status), false, "bad"};
+  return {"✘ " + Words(status), false, "bad"};
+}
+
+void AppendSummaryTable(const CsvTable& summary, const ScenarioRuns& scenario, std::string* html) {
+  std::vector<int> shown;
+  std::vector<std::string> header;
+  std::vector<bool> numeric;
+  for (std::size_t c = 0; c < summary.header.size(); ++c) {
+    const std::string& name = summary.header[c];
+    if (name == "scenario" || name == "baseline" || name == "survived") continue;
+    shown.push_back(static_cast<int>(c));
+    header.push_back(name);
+    numeric.push_back(name != "controller" && name != "status" && name != "message");
+  }
+  HtmlTable table(header, numeric);
+  for (const RunRow* row : scenario.rows) {
+    std::vector<HtmlCell> cells;
+    for (std::size_t k = 0; k < shown.size(); ++k) {
+      const std::string& name = header[k];
+      const std::string& cell = (*row->cells)[static_cast<std::size_t>(shown[k])];
+      if (name == "controller") {
+        cells.push_back({cell + (row->baseline ? " (baseline)" : ""), false, ""});
+      } else if (name == "status") {
+        cells.push_back(StatusCell(cell));
+      } else if (numeric[k]) {
+        cells.push_back(NumberCell(cell));
+      } else {
+        cells.push_back({cell, false, ""});
+      }
+    }
+    table.AddRow(std::move(cells));
+  }
+  *html += table.Html("Summary: every run (summary.csv); – : does not apply");
+}
+
+// compare.csv of one scenario as metric rows × controller columns.
+bool AppendCompareTable(const CsvTable& compare, const std::string& path,
+                        const ScenarioRuns& scenario, std::string* html, std::string* error) {
+  std::vector<int> c;
+  if (!Columns(compare, path,
+               {"scenario", "baseline", "controller", "metric", "better_when", "baseline_mean",
+                "controller_mean", "diff_pct", "verdict"},
+               &c, error)) {
+    return false;
+  }
+  std::vector<std::string> metrics, controllers;
+  std::map<std::pair<std::string, std::string>, const std::vector<std::string>*> cell;
+  std::map<std::string, const std::vector<std::string>*> by_metric;
+  std::string baseline;
+  for (const auto& row : compare.rows) {
+    if (row[c[0]] != scenario.name) continue;
+    baseline = row[c[1]];
+    const std::string& controller = row[c[2]];
+    const std::string& metric = row[c[3]];
+    if (std::find(metrics.begin(), metrics.end(), metric) == metrics.end()) {
+      metrics.push_back(metric);
+      by_metric[metric] = &row;
+    }
+    if (std::find(controllers.begin(), controllers.end(), controller) == controllers.end()) {
+      controllers.push_back(controller);
+    }
+    cell[{metric, controller}] = &row;
+  }
+  if (metrics.empty()) return true;
+  std::vector<std::string> header = {"metric", "better when", baseline + " (baseline)"};
+  std::vector<bool> numeric = {false, false, true};
+  for (const auto& name : controllers) {
+    header.push_back(name);
+    numeric.push_back(true);
+  }
+  HtmlTable table(header, numeric);
+  for (const std::string& metric : metrics) {
+    const auto& first = *by_metric[metric];
+    std::vector<HtmlCell> cells = {
+        {metric, false, ""}, {first[c[4]], false, ""}, NumberCell(first[c[5]])};
+    for (const std::string& controller : controllers) {
+      const auto found = cell.find({metric, controller});
+      if (found == cell.end()) {
+        cells.push_back({"–", true, "na"});
+        continue;
+      }
+      const auto& row = *found->second;
+      const HtmlCell mean = NumberCell(row[c[6]]);
+      std::string text = mean.text;
+      const double diff = CsvNumber(row[c[7]]);
+      if (std::isfinite(diff)) {
+        text += " (" + std::string(diff > 0 ? "+" : "") + FormatSignificant(diff, 3) + " %)";
+      }
+      const std::string& verdict = row[c[8]];
+      std::string css;
+      if (verdict == "better") {
+        text += " ▲ better";
+        css = "better";
+      } else if (verdict == "worse") {
+        text += " ▼ worse";
+        css = "worse";
+      } else if (verdict == "same") {
+        text += " ≈ same";
+      } else {
+        text += " " + verdict;
+        css = "na";
+      }
+      cells.push_back({text, true, css});
+    }
+    table.AddRow(std::move(cells));
+  }
+  *html += table.Html(
+      "Against the baseline (compare.csv): mean over seeds, difference in % of "
+      "the baseline; ▲ better, ▼ worse, ≈ same within 0.5 %");
+  return true;
+}
+
+bool AppendGapChart(const CsvTable& gap, const std::string& path, const ScenarioRuns& scenario,
+                    std::string* html, std::string* error) {
+  std::vector<int> c;
+  if (!Columns(gap, path,
+               {"scenario", "controller", "seed", "peak_tilt_linear_deg", "peak_tilt_plant_deg",
+                "tilt_diverge_s", "drift_diverge_s", "plant_status", "twin_message"},
+               &c, error)) {
+    return false;
+  }
+  std::vector<GapPair> pairs;
+  for (const auto& row : gap.rows) {
+    if (row[c[0]] != scenario.name) continue;
+    GapPair p;
+    p.name = row[c[1]] + ", seed " + row[c[2]];
+    p.linear_deg = CsvNumber(row[c[3]]);
+    p.plant_deg = CsvNumber(row[c[4]]);
+    p.note = "plant: " + Words(row[c[7]]);
+    const double tilt = CsvNumber(row[c[5]]);
+    const double drift = CsvNumber(row[c[6]]);
+    p.note += std::isfinite(tilt) ? "; tilt parts at " + FormatFixed(tilt, 3) + " s"
+                                  : "; tilt within its band while both ran";
+    if (std::isfinite(drift)) p.note += "; drift parts at " + FormatFixed(drift, 3) + " s";
+    if (!row[c[8]].empty()) p.note += "; twin: " + row[c[8]];
+    pairs.push_back(std::move(p));
+  }
+  if (pairs.empty()) return true;
+  *html +=
+      "<h4>The linear model against physics (gap.csv)</h4><p>Peak tilt of each run on the "
+      "linear model the controllers were designed on (outlined, dashed) and on the physics "
+      "plant (filled); \"parts\": the first time the two differ beyond the band in "
+      "gap.csv.</p>";
+  *html += RenderGapBars(scenario.name, pairs);
+  return true;
+}
+
+void AppendRanking(const CsvTable& ranking, std::string* html) {
+  std::vector<std::string> header;
+  std::vector<bool> numeric;
+  for (const std::string& name : ranking.header) {
+    header.push_back(name.rfind("rank_", 0) == 0 ? name.substr(5) : name);
+    numeric.push_back(name != "controller");
+  }
+  HtmlTable table(header, numeric);
+  for (const auto& row : ranking.rows) {
+    std::vector<HtmlCell> cells;
+    for (std::size_t k = 0; k < row.size(); ++k) {
+      cells.push_back(numeric[k] ? NumberCell(row[k]) : HtmlCell{row[k], false, ""});
+    }
+    table.AddRow(std::move(cells));
+  }
+  *html += table.Html(
+      "Ranking across scenarios (ranking.csv): survival rate first, then the "
+      "weighted score (lower is better); one column per scenario with the rank "
+      "there");
+}
+
+bool ReadOptional(const std::string& path, CsvTable* table, bool* present, std::string* error) {
+  std::error_code ec;
+  *present = fs::is_regular_file(path, ec);
+  return !*present || ReadCsvFile(path, table, error);
+}
+
+}  // namespace
+
+bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                      const ReportOptions& options, ReportPage* page, std::string* error) {
+  const std::string summary_path = (fs::path(folder.path) / "summary.csv").string();
+  CsvTable summary;
+  if (!ReadCsvFile(summary_path, &summary, error)) return false;
+  std::vector<int> c;
+  if (!Columns(summary, summary_path, {"scenario", "controller", "seed", "status"}, &c, error)) {
+    return false;
+  }
+  const int baseline_column = summary.Column("baseline");
+  const int fall_column = summary.Column("fall_time_s");
+  const int end_column = summary.Column("end_time_s");
+
+  std::vector<RunRow> rows;
+  rows.reserve(summary.rows.size());
+  for (const auto& cells : summary.rows) {
+    RunRow row;
+    row.scenario = cells[c[0]];
+    row.controller = cells[c[1]];
+    row.seed_text = cells[c[2]];
+    row.seed = SeedOf(row.seed_text);
+    row.status = cells[c[3]];
+    row.baseline = baseline_column >= 0 && cells[baseline_column] == "true";
+    if (fall_column >= 0) row.fall_time_s = CsvNumber(cells[fall_column]);
+    if (end_column >= 0) row.end_time_s = CsvNumber(cells[end_column]);
+    row.cells = &cells;
+    rows.push_back(std::move(row));
+  }
+  std::vector<ScenarioRuns> scenarios;
+  for (const RunRow& row : rows) {
+    auto it = std::find_if(scenarios.begin(), scenarios.end(),
+                           [&](const ScenarioRuns& s) { return s.name == row.scenario; });
+    if (it == scenarios.end()) {
+      scenarios.push_back({row.scenario, {}, {}, {}, {}});
+      it = scenarios.end() - 1;
+    }
+    if (std::find(it->controllers.begin(), it->controllers.end(), row.controller) ==
+        it->controllers.end()) {
+      it->controllers.push_back(row.controller);
+    }
+    if (row.baseline) it->baseline = row.controller;
+    if (std::find(it->seeds.begin(), it->seeds.end(), row.seed) == it->seeds.end()) {
+      it->seeds.push_back(row.seed);
+    }
+    it->rows.push_back(&row);
+  }
+  for (ScenarioRuns& s : scenarios) std::sort(s.seeds.begin(), s.seeds.end());
+
+  CsvTable compare, ranking, gap;
+  bool has_compare = false, has_ranking = false, has_gap = false;
+  const std::string compare_path = (fs::path(folder.path) / "compare.csv").string();
+  const std::string ranking_path = (fs::path(folder.path) / "ranking.csv").string();
+  const std::string gap_path = (fs::path(folder.path) / "gap.csv").string();
+  if (!ReadOptional(compare_path, &compare, &has_compare, error) ||
+      !ReadOptional(ranking_path, &ranking, &has_ranking, error) ||
+      !ReadOptional(gap_path, &gap, &has_gap, error)) {
+    return false;
+  }
+
+  const std::string section_id = folder.id + "runs";
+  const std::string where = folder.relative == "." ? "this folder" : folder.relative + "/";
+  page->toc.push_back({section_id, "Runs: " + where, 1});
+  std::string& html = page->body;
+  html += "<section><h2 id=\"" + section_id + "\">Runs: " + Escape(where) + "</h2>";
+  std::size_t survived = 0;
+  for (const RunRow& row : rows) survived += row.status == "ok";
+  html += "<p>" + std::to_string(scenarios.size()) + " scenario(s), " +
+          std::to_string(rows.size()) + " run(s), " + std::to_string(survived) +
+          " survived. Each scenario below: time plots, every run's figures, the comparison "
+          "with the baseline" +
+          (has_gap ? std::string(" and the linear twin's gap") : std::string()) + ".</p>";
+  if (!manifest.present) {
+    html +=
+        "<p class=\"muted\">No manifest.json here: the folder may be incomplete, and its "
+        "input files are not listed above.</p>";
+  }
+  if (has_ranking) AppendRanking(ranking, &html);
+
+  for (const ScenarioRuns& scenario : scenarios) {
+    const std::string id = AnchorId(folder.id + "s-", scenario.name);
+    page->toc.push_back({id, scenario.name, 2});
+    html += "<section><h3 id=\"" + id + "\">" + Escape(scenario.name) + "</h3>";
+    std::string robot, scenario_file;
+    for (const ManifestScenario& m : manifest.scenarios) {
+      if (m.name != scenario.name) continue;
+      robot = m.model_name;
+      scenario_file = fs::path(m.path).filename().string();
+    }
+    std::string seeds;
+    for (const std::uint64_t s : scenario.seeds) {
+      seeds += (seeds.empty() ? "" : ", ") + std::to_string(s);
+    }
+    html += "<p>";
+    if (!scenario_file.empty()) html += "File <code>" + Escape(scenario_file) + "</code> · ";
+    if (!robot.empty()) html += "robot " + Escape(robot) + " · ";
+    html += "controllers " + std::to_string(scenario.controllers.size()) + ", baseline " +
+            Escape(scenario.baseline.empty() ? "not marked" : scenario.baseline) + " · seeds " +
+            Escape(seeds) + "</p>";
+    if (!AppendPlots(folder, manifest, options, scenario, &html, error)) return false;
+    AppendSummaryTable(summary, scenario, &html);
+    if (has_compare && !AppendCompareTable(compare, compare_path, scenario, &html, error)) {
+      return false;
+    }
+    if (has_gap && !AppendGapChart(gap, gap_path, scenario, &html, error)) return false;
+    html += "</section>";
+  }
+  html += "</section>\n";
+  return true;
+}
+
+}  // namespace upright::runner::report

@@ -1,0 +1,32 @@
+// The catalogue of RunMetrics figures as the tables show them: the CSV column name, the reading
+// label with its unit, and whether lower is better; and a run's outcome cells (status, survival,
+// figures, message) in CSV. Every table of every results folder takes its columns from here.
+#pragma once
+
+#include <span>
+#include <string>
+
+#include "upright/runner/run_metrics.hpp"
+
+namespace upright::runner {
+
+// One numeric RunMetrics figure as a column.
+struct MetricColumn {
+  const char* name;           // CSV column and compare.csv metric name, e.g. "max_tilt_deg"
+  const char* label;          // Markdown header, e.g. "max tilt (deg)"
+  double RunMetrics::*field;  // the figure, read as metrics.*field
+  bool compared;              // a lower-is-better figure that compare and ranking judge
+};
+
+// All numeric figures, in summary.csv order (fall_time_s … energy_J, end_time_s).
+std::span<const MetricColumn> MetricColumns();
+
+// Appends ",status,survived,<every column name>,message": the header of the outcome columns that
+// end a row of summary.csv and of sweep.csv.
+void AppendOutcomeHeader(std::string* csv);
+
+// Appends the outcome cells of `metrics` under that header: ",<status>,<1 survived | 0>,<every
+// figure>,<message>" (figures as AppendNumber prints them, the message as one CSV field).
+void AppendOutcomeCells(std::string* csv, const RunMetrics& metrics);
+
+}  // namespace upright::runner

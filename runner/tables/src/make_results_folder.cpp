@@ -1,0 +1,20 @@
+#include "upright/runner/make_results_folder.hpp"
+
+#include <filesystem>
+#include <system_error>
+
+namespace upright::runner {
+
+bool MakeResultsFolder(const std::string& dir, std::string* error) {
+  const std::filesystem::path path(dir);
+  std::error_code code;
+  std::filesystem::create_directories(path, code);
+  if (!code && std::filesystem::is_directory(path, code)) return true;
+  if (error != nullptr) {
+    *error = "cannot create folder " + path.string() + ": " +
+             (code ? code.message() : std::string("a file of that name is in the way"));
+  }
+  return false;
+}
+
+}  // namespace upright::runner

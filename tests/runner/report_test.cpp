@@ -1,0 +1,424 @@
+// The report of a small real run: well-formed (parsed as XML), one plot per scenario and signal
+// with the parts each must show, nothing external, a bounded size and the same bytes twice; the
+// refusals; and `upright report` over a folder of envelope and sweep folders.
+#include "upright/runner/report.hpp"
+
+#include <gtest/gtest.h>
+#include <sys/wait.h>
+#include <tinyxml2.h>
+
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <functional>
+#include <regex>
+
+#include "html_text.hpp"
+#include "palette.hpp"
+#include "report_page.hpp"
+#include "report_test_support.hpp"
+#include "upright/runner/csv_reader.hpp"
+#include "upright/runner/sha256.hpp"
+
+namespace upright::runner {
+namespace {
+
+namespace fs = std::filesystem;
+using testing::ReadFile;
+using testing::ScratchDir;
+using testing::SmallRunFolder;
+using tinyxml2::XMLElement;
+
+// Every element below `root` (itself included), depth first.
+void Walk(const XMLElement* root, const std::function<void(const XMLElement*)>& visit) {
+  visit(root);
+  for (const XMLElement* child = root->FirstChildElement(); child != nullptr;
+       child = child->NextSiblingElement()) {
+    Walk(child, visit);
+  }
+}
+
+std::size_t Count(const std::string& text, const std::string& needle) {
+  std::size_t n = 0;
+  for (auto at = text.find(needle); at != std::string::npos; at = text.find(needle, at + 1)) ++n;
+  return n;
+}
+
+std::vector<const XMLElement*> Elements(const XMLElement* root, const char* name) {
+  std::vector<const XMLElement*> found;
+  Walk(root, [&](const XMLElement* e) {
+    if (std::string(e->Name()) == name) found.push_back(e);
+  });
+  return found;
+}
+
+std::string Attribute(const XMLElement* e, const char* name) {
+  const char* value = e->Attribute(name);
+  return value == nullptr ? "" : value;
+}
+
+// All text inside an element, its children's included.
+std::string TextOf(const XMLElement* e) {
+  std::string text;
+  for (const tinyxml2::XMLNode* n = e->FirstChild(); n != nullptr; n = n->NextSibling()) {
+    if (n->ToText() != nullptr) text += n->Value();
+    if (n->ToElement() != nullptr) text += TextOf(n->ToElement());
+  }
+  return text;
+}
+
+// The number of points an SVG path visits: its numbers in pairs. The report separates numbers by
+// a space or by the minus sign that starts one.
+std::size_t PathPoints(const std::string& d) {
+  std::size_t numbers = 0;
+  bool in_number = false;
+  for (const char c : d) {
+    if (c == '-') {
+      ++numbers;
+      in_number = true;
+    } else if (std::isdigit(static_cast<unsigned char>(c)) || c == '.') {
+      if (!in_number) ++numbers;
+      in_number = true;
+    } else {
+      in_number = false;
+    }
+  }
+  return numbers / 2;
+}
+
+struct Report {
+  ReportOutcome outcome;
+  std::string html;
+  tinyxml2::XMLDocument doc;
+};
+
+void MakeAndParse(const fs::path& dir, const ReportOptions& options, Report* report) {
+  report->outcome = MakeReport(dir.string(), options);
+  ASSERT_EQ(report->outcome.status, ReportStatus::kWritten) << report->outcome.message;
+  report->html = ReadFile(report->outcome.path);
+  ASSERT_EQ(report->doc.Parse(report->html.c_str(), report->html.size()), tinyxml2::XML_SUCCESS)
+      << report->doc.ErrorStr();
+}
+
+const XMLElement* PlotOf(const XMLElement* root, const std::string& kind) {
+  for (const XMLElement* svg : Elements(root, "svg")) {
+    if (Attribute(svg, "data-plot") == kind) return svg;
+  }
+  return nullptr;
+}
+
+TEST(Report, IsWellFormedWithOnePlotPerScenarioAndSignal) {
+  const auto& run = SmallRunFolder();
+  Report report;
+  MakeAndParse(run.dir, {}, &report);
+  const XMLElement* html = report.doc.RootElement();
+  ASSERT_NE(html, nullptr);
+  EXPECT_STREQ(html->Name(), "html");
+  ASSERT_NE(html->FirstChildElement("head"), nullptr);
+  ASSERT_NE(html->FirstChildElement("body"), nullptr);
+
+  std::map<std::string, int> plots;
+  std::map<std::string, int> charts;
+  for (const XMLElement* svg : Elements(html, "svg")) {
+    if (!Attribute(svg, "data-plot").empty()) {
+      ++plots[Attribute(svg, "data-scenario") + "/" + Attribute(svg, "data-plot")];
+    }
+    if (!Attribute(svg, "data-chart").empty()) ++charts[Attribute(svg, "data-chart")];
+  }
+  const std::map<std::string, int> expected = {{"shove/drift", 1},
+                                               {"shove/position", 1},
+                                               {"shove/slip", 1},
+                                               {"shove/tilt", 1},
+                                               {"shove/torque", 1}};
+  EXPECT_EQ(plots, expected);
+  // The run had the linear twin: one gap chart for its one scenario, and nothing else.
+  EXPECT_EQ(charts, (std::map<std::string, int>{{"gap", 1}}));
+}
+
+TEST(Report, TiltPlotShowsLinesTwinsEventsTheFallAxesAndLegend) {
+  const auto& run = SmallRunFolder();
+  ASSERT_EQ(run.batch.runs.size(), 4u);
+  // lqr seed 1, the plotted seed, falls under this shove; pid survives it.
+  const RunResult& lqr = run.batch.runs[0];
+  ASSERT_EQ(lqr.controller, "lqr");
+  ASSERT_EQ(lqr.seed, 1u);
+  ASSERT_EQ(lqr.metrics.status, RunStatus::kFell) << lqr.metrics.message;
+  ASSERT_EQ(run.batch.runs[2].metrics.status, RunStatus::kOk) << run.batch.runs[2].metrics.message;
+
+  Report report;
+  MakeAndParse(run.dir, {}, &report);
+  const XMLElement* tilt = PlotOf(report.doc.RootElement(), "tilt");
+  ASSERT_NE(tilt, nullptr);
+
+  // Two controllers, each with its linear twin drawn dotted.
+  int lines = 0, twins = 0;
+  for (const XMLElement* path : Elements(tilt, "path")) {
+    if (Attribute(path, "stroke-width") == "1.6") ++lines;
+    if (Attribute(path, "stroke-dasharray") == report::kTwinDash) ++twins;
+  }
+  EXPECT_EQ(lines, 2);
+  EXPECT_EQ(twins, 2);
+  // The drift plot has no twin.
+  for (const XMLElement* path : Elements(PlotOf(report.doc.RootElement(), "drift"), "path")) {
+    EXPECT_NE(Attribute(path, "stroke-dasharray"), report::kTwinDash);
+  }
+
+  // The events, once each, from the run that went on: the push and the drive (whose label holds
+  // a comma, quoted in the trace CSV). The drive is not taken from lqr's last row.
+  std::vector<std::string> events;
+  for (const XMLElement* g : Elements(tilt, "g")) {
+    if (Attribute(g, "class") == "event") events.push_back(TextOf(g->FirstChildElement("title")));
+  }
+  ASSERT_EQ(events.size(), 2u);
+  EXPECT_EQ(events[0], "push 250 N half-sine 0.3 s");
+  EXPECT_EQ(events[1].rfind("drive 0.2 m/s, 0 deg/s", 0), 0u) << events[1];
+  EXPECT_NE(report.html.find("<strong>E2</strong> 2.00 s drive"), std::string::npos);
+
+  // The fall: one mark, at lqr's fall time as the summary gives it.
+  std::vector<std::string> marks;
+  for (const XMLElement* g : Elements(tilt, "g")) {
+    if (Attribute(g, "class") == "mark") marks.push_back(TextOf(g));
+  }
+  ASSERT_EQ(marks.size(), 1u);
+  EXPECT_EQ(marks[0], "lqr fell at " + report::FormatFixed(lqr.metrics.fall_time_s, 3) + " s");
+
+  // Axes with units and ticks, and the legend naming both controllers and the twin.
+  std::vector<std::string> texts;
+  for (const XMLElement* t : Elements(tilt, "text")) texts.push_back(TextOf(t));
+  const auto has = [&](const std::string& s) {
+    return std::find(texts.begin(), texts.end(), s) != texts.end();
+  };
+  EXPECT_TRUE(has("time (s)"));
+  EXPECT_TRUE(has("tilt, pitch (deg)"));
+  EXPECT_TRUE(has("0"));
+  EXPECT_TRUE(has("lqr"));
+  EXPECT_TRUE(has("pid"));
+  EXPECT_TRUE(has("linear twin (dotted, the controller's colour)"));
+  EXPECT_NE(report.html.find("Traces of seed 1 "), std::string::npos);
+}
+
+TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
+  const auto& run = SmallRunFolder();
+  Report report;
+  MakeAndParse(run.dir, {}, &report);
+  const std::string& html = report.html;
+  EXPECT_NE(html.find(report::kCaution), std::string::npos);
+  EXPECT_NE(html.find("upright test"), std::string::npos);  // the batch's tool version
+  // The robot file's digest as the manifest recorded it, and as the file has it.
+  std::string error;
+  const std::string model_sha =
+      Sha256OfFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml", &error);
+  ASSERT_EQ(run.batch.scenarios[0].model_sha256, model_sha) << error;
+  EXPECT_NE(html.find(model_sha), std::string::npos);
+
+  // Every better and worse verdict of compare.csv shows with its symbol and word.
+  CsvTable compare;
+  ASSERT_TRUE(ReadCsvFile((run.dir / "compare.csv").string(), &compare, &error)) << error;
+  const int verdict = compare.Column("verdict");
+  std::size_t better = 0, worse = 0;
+  for (const auto& row : compare.rows) {
+    better += row[verdict] == "better";
+    worse += row[verdict] == "worse";
+  }
+  ASSERT_GT(better + worse, 0u);
+  const auto count = [&](const std::string& needle) { return Count(html, needle); };
+  EXPECT_EQ(count("▲ better"), better + 1);  // and once in the table's caption
+  EXPECT_EQ(count("▼ worse"), worse + 1);
+  // The summary: one row per run, the fall shown with a symbol and a word.
+  EXPECT_EQ(count("✘ fell"),
+            static_cast<std::size_t>(std::count_if(
+                run.batch.runs.begin(), run.batch.runs.end(),
+                [](const RunResult& r) { return r.metrics.status == RunStatus::kFell; })));
+}
+
+TEST(Report, ReferencesNothingOutsideAndStaysSmall) {
+  const auto& run = SmallRunFolder();
+  Report report;
+  MakeAndParse(run.dir, {}, &report);
+  const std::string& html = report.html;
+  for (const char* needle : {"http://", "https://", "<script", "<link", "<img", "<iframe",
+                             "<object", "<embed", "url(", "@import"}) {
+    EXPECT_EQ(html.find(needle), std::string::npos) << needle;
+  }
+  Walk(report.doc.RootElement(), [](const XMLElement* e) {
+    EXPECT_EQ(e->Attribute("src"), nullptr) << e->Name();
+    const char* href = e->Attribute("href");
+    if (href != nullptr) {
+      EXPECT_EQ(href[0], '#') << href;
+    }
+  });
+  std::printf("report of the small run: %zu bytes\n", report.outcome.bytes);
+  EXPECT_EQ(report.outcome.bytes, html.size());
+  EXPECT_LT(report.outcome.bytes, 2u * 1000 * 1000);
+}
+
+TEST(Report, SameResultsGiveTheSameBytes) {
+  const auto& run = SmallRunFolder();
+  Report first, second;
+  MakeAndParse(run.dir, {}, &first);
+  MakeAndParse(run.dir, {}, &second);
+  EXPECT_EQ(first.html, second.html);
+  // Nor does the place of the folder matter: a copy elsewhere under the same name.
+  const fs::path copy = ScratchDir("report-copy") / run.dir.filename();
+  fs::copy(run.dir, copy, fs::copy_options::recursive);
+  Report moved;
+  MakeAndParse(copy, {}, &moved);
+  EXPECT_EQ(moved.html, first.html);
+}
+
+TEST(Report, PlotsAreThinnedToTheirBound) {
+  const auto& run = SmallRunFolder();
+  ReportOptions options;
+  options.max_points = 40;
+  Report report;
+  MakeAndParse(run.dir, options, &report);
+  std::size_t series = 0;
+  for (const XMLElement* svg : Elements(report.doc.RootElement(), "svg")) {
+    if (Attribute(svg, "data-plot").empty()) continue;
+    for (const XMLElement* path : Elements(svg, "path")) {
+      // Lines are 1.6 wide, the twins 1.2; the fall crosses 2.2.
+      const std::string width = Attribute(path, "stroke-width");
+      if (width != "1.6" && width != "1.2") continue;
+      ++series;
+      EXPECT_LE(PathPoints(Attribute(path, "d")), 42u) << Attribute(path, "d");
+    }
+  }
+  // 5 plots × 2 controllers, plus the twins on tilt and position.
+  EXPECT_EQ(series, 14u);
+  // The trace has 126 rows (2.5 s at 50 Hz); the default bound draws every one of pid's.
+  Report full;
+  MakeAndParse(run.dir, {}, &full);
+  const XMLElement* tilt = PlotOf(full.doc.RootElement(), "tilt");
+  std::size_t most = 0;
+  for (const XMLElement* path : Elements(tilt, "path")) {
+    if (Attribute(path, "stroke-width") == "1.6")
+      most = std::max(most, PathPoints(Attribute(path, "d")));
+  }
+  EXPECT_GT(most, 100u);
+  EXPECT_LE(most, 126u);
+}
+
+TEST(Report, AFolderWithoutResultsIsRefusedNamingWhatWasLookedFor) {
+  const auto dir = ScratchDir("report-empty");
+  fs::create_directories(dir / "sub" / "traces");
+  const ReportOutcome outcome = MakeReport(dir.string());
+  EXPECT_EQ(outcome.status, ReportStatus::kNoResults);
+  for (const char* name : {"summary.csv", "envelope.csv", "sweep.csv"}) {
+    EXPECT_NE(outcome.message.find(name), std::string::npos) << outcome.message;
+  }
+  EXPECT_FALSE(fs::exists(dir / kReportFileName));
+  std::string path, error;
+  EXPECT_FALSE(WriteReport(dir.string(), &path, &error));
+  EXPECT_EQ(error, outcome.message);
+}
+
+TEST(Report, AMalformedTableIsRefusedWithItsLine) {
+  const auto dir = ScratchDir("report-bad");
+  std::ofstream(dir / "summary.csv") << "scenario,controller,seed,status\ns,lqr,1,\"ok\n";
+  const ReportOutcome outcome = MakeReport(dir.string());
+  EXPECT_EQ(outcome.status, ReportStatus::kBadInput);
+  EXPECT_EQ(outcome.message, (dir / "summary.csv").string() +
+                                 ":2: a quoted field is never closed (expected a closing '\"')");
+  EXPECT_FALSE(fs::exists(dir / kReportFileName));
+}
+
+TEST(Report, OptionsAreChecked) {
+  ReportOptions options;
+  options.max_points = 3;
+  std::string error;
+  EXPECT_FALSE(options.IsValid(&error));
+  EXPECT_EQ(error, "ReportOptions::max_points = 3, must be >= 4");
+  EXPECT_EQ(MakeReport(SmallRunFolder().dir.string(), options).status, ReportStatus::kBadInput);
+}
+
+struct Outcome {
+  int code = -1;
+  std::string out;  // stdout and stderr together
+};
+
+Outcome RunUpright(const std::string& arguments) {
+  Outcome outcome;
+  const std::string command = std::string(UPRIGHT_EXE) + " " + arguments + " 2>&1";
+  FILE* pipe = popen(command.c_str(), "r");
+  if (pipe == nullptr) return outcome;
+  char buffer[4096];
+  for (std::size_t n; (n = fread(buffer, 1, sizeof buffer, pipe)) > 0;)
+    outcome.out.append(buffer, n);
+  const int status = pclose(pipe);
+  outcome.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+  return outcome;
+}
+
+TEST(ReportCommand, ExitsTwoWhenThereIsNothingToReport) {
+  const auto dir = ScratchDir("report-cli-empty");
+  const Outcome o = RunUpright("report " + dir.string());
+  EXPECT_EQ(o.code, 2) << o.out;
+  EXPECT_NE(o.out.find("no results found (looked for summary.csv"), std::string::npos) << o.out;
+}
+
+// A folder holding an envelope folder and a sweep folder, as `upright demo` leaves them beside
+// its own tables: one report over both, its sweep intervals agreeing with sweep.md's.
+TEST(ReportCommand, ReportsEnvelopeAndSweepFoldersInsideAFolder) {
+  const auto dir = ScratchDir("report-cli-nested");
+  const std::string scenario =
+      std::string(UPRIGHT_SOURCE_DIR) + "/scenarios/courier-shove-half-sine.xml";
+  const Outcome envelope = RunUpright(
+      "envelope " + scenario +
+      " --vary 'timeline/push[1].peak_N' --lo 40 --hi 640 --tol 60 --vary2 "
+      "'timeline/push[1].height_m' --lo2 0.05 --hi2 0.65 --grid 2 --seeds 1 --jobs 2 --out " +
+      (dir / "envelope").string());
+  ASSERT_EQ(envelope.code, 0) << envelope.out;
+  const Outcome sweep =
+      RunUpright("sweep " + scenario + " --samples 4 --jobs 2 --out " + (dir / "sweep").string());
+  ASSERT_EQ(sweep.code, 0) << sweep.out;
+
+  const Outcome o = RunUpright("report " + dir.string());
+  ASSERT_EQ(o.code, 0) << o.out;
+  EXPECT_NE(o.out.find((dir / kReportFileName).string() + " ("), std::string::npos) << o.out;
+  EXPECT_NE(o.out.find(" kB, 2 results folder(s))"), std::string::npos) << o.out;
+
+  Report report;
+  report.html = ReadFile(dir / kReportFileName);
+  ASSERT_EQ(report.doc.Parse(report.html.c_str(), report.html.size()), tinyxml2::XML_SUCCESS)
+      << report.doc.ErrorStr();
+  std::map<std::string, int> charts;
+  for (const XMLElement* svg : Elements(report.doc.RootElement(), "svg")) {
+    EXPECT_TRUE(Attribute(svg, "data-plot").empty());
+    ++charts[Attribute(svg, "data-chart")];
+  }
+  // The scenario file's digest, from both manifests, listed once.
+  std::string error;
+  const std::string scenario_sha = Sha256OfFile(scenario, &error);
+  ASSERT_EQ(scenario_sha.size(), 64u) << error;
+  EXPECT_EQ(Count(report.html, scenario_sha), 1u);
+  // The demo shove names four controllers; one survival map each.
+  EXPECT_EQ(charts, (std::map<std::string, int>{{"envelope", 1}, {"map", 4}, {"sweep", 1}}));
+
+  // sweep.md's survival rows: "| lqr (baseline) | 3/4 | 75.0 % | 30.1 – 95.4 % |".
+  const std::string md = ReadFile(dir / "sweep" / "sweep.md");
+  const std::regex row(
+      R"(\| (\w+)(?: \(baseline\))? \| (\d+)/(\d+) \| [^|]+\| ([0-9.]+) – ([0-9.]+) % \|)");
+  int rows = 0;
+  for (std::sregex_iterator it(md.begin(), md.end(), row), end; it != end; ++it) {
+    const std::smatch& m = *it;
+    ++rows;
+    const std::string k = m[2], n = m[3];
+    const std::size_t at = report.html.find(k + " of " + n + " survived: ");
+    ASSERT_NE(at, std::string::npos) << m[0];
+    // The report writes the bounds to 0.1 %; sweep.md to 3 significant digits.
+    const std::string tail = report.html.substr(at, 80);
+    const std::smatch bounds = [&] {
+      std::smatch b;
+      std::regex_search(tail, b, std::regex(R"(interval ([0-9.]+)–([0-9.]+) %)"));
+      return b;
+    }();
+    ASSERT_EQ(bounds.size(), 3u) << tail;
+    EXPECT_NEAR(std::stod(bounds[1]), std::stod(m[4]), 0.051) << m[0];
+    EXPECT_NEAR(std::stod(bounds[2]), std::stod(m[5]), 0.051) << m[0];
+  }
+  EXPECT_EQ(rows, 4);
+}
+
+}  // namespace
+}  // namespace upright::runner
