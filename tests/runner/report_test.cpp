@@ -332,22 +332,10 @@ TEST(Report, OptionsAreChecked) {
   EXPECT_EQ(MakeReport(SmallRunFolder().dir.string(), options).status, ReportStatus::kBadInput);
 }
 
-struct Outcome {
-  int code = -1;
-  std::string out;  // stdout and stderr together
-};
+using Outcome = testing::ProgramOutcome;
 
 Outcome RunUpright(const std::string& arguments) {
-  Outcome outcome;
-  const std::string command = std::string(UPRIGHT_EXE) + " " + arguments + " 2>&1";
-  FILE* pipe = popen(command.c_str(), "r");
-  if (pipe == nullptr) return outcome;
-  char buffer[4096];
-  for (std::size_t n; (n = fread(buffer, 1, sizeof buffer, pipe)) > 0;)
-    outcome.out.append(buffer, n);
-  const int status = pclose(pipe);
-  outcome.code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return outcome;
+  return testing::RunProgram(UPRIGHT_EXE, arguments);
 }
 
 TEST(ReportCommand, ExitsTwoWhenThereIsNothingToReport) {

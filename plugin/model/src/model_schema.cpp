@@ -3,6 +3,8 @@
 #include <charconv>
 #include <cmath>
 
+#include "upright/model/number_text.hpp"
+
 namespace upright::internal {
 namespace {
 
@@ -498,7 +500,7 @@ constexpr FieldRule kFieldRules[] = {
 
 using Message = std::optional<std::string>;
 
-std::string F(double value) { return FormatNumber(value); }
+std::string F(double value) { return NumberText(value); }
 
 // Rules that place things inside the outline wait until the outline itself is right, so that one
 // slip gives one message.
@@ -635,7 +637,7 @@ constexpr CrossRule kCrossRules[] = {
 std::string LimitText(const Limit& limit, bool lower) {
   std::string text(lower ? (limit.bound == Bound::kOpen ? "> " : ">= ")
                          : (limit.bound == Bound::kOpen ? "< " : "<= "));
-  return text + FormatNumber(limit.value);
+  return text + NumberText(limit.value);
 }
 
 // "(0, 1]", "> 0", "<= 3", or "" when neither bound is set.
@@ -644,9 +646,9 @@ std::string BoundsText(const FieldRule& rule) {
   const bool has_max = rule.max.bound != Bound::kNone;
   if (has_min && has_max) {
     std::string text(rule.min.bound == Bound::kOpen ? "(" : "[");
-    text += FormatNumber(rule.min.value);
+    text += NumberText(rule.min.value);
     text += ", ";
-    text += FormatNumber(rule.max.value);
+    text += NumberText(rule.max.value);
     text += rule.max.bound == Bound::kOpen ? ")" : "]";
     return text;
   }
@@ -682,7 +684,7 @@ const ElementRule* FindElementRule(std::string_view path) {
 
 std::optional<std::string> CheckField(const FieldRule& rule, double value) {
   const std::string lead = std::string(rule.element) + " " + std::string(rule.attribute) + " = " +
-                           FormatNumber(value) + ": ";
+                           NumberText(value) + ": ";
   const bool in_bounds = Keeps(rule.min, value, true) && Keeps(rule.max, value, false);
   if (!in_bounds) {
     const bool two_sided = rule.min.bound != Bound::kNone && rule.max.bound != Bound::kNone;
@@ -696,16 +698,6 @@ std::string RangeText(const FieldRule& rule) {
   std::string text = BoundsText(rule);
   if (rule.whole) text = text.empty() ? "whole" : "whole, " + text;
   return text.empty() ? "any" : text;
-}
-
-std::string FormatNumber(double value) {
-  char buffer[32];
-  // Whole numbers in plain digits (100000, not 1e+05); others in the shortest exact form.
-  const bool whole = value == std::floor(value) && std::abs(value) < 1e15;
-  const auto [end, status] =
-      whole ? std::to_chars(buffer, buffer + sizeof buffer, static_cast<long long>(value))
-            : std::to_chars(buffer, buffer + sizeof buffer, value);
-  return status == std::errc{} ? std::string(buffer, end) : std::string("?");
 }
 
 }  // namespace upright::internal

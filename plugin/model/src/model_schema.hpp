@@ -87,7 +87,5 @@ std::optional<std::string> CheckField(const FieldRule& rule, double value);
 // The allowed values as the documentation shows them: "> 0", "(0, 1]", "whole, >= 1", "any".
 std::string RangeText(const FieldRule& rule);
 
-// Shortest text that reads back as the same double: 0.25, -3, 1e-05.
-std::string FormatNumber(double value);
 
 }  // namespace upright::internal

@@ -1,6 +1,7 @@
 #include <string>
 
 #include "model_schema.hpp"
+#include "upright/model/number_text.hpp"
 #include "upright/model/model_file.hpp"
 
 namespace upright {
@@ -27,7 +28,7 @@ std::string OccursText(const internal::ElementRule& rule) {
 std::string DefaultText(const internal::FieldRule& rule) {
   if (!rule.default_text.empty()) return std::string(rule.default_text);
   if (rule.required) return "required";
-  return internal::FormatNumber(rule.default_value);
+  return NumberText(rule.default_value);
 }
 
 }  // namespace

@@ -7,6 +7,8 @@
 #include <filesystem>
 #include <system_error>
 
+#include "upright/model/number_text.hpp"
+
 namespace upright::runner::internal {
 
 void ReadContext::Error(const XmlElement& element, const std::string& message) const {
@@ -53,15 +55,7 @@ bool OptionalBool(XmlElement& element, std::string_view attribute, bool fallback
   return *choice == 1;
 }
 
-std::string Num(double value) {
-  char buffer[32];
-  // Whole numbers in plain digits (100000, not 1e+05); others in the shortest exact form.
-  const bool whole = value == std::floor(value) && std::abs(value) < 1e15;
-  const auto [end, status] =
-      whole ? std::to_chars(buffer, buffer + sizeof buffer, static_cast<long long>(value))
-            : std::to_chars(buffer, buffer + sizeof buffer, value);
-  return status == std::errc{} ? std::string(buffer, end) : std::string("?");
-}
+std::string Num(double value) { return NumberText(value); }
 
 std::string Approx(double value) {
   char buffer[32];
