@@ -29,13 +29,13 @@ std::string Format(const char* format, double a, double b = 0) {
 }
 
 // The readings the metrics take after a step; no allocation.
-StepSample Sample(const sim::Plant& plant, double equilibrium_pitch_rad, double drift_m) {
+StepSample Sample(const sim::Plant& plant, double tilt_rad, double drift_m) {
   const sim::TrueState& s = plant.truth();
   const sim::MotorState& m = plant.motors();
   const sim::ContactState& c = plant.contact();
   StepSample out;
   out.time_s = s.time_s;
-  out.tilt_rad = s.pitch_rad - equilibrium_pitch_rad;
+  out.tilt_rad = tilt_rad;
   out.drift_m = drift_m;
   for (int i = 0; i < 2; ++i) {
     out.torque_Nm[i] = m[i].wheel_torque_Nm;
@@ -227,9 +227,11 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
 
   RunStatus status = RunStatus::kOk;
   std::string message;
+  const bool drives_payload =
+      scenario.built_model().payload.present && !scenario.payload_shifts.empty();
   for (long step = 0; step < total_steps; ++step) {
-    timeline.Advance(plant->step_count());
-    if (scenario.built_model().payload.present && !scenario.payload_shifts.empty()) {
+    timeline.Advance(step);
+    if (drives_payload) {
       plant->SetPayloadTarget(timeline.payload_target_m());
     }
     if (!host->Tick(*plant, timeline.reference())) {
@@ -245,14 +247,12 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
       break;
     }
     const double drift_m = drift();
-    recorder.Add(Sample(*plant, equilibrium_pitch_rad, drift_m));
-    if (options.linear_twin) {
-      plant_series.Add(plant->truth().pitch_rad - equilibrium_pitch_rad, drift_m);
-    }
+    const double tilt_rad = plant->truth().pitch_rad - equilibrium_pitch_rad;
+    recorder.Add(Sample(*plant, tilt_rad, drift_m));
+    if (options.linear_twin) plant_series.Add(tilt_rad, drift_m);
     if (trace_every > 0 && plant->step_count() % trace_every == 0) {
       result.trace.rows.push_back(Row(*plant, *host, timeline, drift_m));
     }
-    const double tilt_rad = plant->truth().pitch_rad - equilibrium_pitch_rad;
     const bool on_ground = plant->contact().chassis_on_ground;
     if (on_ground || std::abs(tilt_rad) > fall_tilt_rad) {
       status = RunStatus::kFell;

@@ -31,16 +31,18 @@ Timeline::Timeline(const Scenario& scenario) : scenario_(scenario) {
   payload_base_m_ = robot.payload.present ? robot.payload.x_m : 0.0;
   payload_target_m_ = payload_base_m_;
   path_x_m_ = scenario.initial.x_m;
+  for (const auto& d : scenario.drives) {
+    drive_steps_.push_back(sim::FirstStepAtOrAfter(d.start_s, scenario.dt_s));
+  }
+  for (const auto& p : scenario.payload_shifts) {
+    shift_steps_.push_back(sim::FirstStepAtOrAfter(p.start_s, scenario.dt_s));
+  }
 }
 
 void Timeline::Advance(long step) {
   const auto& drives = scenario_.drives;
-  const double dt_s = scenario_.dt_s;
-  const double time_s = static_cast<double>(step) * dt_s;
-  const auto started = [&](double start_s) {
-    return sim::FirstStepAtOrAfter(start_s, dt_s) <= step;
-  };
-  while (next_drive_ < drives.size() && started(drives[next_drive_].start_s)) {
+  const double time_s = static_cast<double>(step) * scenario_.dt_s;
+  while (next_drive_ < drives.size() && drive_steps_[next_drive_] <= step) {
     const DriveChange& d = drives[next_drive_++];
     from_speed_ = reference_.forward_speed_m_s;
     from_yaw_rate_ = reference_.yaw_rate_rad_s;
@@ -54,12 +56,14 @@ void Timeline::Advance(long step) {
     reference_.forward_speed_m_s = from_speed_ + f * (to_speed_ - from_speed_);
     reference_.yaw_rate_rad_s = from_yaw_rate_ + f * (to_yaw_rate_ - from_yaw_rate_);
   }
-  if (!scenario_.payload_shifts.empty()) {
+  if (!shift_steps_.empty()) {
     double target = payload_base_m_;
     payload_moving_ = false;
-    for (const PayloadShift& p : scenario_.payload_shifts) {
-      const double f =
-          started(p.start_s) ? Ramp(std::max(time_s, p.start_s), p.start_s, p.duration_s) : 0.0;
+    for (std::size_t i = 0; i < shift_steps_.size(); ++i) {
+      const PayloadShift& p = scenario_.payload_shifts[i];
+      const double f = shift_steps_[i] <= step
+                           ? Ramp(std::max(time_s, p.start_s), p.start_s, p.duration_s)
+                           : 0.0;
       target += f * p.distance_m;
       payload_moving_ = payload_moving_ || (f > 0 && f < 1);
     }

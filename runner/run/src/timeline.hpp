@@ -42,6 +42,8 @@ class Timeline {
 
  private:
   const Scenario& scenario_;
+  // The step each drive change and payload shift starts on (sim::FirstStepAtOrAfter), found once.
+  std::vector<long> drive_steps_, shift_steps_;
   std::size_t next_drive_ = 0;
   double ramp_start_s_ = 0, ramp_s_ = 0;
   double from_speed_ = 0, from_yaw_rate_ = 0, to_speed_ = 0, to_yaw_rate_ = 0;
