@@ -71,7 +71,13 @@ double GroundData::FrictionAt(double x_m, double body_friction) const {
 
 World::World(double dt_s, int solver_iterations) : dt_s_(dt_s) {
   InitBulletGlobals();
-  config_ = std::make_unique<btDefaultCollisionConfiguration>();
+  // Small object pools: one robot meets one ground in a handful of manifolds, and a pool that
+  // runs out falls back to the heap (checked: pools of 2 carry 23 manifolds). Bullet's defaults
+  // (4096 of each) cost a 7 MB allocation and its clearing on every world: 90 % of building one.
+  btDefaultCollisionConstructionInfo pools;
+  pools.m_defaultMaxPersistentManifoldPoolSize = 64;
+  pools.m_defaultMaxCollisionAlgorithmPoolSize = 64;
+  config_ = std::make_unique<btDefaultCollisionConfiguration>(pools);
   dispatcher_ = std::make_unique<btCollisionDispatcher>(config_.get());
   broadphase_ = std::make_unique<btDbvtBroadphase>();
   solver_ = std::make_unique<btMultiBodyConstraintSolver>();
