@@ -198,8 +198,10 @@ class PlantImpl {
     const double t0 = static_cast<double>(step_) * options_.dt_s, t1 = t0 + options_.dt_s;
     btVector3 force(0, 0, 0), torque(0, 0, 0);
     const btTransform& base = robot_.body->getBaseWorldTransform();
+    bool acting = false;
     for (const Push& p : pushes_) {
       if (t1 <= p.start_s || t0 >= p.end_s()) continue;
+      acting = true;
       const double f = p.MeanForce(t0, t1);
       const double azimuth = p.direction_deg * kPi / 180;
       const btVector3 f_world = f * btVector3(std::cos(azimuth), std::sin(azimuth), 0);
@@ -208,6 +210,7 @@ class PlantImpl {
       force += f_world;
       torque += arm.cross(f_world);
     }
+    if (!acting) return;
     robot_.body->addBaseForce(force);
     robot_.body->addBaseTorque(torque);
   }
@@ -233,17 +236,21 @@ class PlantImpl {
     s.x_m = axle.x();
     s.y_m = axle.y();
     s.z_m = axle.z();
-    // Z-Y-X Euler angles: R = Rz(yaw) Ry(pitch) Rx(roll).
+    // Z-Y-X Euler angles: R = Rz(yaw) Ry(pitch) Rx(roll). The sines and cosines of the angles
+    // come from R itself (|pitch| < 90° while the robot is up): no trigonometric call per step
+    // beyond the three angles.
     s.pitch_rad = std::asin(std::clamp(-R[2][0], -1.0, 1.0));
     s.yaw_rad = std::atan2(R[1][0], R[0][0]);
     s.roll_rad = std::atan2(R[2][1], R[2][2]);
     const btVector3 wb = R.transpose() * w;  // body-frame rates
-    const double cr = std::cos(s.roll_rad), sr = std::sin(s.roll_rad);
-    const double cp = std::cos(s.pitch_rad);
+    const double cp = std::sqrt(R[2][1] * R[2][1] + R[2][2] * R[2][2]);  // cos pitch
+    const double cp_yaw = std::sqrt(R[0][0] * R[0][0] + R[1][0] * R[1][0]);  // cos pitch too
+    const double cr = R[2][2] / cp, sr = R[2][1] / cp;
+    const double cy = R[0][0] / cp_yaw, sy = R[1][0] / cp_yaw;
     s.pitch_rate_rad_s = cr * wb.y() - sr * wb.z();
     s.yaw_rate_rad_s = (sr * wb.y() + cr * wb.z()) / cp;
-    s.roll_rate_rad_s = wb.x() + std::tan(s.pitch_rad) * (sr * wb.y() + cr * wb.z());
-    s.forward_speed_m_s = axle_vel.dot(btVector3(std::cos(s.yaw_rad), std::sin(s.yaw_rad), 0));
+    s.roll_rate_rad_s = wb.x() - R[2][0] / cp * (sr * wb.y() + cr * wb.z());
+    s.forward_speed_m_s = axle_vel.dot(btVector3(cy, sy, 0));
     s.vertical_speed_m_s = axle_vel.z();
     for (int i : {kLeftWheelLink, kRightWheelLink}) {
       const auto side = static_cast<size_t>(i);
