@@ -12,7 +12,7 @@
 #include "kit/module_adapter.hpp"
 #include "kit/state_estimator.hpp"
 #include "kit/state_feedback.hpp"
-#include "upright/design/riccati.hpp"
+#include "upright/design/lqg_filter.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/conventions.hpp"
@@ -26,44 +26,8 @@ constexpr int kMeasurements = design::SensorLinearisation::kMeasurements;
 constexpr int kAccelRow = 4;  // LineariseSensors' accelerometer row, f_x / g
 using MeasurementVector = Eigen::Matrix<double, kMeasurements, 1>;
 
-// The process noise `upright design` assumes for its LQG (design_set.cpp; common practice): a
-// push of 5 % of the robot's weight and a pitch torque of 5 % of the body's gravity torque at
-// 10 cm, per control sample.
-design::ProcessNoise DefaultProcessNoise(const upright_robot& robot,
-                                         const design::LinearModel& plant) {
-  design::ProcessNoise noise;
-  noise.push_sigma_N = 0.05 * TotalMass(robot) * kStandardGravity_m_s2;
-  noise.torque_sigma_Nm = 0.05 * plant.body.mass_kg * kStandardGravity_m_s2 * 0.1;
-  return noise;
-}
-
-// The filter's sensors: LineariseSensors', with the accelerometer's variance widened by the
-// disturbances it feels directly. f_x / g holds (ẍ + h θ̈) / g, into which this sample's push
-// and pitch torque w enter at once, y = C x + D u + F w; a filter for y = C x + D u + v does not
-// see that term, so its variance F Σ_w Fᵀ joins the row's (neglecting its correlation with the
-// process noise). Without it the filter trusts the model's acceleration, and any force the model
-// lacks (rolling resistance, wheel friction) pulls its pitch estimate into a friction limit cycle
-// at about 1 Hz: RMS pitch 0.81° on the courier robot without this, 0.46° with it.
-design::SensorLinearisation FilterSensors(const RobotModel& robot, const design::LinearModel& plant,
-                                          const design::ProcessNoise& noise) {
-  design::SensorLinearisation s = design::LineariseSensors(robot, plant);
-  const double h = robot.sensors.imu_z_m;
-  const Eigen::RowVector2d F =
-      (plant.E.row(design::kXDot) + h * plant.E.row(design::kPitchRate)) / kStandardGravity_m_s2;
-  const Eigen::Vector2d variance(noise.push_sigma_N * noise.push_sigma_N,
-                                 noise.torque_sigma_Nm * noise.torque_sigma_Nm);
-  s.Rv(kAccelRow, kAccelRow) += F * variance.asDiagonal() * F.transpose();
-  return s;
-}
-
-// The yaw torque disturbance per control sample: 5 % of the robot's weight at half the track, by
-// analogy with the default push and pitch torque (a tuning default; common practice).
-double YawTorqueSigma(const upright_robot& robot) {
-  return 0.05 * TotalMass(robot) * kStandardGravity_m_s2 * robot.track_m / 2;
-}
-
-// The filter at the module's rate: x⁺ = Ad x + Bd u (+ noise), y = C x + D u (+ noise), and its
-// steady-state measurement-update gain L.
+// The filter at the module's rate (design::DesignLqgFilter, the one `upright design` analyses):
+// x⁺ = Ad x + Bd u (+ noise), y = C x + D u (+ noise), and its steady-state update gain L.
 struct Filter {
   Eigen::Matrix<double, kStates, kStates> Ad;
   Eigen::Matrix<double, kStates, kInputs> Bd;
@@ -73,41 +37,20 @@ struct Filter {
 };
 
 Filter DesignFilter(const ModuleContext& context, const design::LinearModel& plant) {
-  const design::ProcessNoise noise = DefaultProcessNoise(context.robot_abi, plant);
-  const design::SensorLinearisation sensors = FilterSensors(context.robot, plant, noise);
-  const double T = context.period_s;
-  // Process noise: design::RobotDiscreteKalman's (the push and pitch torque of E, the floor on
-  // every state) and a yaw torque, ψ̈ = τ / J_yaw with 1 / J_yaw read off the torque model's B
-  // as B(ψ̇, right) r / (track / 2). The yaw torque keeps the heading filter listening to the
-  // encoders and gyro: without it the only yaw noise is the floor, the filter follows its model,
-  // and wheel friction the model lacks stalls the turn (the tabletop robot turned 95° of 143° in
-  // 5 s, against 137° with it).
-  design::StateVector yaw_torque = design::StateVector::Zero();
-  const double yaw_per_wheel_torque =
-      context.linear_abi.B_torque[design::kYawRate * kInputs + kRight];
-  yaw_torque(design::kYawRate) =
-      yaw_per_wheel_torque * context.robot.wheel.radius_m / (context.robot.wheel.track_m / 2);
-  Eigen::MatrixXd inputs(kStates, kInputs + design::kDisturbances + 1);
-  inputs << plant.B, plant.E, yaw_torque;
-  Eigen::MatrixXd Ad, Gd;
-  design::DiscretiseZoh(plant.A, inputs, T, &Ad, &Gd);
-  const Eigen::MatrixXd Gw = Gd.rightCols(design::kDisturbances + 1);
-  const double yaw_sigma = YawTorqueSigma(context.robot_abi);
-  const Eigen::Vector3d variance(noise.push_sigma_N * noise.push_sigma_N,
-                                 noise.torque_sigma_Nm * noise.torque_sigma_Nm,
-                                 yaw_sigma * yaw_sigma);
-  const Eigen::MatrixXd Qd = Gw * variance.asDiagonal() * Gw.transpose() +
-                             noise.floor * Eigen::MatrixXd::Identity(kStates, kStates);
-  const design::GainResult kalman = design::DiscreteKalmanGain(Ad, sensors.C, Qd, sensors.Rv);
-  if (!kalman.ok()) {
-    throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete Kalman design failed: " + kalman.message);
+  const design::LinearModel torque_plant =
+      LinearFromAbi(context.linear_abi, context.robot_abi, design::InputKind::kTorque);
+  const design::LqgFilter designed =
+      design::DesignLqgFilter(context.robot, plant, torque_plant,
+                              design::DefaultFilterNoise(context.robot, plant), context.period_s);
+  if (!designed.ok()) {
+    throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete Kalman design failed: " + designed.message);
   }
   Filter f;
-  f.Ad = Ad;
-  f.Bd = Gd.leftCols<kInputs>();
-  f.C = sensors.C;
-  f.D = sensors.D;
-  f.L = kalman.K;
+  f.Ad = designed.Ad;
+  f.Bd = designed.Bd;
+  f.C = designed.sensors.C;
+  f.D = designed.sensors.D;
+  f.L = designed.L_discrete;
   return f;
 }
 

@@ -78,6 +78,7 @@ std::string Json(const RobotModel& model, const DesignSet& d) {
   j.Matrix("C", d.lqg.sensors.C);
   j.Matrix("D", d.lqg.sensors.D);
   j.Matrix("L_discrete", d.lqg.L_discrete);
+  j.Number("estimator_fastest_1_s", d.lqg.estimator_fastest_1_s);
   j.EndObject();
 
   j.BeginObject("pid");
@@ -157,6 +158,13 @@ void PrintText(const RobotModel& model, const DesignSet& d) {
                 d.hinf.gamma / d.hinf.gamma_opt, d.hinf.gamma_opt);
   }
   PrintController("LQG (LQR on a Kalman estimate from the model's sensors)", d.lqg);
+  const double nyquist_1_s = kPi * d.request.rate_hz;
+  if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {
+    std::printf("note: the continuous estimator reaches %.4g 1/s, beyond the %.4g 1/s Nyquist rate "
+                "of %g Hz: the lqg module's sampled filter (same noise) is slower, so read these "
+                "LQG figures as those of its continuous limit\n",
+                d.lqg.estimator_fastest_1_s, nyquist_1_s, d.request.rate_hz);
+  }
   PrintController("PID cascade (tilt PD inside speed PI, yaw-rate PI)", d.pid);
   const design::PidGains& g = d.pid.gains;
   if (d.pid.ok) {

@@ -116,6 +116,27 @@ TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
   EXPECT_EQ(r.output.front(), '{');
 }
 
+TEST(Cli, DesignNotesAnEstimatorFasterThanItsSamplingOnlyThen) {
+  // The note appears exactly when the continuous estimator's fastest pole, printed in the JSON,
+  // is beyond the Nyquist rate π · rate_hz of the control rate.
+  for (const char* name : {"courier.xml", "tabletop.xml"}) {
+    const Result json = RunUpright("design --json " + Models() + name);
+    const std::string key = "\"estimator_fastest_1_s\":";
+    const auto at = json.output.find(key);
+    ASSERT_NE(at, std::string::npos) << json.output;
+    const double fastest = std::stod(json.output.substr(at + key.size()));
+    const Result text = RunUpright("design " + Models() + name);
+    const std::string rate_key = "controllers at ";
+    const auto rate_at = text.output.find(rate_key);
+    ASSERT_NE(rate_at, std::string::npos) << text.output;
+    const double rate_hz = std::stod(text.output.substr(rate_at + rate_key.size()));
+    const bool beyond = fastest > 3.141592653589793 * rate_hz;
+    EXPECT_EQ(text.output.find("note: the continuous estimator reaches") != std::string::npos,
+              beyond)
+        << name << ": fastest " << fastest << " 1/s\n" << text.output;
+  }
+}
+
 TEST(Cli, DesignWithAnInfeasibleGammaExitsOneWithTheReason) {
   const Result r = RunUpright("design --gamma 0.001 " + Models() + "courier.xml");
   EXPECT_EQ(r.exit_code, 1) << r.output;

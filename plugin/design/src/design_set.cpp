@@ -8,16 +8,6 @@
 namespace upright::design {
 namespace {
 
-// Process noise the LQG filter assumes (tuning defaults; common practice): a push disturbance of
-// 5 % of the robot's weight and a pitch torque of 5 % of the gravity torque of its COM at 10 cm,
-// per control sample.
-ProcessNoise DefaultProcessNoise(const LinearModel& plant, double total_mass_kg) {
-  ProcessNoise noise;
-  noise.push_sigma_N = 0.05 * total_mass_kg * kStandardGravity_m_s2;
-  noise.torque_sigma_Nm = 0.05 * plant.body.mass_kg * kStandardGravity_m_s2 * 0.1;
-  return noise;
-}
-
 void Finish(ControllerReport* report, const LinearModel& plant, const Measurement& meas,
             const LinearController& ctrl, const Performance& perf) {
   report->loop = AnalyseLoop(plant, meas, ctrl, perf);
@@ -102,25 +92,29 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     }
   }
 
-  // LQG: the LQR regulator on a Kalman estimate from the model's sensors.
-  set.lqg.sensors = LineariseSensors(model, plant);
-  const ProcessNoise noise = DefaultProcessNoise(plant, total_mass_kg);
-  const KalmanResult kb = RobotKalmanBucy(plant, set.lqg.sensors, noise, period_s);
-  const KalmanResult kd = RobotDiscreteKalman(plant, set.lqg.sensors, noise, period_s);
+  // LQG: the LQR regulator on the Kalman filter the lqg module runs.
+  const LinearModel torque_plant = req.input == InputKind::kTorque
+                                       ? plant
+                                       : Linearise(model, InputKind::kTorque, req.push_height_m);
+  const LqgFilter filter = DesignLqgFilter(model, plant, torque_plant,
+                                           DefaultFilterNoise(model, plant), period_s);
+  set.lqg.sensors = filter.sensors;
   if (!lqr.ok() || !lqr_d.ok()) {
     set.lqg.message = "LQG needs the LQR regulator: " + set.lqr.message;
-  } else if (!kb.ok() || !kd.ok()) {
-    set.lqg.message = kb.ok() ? kd.message : kb.message;
+  } else if (!filter.ok()) {
+    set.lqg.message = filter.message;
   } else {
     set.lqg.K = lqr.K;
     set.lqg.K_discrete = lqr_d.K;
-    set.lqg.L = kb.L;
-    set.lqg.L_discrete = kd.L;
+    set.lqg.L = filter.L;
+    set.lqg.L_discrete = filter.L_discrete;
+    set.lqg.estimator_fastest_1_s =
+        (plant.A - filter.L * filter.sensors.C).eigenvalues().cwiseAbs().maxCoeff();
     // x̂̇ = A x̂ + B u + L (y − C x̂ − D u), u = −K x̂.
     const SensorLinearisation& s = set.lqg.sensors;
     LinearController ctrl;
-    ctrl.Ac = plant.A - plant.B * lqr.K - kb.L * s.C + kb.L * s.D * lqr.K;
-    ctrl.Bc = kb.L;
+    ctrl.Ac = plant.A - plant.B * lqr.K - filter.L * s.C + filter.L * s.D * lqr.K;
+    ctrl.Bc = filter.L;
     ctrl.Cc = -lqr.K;
     ctrl.Dc = Eigen::MatrixXd::Zero(kInputs, s.C.rows());
     Finish(&set.lqg, plant, Measurement{s.C, s.D}, ctrl, perf);

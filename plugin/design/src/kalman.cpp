@@ -12,18 +12,6 @@ using Eigen::MatrixXd;
 // handbook, from memory).
 double QuantisationVariance(double step) { return step * step / 12; }
 
-// Disturbance input matrix of the push and pitch torque, and their per-sample covariance plus the
-// floor on every state.
-MatrixXd DiscreteProcessNoise(const LinearModel& plant, const ProcessNoise& noise,
-                              double period_s) {
-  MatrixXd Ad, Gd;
-  DiscretiseZoh(plant.A, plant.E, period_s, &Ad, &Gd);
-  const Eigen::Vector2d variance(noise.push_sigma_N * noise.push_sigma_N,
-                                 noise.torque_sigma_Nm * noise.torque_sigma_Nm);
-  return Gd * variance.asDiagonal() * Gd.transpose() +
-         noise.floor * MatrixXd::Identity(kStates, kStates);
-}
-
 }  // namespace
 
 SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel& plant) {
@@ -64,40 +52,6 @@ SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel&
   // A floor keeps the filter well posed for ideal sensors.
   out.Rv = variance.cwiseMax(1e-12).asDiagonal();
   return out;
-}
-
-namespace {
-
-KalmanResult FromGain(const GainResult& gain, Eigen::MatrixXd P) {
-  KalmanResult out;
-  out.failure = gain.failure;
-  out.message = gain.message;
-  if (gain.ok()) {
-    out.L = gain.K;
-    out.P = std::move(P);
-  }
-  return out;
-}
-
-}  // namespace
-
-KalmanResult RobotDiscreteKalman(const LinearModel& plant, const SensorLinearisation& sensors,
-                                 const ProcessNoise& noise, double period_s) {
-  MatrixXd Ad, Bd, P;
-  DiscretiseZoh(plant.A, plant.B, period_s, &Ad, &Bd);
-  const GainResult gain = DiscreteKalmanGain(
-      Ad, sensors.C, DiscreteProcessNoise(plant, noise, period_s), sensors.Rv, &P);
-  return FromGain(gain, P);
-}
-
-KalmanResult RobotKalmanBucy(const LinearModel& plant, const SensorLinearisation& sensors,
-                             const ProcessNoise& noise, double period_s) {
-  // Per-sample variances σ² over a period T are white-noise intensities σ² T.
-  MatrixXd P;
-  const GainResult gain =
-      KalmanBucyGain(plant.A, sensors.C, DiscreteProcessNoise(plant, noise, period_s) / period_s,
-                     sensors.Rv * period_s, &P);
-  return FromGain(gain, P);
 }
 
 }  // namespace upright::design

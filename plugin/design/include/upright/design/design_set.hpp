@@ -7,6 +7,7 @@
 
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/linear_model.hpp"
+#include "upright/design/lqg_filter.hpp"
 #include "upright/design/pid.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
@@ -40,9 +41,12 @@ struct HinfReport : ControllerReport {
 };
 
 struct LqgReport : ControllerReport {
-  SensorLinearisation sensors;
-  Eigen::MatrixXd L;           // continuous Kalman–Bucy gain (for the analysis)
-  Eigen::MatrixXd L_discrete;  // discrete measurement-update gain at the sample rate
+  SensorLinearisation sensors;  // the filter's (DesignLqgFilter: accelerometer row widened)
+  Eigen::MatrixXd L;            // continuous Kalman–Bucy gain (for the analysis)
+  Eigen::MatrixXd L_discrete;   // discrete measurement-update gain: the lqg module's
+  // The fastest continuous estimator pole, max |eig(A − L C)|. Beyond the Nyquist rate
+  // π · rate_hz the module's sampled filter cannot follow the continuous one the figures analyse.
+  double estimator_fastest_1_s = 0;
 };
 
 struct PidReport : ControllerReport {

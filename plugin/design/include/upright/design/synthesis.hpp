@@ -80,25 +80,6 @@ struct SensorLinearisation {
 };
 SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel& plant);
 
-// Steady-state Kalman filters for the robot's sensors. Process noise: the push and pitch-torque
-// disturbances with standard deviations push_sigma_N and torque_sigma_Nm per control sample
-// (held over the sample), plus a small floor on every state.
-struct ProcessNoise {
-  double push_sigma_N = 0;
-  double torque_sigma_Nm = 0;
-  double floor = 1e-8;  // so the filter never stops learning
-};
-struct KalmanResult {
-  Eigen::MatrixXd L;  // continuous: x̂̇ = A x̂ + B u + L (y − C x̂ − D u); discrete: the
-                      // measurement-update gain x̂ ← x̂⁻ + L (y − C x̂⁻ − D u)
-  Eigen::MatrixXd P;  // the error covariance (discrete: before the update)
-  SolveFailure failure = SolveFailure::kInvalidInput;
-  std::string message = "not designed";
-  bool ok() const { return failure == SolveFailure::kNone; }
-};
-KalmanResult RobotKalmanBucy(const LinearModel& plant, const SensorLinearisation& sensors,
-                             const ProcessNoise& noise, double period_s);
-KalmanResult RobotDiscreteKalman(const LinearModel& plant, const SensorLinearisation& sensors,
-                                 const ProcessNoise& noise, double period_s);
+// The filter itself, its noise and its sensors' widened accelerometer row: lqg_filter.hpp.
 
 }  // namespace upright::design

@@ -1,0 +1,76 @@
+#include "upright/design/lqg_filter.hpp"
+
+#include "upright/model/conventions.hpp"
+
+namespace upright::design {
+namespace {
+
+constexpr int kAccelRow = 4;  // LineariseSensors' accelerometer row, f_x / g
+
+}  // namespace
+
+FilterNoise DefaultFilterNoise(const RobotModel& model, const LinearModel& plant) {
+  const double total_mass_kg = model.chassis.mass_kg + 2 * model.wheel.mass_kg +
+                               (model.payload.present ? model.payload.mass_kg : 0.0);
+  FilterNoise noise;
+  noise.push_sigma_N = 0.05 * total_mass_kg * kStandardGravity_m_s2;
+  noise.torque_sigma_Nm = 0.05 * plant.body.mass_kg * kStandardGravity_m_s2 * 0.1;
+  noise.yaw_torque_sigma_Nm = 0.05 * total_mass_kg * kStandardGravity_m_s2 * model.wheel.track_m / 2;
+  return noise;
+}
+
+LqgFilter DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
+                          const LinearModel& torque_plant, const FilterNoise& noise,
+                          double period_s) {
+  LqgFilter f;
+  // The sensors, with the accelerometer's variance widened by the disturbances it feels
+  // directly. f_x / g holds (ẍ + h θ̈) / g, into which this sample's push and pitch torque w enter
+  // at once, y = C x + D u + F w; a filter for y = C x + D u + v does not see that term, so its
+  // variance F Σ_w Fᵀ joins the row's (neglecting its correlation with the process noise).
+  // Without it the filter trusts the model's acceleration, and any force the model lacks (rolling
+  // resistance, wheel friction) pulls its pitch estimate into a friction limit cycle at about
+  // 1 Hz: RMS pitch 0.81° on the courier robot without this, 0.46° with it.
+  f.sensors = LineariseSensors(model, plant);
+  const double h = model.sensors.imu_z_m;
+  const Eigen::RowVector2d F =
+      (plant.E.row(kXDot) + h * plant.E.row(kPitchRate)) / kStandardGravity_m_s2;
+  const Eigen::Vector2d w_variance(noise.push_sigma_N * noise.push_sigma_N,
+                                   noise.torque_sigma_Nm * noise.torque_sigma_Nm);
+  f.sensors.Rv(kAccelRow, kAccelRow) += F * w_variance.asDiagonal() * F.transpose();
+
+  // Process noise: the push and pitch torque of E, a yaw torque, and the floor on every state.
+  // ψ̈ = τ / J_yaw, 1 / J_yaw read off the torque model as B(ψ̇, right) r / (track / 2). The yaw
+  // torque keeps the heading filter listening to the encoders and gyro: without it the only yaw
+  // noise is the floor, the filter follows its model, and wheel friction the model lacks stalls
+  // the turn (the tabletop robot turned 95° of 143° in 5 s, against 137° with it).
+  StateVector yaw_torque = StateVector::Zero();
+  yaw_torque(kYawRate) =
+      torque_plant.B(kYawRate, kRight) * model.wheel.radius_m / (model.wheel.track_m / 2);
+  Eigen::MatrixXd inputs(kStates, kInputs + kDisturbances + 1);
+  inputs << plant.B, plant.E, yaw_torque;
+  Eigen::MatrixXd Gd;
+  DiscretiseZoh(plant.A, inputs, period_s, &f.Ad, &Gd);
+  f.Bd = Gd.leftCols<kInputs>();
+  const Eigen::MatrixXd Gw = Gd.rightCols(kDisturbances + 1);
+  const Eigen::Vector3d variance(noise.push_sigma_N * noise.push_sigma_N,
+                                 noise.torque_sigma_Nm * noise.torque_sigma_Nm,
+                                 noise.yaw_torque_sigma_Nm * noise.yaw_torque_sigma_Nm);
+  f.Qd = Gw * variance.asDiagonal() * Gw.transpose() +
+         noise.floor * Eigen::MatrixXd::Identity(kStates, kStates);
+
+  const GainResult discrete =
+      DiscreteKalmanGain(f.Ad, f.sensors.C, f.Qd, f.sensors.Rv, &f.P_discrete);
+  // Per-sample variances σ² over a period T are white-noise intensities σ² T.
+  const GainResult continuous =
+      KalmanBucyGain(plant.A, f.sensors.C, f.Qd / period_s, f.sensors.Rv * period_s);
+  const GainResult& failed = discrete.ok() ? continuous : discrete;
+  f.failure = failed.failure;
+  f.message = failed.message;
+  if (f.ok()) {
+    f.L_discrete = discrete.K;
+    f.L = continuous.K;
+  }
+  return f;
+}
+
+}  // namespace upright::design
