@@ -528,6 +528,30 @@ TEST_F(ResultsWriter, WritingTwiceGivesIdenticalTablesAndTraces) {
   EXPECT_EQ(Read(a / "summary.csv"), Read(b / "summary.csv"));
 }
 
+TEST_F(ResultsWriter, AFolderWrittenBeforeKeepsNothingOfThatBatchButOtherFiles) {
+  // First a batch with the linear twin and two traces, then one without the twin and one trace:
+  // the old gap tables and the other trace go, the user's own files stay.
+  BatchResult first = MakeBatch();
+  first.linear_twin = true;
+  first.runs[1].trace = first.runs[0].trace;  // ramp / lqr / seed 2
+  const fs::path dir = WriteInto("a", first);
+  ASSERT_TRUE(fs::is_regular_file(dir / "gap.csv"));
+  ASSERT_TRUE(fs::is_regular_file(dir / "traces" / "ramp__lqr__seed2.csv"));
+  EXPECT_NE(Read(dir / "manifest.json").find("\"linear_twin\": true"), std::string::npos);
+  std::ofstream(dir / "notes.txt") << "mine";
+  std::ofstream(dir / "traces" / "README.txt") << "mine too";
+
+  std::string error;
+  ASSERT_TRUE(WriteResults(dir.string(), MakeBatch(), &error)) << error;
+  EXPECT_FALSE(fs::exists(dir / "gap.csv"));
+  EXPECT_FALSE(fs::exists(dir / "gap.md"));
+  EXPECT_FALSE(fs::exists(dir / "traces" / "ramp__lqr__seed2.csv"));
+  EXPECT_TRUE(fs::is_regular_file(dir / "traces" / "ramp__lqr__seed1.csv"));
+  EXPECT_TRUE(fs::is_regular_file(dir / "notes.txt"));
+  EXPECT_TRUE(fs::is_regular_file(dir / "traces" / "README.txt"));
+  EXPECT_NE(Read(dir / "manifest.json").find("\"linear_twin\": false"), std::string::npos);
+}
+
 TEST_F(ResultsWriter, ManifestRecordsInputsAndRunsWithEscapedStrings) {
   BatchResult batch = MakeBatch();
   batch.scenarios[0].path = "C:\\robots\\\"ramp\"\tv1\x01\n";

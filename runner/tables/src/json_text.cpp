@@ -85,6 +85,11 @@ void JsonText::Null(std::string_view key) {
   out_ += "null";
 }
 
+void JsonText::Bool(std::string_view key, bool value) {
+  Key(key);
+  out_ += value ? "true" : "false";
+}
+
 void JsonText::Key(std::string_view key) {
   if (depth_ > 0) {
     if (!first_in_container_) out_ += ',';

@@ -11,6 +11,7 @@ std::string ManifestJson(const BatchResult& batch, const std::vector<std::string
   json.String("tool_version", batch.tool_version);
   json.Integer("jobs", batch.jobs);
   json.Number("trace_rate_hz", batch.trace_rate_hz);
+  json.Bool("linear_twin", batch.linear_twin);
   json.Number("wall_s", batch.wall_s);
   json.BeginArray("scenarios");
   for (const ScenarioInfo& info : batch.scenarios) {

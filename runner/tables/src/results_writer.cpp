@@ -5,6 +5,7 @@
 #include <filesystem>
 #include <functional>
 #include <map>
+#include <set>
 #include <utility>
 
 #include "batch_groups.hpp"
@@ -22,6 +23,34 @@ namespace {
 
 bool Write(const std::filesystem::path& path, const std::string& text, std::string* error) {
   return WriteFileAtomically(path.string(), text, error);
+}
+
+// A folder written before may hold files of that batch which this one does not write: its gap
+// tables, its traces. Left there they would pass for this batch's (the report reads what it
+// finds), so they go; anything else in the folder is not ours and stays.
+bool RemoveStaleFiles(const std::filesystem::path& root, const BatchResult& batch,
+                      const std::vector<std::string>& trace_files, std::string* error) {
+  namespace fs = std::filesystem;
+  std::vector<fs::path> stale;
+  if (!batch.linear_twin) stale = {root / "gap.csv", root / "gap.md"};
+  std::error_code ec;
+  if (fs::is_directory(root / "traces", ec)) {
+    const std::set<std::string> current(trace_files.begin(), trace_files.end());
+    for (const auto& entry : fs::directory_iterator(root / "traces", ec)) {
+      const fs::path& path = entry.path();
+      if (path.extension() == ".csv" && entry.is_regular_file(ec) &&
+          current.count("traces/" + path.filename().string()) == 0) {
+        stale.push_back(path);
+      }
+    }
+  }
+  for (const fs::path& path : stale) {
+    if (fs::remove(path, ec), ec) {
+      *error = "cannot remove " + path.string() + ", left from an earlier batch: " + ec.message();
+      return false;
+    }
+  }
+  return true;
 }
 
 }  // namespace
@@ -93,6 +122,7 @@ bool WriteResults(const std::string& dir, const BatchResult& batch, std::string*
       }
     }
   }
+  if (!RemoveStaleFiles(root, batch, trace_files, error)) return false;
   return Write(root / "manifest.json", internal::ManifestJson(batch, trace_files), error);
 }
 

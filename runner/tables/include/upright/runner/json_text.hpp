@@ -27,6 +27,7 @@ class JsonText {
   void Integer(std::string_view key, std::int64_t value);
   void Unsigned(std::string_view key, std::uint64_t value);
   void Null(std::string_view key);
+  void Bool(std::string_view key, bool value);
 
   // The document, ending in a newline once the outermost value is closed.
   const std::string& text() const { return out_; }

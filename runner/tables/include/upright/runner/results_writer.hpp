@@ -13,10 +13,12 @@ namespace upright::runner {
 
 // Writes summary.csv/.md, compare.csv/.md, ranking.csv/.md, gap.csv/.md (only when
 // batch.linear_twin), traces/<TraceFileName>.csv (runs with trace.rate_hz > 0) and, last,
-// manifest.json into `dir`, creating it and its parents. Every file but the manifest depends
-// only on the runs' contents and order, never on timing or job count: identical batches give
-// byte-identical files. False and *error (naming the path) when the folder
-// cannot be made, two traced runs map to the same trace file, or a file cannot be written.
+// manifest.json into `dir`, creating it and its parents. In a folder written before, the gap
+// tables and trace CSVs this batch does not write are removed, so none passes for its own. Every
+// file but the manifest depends only on the runs' contents and order, never on timing or job
+// count: identical batches give byte-identical files. False and *error (naming the path) when
+// the folder cannot be made, two traced runs map to the same trace file, or a file cannot be
+// written or removed.
 bool WriteResults(const std::string& dir, const BatchResult& batch, std::string* error);
 
 // The names of the files WriteResults writes at the top of `dir`, for messages and tests (a
