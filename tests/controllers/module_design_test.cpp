@@ -96,9 +96,8 @@ TEST_P(DemoRobotDesign, LqgWithTheTrueStateIsItsDiscreteRegulator) {
 TEST_P(DemoRobotDesign, LqgEstimatesWithTheFilterDesignAnalyses) {
   // Two ticks of sensor samples (no plant, no reference): the module's estimate, which its
   // diagnostics expose, must follow x̂ = x̂⁻ + L (y − C x̂⁻ − D u), x̂⁻ = Ad x̂₀ + Bd u₀, with the
-  // filter of design::DesignLqgFilter that `upright design` analyses. The module sees the robot
-  // through the C ABI, which carries no sensor resolutions: their quantisation variance,
-  // 0.02–0.08 % of the noise variance on the demo robots, is all that may part the two.
+  // filter of design::DesignLqgFilter that `upright design` analyses, to rounding: the module
+  // builds it from the robot as the C ABI carries it, sensor resolutions included.
   ASSERT_TRUE(design_.lqg.ok) << design_.lqg.message;
   const design::LinearModel& plant = design_.plant;
   const design::LqgFilter filter = design::DesignLqgFilter(
@@ -149,7 +148,7 @@ TEST_P(DemoRobotDesign, LqgEstimatesWithTheFilterDesignAnalyses) {
                            design::kYaw};
   for (int i = 0; i < 5; ++i) {
     const double want = expected(state_of[i]);
-    EXPECT_NEAR(got[i], want, 1e-3 * std::abs(want - prior(state_of[i])) + 1e-12)
+    EXPECT_NEAR(got[i], want, 1e-9 * std::abs(want - prior(state_of[i])) + 1e-12)
         << design::StateName(state_of[i]) << " (prior " << prior(state_of[i]) << ")";
   }
 }

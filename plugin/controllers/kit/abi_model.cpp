@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstddef>
 #include <sstream>
 #include <utility>
 
@@ -20,6 +21,11 @@ Matrix FromRowMajor(const double* values) {
     for (Eigen::Index j = 0; j < m.cols(); ++j) m(i, j) = values[i * m.cols() + j];
   }
   return m;
+}
+
+// Whether the host's robot struct reaches the IMU resolutions, added later in version 1.
+bool HasResolutions(const upright_robot& r) {
+  return r.struct_size >= offsetof(upright_robot, accel_resolution_m_s2) + sizeof(double);
 }
 
 template <std::size_t N>
@@ -67,6 +73,16 @@ void CheckAbiModel(const upright_robot& r, const upright_linear_model& l) {
       throw ModuleError(UPRIGHT_UNSUPPORTED, why.str());
     }
   }
+  if (HasResolutions(r)) {
+    for (const auto& [name, value] : {std::pair{"gyro_resolution_rad_s", r.gyro_resolution_rad_s},
+                                      std::pair{"accel_resolution_m_s2", r.accel_resolution_m_s2}}) {
+      if (!(value >= 0) || !std::isfinite(value)) {
+        std::ostringstream why;
+        why << "robot " << name << " = " << value << ": must be >= 0 and finite";
+        throw ModuleError(UPRIGHT_UNSUPPORTED, why.str());
+      }
+    }
+  }
   if (!AllFinite(l.A_torque) || !AllFinite(l.B_torque) || !AllFinite(l.A_voltage) ||
       !AllFinite(l.B_voltage) || !AllFinite(l.E)) {
     throw ModuleError(UPRIGHT_UNSUPPORTED, "the linear model has a non-finite entry");
@@ -106,6 +122,10 @@ RobotModel RobotFromAbi(const upright_robot& r, double control_rate_hz) {
   m.payload.present = r.payload_mass_kg > 0;
   m.payload.mass_kg = r.payload_mass_kg;
   m.payload.z_m = r.payload_z_m;
+  if (HasResolutions(r)) {
+    m.sensors.gyro_resolution_rad_s = r.gyro_resolution_rad_s;
+    m.sensors.accel_resolution_m_s2 = r.accel_resolution_m_s2;
+  }
   return m;
 }
 

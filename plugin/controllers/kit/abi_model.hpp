@@ -10,20 +10,21 @@
 namespace upright::controllers {
 
 // Throws ModuleError(UPRIGHT_UNSUPPORTED) naming the first field the designs cannot use: a
-// non-finite number anywhere, or a non-positive size, rate or motor constant.
+// non-finite number anywhere, a non-positive size, rate or motor constant, or a negative
+// resolution.
 void CheckAbiModel(const upright_robot& robot, const upright_linear_model& linear);
 
 // The robot as the design functions read it. Fields the ABI does not carry stay at their
 // defaults (zero): the chassis outline, wheel width, diameter inertia and rolling resistance,
-// motor friction, sensor biases and resolutions, payload size and travel. None of the designs
-// used here reads them, except LineariseSensors, which then assumes IMU readings without
-// quantisation (its variance floor keeps the filter well posed).
+// motor friction, sensor biases, payload size and travel; none of the designs used here reads
+// them. The IMU resolutions come when the host's struct carries them (else zero: readings
+// without quantisation, which only LineariseSensors would have used).
 RobotModel RobotFromAbi(const upright_robot& robot, double control_rate_hz);
 
 // The linear model for `input` (A_torque, B_torque or A_voltage, B_voltage), with E, the push
 // height and the equilibrium pitch as given. The fall rate comes from A (θ̈ = λ² θ: λ =
 // √A(θ̇, θ)); the lumped body's mass and COM from the chassis and the payload (its inertias
-// stay zero: only the mass is used, by the default process noise).
+// stay zero: only the mass is used, by the filter's default noise).
 design::LinearModel LinearFromAbi(const upright_linear_model& linear, const upright_robot& robot,
                                   design::InputKind input);
 

@@ -11,6 +11,9 @@ namespace upright::controllers {
 namespace {
 
 // The create arguments must reach at least to their last version-1 field.
+// upright_robot as version 1 first had it, up to payload_z_m; later fields are read when present.
+constexpr std::size_t kFirstRobotSize =
+    offsetof(upright_robot, payload_z_m) + sizeof(upright_robot::payload_z_m);
 constexpr std::size_t kMinimumArgsSize =
     offsetof(upright_create_args, log_host) + sizeof(upright_create_args::log_host);
 
@@ -34,7 +37,7 @@ ModuleContext ContextFromArgs(const upright_create_args* args) {
                                                ", this module version " +
                                                std::to_string(UPRIGHT_CONTROLLER_ABI_VERSION));
   }
-  if (!args->robot || args->robot->struct_size < sizeof(upright_robot)) {
+  if (!args->robot || args->robot->struct_size < kFirstRobotSize) {
     Malformed("upright_create_args::robot is NULL or shorter than version 1's upright_robot");
   }
   if (!args->linear || args->linear->struct_size < sizeof(upright_linear_model)) {

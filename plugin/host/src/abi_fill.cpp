@@ -46,6 +46,8 @@ upright_robot RobotForModule(const RobotModel& m) {
   r.latency_s = m.sensors.latency_s;
   r.payload_mass_kg = m.payload.present ? m.payload.mass_kg : 0.0;
   r.payload_z_m = m.payload.present ? m.payload.z_m : 0.0;
+  r.gyro_resolution_rad_s = m.sensors.gyro_resolution_rad_s;
+  r.accel_resolution_m_s2 = m.sensors.accel_resolution_m_s2;
   return r;
 }
 

@@ -79,6 +79,9 @@ typedef struct upright_robot {
   double latency_s;
   double payload_mass_kg; /* 0 when the robot has none */
   double payload_z_m;
+  /* Added later in version 1: read them only when struct_size reaches past them
+   * (offsetof + sizeof). Quantisation steps of the IMU's readings, 0 for none. */
+  double gyro_resolution_rad_s, accel_resolution_m_s2;
 } upright_robot;
 
 /* The robot linearised about upright at rest (row-major): x' = A x + B u + E w, with u the wheel
