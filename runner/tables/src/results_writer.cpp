@@ -45,7 +45,8 @@ bool RemoveStaleFiles(const std::filesystem::path& root, const BatchResult& batc
     }
   }
   for (const fs::path& path : stale) {
-    if (fs::remove(path, ec), ec) {
+    fs::remove(path, ec);  // a file already gone is no error
+    if (ec) {
       *error = "cannot remove " + path.string() + ", left from an earlier batch: " + ec.message();
       return false;
     }
