@@ -1,9 +1,11 @@
 // `upright design MODEL`: the linear model and the built-in controllers' gains, closed-loop
 // poles, push norms and margins, as readable text or as one JSON object (--json).
 #include <cmath>
+#include <complex>
 #include <cstdio>
 #include <iostream>
 #include <string>
+#include <vector>
 
 #include "commands.hpp"
 #include "json_writer.hpp"
@@ -39,6 +41,13 @@ void WriteController(JsonWriter& j, const ControllerReport& c) {
   j.ComplexList("poles", c.loop.poles);
   j.Number("push_norm", c.loop.push_norm);
   WriteMargins(j, c.loop.margins);
+  if (c.sampled.analysed()) {
+    j.BeginObject("sampled");
+    j.Number("rate_hz", 1 / c.sampled.period_s);
+    j.Number("max_abs_z", c.sampled.max_abs_z);
+    j.ComplexList("poles", c.sampled.s);
+    j.EndObject();
+  }
 }
 
 std::string Json(const RobotModel& model, const DesignSet& d) {
@@ -120,23 +129,36 @@ void PrintMatrix(const char* title, const Eigen::MatrixXd& m, bool state_columns
   }
 }
 
-void PrintController(const char* title, const ControllerReport& c) {
-  std::printf("\n== %s: %s\n", title, c.ok ? "ok" : ("FAILED: " + c.message).c_str());
-  if (c.K.norm() > 0) PrintMatrix("gain K (u = -K x), N·m or V per state unit", c.K, true);
-  if (c.loop.poles.empty()) return;
-  std::printf("closed-loop poles (1/s):");
-  for (const auto& p : c.loop.poles) {
+// Poles in 1/s, a conjugate pair once as re±imi.
+void PrintPoles(const std::vector<std::complex<double>>& poles) {
+  for (const auto& p : poles) {
     if (p.imag() < 0) continue;
     std::printf(p.imag() == 0 ? " %.4g" : " %.4g±%.4gi", p.real(), p.imag());
   }
-  std::printf("\npush norm ||T_zw||inf: %s\n", Figure(c.loop.push_norm).c_str());
-  const design::LoopMargins& m = c.loop.margins;
-  std::printf("input margins (worst wheel): gain %s..%s, phase %s deg, disk alpha %s "
-              "(gain %s..%s, phase %s deg), delay %s s\n",
-              Figure(m.gain_low).c_str(), Figure(m.gain_high).c_str(), Figure(m.phase_deg).c_str(),
-              Figure(m.disk_alpha).c_str(), Figure(m.disk_gain_low).c_str(),
-              Figure(m.disk_gain_high).c_str(), Figure(m.disk_phase_deg).c_str(),
-              Figure(m.delay_s).c_str());
+  std::printf("\n");
+}
+
+void PrintController(const char* title, const ControllerReport& c) {
+  std::printf("\n== %s: %s\n", title, c.ok ? "ok" : ("FAILED: " + c.message).c_str());
+  if (c.K.norm() > 0) PrintMatrix("gain K (u = -K x), N·m or V per state unit", c.K, true);
+  if (!c.loop.poles.empty()) {
+    std::printf("closed-loop poles (1/s):");
+    PrintPoles(c.loop.poles);
+    std::printf("push norm ||T_zw||inf: %s\n", Figure(c.loop.push_norm).c_str());
+    const design::LoopMargins& m = c.loop.margins;
+    std::printf("input margins (worst wheel): gain %s..%s, phase %s deg, disk alpha %s "
+                "(gain %s..%s, phase %s deg), delay %s s\n",
+                Figure(m.gain_low).c_str(), Figure(m.gain_high).c_str(),
+                Figure(m.phase_deg).c_str(), Figure(m.disk_alpha).c_str(),
+                Figure(m.disk_gain_low).c_str(), Figure(m.disk_gain_high).c_str(),
+                Figure(m.disk_phase_deg).c_str(), Figure(m.delay_s).c_str());
+  }
+  if (c.sampled.analysed()) {
+    std::printf("sampled as the module runs it, at %g Hz: max |z| %.4g (%s); poles (1/s, log z / T):",
+                1 / c.sampled.period_s, c.sampled.max_abs_z,
+                c.sampled.max_abs_z < 1 ? "stable" : "UNSTABLE");
+    PrintPoles(c.sampled.s);
+  }
 }
 
 void PrintText(const RobotModel& model, const DesignSet& d) {

@@ -98,7 +98,8 @@ TEST(Cli, DesignPrintsEveryControllerForBothDemoRobots) {
     const Result r = RunUpright("design " + Models() + name);
     EXPECT_EQ(r.exit_code, 0) << r.output;
     for (const char* part : {"== LQR: ok", "== H-infinity state feedback: ok", "gamma_opt",
-                             "== LQG", "== PID cascade", "input margins", "push norm"}) {
+                             "== LQG", "== PID cascade", "input margins", "push norm",
+                             "sampled as the module runs it"}) {
       EXPECT_NE(r.output.find(part), std::string::npos) << name << ": " << part;
     }
   }
@@ -110,7 +111,8 @@ TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
   for (const char* key :
        {"\"A\":[[", "\"B\":[[", "\"lqr\":{", "\"hinf\":{", "\"lqg\":{", "\"K\":[[", "\"poles\":[[",
         "\"gamma\":", "\"gamma_opt\":", "\"norm\":", "\"margins\":{",
-        "\"gain_low\":", "\"gain_high\":", "\"phase_deg\":", "\"disk_alpha\":", "\"delay_s\":"}) {
+        "\"gain_low\":", "\"gain_high\":", "\"phase_deg\":", "\"disk_alpha\":", "\"delay_s\":",
+        "\"sampled\":{", "\"max_abs_z\":"}) {
     EXPECT_NE(r.output.find(key), std::string::npos) << key;
   }
   EXPECT_EQ(r.output.front(), '{');

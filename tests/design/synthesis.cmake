@@ -8,3 +8,6 @@ upright_test(upright_synthesis_test
 upright_test(upright_lqg_filter_test
   SOURCES lqg_filter_test.cpp
   LIBS upright::design upright::model)
+upright_test(upright_sampled_loop_test
+  SOURCES sampled_loop_test.cpp
+  LIBS upright::design upright::model)

@@ -62,6 +62,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     set.lqr.K = lqr.K;
     set.lqr.K_discrete = lqr_d.K;
     Finish(&set.lqr, plant, FullState(), StateFeedback(lqr.K), perf);
+    set.lqr.sampled = SampledStateFeedback(plant, lqr_d.K, period_s);
   } else {
     set.lqr.message = lqr.ok() ? lqr_d.message : lqr.message;
   }
@@ -78,6 +79,8 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     if (hinf.ok()) {
       set.hinf.K = hinf.K;
       Finish(&set.hinf, plant, FullState(), StateFeedback(hinf.K), perf);
+      // The hinf module applies the continuous gain at the sample rate.
+      set.hinf.sampled = SampledStateFeedback(plant, hinf.K, period_s);
       if (set.hinf.ok && !(set.hinf.loop.push_norm < req.gamma)) {
         set.hinf.ok = false;
         std::ostringstream why;
@@ -108,6 +111,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     set.lqg.K_discrete = lqr_d.K;
     set.lqg.L = filter.L;
     set.lqg.L_discrete = filter.L_discrete;
+    set.lqg.sampled = SampledLqg(lqr_d.K, filter, period_s);
     set.lqg.estimator_fastest_1_s =
         (plant.A - filter.L * filter.sensors.C).eigenvalues().cwiseAbs().maxCoeff();
     // x̂̇ = A x̂ + B u + L (y − C x̂ − D u), u = −K x̂.

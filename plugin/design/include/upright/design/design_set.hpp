@@ -8,6 +8,7 @@
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/lqg_filter.hpp"
+#include "upright/design/sampled_loop.hpp"
 #include "upright/design/pid.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
@@ -33,6 +34,9 @@ struct ControllerReport {
   Gain K = Gain::Zero();          // continuous state feedback (LQG: its regulator)
   Gain K_discrete = Gain::Zero(); // at the sample rate, zero-order hold (LQR, LQG)
   LoopAnalysis loop;
+  // The loop as the module samples it (LQR and H-infinity with the true state, LQG with its
+  // filter); not analysed for PID.
+  SampledPoles sampled;
 };
 
 struct HinfReport : ControllerReport {
