@@ -23,7 +23,7 @@ namespace {
 using design::kInputs;
 using design::kStates;
 constexpr int kMeasurements = design::SensorLinearisation::kMeasurements;
-constexpr int kAccelRow = 4;  // LineariseSensors' accelerometer row, f_x / g
+constexpr int kAccelRow = design::SensorLinearisation::kAccelRow;
 using MeasurementVector = Eigen::Matrix<double, kMeasurements, 1>;
 
 // The filter at the module's rate (design::DesignLqgFilter, the one `upright design` analyses):

@@ -4,19 +4,13 @@
 
 #include <cmath>
 
+#include "demo_robot.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/model/model_file.hpp"
 #include "upright/sim/plant.hpp"
 
 namespace upright::design {
 namespace {
-
-RobotModel Demo(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
-}
 
 // The demo robot without the losses the linear model leaves out (motor friction, rolling
 // resistance), for comparisons with the plant.

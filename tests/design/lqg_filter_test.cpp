@@ -9,20 +9,14 @@
 #include <cmath>
 #include <string>
 
+#include "demo_robot.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/model/model_file.hpp"
 
 namespace upright::design {
 namespace {
 
 using Eigen::MatrixXd;
-
-RobotModel Demo(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
-}
 
 struct Case {
   const char* robot;

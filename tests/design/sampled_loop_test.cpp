@@ -10,22 +10,16 @@
 #include <string>
 #include <vector>
 
+#include "demo_robot.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/model/model_file.hpp"
 
 namespace upright::design {
 namespace {
 
 using Eigen::MatrixXd;
 using Poles = std::vector<std::complex<double>>;
-
-RobotModel Demo(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
-}
 
 Poles Eigenvalues(const MatrixXd& m) {
   const Eigen::VectorXcd e = m.eigenvalues();

@@ -7,22 +7,16 @@
 #include <algorithm>
 #include <cmath>
 
+#include "demo_robot.hpp"
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/model/model_file.hpp"
 #include "upright/sim/plant.hpp"
 
 namespace upright::design {
 namespace {
 
 using Eigen::MatrixXd;
-
-RobotModel Demo(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
-}
 
 MatrixXd M(std::initializer_list<std::initializer_list<double>> rows) {
   MatrixXd m(rows.size(), rows.begin()->size());

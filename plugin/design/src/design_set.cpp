@@ -46,9 +46,9 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
   if (req.rate_hz == 0) req.rate_hz = model.control_rate_hz;
   set.plant = Linearise(model, req.input, req.push_height_m);
   const LinearModel& plant = set.plant;
-  const double total_mass_kg = model.chassis.mass_kg + 2 * model.wheel.mass_kg +
-                               (model.payload.present ? model.payload.mass_kg : 0.0);
-  if (req.push_scale_N == 0) req.push_scale_N = 0.1 * total_mass_kg * kStandardGravity_m_s2;
+  if (req.push_scale_N == 0) {
+    req.push_scale_N = 0.1 * model.total_mass_kg() * kStandardGravity_m_s2;
+  }
   const double period_s = 1 / req.rate_hz;
   Performance& perf = set.performance;
   perf.Q = StateWeight(req.weights);

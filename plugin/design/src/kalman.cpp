@@ -45,10 +45,11 @@ SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel&
   // Accelerometer along body x, over g: the specific force Rᵀ(a − g) there is
   // −g sin θ + ẍ + h θ̈ for an IMU h above the axle (conventions.hpp), so f_x / g ≈ −θ + (ẍ + h θ̈)/g.
   const double h = s.imu_z_m;
-  out.C.row(4) = (plant.A.row(kXDot) + h * plant.A.row(kPitchRate)) / g;
-  out.C(4, kPitch) -= 1;
-  out.D.row(4) = (plant.B.row(kXDot) + h * plant.B.row(kPitchRate)) / g;
-  variance(4) = accel_var / (g * g);
+  constexpr int a = SensorLinearisation::kAccelRow;
+  out.C.row(a) = (plant.A.row(kXDot) + h * plant.A.row(kPitchRate)) / g;
+  out.C(a, kPitch) -= 1;
+  out.D.row(a) = (plant.B.row(kXDot) + h * plant.B.row(kPitchRate)) / g;
+  variance(a) = accel_var / (g * g);
   // A floor keeps the filter well posed for ideal sensors.
   out.Rv = variance.cwiseMax(1e-12).asDiagonal();
   return out;

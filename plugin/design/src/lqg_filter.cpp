@@ -3,15 +3,9 @@
 #include "upright/model/conventions.hpp"
 
 namespace upright::design {
-namespace {
-
-constexpr int kAccelRow = 4;  // LineariseSensors' accelerometer row, f_x / g
-
-}  // namespace
 
 FilterNoise DefaultFilterNoise(const RobotModel& model, const LinearModel& plant) {
-  const double total_mass_kg = model.chassis.mass_kg + 2 * model.wheel.mass_kg +
-                               (model.payload.present ? model.payload.mass_kg : 0.0);
+  const double total_mass_kg = model.total_mass_kg();
   FilterNoise noise;
   noise.push_sigma_N = 0.05 * total_mass_kg * kStandardGravity_m_s2;
   noise.torque_sigma_Nm = 0.05 * plant.body.mass_kg * kStandardGravity_m_s2 * 0.1;
@@ -36,6 +30,7 @@ LqgFilter DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
       (plant.E.row(kXDot) + h * plant.E.row(kPitchRate)) / kStandardGravity_m_s2;
   const Eigen::Vector2d w_variance(noise.push_sigma_N * noise.push_sigma_N,
                                    noise.torque_sigma_Nm * noise.torque_sigma_Nm);
+  constexpr int kAccelRow = SensorLinearisation::kAccelRow;
   f.sensors.Rv(kAccelRow, kAccelRow) += F * w_variance.asDiagonal() * F.transpose();
 
   // Process noise: the push and pitch torque of E, a yaw torque, and the floor on every state.

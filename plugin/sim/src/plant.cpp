@@ -92,9 +92,7 @@ class PlantImpl {
     world_.AddGround(options.terrain, std::clamp(4 * model.wheel.radius_m, 0.2, 1.0));
     robot_ = BuildRobot(world_, model, options);
     coulomb_band_rad_s_ = MotorCoulombBand(model.motor, model.wheel.spin_inertia_kgm2, options.dt_s);
-    const double total_mass = model.chassis.mass_kg + 2 * model.wheel.mass_kg +
-                              (model.payload.present ? model.payload.mass_kg : 0.0);
-    const double rolling_Nm = model.wheel.rolling_resistance * total_mass *
+    const double rolling_Nm = model.wheel.rolling_resistance * model.total_mass_kg() *
                               kStandardGravity_m_s2 / 2 * model.wheel.radius_m;
     rolling_band_rad_s_ =
         std::max(1e-3, 2 * rolling_Nm * options.dt_s / model.wheel.spin_inertia_kgm2);

@@ -77,6 +77,7 @@ GammaSearch RobotOptimalGamma(const LinearModel& plant, const StateMatrix& Q,
 struct SensorLinearisation {
   Eigen::MatrixXd C, D, Rv;
   static constexpr int kMeasurements = 5;
+  static constexpr int kAccelRow = 4;  // the accelerometer's row, f_x / g
 };
 SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel& plant);
 

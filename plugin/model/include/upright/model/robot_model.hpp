@@ -82,6 +82,11 @@ struct RobotModel {
   SensorModel sensors;
   double control_rate_hz = 0;  // the rate the balance controller runs at
   PayloadModel payload;
+
+  // Chassis, both wheels and the payload when present, kg.
+  double total_mass_kg() const {
+    return chassis.mass_kg + 2 * wheel.mass_kg + (payload.present ? payload.mass_kg : 0.0);
+  }
 };
 
 }  // namespace upright

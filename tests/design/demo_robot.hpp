@@ -1,0 +1,18 @@
+// A demo robot from models/ for the design tests, by file name ("courier.xml").
+#pragma once
+
+#include <gtest/gtest.h>
+
+#include <string>
+
+#include "upright/model/model_file.hpp"
+
+namespace upright::design {
+
+inline RobotModel Demo(const std::string& name) {
+  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
+  EXPECT_TRUE(loaded.ok());
+  return loaded.model;
+}
+
+}  // namespace upright::design
