@@ -166,6 +166,122 @@ TEST(ModelFile, LoadsTabletopDemo) {
   EXPECT_FALSE(m.payload.present);
 }
 
+// Every field of both demo models, as their files state it or as its default follows: the file
+// format may rename its elements, but what a file loads to must not move. The derived defaults are
+// written as the loader's own arithmetic, so equality is exact: uniform disc ½ m r², uniform
+// cylinder about a diameter m(3r² + w²)/12, uniform solid box m(a² + b²)/12 (handbook, from
+// memory).
+TEST(ModelFile, DemoModelsLoadToEveryFieldTheyState) {
+  const RobotModel courier = LoadModelFile(ModelPath("courier.xml")).model;
+  EXPECT_EQ(courier.name, "courier");
+  EXPECT_EQ(courier.chassis, (ChassisModel{.mass_kg = 24,
+                                           .pitch_inertia_kgm2 = 1.20,
+                                           .roll_inertia_kgm2 = 1.05,
+                                           .yaw_inertia_kgm2 = 0.85,
+                                           .com_height_m = 0.30,
+                                           .com_forward_m = 0,
+                                           .outline_front_m = 0.32,
+                                           .outline_rear_m = -0.32,
+                                           .outline_bottom_m = -0.10,
+                                           .outline_top_m = 0.65,
+                                           .outline_width_m = 0.42}));
+  EXPECT_EQ(courier.wheel,
+            (WheelModel{.radius_m = 0.16,
+                        .width_m = 0.06,
+                        .mass_kg = 1.5,
+                        .spin_inertia_kgm2 = 0.5 * 1.5 * 0.16 * 0.16,
+                        .diameter_inertia_kgm2 = 1.5 * (3 * 0.16 * 0.16 + 0.06 * 0.06) / 12.0,
+                        .track_m = 0.50,
+                        .friction = 0.8,
+                        .rolling_resistance = 0.015}));
+  EXPECT_EQ(courier.motor, (MotorModel{.torque_constant_Nm_per_A = 0.06,
+                                       .back_emf_V_s_per_rad = 0.06,
+                                       .resistance_ohm = 0.5,
+                                       .gear_ratio = 20,
+                                       .gear_efficiency = 0.85,
+                                       .supply_V = 24,
+                                       .current_limit_A = 20,
+                                       .viscous_friction_Nm_s_per_rad = 0.02,
+                                       .coulomb_friction_Nm = 0.15}));
+  EXPECT_EQ(courier.sensors, (SensorModel{.imu_rate_hz = 1000,
+                                          .imu_x_m = 0.05,
+                                          .imu_y_m = 0,
+                                          .imu_z_m = 0.25,
+                                          .gyro_noise_rad_s_rthz = 8.7e-5,
+                                          .gyro_bias_x_rad_s = 0.002,
+                                          .gyro_bias_y_rad_s = -0.001,
+                                          .gyro_bias_z_rad_s = 0.0015,
+                                          .gyro_resolution_rad_s = 2.66e-4,
+                                          .accel_noise_m_s2_rthz = 1.47e-3,
+                                          .accel_bias_x_m_s2 = 0.05,
+                                          .accel_bias_y_m_s2 = -0.03,
+                                          .accel_bias_z_m_s2 = 0.08,
+                                          .accel_resolution_m_s2 = 2.39e-3,
+                                          .encoder_counts_per_rev = 81920,
+                                          .latency_s = 0.002}));
+  EXPECT_EQ(courier.control_rate_hz, 200);
+  EXPECT_EQ(courier.payload, (PayloadModel{.present = true,
+                                           .mass_kg = 5,
+                                           .length_m = 0.30,
+                                           .width_m = 0.30,
+                                           .height_m = 0.25,
+                                           .x_m = 0,
+                                           .z_m = 0.775,
+                                           .min_x_m = -0.15,
+                                           .max_x_m = 0.15}));
+
+  const RobotModel tabletop = LoadModelFile(ModelPath("tabletop.xml")).model;
+  EXPECT_EQ(tabletop.name, "tabletop");
+  EXPECT_EQ(tabletop.chassis,
+            (ChassisModel{.mass_kg = 1.2,
+                          .pitch_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.16 * 0.16) / 12.0,
+                          .roll_inertia_kgm2 = 1.2 * (0.12 * 0.12 + 0.16 * 0.16) / 12.0,
+                          .yaw_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.12 * 0.12) / 12.0,
+                          .com_height_m = 0.07,
+                          .com_forward_m = 0,
+                          .outline_front_m = 0.05,
+                          .outline_rear_m = -0.05,
+                          .outline_bottom_m = -0.02,
+                          .outline_top_m = 0.14,
+                          .outline_width_m = 0.12}));
+  EXPECT_EQ(tabletop.wheel,
+            (WheelModel{.radius_m = 0.035,
+                        .width_m = 0.025,
+                        .mass_kg = 0.05,
+                        .spin_inertia_kgm2 = 2.8e-5,
+                        .diameter_inertia_kgm2 = 0.05 * (3 * 0.035 * 0.035 + 0.025 * 0.025) / 12.0,
+                        .track_m = 0.16,
+                        .friction = 0.9,
+                        .rolling_resistance = 0.01}));
+  EXPECT_EQ(tabletop.motor, (MotorModel{.torque_constant_Nm_per_A = 0.0057,
+                                        .back_emf_V_s_per_rad = 0.0057,
+                                        .resistance_ohm = 3.0,
+                                        .gear_ratio = 25,
+                                        .gear_efficiency = 0.7,
+                                        .supply_V = 7.4,
+                                        .current_limit_A = 1.5,
+                                        .viscous_friction_Nm_s_per_rad = 2e-4,
+                                        .coulomb_friction_Nm = 0.005}));
+  EXPECT_EQ(tabletop.sensors, (SensorModel{.imu_rate_hz = 500,
+                                           .imu_x_m = 0,
+                                           .imu_y_m = 0,
+                                           .imu_z_m = 0.04,
+                                           .gyro_noise_rad_s_rthz = 2.6e-4,
+                                           .gyro_bias_x_rad_s = 0.01,
+                                           .gyro_bias_y_rad_s = -0.008,
+                                           .gyro_bias_z_rad_s = 0.012,
+                                           .gyro_resolution_rad_s = 1.07e-3,
+                                           .accel_noise_m_s2_rthz = 2.9e-3,
+                                           .accel_bias_x_m_s2 = 0.15,
+                                           .accel_bias_y_m_s2 = -0.1,
+                                           .accel_bias_z_m_s2 = 0.2,
+                                           .accel_resolution_m_s2 = 1.2e-3,
+                                           .encoder_counts_per_rev = 700,
+                                           .latency_s = 0.005}));
+  EXPECT_EQ(tabletop.control_rate_hz, 100);
+  EXPECT_EQ(tabletop.payload, PayloadModel{});
+}
+
 TEST(ModelFile, TabletopDemoMotorsHoldATenDegreeTilt) {
   const RobotModel m = LoadModelFile(ModelPath("tabletop.xml")).model;
   const double current_A =
