@@ -11,9 +11,9 @@ namespace upright {
 namespace {
 
 // A small valid model (invented test data). Its first line is line 1.
-constexpr std::string_view kMinimal = R"(<robot name="mini" schema="1">
+constexpr std::string_view kMinimal = R"(<balancer name="mini" schema="2">
   <chassis mass_kg="10" com_height_m="0.3">
-    <inertia pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
+    <principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
     <outline front_m="0.2" rear_m="-0.2" bottom_m="-0.05" top_m="0.6" width_m="0.3"/>
   </chassis>
   <wheels radius_m="0.1" width_m="0.04" mass_kg="1" track_m="0.4" friction="0.8"/>
@@ -24,14 +24,14 @@ constexpr std::string_view kMinimal = R"(<robot name="mini" schema="1">
     <encoder counts_per_rev="1024"/>
   </sensors>
   <control rate_hz="200"/>
-</robot>
+</balancer>
 )";
 
 // The box spans x in [-0.2, 0.2] at its travel limits, exactly the outline's length.
 constexpr std::string_view kPayload =
     R"(  <payload mass_kg="5" length_m="0.2" width_m="0.2" height_m="0.2" x_m="0" z_m="0.7"
            min_x_m="-0.1" max_x_m="0.1"/>
-</robot>)";
+</balancer>)";
 
 // kMinimal with `from` (which must occur exactly once) replaced by `to`.
 std::string Edit(std::string_view from, std::string_view to, std::string_view text = kMinimal) {
@@ -43,7 +43,9 @@ std::string Edit(std::string_view from, std::string_view to, std::string_view te
   return edited;
 }
 
-std::string WithPayload(std::string_view payload = kPayload) { return Edit("</robot>", payload); }
+std::string WithPayload(std::string_view payload = kPayload) {
+  return Edit("</balancer>", payload);
+}
 
 std::vector<std::string> Errors(const std::string& text) {
   std::vector<std::string> texts;
@@ -96,13 +98,13 @@ TEST(ModelFile, DerivesWheelInertiaWhenOmitted) {
   EXPECT_DOUBLE_EQ(model.wheel.diameter_inertia_kgm2, 0.0316 / 12);
 }
 
-TEST(ModelFile, DerivesChassisInertiaFromBox) {
+TEST(ModelFile, DerivesChassisInertiaFromUniformBlock) {
   const ModelLoadResult result =
-      ParseModelText(Edit(R"(<inertia pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
-                          R"(<box length_m="0.3" width_m="0.2" height_m="0.5"/>)"),
+      ParseModelText(Edit(R"(<principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
+                          R"(<uniform_block length_m="0.3" width_m="0.2" height_m="0.5"/>)"),
                      "mini.xml");
   ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  // Uniform solid box about its centre, m(a² + b²)/12 over the two sides across the axis
+  // Uniform solid block about its centre, m(a² + b²)/12 over the two sides across the axis
   // (handbook, from memory); m = 10 kg.
   EXPECT_DOUBLE_EQ(result.model.chassis.pitch_inertia_kgm2, 10 * (0.09 + 0.25) / 12);
   EXPECT_DOUBLE_EQ(result.model.chassis.roll_inertia_kgm2, 10 * (0.04 + 0.25) / 12);
@@ -153,7 +155,8 @@ TEST(ModelFile, LoadsTabletopDemo) {
   ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
   const RobotModel& m = result.model;
   EXPECT_EQ(m.name, "tabletop");
-  // From the 0.10 × 0.12 × 0.16 m box, uniform solid box m(a² + b²)/12 (handbook, from memory).
+  // From the 0.10 × 0.12 × 0.16 m block, uniform solid block m(a² + b²)/12 (handbook, from
+  // memory).
   EXPECT_DOUBLE_EQ(m.chassis.pitch_inertia_kgm2, 1.2 * (0.01 + 0.0256) / 12);
   EXPECT_DOUBLE_EQ(m.chassis.roll_inertia_kgm2, 1.2 * (0.0144 + 0.0256) / 12);
   EXPECT_DOUBLE_EQ(m.chassis.yaw_inertia_kgm2, 1.2 * (0.01 + 0.0144) / 12);
@@ -169,7 +172,7 @@ TEST(ModelFile, LoadsTabletopDemo) {
 // Every field of both demo models, as their files state it or as its default follows: the file
 // format may rename its elements, but what a file loads to must not move. The derived defaults are
 // written as the loader's own arithmetic, so equality is exact: uniform disc ½ m r², uniform
-// cylinder about a diameter m(3r² + w²)/12, uniform solid box m(a² + b²)/12 (handbook, from
+// cylinder about a diameter m(3r² + w²)/12, uniform solid block m(a² + b²)/12 (handbook, from
 // memory).
 TEST(ModelFile, DemoModelsLoadToEveryFieldTheyState) {
   const RobotModel courier = LoadModelFile(ModelPath("courier.xml")).model;
@@ -327,29 +330,68 @@ TEST(ModelFile, ReportsUnclosedAttributeAtItsLine) {
 
 TEST(ModelFile, RejectsWrongRoot) {
   EXPECT_EQ(Errors("<scenario>\n</scenario>"),
-            Lines{"mini.xml:1: root element is <scenario>, expected <robot>"});
+            Lines{"mini.xml:1: root element is <scenario>, expected <balancer>"});
+}
+
+// kMinimal written in schema 1's names: root <robot>, <inertia> for <principal_moments>.
+std::string InSchemaOne() {
+  std::string text =
+      Edit(R"(<balancer name="mini" schema="2">)", R"(<robot name="mini" schema="1">)");
+  text = Edit("</balancer>", "</robot>", text);
+  return Edit("<principal_moments ", "<inertia ", text);
+}
+
+TEST(ModelFile, NamesTheRootThatReplacedRobot) {
+  std::string text =
+      Edit(R"(<balancer name="mini" schema="2">)", R"(<robot name="mini" schema="2">)");
+  EXPECT_EQ(Errors(Edit("</balancer>", "</robot>", text)),
+            Lines{"mini.xml:1: <robot> is the former name of this file's root element: rename it "
+                  "<balancer> (schema 2)"});
+}
+
+TEST(ModelFile, NamesTheElementThatReplacedInertia) {
+  EXPECT_EQ(Errors(Edit("<principal_moments ", "<inertia ")),
+            Lines{"mini.xml:3: chassis: <inertia> is the former name of this element: rename it "
+                  "<principal_moments> (schema 2)"});
+}
+
+TEST(ModelFile, NamesTheElementThatReplacedBox) {
+  EXPECT_EQ(Errors(Edit(R"(<principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
+                        R"(<box length_m="0.3" width_m="0.2" height_m="0.5"/>)")),
+            Lines{"mini.xml:3: chassis: <box> is the former name of this element: rename it "
+                  "<uniform_block> (schema 2)"});
+}
+
+TEST(ModelFile, NamesEveryFormerNameOfASchemaOneFileAndNothingElse) {
+  EXPECT_EQ(Errors(InSchemaOne()),
+            (Lines{"mini.xml:1: <robot> is the former name of this file's root element: rename it "
+                   "<balancer> (schema 2)",
+                   "mini.xml:3: chassis: <inertia> is the former name of this element: rename it "
+                   "<principal_moments> (schema 2)"}));
 }
 
 TEST(ModelFile, RejectsUnsupportedSchemaVersion) {
-  EXPECT_EQ(Errors(Edit(R"(schema="1")", R"(schema="2")")),
-            Lines{"mini.xml:1: robot schema = 2: unsupported schema version (expected 1)"});
+  EXPECT_EQ(Errors(Edit(R"(schema="2")", R"(schema="3")")),
+            Lines{"mini.xml:1: balancer schema = 3: unsupported schema version (expected 2)"});
+  EXPECT_EQ(Errors(Edit(R"(schema="2")", R"(schema="1")")),
+            Lines{"mini.xml:1: balancer schema = 1: unsupported schema version (expected 2)"});
 }
 
 TEST(ModelFile, RejectsMissingSchemaVersion) {
-  EXPECT_EQ(Errors(Edit(R"( schema="1")", "")),
-            Lines{"mini.xml:1: robot: missing required attribute 'schema'"});
+  EXPECT_EQ(Errors(Edit(R"( schema="2")", "")),
+            Lines{"mini.xml:1: balancer: missing required attribute 'schema'"});
 }
 
 TEST(ModelFile, RejectsEmptyName) {
   EXPECT_EQ(Errors(Edit(R"(name="mini")", R"(name="")")),
-            Lines{"mini.xml:1: robot name = '': must not be empty"});
+            Lines{"mini.xml:1: balancer name = '': must not be empty"});
 }
 
 TEST(ModelFile, RejectsMissingRequiredElement) {
   EXPECT_EQ(Errors(Edit(R"(  <control rate_hz="200"/>
 )",
                         "")),
-            Lines{"mini.xml:1: robot: missing required element <control>"});
+            Lines{"mini.xml:1: balancer: missing required element <control>"});
 }
 
 TEST(ModelFile, RejectsMissingNestedElement) {
@@ -366,7 +408,7 @@ TEST(ModelFile, RejectsMissingRequiredAttribute) {
 
 TEST(ModelFile, RejectsUnknownElement) {
   EXPECT_EQ(Errors(Edit("  <control", "  <lights on=\"1\"/>\n  <control")),
-            Lines{"mini.xml:13: robot: unknown element <lights> (expected one of: chassis, "
+            Lines{"mini.xml:13: balancer: unknown element <lights> (expected one of: chassis, "
                   "wheels, motor, sensors, control, payload)"});
 }
 
@@ -378,8 +420,8 @@ TEST(ModelFile, RejectsUnknownAttributeNamingTheExpectedOnes) {
 }
 
 TEST(ModelFile, RejectsDuplicateElement) {
-  EXPECT_EQ(Errors(Edit("</robot>", "  <control rate_hz=\"100\"/>\n</robot>")),
-            Lines{"mini.xml:14: robot: duplicate element <control> (first at line 13)"});
+  EXPECT_EQ(Errors(Edit("</balancer>", "  <control rate_hz=\"100\"/>\n</balancer>")),
+            Lines{"mini.xml:14: balancer: duplicate element <control> (first at line 13)"});
 }
 
 TEST(ModelFile, RejectsNonNumericValue) {
@@ -458,19 +500,20 @@ TEST(ModelFile, RejectsZeroEncoderCounts) {
             Lines{"mini.xml:11: sensors/encoder counts_per_rev = 0: must be in [1, 1000000000]"});
 }
 
-TEST(ModelFile, RejectsBothInertiaAndBox) {
+TEST(ModelFile, RejectsBothPrincipalMomentsAndUniformBlock) {
   EXPECT_EQ(Errors(Edit("    <outline",
-                        "    <box length_m=\"0.3\" width_m=\"0.2\" "
+                        "    <uniform_block length_m=\"0.3\" width_m=\"0.2\" "
                         "height_m=\"0.5\"/>\n    <outline")),
-            Lines{"mini.xml:4: chassis: <box> given together with <inertia> at line 3 (give "
-                  "exactly one of <inertia> or <box>)"});
+            Lines{"mini.xml:4: chassis: <uniform_block> given together with <principal_moments> at "
+                  "line 3 (give exactly one of <principal_moments> or <uniform_block>)"});
 }
 
-TEST(ModelFile, RejectsNeitherInertiaNorBox) {
-  EXPECT_EQ(Errors(Edit(R"(    <inertia pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
+TEST(ModelFile, RejectsNeitherPrincipalMomentsNorUniformBlock) {
+  EXPECT_EQ(Errors(Edit(R"(    <principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
 )",
                         "")),
-            Lines{"mini.xml:2: chassis: needs one of <inertia> or <box> (found neither)"});
+            Lines{"mini.xml:2: chassis: needs one of <principal_moments> or <uniform_block> (found "
+                  "neither)"});
 }
 
 TEST(ModelFile, RejectsOutlineFrontBehindRear) {
@@ -523,7 +566,8 @@ TEST(ModelFile, RejectsLatencyOfFiftyControlPeriods) {
 
 TEST(ModelFile, RejectsChassisInertiaBreakingTriangleInequality) {
   EXPECT_EQ(Errors(Edit(R"(pitch_kgm2="0.5")", R"(pitch_kgm2="0.8")")),
-            Lines{"mini.xml:3: chassis/inertia pitch_kgm2 = 0.8, roll_kgm2 = 0.4, yaw_kgm2 = 0.3: "
+            Lines{"mini.xml:3: chassis/principal_moments pitch_kgm2 = 0.8, roll_kgm2 = 0.4, "
+                  "yaw_kgm2 = 0.3: "
                   "each moment must be <= the sum of the other two (no rigid body has these)"});
 }
 
