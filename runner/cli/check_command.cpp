@@ -37,9 +37,9 @@ int RunCheck(const std::vector<std::string>& files) {
       }
       continue;
     }
-    if (!root.empty() && root != "robot") {
+    if (!root.empty() && root != "balancer" && root != "robot") {
       std::cerr << path << ": root element <" << root << "> is not a known file kind "
-                << "(expected <robot> or <scenario>)\n";
+                << "(expected <balancer> or <scenario>)\n";
       ++bad;
       continue;
     }

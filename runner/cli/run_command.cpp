@@ -7,6 +7,7 @@
 #include <iostream>
 
 #include "commands.hpp"
+#include "data_folders.hpp"
 #include "envelope_command.hpp"
 #include "progress.hpp"
 #include "sweep_command.hpp"
@@ -30,6 +31,29 @@ std::string DefaultOutDir(const std::vector<runner::Scenario>& scenarios) {
     if (fs::absolute(s.path).parent_path() != folder) return "results/batch";
   }
   return "results/" + folder.filename().string();
+}
+
+// The demo suite: the scenario files in scenarios/ of the first data folder that has any, sorted.
+// Empty, with *error naming every folder looked in, when none has.
+std::vector<std::string> DemoScenarios(fs::path* folder, std::string* error) {
+  std::string looked;
+  for (const fs::path& data : DataFolders()) {
+    *folder = data / "scenarios";
+    std::vector<std::string> paths;
+    std::error_code ec;
+    for (const auto& entry : fs::directory_iterator(*folder, ec)) {
+      if (entry.path().extension() == ".xml") paths.push_back(entry.path().string());
+    }
+    if (!ec && !paths.empty()) {
+      std::sort(paths.begin(), paths.end());
+      return paths;
+    }
+    looked += (looked.empty() ? "" : ", nor in ") + folder->string() + " (" +
+              (ec ? ec.message() : std::string("no .xml files")) + ")";
+  }
+  *error = "no demo scenarios in " + (looked.empty() ? "any folder" : looked) +
+           "; install upright (cmake --install) or run the program in its build tree";
+  return {};
 }
 
 }  // namespace
@@ -108,19 +132,14 @@ int RunScenarios(const RunCommandOptions& options) {
 int RunDemo(const RunCommandOptions& options) {
   RunCommandOptions demo = options;
   demo.verb = "upright demo: the invented demo suite,";
-  const fs::path folder = fs::path(UPRIGHT_SOURCE_DIR) / "scenarios";
-  if (demo.scenario_paths.empty()) {
-    std::error_code ec;
-    for (const auto& entry : fs::directory_iterator(folder, ec)) {
-      if (entry.path().extension() == ".xml") demo.scenario_paths.push_back(entry.path().string());
-    }
-    if (ec || demo.scenario_paths.empty()) {
-      std::cerr << folder.string() << ": no demo scenarios found"
-                << (ec ? " (" + ec.message() + ")" : std::string()) << "\n";
-      return kExitBadInput;
-    }
-    std::sort(demo.scenario_paths.begin(), demo.scenario_paths.end());
+  fs::path folder;
+  std::string error;
+  const std::vector<std::string> suite = DemoScenarios(&folder, &error);
+  if (suite.empty()) {
+    std::cerr << error << "\n";
+    return kExitBadInput;
   }
+  if (demo.scenario_paths.empty()) demo.scenario_paths = suite;
   if (demo.out_dir.empty()) demo.out_dir = "results/demo";
   // The whole picture: every scenario with its linear twin, then the margin and the spread of
   // the shove every controller meets, then one report over all of it.
@@ -152,7 +171,7 @@ int RunDemo(const RunCommandOptions& options) {
   std::printf("\nupright demo: the same shove on 50 robots drawn from its spreads\n");
   if (const int code = RunSweep(sweep); code != kExitOk) return code;
 
-  std::string report_path, error;
+  std::string report_path;
   if (!runner::WriteReport(demo.out_dir, &report_path, &error)) {
     std::cerr << error << "\n";
     return kExitFailed;

@@ -9,6 +9,7 @@
 #include <filesystem>
 #include <fstream>
 #include <string>
+#include <utility>
 
 namespace {
 
@@ -91,6 +92,33 @@ TEST(Cli, CheckRejectsAMissingFileAndAnUnknownRoot) {
   const Result r = RunUpright("check " + other);
   EXPECT_EQ(r.exit_code, 2);
   EXPECT_NE(r.output.find("<vehicle>"), std::string::npos) << r.output;
+}
+
+TEST(Cli, CheckTellsASchemaOneModelTheNamesThatReplacedItsOwn) {
+  std::ifstream in(Models() + "courier.xml");
+  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  for (const auto& [from, to] : {std::pair<std::string, std::string>{"balancer", "robot"},
+                                 {"balancer", "robot"},
+                                 {"schema=\"2\"", "schema=\"1\""},
+                                 {"<principal_moments ", "<inertia "}}) {
+    const auto at = text.find(from);
+    ASSERT_NE(at, std::string::npos) << from;
+    text.replace(at, from.size(), to);
+  }
+  const std::string old = WriteTemp("courier-schema-1.xml", text);
+  const Result r = RunUpright("check " + old);
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find(old +
+                          ":21: <robot> is the former name of this file's root element: "
+                          "rename it <balancer> (schema 2)\n" +
+                          old +
+                          ":23: chassis: <inertia> is the former name of this element: "
+                          "rename it <principal_moments> (schema 2)\n"),
+            std::string::npos)
+      << r.output;
+  const std::string other = WriteTemp("vehicle.xml", "<vehicle name=\"x\"/>\n");
+  EXPECT_NE(RunUpright("check " + other).output.find("(expected <balancer> or <scenario>)"),
+            std::string::npos);
 }
 
 TEST(Cli, DesignPrintsEveryControllerForBothDemoRobots) {

@@ -59,7 +59,7 @@ TEST(ModelField, NamesTheKnownFieldsForAnUnknownOne) {
       error.rfind("no robot model field chassis.mass_kilograms (fields: chassis.mass_kg, ", 0), 0u)
       << error;
   double value = 0;
-  EXPECT_FALSE(GetModelField(model, "chassis/box", "length_m", &value, &error));
+  EXPECT_FALSE(GetModelField(model, "chassis/uniform_block", "length_m", &value, &error));
   EXPECT_NE(error.find("only shapes other fields"), std::string::npos) << error;
 }
 

@@ -11,9 +11,9 @@ namespace upright {
 namespace {
 
 // A small valid model (invented test data). Its first line is line 1.
-constexpr std::string_view kMinimal = R"(<robot name="mini" schema="1">
+constexpr std::string_view kMinimal = R"(<balancer name="mini" schema="2">
   <chassis mass_kg="10" com_height_m="0.3">
-    <inertia pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
+    <principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
     <outline front_m="0.2" rear_m="-0.2" bottom_m="-0.05" top_m="0.6" width_m="0.3"/>
   </chassis>
   <wheels radius_m="0.1" width_m="0.04" mass_kg="1" track_m="0.4" friction="0.8"/>
@@ -24,14 +24,14 @@ constexpr std::string_view kMinimal = R"(<robot name="mini" schema="1">
     <encoder counts_per_rev="1024"/>
   </sensors>
   <control rate_hz="200"/>
-</robot>
+</balancer>
 )";
 
 // The box spans x in [-0.2, 0.2] at its travel limits, exactly the outline's length.
 constexpr std::string_view kPayload =
     R"(  <payload mass_kg="5" length_m="0.2" width_m="0.2" height_m="0.2" x_m="0" z_m="0.7"
            min_x_m="-0.1" max_x_m="0.1"/>
-</robot>)";
+</balancer>)";
 
 // kMinimal with `from` (which must occur exactly once) replaced by `to`.
 std::string Edit(std::string_view from, std::string_view to, std::string_view text = kMinimal) {
@@ -43,7 +43,9 @@ std::string Edit(std::string_view from, std::string_view to, std::string_view te
   return edited;
 }
 
-std::string WithPayload(std::string_view payload = kPayload) { return Edit("</robot>", payload); }
+std::string WithPayload(std::string_view payload = kPayload) {
+  return Edit("</balancer>", payload);
+}
 
 std::vector<std::string> Errors(const std::string& text) {
   std::vector<std::string> texts;
@@ -96,13 +98,13 @@ TEST(ModelFile, DerivesWheelInertiaWhenOmitted) {
   EXPECT_DOUBLE_EQ(model.wheel.diameter_inertia_kgm2, 0.0316 / 12);
 }
 
-TEST(ModelFile, DerivesChassisInertiaFromBox) {
+TEST(ModelFile, DerivesChassisInertiaFromUniformBlock) {
   const ModelLoadResult result =
-      ParseModelText(Edit(R"(<inertia pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
-                          R"(<box length_m="0.3" width_m="0.2" height_m="0.5"/>)"),
+      ParseModelText(Edit(R"(<principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
+                          R"(<uniform_block length_m="0.3" width_m="0.2" height_m="0.5"/>)"),
                      "mini.xml");
   ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  // Uniform solid box about its centre, m(a² + b²)/12 over the two sides across the axis
+  // Uniform solid block about its centre, m(a² + b²)/12 over the two sides across the axis
   // (handbook, from memory); m = 10 kg.
   EXPECT_DOUBLE_EQ(result.model.chassis.pitch_inertia_kgm2, 10 * (0.09 + 0.25) / 12);
   EXPECT_DOUBLE_EQ(result.model.chassis.roll_inertia_kgm2, 10 * (0.04 + 0.25) / 12);
@@ -153,7 +155,8 @@ TEST(ModelFile, LoadsTabletopDemo) {
   ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
   const RobotModel& m = result.model;
   EXPECT_EQ(m.name, "tabletop");
-  // From the 0.10 × 0.12 × 0.16 m box, uniform solid box m(a² + b²)/12 (handbook, from memory).
+  // From the 0.10 × 0.12 × 0.16 m block, uniform solid block m(a² + b²)/12 (handbook, from
+  // memory).
   EXPECT_DOUBLE_EQ(m.chassis.pitch_inertia_kgm2, 1.2 * (0.01 + 0.0256) / 12);
   EXPECT_DOUBLE_EQ(m.chassis.roll_inertia_kgm2, 1.2 * (0.0144 + 0.0256) / 12);
   EXPECT_DOUBLE_EQ(m.chassis.yaw_inertia_kgm2, 1.2 * (0.01 + 0.0144) / 12);
@@ -164,6 +167,122 @@ TEST(ModelFile, LoadsTabletopDemo) {
   EXPECT_EQ(m.sensors.encoder_counts_per_rev, 700);
   EXPECT_EQ(m.control_rate_hz, 100);
   EXPECT_FALSE(m.payload.present);
+}
+
+// Every field of both demo models, as their files state it or as its default follows: the file
+// format may rename its elements, but what a file loads to must not move. The derived defaults are
+// written as the loader's own arithmetic, so equality is exact: uniform disc ½ m r², uniform
+// cylinder about a diameter m(3r² + w²)/12, uniform solid block m(a² + b²)/12 (handbook, from
+// memory).
+TEST(ModelFile, DemoModelsLoadToEveryFieldTheyState) {
+  const RobotModel courier = LoadModelFile(ModelPath("courier.xml")).model;
+  EXPECT_EQ(courier.name, "courier");
+  EXPECT_EQ(courier.chassis, (ChassisModel{.mass_kg = 24,
+                                           .pitch_inertia_kgm2 = 1.20,
+                                           .roll_inertia_kgm2 = 1.05,
+                                           .yaw_inertia_kgm2 = 0.85,
+                                           .com_height_m = 0.30,
+                                           .com_forward_m = 0,
+                                           .outline_front_m = 0.32,
+                                           .outline_rear_m = -0.32,
+                                           .outline_bottom_m = -0.10,
+                                           .outline_top_m = 0.65,
+                                           .outline_width_m = 0.42}));
+  EXPECT_EQ(courier.wheel,
+            (WheelModel{.radius_m = 0.16,
+                        .width_m = 0.06,
+                        .mass_kg = 1.5,
+                        .spin_inertia_kgm2 = 0.5 * 1.5 * 0.16 * 0.16,
+                        .diameter_inertia_kgm2 = 1.5 * (3 * 0.16 * 0.16 + 0.06 * 0.06) / 12.0,
+                        .track_m = 0.50,
+                        .friction = 0.8,
+                        .rolling_resistance = 0.015}));
+  EXPECT_EQ(courier.motor, (MotorModel{.torque_constant_Nm_per_A = 0.06,
+                                       .back_emf_V_s_per_rad = 0.06,
+                                       .resistance_ohm = 0.5,
+                                       .gear_ratio = 20,
+                                       .gear_efficiency = 0.85,
+                                       .supply_V = 24,
+                                       .current_limit_A = 20,
+                                       .viscous_friction_Nm_s_per_rad = 0.02,
+                                       .coulomb_friction_Nm = 0.15}));
+  EXPECT_EQ(courier.sensors, (SensorModel{.imu_rate_hz = 1000,
+                                          .imu_x_m = 0.05,
+                                          .imu_y_m = 0,
+                                          .imu_z_m = 0.25,
+                                          .gyro_noise_rad_s_rthz = 8.7e-5,
+                                          .gyro_bias_x_rad_s = 0.002,
+                                          .gyro_bias_y_rad_s = -0.001,
+                                          .gyro_bias_z_rad_s = 0.0015,
+                                          .gyro_resolution_rad_s = 2.66e-4,
+                                          .accel_noise_m_s2_rthz = 1.47e-3,
+                                          .accel_bias_x_m_s2 = 0.05,
+                                          .accel_bias_y_m_s2 = -0.03,
+                                          .accel_bias_z_m_s2 = 0.08,
+                                          .accel_resolution_m_s2 = 2.39e-3,
+                                          .encoder_counts_per_rev = 81920,
+                                          .latency_s = 0.002}));
+  EXPECT_EQ(courier.control_rate_hz, 200);
+  EXPECT_EQ(courier.payload, (PayloadModel{.present = true,
+                                           .mass_kg = 5,
+                                           .length_m = 0.30,
+                                           .width_m = 0.30,
+                                           .height_m = 0.25,
+                                           .x_m = 0,
+                                           .z_m = 0.775,
+                                           .min_x_m = -0.15,
+                                           .max_x_m = 0.15}));
+
+  const RobotModel tabletop = LoadModelFile(ModelPath("tabletop.xml")).model;
+  EXPECT_EQ(tabletop.name, "tabletop");
+  EXPECT_EQ(tabletop.chassis,
+            (ChassisModel{.mass_kg = 1.2,
+                          .pitch_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.16 * 0.16) / 12.0,
+                          .roll_inertia_kgm2 = 1.2 * (0.12 * 0.12 + 0.16 * 0.16) / 12.0,
+                          .yaw_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.12 * 0.12) / 12.0,
+                          .com_height_m = 0.07,
+                          .com_forward_m = 0,
+                          .outline_front_m = 0.05,
+                          .outline_rear_m = -0.05,
+                          .outline_bottom_m = -0.02,
+                          .outline_top_m = 0.14,
+                          .outline_width_m = 0.12}));
+  EXPECT_EQ(tabletop.wheel,
+            (WheelModel{.radius_m = 0.035,
+                        .width_m = 0.025,
+                        .mass_kg = 0.05,
+                        .spin_inertia_kgm2 = 2.8e-5,
+                        .diameter_inertia_kgm2 = 0.05 * (3 * 0.035 * 0.035 + 0.025 * 0.025) / 12.0,
+                        .track_m = 0.16,
+                        .friction = 0.9,
+                        .rolling_resistance = 0.01}));
+  EXPECT_EQ(tabletop.motor, (MotorModel{.torque_constant_Nm_per_A = 0.0057,
+                                        .back_emf_V_s_per_rad = 0.0057,
+                                        .resistance_ohm = 3.0,
+                                        .gear_ratio = 25,
+                                        .gear_efficiency = 0.7,
+                                        .supply_V = 7.4,
+                                        .current_limit_A = 1.5,
+                                        .viscous_friction_Nm_s_per_rad = 2e-4,
+                                        .coulomb_friction_Nm = 0.005}));
+  EXPECT_EQ(tabletop.sensors, (SensorModel{.imu_rate_hz = 500,
+                                           .imu_x_m = 0,
+                                           .imu_y_m = 0,
+                                           .imu_z_m = 0.04,
+                                           .gyro_noise_rad_s_rthz = 2.6e-4,
+                                           .gyro_bias_x_rad_s = 0.01,
+                                           .gyro_bias_y_rad_s = -0.008,
+                                           .gyro_bias_z_rad_s = 0.012,
+                                           .gyro_resolution_rad_s = 1.07e-3,
+                                           .accel_noise_m_s2_rthz = 2.9e-3,
+                                           .accel_bias_x_m_s2 = 0.15,
+                                           .accel_bias_y_m_s2 = -0.1,
+                                           .accel_bias_z_m_s2 = 0.2,
+                                           .accel_resolution_m_s2 = 1.2e-3,
+                                           .encoder_counts_per_rev = 700,
+                                           .latency_s = 0.005}));
+  EXPECT_EQ(tabletop.control_rate_hz, 100);
+  EXPECT_EQ(tabletop.payload, PayloadModel{});
 }
 
 TEST(ModelFile, TabletopDemoMotorsHoldATenDegreeTilt) {
@@ -211,29 +330,68 @@ TEST(ModelFile, ReportsUnclosedAttributeAtItsLine) {
 
 TEST(ModelFile, RejectsWrongRoot) {
   EXPECT_EQ(Errors("<scenario>\n</scenario>"),
-            Lines{"mini.xml:1: root element is <scenario>, expected <robot>"});
+            Lines{"mini.xml:1: root element is <scenario>, expected <balancer>"});
+}
+
+// kMinimal written in schema 1's names: root <robot>, <inertia> for <principal_moments>.
+std::string InSchemaOne() {
+  std::string text =
+      Edit(R"(<balancer name="mini" schema="2">)", R"(<robot name="mini" schema="1">)");
+  text = Edit("</balancer>", "</robot>", text);
+  return Edit("<principal_moments ", "<inertia ", text);
+}
+
+TEST(ModelFile, NamesTheRootThatReplacedRobot) {
+  std::string text =
+      Edit(R"(<balancer name="mini" schema="2">)", R"(<robot name="mini" schema="2">)");
+  EXPECT_EQ(Errors(Edit("</balancer>", "</robot>", text)),
+            Lines{"mini.xml:1: <robot> is the former name of this file's root element: rename it "
+                  "<balancer> (schema 2)"});
+}
+
+TEST(ModelFile, NamesTheElementThatReplacedInertia) {
+  EXPECT_EQ(Errors(Edit("<principal_moments ", "<inertia ")),
+            Lines{"mini.xml:3: chassis: <inertia> is the former name of this element: rename it "
+                  "<principal_moments> (schema 2)"});
+}
+
+TEST(ModelFile, NamesTheElementThatReplacedBox) {
+  EXPECT_EQ(Errors(Edit(R"(<principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
+                        R"(<box length_m="0.3" width_m="0.2" height_m="0.5"/>)")),
+            Lines{"mini.xml:3: chassis: <box> is the former name of this element: rename it "
+                  "<uniform_block> (schema 2)"});
+}
+
+TEST(ModelFile, NamesEveryFormerNameOfASchemaOneFileAndNothingElse) {
+  EXPECT_EQ(Errors(InSchemaOne()),
+            (Lines{"mini.xml:1: <robot> is the former name of this file's root element: rename it "
+                   "<balancer> (schema 2)",
+                   "mini.xml:3: chassis: <inertia> is the former name of this element: rename it "
+                   "<principal_moments> (schema 2)"}));
 }
 
 TEST(ModelFile, RejectsUnsupportedSchemaVersion) {
-  EXPECT_EQ(Errors(Edit(R"(schema="1")", R"(schema="2")")),
-            Lines{"mini.xml:1: robot schema = 2: unsupported schema version (expected 1)"});
+  EXPECT_EQ(Errors(Edit(R"(schema="2")", R"(schema="3")")),
+            Lines{"mini.xml:1: balancer schema = 3: unsupported schema version (expected 2)"});
+  EXPECT_EQ(Errors(Edit(R"(schema="2")", R"(schema="1")")),
+            Lines{"mini.xml:1: balancer schema = 1: unsupported schema version (expected 2)"});
 }
 
 TEST(ModelFile, RejectsMissingSchemaVersion) {
-  EXPECT_EQ(Errors(Edit(R"( schema="1")", "")),
-            Lines{"mini.xml:1: robot: missing required attribute 'schema'"});
+  EXPECT_EQ(Errors(Edit(R"( schema="2")", "")),
+            Lines{"mini.xml:1: balancer: missing required attribute 'schema'"});
 }
 
 TEST(ModelFile, RejectsEmptyName) {
   EXPECT_EQ(Errors(Edit(R"(name="mini")", R"(name="")")),
-            Lines{"mini.xml:1: robot name = '': must not be empty"});
+            Lines{"mini.xml:1: balancer name = '': must not be empty"});
 }
 
 TEST(ModelFile, RejectsMissingRequiredElement) {
   EXPECT_EQ(Errors(Edit(R"(  <control rate_hz="200"/>
 )",
                         "")),
-            Lines{"mini.xml:1: robot: missing required element <control>"});
+            Lines{"mini.xml:1: balancer: missing required element <control>"});
 }
 
 TEST(ModelFile, RejectsMissingNestedElement) {
@@ -250,7 +408,7 @@ TEST(ModelFile, RejectsMissingRequiredAttribute) {
 
 TEST(ModelFile, RejectsUnknownElement) {
   EXPECT_EQ(Errors(Edit("  <control", "  <lights on=\"1\"/>\n  <control")),
-            Lines{"mini.xml:13: robot: unknown element <lights> (expected one of: chassis, "
+            Lines{"mini.xml:13: balancer: unknown element <lights> (expected one of: chassis, "
                   "wheels, motor, sensors, control, payload)"});
 }
 
@@ -262,8 +420,8 @@ TEST(ModelFile, RejectsUnknownAttributeNamingTheExpectedOnes) {
 }
 
 TEST(ModelFile, RejectsDuplicateElement) {
-  EXPECT_EQ(Errors(Edit("</robot>", "  <control rate_hz=\"100\"/>\n</robot>")),
-            Lines{"mini.xml:14: robot: duplicate element <control> (first at line 13)"});
+  EXPECT_EQ(Errors(Edit("</balancer>", "  <control rate_hz=\"100\"/>\n</balancer>")),
+            Lines{"mini.xml:14: balancer: duplicate element <control> (first at line 13)"});
 }
 
 TEST(ModelFile, RejectsNonNumericValue) {
@@ -342,19 +500,20 @@ TEST(ModelFile, RejectsZeroEncoderCounts) {
             Lines{"mini.xml:11: sensors/encoder counts_per_rev = 0: must be in [1, 1000000000]"});
 }
 
-TEST(ModelFile, RejectsBothInertiaAndBox) {
+TEST(ModelFile, RejectsBothPrincipalMomentsAndUniformBlock) {
   EXPECT_EQ(Errors(Edit("    <outline",
-                        "    <box length_m=\"0.3\" width_m=\"0.2\" "
+                        "    <uniform_block length_m=\"0.3\" width_m=\"0.2\" "
                         "height_m=\"0.5\"/>\n    <outline")),
-            Lines{"mini.xml:4: chassis: <box> given together with <inertia> at line 3 (give "
-                  "exactly one of <inertia> or <box>)"});
+            Lines{"mini.xml:4: chassis: <uniform_block> given together with <principal_moments> at "
+                  "line 3 (give exactly one of <principal_moments> or <uniform_block>)"});
 }
 
-TEST(ModelFile, RejectsNeitherInertiaNorBox) {
-  EXPECT_EQ(Errors(Edit(R"(    <inertia pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
+TEST(ModelFile, RejectsNeitherPrincipalMomentsNorUniformBlock) {
+  EXPECT_EQ(Errors(Edit(R"(    <principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
 )",
                         "")),
-            Lines{"mini.xml:2: chassis: needs one of <inertia> or <box> (found neither)"});
+            Lines{"mini.xml:2: chassis: needs one of <principal_moments> or <uniform_block> (found "
+                  "neither)"});
 }
 
 TEST(ModelFile, RejectsOutlineFrontBehindRear) {
@@ -407,7 +566,8 @@ TEST(ModelFile, RejectsLatencyOfFiftyControlPeriods) {
 
 TEST(ModelFile, RejectsChassisInertiaBreakingTriangleInequality) {
   EXPECT_EQ(Errors(Edit(R"(pitch_kgm2="0.5")", R"(pitch_kgm2="0.8")")),
-            Lines{"mini.xml:3: chassis/inertia pitch_kgm2 = 0.8, roll_kgm2 = 0.4, yaw_kgm2 = 0.3: "
+            Lines{"mini.xml:3: chassis/principal_moments pitch_kgm2 = 0.8, roll_kgm2 = 0.4, "
+                  "yaw_kgm2 = 0.3: "
                   "each moment must be <= the sum of the other two (no rigid body has these)"});
 }
 

@@ -70,7 +70,7 @@ TEST(ModelSchema, ValidateModelChecksPayloadOnlyWhenPresent) {
 TEST(ModelSchema, ValidateModelRejectsDefaultConstructedModel) {
   const std::vector<std::string> problems = ValidateModel(RobotModel{});
   ASSERT_FALSE(problems.empty());
-  EXPECT_EQ(problems[0], "robot name = '': must not be empty");
+  EXPECT_EQ(problems[0], "balancer name = '': must not be empty");
   EXPECT_EQ(problems[1], "chassis mass_kg = 0: must be in (0, 1000]");
 }
 
@@ -84,7 +84,8 @@ TEST(ModelSchema, MarkdownStatesDerivedDefaultsAndRanges) {
   EXPECT_NE(markdown.find("| `sensors/encoder` | `counts_per_rev` | counts | required | whole, "
                           "[1, 1000000000] |"),
             std::string::npos);
-  EXPECT_NE(markdown.find("| `chassis/box` | exactly one of `chassis/inertia` or `chassis/box` |"),
+  EXPECT_NE(markdown.find("| `chassis/uniform_block` | exactly one of `chassis/principal_moments` "
+                          "or `chassis/uniform_block` |"),
             std::string::npos);
 }
 

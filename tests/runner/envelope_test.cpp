@@ -344,7 +344,7 @@ TEST(ParameterUnit, ReadsTheUnitFromTheAttributeSuffix) {
   EXPECT_EQ(internal::ParameterUnit("robot/chassis.mass_kg"), "kg");
   EXPECT_EQ(internal::ParameterUnit("robot/sensors/gyro.bias_y_rad_s"), "rad/s");
   EXPECT_EQ(internal::ParameterUnit("robot/sensors/accelerometer.bias_x_m_s2"), "m/s²");
-  EXPECT_EQ(internal::ParameterUnit("robot/chassis/inertia.pitch_kgm2"), "kg·m²");
+  EXPECT_EQ(internal::ParameterUnit("robot/chassis/principal_moments.pitch_kgm2"), "kg·m²");
   EXPECT_EQ(internal::ParameterUnit("robot/motor.torque_constant_Nm_per_A"), "N·m/A");
   EXPECT_EQ(internal::ParameterUnit("ground/friction[1].friction"), "");
   EXPECT_EQ(internal::ParameterUnit("timeline/motor_fault[1].torque_scale"), "");

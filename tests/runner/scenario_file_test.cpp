@@ -23,9 +23,9 @@ constexpr double kInf = std::numeric_limits<double>::infinity();
 
 // A small robot with a payload (invented test data): outline z in [-0.05, 0.6], COM 0.3 m above
 // the axle, control 200 Hz, IMU 500 Hz, carriage travel [-0.1, 0.1] m from home 0.
-constexpr std::string_view kTestRobot = R"(<robot name="testbot" schema="1">
+constexpr std::string_view kTestRobot = R"(<balancer name="testbot" schema="2">
   <chassis mass_kg="10" com_height_m="0.3">
-    <inertia pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
+    <principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>
     <outline front_m="0.2" rear_m="-0.2" bottom_m="-0.05" top_m="0.6" width_m="0.3"/>
   </chassis>
   <wheels radius_m="0.1" width_m="0.04" mass_kg="1" track_m="0.4" friction="0.8"/>
@@ -38,7 +38,7 @@ constexpr std::string_view kTestRobot = R"(<robot name="testbot" schema="1">
   <control rate_hz="200"/>
   <payload mass_kg="5" length_m="0.2" width_m="0.2" height_m="0.2" x_m="0" z_m="0.7"
            min_x_m="-0.1" max_x_m="0.1"/>
-</robot>
+</balancer>
 )";
 
 // A small valid scenario on the test robot; its first line is line 1. The push is line 5, the
@@ -103,7 +103,7 @@ class ScenarioFileTest : public ::testing::Test {
     WriteFile(dir_ / "robot.xml", kTestRobot);
     std::string bare(kTestRobot);
     bare.replace(bare.find("testbot"), 7, "barebot");
-    bare.erase(bare.find("  <payload"), bare.find("</robot>") - bare.find("  <payload"));
+    bare.erase(bare.find("  <payload"), bare.find("</balancer>") - bare.find("  <payload"));
     WriteFile(dir_ / "bare.xml", bare);
     std::string broken(kTestRobot);
     broken.replace(broken.find(R"(mass_kg="10")"), 12, R"(mass_kg="-3")");
@@ -427,8 +427,8 @@ TEST_F(ScenarioFileTest, TakesPathsFromTheWorkingFolderWithoutABaseFolder) {
 // The root element and its run settings.
 
 TEST_F(ScenarioFileTest, RejectsAnotherRootElement) {
-  EXPECT_EQ(Errors(R"(<robot name="x" schema="1"/>)"),
-            Lines{"t.xml:1: root element is <robot>, expected <scenario>"});
+  EXPECT_EQ(Errors(R"(<balancer name="x" schema="2"/>)"),
+            Lines{"t.xml:1: root element is <balancer>, expected <scenario>"});
 }
 
 TEST_F(ScenarioFileTest, RejectsUnsupportedSchema) {

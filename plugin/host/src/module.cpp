@@ -89,7 +89,9 @@ std::vector<std::string> DefaultModuleDirs() {
   const std::string exe_dir = ExecutableDir();
   if (!exe_dir.empty()) {
     dirs.push_back(exe_dir + "/modules");
-    dirs.push_back(exe_dir + "/../lib/upright/modules");
+    // Installed: bin/../lib/upright/modules, or wherever the install's libdir put them.
+    dirs.push_back(
+        (std::filesystem::path(exe_dir) / UPRIGHT_MODULE_DIR_FROM_BIN).lexically_normal().string());
   }
 #ifdef UPRIGHT_BUILD_MODULE_DIR
   dirs.emplace_back(UPRIGHT_BUILD_MODULE_DIR);

@@ -111,6 +111,50 @@ void ReadFields(FoundElements& found, ModelDraft& draft, XmlDocument& doc) {
   }
 }
 
+// Names schema 2 replaced. A file still using one is told, at its line, what to write instead,
+// and nothing else is read from it: the rest of its messages would follow from the old names.
+constexpr std::string_view kFormerRootElement = "robot";
+struct FormerName {
+  std::string_view parent;  // the element it sits in, directly below the root
+  std::string_view former;
+  std::string_view current;
+};
+constexpr FormerName kFormerNames[] = {
+    {"chassis", "inertia", "principal_moments"},
+    {"chassis", "box", "uniform_block"},
+};
+
+// "<former> is the former name of `what`: rename it <current> (schema 2)".
+std::string RenameMessage(std::string_view former, std::string_view what,
+                          std::string_view current) {
+  std::string text = "<";
+  text.append(former).append("> is the former name of ").append(what);
+  text.append(": rename it <").append(current).append("> (schema ");
+  return text.append(std::to_string(internal::kModelSchemaVersion)).append(")");
+}
+
+// True when the root or an element below it bears a former name; each gets its message.
+bool ReportFormerNames(const XmlElement& root, XmlDocument& doc) {
+  bool found = false;
+  if (root.name() == kFormerRootElement) {
+    doc.AddError(root.line(), RenameMessage(kFormerRootElement, "this file's root element",
+                                            internal::kModelRootElement));
+    found = true;
+  }
+  for (const FormerName& name : kFormerNames) {
+    for (const XmlElement& parent : root.Peek(name.parent)) {
+      for (const XmlElement& element : parent.Peek(name.former)) {
+        doc.AddError(element.line(),
+                     std::string(name.parent)
+                         .append(": ")
+                         .append(RenameMessage(name.former, "this element", name.current)));
+        found = true;
+      }
+    }
+  }
+  return found;
+}
+
 // The line of the element at `path`, or of its nearest present ancestor, or of the root.
 int LineOf(std::string_view path, const FoundElements& found, int root_line) {
   for (; !path.empty(); path = ParentPath(path)) {
@@ -126,14 +170,20 @@ ModelLoadResult Load(XmlDocument doc) {
     return result;
   }
   XmlElement root = doc.Root();
-  if (root.name() != "robot") {
-    doc.AddError(root.line(), "root element is <" + root.name() + ">, expected <robot>");
+  const std::string root_name(internal::kModelRootElement);
+  if (root.name() != root_name && root.name() != kFormerRootElement) {
+    doc.AddError(root.line(),
+                 "root element is <" + root.name() + ">, expected <" + root_name + ">");
+    result.errors = doc.errors();
+    return result;
+  }
+  if (ReportFormerNames(root, doc)) {
     result.errors = doc.errors();
     return result;
   }
   const std::optional<long long> schema = root.Integer("schema", Presence::kRequired);
   if (schema && *schema != internal::kModelSchemaVersion) {
-    doc.AddError(root.line(), "robot schema = " + std::to_string(*schema) +
+    doc.AddError(root.line(), root_name + " schema = " + std::to_string(*schema) +
                                   ": unsupported schema version (expected " +
                                   std::to_string(internal::kModelSchemaVersion) + ")");
     result.errors = doc.errors();
@@ -141,7 +191,7 @@ ModelLoadResult Load(XmlDocument doc) {
   }
   ModelDraft draft;
   if (std::optional<std::string> name = root.String("name", Presence::kRequired)) {
-    if (name->empty()) doc.AddError(root.line(), "robot name = '': must not be empty");
+    if (name->empty()) doc.AddError(root.line(), root_name + " name = '': must not be empty");
     draft.model.name = *name;
   }
   FoundElements found = ReadElements(root, draft);

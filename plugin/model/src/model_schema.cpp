@@ -13,20 +13,20 @@ constexpr Limit AtLeast(double value) { return {Bound::kClosed, value}; }
 constexpr Limit Below(double value) { return {Bound::kOpen, value}; }
 constexpr Limit AtMost(double value) { return {Bound::kClosed, value}; }
 
-// Uniform solid box about its centre: I = m(a² + b²)/12 over the two sides across the axis
+// Uniform solid block about its centre: I = m(a² + b²)/12 over the two sides across the axis
 // (handbook, from memory).
-double BoxInertia(double mass_kg, double a_m, double b_m) {
+double BlockInertia(double mass_kg, double a_m, double b_m) {
   return mass_kg * (a_m * a_m + b_m * b_m) / 12.0;
 }
 
-double PitchFromBox(const ModelDraft& d) {
-  return BoxInertia(d.model.chassis.mass_kg, d.box_length_m, d.box_height_m);
+double PitchFromBlock(const ModelDraft& d) {
+  return BlockInertia(d.model.chassis.mass_kg, d.block_length_m, d.block_height_m);
 }
-double RollFromBox(const ModelDraft& d) {
-  return BoxInertia(d.model.chassis.mass_kg, d.box_width_m, d.box_height_m);
+double RollFromBlock(const ModelDraft& d) {
+  return BlockInertia(d.model.chassis.mass_kg, d.block_width_m, d.block_height_m);
 }
-double YawFromBox(const ModelDraft& d) {
-  return BoxInertia(d.model.chassis.mass_kg, d.box_length_m, d.box_width_m);
+double YawFromBlock(const ModelDraft& d) {
+  return BlockInertia(d.model.chassis.mass_kg, d.block_length_m, d.block_width_m);
 }
 
 // Uniform disc about its axis: ½ m r² (handbook, from memory).
@@ -44,14 +44,14 @@ double DiameterOfUniformCylinder(const ModelDraft& d) {
 constexpr ElementRule kElementRules[] = {
     {.path = "chassis",
      .meaning = "the body: everything rigidly joined, without wheels or payload"},
-    {.path = "chassis/inertia",
+    {.path = "chassis/principal_moments",
      .occurs = Occurs::kOneOf,
      .group = "chassis inertia",
      .meaning = "principal moments of inertia about the chassis COM"},
-    {.path = "chassis/box",
+    {.path = "chassis/uniform_block",
      .occurs = Occurs::kOneOf,
      .group = "chassis inertia",
-     .meaning = "a uniform solid box centred on the COM, from which the moments follow"},
+     .meaning = "a uniform solid block centred on the COM, from which the moments follow"},
     {.path = "chassis/outline",
      .meaning = "the box whose touching the ground means a fall; also the collision shape"},
     {.path = "wheels", .meaning = "one wheel (both are alike) and the track between them"},
@@ -95,57 +95,57 @@ constexpr FieldRule kFieldRules[] = {
      .unit = "m",
      .field = [](ModelDraft& d) { return &d.model.chassis.com_forward_m; },
      .meaning = "centre of mass ahead of the axle, upright"},
-    // <chassis><inertia>
-    {.element = "chassis/inertia",
+    // <chassis><principal_moments>
+    {.element = "chassis/principal_moments",
      .attribute = "pitch_kgm2",
      .unit = "kg·m²",
      .field = [](ModelDraft& d) { return &d.model.chassis.pitch_inertia_kgm2; },
      .required = true,
-     .derive = PitchFromBox,
-     .default_text = "required; from `<box>` when that is given instead",
+     .derive = PitchFromBlock,
+     .default_text = "required; from `<uniform_block>` when that is given instead",
      .min = Above(0),
      .meaning = "about the body y axis through the COM"},
-    {.element = "chassis/inertia",
+    {.element = "chassis/principal_moments",
      .attribute = "roll_kgm2",
      .unit = "kg·m²",
      .field = [](ModelDraft& d) { return &d.model.chassis.roll_inertia_kgm2; },
      .required = true,
-     .derive = RollFromBox,
-     .default_text = "required; from `<box>` when that is given instead",
+     .derive = RollFromBlock,
+     .default_text = "required; from `<uniform_block>` when that is given instead",
      .min = Above(0),
      .meaning = "about the body x axis through the COM"},
-    {.element = "chassis/inertia",
+    {.element = "chassis/principal_moments",
      .attribute = "yaw_kgm2",
      .unit = "kg·m²",
      .field = [](ModelDraft& d) { return &d.model.chassis.yaw_inertia_kgm2; },
      .required = true,
-     .derive = YawFromBox,
-     .default_text = "required; from `<box>` when that is given instead",
+     .derive = YawFromBlock,
+     .default_text = "required; from `<uniform_block>` when that is given instead",
      .min = Above(0),
      .meaning = "about the body z axis through the COM"},
-    // <chassis><box>
-    {.element = "chassis/box",
+    // <chassis><uniform_block>
+    {.element = "chassis/uniform_block",
      .attribute = "length_m",
      .unit = "m",
-     .field = [](ModelDraft& d) { return &d.box_length_m; },
+     .field = [](ModelDraft& d) { return &d.block_length_m; },
      .required = true,
      .min = Above(0),
      .max = AtMost(10),
      .file_only = true,
      .meaning = "along x; pitch = m(l² + h²)/12, yaw = m(l² + w²)/12"},
-    {.element = "chassis/box",
+    {.element = "chassis/uniform_block",
      .attribute = "width_m",
      .unit = "m",
-     .field = [](ModelDraft& d) { return &d.box_width_m; },
+     .field = [](ModelDraft& d) { return &d.block_width_m; },
      .required = true,
      .min = Above(0),
      .max = AtMost(10),
      .file_only = true,
      .meaning = "along y; roll = m(w² + h²)/12"},
-    {.element = "chassis/box",
+    {.element = "chassis/uniform_block",
      .attribute = "height_m",
      .unit = "m",
-     .field = [](ModelDraft& d) { return &d.box_height_m; },
+     .field = [](ModelDraft& d) { return &d.block_height_m; },
      .required = true,
      .min = Above(0),
      .max = AtMost(10),
@@ -544,14 +544,14 @@ constexpr CrossRule kCrossRules[] = {
               ", " + F(c.outline_front_m) + "], z in [" + F(c.outline_bottom_m) + ", " +
               F(c.outline_top_m) + "])";
      }},
-    {"chassis/inertia",
+    {"chassis/principal_moments",
      "each principal moment ≤ the sum of the other two (true of every rigid body)",
      [](const RobotModel& m) -> Message {
        const double p = m.chassis.pitch_inertia_kgm2;
        const double r = m.chassis.roll_inertia_kgm2;
        const double y = m.chassis.yaw_inertia_kgm2;
        if (p <= r + y && r <= p + y && y <= p + r) return std::nullopt;
-       return "chassis/inertia pitch_kgm2 = " + F(p) + ", roll_kgm2 = " + F(r) +
+       return "chassis/principal_moments pitch_kgm2 = " + F(p) + ", roll_kgm2 = " + F(r) +
               ", yaw_kgm2 = " + F(y) +
               ": each moment must be <= the sum of the other two (no rigid body has these)";
      }},

@@ -12,19 +12,22 @@
 
 namespace upright::internal {
 
-inline constexpr long long kModelSchemaVersion = 1;
+// The root element of a model file and the schema version it states. Schema 2 renamed the root
+// (formerly <robot>) and the chassis inertia elements (formerly <inertia> and <box>).
+inline constexpr std::string_view kModelRootElement = "balancer";
+inline constexpr long long kModelSchemaVersion = 2;
 
 // A latency beyond this many control periods is rejected: it keeps the plant's delay line short,
 // and a value that large is far more likely a unit slip (ms written as s) than a real sensor chain.
 inline constexpr double kMaxLatencyControlPeriods = 50;
 
 // A model while it is being read: the RobotModel plus the fields a file may give that only feed
-// other fields (the chassis box, from which the chassis inertia follows).
+// other fields (the chassis's uniform block, from which the chassis inertia follows).
 struct ModelDraft {
   RobotModel model;
-  double box_length_m = 0;
-  double box_width_m = 0;
-  double box_height_m = 0;
+  double block_length_m = 0;
+  double block_width_m = 0;
+  double block_height_m = 0;
 };
 
 enum class Bound { kNone, kOpen, kClosed };
@@ -41,7 +44,7 @@ enum class Occurs {
 };
 
 struct ElementRule {
-  std::string_view path;  // below <robot>, "chassis/outline"
+  std::string_view path;  // below the root, "chassis/outline"
   Occurs occurs = Occurs::kRequired;
   std::string_view group = {};              // the one-of group, for Occurs::kOneOf
   bool* (*present)(RobotModel&) = nullptr;  // set true when the element is given, if any
@@ -49,14 +52,14 @@ struct ElementRule {
 };
 
 struct FieldRule {
-  std::string_view element;    // path below <robot>
+  std::string_view element;    // path below the root
   std::string_view attribute;  // unit in the name
   std::string_view unit;       // for the documentation
   double* (*field)(ModelDraft&);
   bool required = false;  // must be given when its element is
   double default_value = 0;
   // A default that depends on other fields; also fills a required field whose element is absent
-  // (chassis inertia from the box).
+  // (chassis inertia from the uniform block).
   double (*derive)(const ModelDraft&) = nullptr;
   std::string_view default_text = {};  // how the documentation states a derived default
   Limit min = {};

@@ -34,7 +34,8 @@ std::string DefaultText(const internal::FieldRule& rule) {
 }  // namespace
 
 std::string ModelSchemaMarkdown() {
-  std::string text = "Elements, each at most once, below the root `<robot name=\"...\" schema=\"" +
+  std::string text = "Elements, each at most once, below the root `<" +
+                     std::string(internal::kModelRootElement) + " name=\"...\" schema=\"" +
                      std::to_string(internal::kModelSchemaVersion) + "\">`:\n\n";
   text += "| element | occurs | meaning |\n| --- | --- | --- |\n";
   for (const internal::ElementRule& rule : internal::ElementRules()) {

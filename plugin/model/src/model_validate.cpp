@@ -9,7 +9,9 @@ namespace upright {
 std::vector<std::string> ValidateModel(const RobotModel& model) {
   internal::ModelDraft draft{.model = model};
   std::vector<std::string> problems;
-  if (model.name.empty()) problems.push_back("robot name = '': must not be empty");
+  if (model.name.empty()) {
+    problems.push_back(std::string(internal::kModelRootElement) + " name = '': must not be empty");
+  }
   for (const internal::FieldRule& rule : internal::FieldRules()) {
     if (rule.file_only) continue;
     const internal::ElementRule* element = internal::FindElementRule(rule.element);

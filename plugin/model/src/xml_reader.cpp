@@ -364,4 +364,12 @@ std::vector<XmlElement> XmlElement::Children(std::span<const std::string_view> n
   return found;
 }
 
+std::vector<XmlElement> XmlElement::Peek(std::string_view name) const {
+  std::vector<XmlElement> found;
+  for (const std::size_t child_index : tree_->nodes[index_].children) {
+    if (tree_->nodes[child_index].name == name) found.push_back(XmlElement(tree_, child_index));
+  }
+  return found;
+}
+
 }  // namespace upright

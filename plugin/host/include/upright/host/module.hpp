@@ -33,8 +33,8 @@ class Module {
 
 // The built-in module names, and the file each loads from: the first of `search_dirs` holding
 // "upright_<name>.so". DefaultModuleDirs() lists, in order: $UPRIGHT_MODULE_DIR, "modules" beside
-// the running program, "../lib/upright/modules" from it (an installed tree), and the build tree's
-// module folder.
+// the running program, the installed module folder relative to it (../lib/upright/modules by
+// default), and the build tree's module folder.
 const std::vector<std::string>& BuiltinModuleNames();
 std::vector<std::string> DefaultModuleDirs();
 // The path of built-in `name`, or "" with *error listing where it looked.

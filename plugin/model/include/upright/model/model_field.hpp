@@ -1,6 +1,6 @@
 // One numeric field of a RobotModel addressed the way a model file writes it — an element path
-// below <robot> and an attribute ("chassis", "mass_kg") — read or set through the same schema table
-// the loader uses. Envelopes and Monte Carlo sweeps vary robot parameters through it.
+// below the root and an attribute ("chassis", "mass_kg") — read or set through the same schema
+// table the loader uses. Envelopes and Monte Carlo sweeps vary robot parameters through it.
 #pragma once
 
 #include <string>

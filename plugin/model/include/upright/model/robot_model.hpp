@@ -22,6 +22,8 @@ struct ChassisModel {
   double outline_bottom_m = 0; // z of the bottom face, may be negative (below the axle)
   double outline_top_m = 0;    // z of the top face
   double outline_width_m = 0;  // extent along y, centred
+  // Field by field, exactly.
+  friend bool operator==(const ChassisModel&, const ChassisModel&) = default;
 };
 
 // One wheel (both are alike) and the axle.
@@ -34,6 +36,8 @@ struct WheelModel {
   double track_m = 0;                // distance between the two wheel mid-planes
   double friction = 0;               // tyre–ground Coulomb coefficient on dry ground
   double rolling_resistance = 0;     // coefficient C_rr: resisting torque C_rr · N · r
+  // Field by field, exactly.
+  friend bool operator==(const WheelModel&, const WheelModel&) = default;
 };
 
 // One DC motor with its gearbox (one per wheel, both alike). Inductance is neglected.
@@ -47,6 +51,8 @@ struct MotorModel {
   double current_limit_A = 0;                 // the drive's current limit magnitude
   double viscous_friction_Nm_s_per_rad = 0;   // at the wheel, per rad/s relative to the chassis
   double coulomb_friction_Nm = 0;             // at the wheel
+  // Field by field, exactly.
+  friend bool operator==(const MotorModel&, const MotorModel&) = default;
 };
 
 // The inertial measurement unit and the wheel encoders.
@@ -61,6 +67,8 @@ struct SensorModel {
   double accel_resolution_m_s2 = 0;     // quantisation step, 0 = none
   double encoder_counts_per_rev = 0;    // counts per wheel revolution (whole number)
   double latency_s = 0;                 // from measurement to the controller's input
+  // Field by field, exactly.
+  friend bool operator==(const SensorModel&, const SensorModel&) = default;
 };
 
 // An optional payload box that slides along the deck (body x) on a driven carriage.
@@ -72,6 +80,8 @@ struct PayloadModel {
   double z_m = 0;       // height of its centre above the axle
   double min_x_m = 0;   // rear travel limit of its centre
   double max_x_m = 0;   // front travel limit of its centre
+  // Field by field, exactly.
+  friend bool operator==(const PayloadModel&, const PayloadModel&) = default;
 };
 
 struct RobotModel {
@@ -87,6 +97,8 @@ struct RobotModel {
   double total_mass_kg() const {
     return chassis.mass_kg + 2 * wheel.mass_kg + (payload.present ? payload.mass_kg : 0.0);
   }
+  // Field by field, exactly (the name too).
+  friend bool operator==(const RobotModel&, const RobotModel&) = default;
 };
 
 }  // namespace upright

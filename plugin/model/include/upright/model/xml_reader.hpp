@@ -90,6 +90,9 @@ class XmlElement {
   // Every child element whose name is one of `names`, in file order across the names (for a
   // sequence of mixed kinds); each name counts as asked for.
   std::vector<XmlElement> Children(std::span<const std::string_view> names);
+  // Every child element called `name`, in file order, without asking for it (ReportUnread still
+  // calls each one unknown): for spotting a name a file may no longer use, to say what replaced it.
+  std::vector<XmlElement> Peek(std::string_view name) const;
 
  private:
   friend class XmlDocument;

@@ -1,0 +1,36 @@
+# Builds the example module with the README's CMake snippet for out-of-tree modules, word for word
+# but for the source file, against the upright installed in PREFIX, and links it with
+# --no-undefined: the snippet must link everything a module needs (the example calls libm).
+foreach(var README SOURCE PREFIX SNIPPET_BUILD)
+  if(NOT DEFINED ${var})
+    message(FATAL_ERROR "readme_snippet.cmake needs -D${var}=...")
+  endif()
+endforeach()
+
+function(run what)
+  execute_process(COMMAND ${ARGN} RESULT_VARIABLE result OUTPUT_VARIABLE out ERROR_VARIABLE out)
+  if(result)
+    message(FATAL_ERROR "${what} failed (${result}):\n${out}")
+  endif()
+  message(STATUS "${what}: ok")
+endfunction()
+
+file(READ ${README} readme)
+string(FIND "${readme}" "```cmake\nfind_package(upright" start)
+if(start EQUAL -1)
+  message(FATAL_ERROR "${README}: no ```cmake block starting with find_package(upright")
+endif()
+math(EXPR start "${start} + 9")
+string(SUBSTRING "${readme}" ${start} -1 snippet)
+string(FIND "${snippet}" "```" end)
+string(SUBSTRING "${snippet}" 0 ${end} snippet)
+string(REPLACE "my_controller.c" "${SOURCE}/gain_scheduled_pd.c" snippet "${snippet}")
+
+file(REMOVE_RECURSE ${SNIPPET_BUILD})
+file(WRITE ${SNIPPET_BUILD}/src/CMakeLists.txt
+     "cmake_minimum_required(VERSION 3.25)\nproject(readme_snippet LANGUAGES C)\n${snippet}")
+run("configure the README's snippet" ${CMAKE_COMMAND} -S ${SNIPPET_BUILD}/src
+    -B ${SNIPPET_BUILD}/build -DCMAKE_PREFIX_PATH=${PREFIX} -DCMAKE_BUILD_TYPE=Release
+    -DCMAKE_MODULE_LINKER_FLAGS=-Wl,--no-undefined)
+run("build the example with it, no symbol left undefined" ${CMAKE_COMMAND}
+    --build ${SNIPPET_BUILD}/build)
