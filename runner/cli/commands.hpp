@@ -14,8 +14,9 @@ inline constexpr int kExitOk = 0;
 inline constexpr int kExitFailed = 1;
 inline constexpr int kExitBadInput = 2;
 
-// `upright check FILE...`: validates robot model and scenario files (by their root element);
-// prints every problem as path:line.
+// `upright check FILE...`: validates robot model and scenario files (by their root element; a
+// folder: its .xml files), and creates each scenario controller as a run would; prints every
+// problem as path:line.
 int RunCheck(const std::vector<std::string>& files);
 
 struct DesignOptions {

@@ -223,6 +223,106 @@ TEST(Cli, CheckAcceptsEveryDemoScenario) {
       << r.output;
 }
 
+// A controller element the short scenario ends with: it lands on line 10.
+constexpr int kExtraControllerLine = 10;
+
+// `upright check` on the short scenario with `extra` controllers: exit 2 and one problem, at the
+// first extra controller's line, whose message starts with `message`.
+void ExpectCheckRefusesController(const std::string& name, const std::string& extra,
+                                  const std::string& message) {
+  const std::string path = ShortScenario(name, extra);
+  const Result r = RunUpright("check " + path);
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  const std::string problem = path + ":" + std::to_string(kExtraControllerLine) + ": " + message;
+  EXPECT_EQ(r.output.substr(0, problem.size()), problem);
+  const std::string last = "\n1 of 1 file(s) invalid\n";
+  ASSERT_GE(r.output.size(), last.size());
+  EXPECT_EQ(r.output.find('\n'), r.output.size() - last.size()) << "one problem only:\n"
+                                                                << r.output;
+}
+
+TEST(Cli, CheckRefusesAMisspeltBuiltinSettingAsARunWould) {
+  ExpectCheckRefusesController("typo", R"(
+    <controller name="lqr-typo" builtin="lqr">
+      <setting key="max_tilt" value="10"/>
+    </controller>)",
+                               "controller 'lqr-typo': create failed (status 2): unknown key "
+                               "max_tilt (= 10); known keys: state, input, ");
+}
+
+TEST(Cli, CheckRefusesABadBuiltinSettingValue) {
+  ExpectCheckRefusesController("badvalue", R"(
+    <controller name="pid-slow" builtin="pid">
+      <setting key="input" value="voltage"/>
+    </controller>)",
+                               "controller 'pid-slow': create failed (status 2): input = voltage: "
+                               "this controller commands torque only");
+}
+
+TEST(Cli, CheckRefusesAModuleFileThatRefusesItsSettings) {
+  const std::string module = std::string(UPRIGHT_TEST_MODULE_DIR) + "/faulty_5.so";
+  ExpectCheckRefusesController("refusing", R"(
+    <controller name="mine" file=")" + module + R"("/>)",
+                               "controller 'mine': create failed (status 2): gain = banana: must "
+                               "be a number");
+}
+
+TEST(Cli, CheckRefusesAModuleFileThatWillNotLoad) {
+  const std::string module = std::string(UPRIGHT_TEST_MODULE_DIR) + "/faulty_3.so";
+  const std::string why =
+      ": built for controller ABI version 99, this program speaks version 1; rebuild it against "
+      "this version's upright/controller_abi.h";
+  ExpectCheckRefusesController("unloadable", R"(
+    <controller name="mine" file=")" + module + R"("/>)",
+                               "controller 'mine': " + module + why);
+}
+
+TEST(Cli, CheckRefusesAMissingModuleFile) {
+  ExpectCheckRefusesController("missing-module", R"(
+    <controller name="mine" file="/nonexistent/mine.so"/>)",
+                               "controllers/controller file = '/nonexistent/mine.so': no such "
+                               "file (resolved to '/nonexistent/mine.so')");
+}
+
+TEST(Cli, CheckRefusesAModelWhoseImuMissesTheDefaultStep) {
+  const std::string bad =
+      BrokenCopy("courier.xml", R"(<imu rate_hz="1000")", R"(<imu rate_hz="400")");
+  const Result r = RunUpright("check " + bad);
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find(bad + ":32: sensors/imu rate_hz = 400: its period is 2.5 physics "
+                                "steps of the default dt_s = 0.001 s"),
+            std::string::npos)
+      << r.output;
+}
+
+TEST(Cli, CheckOfAFolderChecksItsXmlFilesOnly) {
+  namespace fs = std::filesystem;
+  const auto folder = TempOut("folder");
+  fs::create_directories(folder / "sub");
+  fs::copy_file(Models() + "tabletop.xml", folder / "b.xml");
+  fs::copy_file(BrokenCopy("courier.xml", "mass_kg=\"24\"", "mass_kg=\"-24\""), folder / "a.xml");
+  std::ofstream(folder / "notes.txt") << "not a model\n";
+  fs::copy_file(Models() + "tabletop.xml", folder / "sub" / "c.xml");  // not looked into
+  const Result r = RunUpright("check " + folder.string());
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find((folder / "a.xml").string() + ":22: chassis mass_kg = -24"),
+            std::string::npos)
+      << r.output;
+  EXPECT_NE(r.output.find((folder / "b.xml").string() + ": ok (robot model 'tabletop')\n"),
+            std::string::npos)
+      << r.output;
+  EXPECT_EQ(r.output.find("c.xml"), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find("1 of 2 file(s) invalid"), std::string::npos) << r.output;
+
+  const auto empty = TempOut("empty-folder");
+  fs::create_directories(empty);
+  const Result none = RunUpright("check " + empty.string());
+  EXPECT_EQ(none.exit_code, 2) << none.output;
+  EXPECT_EQ(none.output, empty.string() +
+                             ": a folder with no .xml files (expected robot model or scenario "
+                             "files, or a folder of them)\n1 of 1 file(s) invalid\n");
+}
+
 TEST(Cli, RunWritesEveryResultFileAndSaysWhere) {
   const auto out = TempOut("run");
   const Result r = RunUpright("run " + ShortScenario("short") + " --out " + out.string() +

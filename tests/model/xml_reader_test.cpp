@@ -233,21 +233,71 @@ TEST(XmlReader, ChildrenOfSeveralNamesCountEveryNameAsAskedEvenWhenAbsent) {
                                                   "of: up, flat, down, friction)"}));
 }
 
-TEST(XmlReader, ReportsMalformedXmlAtParserLine) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <a/>\n  <b x=\"1/>\n</r>", "t.xml");
-  EXPECT_FALSE(doc.parsed());
-  const std::vector<FileError> errors = doc.errors();
-  ASSERT_EQ(errors.size(), 1u);
-  EXPECT_EQ(errors[0].line, 3);
-  EXPECT_EQ(errors[0].message.rfind("malformed XML: XML_ERROR_PARSING_ATTRIBUTE", 0), 0u)
-      << errors[0].message;
+// The one problem of a text that is not well-formed XML, as path:line: message.
+std::vector<std::string> Malformed(std::string_view text) {
+  const XmlDocument doc = XmlDocument::Parse(text, "t.xml");
+  EXPECT_FALSE(doc.parsed()) << text;
+  return Texts(doc);
+}
+
+using Lines = std::vector<std::string>;
+
+TEST(XmlReader, SaysInWordsWhatIsWrongWithAnAttribute) {
+  EXPECT_EQ(Malformed("<r>\n  <a/>\n  <b x=\"1/>\n</r>"),
+            Lines{"t.xml:3: malformed XML: the value of attribute 'x' has no closing quote"});
+  EXPECT_EQ(Malformed("<r>\n  <a x=1/>\n</r>"),
+            Lines{"t.xml:2: malformed XML: the value of attribute 'x' is missing its quotes "
+                  "(expected x=\"...\")"});
+  EXPECT_EQ(Malformed("<r>\n  <a x/>\n</r>"),
+            Lines{"t.xml:2: malformed XML: attribute 'x' has no value (expected x=\"...\")"});
+  // A tag over several lines: the line is the repeated attribute's.
+  EXPECT_EQ(Malformed("<r>\n  <a x=\"1\"\n     y=\"2\" x=\"3\"/>\n</r>"),
+            Lines{"t.xml:3: malformed XML: attribute 'x' is given twice in <a>"});
+}
+
+TEST(XmlReader, SaysInWordsWhatIsWrongWithAnElement) {
+  EXPECT_EQ(Malformed("<r>\n  <a>\n</r>"),
+            Lines{"t.xml:2: malformed XML: mismatched closing tag: the element <a> opened on this "
+                  "line is closed by another element's closing tag (expected </a>, or <a .../> "
+                  "for an element with no content)"});
+  EXPECT_EQ(Malformed("<r>\n  <a/>\n"),
+            Lines{"t.xml:1: malformed XML: an element opened on this line is not closed before "
+                  "the end of the file"});
+  EXPECT_EQ(Malformed("<r>\n  <1a/>\n</r>"),
+            Lines{"t.xml:2: malformed XML: a '<' here starts no element name (write &lt; for a "
+                  "'<' in text)"});
+  EXPECT_EQ(Malformed("<r>\n  <a x=\"1\" / >\n</r>"),
+            Lines{"t.xml:2: malformed XML: a tag is not ended properly (expected attributes as "
+                  "name=\"value\", then '>' or '/>')"});
+  EXPECT_EQ(Malformed("<r/>\ntrailing"),
+            Lines{"t.xml:2: malformed XML: text runs on to the end of the file (an element is not "
+                  "closed)"});
+}
+
+TEST(XmlReader, SaysInWordsWhatIsNotClosed) {
+  EXPECT_EQ(Malformed("<r>\n  <!-- a note\n</r>"),
+            Lines{"t.xml:2: malformed XML: a comment is not closed (expected -->)"});
+  EXPECT_EQ(Malformed("<r>\n  <![CDATA[ abc\n</r>"),
+            Lines{"t.xml:2: malformed XML: a CDATA section is not closed (expected ]]>)"});
+  EXPECT_EQ(Malformed("<?xml version=\"1.0\"\n<r/>"),
+            Lines{"t.xml:1: malformed XML: a declaration <?...?> is not closed (expected ?>)"});
 }
 
 TEST(XmlReader, ReportsEmptyDocument) {
-  XmlDocument doc = XmlDocument::Parse("", "t.xml");
-  EXPECT_FALSE(doc.parsed());
-  ASSERT_EQ(doc.errors().size(), 1u);
-  EXPECT_EQ(doc.errors()[0].ToString(), "t.xml: malformed XML: XML_ERROR_EMPTY_DOCUMENT");
+  EXPECT_EQ(Malformed(""), Lines{"t.xml: malformed XML: the file is empty (expected one root "
+                                 "element)"});
+  EXPECT_EQ(Malformed(" \n\t\n"), Lines{"t.xml: malformed XML: the file is empty (expected one "
+                                        "root element)"});
+}
+
+TEST(XmlReader, ReportsElementsNestedTooDeep) {
+  std::string deep;
+  for (int i = 0; i < 200; ++i) deep += "<a>\n";
+  const Lines errors = Malformed(deep);
+  ASSERT_EQ(errors.size(), 1u);
+  EXPECT_NE(errors[0].find(": malformed XML: elements are nested more than 100 deep"),
+            std::string::npos)
+      << errors[0];
 }
 
 TEST(XmlReader, ReportsSecondTopLevelElement) {

@@ -13,6 +13,9 @@
 #include <utility>
 #include <vector>
 
+#include "upright/model/model_file.hpp"
+#include "upright/sim/plant.hpp"
+
 namespace upright::runner {
 namespace {
 
@@ -81,9 +84,9 @@ std::string Controllers(std::string_view controllers) { return Edit(kControllerL
 std::string Tail(std::string_view element) {
   return Edit("</scenario>", std::string(element) + "\n</scenario>");
 }
-// The base with the root's run settings replaced.
-std::string Root(std::string_view settings) {
-  return Edit(R"(duration_s="8" dt_s="0.001")", settings);
+// The base (or `text`) with the root's run settings replaced.
+std::string Root(std::string_view settings, std::string_view text = kBase) {
+  return Edit(R"(duration_s="8" dt_s="0.001")", settings, text);
 }
 
 void WriteFile(const fs::path& path, std::string_view text) {
@@ -165,6 +168,7 @@ TEST_F(ScenarioFileTest, ParsesMinimalFileWithDefaults) {
   EXPECT_TRUE(s.controllers[0].config.empty());
   EXPECT_EQ(s.controllers[0].rate_hz, 0);
   EXPECT_FALSE(s.controllers[0].true_state);
+  EXPECT_EQ(s.controllers[0].line, 8);
   EXPECT_EQ(s.baseline, 0u);
   EXPECT_EQ(s.seeds, (std::vector<std::uint64_t>{1}));
   const MetricSettings defaults;
@@ -479,12 +483,39 @@ TEST_F(ScenarioFileTest, RequiresDurationOfWholeSteps) {
 
 TEST_F(ScenarioFileTest, RequiresTimeStepUpToTenMilliseconds) {
   EXPECT_EQ(Errors(Root(R"(duration_s="8" dt_s="0.02")")),
-            Lines{"t.xml:1: scenario dt_s = 0.02: must be in (0, 0.01]"});
+            Lines{"t.xml:1: scenario dt_s = 0.02: must be in (0, 0.01]; the field is in seconds: "
+                  "0.02 ms is 0.00002"});
   EXPECT_EQ(Errors(Root(R"(duration_s="8" dt_s="0")")),
             Lines{"t.xml:1: scenario dt_s = 0: must be in (0, 0.01]"});
   const ScenarioLoadResult result = Parse(Root(R"(duration_s="8")"));
   ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
   EXPECT_EQ(result.scenario.dt_s, 0.001);  // default
+}
+
+TEST_F(ScenarioFileTest, HintsThatATimeStepTooLongIsInSeconds) {
+  EXPECT_EQ(Errors(Root(R"(duration_s="8" dt_s="1")")),
+            Lines{"t.xml:1: scenario dt_s = 1: must be in (0, 0.01]; the field is in seconds: 1 "
+                  "ms is 0.001"});
+}
+
+TEST_F(ScenarioFileTest, DefaultStepIsTheOneModelFilesAreCheckedAgainst) {
+  EXPECT_EQ(Scenario{}.dt_s, kDefaultPhysicsStep_s);
+  EXPECT_EQ(sim::PlantOptions{}.dt_s, kDefaultPhysicsStep_s);
+}
+
+TEST_F(ScenarioFileTest, ChecksTheRobotRatesAgainstItsOwnStep) {
+  // An IMU at 400 Hz: 2.5 steps of the default 1 ms, which a model file alone is refused for;
+  // 5 steps of a scenario's own 0.5 ms.
+  std::string robot(kTestRobot);
+  robot.replace(robot.find(R"(<imu rate_hz="500")"), 18, R"(<imu rate_hz="400")");
+  WriteFile(dir_ / "robot400.xml", robot);
+  const std::string scenario = Edit("robot.xml", "robot400.xml");
+  const ScenarioLoadResult own = Parse(Root(R"(duration_s="8" dt_s="0.0005")", scenario));
+  EXPECT_TRUE(own.ok()) << own.errors[0].ToString();
+  EXPECT_EQ(Errors(scenario),
+            Lines{"t.xml:1: scenario dt_s = 0.001: the IMU period of robot 'testbot' "
+                  "(robot400.xml) (imu rate_hz = 400) must be a whole number of physics steps, or "
+                  "the IMU at least as fast as the physics"});
 }
 
 TEST_F(ScenarioFileTest, RequiresRobotRatesOfWholeSteps) {
@@ -786,6 +817,11 @@ TEST_F(ScenarioFileTest, RejectsPayloadTargetBeyondTheTravel) {
     <payload_shift at_s="2" distance_m="0.1"/>
     <payload_shift at_s="3" distance_m="0.1"/>)"))
                   .ok());
+  // Just past the limit: the target is printed exactly, not rounded back onto the limit.
+  EXPECT_EQ(Errors(Events(R"(    <payload_shift at_s="1" distance_m="0.1000001"/>)")),
+            Lines{"t.xml:5: timeline/payload_shift distance_m = 0.1000001: the carriage target "
+                  "reaches 0.1000001 m at t = 1 s, outside the travel [-0.1, 0.1]" +
+                  rule});
 }
 
 TEST_F(ScenarioFileTest, ChecksPayloadShiftFields) {

@@ -94,6 +94,17 @@ TEST(ScenarioParameter, RefusesWhatTheScenarioCannotHoldAndLeavesItUnchanged) {
   EXPECT_EQ(error, "timeline/push[1].at_s = 6: push at_s = 6: must be in [0, 6)");
   EXPECT_FALSE(SetScenarioParameter(&s, "timeline/payload_shift[1].distance_m", 0.5, &error));
   EXPECT_NE(error.find("outside the carriage travel [-0.15, 0.15] m"), std::string::npos) << error;
+  // Just past the travel, the target is printed exactly, not rounded back onto the limit; exactly
+  // on it is accepted.
+  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/payload_shift[1].distance_m", 0.1500001, &error));
+  EXPECT_EQ(
+      error,
+      "timeline/payload_shift[1].distance_m = 0.1500001: the payload target reaches 0.1500001 m "
+      "at 2.2 s, outside the carriage travel [-0.15, 0.15] m");
+  Scenario on_limit = original;
+  EXPECT_TRUE(SetScenarioParameter(&on_limit, "timeline/payload_shift[1].distance_m", 0.15, &error))
+      << error;
+  EXPECT_TRUE(SetScenarioParameter(&on_limit, "timeline/push[1].height_m", 0.65, &error)) << error;
   EXPECT_FALSE(SetScenarioParameter(&s, "timeline/push[1].height_m", 0.9, &error));
   EXPECT_EQ(error,
             "timeline/push[1].height_m = 0.9: push height_m = 0.9: must be within the chassis "

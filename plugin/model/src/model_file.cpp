@@ -163,7 +163,7 @@ int LineOf(std::string_view path, const FoundElements& found, int root_line) {
   return root_line;
 }
 
-ModelLoadResult Load(XmlDocument doc) {
+ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
   ModelLoadResult result;
   if (!doc.parsed()) {
     result.errors = doc.errors();
@@ -204,6 +204,13 @@ ModelLoadResult Load(XmlDocument doc) {
       }
     }
   }
+  if (!doc.HasErrors() && options.check_default_step) {
+    for (const internal::StepRule& rule : internal::StepRules()) {
+      if (std::optional<std::string> problem = rule.check(draft.model)) {
+        doc.AddError(LineOf(rule.element, found, root.line()), *problem);
+      }
+    }
+  }
   doc.ReportUnread();
   result.errors = doc.errors();
   if (result.ok()) result.model = draft.model;
@@ -212,10 +219,13 @@ ModelLoadResult Load(XmlDocument doc) {
 
 }  // namespace
 
-ModelLoadResult LoadModelFile(const std::string& path) { return Load(XmlDocument::Open(path)); }
+ModelLoadResult LoadModelFile(const std::string& path, const ModelLoadOptions& options) {
+  return Load(XmlDocument::Open(path), options);
+}
 
-ModelLoadResult ParseModelText(std::string_view xml_text, const std::string& path) {
-  return Load(XmlDocument::Parse(xml_text, path));
+ModelLoadResult ParseModelText(std::string_view xml_text, const std::string& path,
+                               const ModelLoadOptions& options) {
+  return Load(XmlDocument::Parse(xml_text, path), options);
 }
 
 }  // namespace upright

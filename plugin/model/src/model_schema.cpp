@@ -1,9 +1,14 @@
 #include "model_schema.hpp"
 
+#include <algorithm>
 #include <charconv>
 #include <cmath>
+#include <cstdio>
 
+#include "upright/model/edge_compare.hpp"
+#include "upright/model/model_file.hpp"
 #include "upright/model/number_text.hpp"
+#include "upright/model/seconds_hint.hpp"
 
 namespace upright::internal {
 namespace {
@@ -502,30 +507,41 @@ using Message = std::optional<std::string>;
 
 std::string F(double value) { return NumberText(value); }
 
+// Geometric comparisons of file values (edge_compare.hpp): the scale is the sum of the magnitudes
+// that enter the comparison, so a value exactly on an edge is judged as on it despite rounding.
+bool AtMost(double value, double limit) {
+  return NoMoreThan(value, limit, std::abs(value) + std::abs(limit));
+}
+bool Under(double value, double limit) {
+  return LessThan(value, limit, std::abs(value) + std::abs(limit));
+}
+// lo <= value <= hi.
+bool Within(double lo, double value, double hi) { return AtMost(lo, value) && AtMost(value, hi); }
+
 // Rules that place things inside the outline wait until the outline itself is right, so that one
 // slip gives one message.
 bool OutlineIsBox(const ChassisModel& c) {
-  return c.outline_front_m > c.outline_rear_m && c.outline_top_m > c.outline_bottom_m;
+  return Under(c.outline_rear_m, c.outline_front_m) && Under(c.outline_bottom_m, c.outline_top_m);
 }
 
 constexpr CrossRule kCrossRules[] = {
     {"chassis/outline", "`front_m` > `rear_m`",
      [](const RobotModel& m) -> Message {
        const ChassisModel& c = m.chassis;
-       if (c.outline_front_m > c.outline_rear_m) return std::nullopt;
+       if (Under(c.outline_rear_m, c.outline_front_m)) return std::nullopt;
        return "chassis/outline front_m = " + F(c.outline_front_m) +
               ", rear_m = " + F(c.outline_rear_m) + ": front_m must be > rear_m";
      }},
     {"chassis/outline", "`top_m` > `bottom_m`",
      [](const RobotModel& m) -> Message {
        const ChassisModel& c = m.chassis;
-       if (c.outline_top_m > c.outline_bottom_m) return std::nullopt;
+       if (Under(c.outline_bottom_m, c.outline_top_m)) return std::nullopt;
        return "chassis/outline top_m = " + F(c.outline_top_m) +
               ", bottom_m = " + F(c.outline_bottom_m) + ": top_m must be > bottom_m";
      }},
     {"chassis/outline", "`bottom_m` > −`wheels radius_m`: the chassis clears the ground upright",
      [](const RobotModel& m) -> Message {
-       if (m.chassis.outline_bottom_m > -m.wheel.radius_m) return std::nullopt;
+       if (Under(-m.wheel.radius_m, m.chassis.outline_bottom_m)) return std::nullopt;
        return "chassis/outline bottom_m = " + F(m.chassis.outline_bottom_m) +
               ": must be > -(wheels radius_m) = " + F(-m.wheel.radius_m) +
               " so the chassis clears the ground when upright";
@@ -534,8 +550,8 @@ constexpr CrossRule kCrossRules[] = {
      [](const RobotModel& m) -> Message {
        const ChassisModel& c = m.chassis;
        if (!OutlineIsBox(c)) return std::nullopt;
-       if (c.com_forward_m >= c.outline_rear_m && c.com_forward_m <= c.outline_front_m &&
-           c.com_height_m >= c.outline_bottom_m && c.com_height_m <= c.outline_top_m) {
+       if (Within(c.outline_rear_m, c.com_forward_m, c.outline_front_m) &&
+           Within(c.outline_bottom_m, c.com_height_m, c.outline_top_m)) {
          return std::nullopt;
        }
        return "chassis com_forward_m = " + F(c.com_forward_m) +
@@ -550,14 +566,17 @@ constexpr CrossRule kCrossRules[] = {
        const double p = m.chassis.pitch_inertia_kgm2;
        const double r = m.chassis.roll_inertia_kgm2;
        const double y = m.chassis.yaw_inertia_kgm2;
-       if (p <= r + y && r <= p + y && y <= p + r) return std::nullopt;
+       const double sum = p + r + y;  // the scale of each comparison
+       if (NoMoreThan(p, r + y, sum) && NoMoreThan(r, p + y, sum) && NoMoreThan(y, p + r, sum)) {
+         return std::nullopt;
+       }
        return "chassis/principal_moments pitch_kgm2 = " + F(p) + ", roll_kgm2 = " + F(r) +
               ", yaw_kgm2 = " + F(y) +
               ": each moment must be <= the sum of the other two (no rigid body has these)";
      }},
     {"wheels", "`width_m` < `track_m`",
      [](const RobotModel& m) -> Message {
-       if (m.wheel.width_m < m.wheel.track_m) return std::nullopt;
+       if (Under(m.wheel.width_m, m.wheel.track_m)) return std::nullopt;
        return "wheels width_m = " + F(m.wheel.width_m) + ", track_m = " + F(m.wheel.track_m) +
               ": width_m must be < track_m";
      }},
@@ -565,7 +584,7 @@ constexpr CrossRule kCrossRules[] = {
      [](const RobotModel& m) -> Message {
        const double spin = m.wheel.spin_inertia_kgm2;
        const double diameter = m.wheel.diameter_inertia_kgm2;
-       if (spin <= 2 * diameter) return std::nullopt;
+       if (AtMost(spin, 2 * diameter)) return std::nullopt;
        return "wheels spin_inertia_kgm2 = " + F(spin) + ", diameter_inertia_kgm2 = " + F(diameter) +
               ": spin_inertia_kgm2 must be <= 2 * diameter_inertia_kgm2 (no rigid wheel has "
               "these)";
@@ -573,18 +592,19 @@ constexpr CrossRule kCrossRules[] = {
     {"sensors", "`latency_s` < 50 control periods (50 / `control rate_hz`)",
      [](const RobotModel& m) -> Message {
        const double bound_s = kMaxLatencyControlPeriods / m.control_rate_hz;
-       if (m.sensors.latency_s < bound_s) return std::nullopt;
+       if (Under(m.sensors.latency_s, bound_s)) return std::nullopt;
        return "sensors latency_s = " + F(m.sensors.latency_s) + ": must be < " +
-              F(kMaxLatencyControlPeriods) + " control periods = " + F(bound_s) + " s";
+              F(kMaxLatencyControlPeriods) + " control periods = " + F(bound_s) + " s; " +
+              SecondsHint(m.sensors.latency_s);
      }},
     {"sensors/imu", "the IMU position lies inside the outline",
      [](const RobotModel& m) -> Message {
        const ChassisModel& c = m.chassis;
        const SensorModel& s = m.sensors;
        if (!OutlineIsBox(c)) return std::nullopt;
-       if (s.imu_x_m >= c.outline_rear_m && s.imu_x_m <= c.outline_front_m &&
-           std::abs(s.imu_y_m) <= 0.5 * c.outline_width_m && s.imu_z_m >= c.outline_bottom_m &&
-           s.imu_z_m <= c.outline_top_m) {
+       if (Within(c.outline_rear_m, s.imu_x_m, c.outline_front_m) &&
+           AtMost(std::abs(s.imu_y_m), 0.5 * c.outline_width_m) &&
+           Within(c.outline_bottom_m, s.imu_z_m, c.outline_top_m)) {
          return std::nullopt;
        }
        return "sensors/imu x_m = " + F(s.imu_x_m) + ", y_m = " + F(s.imu_y_m) +
@@ -602,7 +622,7 @@ constexpr CrossRule kCrossRules[] = {
     {"payload", "`min_x_m` ≤ `x_m` ≤ `max_x_m`",
      [](const RobotModel& m) -> Message {
        const PayloadModel& p = m.payload;
-       if (!p.present || (p.min_x_m <= p.x_m && p.x_m <= p.max_x_m)) return std::nullopt;
+       if (!p.present || Within(p.min_x_m, p.x_m, p.max_x_m)) return std::nullopt;
        return "payload min_x_m = " + F(p.min_x_m) + ", x_m = " + F(p.x_m) +
               ", max_x_m = " + F(p.max_x_m) + ": must be min_x_m <= x_m <= max_x_m";
      }},
@@ -613,8 +633,11 @@ constexpr CrossRule kCrossRules[] = {
        const PayloadModel& p = m.payload;
        const double rear_end_m = p.min_x_m - 0.5 * p.length_m;
        const double front_end_m = p.max_x_m + 0.5 * p.length_m;
+       const double half_m = 0.5 * p.length_m;
+       const double rear_m = m.chassis.outline_rear_m, front_m = m.chassis.outline_front_m;
        if (!p.present || !OutlineIsBox(m.chassis) ||
-           (rear_end_m >= m.chassis.outline_rear_m && front_end_m <= m.chassis.outline_front_m)) {
+           (NoMoreThan(rear_m, rear_end_m, std::abs(p.min_x_m) + half_m + std::abs(rear_m)) &&
+            NoMoreThan(front_end_m, front_m, std::abs(p.max_x_m) + half_m + std::abs(front_m)))) {
          return std::nullopt;
        }
        return "payload min_x_m = " + F(p.min_x_m) + ", max_x_m = " + F(p.max_x_m) +
@@ -626,11 +649,60 @@ constexpr CrossRule kCrossRules[] = {
      [](const RobotModel& m) -> Message {
        const PayloadModel& p = m.payload;
        const double underside_m = p.z_m - 0.5 * p.height_m;
-       if (!p.present || !OutlineIsBox(m.chassis) || underside_m >= m.chassis.outline_bottom_m)
+       const double bottom_m = m.chassis.outline_bottom_m;
+       if (!p.present || !OutlineIsBox(m.chassis) ||
+           NoMoreThan(bottom_m, underside_m,
+                      std::abs(p.z_m) + 0.5 * p.height_m + std::abs(bottom_m))) {
          return std::nullopt;
+       }
        return "payload z_m = " + F(p.z_m) + ", height_m = " + F(p.height_m) +
               ": the box underside at z = " + F(underside_m) +
               " must be >= chassis/outline bottom_m = " + F(m.chassis.outline_bottom_m);
+     }},
+};
+
+// The plant samples the IMU, and the controller host runs the controller, every whole number of
+// physics steps; both refuse a period off a whole number by 1e-6 of itself or more (so here too).
+double StepsAtDefault(double rate_hz) { return 1 / (rate_hz * kDefaultPhysicsStep_s); }
+bool IsWholeSteps(double steps) { return std::abs(steps - std::round(steps)) < 1e-6 * steps; }
+// The rate whose period is n default physics steps, and how a message offers it.
+std::string RateOfSteps(double n) {
+  return F(1 / (n * kDefaultPhysicsStep_s)) + " would work (" + F(n) +
+         (n == 1 ? " step)" : " steps)");
+}
+// "its period is 2.5 physics steps of the default dt_s = 0.001 s", the steps to six digits.
+std::string PeriodText(double steps) {
+  char text[32];
+  std::snprintf(text, sizeof text, "%.6g", steps);
+  return std::string("its period is ") + text +
+         " physics steps of the default dt_s = " + F(kDefaultPhysicsStep_s) + " s";
+}
+
+constexpr StepRule kStepRules[] = {
+    {"sensors/imu",
+     "the IMU period is a whole number of default physics steps (`rate_hz` = 1000 / n: 1000, "
+     "500, 250, 200, …), or the IMU samples at least once a step (`rate_hz` ≥ 1000)",
+     [](const RobotModel& m) -> Message {
+       const double rate_hz = m.sensors.imu_rate_hz;
+       const double steps = StepsAtDefault(rate_hz);
+       if (rate_hz * kDefaultPhysicsStep_s >= 1 || IsWholeSteps(steps)) return std::nullopt;
+       // The nearest faster rate keeps the IMU at least as fast as the controller.
+       return "sensors/imu rate_hz = " + F(rate_hz) + ": " + PeriodText(steps) +
+              "; it must be a whole number of them, or the IMU at least as fast as the physics "
+              "(rate_hz >= " +
+              F(1 / kDefaultPhysicsStep_s) + "); " + RateOfSteps(std::floor(steps));
+     }},
+    {"control",
+     "the control period is a whole number (≥ 1) of default physics steps (`rate_hz` = 1000 / n: "
+     "1000, 500, 250, 200, …)",
+     [](const RobotModel& m) -> Message {
+       const double rate_hz = m.control_rate_hz;
+       const double steps = StepsAtDefault(rate_hz);
+       if (steps >= 1 && IsWholeSteps(steps)) return std::nullopt;
+       // The nearest faster rate: an IMU that keeps this rule keeps up with it too.
+       return "control rate_hz = " + F(rate_hz) + ": " + PeriodText(steps) +
+              "; it must be a whole number (>= 1) of them; " +
+              RateOfSteps(std::max(1.0, std::floor(steps)));
      }},
 };
 
@@ -674,6 +746,7 @@ bool Keeps(const Limit& limit, double value, bool lower) {
 std::span<const ElementRule> ElementRules() { return kElementRules; }
 std::span<const FieldRule> FieldRules() { return kFieldRules; }
 std::span<const CrossRule> CrossRules() { return kCrossRules; }
+std::span<const StepRule> StepRules() { return kStepRules; }
 
 const ElementRule* FindElementRule(std::string_view path) {
   for (const ElementRule& rule : kElementRules) {
@@ -688,7 +761,10 @@ std::optional<std::string> CheckField(const FieldRule& rule, double value) {
   const bool in_bounds = Keeps(rule.min, value, true) && Keeps(rule.max, value, false);
   if (!in_bounds) {
     const bool two_sided = rule.min.bound != Bound::kNone && rule.max.bound != Bound::kNone;
-    return lead + "must be " + (two_sided ? "in " : "") + BoundsText(rule);
+    std::string message = lead + "must be " + (two_sided ? "in " : "") + BoundsText(rule);
+    // Too many seconds is most often milliseconds written where seconds belong.
+    if (rule.unit == "s" && !Keeps(rule.max, value, false)) message += "; " + SecondsHint(value);
+    return message;
   }
   if (rule.whole && value != std::floor(value)) return lead + "must be a whole number";
   return std::nullopt;

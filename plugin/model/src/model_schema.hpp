@@ -77,9 +77,20 @@ struct CrossRule {
   std::optional<std::string> (*check)(const RobotModel&);
 };
 
+// A rule between the model and the default physics step (kDefaultPhysicsStep_s), which every
+// scenario without its own dt_s runs at. Model files are checked against it; a scenario checks the
+// robot it names against its own step instead. `check` returns the message when the rule is
+// broken; it is run only once the field and cross rules hold.
+struct StepRule {
+  std::string_view element;  // whose line a file message carries
+  std::string_view rule;     // for the documentation
+  std::optional<std::string> (*check)(const RobotModel&);
+};
+
 std::span<const ElementRule> ElementRules();
 std::span<const FieldRule> FieldRules();
 std::span<const CrossRule> CrossRules();
+std::span<const StepRule> StepRules();
 
 // The rule of an element for `path`, or nullptr.
 const ElementRule* FindElementRule(std::string_view path);

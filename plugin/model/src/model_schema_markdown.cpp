@@ -59,6 +59,14 @@ std::string ModelSchemaMarkdown() {
   for (const internal::CrossRule& rule : internal::CrossRules()) {
     text += "| `" + std::string(rule.element) + "` | " + std::string(rule.rule) + " |\n";
   }
+  text += "\nRules against the default physics step of " +
+          NumberText(kDefaultPhysicsStep_s * 1000) +
+          " ms, checked last; a scenario with its own `dt_s` checks the robot against that step "
+          "instead:\n\n";
+  text += "| element | rule |\n| --- | --- |\n";
+  for (const internal::StepRule& rule : internal::StepRules()) {
+    text += "| `" + std::string(rule.element) + "` | " + std::string(rule.rule) + " |\n";
+  }
   return text;
 }
 

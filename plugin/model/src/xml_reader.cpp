@@ -3,6 +3,7 @@
 #include <tinyxml2.h>
 
 #include <algorithm>
+#include <cctype>
 #include <cerrno>
 #include <charconv>
 #include <cmath>
@@ -74,13 +75,143 @@ std::string JoinNames(const std::vector<std::string>& names) {
   return joined;
 }
 
-// The parser's own description of a syntax error, without its "Error=… Line number=N: " lead.
-std::string ParserMessage(const tinyxml2::XMLDocument& doc) {
-  std::string message = std::string("malformed XML: ") + doc.ErrorName();
+// Where line `line` (1-based) of `text` starts and ends (before its line break); npos when the
+// text has fewer lines.
+std::pair<std::size_t, std::size_t> LineSpan(std::string_view text, int line) {
+  std::size_t start = 0;
+  for (int i = 1; i < line; ++i) {
+    start = text.find('\n', start);
+    if (start == std::string_view::npos) return {start, start};
+    ++start;
+  }
+  return {start, std::min(text.find('\n', start), text.size())};
+}
+
+// XML name characters as the parser takes them: letters, '_', ':' and any byte of a multi-byte
+// character to start; digits, '.' and '-' too after that.
+bool IsNameStart(char c) {
+  const auto u = static_cast<unsigned char>(c);
+  return u >= 0x80 || std::isalpha(u) || c == '_' || c == ':';
+}
+bool IsNameChar(char c) {
+  return IsNameStart(c) || std::isdigit(static_cast<unsigned char>(c)) || c == '.' || c == '-';
+}
+
+// The element name the parser names in its detail ("XMLElement name=control"), or "".
+std::string ElementInDetail(const tinyxml2::XMLDocument& doc) {
   const std::string detail = doc.ErrorStr();
-  const std::size_t colon = detail.find(": ");
-  if (colon != std::string::npos) message += " (" + detail.substr(colon + 2) + ")";
-  return message;
+  const std::string key = "XMLElement name=";
+  const std::size_t at = detail.find(key);
+  return at == std::string::npos ? std::string() : detail.substr(at + key.size());
+}
+
+// What is wrong with the attributes of the tag of <element> that reaches line `line`: the first
+// attribute, from the tag's start, that is not name="value" (or 'value'), or that repeats a name.
+std::string AttributeProblem(std::string_view text, int line, const std::string& element) {
+  const std::string fallback = "an attribute of <" + element +
+                               "> is malformed or given twice (expected name=\"value\", each "
+                               "name once)";
+  const auto [line_start, line_end] = LineSpan(text, line);
+  if (element.empty() || line_start == std::string_view::npos) return fallback;
+  // The tag's start: the last "<element" that begins at or before the end of the line.
+  std::size_t at = line_end;
+  while (true) {
+    at = text.rfind("<" + element, at);
+    if (at == std::string_view::npos) return fallback;
+    const std::size_t after = at + 1 + element.size();
+    if (after >= text.size() || !IsNameChar(text[after])) break;
+    if (at == 0) return fallback;
+    --at;
+  }
+  std::size_t p = at + 1 + element.size();
+  std::vector<std::string> names;
+  while (p < text.size()) {
+    p = text.find_first_not_of(kSpace, p);
+    if (p == std::string_view::npos || !IsNameStart(text[p])) break;  // '>', '/>' or junk
+    const std::size_t name_start = p;
+    while (p < text.size() && IsNameChar(text[p])) ++p;
+    const std::string name(text.substr(name_start, p - name_start));
+    p = text.find_first_not_of(kSpace, p);
+    if (p == std::string_view::npos || text[p] != '=') {
+      return "attribute '" + name + "' has no value (expected " + name + "=\"...\")";
+    }
+    p = text.find_first_not_of(kSpace, p + 1);
+    if (p == std::string_view::npos || (text[p] != '"' && text[p] != '\'')) {
+      return "the value of attribute '" + name + "' is missing its quotes (expected " + name +
+             "=\"...\")";
+    }
+    const std::size_t close = text.find(text[p], p + 1);
+    if (close == std::string_view::npos) {
+      return "the value of attribute '" + name + "' has no closing quote";
+    }
+    if (std::find(names.begin(), names.end(), name) != names.end()) {
+      return "attribute '" + name + "' is given twice in <" + element + ">";
+    }
+    names.push_back(name);
+    p = close + 1;
+  }
+  return fallback;
+}
+
+// A syntax error in words, for the line the parser reports it at.
+std::string ParserMessage(const tinyxml2::XMLDocument& doc, std::string_view text) {
+  const int line = doc.ErrorLineNum();
+  const std::string element = ElementInDetail(doc);
+  std::string what;
+  switch (doc.ErrorID()) {
+    case tinyxml2::XML_ERROR_EMPTY_DOCUMENT:
+      what = "the file is empty (expected one root element)";
+      break;
+    case tinyxml2::XML_ERROR_MISMATCHED_ELEMENT:
+      what = "mismatched closing tag: the element <" + element +
+             "> opened on this line is closed by another element's closing tag (expected </" +
+             element + ">, or <" + element + " .../> for an element with no content)";
+      break;
+    case tinyxml2::XML_ERROR_PARSING_ATTRIBUTE:
+      what = AttributeProblem(text, line, element);
+      break;
+    case tinyxml2::XML_ERROR_PARSING_ELEMENT:
+      what =
+          "a tag is not ended properly (expected attributes as name=\"value\", then '>' or "
+          "'/>')";
+      break;
+    case tinyxml2::XML_ERROR_PARSING_TEXT:
+      what = "text runs on to the end of the file (an element is not closed)";
+      break;
+    case tinyxml2::XML_ERROR_PARSING_CDATA:
+      what = "a CDATA section is not closed (expected ]]>)";
+      break;
+    case tinyxml2::XML_ERROR_PARSING_COMMENT:
+      what = "a comment is not closed (expected -->)";
+      break;
+    case tinyxml2::XML_ERROR_PARSING_DECLARATION:
+      what = "a declaration <?...?> is not closed (expected ?>)";
+      break;
+    case tinyxml2::XML_ERROR_PARSING_UNKNOWN:
+      what = "a <!...> construct is not closed (expected >)";
+      break;
+    case tinyxml2::XML_ELEMENT_DEPTH_EXCEEDED:
+      what =
+          "elements are nested more than " + std::to_string(TINYXML2_MAX_ELEMENT_DEPTH) + " deep";
+      break;
+    case tinyxml2::XML_ERROR_PARSING: {
+      // Either a '<' that starts no element, or an element left open at the end of the file.
+      const auto [start, end] = LineSpan(text, line);
+      bool stray = false;
+      for (std::size_t i = start; start != std::string_view::npos && i < end; ++i) {
+        if (text[i] != '<') continue;
+        const char next = i + 1 < end ? text[i + 1] : ' ';
+        if (!IsNameStart(next) && next != '/' && next != '!' && next != '?') stray = true;
+      }
+      what = stray ? "a '<' here starts no element name (write &lt; for a '<' in text)"
+                   : "an element opened on this line is not closed before the end of the file";
+      break;
+    }
+    default:
+      what = "the file is not well-formed XML";
+      break;
+  }
+  return "malformed XML: " + what;
 }
 
 void Flatten(const tinyxml2::XMLElement& element, const std::string& label, XmlTree& tree) {
@@ -117,7 +248,7 @@ std::unique_ptr<XmlTree> BuildTree(std::string_view text, const std::string& pat
   tinyxml2::XMLDocument doc;
   doc.Parse(text.data(), text.size());
   if (doc.Error()) {
-    tree->Error(doc.ErrorLineNum(), ParserMessage(doc));
+    tree->Error(doc.ErrorLineNum(), ParserMessage(doc, text));
     return tree;
   }
   const tinyxml2::XMLElement* root = doc.FirstChildElement();

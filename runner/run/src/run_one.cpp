@@ -122,6 +122,48 @@ void AddLinearTwin(const Scenario& scenario, std::size_t controller,
   }
 }
 
+// What a run starts from: the controller instance and the plant with every timeline event.
+struct RunStart {
+  std::unique_ptr<host::ControllerHost> host;
+  std::unique_ptr<sim::Plant> plant;
+};
+
+// Sets up the run of `controller` with `seed`: false and *error (the run's setup_failed message)
+// when the module refuses its settings or the plant refuses the scenario.
+bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+              const std::shared_ptr<host::Module>& module, RunStart* start, std::string* error) {
+  const ControllerEntry& entry = scenario.controllers.at(controller);
+  // The controller first: the plant's drive mode is the module's.
+  host::ControllerSpec spec;
+  spec.module = module;
+  spec.config = entry.config;
+  spec.rate_hz = entry.rate_hz;
+  spec.true_state = entry.true_state;
+  start->host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
+  if (!start->host) return false;
+
+  sim::PlantOptions plant_options;
+  plant_options.dt_s = scenario.dt_s;
+  plant_options.solver_iterations = scenario.solver_iterations;
+  plant_options.terrain = scenario.terrain;
+  plant_options.initial = scenario.initial;
+  plant_options.drive = start->host->drive();
+  plant_options.seed = seed;
+  plant_options.sensor_noise = scenario.sensor_noise;
+  start->plant = sim::Plant::Create(scenario.built_model(), plant_options, error);
+  if (!start->plant) return false;
+  for (const auto& p : scenario.pushes) {
+    if (!start->plant->AddPush(p, error)) return false;
+  }
+  for (const auto& f : scenario.motor_faults) {
+    if (!start->plant->AddMotorFault(f, error)) return false;
+  }
+  for (const auto& f : scenario.sensor_faults) {
+    if (!start->plant->AddSensorFault(f, error)) return false;
+  }
+  return true;
+}
+
 }  // namespace
 
 bool RunOptions::IsValid(std::string* error) const {
@@ -141,10 +183,9 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
                  const std::shared_ptr<host::Module>& module, const std::string& load_error,
                  const RunOptions& options) {
   const auto wall_start = std::chrono::steady_clock::now();
-  const ControllerEntry& entry = scenario.controllers.at(controller);
   RunResult result;
   result.scenario = scenario.name;
-  result.controller = entry.name;
+  result.controller = scenario.controllers.at(controller).name;
   result.seed = seed;
   result.baseline = controller == scenario.baseline;
   const auto finish = [&](RunStatus status, std::string message) {
@@ -158,34 +199,12 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   if (!options.IsValid(&error)) return finish(RunStatus::kSetupFailed, error);
   if (!module) return finish(RunStatus::kSetupFailed, load_error);
 
-  // The controller first: the plant's drive mode is the module's.
-  host::ControllerSpec spec;
-  spec.module = module;
-  spec.config = entry.config;
-  spec.rate_hz = entry.rate_hz;
-  spec.true_state = entry.true_state;
-  auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
-  if (!host) return finish(RunStatus::kSetupFailed, error);
-
-  sim::PlantOptions plant_options;
-  plant_options.dt_s = scenario.dt_s;
-  plant_options.solver_iterations = scenario.solver_iterations;
-  plant_options.terrain = scenario.terrain;
-  plant_options.initial = scenario.initial;
-  plant_options.drive = host->drive();
-  plant_options.seed = seed;
-  plant_options.sensor_noise = scenario.sensor_noise;
-  auto plant = sim::Plant::Create(scenario.built_model(), plant_options, &error);
-  if (!plant) return finish(RunStatus::kSetupFailed, error);
-  for (const auto& p : scenario.pushes) {
-    if (!plant->AddPush(p, &error)) return finish(RunStatus::kSetupFailed, error);
+  RunStart start;
+  if (!StartRun(scenario, controller, seed, module, &start, &error)) {
+    return finish(RunStatus::kSetupFailed, error);
   }
-  for (const auto& f : scenario.motor_faults) {
-    if (!plant->AddMotorFault(f, &error)) return finish(RunStatus::kSetupFailed, error);
-  }
-  for (const auto& f : scenario.sensor_faults) {
-    if (!plant->AddSensorFault(f, &error)) return finish(RunStatus::kSetupFailed, error);
-  }
+  const std::unique_ptr<host::ControllerHost>& host = start.host;
+  const std::unique_ptr<sim::Plant>& plant = start.plant;
 
   const double equilibrium_pitch_rad =
       design::Linearise(scenario.built_model(), design::InputKind::kTorque).equilibrium_pitch_rad;
@@ -292,6 +311,14 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   result.metrics = recorder.Finish(status, message);
   const RunMetrics metrics = result.metrics;
   return finish(metrics.status, metrics.message);
+}
+
+std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
+                            const std::shared_ptr<host::Module>& module) {
+  RunStart start;
+  std::string error;
+  const std::uint64_t seed = scenario.seeds.empty() ? 1 : scenario.seeds.front();
+  return StartRun(scenario, controller, seed, module, &start, &error) ? "" : error;
 }
 
 RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,

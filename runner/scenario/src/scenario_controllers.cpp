@@ -47,6 +47,7 @@ void ReadSettings(XmlElement& element, const ReadContext& context, ControllerEnt
 ControllerEntry ReadController(XmlElement element, const ReadContext& context,
                                std::map<std::string, int>* first_line) {
   ControllerEntry entry;
+  entry.line = element.line();
   if (std::optional<std::string> name = element.String("name", Presence::kRequired)) {
     entry.name = *name;
     if (!IsSafeName(*name)) {

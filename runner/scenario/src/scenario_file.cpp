@@ -14,6 +14,7 @@
 #include "scenario_reading.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
+#include "upright/model/seconds_hint.hpp"
 #include "upright/model/xml_reader.hpp"
 
 namespace upright::runner {
@@ -34,7 +35,11 @@ void ReadRunSettings(XmlElement& root, ReadContext& context, Scenario* scenario)
   const bool dt_given = root.Has("dt_s");
   scenario->dt_s = internal::OptionalNumber(root, "dt_s", scenario->dt_s, &ok);
   if (dt_given && ok && !(scenario->dt_s > 0 && scenario->dt_s <= 0.01)) {
-    context.FieldError(root, "dt_s", Num(scenario->dt_s), "must be in (0, 0.01]");
+    // Too long a step is most often milliseconds written where seconds belong.
+    context.FieldError(root, "dt_s", Num(scenario->dt_s),
+                       scenario->dt_s > 0.01
+                           ? "must be in (0, 0.01]; " + SecondsHint(scenario->dt_s)
+                           : std::string("must be in (0, 0.01]"));
   } else if (ok) {
     context.dt_s = scenario->dt_s;
   }
@@ -99,7 +104,10 @@ bool ReadRobot(XmlElement& root, ReadContext& context, Scenario* scenario,
                        "no such file (resolved to " + Quote(scenario->model_path) + ")");
     return false;
   }
-  ModelLoadResult loaded = LoadModelFile(scenario->model_path);
+  // The robot's rates are checked against this scenario's own step (CheckRobotRates), not the
+  // default one.
+  ModelLoadResult loaded =
+      LoadModelFile(scenario->model_path, ModelLoadOptions{.check_default_step = false});
   if (!loaded.ok()) {
     context.FieldError(*robot, "file", Quote(*file),
                        "the robot model has " + std::to_string(loaded.errors.size()) +

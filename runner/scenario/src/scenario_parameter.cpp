@@ -8,8 +8,10 @@
 #include <sstream>
 
 #include "upright/model/conventions.hpp"
+#include "upright/model/edge_compare.hpp"
 #include "upright/model/model_field.hpp"
 #include "upright/model/model_file.hpp"
+#include "upright/model/number_text.hpp"
 
 namespace upright::runner {
 namespace {
@@ -54,11 +56,8 @@ struct Slot {
   double per_file_unit = 1;  // SI value of one file unit (kDeg for degrees)
 };
 
-std::string Num(double value) {
-  std::ostringstream text;
-  text << value;
-  return text.str();
-}
+// A value as messages print it: exactly, so a value just past a limit never reads as on it.
+std::string Num(double value) { return NumberText(value); }
 
 // The element list a timeline path names, with its size, or nullptr.
 template <typename T>
@@ -172,6 +171,7 @@ bool PayloadWithinTravel(const Scenario& s, std::string* error) {
   for (const double t : times) {
     for (const bool jumps_included : {false, true}) {
       double target = robot.payload.x_m;
+      double scale = std::abs(target);  // summed magnitudes, for the edge comparison
       for (const auto& p : s.payload_shifts) {
         double f = 0;
         if (p.duration_s > 0) {
@@ -180,12 +180,14 @@ bool PayloadWithinTravel(const Scenario& s, std::string* error) {
           f = (t > p.start_s || (jumps_included && t == p.start_s)) ? 1.0 : 0.0;
         }
         target += f * p.distance_m;
+        scale += std::abs(f * p.distance_m);
       }
-      if (target < robot.payload.min_x_m - 1e-12 || target > robot.payload.max_x_m + 1e-12) {
+      if (!NoMoreThan(robot.payload.min_x_m, target, scale) ||
+          !NoMoreThan(target, robot.payload.max_x_m, scale)) {
         std::ostringstream why;
-        why << "the payload target reaches " << target << " m at " << t
-            << " s, outside the carriage travel [" << robot.payload.min_x_m << ", "
-            << robot.payload.max_x_m << "] m";
+        why << "the payload target reaches " << Num(target) << " m at " << t
+            << " s, outside the carriage travel [" << Num(robot.payload.min_x_m) << ", "
+            << Num(robot.payload.max_x_m) << "] m";
         *error = why.str();
         return false;
       }
@@ -207,7 +209,9 @@ bool Check(Scenario& s, std::string* error) {
   const ChassisModel& chassis = s.built_model().chassis;
   for (const auto& p : s.pushes) {
     if (!p.IsValid(error) || !in_run(p.start_s, "push")) return false;
-    if (p.height_m < chassis.outline_bottom_m || p.height_m > chassis.outline_top_m) {
+    const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
+    if (!NoMoreThan(chassis.outline_bottom_m, p.height_m, scale_m) ||
+        !NoMoreThan(p.height_m, chassis.outline_top_m, scale_m)) {
       *error = "push height_m = " + Num(p.height_m) + ": must be within the chassis outline [" +
                Num(chassis.outline_bottom_m) + ", " + Num(chassis.outline_top_m) + "] m";
       return false;

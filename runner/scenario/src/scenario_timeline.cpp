@@ -10,13 +10,12 @@
 
 #include "scenario_reading.hpp"
 #include "upright/model/conventions.hpp"
+#include "upright/model/edge_compare.hpp"
 
 namespace upright::runner::internal {
 namespace {
 
 constexpr double kDegToRad = kPi / 180.0;
-// Slack for sums of shift distances that land on a travel limit (0.1 + 0.05 > 0.15 in binary).
-constexpr double kTravelSlack_m = 1e-9;
 
 template <typename Enum, std::size_t N>
 std::array<std::string_view, N> Names(const std::array<Enum, N>& values) {
@@ -69,7 +68,9 @@ void ReadPush(XmlElement element, const ReadContext& context, std::vector<sim::P
   if (ok && !push.IsValid(&error)) context.Error(element, error);
   if (ok && context.model != nullptr) {
     const ChassisModel& chassis = context.model->chassis;
-    if (push.height_m < chassis.outline_bottom_m || push.height_m > chassis.outline_top_m) {
+    const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
+    if (!NoMoreThan(chassis.outline_bottom_m, push.height_m, scale_m) ||
+        !NoMoreThan(push.height_m, chassis.outline_top_m, scale_m)) {
       context.FieldError(element, "height_m", Num(push.height_m),
                          "must be within the chassis outline [" + Num(chassis.outline_bottom_m) +
                              ", " + Num(chassis.outline_top_m) + "] of " + context.Robot() +
@@ -81,10 +82,12 @@ void ReadPush(XmlElement element, const ReadContext& context, std::vector<sim::P
 
 // The carriage target of `shifts` (in start order) at time t: each shift adds its share of its
 // distance. With `jumps_at_t` false, shifts of zero duration starting exactly at t are left out,
-// giving the value just before t.
+// giving the value just before t. *scale_m gets the sum of the magnitudes added, for comparing the
+// target with a travel limit (edge_compare.hpp).
 double CarriageTarget(double home_m, const std::vector<PayloadShift>& shifts, double t_s,
-                      bool jumps_at_t) {
+                      bool jumps_at_t, double* scale_m) {
   double target_m = home_m;
+  *scale_m = std::abs(home_m);
   for (const PayloadShift& shift : shifts) {
     double share = 0;
     if (shift.duration_s > 0) {
@@ -93,6 +96,7 @@ double CarriageTarget(double home_m, const std::vector<PayloadShift>& shifts, do
       share = 1;
     }
     target_m += share * shift.distance_m;
+    *scale_m += std::abs(share * shift.distance_m);
   }
   return target_m;
 }
@@ -114,13 +118,14 @@ void CheckPayloadTravel(const std::vector<std::pair<PayloadShift, XmlElement>>& 
                    [](const auto& a, const auto& b) { return a.first < b.first; });
   for (const auto& [t_s, i] : breakpoints) {
     for (const bool jumps_at_t : {false, true}) {
-      const double target_m = CarriageTarget(payload.x_m, plain, t_s, jumps_at_t);
-      if (target_m >= payload.min_x_m - kTravelSlack_m &&
-          target_m <= payload.max_x_m + kTravelSlack_m) {
+      double scale_m = 0;
+      const double target_m = CarriageTarget(payload.x_m, plain, t_s, jumps_at_t, &scale_m);
+      if (NoMoreThan(payload.min_x_m, target_m, scale_m) &&
+          NoMoreThan(target_m, payload.max_x_m, scale_m)) {
         continue;
       }
       context.FieldError(shifts[i].second, "distance_m", Num(shifts[i].first.distance_m),
-                         "the carriage target reaches " + Approx(target_m) + " m at t = " +
+                         "the carriage target reaches " + Num(target_m) + " m at t = " +
                              Approx(t_s) + " s, outside the travel [" + Num(payload.min_x_m) +
                              ", " + Num(payload.max_x_m) + "] m of " + context.Robot() +
                              " (the plant would clamp it; the scenario is refused instead)");

@@ -12,6 +12,15 @@
 
 namespace upright {
 
+// The physics step of a scenario that gives no dt_s, and of sim::PlantOptions by default.
+inline constexpr double kDefaultPhysicsStep_s = 0.001;
+
+struct ModelLoadOptions {
+  // Also check that the control and IMU rates fit the default physics step (models/README.md).
+  // A scenario turns this off and checks the robot it names against its own dt_s.
+  bool check_default_step = true;
+};
+
 struct ModelLoadResult {
   RobotModel model;               // meaningful only when ok()
   std::vector<FileError> errors;  // every problem found, in file order
@@ -19,13 +28,15 @@ struct ModelLoadResult {
 };
 
 // Reads and validates a model file.
-ModelLoadResult LoadModelFile(const std::string& path);
+ModelLoadResult LoadModelFile(const std::string& path, const ModelLoadOptions& options = {});
 
 // Same, from text already in memory; `path` is used only in messages.
-ModelLoadResult ParseModelText(std::string_view xml_text, const std::string& path);
+ModelLoadResult ParseModelText(std::string_view xml_text, const std::string& path,
+                               const ModelLoadOptions& options = {});
 
-// Checks a model built in code against the same rules as the file loader. Returns one message per
-// broken rule ("chassis mass_kg = -1: must be > 0"); empty when valid.
+// Checks a model built in code against the same rules as the file loader, but for the default
+// step's (a plant checks the rates against its own step). Returns one message per broken rule
+// ("chassis mass_kg = -1: must be > 0"); empty when valid.
 std::vector<std::string> ValidateModel(const RobotModel& model);
 
 // The schema as a Markdown table (element, attribute, unit, default, allowed range, meaning),

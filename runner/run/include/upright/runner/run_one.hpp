@@ -36,6 +36,13 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
                  const std::shared_ptr<host::Module>& module, const std::string& load_error,
                  const RunOptions& options);
 
+// Why a run of controller `controller` (index into scenario.controllers) with the already loaded
+// `module` could not start, or "" when it could: the module's create refusing the robot, its
+// settings or its rate, or the plant refusing the scenario — RunOne's own set-up and message
+// (seed: the scenario's first), nothing stepped. `upright check` asks this of every controller.
+std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
+                            const std::shared_ptr<host::Module>& module);
+
 // The row of a run that could not happen: controller `controller` of `scenario` with `seed`,
 // status kSetupFailed and `message`, nothing else filled in.
 RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,

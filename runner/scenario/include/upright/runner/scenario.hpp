@@ -9,6 +9,7 @@
 #include <utility>
 #include <vector>
 
+#include "upright/model/model_file.hpp"
 #include "upright/model/robot_model.hpp"
 #include "upright/runner/dispersion.hpp"
 #include "upright/runner/metric_settings.hpp"
@@ -47,6 +48,7 @@ struct ControllerEntry {
   std::vector<std::pair<std::string, std::string>> config;
   double rate_hz = 0;       // 0: the robot's control rate
   bool true_state = false;  // the module also reads the true state
+  int line = 0;             // the <controller> element's line in the scenario file, for messages
 };
 
 struct Scenario {
@@ -60,8 +62,8 @@ struct Scenario {
   // robot parameter); the plant is built from it.
   std::optional<RobotModel> plant_model;
 
-  double duration_s = 10;  // a whole number of physics steps
-  double dt_s = 0.001;     // physics step
+  double duration_s = 10;               // a whole number of physics steps
+  double dt_s = kDefaultPhysicsStep_s;  // physics step
   int solver_iterations = 10;
   sim::Terrain terrain;
   sim::InitialState initial;  // the file gives pitch in degrees; here in radians
