@@ -1,6 +1,8 @@
 // Entry point of the `upright` program: parses the command line and dispatches to a subcommand.
 #include <CLI/CLI.hpp>
 #include <iostream>
+#include <optional>
+#include <string>
 
 #include "commands.hpp"
 #include "envelope_command.hpp"
@@ -10,22 +12,31 @@
 
 namespace {
 
+// An option that sets a std::optional<double> when given.
+void AddOptionalNumber(CLI::App* cmd, const std::string& name, std::optional<double>* target,
+                       const std::string& help) {
+  cmd->add_option_function<double>(
+      name, [target](const double& value) { *target = value; }, help);
+}
+
 void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   auto& r = o->request;
   auto& w = r.weights;
   cmd->add_option("MODEL", o->model_path, "Robot model file (.xml)")->required();
   cmd->add_flag("--json", o->json, "Print one JSON object instead of text");
-  cmd->add_option("--rate", r.rate_hz, "Controller sample rate, Hz (default: the model's)");
-  cmd->add_option("--gamma", r.gamma, "H-infinity gamma (default: --gamma-factor x gamma_opt)");
+  AddOptionalNumber(cmd, "--rate", &o->rate_hz,
+                    "Controller sample rate, Hz, > 0 (default: the model's control rate_hz)");
+  AddOptionalNumber(cmd, "--gamma", &o->gamma,
+                    "H-infinity gamma, > 0 (default: --gamma-factor x gamma_opt)");
   cmd->add_option("--gamma-factor", r.gamma_factor, "gamma as a multiple of gamma_opt")
       ->capture_default_str();
   cmd->add_option("--input", o->input_text, "Design input: torque or voltage")
       ->check(CLI::IsMember({"torque", "voltage"}))
       ->capture_default_str();
-  cmd->add_option("--push-height-m", r.push_height_m,
-                  "Height of the design push above the axle (default: the COM height)");
-  cmd->add_option("--push-scale-N", r.push_scale_N,
-                  "Size of the design push, N (default: 10 % of the robot's weight)");
+  AddOptionalNumber(cmd, "--push-height-m", &o->push_height_m,
+                    "Height of the design push above the axle, m, >= 0 (default: the COM height)");
+  AddOptionalNumber(cmd, "--push-scale-N", &o->push_scale_N,
+                    "Size of the design push, N, > 0 (default: 10 % of the robot's weight)");
   cmd->add_option("--max-drift-m", w.max_drift_m, "Weight: acceptable drift")
       ->capture_default_str();
   cmd->add_option("--max-speed-m-s", w.max_speed_m_s, "Weight: acceptable speed error")
@@ -41,6 +52,11 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   cmd->add_option("--max-input-fraction", w.max_input_fraction,
                   "Weight: acceptable wheel input, as a fraction of stall torque or supply")
       ->capture_default_str();
+  cmd->footer(
+      "Each controller gets a status: ok; designed but unstable as the module samples it at the "
+      "rate; failed (with the reason); or not offered for the input (PID with voltage).\n"
+      "Exit codes: 0 every design offered is ok; 3 some are ok and some are not; 1 none is; "
+      "2 bad input (nothing designed).");
 }
 
 void AddRunOptions(CLI::App* cmd, upright::cli::RunCommandOptions* o) {
