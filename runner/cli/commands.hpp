@@ -1,7 +1,8 @@
 // The subcommands of `upright`: each takes its parsed arguments and returns the process exit code
-// (0 success, 1 a run failed, 2 bad input or usage).
+// (0 success, 1 a run failed, 2 bad input or usage; `design` alone also 3, some designs unusable).
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -13,6 +14,12 @@ namespace upright::cli {
 inline constexpr int kExitOk = 0;
 inline constexpr int kExitFailed = 1;
 inline constexpr int kExitBadInput = 2;
+inline constexpr int kExitSomeDesignsUnusable = 3;  // `design`: some designs usable, some not
+
+// The closing line of every command that runs the plant, printed once per command.
+inline constexpr const char* kCaution =
+    "Simulation only: validate on hardware with a tether or spotter, at low speed first, within "
+    "local rules.";
 
 // `upright check FILE...`: validates robot model and scenario files (by their root element; a
 // folder: its .xml files), and creates each scenario controller as a run would; prints every
@@ -23,23 +30,35 @@ struct DesignOptions {
   std::string model_path;
   bool json = false;                  // one JSON object on stdout instead of text
   std::string input_text = "torque";  // --input, parsed into request.input
-  design::DesignRequest request;
+  // As typed; absent: the request's own default (the model's rate, factor × γ_opt, the COM
+  // height, 10 % of the weight). When given, each must be a real value (> 0; height >= 0).
+  std::optional<double> rate_hz;        // --rate
+  std::optional<double> gamma;          // --gamma
+  std::optional<double> push_height_m;  // --push-height-m
+  std::optional<double> push_scale_N;   // --push-scale-N
+  design::DesignRequest request;        // the other flags (weights, --gamma-factor)
 };
 
-// `upright design MODEL`: linear model, controller gains, poles, norms and margins. Exit 1 when a
-// design fails (its reason printed), 2 on bad input.
+// `upright design MODEL`: linear model, controller gains, poles, norms and margins, a status per
+// controller. Exit 0 when every design offered for the input is usable (made, and stable as the
+// module samples it), 3 when some are and some are not (each says why in place), 1 when none is,
+// 2 on bad input (the message names the flag).
 int RunDesign(const DesignOptions& options);
 
 struct RunCommandOptions {
-  std::vector<std::string> scenario_paths;  // scenario files; `demo`: empty = the demo suite
-  std::string out_dir;                      // "": results/<scenario or folder name>
-  runner::BatchOptions batch;               // jobs, seeds, trace rate
-  std::string verb = "upright run:";        // how the first line starts
+  // Scenario files, or folders standing for their *.xml files whose root element is not another
+  // file kind (sorted by name); `demo`: empty = the demo suite.
+  std::vector<std::string> scenario_paths;
+  std::string out_dir;                // "": results/<scenario or folder name>
+  runner::BatchOptions batch;         // jobs, seeds, trace rate
+  std::string verb = "upright run:";  // how the first line starts
+  std::string label = "upright run";  // starts each progress line off a terminal
+  bool caution = true;                // close with kCaution (demo prints it once itself)
 };
 
 // `upright run SCENARIO...`: every scenario × controller × seed, tables into the results folder.
-// Exit 2 when a file is invalid (nothing runs), 1 when a run could not start (a module missing)
-// or the results cannot be written; falls are results, not failures.
+// Exit 2 when a file is invalid or a folder holds no scenario (nothing runs), 1 when a run could
+// not start (a module missing) or the results cannot be written; falls are results, not failures.
 int RunScenarios(const RunCommandOptions& options);
 
 // `upright demo`: the scenarios/ suite into results/demo.

@@ -1,10 +1,13 @@
 // `upright design MODEL`: the linear model and the built-in controllers' gains, closed-loop
-// poles, push norms and margins, as readable text or as one JSON object (--json).
+// poles, push norms and margins, with a status per controller, as readable text or as one JSON
+// object (--json).
+#include <array>
 #include <cmath>
 #include <complex>
 #include <cstdio>
 #include <iostream>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "commands.hpp"
@@ -18,8 +21,58 @@ namespace {
 
 using design::ControllerReport;
 using design::DesignSet;
+using design::DesignStatus;
 
 constexpr const char* kInputNames[] = {"left", "right"};
+
+// Each controller's report with its heading in the text.
+struct Named {
+  const char* title;
+  const ControllerReport* report;
+};
+
+std::array<Named, 4> Controllers(const DesignSet& d) {
+  return {{{"LQR", &d.lqr},
+           {"H-infinity state feedback", &d.hinf},
+           {"LQG (LQR on a Kalman estimate from the model's sensors)", &d.lqg},
+           {"PID cascade (tilt PD inside speed PI, yaw-rate PI)", &d.pid}}};
+}
+
+std::string Figure(double v, const char* format = "%.4g") {
+  if (std::isinf(v)) return v > 0 ? "inf" : "-inf";
+  if (std::isnan(v)) return "-";
+  char buffer[32];
+  std::snprintf(buffer, sizeof buffer, format, v);
+  return buffer;
+}
+
+// Why a controller is not usable, in a phrase; "ok" when it is.
+std::string Verdict(const ControllerReport& c) {
+  switch (c.status()) {
+    case DesignStatus::kOk:
+      return "ok";
+    case DesignStatus::kUnstableSampled:
+      return "designed, but UNSTABLE as the module samples it at " +
+             Figure(1 / c.sampled.period_s) + " Hz (max |z| " + Figure(c.sampled.max_abs_z) +
+             " >= 1): the continuous figures below do not hold at this rate";
+    case DesignStatus::kFailed:
+      return "FAILED: " + c.message;
+    case DesignStatus::kUnsupported:
+      return "not offered: " + c.message;
+  }
+  return c.message;
+}
+
+// The warning when the delay margin is below the delay the figures leave out; "" otherwise.
+std::string DelayWarning(const ControllerReport& c, double latency_s, double rate_hz) {
+  if (!c.delay_margin_short()) return "";
+  std::string what = "sensors latency_s " + Figure(latency_s) + " s";
+  if (!c.sampled.analysed())
+    what += ", plus half a period of the hold at " + Figure(rate_hz) + " Hz";
+  return "delay margin " + Figure(c.loop.margins.delay_s) + " s is below the " +
+         Figure(c.unanalysed_delay_s) + " s of delay these figures leave out (" + what +
+         "): the loop as the module runs it is likely unstable";
+}
 
 void WriteMargins(JsonWriter& j, const design::LoopMargins& m) {
   j.BeginObject("margins");
@@ -35,8 +88,10 @@ void WriteMargins(JsonWriter& j, const design::LoopMargins& m) {
 }
 
 void WriteController(JsonWriter& j, const ControllerReport& c) {
-  j.Bool("ok", c.ok);
-  j.String("message", c.message);
+  const DesignStatus status = c.status();
+  j.String("status", design::ToString(status));
+  j.Bool("ok", status == DesignStatus::kOk);
+  j.String("message", status == DesignStatus::kOk ? c.message : Verdict(c));
   j.Matrix("K", c.K);
   j.ComplexList("poles", c.loop.poles);
   j.Number("push_norm", c.loop.push_norm);
@@ -48,6 +103,8 @@ void WriteController(JsonWriter& j, const ControllerReport& c) {
     j.ComplexList("poles", c.sampled.s);
     j.EndObject();
   }
+  j.Number("unanalysed_delay_s", c.unanalysed_delay_s);
+  j.Bool("delay_margin_short", c.delay_margin_short());
 }
 
 std::string Json(const RobotModel& model, const DesignSet& d) {
@@ -56,6 +113,7 @@ std::string Json(const RobotModel& model, const DesignSet& d) {
   j.String("robot", model.name);
   j.String("input", d.plant.input == design::InputKind::kTorque ? "torque" : "voltage");
   j.Number("rate_hz", d.request.rate_hz);
+  j.Number("latency_s", model.sensors.latency_s);
   j.BeginArray("states");
   for (int i = 0; i < design::kStates; ++i) j.String({}, design::StateName(i));
   j.EndArray();
@@ -107,14 +165,6 @@ std::string Json(const RobotModel& model, const DesignSet& d) {
   return j.text() + "\n";
 }
 
-std::string Figure(double v, const char* format = "%.4g") {
-  if (std::isinf(v)) return v > 0 ? "inf" : "-inf";
-  if (std::isnan(v)) return "-";
-  char buffer[32];
-  std::snprintf(buffer, sizeof buffer, format, v);
-  return buffer;
-}
-
 void PrintMatrix(const char* title, const Eigen::MatrixXd& m, bool state_columns) {
   std::printf("%s\n", title);
   if (state_columns) {
@@ -138,8 +188,9 @@ void PrintPoles(const std::vector<std::complex<double>>& poles) {
   std::printf("\n");
 }
 
-void PrintController(const char* title, const ControllerReport& c) {
-  std::printf("\n== %s: %s\n", title, c.ok ? "ok" : ("FAILED: " + c.message).c_str());
+void PrintController(const char* title, const ControllerReport& c, double latency_s,
+                     double rate_hz) {
+  std::printf("\n== %s: %s\n", title, Verdict(c).c_str());
   if (c.K.norm() > 0) PrintMatrix("gain K (u = -K x), N·m or V per state unit", c.K, true);
   if (!c.loop.poles.empty()) {
     std::printf("closed-loop poles (1/s):");
@@ -152,6 +203,8 @@ void PrintController(const char* title, const ControllerReport& c) {
                 Figure(m.phase_deg).c_str(), Figure(m.disk_alpha).c_str(),
                 Figure(m.disk_gain_low).c_str(), Figure(m.disk_gain_high).c_str(),
                 Figure(m.disk_phase_deg).c_str(), Figure(m.delay_s).c_str());
+    const std::string warning = DelayWarning(c, latency_s, rate_hz);
+    if (!warning.empty()) std::printf("warning: %s\n", warning.c_str());
   }
   if (c.sampled.analysed()) {
     std::printf("sampled as the module runs it, at %g Hz: max |z| %.4g (%s); poles (1/s, log z / T):",
@@ -173,13 +226,16 @@ void PrintText(const RobotModel& model, const DesignSet& d) {
   PrintMatrix("B [left, right]", p.B, false);
   std::printf("performance: push of %.4g N at %.3g m above the axle → z = [Q½ x; R½ u]\n",
               d.performance.push_scale_N, p.push_height_m);
-  PrintController("LQR", d.lqr);
-  PrintController("H-infinity state feedback", d.hinf);
+  const double latency_s = model.sensors.latency_s;
+  const double rate_hz = d.request.rate_hz;
+  const auto controllers = Controllers(d);
+  PrintController(controllers[0].title, d.lqr, latency_s, rate_hz);
+  PrintController(controllers[1].title, d.hinf, latency_s, rate_hz);
   if (d.hinf.gamma_opt > 0) {
     std::printf("gamma %.5g = %.3g x gamma_opt %.5g\n", d.hinf.gamma,
                 d.hinf.gamma / d.hinf.gamma_opt, d.hinf.gamma_opt);
   }
-  PrintController("LQG (LQR on a Kalman estimate from the model's sensors)", d.lqg);
+  PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
   const double nyquist_1_s = kPi * d.request.rate_hz;
   if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {
     std::printf("note: the continuous estimator reaches %.4g 1/s, beyond the %.4g 1/s Nyquist rate "
@@ -187,7 +243,7 @@ void PrintText(const RobotModel& model, const DesignSet& d) {
                 "LQG figures as those of its continuous limit\n",
                 d.lqg.estimator_fastest_1_s, nyquist_1_s, d.request.rate_hz);
   }
-  PrintController("PID cascade (tilt PD inside speed PI, yaw-rate PI)", d.pid);
+  PrintController(controllers[3].title, d.pid, latency_s, rate_hz);
   const design::PidGains& g = d.pid.gains;
   if (d.pid.ok) {
     std::printf("tilt kp %.4g N·m/rad, kd %.4g N·m·s/rad; speed kp %.4g rad/(m/s), ki %.4g rad/m; "
@@ -199,34 +255,115 @@ void PrintText(const RobotModel& model, const DesignSet& d) {
               "with a tether or spotter.\n");
 }
 
+// The flag a DesignRequest or DesignWeights field is set by.
+constexpr std::pair<const char*, const char*> kFlags[] = {
+    {"DesignRequest::gamma_factor", "--gamma-factor"},
+    {"DesignWeights::max_drift_m", "--max-drift-m"},
+    {"DesignWeights::max_speed_m_s", "--max-speed-m-s"},
+    {"DesignWeights::max_tilt_deg", "--max-tilt-deg"},
+    {"DesignWeights::max_tilt_rate_deg_s", "--max-tilt-rate-deg-s"},
+    {"DesignWeights::max_yaw_deg", "--max-yaw-deg"},
+    {"DesignWeights::max_yaw_rate_deg_s", "--max-yaw-rate-deg-s"},
+    {"DesignWeights::max_input_fraction", "--max-input-fraction"},
+};
+
+// "DesignWeights::max_tilt_deg = -1, must be > 0" as the user typed it:
+// "--max-tilt-deg = -1: must be > 0". A message about another field stays as it is.
+std::string InFlagTerms(const std::string& message) {
+  for (const auto& [field, flag] : kFlags) {
+    const std::string prefix = std::string(field) + " = ";
+    if (message.rfind(prefix, 0) != 0) continue;
+    const std::string rest = message.substr(std::string(field).size());
+    const auto comma = rest.find(", must");
+    if (comma == std::string::npos) return flag + rest;
+    return flag + rest.substr(0, comma) + ":" + rest.substr(comma + 1);
+  }
+  return message;
+}
+
+// The typed options into *request: a value given must be a real one (the request's 0 or -1
+// "default" cannot be typed). False with the message, naming the flag, in *error.
+bool ResolveFlags(const DesignOptions& o, design::DesignRequest* request, std::string* error) {
+  const auto refuse = [&](const char* flag, double value, const char* rule) {
+    *error = std::string(flag) + " = " + Figure(value, "%g") + ": " + rule;
+    return false;
+  };
+  if (o.rate_hz) {
+    if (!(*o.rate_hz > 0) || !std::isfinite(*o.rate_hz)) {
+      return refuse("--rate", *o.rate_hz,
+                    "must be > 0 (leave it out for the model's control rate_hz)");
+    }
+    request->rate_hz = *o.rate_hz;
+  }
+  if (o.gamma) {
+    if (!(*o.gamma > 0) || !std::isfinite(*o.gamma)) {
+      return refuse("--gamma", *o.gamma,
+                    "must be > 0 (leave it out for --gamma-factor x gamma_opt)");
+    }
+    request->gamma = *o.gamma;
+  }
+  if (o.push_height_m) {
+    if (!(*o.push_height_m >= 0) || !std::isfinite(*o.push_height_m)) {
+      return refuse("--push-height-m", *o.push_height_m,
+                    "must be >= 0 (leave it out for the COM height)");
+    }
+    request->push_height_m = *o.push_height_m;
+  }
+  if (o.push_scale_N) {
+    if (!(*o.push_scale_N > 0) || !std::isfinite(*o.push_scale_N)) {
+      return refuse("--push-scale-N", *o.push_scale_N,
+                    "must be > 0 (leave it out for 10 % of the robot's weight)");
+    }
+    request->push_scale_N = *o.push_scale_N;
+  }
+  std::string why;
+  if (request->IsValid(&why)) return true;
+  *error = InFlagTerms(why);
+  return false;
+}
+
 }  // namespace
 
 int RunDesign(const DesignOptions& options) {
+  design::DesignRequest request = options.request;
+  std::string error;
+  if (!ResolveFlags(options, &request, &error)) {
+    std::cerr << error << "\n";
+    return kExitBadInput;
+  }
   const ModelLoadResult loaded = LoadModelFile(options.model_path);
   if (!loaded.ok()) {
     for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
     return kExitBadInput;
   }
-  std::string error;
-  if (!options.request.IsValid(&error)) {
-    std::cerr << error << "\n";
-    return kExitBadInput;
-  }
-  const DesignSet set = design::DesignAll(loaded.model, options.request);
+  const DesignSet set = design::DesignAll(loaded.model, request);
   if (options.json) {
     std::cout << Json(loaded.model, set);
   } else {
     PrintText(loaded.model, set);
   }
-  if (!set.all_ok()) {
-    for (const auto* c : {&set.lqr, static_cast<const ControllerReport*>(&set.hinf),
-                          static_cast<const ControllerReport*>(&set.lqg),
-                          static_cast<const ControllerReport*>(&set.pid)}) {
-      if (!c->ok) std::cerr << options.model_path << ": design failed: " << c->message << "\n";
+  std::cout.flush();
+  std::fflush(stdout);
+
+  // Each unusable design once more on stderr, then the count a script can act on.
+  int offered = 0, usable = 0;
+  for (const Named& c : Controllers(set)) {
+    const DesignStatus status = c.report->status();
+    if (status == DesignStatus::kUnsupported) continue;
+    ++offered;
+    if (status == DesignStatus::kOk) {
+      ++usable;
+    } else if (status == DesignStatus::kFailed) {
+      std::cerr << options.model_path << ": design failed: " << c.report->message << "\n";
+    } else {
+      std::cerr << options.model_path << ": " << c.title
+                << ": unstable as the module samples it at " << Figure(set.request.rate_hz)
+                << " Hz (max |z| " << Figure(c.report->sampled.max_abs_z) << ")\n";
     }
-    return kExitFailed;
   }
-  return kExitOk;
+  if (usable == offered) return kExitOk;
+  std::cerr << options.model_path << ": " << usable << " of " << offered << " design(s) usable\n";
+  return usable > 0 ? kExitSomeDesignsUnusable : kExitFailed;
 }
 
 }  // namespace upright::cli

@@ -94,7 +94,7 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
   const std::string out_dir =
       options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
 
-  ProgressLine progress_line;
+  ProgressLine progress_line({.label = "upright envelope"});
   std::printf("upright envelope: %s, %s to within %g%s%s; %zu controller(s) x %zu seed(s)\n",
               scenario.name.c_str(), Range(plan.axis).c_str(), plan.tol,
               plan.axis.unit.empty() ? "" : " ", plan.axis.unit.c_str(),
@@ -129,9 +129,7 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
   std::printf("%zu run(s); %.1f s on %d job(s)\n", result.runs, result.wall_s, result.jobs);
   std::printf("tables: %s/envelope.md, %s/envelope.csv%s\n", out_dir.c_str(), out_dir.c_str(),
               plan.axis2 ? (", " + out_dir + "/envelope_map.csv").c_str() : "");
-  std::printf(
-      "Simulation only: validate on hardware with a tether or spotter, at low speed first, "
-      "within local rules.\n");
+  if (options.caution) std::printf("%s\n", kCaution);
   return result.any_setup_failed() ? kExitFailed : kExitOk;
 }
 

@@ -23,6 +23,7 @@ struct EnvelopeCommandOptions {
   int jobs = 0;         // --jobs: runs in parallel; 0: one per core
   int seed_count = 0;   // --seeds: seeds 1..N instead of the scenario's own; 0: the file's
   std::string out_dir;  // --out; "": results/<scenario name>-envelope
+  bool caution = true;  // close with the safety line (demo prints it once itself)
 };
 
 // Adds the `envelope` subcommand to `app`, parsing into `options`; returns it (parsed() tells

@@ -1,6 +1,11 @@
 // Entry point of the `upright` program: parses the command line and dispatches to a subcommand.
 #include <CLI/CLI.hpp>
+#include <algorithm>
+#include <cstddef>
 #include <iostream>
+#include <optional>
+#include <string>
+#include <vector>
 
 #include "commands.hpp"
 #include "envelope_command.hpp"
@@ -10,22 +15,31 @@
 
 namespace {
 
+// An option that sets a std::optional<double> when given.
+void AddOptionalNumber(CLI::App* cmd, const std::string& name, std::optional<double>* target,
+                       const std::string& help) {
+  cmd->add_option_function<double>(
+      name, [target](const double& value) { *target = value; }, help);
+}
+
 void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   auto& r = o->request;
   auto& w = r.weights;
   cmd->add_option("MODEL", o->model_path, "Robot model file (.xml)")->required();
   cmd->add_flag("--json", o->json, "Print one JSON object instead of text");
-  cmd->add_option("--rate", r.rate_hz, "Controller sample rate, Hz (default: the model's)");
-  cmd->add_option("--gamma", r.gamma, "H-infinity gamma (default: --gamma-factor x gamma_opt)");
+  AddOptionalNumber(cmd, "--rate", &o->rate_hz,
+                    "Controller sample rate, Hz, > 0 (default: the model's control rate_hz)");
+  AddOptionalNumber(cmd, "--gamma", &o->gamma,
+                    "H-infinity gamma, > 0 (default: --gamma-factor x gamma_opt)");
   cmd->add_option("--gamma-factor", r.gamma_factor, "gamma as a multiple of gamma_opt")
       ->capture_default_str();
   cmd->add_option("--input", o->input_text, "Design input: torque or voltage")
       ->check(CLI::IsMember({"torque", "voltage"}))
       ->capture_default_str();
-  cmd->add_option("--push-height-m", r.push_height_m,
-                  "Height of the design push above the axle (default: the COM height)");
-  cmd->add_option("--push-scale-N", r.push_scale_N,
-                  "Size of the design push, N (default: 10 % of the robot's weight)");
+  AddOptionalNumber(cmd, "--push-height-m", &o->push_height_m,
+                    "Height of the design push above the axle, m, >= 0 (default: the COM height)");
+  AddOptionalNumber(cmd, "--push-scale-N", &o->push_scale_N,
+                    "Size of the design push, N, > 0 (default: 10 % of the robot's weight)");
   cmd->add_option("--max-drift-m", w.max_drift_m, "Weight: acceptable drift")
       ->capture_default_str();
   cmd->add_option("--max-speed-m-s", w.max_speed_m_s, "Weight: acceptable speed error")
@@ -41,12 +55,16 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   cmd->add_option("--max-input-fraction", w.max_input_fraction,
                   "Weight: acceptable wheel input, as a fraction of stall torque or supply")
       ->capture_default_str();
+  cmd->footer(
+      "Each controller gets a status: ok; designed but unstable as the module samples it at the "
+      "rate; failed (with the reason); or not offered for the input (PID with voltage).\n"
+      "Exit codes: 0 every design offered is ok; 3 some are ok and some are not; 1 none is; "
+      "2 bad input (nothing designed).");
 }
 
-void AddRunOptions(CLI::App* cmd, upright::cli::RunCommandOptions* o) {
-  cmd->add_option(
-      "--out", o->out_dir,
-      "Results folder (default: results/<scenario name>, or the scenarios' folder name)");
+// The options `run` and `demo` share; `out_help` says where results go by default.
+void AddRunOptions(CLI::App* cmd, upright::cli::RunCommandOptions* o, const std::string& out_help) {
+  cmd->add_option("--out", o->out_dir, out_help);
   cmd->add_option("--jobs", o->batch.jobs, "Runs in parallel (0: one per core)")
       ->check(CLI::Range(0, 1024))
       ->capture_default_str();
@@ -58,10 +76,48 @@ void AddRunOptions(CLI::App* cmd, upright::cli::RunCommandOptions* o) {
                   "Trace rows per simulated second, Hz (0: no traces)")
       ->check(CLI::Range(0.0, 1e6))
       ->capture_default_str();
-  cmd->add_flag("--linear-twin", o->batch.run.linear_twin,
-                "Also play each run on the linear model the controllers are designed on (same "
-                "module, rate, pushes; ideal sensors, no contact or limits) and write gap.csv and "
-                "gap.md: where the linear prediction and the physics part");
+}
+
+// Optimal string alignment distance: insertions, deletions, substitutions and swaps of two
+// neighbours, each costing 1.
+std::size_t EditDistance(const std::string& a, const std::string& b) {
+  std::vector<std::vector<std::size_t>> d(a.size() + 1, std::vector<std::size_t>(b.size() + 1));
+  for (std::size_t i = 0; i <= a.size(); ++i) d[i][0] = i;
+  for (std::size_t j = 0; j <= b.size(); ++j) d[0][j] = j;
+  for (std::size_t i = 1; i <= a.size(); ++i) {
+    for (std::size_t j = 1; j <= b.size(); ++j) {
+      const std::size_t cost = a[i - 1] == b[j - 1] ? 0 : 1;
+      d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost});
+      if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) {
+        d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
+      }
+    }
+  }
+  return d[a.size()][b.size()];
+}
+
+// When the first argument is a word that names no command, says so on stderr, lists the
+// commands and suggests the nearest (within two edits, fewer than the word's length); returns
+// false. True when there is no such word.
+bool FirstWordIsACommand(const CLI::App& app, int argc, char** argv) {
+  if (argc < 2 || argv[1][0] == '-') return true;
+  const std::string word = argv[1];
+  std::string list, nearest;
+  std::size_t nearest_distance = 3;
+  for (const CLI::App* sub : app.get_subcommands({})) {
+    const std::string& name = sub->get_name();
+    if (name == word) return true;
+    list += (list.empty() ? "" : ", ") + name;
+    const std::size_t distance = EditDistance(word, name);
+    if (distance < nearest_distance && distance < word.size()) {
+      nearest = name;
+      nearest_distance = distance;
+    }
+  }
+  std::cerr << "upright: unknown command '" << word << "'";
+  if (!nearest.empty()) std::cerr << "; did you mean '" << nearest << "'?";
+  std::cerr << "\ncommands: " << list << " (upright --help describes them)\n";
+  return false;
 }
 
 }  // namespace
@@ -88,15 +144,25 @@ int main(int argc, char** argv) {
   auto* run_cmd = app.add_subcommand(
       "run",
       "Run every scenario x controller x seed; write summary, comparison and ranking tables");
-  run_cmd->add_option("SCENARIO", run.scenario_paths, "Scenario files (.xml)")->required();
-  AddRunOptions(run_cmd, &run);
+  run_cmd
+      ->add_option("SCENARIO", run.scenario_paths,
+                   "Scenario files (.xml), or folders: each folder's *.xml scenario files, by name")
+      ->required();
+  AddRunOptions(run_cmd, &run,
+                "Results folder (default: results/<scenario name>, or the scenarios' folder name)");
+  run_cmd->add_flag("--linear-twin", run.batch.run.linear_twin,
+                    "Also play each run on the linear model the controllers are designed on (same "
+                    "module, rate, pushes; ideal sensors, no contact or limits) and write gap.csv "
+                    "and gap.md: where the linear prediction and the physics part");
 
   upright::cli::RunCommandOptions demo;
   auto* demo_cmd = app.add_subcommand(
       "demo",
       "Run the invented demo suite (scenarios/) with its linear twins, an envelope and a sweep of "
       "the shove, into results/demo, and write the report");
-  AddRunOptions(demo_cmd, &demo);
+  AddRunOptions(demo_cmd, &demo,
+                "Results folder (default: results/demo; the envelope and sweep go in its "
+                "envelope/ and sweep/)");
 
   upright::cli::SweepCommandOptions sweep;
   auto* sweep_cmd = app.add_subcommand(
@@ -106,8 +172,8 @@ int main(int argc, char** argv) {
   sweep_cmd->add_option("SCENARIO", sweep.scenario_path, "Scenario file (.xml) with <dispersions>")
       ->required();
   sweep_cmd->add_option("--samples", sweep.samples, "Samples N; every controller runs on each")
-      ->required()
-      ->check(CLI::Range(1, 1000000));
+      ->check(CLI::Range(1, 1000000))
+      ->capture_default_str();
   sweep_cmd->add_option("--seed", sweep.seed, "Sweep seed: the same seed draws the same samples")
       ->capture_default_str();
   sweep_cmd->add_option("--out", sweep.out_dir,
@@ -122,6 +188,7 @@ int main(int argc, char** argv) {
   std::string report_dir;
   auto* report_cmd = upright::cli::AddReportCommand(&app, &report_dir);
 
+  if (!FirstWordIsACommand(app, argc, argv)) return upright::cli::kExitBadInput;
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -4,8 +4,8 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
 #include <string>
+#include <utility>
 
 namespace upright::cli {
 namespace {
@@ -18,21 +18,43 @@ std::string Clock(double seconds) {
   return text;
 }
 
+double Seconds(std::chrono::steady_clock::duration d) {
+  return std::chrono::duration<double>(d).count();
+}
+
 }  // namespace
 
-ProgressLine::ProgressLine()
-    : terminal_(isatty(STDERR_FILENO) != 0), start_(std::chrono::steady_clock::now()) {}
+ProgressLine::ProgressLine(ProgressOptions options)
+    : options_(std::move(options)),
+      terminal_(isatty(fileno(options_.stream)) != 0),
+      start_(std::chrono::steady_clock::now()),
+      last_line_(start_) {}
 
 void ProgressLine::Show(std::size_t done, std::size_t all) {
-  if (!terminal_) return;
-  open_ = done != all;
-  const double elapsed =
-      std::chrono::duration<double>(std::chrono::steady_clock::now() - start_).count();
+  done_ = done;
+  const auto now = std::chrono::steady_clock::now();
+  const double elapsed = Seconds(now - start_);
   const double eta = elapsed / static_cast<double>(done) * static_cast<double>(all - done);
-  std::fprintf(stderr, "\r  %zu/%zu runs  %3.0f %%  elapsed %s  left ~%s   ", done, all,
-               100.0 * static_cast<double>(done) / static_cast<double>(all), Clock(elapsed).c_str(),
-               Clock(eta).c_str());
-  if (done == all) std::fputc('\n', stderr);
+  const double percent = 100.0 * static_cast<double>(done) / static_cast<double>(all);
+  if (terminal_) {
+    open_ = done != all;
+    std::fprintf(options_.stream, "\r  %zu/%zu runs  %3.0f %%  elapsed %s  left ~%s   ", done, all,
+                 percent, Clock(elapsed).c_str(), Clock(eta).c_str());
+    if (done == all) std::fputc('\n', options_.stream);
+    return;
+  }
+  open_ = done != all;
+  if (open_ && Seconds(now - last_line_) < options_.interval_s) return;
+  last_line_ = now;
+  if (done == all) {
+    std::fprintf(options_.stream, "%s: %zu/%zu runs, 100 %%, %s elapsed\n", options_.label.c_str(),
+                 done, all, Clock(elapsed).c_str());
+  } else {
+    std::fprintf(options_.stream, "%s: %zu/%zu runs, %.0f %%, %s elapsed, ~%s left\n",
+                 options_.label.c_str(), done, all, percent, Clock(elapsed).c_str(),
+                 Clock(eta).c_str());
+  }
+  std::fflush(options_.stream);
 }
 
 runner::ProgressFn ProgressLine::Callback() {
@@ -40,7 +62,12 @@ runner::ProgressFn ProgressLine::Callback() {
 }
 
 void ProgressLine::Close() {
-  if (open_) std::fputc('\n', stderr);
+  if (open_ && terminal_) std::fputc('\n', options_.stream);
+  if (open_ && !terminal_) {
+    std::fprintf(options_.stream, "%s: %zu runs done, %s elapsed\n", options_.label.c_str(), done_,
+                 Clock(Seconds(std::chrono::steady_clock::now() - start_)).c_str());
+    std::fflush(options_.stream);
+  }
   open_ = false;
 }
 

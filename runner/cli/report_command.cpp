@@ -33,9 +33,7 @@ int RunReport(const std::string& dir) {
   }
   std::printf("upright report: %s (%.1f kB, %zu results folder(s))\n", outcome.path.c_str(),
               static_cast<double>(outcome.bytes) / 1000.0, outcome.folders);
-  std::printf(
-      "Simulation only: validate on hardware with a tether or spotter, at low speed first, "
-      "within local rules.\n");
+  std::printf("%s\n", kCaution);
   return kExitOk;
 }
 

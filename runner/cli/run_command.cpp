@@ -1,10 +1,14 @@
-// `upright run` and `upright demo`: scenario files in; every scenario × controller × seed run in
-// parallel with a progress line on a terminal; the results folder written (tables, traces,
-// manifest) and its location printed.
+// `upright run` and `upright demo`: scenario files (or folders of them) in; every scenario ×
+// controller × seed run in parallel with its progress on stderr; the results folder written
+// (tables, traces, manifest) and its location printed.
+#include <tinyxml2.h>
+
 #include <algorithm>
 #include <cstdio>
 #include <filesystem>
 #include <iostream>
+#include <string>
+#include <vector>
 
 #include "commands.hpp"
 #include "data_folders.hpp"
@@ -33,23 +37,54 @@ std::string DefaultOutDir(const std::vector<runner::Scenario>& scenarios) {
   return "results/" + folder.filename().string();
 }
 
-// The demo suite: the scenario files in scenarios/ of the first data folder that has any, sorted.
+// A folder's scenario files: its *.xml files, sorted by name, but those whose root element names
+// another file kind (a robot model); a file that does not parse stays, so its errors show.
+std::vector<std::string> ScenarioFilesIn(const fs::path& folder, std::error_code* ec) {
+  std::vector<std::string> files;
+  for (const auto& entry : fs::directory_iterator(folder, *ec)) {
+    if (entry.path().extension() != ".xml" || !entry.is_regular_file()) continue;
+    tinyxml2::XMLDocument doc;
+    if (doc.LoadFile(entry.path().string().c_str()) == tinyxml2::XML_SUCCESS &&
+        doc.RootElement() != nullptr && std::string(doc.RootElement()->Name()) != "scenario") {
+      continue;
+    }
+    files.push_back(entry.path().string());
+  }
+  std::sort(files.begin(), files.end());
+  return files;
+}
+
+// The arguments with each folder replaced by its scenario files. False, the reason on stderr,
+// when a folder cannot be read or holds none.
+bool ExpandFolders(const std::vector<std::string>& args, std::vector<std::string>* files) {
+  for (const auto& arg : args) {
+    std::error_code ec;
+    if (!fs::is_directory(arg, ec)) {
+      files->push_back(arg);
+      continue;
+    }
+    const std::vector<std::string> found = ScenarioFilesIn(arg, &ec);
+    if (ec || found.empty()) {
+      std::cerr << arg << ": a folder with no scenario files (*.xml whose root is <scenario>)"
+                << (ec ? " (" + ec.message() + ")" : std::string()) << "; nothing was run\n";
+      return false;
+    }
+    files->insert(files->end(), found.begin(), found.end());
+  }
+  return true;
+}
+
+// The demo suite: the scenario files in scenarios/ of the first data folder that has any.
 // Empty, with *error naming every folder looked in, when none has.
-std::vector<std::string> DemoScenarios(fs::path* folder, std::string* error) {
+std::vector<std::string> DemoScenarios(std::string* error) {
   std::string looked;
   for (const fs::path& data : DataFolders()) {
-    *folder = data / "scenarios";
-    std::vector<std::string> paths;
+    const fs::path folder = data / "scenarios";
     std::error_code ec;
-    for (const auto& entry : fs::directory_iterator(*folder, ec)) {
-      if (entry.path().extension() == ".xml") paths.push_back(entry.path().string());
-    }
-    if (!ec && !paths.empty()) {
-      std::sort(paths.begin(), paths.end());
-      return paths;
-    }
-    looked += (looked.empty() ? "" : ", nor in ") + folder->string() + " (" +
-              (ec ? ec.message() : std::string("no .xml files")) + ")";
+    std::vector<std::string> paths = ScenarioFilesIn(folder, &ec);
+    if (!ec && !paths.empty()) return paths;
+    looked += (looked.empty() ? "" : ", nor in ") + folder.string() + " (" +
+              (ec ? ec.message() : std::string("no scenario files")) + ")";
   }
   *error = "no demo scenarios in " + (looked.empty() ? "any folder" : looked) +
            "; install upright (cmake --install) or run the program in its build tree";
@@ -59,9 +94,11 @@ std::vector<std::string> DemoScenarios(fs::path* folder, std::string* error) {
 }  // namespace
 
 int RunScenarios(const RunCommandOptions& options) {
+  std::vector<std::string> paths;
+  if (!ExpandFolders(options.scenario_paths, &paths)) return kExitBadInput;
   std::vector<runner::Scenario> scenarios;
   int bad = 0;
-  for (const auto& path : options.scenario_paths) {
+  for (const auto& path : paths) {
     runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
     if (!loaded.ok()) {
       for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
@@ -71,8 +108,7 @@ int RunScenarios(const RunCommandOptions& options) {
     scenarios.push_back(std::move(loaded.scenario));
   }
   if (bad > 0) {
-    std::cerr << bad << " of " << options.scenario_paths.size()
-              << " scenario file(s) invalid; nothing was run\n";
+    std::cerr << bad << " of " << paths.size() << " scenario file(s) invalid; nothing was run\n";
     return kExitBadInput;
   }
   for (std::size_t i = 0; i < scenarios.size(); ++i) {
@@ -94,7 +130,7 @@ int RunScenarios(const RunCommandOptions& options) {
   const std::string out_dir = options.out_dir.empty() ? DefaultOutDir(scenarios) : options.out_dir;
   const std::size_t total = runner::CountRuns(scenarios, batch_options);
 
-  ProgressLine progress_line;
+  ProgressLine progress_line({.label = options.label});
   std::printf("%s %zu scenario(s), %zu run(s) into %s\n", options.verb.c_str(), scenarios.size(),
               total, out_dir.c_str());
   std::fflush(stdout);
@@ -122,9 +158,7 @@ int RunScenarios(const RunCommandOptions& options) {
               out_dir.c_str(), out_dir.c_str());
   if (batch.linear_twin) std::printf(", %s/gap.md", out_dir.c_str());
   std::printf("\n");
-  std::printf(
-      "Simulation only: validate on hardware with a tether or spotter, at low speed first, "
-      "within local rules.\n");
+  if (options.caution) std::printf("%s\n", kCaution);
   // Runs that could not even start mean the user's setup is wrong; falls are results.
   return failed_setup > 0 ? kExitFailed : kExitOk;
 }
@@ -132,20 +166,23 @@ int RunScenarios(const RunCommandOptions& options) {
 int RunDemo(const RunCommandOptions& options) {
   RunCommandOptions demo = options;
   demo.verb = "upright demo: the invented demo suite,";
-  fs::path folder;
-  std::string error;
-  const std::vector<std::string> suite = DemoScenarios(&folder, &error);
-  if (suite.empty()) {
-    std::cerr << error << "\n";
-    return kExitBadInput;
+  demo.label = "upright demo";
+  demo.caution = false;  // once, before the report line
+  if (demo.scenario_paths.empty()) {
+    std::string error;
+    demo.scenario_paths = DemoScenarios(&error);
+    if (demo.scenario_paths.empty()) {
+      std::cerr << error << "\n";
+      return kExitBadInput;
+    }
   }
-  if (demo.scenario_paths.empty()) demo.scenario_paths = suite;
   if (demo.out_dir.empty()) demo.out_dir = "results/demo";
   // The whole picture: every scenario with its linear twin, then the margin and the spread of
   // the shove every controller meets, then one report over all of it.
   demo.batch.run.linear_twin = true;
   if (const int code = RunScenarios(demo); code != kExitOk) return code;
 
+  const fs::path folder = fs::path(demo.scenario_paths.front()).parent_path();
   const std::string shove = (folder / "courier-shove-half-sine.xml").string();
   EnvelopeCommandOptions envelope;
   envelope.scenario_path = shove;
@@ -160,6 +197,7 @@ int RunDemo(const RunCommandOptions& options) {
   envelope.seed_count = 1;
   envelope.jobs = demo.batch.jobs;
   envelope.out_dir = demo.out_dir + "/envelope";
+  envelope.caution = false;
   std::printf("\nupright demo: the push each controller survives in %s\n", shove.c_str());
   if (const int code = RunEnvelope(envelope); code != kExitOk) return code;
 
@@ -168,6 +206,7 @@ int RunDemo(const RunCommandOptions& options) {
   sweep.samples = 50;
   sweep.jobs = demo.batch.jobs;
   sweep.out_dir = demo.out_dir + "/sweep";
+  sweep.caution = false;
   std::printf("\nupright demo: the same shove on 50 robots drawn from its spreads\n");
   if (const int code = RunSweep(sweep); code != kExitOk) return code;
 
@@ -176,7 +215,8 @@ int RunDemo(const RunCommandOptions& options) {
     std::cerr << error << "\n";
     return kExitFailed;
   }
-  std::printf("\nreport: %s (open it in any browser; it needs no network)\n", report_path.c_str());
+  std::printf("\n%s\n", kCaution);
+  std::printf("report: %s (open it in any browser; it needs no network)\n", report_path.c_str());
   return kExitOk;
 }
 

@@ -42,7 +42,7 @@ int RunSweep(const SweepCommandOptions& options) {
       options.out_dir.empty() ? "results/" + scenario.name + "-sweep" : options.out_dir;
   const std::size_t total = static_cast<std::size_t>(options.samples) * scenario.controllers.size();
 
-  ProgressLine progress_line;
+  ProgressLine progress_line({.label = "upright sweep"});
   std::printf(
       "upright sweep: %s, %d sample(s) x %zu controller(s) = %zu run(s), seed %llu, into %s\n",
       scenario.name.c_str(), options.samples, scenario.controllers.size(), total,
@@ -76,9 +76,7 @@ int RunSweep(const SweepCommandOptions& options) {
   }
   std::printf("%.1f s on %d job(s); tables: %s/sweep.md, %s/sweep.csv\n", result.wall_s,
               result.jobs, out_dir.c_str(), out_dir.c_str());
-  std::printf(
-      "Simulation only: validate on hardware with a tether or spotter, at low speed first, "
-      "within local rules.\n");
+  if (options.caution) std::printf("%s\n", kCaution);
   return kExitOk;
 }
 

@@ -9,10 +9,11 @@ namespace upright::cli {
 
 struct SweepCommandOptions {
   std::string scenario_path;  // the scenario file; it must declare <dispersions>
-  int samples = 100;          // --samples: N, >= 1
+  int samples = 100;          // --samples: N, >= 1 (default 100)
   std::uint64_t seed = 1;     // --seed: the sweep seed; the same seed gives the same samples
   std::string out_dir;        // --out; "": results/<scenario name>-sweep
   int jobs = 0;               // --jobs: runs in parallel; 0: one per core
+  bool caution = true;        // close with the safety line (demo prints it once itself)
 };
 
 // Runs the sweep and writes sweep.csv, sweep.md and manifest.json. Exit 2 on bad input (an

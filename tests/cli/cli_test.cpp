@@ -5,24 +5,32 @@
 #include <unistd.h>
 
 #include <array>
+#include <cmath>
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <string>
 #include <utility>
 
+#include "json_reader.hpp"
+
 namespace {
+
+using upright::runner::report::JsonKind;
+using upright::runner::report::JsonValue;
 
 struct Result {
   int exit_code = -1;
   std::string output;  // stdout and stderr together
 };
 
-// Runs `upright ARGS` (in folder `cwd` when given) and collects its output and exit code.
-Result RunUpright(const std::string& args, const std::string& cwd = "") {
+// Runs `upright ARGS` (in folder `cwd` when given) and collects its output and exit code; stderr
+// goes where `redirect` sends it (by default into the output too).
+Result RunUpright(const std::string& args, const std::string& cwd = "",
+                  const std::string& redirect = "2>&1") {
   Result r;
-  const std::string command =
-      (cwd.empty() ? "" : "cd " + cwd + " && ") + std::string(UPRIGHT_EXE) + " " + args + " 2>&1";
+  const std::string command = (cwd.empty() ? "" : "cd " + cwd + " && ") + std::string(UPRIGHT_EXE) +
+                              " " + args + " " + redirect;
   FILE* pipe = popen(command.c_str(), "r");
   if (pipe == nullptr) return r;
   std::array<char, 4096> buffer;
@@ -70,6 +78,27 @@ TEST(Cli, HelpListsTheCommandsAndTheSafetyCaution) {
 }
 
 TEST(Cli, NoCommandIsAUsageError) { EXPECT_EQ(RunUpright("").exit_code, 2); }
+
+TEST(Cli, AnUnknownCommandIsNamedWithTheNearestAndTheList) {
+  const Result r = RunUpright("desing " + Models() + "courier.xml");
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find("unknown command 'desing'; did you mean 'design'?"), std::string::npos)
+      << r.output;
+  EXPECT_NE(r.output.find("commands: check, design, run, demo, sweep, envelope, report"),
+            std::string::npos)
+      << r.output;
+  // Nothing near enough: no suggestion, still the list.
+  const Result far = RunUpright("xyz");
+  EXPECT_EQ(far.exit_code, 2) << far.output;
+  EXPECT_NE(far.output.find("unknown command 'xyz'\ncommands: check,"), std::string::npos)
+      << far.output;
+}
+
+TEST(Cli, SweepSamplesDefaultsToOneHundred) {
+  const Result help = RunUpright("sweep --help");
+  EXPECT_NE(help.output.find("--samples INT:INT in [1 - 1000000]=100"), std::string::npos)
+      << help.output;
+}
 
 TEST(Cli, CheckAcceptsTheDemoModels) {
   const Result r = RunUpright("check " + Models() + "courier.xml " + Models() + "tabletop.xml");
@@ -167,18 +196,136 @@ TEST(Cli, DesignNotesAnEstimatorFasterThanItsSamplingOnlyThen) {
   }
 }
 
-TEST(Cli, DesignWithAnInfeasibleGammaExitsOneWithTheReason) {
+TEST(Cli, DesignWithAnInfeasibleGammaReportsItInPlaceAndExitsThree) {
+  // One design failing leaves the others whole: each heading says its own status, and the exit
+  // code (3) tells a script that some designs, not all, are usable.
   const Result r = RunUpright("design --gamma 0.001 " + Models() + "courier.xml");
-  EXPECT_EQ(r.exit_code, 1) << r.output;
-  EXPECT_NE(r.output.find("design failed: H-infinity at gamma = 0.001"), std::string::npos)
+  EXPECT_EQ(r.exit_code, 3) << r.output;
+  EXPECT_NE(r.output.find("== H-infinity state feedback: FAILED: H-infinity at gamma = 0.001"),
+            std::string::npos)
       << r.output;
+  for (const char* part :
+       {"== LQR: ok",
+        "== LQG (LQR on a Kalman estimate from the model's "
+        "sensors): ok",
+        "== PID cascade (tilt PD inside speed PI, yaw-rate PI): ok",
+        "design failed: H-infinity at gamma = 0.001", "3 of 4 design(s) usable"}) {
+    EXPECT_NE(r.output.find(part), std::string::npos) << part << "\n" << r.output;
+  }
+}
+
+// `upright design --json ARGS` parsed; stderr left out.
+JsonValue DesignJson(const std::string& args) {
+  const Result r = RunUpright("design --json " + args, "", "2>/dev/null");
+  JsonValue value;
+  std::string error;
+  EXPECT_TRUE(upright::runner::report::ParseJson(r.output, "design", &value, &error))
+      << error << "\n"
+      << r.output;
+  return value;
+}
+
+double NumberAt(const JsonValue& object, const char* key) {
+  const JsonValue* v = object.Find(key);
+  EXPECT_NE(v, nullptr) << key;
+  return v != nullptr && v->kind == JsonKind::kNumber ? v->number : NAN;
+}
+
+bool BoolAt(const JsonValue& object, const char* key) {
+  const JsonValue* v = object.Find(key);
+  EXPECT_TRUE(v != nullptr && v->kind == JsonKind::kBool) << key;
+  return v != nullptr && v->boolean;
+}
+
+constexpr const char* kControllerKeys[] = {"lqr", "hinf", "lqg", "pid"};
+
+TEST(Cli, DesignWithVoltageInputSaysPidIsNotOfferedAndExitsZero) {
+  const Result r = RunUpright("design --input voltage " + Models() + "courier.xml");
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find("== PID cascade (tilt PD inside speed PI, yaw-rate PI): not offered: "
+                          "the PID cascade is tuned for torque input only"),
+            std::string::npos)
+      << r.output;
+  EXPECT_NE(r.output.find("== LQR: ok"), std::string::npos) << r.output;
+  const JsonValue json = DesignJson("--input voltage " + Models() + "courier.xml");
+  ASSERT_NE(json.Find("pid"), nullptr);
+  EXPECT_EQ(json.Find("pid")->StringOr("status", ""), "unsupported");
+  EXPECT_FALSE(BoolAt(*json.Find("pid"), "ok"));
+  EXPECT_EQ(json.Find("lqr")->StringOr("status", ""), "ok");
+}
+
+TEST(Cli, DesignDoesNotCallALoopUnstableWhenSampledOk) {
+  // At 5 Hz a continuous gain applied once a sample can diverge: the status follows the sampled
+  // loop's largest |z| (stable below 1), in the JSON and in the text heading.
+  const std::string args = "--rate 5 " + Models() + "courier.xml";
+  const JsonValue json = DesignJson(args);
+  const Result text = RunUpright("design " + args);
+  int unstable = 0;
+  for (const char* key : kControllerKeys) {
+    const JsonValue* c = json.Find(key);
+    ASSERT_NE(c, nullptr) << key;
+    const JsonValue* sampled = c->Find("sampled");
+    const bool diverges = sampled != nullptr && !(NumberAt(*sampled, "max_abs_z") < 1);
+    unstable += diverges;
+    EXPECT_EQ(c->StringOr("status", ""), diverges ? "unstable_sampled" : "ok") << key;
+    EXPECT_EQ(BoolAt(*c, "ok"), !diverges) << key;
+  }
+  ASSERT_GT(unstable, 0) << text.output;
+  EXPECT_EQ(text.exit_code, 3) << text.output;
+  EXPECT_NE(text.output.find(": designed, but UNSTABLE as the module samples it at 5 Hz"),
+            std::string::npos)
+      << text.output;
+}
+
+TEST(Cli, DesignWarnsWhenADelayMarginIsBelowTheSensorLatency) {
+  // The demo courier as given: a warning exactly where the delay margin is below the delay the
+  // figures leave out, and that delay is the sensor latency (plus half a period for PID, whose
+  // sampled loop is not analysed).
+  const JsonValue as_given = DesignJson(Models() + "courier.xml");
+  const double latency_s = NumberAt(as_given, "latency_s");
+  const double period_s = 1 / NumberAt(as_given, "rate_hz");
+  for (const char* key : kControllerKeys) {
+    const JsonValue& c = *as_given.Find(key);
+    const double margin_s = NumberAt(*c.Find("margins"), "delay_s");
+    const double delay_s = NumberAt(c, "unanalysed_delay_s");
+    EXPECT_NEAR(delay_s, latency_s + (c.Find("sampled") ? 0 : period_s / 2), 1e-15) << key;
+    EXPECT_EQ(BoolAt(c, "delay_margin_short"), margin_s < delay_s) << key;
+  }
+  // A latency of 0.2 s (within the model's limit of 50 control periods) outlasts every margin.
+  const std::string slow = BrokenCopy("courier.xml", "latency_s=\"0.002\"", "latency_s=\"0.2\"");
+  const JsonValue json = DesignJson(slow);
+  for (const char* key : kControllerKeys) {
+    EXPECT_LT(NumberAt(*json.Find(key)->Find("margins"), "delay_s"), 0.2) << key;
+    EXPECT_TRUE(BoolAt(*json.Find(key), "delay_margin_short")) << key;
+  }
+  const Result text = RunUpright("design " + slow);
+  std::size_t warnings = 0;
+  for (auto at = text.output.find("warning: delay margin"); at != std::string::npos;
+       at = text.output.find("warning: delay margin", at + 1)) {
+    ++warnings;
+  }
+  EXPECT_EQ(warnings, 4u) << text.output;
+  EXPECT_NE(text.output.find("of delay these figures leave out (sensors latency_s 0.2 s)"),
+            std::string::npos)
+      << text.output;
 }
 
 TEST(Cli, DesignRejectsBadWeightsAsBadInput) {
   const Result r = RunUpright("design --max-tilt-deg -1 " + Models() + "courier.xml");
   EXPECT_EQ(r.exit_code, 2) << r.output;
-  EXPECT_NE(r.output.find("DesignWeights::max_tilt_deg = -1, must be > 0"), std::string::npos)
-      << r.output;
+  EXPECT_NE(r.output.find("--max-tilt-deg = -1: must be > 0"), std::string::npos) << r.output;
+  EXPECT_EQ(r.output.find("DesignWeights"), std::string::npos) << r.output;
+}
+
+TEST(Cli, DesignRefusesARateOfZeroByItsFlag) {
+  for (const char* args : {"--rate 0", "--rate -50", "--gamma 0", "--push-scale-N 0",
+                           "--push-height-m -0.1", "--gamma-factor 1"}) {
+    const Result r = RunUpright(std::string("design ") + args + " " + Models() + "courier.xml");
+    EXPECT_EQ(r.exit_code, 2) << args << "\n" << r.output;
+    const std::string flag = std::string(args).substr(0, std::string(args).find(' '));
+    EXPECT_EQ(r.output.rfind(flag + " = ", 0), 0u) << args << "\n" << r.output;
+    EXPECT_NE(r.output.find(": must be "), std::string::npos) << args << "\n" << r.output;
+  }
 }
 
 // A short scenario for the courier robot: two built-ins, a half-sine shove.
@@ -330,7 +477,9 @@ TEST(Cli, RunWritesEveryResultFileAndSaysWhere) {
   ASSERT_EQ(r.exit_code, 0) << r.output;
   EXPECT_NE(r.output.find("4 run(s)"), std::string::npos) << r.output;
   EXPECT_NE(r.output.find(out.string() + "/summary.md"), std::string::npos) << r.output;
-  EXPECT_NE(r.output.find("Simulation only"), std::string::npos) << r.output;
+  const auto caution = r.output.find("Simulation only");
+  EXPECT_NE(caution, std::string::npos) << r.output;
+  EXPECT_EQ(r.output.find("Simulation only", caution + 1), std::string::npos) << r.output;
   for (const char* name : {"summary.csv", "summary.md", "compare.csv", "compare.md", "ranking.csv",
                            "ranking.md", "manifest.json"}) {
     EXPECT_TRUE(std::filesystem::is_regular_file(out / name)) << name;
@@ -365,6 +514,58 @@ TEST(Cli, RunRejectsAnInvalidScenarioWithItsLineAndRunsNothing) {
   EXPECT_FALSE(std::filesystem::exists(out));
 }
 
+TEST(Cli, SweepWithoutSamplesGoesOnToTheScenario) {
+  // No --samples: not a usage error; the scenario is read (and this one has no dispersions).
+  const std::string path = ShortScenario("nodispersions");
+  const Result r = RunUpright("sweep " + path + " --out " + TempOut("nosamples").string());
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find(path + ": the scenario declares no dispersions"), std::string::npos)
+      << r.output;
+}
+
+TEST(Cli, RunTakesAFolderAsItsScenarioFilesByName) {
+  const auto folder = TempOut("folder");
+  std::filesystem::create_directories(folder);
+  // Written as files of the folder: two scenarios (out of name order) and a robot model.
+  std::filesystem::copy_file(ShortScenario("b-second"), folder / "b-second.xml");
+  std::filesystem::copy_file(ShortScenario("a-first"), folder / "a-first.xml");
+  std::filesystem::copy_file(Models() + "courier.xml", folder / "robot.xml");
+  const auto out = TempOut("folder-out");
+  const Result r = RunUpright("run " + folder.string() + "/ --out " + out.string() +
+                              " --seeds 1 --trace-rate 0");
+  ASSERT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find("2 scenario(s), 4 run(s)"), std::string::npos) << r.output;
+  std::ifstream summary(out / "summary.csv");
+  std::string line, order;
+  std::getline(summary, line);
+  while (std::getline(summary, line)) order += line.substr(0, line.find(',')) + " ";
+  EXPECT_EQ(order, "a-first a-first b-second b-second ");
+
+  const auto empty = TempOut("empty-folder");
+  std::filesystem::create_directories(empty);
+  const Result none = RunUpright("run " + empty.string());
+  EXPECT_EQ(none.exit_code, 2) << none.output;
+  EXPECT_NE(none.output.find(empty.string() +
+                             ": a folder with no scenario files (*.xml whose root is <scenario>)"),
+            std::string::npos)
+      << none.output;
+}
+
+TEST(Cli, RunOffATerminalLogsPlainProgressLines) {
+  // stderr into a file, as in a CI job: no carriage returns, and a plain line for the end.
+  const auto out = TempOut("progress");
+  const std::string log = WriteTemp("progress.log", "");
+  const Result r = RunUpright(
+      "run " + ShortScenario("progress") + " --out " + out.string() + " --seeds 2 --trace-rate 0",
+      "", "2>" + log);
+  ASSERT_EQ(r.exit_code, 0) << r.output;
+  std::ifstream in(log);
+  const std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  EXPECT_EQ(text.find('\r'), std::string::npos) << text;
+  EXPECT_NE(text.find("upright run: 4/4 runs, 100 %, 0:"), std::string::npos) << text;
+  EXPECT_EQ(r.output.find("upright run: 4/4 runs"), std::string::npos) << "stdout: " << r.output;
+}
+
 TEST(Cli, RunWithABrokenModuleFileExitsOneAndStillWritesTheTables) {
   const auto out = TempOut("missing");
   const std::string not_a_module = WriteTemp("not_a_module.so", "plain text\n");
@@ -376,12 +577,34 @@ TEST(Cli, RunWithABrokenModuleFileExitsOneAndStillWritesTheTables) {
   EXPECT_TRUE(std::filesystem::is_regular_file(out / "summary.csv"));
 }
 
+TEST(Cli, DemoHelpShowsItsOwnFolderAndNoLinearTwinFlag) {
+  const Result r = RunUpright("demo --help");
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find("(default: results/demo;"), std::string::npos) << r.output;
+  EXPECT_EQ(r.output.find("results/<scenario name>"), std::string::npos) << r.output;
+  EXPECT_EQ(r.output.find("--linear-twin"), std::string::npos) << r.output;
+  // The demo always plays the linear twins: the flag is not one of its options (a usage error
+  // before anything runs, in a scratch folder in case it did run).
+  const auto cwd = TempOut("demo-twin");
+  std::filesystem::create_directories(cwd);
+  const Result twin = RunUpright("demo --linear-twin --seeds 1 --trace-rate 0", cwd.string());
+  EXPECT_EQ(twin.exit_code, 2) << twin.output;
+  EXPECT_NE(twin.output.find("--linear-twin"), std::string::npos) << twin.output;
+  EXPECT_FALSE(std::filesystem::exists(cwd / "results"));
+}
+
 TEST(Cli, DemoRunsTheWholeSuiteIntoResultsDemo) {
   const auto cwd = TempOut("demo");
   std::filesystem::create_directories(cwd);
   const Result demo = RunUpright("demo --jobs 2 --trace-rate 10 --seeds 1", cwd.string());
   ASSERT_EQ(demo.exit_code, 0) << demo.output;
   EXPECT_NE(demo.output.find("results/demo/summary.md"), std::string::npos) << demo.output;
+  // The caution once, and the report named on the last line.
+  const auto caution = demo.output.find("Simulation only");
+  ASSERT_NE(caution, std::string::npos) << demo.output;
+  EXPECT_EQ(demo.output.find("Simulation only", caution + 1), std::string::npos) << demo.output;
+  const auto last = demo.output.rfind('\n', demo.output.size() - 2);
+  EXPECT_EQ(demo.output.compare(last + 1, 8, "report: "), 0) << demo.output.substr(last + 1);
   const auto out = cwd / "results" / "demo";
   EXPECT_TRUE(std::filesystem::is_regular_file(out / "ranking.md"));
   // Every demo scenario compares at least the four built-ins: one trace per scenario × controller.

@@ -11,3 +11,6 @@ upright_test(upright_lqg_filter_test
 upright_test(upright_sampled_loop_test
   SOURCES sampled_loop_test.cpp
   LIBS upright::design upright::model)
+upright_test(upright_design_set_test
+  SOURCES design_set_test.cpp
+  LIBS upright::design upright::model)

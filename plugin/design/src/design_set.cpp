@@ -15,7 +15,34 @@ void Finish(ControllerReport* report, const LinearModel& plant, const Measuremen
   report->message = report->loop.message;
 }
 
+// The delay the report's figures leave out (see ControllerReport::unanalysed_delay_s). A
+// zero-order hold lags like a delay of half its period (common practice).
+void NoteUnanalysedDelay(ControllerReport* report, double latency_s, double period_s) {
+  report->unanalysed_delay_s = latency_s + (report->sampled.analysed() ? 0 : period_s / 2);
+}
+
 }  // namespace
+
+const char* ToString(DesignStatus status) {
+  switch (status) {
+    case DesignStatus::kOk:
+      return "ok";
+    case DesignStatus::kUnstableSampled:
+      return "unstable_sampled";
+    case DesignStatus::kFailed:
+      return "failed";
+    case DesignStatus::kUnsupported:
+      return "unsupported";
+  }
+  return "failed";
+}
+
+DesignStatus ControllerReport::status() const {
+  if (!supported) return DesignStatus::kUnsupported;
+  if (!ok) return DesignStatus::kFailed;
+  if (sampled.analysed() && !(sampled.max_abs_z < 1)) return DesignStatus::kUnstableSampled;
+  return DesignStatus::kOk;
+}
 
 bool DesignRequest::IsValid(std::string* error) const {
   std::ostringstream why;
@@ -126,6 +153,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
 
   // PID cascade (torque based: its gains are wheel torques per unit error).
   if (req.input != InputKind::kTorque) {
+    set.pid.supported = false;
     set.pid.message = "the PID cascade is tuned for torque input only";
   } else {
     set.pid.gains = TunePid(plant, req.weights.max_tilt_deg);
@@ -133,6 +161,11 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     LinearController ctrl;
     PidAsLinearController(set.pid.gains, &meas, &ctrl);
     Finish(&set.pid, plant, meas, ctrl, perf);
+  }
+  for (ControllerReport* report :
+       {&set.lqr, static_cast<ControllerReport*>(&set.hinf),
+        static_cast<ControllerReport*>(&set.lqg), static_cast<ControllerReport*>(&set.pid)}) {
+    NoteUnanalysedDelay(report, model.sensors.latency_s, period_s);
   }
   return set;
 }

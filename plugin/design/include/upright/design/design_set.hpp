@@ -1,6 +1,6 @@
 // DesignSet: everything `upright design` reports for one robot — the linear model and, for each
 // built-in controller (LQR, H-infinity, LQG, PID), its gains, closed-loop poles, push norm and
-// margins, or the reason it could not be designed.
+// margins, or the reason it could not be designed; and whether each design is usable as sampled.
 #pragma once
 
 #include <string>
@@ -28,8 +28,17 @@ struct DesignRequest {
   bool IsValid(std::string* error) const;
 };
 
+// What a controller's design came to: made with its sampled loop stable (or not analysed, PID);
+// made, but its loop sampled at the control rate unstable; not made; or not offered for this
+// input (PID with voltage input).
+enum class DesignStatus { kOk, kUnstableSampled, kFailed, kUnsupported };
+
+// "ok", "unstable_sampled", "failed", "unsupported".
+const char* ToString(DesignStatus status);
+
 struct ControllerReport {
-  bool ok = false;
+  bool ok = false;        // designed, with its continuous loop analysed
+  bool supported = true;  // false: this controller is not offered for the requested input
   std::string message = "not designed";
   Gain K = Gain::Zero();          // continuous state feedback (LQG: its regulator)
   Gain K_discrete = Gain::Zero(); // at the sample rate, zero-order hold (LQR, LQG)
@@ -37,6 +46,13 @@ struct ControllerReport {
   // The loop as the module samples it (LQR and H-infinity with the true state, LQG with its
   // filter); not analysed for PID.
   SampledPoles sampled;
+  // The delay in the loop the module runs that none of the figures above include: the sensors'
+  // latency, plus half a control period (the hold) when the sampled loop is not analysed, s.
+  double unanalysed_delay_s = 0;
+
+  DesignStatus status() const;
+  // True when the design is made and its delay margin is below unanalysed_delay_s.
+  bool delay_margin_short() const { return ok && loop.margins.delay_s < unanalysed_delay_s; }
 };
 
 struct HinfReport : ControllerReport {
