@@ -473,14 +473,16 @@ TEST_F(ResultsWriter, TraceHasFieldColumnsAndEventLabels) {
             "current_left_A,current_right_A,torque_left_Nm,torque_right_Nm,load_left_N,"
             "load_right_N,slip_left,slip_right,payload_x_m,event");
   EXPECT_EQ(lines[1], "0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,start");
-  // Both marks at 0.015 s lie in [0.01, 0.02): joined with "; ", quoted for the comma and quotes.
-  EXPECT_EQ(lines[2],
-            "0.01,0,0,1.23457,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,"
+  // Both marks at 0.015 s happened after the row at 0.01 s: none there.
+  EXPECT_EQ(lines[2], "0.01,0,0,1.23457,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,");
+  // They show on the first row at or after them, 0.02 s: joined with "; ", quoted for the comma
+  // and quotes. NaN speed: an empty field.
+  EXPECT_EQ(lines[3],
+            "0.02,0,0,2.46914,0,0,,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,"
             "\"push 120 N, \"\"half-sine\"\"; second\"");
-  // NaN speed: an empty field; no mark in [0.02, 0.03).
-  EXPECT_EQ(lines[3], "0.02,0,0,2.46914,0,0,,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,");
-  // The mark after the last row belongs to the last row.
-  EXPECT_EQ(lines[4], "0.03,0,0,3.7037,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,fall");
+  // The mark at 0.5 s came after the trace's end (0.03 s): it appears nowhere.
+  EXPECT_EQ(lines[4], "0.03,0,0,3.7037,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,");
+  EXPECT_EQ(csv.find("fall"), std::string::npos);
 }
 
 TEST_F(ResultsWriter, TraceFileNameReplacesUnsafeCharacters) {

@@ -5,24 +5,57 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <string>
+#include <vector>
 
 #include "run_test_support.hpp"
+#include "upright/runner/results_writer.hpp"
 
 namespace upright::runner {
 namespace {
 
 using testing::BuiltinModule;
+using testing::ReadFile;
 using testing::ScenarioFromText;
+using testing::ScratchDir;
 
-// A parked courier shoved by a half-sine push of `peak_N` at 0.5 s, for 3 s.
-std::string ShoveText(double peak_N, const std::string& lqr_settings = "") {
+// The lines of `text`, without their line breaks.
+std::vector<std::string> Lines(const std::string& text) {
+  std::vector<std::string> lines;
+  std::size_t start = 0;
+  while (start < text.size()) {
+    const std::size_t end = text.find('\n', start);
+    lines.push_back(text.substr(start, end - start));
+    if (end == std::string::npos) break;
+    start = end + 1;
+  }
+  return lines;
+}
+
+// `runs` written as a results folder into the scratch folder `name`; the folder.
+std::filesystem::path Written(const std::vector<RunResult>& runs, const std::string& name) {
+  BatchResult batch;
+  batch.tool_version = "test";
+  batch.trace_rate_hz = 100;
+  batch.runs = runs;
+  const std::filesystem::path dir = ScratchDir(name);
+  std::string error;
+  EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+  return dir;
+}
+
+// A parked courier shoved by a half-sine push of `peak_N` at 0.5 s, for 3 s, then the timeline
+// elements in `more_events` (whole lines).
+std::string ShoveText(double peak_N, const std::string& lqr_settings = "",
+                      const std::string& more_events = "") {
   return R"(<scenario name="shove" schema="1" duration_s="3" dt_s="0.001">
   <description>Test: a parked courier shoved once.</description>
   <robot file="../models/courier.xml"/>
   <timeline>
     <push at_s="0.5" shape="half-sine" peak_N=")" +
          std::to_string(peak_N) + R"(" duration_s="0.2"/>
-  </timeline>
+)" + more_events +
+         R"(  </timeline>
   <controllers baseline="lqr">
     <controller name="lqr" builtin="lqr">)" +
          lqr_settings + R"(</controller>
@@ -73,6 +106,42 @@ TEST(RunOne, AFallEndsTheRunAtOnceWithItsTime) {
   EXPECT_EQ(r.trace.marks.back().label, "fell");
   EXPECT_TRUE(std::isnan(r.metrics.tilt_settle_s));  // a fallen run is not judged for settling
   EXPECT_NE(r.metrics.message.find("fell at t = "), std::string::npos);
+}
+
+TEST(RunOne, TraceEventsAppearWhereTheyHappenAndNotAfterTheEnd) {
+  // A shove the robot does not survive, a push at 0.505 s between two 10 ms trace rows, and a
+  // drive change at 2.5 s, long after the fall.
+  const Scenario s = ScenarioFromText(
+      ShoveText(2500, "",
+                R"(    <push at_s="0.505" shape="step" peak_N="1" duration_s="0.1"/>
+    <drive at_s="2.5" speed_m_s="0.3" ramp_s="0.2"/>
+)"));
+  RunOptions options;
+  options.trace_rate_hz = 100;
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", options);
+  ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
+  ASSERT_LT(r.metrics.fall_time_s, 2.5);
+  // The trace ends on the step the robot fell, on the 10 ms grid or not.
+  EXPECT_EQ(r.trace.rows.back().time_s, r.metrics.fall_time_s);
+
+  const auto dir = Written({r}, "trace-events");
+  const std::vector<std::string> lines = Lines(ReadFile(dir / "traces" / TraceFileName(r)));
+  ASSERT_EQ(lines.size(), r.trace.rows.size() + 1);
+  // Each row's time and event (the first and the last field; no event label here has a comma).
+  std::vector<std::pair<double, std::string>> events;
+  for (std::size_t i = 1; i < lines.size(); ++i) {
+    const std::string& line = lines[i];
+    const std::string event = line.substr(line.rfind(',') + 1);
+    if (!event.empty()) events.emplace_back(std::stod(line.substr(0, line.find(','))), event);
+  }
+  ASSERT_EQ(events.size(), 3u) << lines.back();
+  EXPECT_NEAR(events[0].first, 0.5, 1e-12);  // on its own row, the row at 0.5 s
+  EXPECT_EQ(events[0].second, "push 2500 N half-sine 0.2 s");
+  EXPECT_NEAR(events[1].first, 0.51, 1e-12);  // the first row after 0.505 s, not the one before
+  EXPECT_EQ(events[1].second, "push 1 N step 0.1 s");
+  // The fall on the last row, at its own time; the drive change never happened.
+  EXPECT_NEAR(events[2].first, r.metrics.fall_time_s, 1e-9);
+  EXPECT_EQ(events[2].second, "fell");
 }
 
 TEST(RunOne, AControllerThatRefusesItsSettingsIsASetupFailure) {

@@ -276,6 +276,11 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     }
   }
   if (status == RunStatus::kOk && message.empty()) message = "survived";
+  // The trace ends where the run ended, on the trace rate's grid or not, so that what happened
+  // last (a fall, a fault) has its row.
+  if (trace_every > 0 && result.trace.rows.back().time_s < plant->time_s()) {
+    result.trace.rows.push_back(Row(*plant, *host, timeline, drift()));
+  }
   if (trace_every > 0 && status != RunStatus::kOk) {
     // The end of a run cut short, among the event marks in time order.
     const double end_s =
