@@ -82,6 +82,22 @@ TEST(MetricRecorder, ConstantTorqueEffortIsTwoTauSquaredT) {
   EXPECT_TRUE(std::isnan(m.fall_time_s));
 }
 
+TEST(MetricRecorder, ARunThatNeverSteppedHasEveryFigureNaN) {
+  // A controller fault on the first tick: the run ends before its first physics step.
+  MetricRecorder recorder(MetricSettings{}, kDt, 3.0, {0.5});
+  for (RunStatus status : {RunStatus::kControllerFault, RunStatus::kSetupFailed, RunStatus::kOk}) {
+    const RunMetrics m = recorder.Finish(status, "why");
+    EXPECT_EQ(m.status, status);
+    EXPECT_EQ(m.message, "why");
+    for (double figure : {m.fall_time_s, m.end_time_s, m.max_tilt_deg, m.max_drift_m,
+                          m.tilt_settle_s, m.drift_settle_s, m.tilt_overshoot_pct, m.rms_tilt_deg,
+                          m.iae_tilt_deg_s, m.effort_Nm2s, m.peak_torque_Nm, m.peak_current_A,
+                          m.saturation_frac, m.max_slip_ratio, m.slip_time_s, m.energy_J}) {
+      EXPECT_TRUE(std::isnan(figure)) << ToString(status) << ": " << figure;
+    }
+  }
+}
+
 TEST(MetricRecorder, SinusoidalTiltRmsIsAmplitudeOverRootTwo) {
   const double a_rad = 0.05, f_hz = 2;
   const long per_period = 500, steps = 6 * per_period;  // six whole periods

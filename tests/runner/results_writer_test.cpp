@@ -438,7 +438,7 @@ TEST_F(ResultsWriter, RankingPutsSurvivalFirstThenScoreThenName) {
 }
 
 TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
-  // Seed 2's set-up failed: its figures are only defaults (0) and stay out of the means, but the
+  // Seed 2's set-up failed: it has no figures (empty cells) and stays out of the means, but the
   // run counts among the runs that did not survive.
   BatchResult batch;
   batch.runs.push_back(
@@ -458,7 +458,7 @@ TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
             std::string::npos)
       << md;
   EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2],
-            "s,a,2,true,setup_failed,0,,0,0,,,,0,0,0,0,0,0,0,0,0,0,module not found");
+            "s,a,2,true,setup_failed,0,,,,,,,,,,,,,,,,,module not found");
   EXPECT_EQ(Lines(Read(dir / "ranking.csv"))[1].substr(0, 14), "1,a,0.5,1,2,1,");
 }
 

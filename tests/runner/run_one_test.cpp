@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "run_test_support.hpp"
+#include "upright/runner/metric_columns.hpp"
 #include "upright/runner/results_writer.hpp"
 
 namespace upright::runner {
@@ -42,6 +43,14 @@ std::filesystem::path Written(const std::vector<RunResult>& runs, const std::str
   std::string error;
   EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
   return dir;
+}
+
+// The module of the host tests that faults on its first tick (it leaves a command unwritten).
+std::shared_ptr<host::Module> FirstTickFaultModule() {
+  std::string error;
+  auto module = host::Module::Load(std::string(UPRIGHT_TEST_MODULE_DIR) + "/faulty_1.so", &error);
+  EXPECT_NE(module, nullptr) << error;
+  return module;
 }
 
 // A parked courier shoved by a half-sine push of `peak_N` at 0.5 s, for 3 s, then the timeline
@@ -106,6 +115,31 @@ TEST(RunOne, AFallEndsTheRunAtOnceWithItsTime) {
   EXPECT_EQ(r.trace.marks.back().label, "fell");
   EXPECT_TRUE(std::isnan(r.metrics.tilt_settle_s));  // a fallen run is not judged for settling
   EXPECT_NE(r.metrics.message.find("fell at t = "), std::string::npos);
+}
+
+TEST(RunOne, RunsThatNeverSteppedHaveNoFiguresAndEmptyCells) {
+  const Scenario s = ScenarioFromText(ShoveText(60, R"(<setting key="no_such_key" value="1"/>)"));
+  const RunResult setup_failed = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  ASSERT_EQ(setup_failed.metrics.status, RunStatus::kSetupFailed);
+  const RunResult faulted = RunOne(s, 0, 8, FirstTickFaultModule(), "", RunOptions{});
+  ASSERT_EQ(faulted.metrics.status, RunStatus::kControllerFault) << faulted.metrics.message;
+  EXPECT_EQ(faulted.steps, 0);
+  for (const RunResult* run : {&setup_failed, &faulted}) {
+    for (const MetricColumn& column : MetricColumns()) {
+      EXPECT_TRUE(std::isnan(run->metrics.*column.field))
+          << ToString(run->metrics.status) << " " << column.name << " = "
+          << run->metrics.*column.field;
+    }
+  }
+  // In summary.csv every figure cell of both rows is empty, between status/survived and message.
+  const auto dir = Written({setup_failed, faulted}, "never-stepped");
+  const std::vector<std::string> lines = Lines(ReadFile(dir / "summary.csv"));
+  ASSERT_EQ(lines.size(), 3u);
+  const std::string empty_figures(MetricColumns().size(), ',');
+  EXPECT_EQ(lines[1].rfind("shove,lqr,7,true,setup_failed,0" + empty_figures + ",", 0), 0u)
+      << lines[1];
+  EXPECT_EQ(lines[2].rfind("shove,lqr,8,true,controller_fault,0" + empty_figures + ",", 0), 0u)
+      << lines[2];
 }
 
 TEST(RunOne, TraceEventsAppearWhereTheyHappenAndNotAfterTheEnd) {

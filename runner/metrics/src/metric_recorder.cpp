@@ -82,15 +82,14 @@ RunMetrics MetricRecorder::Finish(RunStatus status, const std::string& message) 
   RunMetrics m;
   m.status = status;
   m.message = message;
+  if (samples_ == 0) return m;  // never stepped: every figure stays NaN
+  const auto n = static_cast<double>(samples_);
   m.end_time_s = last_time_s_;
-  if (status == RunStatus::kFell && samples_ > 0) m.fall_time_s = last_time_s_;
+  if (status == RunStatus::kFell) m.fall_time_s = last_time_s_;
   m.max_tilt_deg = max_tilt_rad_ * kDeg;
   m.max_drift_m = max_drift_m_;
-  if (samples_ > 0) {
-    const auto n = static_cast<double>(samples_);
-    m.rms_tilt_deg = std::sqrt(sum_tilt2_ / n) * kDeg;
-    m.saturation_frac = static_cast<double>(saturated_steps_) / n;
-  }
+  m.rms_tilt_deg = std::sqrt(sum_tilt2_ / n) * kDeg;
+  m.saturation_frac = static_cast<double>(saturated_steps_) / n;
   m.iae_tilt_deg_s = sum_abs_tilt_ * dt_s_ * kDeg;
   m.effort_Nm2s = effort_;
   m.peak_torque_Nm = peak_torque_;

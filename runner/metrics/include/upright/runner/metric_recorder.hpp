@@ -37,7 +37,8 @@ class MetricRecorder {
   void Add(const StepSample& sample);
   // The figures for the steps added so far (definitions in the README, "Metrics"). `status`
   // and `message` say how the run ended; fall_time_s is the last sample's time when the status
-  // is kFell. Settling and overshoot are judged only when the status is kOk (else NaN).
+  // is kFell. Settling and overshoot are judged only when the status is kOk (else NaN). With no
+  // step added every figure, end_time_s included, is NaN.
   RunMetrics Finish(RunStatus status, const std::string& message) const;
 
  private:
