@@ -89,10 +89,11 @@ TEST(MetricRecorder, ARunThatNeverSteppedHasEveryFigureNaN) {
     const RunMetrics m = recorder.Finish(status, "why");
     EXPECT_EQ(m.status, status);
     EXPECT_EQ(m.message, "why");
-    for (double figure : {m.fall_time_s, m.end_time_s, m.max_tilt_deg, m.max_drift_m,
-                          m.tilt_settle_s, m.drift_settle_s, m.tilt_overshoot_pct, m.rms_tilt_deg,
-                          m.iae_tilt_deg_s, m.effort_Nm2s, m.peak_torque_Nm, m.peak_current_A,
-                          m.saturation_frac, m.max_slip_ratio, m.slip_time_s, m.energy_J}) {
+    for (double figure :
+         {m.fall_time_s, m.end_time_s, m.max_tilt_deg, m.max_drift_m, m.tilt_settle_s,
+          m.drift_settle_s, m.tilt_overshoot_pct, m.rms_tilt_deg, m.iae_tilt_deg_s, m.effort_Nm2s,
+          m.peak_torque_Nm, m.peak_current_A, m.saturation_pct, m.command_limit_pct,
+          m.max_slip_ratio, m.slip_time_s, m.energy_J}) {
       EXPECT_TRUE(std::isnan(figure)) << ToString(status) << ": " << figure;
     }
   }
@@ -133,19 +134,22 @@ TEST(MetricRecorder, EnergyCountsOnlyPowerDrawn) {
   EXPECT_NEAR(m.energy_J, 70, 1e-9);
 }
 
-TEST(MetricRecorder, SaturationFractionPeaksAndDrift) {
+TEST(MetricRecorder, SaturationPercentagesPeaksAndDrift) {
   const long steps = 1000;
   MetricRecorder recorder(MetricSettings{}, kDt, 1.0, {});
   Feed(&recorder, steps, [&](long i, double) {
     StepSample s;
     s.saturated = i % 4 == 0;
+    s.command_at_limit = i < 125;
     s.current_A = {i == 300 ? -12.0 : 3.0, 4.0};
     s.torque_Nm = {0.5, i == 700 ? -5.5 : 1.0};
     s.drift_m = i == 500 ? 0.42 : 0.1;
     return s;
   });
   const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
-  EXPECT_DOUBLE_EQ(m.saturation_frac, 0.25);
+  // Percentages of the 1000 steps: 250 saturated, the first 125 with the command at its limit.
+  EXPECT_DOUBLE_EQ(m.saturation_pct, 25.0);
+  EXPECT_DOUBLE_EQ(m.command_limit_pct, 12.5);
   EXPECT_DOUBLE_EQ(m.peak_current_A, 12.0);
   EXPECT_DOUBLE_EQ(m.peak_torque_Nm, 5.5);
   EXPECT_DOUBLE_EQ(m.max_drift_m, 0.42);

@@ -47,7 +47,8 @@ RunResult MakeRun(const std::string& scenario, const std::string& controller, st
   m.effort_Nm2s = f.effort;
   m.peak_torque_Nm = 2;
   m.peak_current_A = f.current_A;
-  m.saturation_frac = f.saturation;
+  m.saturation_pct = 100 * f.saturation;
+  m.command_limit_pct = 0;
   m.max_slip_ratio = 0;
   m.slip_time_s = 0;
   m.energy_J = f.energy_J;
@@ -208,17 +209,17 @@ TEST_F(ResultsWriter, SummaryCsvHasOneRowPerRunWithExactCells) {
   EXPECT_EQ(lines[0],
             "scenario,controller,seed,baseline,status,survived,fall_time_s,max_tilt_deg,"
             "max_drift_m,tilt_settle_s,drift_settle_s,tilt_overshoot_pct,rms_tilt_deg,"
-            "iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,saturation_frac,"
-            "max_slip_ratio,slip_time_s,energy_J,end_time_s,message");
-  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,1,,2,0.125,1,2,10,0.5,1,10,2,4,0,0,0,20,5,survived");
+            "iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,saturation_pct,"
+            "command_limit_pct,max_slip_ratio,slip_time_s,energy_J,end_time_s,message");
+  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,1,,2,0.125,1,2,10,0.5,1,10,2,4,0,0,0,0,20,5,survived");
   // hinf seed 1: the unsettled drift and the inapplicable overshoot are empty fields.
-  EXPECT_EQ(lines[3], "ramp,hinf,1,false,ok,1,,1.5,0.25,1,,,0.5,1,15,2,5,0.0625,0,0,25,5,survived");
+  EXPECT_EQ(lines[3], "ramp,hinf,1,false,ok,1,,1.5,0.25,1,,,0.5,1,15,2,5,6.25,0,0,0,25,5,survived");
   // The fall: status, survived 0, fall time; the message quoted per RFC 4180 (comma, doubled
   // quotes, a line break inside the quotes), so this record spans two lines.
   EXPECT_EQ(lines[5] + "\n" + lines[6],
-            "ramp,pid,1,false,fell,0,3.25,45,0.75,,,10,10,1,30,2,12,0.375,0.5,0.25,30,3.25,"
+            "ramp,pid,1,false,fell,0,3.25,45,0.75,,,10,10,1,30,2,12,37.5,0,0.5,0.25,30,3.25,"
             "\"tilt 45.2 deg, \"\"hard\"\" fall\nat 3.25 s\"");
-  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,1,,3,0.5,1,2,,0.5,1,8,2,4,0,0,0,16,5,survived");
+  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,1,,3,0.5,1,2,,0.5,1,8,2,4,0,0,0,0,16,5,survived");
   EXPECT_EQ(lines.size(), 12u);  // header + 10 runs, one of them on two lines
 }
 
@@ -232,7 +233,7 @@ TEST_F(ResultsWriter, NumbersUseSixSignificantDigitsWithoutLocale) {
       Cells(Lines(Read(WriteInto("a", batch) / "summary.csv"))[2]);
   // printf("%.6g") of each value (C standard §7.21.6.1, the g conversion).
   EXPECT_EQ(cells[7], "3.14159");
-  EXPECT_EQ(cells[20], "1.23457e+06");
+  EXPECT_EQ(cells[21], "1.23457e+06");
   EXPECT_EQ(cells[14], "1.23457e-05");
   EXPECT_EQ(cells[15], "0");
 }
@@ -305,8 +306,8 @@ TEST_F(ResultsWriter, ComparePercentagesAndVerdictsAgainstBaseline) {
   // The baseline is not compared with itself, and pid did not run in shove.
   EXPECT_EQ(CompareRecord(csv, "ramp", "lqr", "max_tilt_deg"), "");
   EXPECT_EQ(CompareRecord(csv, "shove", "pid", "max_tilt_deg"), "");
-  // 2 comparisons in ramp + 1 in shove, each survival + 14 figures, + header.
-  EXPECT_EQ(Lines(csv).size(), 3u * 15u + 1u);
+  // 2 comparisons in ramp + 1 in shove, each survival + 15 figures, + header.
+  EXPECT_EQ(Lines(csv).size(), 3u * 16u + 1u);
 
   const std::string md = Read(WriteInto("b", MakeBatch()) / "compare.md");
   EXPECT_NE(md.find("| metric | lqr (baseline) | hinf | pid |"), std::string::npos) << md;
@@ -458,7 +459,7 @@ TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
             std::string::npos)
       << md;
   EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2],
-            "s,a,2,true,setup_failed,0,,,,,,,,,,,,,,,,,module not found");
+            "s,a,2,true,setup_failed,0,,,,,,,,,,,,,,,,,,module not found");
   EXPECT_EQ(Lines(Read(dir / "ranking.csv"))[1].substr(0, 14), "1,a,0.5,1,2,1,");
 }
 

@@ -117,6 +117,41 @@ TEST(RunOne, AFallEndsTheRunAtOnceWithItsTime) {
   EXPECT_NE(r.metrics.message.find("fell at t = "), std::string::npos);
 }
 
+TEST(RunOne, AClampedCommandCountsAtTheLimitAndSaturatesTheMotor) {
+  // H-infinity's high gain under a sharp knock: its kit clamps the torque command at exactly the
+  // stall torque, where the drive holds the 20 A current limit.
+  const Scenario s = ScenarioFromText(R"(<scenario name="knock" schema="1" duration_s="2">
+  <description>Test: a parked courier knocked hard at handle height.</description>
+  <robot file="../models/courier.xml"/>
+  <timeline>
+    <push at_s="0.5" shape="impulse" peak_N="250" duration_s="0.06" height_m="0.55"/>
+  </timeline>
+  <controllers baseline="hinf">
+    <controller name="hinf" builtin="hinf"/>
+  </controllers>
+  <seeds list="1"/>
+</scenario>)");
+  const RunResult r = RunOne(s, 0, 1, BuiltinModule("hinf"), "", RunOptions{});
+  ASSERT_GT(r.steps, 0) << r.metrics.message;
+  EXPECT_NEAR(r.metrics.peak_current_A, s.model.motor.current_limit_A, 1e-9);
+  EXPECT_GT(r.metrics.command_limit_pct, 0);
+  EXPECT_GT(r.metrics.saturation_pct, 0);
+  // A torque command at the stall torque asks for the limit current: every such step is also a
+  // saturated one.
+  EXPECT_GE(r.metrics.saturation_pct, r.metrics.command_limit_pct);
+  EXPECT_LE(r.metrics.saturation_pct, 100);
+}
+
+TEST(RunOne, ACommandInsideTheLimitIsNotCounted) {
+  // A modest push: the current stays well inside the 20 A limit and the command inside its own.
+  const Scenario s = ScenarioFromText(ShoveText(60));
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
+  EXPECT_LT(r.metrics.peak_current_A, 0.9 * s.model.motor.current_limit_A);
+  EXPECT_EQ(r.metrics.command_limit_pct, 0);
+  EXPECT_EQ(r.metrics.saturation_pct, 0);
+}
+
 TEST(RunOne, RunsThatNeverSteppedHaveNoFiguresAndEmptyCells) {
   const Scenario s = ScenarioFromText(ShoveText(60, R"(<setting key="no_such_key" value="1"/>)"));
   const RunResult setup_failed = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});

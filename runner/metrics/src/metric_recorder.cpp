@@ -70,6 +70,7 @@ void MetricRecorder::Add(const StepSample& s) {
   }
   if (slipping) ++slipping_steps_;
   if (s.saturated) ++saturated_steps_;
+  if (s.command_at_limit) ++command_limited_steps_;
 
   // Within the capacity reserved up front push_back never allocates; beyond it, stop buffering.
   if (tilt_rad_.size() < tilt_rad_.capacity() && drift_m_.size() < drift_m_.capacity()) {
@@ -89,7 +90,8 @@ RunMetrics MetricRecorder::Finish(RunStatus status, const std::string& message) 
   m.max_tilt_deg = max_tilt_rad_ * kDeg;
   m.max_drift_m = max_drift_m_;
   m.rms_tilt_deg = std::sqrt(sum_tilt2_ / n) * kDeg;
-  m.saturation_frac = static_cast<double>(saturated_steps_) / n;
+  m.saturation_pct = 100.0 * static_cast<double>(saturated_steps_) / n;
+  m.command_limit_pct = 100.0 * static_cast<double>(command_limited_steps_) / n;
   m.iae_tilt_deg_s = sum_abs_tilt_ * dt_s_ * kDeg;
   m.effort_Nm2s = effort_;
   m.peak_torque_Nm = peak_torque_;

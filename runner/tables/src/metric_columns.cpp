@@ -7,7 +7,7 @@
 namespace upright::runner {
 namespace {
 
-constexpr std::array<MetricColumn, 16> kColumns = {{
+constexpr std::array<MetricColumn, 17> kColumns = {{
     {"fall_time_s", "fall time (s)", &RunMetrics::fall_time_s, false},
     {"max_tilt_deg", "max tilt (deg)", &RunMetrics::max_tilt_deg, true},
     {"max_drift_m", "max drift (m)", &RunMetrics::max_drift_m, true},
@@ -19,7 +19,8 @@ constexpr std::array<MetricColumn, 16> kColumns = {{
     {"effort_Nm2s", "effort (N²m²s)", &RunMetrics::effort_Nm2s, true},
     {"peak_torque_Nm", "peak torque (N·m)", &RunMetrics::peak_torque_Nm, true},
     {"peak_current_A", "peak current (A)", &RunMetrics::peak_current_A, true},
-    {"saturation_frac", "saturation (fraction of steps)", &RunMetrics::saturation_frac, true},
+    {"saturation_pct", "saturation (% of steps)", &RunMetrics::saturation_pct, true},
+    {"command_limit_pct", "command at limit (% of steps)", &RunMetrics::command_limit_pct, true},
     {"max_slip_ratio", "max slip ratio", &RunMetrics::max_slip_ratio, true},
     {"slip_time_s", "slip time (s)", &RunMetrics::slip_time_s, true},
     {"energy_J", "energy (J)", &RunMetrics::energy_J, true},

@@ -26,7 +26,7 @@ constexpr std::array<ReadableColumn, 11> kReadableColumns = {{
     {"RMS tilt (deg)", &RunMetrics::rms_tilt_deg, 1, false},
     {"effort (N²m²s)", &RunMetrics::effort_Nm2s, 1, false},
     {"peak current (A)", &RunMetrics::peak_current_A, 1, false},
-    {"saturation (%)", &RunMetrics::saturation_frac, 100, false},
+    {"saturation (%)", &RunMetrics::saturation_pct, 1, false},
     {"max slip ratio", &RunMetrics::max_slip_ratio, 1, false},
     {"energy (J)", &RunMetrics::energy_J, 1, false},
 }};

@@ -21,6 +21,7 @@ struct StepSample {
   std::array<double, 2> current_A{};  // motor currents
   std::array<double, 2> power_W{};    // electrical power V·i (negative when regenerating)
   bool saturated = false;             // either motor voltage- or current-limited this step
+  bool command_at_limit = false;      // either wheel's command at or beyond the drive's limit
   std::array<double, 2> slip_ratio{};
   std::array<bool, 2> touching{};  // wheel in contact with the ground
 };
@@ -54,7 +55,7 @@ class MetricRecorder {
   double first_time_s_ = 0, last_time_s_ = 0;
   double max_tilt_rad_ = 0, max_drift_m_ = 0, sum_tilt2_ = 0, sum_abs_tilt_ = 0;
   double effort_ = 0, peak_torque_ = 0, peak_current_ = 0, energy_J_ = 0;
-  long saturated_steps_ = 0, slipping_steps_ = 0;
+  long saturated_steps_ = 0, command_limited_steps_ = 0, slipping_steps_ = 0;
   double max_slip_ = 0;
 };
 

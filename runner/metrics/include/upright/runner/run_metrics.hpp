@@ -46,7 +46,11 @@ struct RunMetrics {
   double effort_Nm2s = kNaN;      // ∫(τ_L² + τ_R²) dt, wheel torques
   double peak_torque_Nm = kNaN;   // max |wheel torque| over both wheels
   double peak_current_A = kNaN;   // max |motor current| over both motors
-  double saturation_frac = kNaN;  // fraction of steps with either motor voltage- or current-limited
+  // Percentage of physics steps with either motor at its voltage or current limit (0–100).
+  double saturation_pct = kNaN;
+  // Percentage of physics steps with either wheel's command at or beyond the drive's limit of
+  // its kind: the supply voltage, or the stall torque at the wheel (0–100).
+  double command_limit_pct = kNaN;
   double max_slip_ratio = kNaN;   // max |slip ratio| over wheels touching the ground
   double slip_time_s = kNaN;      // time with either touching wheel's |slip ratio| over threshold
   double energy_J = kNaN;         // ∫ max(0, V·i) dt over both motors: electrical energy drawn
