@@ -97,10 +97,11 @@ TEST(RunMetrics, StartsNotRunWithEveryFigureNaN) {
   EXPECT_EQ(m.status, RunStatus::kNotRun);
   EXPECT_EQ(m.message, "not run");
   // A run that never happened has no figure: none may read as a flawless 0.
-  for (double figure : {m.fall_time_s, m.end_time_s, m.max_tilt_deg, m.max_drift_m, m.tilt_settle_s,
-                        m.drift_settle_s, m.tilt_overshoot_pct, m.rms_tilt_deg, m.iae_tilt_deg_s,
-                        m.effort_Nm2s, m.peak_torque_Nm, m.peak_current_A, m.saturation_pct,
-                        m.command_limit_pct, m.max_slip_ratio, m.slip_time_s, m.energy_J}) {
+  for (double figure :
+       {m.fall_time_s, m.end_time_s, m.max_tilt_deg, m.max_drift_m, m.tilt_settle_s,
+        m.drift_settle_s, m.tilt_rebound_deg, m.tilt_rebound_pct, m.rms_tilt_deg, m.iae_tilt_deg_s,
+        m.effort_Nm2s, m.peak_torque_Nm, m.peak_current_A, m.saturation_pct, m.command_limit_pct,
+        m.max_slip_ratio, m.slip_time_s, m.energy_J}) {
     EXPECT_TRUE(std::isnan(figure)) << figure;
   }
 }

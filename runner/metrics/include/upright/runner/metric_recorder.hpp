@@ -1,6 +1,6 @@
 // MetricRecorder: one run's physics steps in (a StepSample each), its RunMetrics out. Running
 // figures accumulate as the run goes; tilt and drift are buffered (allocated once, up front) so
-// settling and overshoot can be judged after each disturbance. Add() never allocates.
+// settling and rebound can be judged after each disturbance. Add() never allocates.
 #pragma once
 
 #include <array>
@@ -38,12 +38,12 @@ class MetricRecorder {
   void Add(const StepSample& sample);
   // The figures for the steps added so far (definitions in the README, "Metrics"). `status`
   // and `message` say how the run ended; fall_time_s is the last sample's time when the status
-  // is kFell. Settling and overshoot are judged only when the status is kOk (else NaN). With no
+  // is kFell. Settling and rebound are judged only when the status is kOk (else NaN). With no
   // step added every figure, end_time_s included, is NaN.
   RunMetrics Finish(RunStatus status, const std::string& message) const;
 
  private:
-  // Fills the settling and overshoot figures of `metrics` from the buffered tilt and drift.
+  // Fills the settling and rebound figures of `metrics` from the buffered tilt and drift.
   void JudgeSettling(RunMetrics* metrics) const;
 
   MetricSettings settings_;

@@ -38,22 +38,24 @@ struct RunMetrics {
   // that did not end kOk; a run that never settled never looks better than one that did.
   double tilt_settle_s = kNaN;
   double drift_settle_s = kNaN;
-  // Worst over disturbances: the rebound past the final value, opposite to the first excursion
-  // out of the tilt band, as a percentage of that excursion (0 when tilt never left the band).
-  double tilt_overshoot_pct = kNaN;
-  double rms_tilt_deg = kNaN;     // over the whole run, about the equilibrium pitch
-  double iae_tilt_deg_s = kNaN;   // ∫|tilt| dt
-  double effort_Nm2s = kNaN;      // ∫(τ_L² + τ_R²) dt, wheel torques
-  double peak_torque_Nm = kNaN;   // max |wheel torque| over both wheels
-  double peak_current_A = kNaN;   // max |motor current| over both motors
+  // Worst over the disturbances: after the peak excursion P = max |tilt − final|, the largest
+  // excursion R past the final value on the other side; in degrees, and as 100 R / P (≤ 100).
+  // 0 for a disturbance whose tilt never left the tilt band; NaN as for the settling times.
+  double tilt_rebound_deg = kNaN;
+  double tilt_rebound_pct = kNaN;
+  double rms_tilt_deg = kNaN;    // over the whole run, about the equilibrium pitch
+  double iae_tilt_deg_s = kNaN;  // ∫|tilt| dt
+  double effort_Nm2s = kNaN;     // ∫(τ_L² + τ_R²) dt, wheel torques
+  double peak_torque_Nm = kNaN;  // max |wheel torque| over both wheels
+  double peak_current_A = kNaN;  // max |motor current| over both motors
   // Percentage of physics steps with either motor at its voltage or current limit (0–100).
   double saturation_pct = kNaN;
   // Percentage of physics steps with either wheel's command at or beyond the drive's limit of
   // its kind: the supply voltage, or the stall torque at the wheel (0–100).
   double command_limit_pct = kNaN;
-  double max_slip_ratio = kNaN;   // max |slip ratio| over wheels touching the ground
-  double slip_time_s = kNaN;      // time with either touching wheel's |slip ratio| over threshold
-  double energy_J = kNaN;         // ∫ max(0, V·i) dt over both motors: electrical energy drawn
+  double max_slip_ratio = kNaN;  // max |slip ratio| over wheels touching the ground
+  double slip_time_s = kNaN;     // time with either touching wheel's |slip ratio| over threshold
+  double energy_J = kNaN;        // ∫ max(0, V·i) dt over both motors: electrical energy drawn
 };
 
 }  // namespace upright::runner
