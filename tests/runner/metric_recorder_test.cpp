@@ -82,6 +82,23 @@ TEST(MetricRecorder, ConstantTorqueEffortIsTwoTauSquaredT) {
   EXPECT_TRUE(std::isnan(m.fall_time_s));
 }
 
+TEST(MetricRecorder, ARunThatNeverSteppedHasEveryFigureNaN) {
+  // A controller fault on the first tick: the run ends before its first physics step.
+  MetricRecorder recorder(MetricSettings{}, kDt, 3.0, {0.5});
+  for (RunStatus status : {RunStatus::kControllerFault, RunStatus::kSetupFailed, RunStatus::kOk}) {
+    const RunMetrics m = recorder.Finish(status, "why");
+    EXPECT_EQ(m.status, status);
+    EXPECT_EQ(m.message, "why");
+    for (double figure :
+         {m.fall_time_s, m.end_time_s, m.max_tilt_deg, m.max_drift_m, m.tilt_settle_s,
+          m.drift_settle_s, m.tilt_rebound_deg, m.tilt_rebound_pct, m.rms_tilt_deg,
+          m.iae_tilt_deg_s, m.effort_Nm2s, m.peak_torque_Nm, m.peak_current_A, m.saturation_pct,
+          m.command_limit_pct, m.max_slip_ratio, m.slip_time_s, m.energy_J}) {
+      EXPECT_TRUE(std::isnan(figure)) << ToString(status) << ": " << figure;
+    }
+  }
+}
+
 TEST(MetricRecorder, SinusoidalTiltRmsIsAmplitudeOverRootTwo) {
   const double a_rad = 0.05, f_hz = 2;
   const long per_period = 500, steps = 6 * per_period;  // six whole periods
@@ -117,19 +134,22 @@ TEST(MetricRecorder, EnergyCountsOnlyPowerDrawn) {
   EXPECT_NEAR(m.energy_J, 70, 1e-9);
 }
 
-TEST(MetricRecorder, SaturationFractionPeaksAndDrift) {
+TEST(MetricRecorder, SaturationPercentagesPeaksAndDrift) {
   const long steps = 1000;
   MetricRecorder recorder(MetricSettings{}, kDt, 1.0, {});
   Feed(&recorder, steps, [&](long i, double) {
     StepSample s;
     s.saturated = i % 4 == 0;
+    s.command_at_limit = i < 125;
     s.current_A = {i == 300 ? -12.0 : 3.0, 4.0};
     s.torque_Nm = {0.5, i == 700 ? -5.5 : 1.0};
     s.drift_m = i == 500 ? 0.42 : 0.1;
     return s;
   });
   const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
-  EXPECT_DOUBLE_EQ(m.saturation_frac, 0.25);
+  // Percentages of the 1000 steps: 250 saturated, the first 125 with the command at its limit.
+  EXPECT_DOUBLE_EQ(m.saturation_pct, 25.0);
+  EXPECT_DOUBLE_EQ(m.command_limit_pct, 12.5);
   EXPECT_DOUBLE_EQ(m.peak_current_A, 12.0);
   EXPECT_DOUBLE_EQ(m.peak_torque_Nm, 5.5);
   EXPECT_DOUBLE_EQ(m.max_drift_m, 0.42);
@@ -210,33 +230,47 @@ TEST(MetricRecorder, SettlingAfterADecayMatchesTheExactTime) {
   const double drift_exact = d.tau_d_s * std::log(d.d_m / (settings.drift_band_m + eps));
   EXPECT_GE(m.drift_settle_s, drift_exact - 1e-9);
   EXPECT_LT(m.drift_settle_s, drift_exact + kDt);
-  // The decay falls through its tail mean within the tail, so the "rebound" is the mean less the
-  // last sample: of order 1e-4 % here, for a decay that never turns back.
-  const double first_rad = d.Tilt(TimeOf(1999)) - tilt_final;  // t = 2.000 s: the jump to A
+  // The peak excursion is the jump to A at t = 2.000 s; the decay falls through its tail mean
+  // within the tail, so the only rebound is the mean less the last sample: of order 1e-4 % here,
+  // for a decay that never turns back.
+  const double peak_rad = d.Tilt(TimeOf(1999)) - tilt_final;
   const double rebound_rad = tilt_final - d.Tilt(TimeOf(last));
-  EXPECT_NEAR(m.tilt_overshoot_pct, 100 * rebound_rad / first_rad, 1e-9);
-  EXPECT_LT(m.tilt_overshoot_pct, 1e-3);
+  EXPECT_NEAR(m.tilt_rebound_pct, 100 * rebound_rad / peak_rad, 1e-9);
+  EXPECT_NEAR(m.tilt_rebound_deg, rebound_rad * kDeg, 1e-12);
+  EXPECT_LT(m.tilt_rebound_pct, 1e-3);
 }
 
-TEST(MetricRecorder, OvershootOfADampedOscillationIsTheHalfPeriodDecay) {
-  // Tilt A e^{−a s} sin ωs after t_d. Its extrema are t₁ = atan(ω/a)/ω and every π/ω after, each
-  // e^{−aπ/ω} times the one before (see step_response_test). Against the final value f (the
-  // window's tail mean) the first peak is p₁ − f and the rebound p₂ + f.
-  const double start_s = 1.0, a_rad = 0.3, a = 1.5, w = 2 * kPi * 1.3;
-  const auto tilt = [&](double t) {
+// Tilt A e^{−a s} sin ωs after the disturbance at t_d, s = t − t_d, with ω = 2π·1.3 rad/s.
+struct DampedSwing {
+  double start_s = 1.0, a_rad = 0.3, a = 1.5, w = 2 * kPi * 1.3;
+  double operator()(double t) const {
     const double s = t - start_s;
     return s < 0 ? 0 : a_rad * std::exp(-a * s) * std::sin(w * s);
-  };
-  const RunMetrics m = TiltOnlyRun(tilt, start_s);
+  }
+  // Its extrema: t₁ = atan(ω/a)/ω and every π/ω after, each e^{−aπ/ω} times the one before (see
+  // step_response_test): the first peak and the opposite one after it.
+  double FirstPeak() const {
+    const double t1 = std::atan(w / a) / w;
+    return a_rad * std::exp(-a * t1) * std::sin(w * t1);
+  }
+  double SecondPeak() const { return FirstPeak() * std::exp(-a * kPi / w); }
+  // Sampling lowers each peak by at most ½|y''| dt², relative 0.5 (ω+a)² dt² √(a²+ω²)/ω each;
+  // twice that bounds the relative error of a ratio of two peaks.
+  double RatioTolerance() const {
+    return 2 * 0.5 * (w + a) * (w + a) * kDt * kDt * std::sqrt(a * a + w * w) / w;
+  }
+};
+
+TEST(MetricRecorder, ReboundOfADampedOscillationIsTheHalfPeriodDecay) {
+  // Against the final value f (the window's tail mean) the peak excursion is p₁ − f and the
+  // rebound past f on the other side p₂ + f.
+  const DampedSwing tilt;
+  const RunMetrics m = TiltOnlyRun(tilt, tilt.start_s);
   const double f = FinalValue(tilt, 4999, 4.0);  // the window [1, 5] s ends at sample 4999
-  const double t1 = std::atan(w / a) / w;
-  const double p1 = a_rad * std::exp(-a * t1) * std::sin(w * t1);
-  const double p2 = p1 * std::exp(-a * kPi / w);
+  const double p1 = tilt.FirstPeak(), p2 = tilt.SecondPeak();
   const double expected = 100 * (p2 + f) / (p1 - f);
-  // Sampling lowers each peak by at most ½|y''| dt², relative 0.5 (ω+a)² dt² √(a²+ω²)/ω each
-  // (see step_response_test); twice that bounds the ratio.
-  const double rel = 0.5 * (w + a) * (w + a) * kDt * kDt * std::sqrt(a * a + w * w) / w;
-  EXPECT_NEAR(m.tilt_overshoot_pct, expected, expected * 2 * rel);
+  EXPECT_NEAR(m.tilt_rebound_pct, expected, expected * tilt.RatioTolerance());
+  EXPECT_NEAR(m.tilt_rebound_deg, (p2 + f) * kDeg, (p2 + f) * kDeg * tilt.RatioTolerance());
 }
 
 TEST(MetricRecorder, WorstDisturbanceIsReported) {
@@ -284,7 +318,8 @@ TEST(MetricRecorder, WindowPastTheEndIsJudgedIfHalfOfItIsThere) {
     const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
     EXPECT_TRUE(std::isnan(m.tilt_settle_s));
     EXPECT_TRUE(std::isnan(m.drift_settle_s));
-    EXPECT_TRUE(std::isnan(m.tilt_overshoot_pct));
+    EXPECT_TRUE(std::isnan(m.tilt_rebound_deg));
+    EXPECT_TRUE(std::isnan(m.tilt_rebound_pct));
   }
   {
     // With an earlier disturbance judged, the skipped one does not blank the figures.
@@ -313,7 +348,8 @@ TEST(MetricRecorder, FallLeavesSettlingUnjudged) {
   EXPECT_DOUBLE_EQ(m.end_time_s, TimeOf(6999));
   EXPECT_TRUE(std::isnan(m.tilt_settle_s));
   EXPECT_TRUE(std::isnan(m.drift_settle_s));
-  EXPECT_TRUE(std::isnan(m.tilt_overshoot_pct));
+  EXPECT_TRUE(std::isnan(m.tilt_rebound_deg));
+  EXPECT_TRUE(std::isnan(m.tilt_rebound_pct));
   EXPECT_NEAR(m.max_tilt_deg, d.a_rad * kDeg, 1e-9);  // running figures still reported
 }
 
@@ -332,7 +368,7 @@ TEST(MetricRecorder, SignalThatNeverSettlesIsNaN) {
   // one unsettled disturbance makes the figure NaN rather than the settled one's 0.
   EXPECT_TRUE(std::isnan(m.tilt_settle_s));
   EXPECT_EQ(m.drift_settle_s, 0);
-  EXPECT_FALSE(std::isnan(m.tilt_overshoot_pct));
+  EXPECT_FALSE(std::isnan(m.tilt_rebound_pct));
 }
 
 TEST(MetricRecorder, RunThatStopsShortOfItsDurationDidNotSettle) {
@@ -354,7 +390,8 @@ TEST(MetricRecorder, NoDisturbanceMeansNoSettlingFigures) {
   const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
   EXPECT_TRUE(std::isnan(m.tilt_settle_s));
   EXPECT_TRUE(std::isnan(m.drift_settle_s));
-  EXPECT_TRUE(std::isnan(m.tilt_overshoot_pct));
+  EXPECT_TRUE(std::isnan(m.tilt_rebound_deg));
+  EXPECT_TRUE(std::isnan(m.tilt_rebound_pct));
 }
 
 TEST(MetricRecorder, FaultedRunHasNoFallTimeNorSettling) {
@@ -368,22 +405,35 @@ TEST(MetricRecorder, FaultedRunHasNoFallTimeNorSettling) {
   EXPECT_TRUE(std::isnan(m.tilt_settle_s));
 }
 
-TEST(MetricRecorder, InBandWiggleBeforeTheExcursionDoesNotPickItsSide) {
-  // A tiny negative wiggle right at the disturbance start, then a clean positive decay with no
-  // rebound: the overshoot is 0, not the decay over the wiggle.
-  // Were the wiggle's side taken, the 0.2 rad decay would read as a rebound of ~2e8 %.
-  const double start_s = 1.0;
+TEST(MetricRecorder, ATinyFirstExcursionDoesNotInflateTheRebound) {
+  // Before the swing takes hold tilt dips just out of the 1° band: −1.2° over 40 ms, then the
+  // damped swing. Measured from that dip, the swing would read as a rebound of over 1000 %;
+  // measured from the peak excursion it is the swing's own decay, and never above 100 %.
+  DampedSwing swing;
+  const double dip_s = 0.04, dip_rad = 1.2 / kDeg;
   const auto tilt = [&](double t) {
-    const double x = t - start_s;
-    if (x < 0) return 0.0;
-    return x < 0.0045 ? -1e-4 : 0.2 * std::exp(-(x - 0.005) / 0.3);
+    const double s = t - 1.0;
+    if (s < 0) return 0.0;
+    if (s < dip_s) return -dip_rad * std::sin(kPi * s / dip_s);
+    return swing(t - dip_s);
   };
-  const RunMetrics m = TiltOnlyRun(tilt, start_s);
-  // As for any monotone decay, the only rebound is the tail mean less the last sample.
+  const RunMetrics m = TiltOnlyRun(tilt, 1.0);
   const double f = FinalValue(tilt, 4999, 4.0);
-  EXPECT_NEAR(m.tilt_overshoot_pct, 100 * (f - tilt(TimeOf(4999))) / (tilt(TimeOf(1004)) - f),
-              1e-9);
-  EXPECT_LT(m.tilt_overshoot_pct, 1e-3);
+  const double p1 = swing.FirstPeak(), p2 = swing.SecondPeak();
+  ASSERT_GT(p1 / dip_rad, 5);  // the dip is small beside the swing
+  const double expected = 100 * (p2 + f) / (p1 - f);
+  EXPECT_NEAR(m.tilt_rebound_pct, expected, expected * swing.RatioTolerance());
+  EXPECT_LE(m.tilt_rebound_pct, 100);
+}
+
+TEST(MetricRecorder, TiltThatNeverLeavesTheBandHasNoRebound) {
+  // A swing of 0.8° peak, inside the 1° band: the rebound is 0 and 0, not the swing's ratio.
+  DampedSwing swing;
+  swing.a_rad = 0.8 / kDeg / (swing.FirstPeak() / swing.a_rad);
+  const RunMetrics m = TiltOnlyRun(swing, swing.start_s);
+  EXPECT_NEAR(m.max_tilt_deg, 0.8, 1e-3);
+  EXPECT_EQ(m.tilt_rebound_deg, 0);
+  EXPECT_EQ(m.tilt_rebound_pct, 0);
 }
 
 }  // namespace

@@ -92,12 +92,18 @@ TEST(RunStatus, RejectsUnknownText) {
   EXPECT_EQ(parsed, RunStatus::kOk);
 }
 
-TEST(RunMetrics, StartsNotRun) {
+TEST(RunMetrics, StartsNotRunWithEveryFigureNaN) {
   const RunMetrics m;
   EXPECT_EQ(m.status, RunStatus::kNotRun);
   EXPECT_EQ(m.message, "not run");
-  EXPECT_TRUE(std::isnan(m.fall_time_s));
-  EXPECT_TRUE(std::isnan(m.tilt_settle_s));
+  // A run that never happened has no figure: none may read as a flawless 0.
+  for (double figure :
+       {m.fall_time_s, m.end_time_s, m.max_tilt_deg, m.max_drift_m, m.tilt_settle_s,
+        m.drift_settle_s, m.tilt_rebound_deg, m.tilt_rebound_pct, m.rms_tilt_deg, m.iae_tilt_deg_s,
+        m.effort_Nm2s, m.peak_torque_Nm, m.peak_current_A, m.saturation_pct, m.command_limit_pct,
+        m.max_slip_ratio, m.slip_time_s, m.energy_J}) {
+    EXPECT_TRUE(std::isnan(figure)) << figure;
+  }
 }
 
 }  // namespace

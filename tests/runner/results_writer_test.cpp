@@ -41,13 +41,15 @@ RunResult MakeRun(const std::string& scenario, const std::string& controller, st
   m.max_drift_m = f.drift_m;
   m.tilt_settle_s = f.tilt_settle_s;
   m.drift_settle_s = f.drift_settle_s;
-  m.tilt_overshoot_pct = 10;
+  m.tilt_rebound_deg = 1;
+  m.tilt_rebound_pct = 10;
   m.rms_tilt_deg = f.rms_tilt_deg;
   m.iae_tilt_deg_s = 1;
   m.effort_Nm2s = f.effort;
   m.peak_torque_Nm = 2;
   m.peak_current_A = f.current_A;
-  m.saturation_frac = f.saturation;
+  m.saturation_pct = 100 * f.saturation;
+  m.command_limit_pct = 0;
   m.max_slip_ratio = 0;
   m.slip_time_s = 0;
   m.energy_J = f.energy_J;
@@ -103,7 +105,10 @@ BatchResult MakeBatch() {
         MakeRun("shove", "hinf", seed, false, ok, {3, 0.5, 1, 2, 0.5, 8, 4, 0, 16}));
   }
   for (RunResult& run : batch.runs) {
-    if (run.controller == "hinf") run.metrics.tilt_overshoot_pct = kNaN;  // never applies
+    if (run.controller == "hinf") {  // never applies
+      run.metrics.tilt_rebound_deg = kNaN;
+      run.metrics.tilt_rebound_pct = kNaN;
+    }
   }
 
   RunResult& fell = batch.runs[4];
@@ -207,18 +212,20 @@ TEST_F(ResultsWriter, SummaryCsvHasOneRowPerRunWithExactCells) {
   const std::vector<std::string> lines = Lines(csv);
   EXPECT_EQ(lines[0],
             "scenario,controller,seed,baseline,status,survived,fall_time_s,max_tilt_deg,"
-            "max_drift_m,tilt_settle_s,drift_settle_s,tilt_overshoot_pct,rms_tilt_deg,"
-            "iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,saturation_frac,"
-            "max_slip_ratio,slip_time_s,energy_J,end_time_s,message");
-  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,1,,2,0.125,1,2,10,0.5,1,10,2,4,0,0,0,20,5,survived");
-  // hinf seed 1: the unsettled drift and the inapplicable overshoot are empty fields.
-  EXPECT_EQ(lines[3], "ramp,hinf,1,false,ok,1,,1.5,0.25,1,,,0.5,1,15,2,5,0.0625,0,0,25,5,survived");
+            "max_drift_m,tilt_settle_s,drift_settle_s,tilt_rebound_deg,tilt_rebound_pct,"
+            "rms_tilt_deg,iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,"
+            "saturation_pct,command_limit_pct,max_slip_ratio,slip_time_s,energy_J,end_time_s,"
+            "message");
+  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,1,,2,0.125,1,2,1,10,0.5,1,10,2,4,0,0,0,0,20,5,survived");
+  // hinf seed 1: the unsettled drift and the inapplicable rebound are empty fields.
+  EXPECT_EQ(lines[3],
+            "ramp,hinf,1,false,ok,1,,1.5,0.25,1,,,,0.5,1,15,2,5,6.25,0,0,0,25,5,survived");
   // The fall: status, survived 0, fall time; the message quoted per RFC 4180 (comma, doubled
   // quotes, a line break inside the quotes), so this record spans two lines.
   EXPECT_EQ(lines[5] + "\n" + lines[6],
-            "ramp,pid,1,false,fell,0,3.25,45,0.75,,,10,10,1,30,2,12,0.375,0.5,0.25,30,3.25,"
+            "ramp,pid,1,false,fell,0,3.25,45,0.75,,,1,10,10,1,30,2,12,37.5,0,0.5,0.25,30,3.25,"
             "\"tilt 45.2 deg, \"\"hard\"\" fall\nat 3.25 s\"");
-  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,1,,3,0.5,1,2,,0.5,1,8,2,4,0,0,0,16,5,survived");
+  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,1,,3,0.5,1,2,,,0.5,1,8,2,4,0,0,0,0,16,5,survived");
   EXPECT_EQ(lines.size(), 12u);  // header + 10 runs, one of them on two lines
 }
 
@@ -232,9 +239,9 @@ TEST_F(ResultsWriter, NumbersUseSixSignificantDigitsWithoutLocale) {
       Cells(Lines(Read(WriteInto("a", batch) / "summary.csv"))[2]);
   // printf("%.6g") of each value (C standard §7.21.6.1, the g conversion).
   EXPECT_EQ(cells[7], "3.14159");
-  EXPECT_EQ(cells[20], "1.23457e+06");
-  EXPECT_EQ(cells[14], "1.23457e-05");
-  EXPECT_EQ(cells[15], "0");
+  EXPECT_EQ(cells[22], "1.23457e+06");
+  EXPECT_EQ(cells[15], "1.23457e-05");
+  EXPECT_EQ(cells[16], "0");
 }
 
 TEST_F(ResultsWriter, SummaryMarkdownShowsMeansOverSeeds) {
@@ -243,7 +250,7 @@ TEST_F(ResultsWriter, SummaryMarkdownShowsMeansOverSeeds) {
             std::string::npos)
       << md;
   EXPECT_NE(md.find("| controller | survived | max tilt (deg) | max drift (m) | tilt settle (s) | "
-                    "drift settle (s) | tilt overshoot (%) | RMS tilt (deg) | effort (N²m²s) | "
+                    "drift settle (s) | tilt rebound (%) | RMS tilt (deg) | effort (N²m²s) | "
                     "peak current (A) | saturation (%) | max slip ratio | energy (J) |"),
             std::string::npos)
       << md;
@@ -252,7 +259,7 @@ TEST_F(ResultsWriter, SummaryMarkdownShowsMeansOverSeeds) {
                     "5.00 | 6.25 | 0 | 22.0 |"),
             std::string::npos)
       << md;
-  // hinf's drift settled in one seed of two: that seed's time with the "*" marker; overshoot
+  // hinf's drift settled in one seed of two: that seed's time with the "*" marker; the rebound
   // never applied: "—".
   EXPECT_NE(md.find("| hinf | 2/2 | 1.50 | 0.250 | 1.00 | 4.00* | — | 0.500 | 15.0 | 5.01 | 6.25 | "
                     "0 | 25.0 |"),
@@ -292,8 +299,8 @@ TEST_F(ResultsWriter, ComparePercentagesAndVerdictsAgainstBaseline) {
   EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "max_drift_m"),
             "ramp,lqr,hinf,max_drift_m,lower,0.25,0.25,0,same");
   // Missing controller mean, and a zero baseline: n/a with no percentage.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "tilt_overshoot_pct"),
-            "ramp,lqr,hinf,tilt_overshoot_pct,lower,10,,,n/a");
+  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "tilt_rebound_pct"),
+            "ramp,lqr,hinf,tilt_rebound_pct,lower,10,,,n/a");
   EXPECT_EQ(CompareRecord(csv, "ramp", "pid", "max_slip_ratio"),
             "ramp,lqr,pid,max_slip_ratio,lower,0,0.5,,n/a");
   // Survival is better when higher: (0.5 − 1) / 1 = −50 %.
@@ -305,8 +312,8 @@ TEST_F(ResultsWriter, ComparePercentagesAndVerdictsAgainstBaseline) {
   // The baseline is not compared with itself, and pid did not run in shove.
   EXPECT_EQ(CompareRecord(csv, "ramp", "lqr", "max_tilt_deg"), "");
   EXPECT_EQ(CompareRecord(csv, "shove", "pid", "max_tilt_deg"), "");
-  // 2 comparisons in ramp + 1 in shove, each survival + 14 figures, + header.
-  EXPECT_EQ(Lines(csv).size(), 3u * 15u + 1u);
+  // 2 comparisons in ramp + 1 in shove, each survival + 16 figures, + header.
+  EXPECT_EQ(Lines(csv).size(), 3u * 17u + 1u);
 
   const std::string md = Read(WriteInto("b", MakeBatch()) / "compare.md");
   EXPECT_NE(md.find("| metric | lqr (baseline) | hinf | pid |"), std::string::npos) << md;
@@ -316,7 +323,8 @@ TEST_F(ResultsWriter, ComparePercentagesAndVerdictsAgainstBaseline) {
   EXPECT_NE(md.find("| survival (%) | 100 | 100 (0 %) ≈ same | 50.0 (-50.0 %) ✘ worse |"),
             std::string::npos)
       << md;
-  EXPECT_NE(md.find("| tilt overshoot (%) | 10.0 | — n/a | 10.0 (0 %) ≈ same |"), std::string::npos)
+  EXPECT_NE(md.find("| tilt rebound (% of peak) | 10.0 | — n/a | 10.0 (0 %) ≈ same |"),
+            std::string::npos)
       << md;
 }
 
@@ -438,7 +446,7 @@ TEST_F(ResultsWriter, RankingPutsSurvivalFirstThenScoreThenName) {
 }
 
 TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
-  // Seed 2's set-up failed: its figures are only defaults (0) and stay out of the means, but the
+  // Seed 2's set-up failed: it has no figures (empty cells) and stays out of the means, but the
   // run counts among the runs that did not survive.
   BatchResult batch;
   batch.runs.push_back(
@@ -458,7 +466,7 @@ TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
             std::string::npos)
       << md;
   EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2],
-            "s,a,2,true,setup_failed,0,,0,0,,,,0,0,0,0,0,0,0,0,0,0,module not found");
+            "s,a,2,true,setup_failed,0,,,,,,,,,,,,,,,,,,,module not found");
   EXPECT_EQ(Lines(Read(dir / "ranking.csv"))[1].substr(0, 14), "1,a,0.5,1,2,1,");
 }
 
@@ -473,14 +481,16 @@ TEST_F(ResultsWriter, TraceHasFieldColumnsAndEventLabels) {
             "current_left_A,current_right_A,torque_left_Nm,torque_right_Nm,load_left_N,"
             "load_right_N,slip_left,slip_right,payload_x_m,event");
   EXPECT_EQ(lines[1], "0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,start");
-  // Both marks at 0.015 s lie in [0.01, 0.02): joined with "; ", quoted for the comma and quotes.
-  EXPECT_EQ(lines[2],
-            "0.01,0,0,1.23457,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,"
+  // Both marks at 0.015 s happened after the row at 0.01 s: none there.
+  EXPECT_EQ(lines[2], "0.01,0,0,1.23457,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,");
+  // They show on the first row at or after them, 0.02 s: joined with "; ", quoted for the comma
+  // and quotes. NaN speed: an empty field.
+  EXPECT_EQ(lines[3],
+            "0.02,0,0,2.46914,0,0,,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,"
             "\"push 120 N, \"\"half-sine\"\"; second\"");
-  // NaN speed: an empty field; no mark in [0.02, 0.03).
-  EXPECT_EQ(lines[3], "0.02,0,0,2.46914,0,0,,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,");
-  // The mark after the last row belongs to the last row.
-  EXPECT_EQ(lines[4], "0.03,0,0,3.7037,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,fall");
+  // The mark at 0.5 s came after the trace's end (0.03 s): it appears nowhere.
+  EXPECT_EQ(lines[4], "0.03,0,0,3.7037,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,0,-0.5,");
+  EXPECT_EQ(csv.find("fall"), std::string::npos);
 }
 
 TEST_F(ResultsWriter, TraceFileNameReplacesUnsafeCharacters) {

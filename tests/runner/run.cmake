@@ -4,5 +4,9 @@ upright_test(upright_runner_run_test
   SOURCES timeline_test.cpp run_one_test.cpp batch_test.cpp
   LIBS upright::runner)
 target_include_directories(upright_runner_run_test PRIVATE ${PROJECT_SOURCE_DIR}/runner/run/src)
+# A run whose module faults on its first tick uses a misbehaving module of the host tests.
+target_compile_definitions(upright_runner_run_test
+  PRIVATE UPRIGHT_TEST_MODULE_DIR="${PROJECT_BINARY_DIR}/tests/host/modules")
+add_dependencies(upright_runner_run_test faulty_1)
 # The runs load the built-in modules from the build tree.
 add_dependencies(upright_runner_run_test upright_lqr upright_hinf upright_lqg upright_pid)

@@ -5,24 +5,66 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <string>
+#include <vector>
 
 #include "run_test_support.hpp"
+#include "upright/runner/metric_columns.hpp"
+#include "upright/runner/results_writer.hpp"
 
 namespace upright::runner {
 namespace {
 
 using testing::BuiltinModule;
+using testing::ReadFile;
 using testing::ScenarioFromText;
+using testing::ScratchDir;
 
-// A parked courier shoved by a half-sine push of `peak_N` at 0.5 s, for 3 s.
-std::string ShoveText(double peak_N, const std::string& lqr_settings = "") {
+// The lines of `text`, without their line breaks.
+std::vector<std::string> Lines(const std::string& text) {
+  std::vector<std::string> lines;
+  std::size_t start = 0;
+  while (start < text.size()) {
+    const std::size_t end = text.find('\n', start);
+    lines.push_back(text.substr(start, end - start));
+    if (end == std::string::npos) break;
+    start = end + 1;
+  }
+  return lines;
+}
+
+// `runs` written as a results folder into the scratch folder `name`; the folder.
+std::filesystem::path Written(const std::vector<RunResult>& runs, const std::string& name) {
+  BatchResult batch;
+  batch.tool_version = "test";
+  batch.trace_rate_hz = 100;
+  batch.runs = runs;
+  const std::filesystem::path dir = ScratchDir(name);
+  std::string error;
+  EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+  return dir;
+}
+
+// The module of the host tests that faults on its first tick (it leaves a command unwritten).
+std::shared_ptr<host::Module> FirstTickFaultModule() {
+  std::string error;
+  auto module = host::Module::Load(std::string(UPRIGHT_TEST_MODULE_DIR) + "/faulty_1.so", &error);
+  EXPECT_NE(module, nullptr) << error;
+  return module;
+}
+
+// A parked courier shoved by a half-sine push of `peak_N` at 0.5 s, for 3 s, then the timeline
+// elements in `more_events` (whole lines).
+std::string ShoveText(double peak_N, const std::string& lqr_settings = "",
+                      const std::string& more_events = "") {
   return R"(<scenario name="shove" schema="1" duration_s="3" dt_s="0.001">
   <description>Test: a parked courier shoved once.</description>
   <robot file="../models/courier.xml"/>
   <timeline>
     <push at_s="0.5" shape="half-sine" peak_N=")" +
          std::to_string(peak_N) + R"(" duration_s="0.2"/>
-  </timeline>
+)" + more_events +
+         R"(  </timeline>
   <controllers baseline="lqr">
     <controller name="lqr" builtin="lqr">)" +
          lqr_settings + R"(</controller>
@@ -73,6 +115,102 @@ TEST(RunOne, AFallEndsTheRunAtOnceWithItsTime) {
   EXPECT_EQ(r.trace.marks.back().label, "fell");
   EXPECT_TRUE(std::isnan(r.metrics.tilt_settle_s));  // a fallen run is not judged for settling
   EXPECT_NE(r.metrics.message.find("fell at t = "), std::string::npos);
+}
+
+TEST(RunOne, AClampedCommandCountsAtTheLimitAndSaturatesTheMotor) {
+  // H-infinity's high gain under a sharp knock: its kit clamps the torque command at exactly the
+  // stall torque, where the drive holds the 20 A current limit.
+  const Scenario s = ScenarioFromText(R"(<scenario name="knock" schema="1" duration_s="2">
+  <description>Test: a parked courier knocked hard at handle height.</description>
+  <robot file="../models/courier.xml"/>
+  <timeline>
+    <push at_s="0.5" shape="impulse" peak_N="250" duration_s="0.06" height_m="0.55"/>
+  </timeline>
+  <controllers baseline="hinf">
+    <controller name="hinf" builtin="hinf"/>
+  </controllers>
+  <seeds list="1"/>
+</scenario>)");
+  const RunResult r = RunOne(s, 0, 1, BuiltinModule("hinf"), "", RunOptions{});
+  ASSERT_GT(r.steps, 0) << r.metrics.message;
+  EXPECT_NEAR(r.metrics.peak_current_A, s.model.motor.current_limit_A, 1e-9);
+  EXPECT_GT(r.metrics.command_limit_pct, 0);
+  EXPECT_GT(r.metrics.saturation_pct, 0);
+  // A torque command at the stall torque asks for the limit current: every such step is also a
+  // saturated one.
+  EXPECT_GE(r.metrics.saturation_pct, r.metrics.command_limit_pct);
+  EXPECT_LE(r.metrics.saturation_pct, 100);
+}
+
+TEST(RunOne, ACommandInsideTheLimitIsNotCounted) {
+  // A modest push: the current stays well inside the 20 A limit and the command inside its own.
+  const Scenario s = ScenarioFromText(ShoveText(60));
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
+  EXPECT_LT(r.metrics.peak_current_A, 0.9 * s.model.motor.current_limit_A);
+  EXPECT_EQ(r.metrics.command_limit_pct, 0);
+  EXPECT_EQ(r.metrics.saturation_pct, 0);
+}
+
+TEST(RunOne, RunsThatNeverSteppedHaveNoFiguresAndEmptyCells) {
+  const Scenario s = ScenarioFromText(ShoveText(60, R"(<setting key="no_such_key" value="1"/>)"));
+  const RunResult setup_failed = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  ASSERT_EQ(setup_failed.metrics.status, RunStatus::kSetupFailed);
+  const RunResult faulted = RunOne(s, 0, 8, FirstTickFaultModule(), "", RunOptions{});
+  ASSERT_EQ(faulted.metrics.status, RunStatus::kControllerFault) << faulted.metrics.message;
+  EXPECT_EQ(faulted.steps, 0);
+  for (const RunResult* run : {&setup_failed, &faulted}) {
+    for (const MetricColumn& column : MetricColumns()) {
+      EXPECT_TRUE(std::isnan(run->metrics.*column.field))
+          << ToString(run->metrics.status) << " " << column.name << " = "
+          << run->metrics.*column.field;
+    }
+  }
+  // In summary.csv every figure cell of both rows is empty, between status/survived and message.
+  const auto dir = Written({setup_failed, faulted}, "never-stepped");
+  const std::vector<std::string> lines = Lines(ReadFile(dir / "summary.csv"));
+  ASSERT_EQ(lines.size(), 3u);
+  const std::string empty_figures(MetricColumns().size(), ',');
+  EXPECT_EQ(lines[1].rfind("shove,lqr,7,true,setup_failed,0" + empty_figures + ",", 0), 0u)
+      << lines[1];
+  EXPECT_EQ(lines[2].rfind("shove,lqr,8,true,controller_fault,0" + empty_figures + ",", 0), 0u)
+      << lines[2];
+}
+
+TEST(RunOne, TraceEventsAppearWhereTheyHappenAndNotAfterTheEnd) {
+  // A shove the robot does not survive, a push at 0.505 s between two 10 ms trace rows, and a
+  // drive change at 2.5 s, long after the fall.
+  const Scenario s = ScenarioFromText(
+      ShoveText(2500, "",
+                R"(    <push at_s="0.505" shape="step" peak_N="1" duration_s="0.1"/>
+    <drive at_s="2.5" speed_m_s="0.3" ramp_s="0.2"/>
+)"));
+  RunOptions options;
+  options.trace_rate_hz = 100;
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", options);
+  ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
+  ASSERT_LT(r.metrics.fall_time_s, 2.5);
+  // The trace ends on the step the robot fell, on the 10 ms grid or not.
+  EXPECT_EQ(r.trace.rows.back().time_s, r.metrics.fall_time_s);
+
+  const auto dir = Written({r}, "trace-events");
+  const std::vector<std::string> lines = Lines(ReadFile(dir / "traces" / TraceFileName(r)));
+  ASSERT_EQ(lines.size(), r.trace.rows.size() + 1);
+  // Each row's time and event (the first and the last field; no event label here has a comma).
+  std::vector<std::pair<double, std::string>> events;
+  for (std::size_t i = 1; i < lines.size(); ++i) {
+    const std::string& line = lines[i];
+    const std::string event = line.substr(line.rfind(',') + 1);
+    if (!event.empty()) events.emplace_back(std::stod(line.substr(0, line.find(','))), event);
+  }
+  ASSERT_EQ(events.size(), 3u) << lines.back();
+  EXPECT_NEAR(events[0].first, 0.5, 1e-12);  // on its own row, the row at 0.5 s
+  EXPECT_EQ(events[0].second, "push 2500 N half-sine 0.2 s");
+  EXPECT_NEAR(events[1].first, 0.51, 1e-12);  // the first row after 0.505 s, not the one before
+  EXPECT_EQ(events[1].second, "push 1 N step 0.1 s");
+  // The fall on the last row, at its own time; the drive change never happened.
+  EXPECT_NEAR(events[2].first, r.metrics.fall_time_s, 1e-9);
+  EXPECT_EQ(events[2].second, "fell");
 }
 
 TEST(RunOne, AControllerThatRefusesItsSettingsIsASetupFailure) {

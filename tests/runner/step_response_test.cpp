@@ -66,6 +66,22 @@ TEST_P(SecondOrderStep, OvershootMatchesTheDampingFormula) {
   EXPECT_NEAR(measured, expected, tolerance_pct);
 }
 
+TEST_P(SecondOrderStep, ReboundIsThePercentOvershoot) {
+  // The step from 0 to 1 starts 1 from its final value: that is its peak excursion, and the
+  // rebound past 1 after it is the overshoot, so R / P · 100 = Mp = 100 exp(−ζπ / √(1−ζ²)) %
+  // (Ogata, Modern Control Engineering, §5-3).
+  const SecondOrder sys{GetParam(), 2 * kPi};
+  const std::vector<double> y = sys.Sampled(10);
+  const Rebound r = PeakAndRebound(y, kDt, 1);
+  EXPECT_EQ(r.peak, 1);
+  EXPECT_EQ(r.peak_time_s, 0);
+  const double expected = 100 * std::exp(-sys.zeta * kPi / std::sqrt(1 - sys.zeta * sys.zeta));
+  // As for the overshoot above: the sampled maximum is low by at most ½ ωn² dt².
+  const double tolerance_pct = 100 * 0.5 * sys.wn * sys.wn * kDt * kDt;
+  EXPECT_LE(r.rebound_pct, expected + 1e-9);
+  EXPECT_NEAR(r.rebound_pct, expected, tolerance_pct);
+}
+
 TEST_P(SecondOrderStep, PeakTimeIsHalfTheDampedPeriod) {
   const SecondOrder sys{GetParam(), 2 * kPi};
   const std::vector<double> y = sys.Sampled(10);
@@ -92,6 +108,33 @@ TEST_P(SecondOrderStep, SettlingTimeMatchesTheExactLastBandCrossing) {
 
 INSTANTIATE_TEST_SUITE_P(Damping, SecondOrderStep, ::testing::Values(0.2, 0.5, 0.7));
 
+// Impulse response of the same system, up to its gain: h(t) = (1/ωd) e^{−σt} sin ωd t, which
+// starts and ends at 0 (Ogata, Modern Control Engineering, §5-3).
+class SecondOrderImpulse : public ::testing::TestWithParam<double> {};
+
+TEST_P(SecondOrderImpulse, ReboundRatioIsTheDecayBetweenOppositePeaks) {
+  const SecondOrder sys{GetParam(), 2 * kPi};
+  const double a = sys.sigma(), w = sys.wd();
+  std::vector<double> y;
+  for (long i = 0; static_cast<double>(i) * kDt <= 10; ++i) {
+    const double t = static_cast<double>(i) * kDt;
+    y.push_back(std::exp(-a * t) * std::sin(w * t) / w);
+  }
+  const Rebound r = PeakAndRebound(y, kDt, 0);
+  // h' ∝ e^{−σt}(ωd cos ωd t − σ sin ωd t) = 0 where tan ωd t = ωd/σ: the peak at
+  // t₁ = atan(ωd/σ)/ωd, and half a period later the opposite peak, e^{−σπ/ωd} of it: the
+  // logarithmic decrement, e^{−σπ/ωd} = exp(−ζπ/√(1−ζ²)), the step's Mp / 100 again.
+  EXPECT_NEAR(r.peak_time_s, std::atan(w / a) / w, kDt);
+  const double expected = 100 * std::exp(-sys.zeta * kPi / std::sqrt(1 - sys.zeta * sys.zeta));
+  // Each sampled peak is low by at most ½|y''| dt² with |y''| ≤ e^{−σt}(ωd + σ)² / ωd, relative
+  // to a peak of e^{−σt} / √(σ² + ωd²); the ratio's relative error is at most twice that.
+  const double peak_rel = 0.5 * (w + a) * (w + a) * kDt * kDt * std::sqrt(a * a + w * w) / w;
+  EXPECT_NEAR(r.rebound_pct, expected, expected * 2 * peak_rel);
+  EXPECT_LE(r.rebound_pct, 100);
+}
+
+INSTANTIATE_TEST_SUITE_P(Damping, SecondOrderImpulse, ::testing::Values(0.2, 0.5, 0.7));
+
 TEST(SettlingTime, AllSamplesInBandIsZero) {
   const std::vector<double> y = {1.01, 0.99, 1.0, 1.015};
   EXPECT_EQ(SettlingTime(y, kDt, 1.0, 0.02), 0);
@@ -115,51 +158,40 @@ TEST(SettlingTime, NonFiniteSampleCountsAsOutOfBand) {
 
 TEST(SettlingTime, EmptySignalIsNaN) { EXPECT_TRUE(std::isnan(SettlingTime({}, kDt, 1.0, 0.02))); }
 
-TEST(AnalyseExcursion, DampedSinusoidReboundRatioIsTheHalfPeriodDecay) {
-  // y = e^{−at} sin ωt. y' = e^{−at}(ω cos ωt − a sin ωt) = 0 where tan ωt = ω/a: the extrema
-  // are t₁ = atan(ω/a)/ω and every π/ω after it. Half a period later sin(ωt₁ + π) = −sin ωt₁, so
-  // |y(t₁ + π/ω)| / |y(t₁)| = e^{−aπ/ω}: the rebound over the first peak.
-  const double a = 1.5, w = 2 * kPi * 1.3;
-  std::vector<double> y;
-  for (long i = 0; i <= 5000; ++i) {
-    const double t = static_cast<double>(i) * kDt;
-    y.push_back(std::exp(-a * t) * std::sin(w * t));
-  }
-  const Excursion e = AnalyseExcursion(y, kDt, 0);
-  const double t1 = std::atan(w / a) / w;
-  EXPECT_NEAR(e.first_peak_time_s, t1, kDt);
-  EXPECT_NEAR(e.first_peak, std::exp(-a * t1) * std::sin(w * t1), 1e-4);
-  // Each sampled peak is low by at most ½|y''| dt² with |y''| ≤ e^{−at}(ω + a)², relative to a
-  // peak of e^{−at} ω/√(a² + ω²); the ratio's relative error is at most twice that (≈ 1.1e-4).
-  const double peak_rel = 0.5 * (w + a) * (w + a) * kDt * kDt * std::sqrt(a * a + w * w) / w;
-  const double expected = 100 * std::exp(-a * kPi / w);
-  EXPECT_NEAR(e.overshoot_pct, expected, expected * 2 * peak_rel);
-  EXPECT_NEAR(e.rebound / e.first_peak, std::exp(-a * kPi / w),
-              std::exp(-a * kPi / w) * 2 * peak_rel);
-}
-
-TEST(AnalyseExcursion, NegativeFirstExcursionIsMirrored) {
+TEST(PeakAndRebound, NegativePeakIsMirrored) {
   const std::vector<double> y = {0.0, -1.0, -4.0, -2.0, 1.0, 0.5, -0.2};
-  const Excursion e = AnalyseExcursion(y, 0.1, 0);
-  EXPECT_DOUBLE_EQ(e.first_peak, 4.0);
-  EXPECT_DOUBLE_EQ(e.first_peak_time_s, 0.2);
-  EXPECT_DOUBLE_EQ(e.rebound, 1.0);
-  EXPECT_DOUBLE_EQ(e.overshoot_pct, 25.0);
+  const Rebound r = PeakAndRebound(y, 0.1, 0);
+  EXPECT_DOUBLE_EQ(r.peak, 4.0);
+  EXPECT_DOUBLE_EQ(r.peak_time_s, 0.2);
+  EXPECT_DOUBLE_EQ(r.rebound, 1.0);
+  EXPECT_DOUBLE_EQ(r.rebound_pct, 25.0);
 }
 
-TEST(AnalyseExcursion, NoCrossingIsZeroOvershoot) {
+TEST(PeakAndRebound, ExcursionsBeforeThePeakDoNotCount) {
+  // A small first swing up, the peak down, a rebound up: 0.5 of 3, not 3 of 1.
+  const std::vector<double> y = {0.0, 1.0, -3.0, 0.5, 0.0};
+  const Rebound r = PeakAndRebound(y, 0.1, 0);
+  EXPECT_DOUBLE_EQ(r.peak, 3.0);
+  EXPECT_DOUBLE_EQ(r.rebound, 0.5);
+  EXPECT_DOUBLE_EQ(r.rebound_pct, 100.0 / 6.0);
+}
+
+TEST(PeakAndRebound, NoCrossingIsNoRebound) {
   const std::vector<double> y = {3.0, 2.0, 1.5, 1.1, 1.0};
-  const Excursion e = AnalyseExcursion(y, 0.1, 1.0);
-  EXPECT_DOUBLE_EQ(e.first_peak, 2.0);
-  EXPECT_EQ(e.rebound, 0);
-  EXPECT_EQ(e.overshoot_pct, 0);
+  const Rebound r = PeakAndRebound(y, 0.1, 1.0);
+  EXPECT_DOUBLE_EQ(r.peak, 2.0);
+  EXPECT_EQ(r.peak_time_s, 0);
+  EXPECT_EQ(r.rebound, 0);
+  EXPECT_EQ(r.rebound_pct, 0);
 }
 
-TEST(AnalyseExcursion, SignalAtTheFinalValueHasNoOvershoot) {
+TEST(PeakAndRebound, SignalAtTheFinalValueHasNoRatio) {
   const std::vector<double> y = {2.0, 2.0, 2.0};
-  const Excursion e = AnalyseExcursion(y, 0.1, 2.0);
-  EXPECT_EQ(e.first_peak, 0);
-  EXPECT_TRUE(std::isnan(e.overshoot_pct));
+  const Rebound r = PeakAndRebound(y, 0.1, 2.0);
+  EXPECT_EQ(r.peak, 0);
+  EXPECT_EQ(r.rebound, 0);
+  EXPECT_TRUE(std::isnan(r.rebound_pct));
+  EXPECT_TRUE(std::isnan(PeakAndRebound({}, 0.1, 0).rebound_pct));
 }
 
 TEST(StepOvershoot, DownwardStepMeasuresBelowTheFinalValue) {

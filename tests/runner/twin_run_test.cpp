@@ -63,7 +63,7 @@ TEST(LinearTwin, FollowsThePlantThroughAPushWithinTheMotorsLimits) {
   // the mechanics alone.
   const RunResult r = RunOne(Knock(250, true), 0, 1, BuiltinModule("lqr"), "", WithTwin());
   ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
-  EXPECT_EQ(r.metrics.saturation_frac, 0);  // 13.5 A of the 20 A limit at the peak
+  EXPECT_EQ(r.metrics.saturation_pct, 0);  // 13.5 A of the 20 A limit at the peak
   const GapFigures& g = r.gap;
   ASSERT_TRUE(g.ran) << g.twin_message;
   EXPECT_EQ(g.twin_message, "");
@@ -109,7 +109,7 @@ TEST(LinearTwin, PartsFromThePlantOnAPushThatSaturatesTheMotors) {
   // robot, and its chassis touches the ground at about 11°; the twin recovers from 18°.
   const RunResult r = RunOne(Knock(700, false), 0, 1, BuiltinModule("lqr"), "", WithTwin());
   ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
-  EXPECT_GT(r.metrics.saturation_frac, 0.05);
+  EXPECT_GT(r.metrics.saturation_pct, 5);
   const GapFigures& g = r.gap;
   ASSERT_TRUE(g.ran);
   EXPECT_EQ(g.twin_message, "");                                   // the twin ran the whole 4 s

@@ -2,6 +2,7 @@
 
 #include <gtest/gtest.h>
 
+#include <algorithm>
 #include <cmath>
 #include <memory>
 #include <string>
@@ -118,6 +119,63 @@ TEST(Motor, TorqueModeSaturatesAgainstTheSupplyAtSpeed) {
   const MotorOutput reverse = EvaluateMotor(m, DriveMode::kTorque, -1.0, -20.0, kBand);
   EXPECT_TRUE(reverse.voltage_saturated);
   EXPECT_NEAR(reverse.wheel_torque_Nm, -0.32, 1e-12);
+}
+
+// A drive held at exactly its limit is saturated: built-in controllers clamp their command at
+// the stall torque or the supply, and that command must count. "At the limit" is within
+// kLimitTolerance (1e-6) of it; a command 2e-6 below is not.
+TEST(Motor, ATorqueCommandAtTheStallTorqueSaturatesTheCurrent) {
+  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  // The stall torque at the wheel, n η K_t min(V / R, I_max) = 0.4 × min(4.8, 4) = 1.6 N·m.
+  const double stall_Nm =
+      TorquePerAmp(m) * std::min(m.supply_V / m.resistance_ohm, m.current_limit_A);
+  ASSERT_NEAR(stall_Nm, 1.6, 1e-12);
+  for (double sign : {1.0, -1.0}) {
+    const MotorOutput at = EvaluateMotor(m, DriveMode::kTorque, sign * stall_Nm, 0.0, kBand);
+    EXPECT_TRUE(at.current_saturated) << sign;
+    EXPECT_FALSE(at.voltage_saturated) << sign;  // R I_max = 10 V of the 12 V supply
+    EXPECT_NEAR(at.current_A, sign * 4.0, 1e-12);
+    const double inside = sign * stall_Nm * (1 - 0.5e-6);
+    EXPECT_TRUE(EvaluateMotor(m, DriveMode::kTorque, inside, 0.0, kBand).current_saturated);
+    const MotorOutput below =
+        EvaluateMotor(m, DriveMode::kTorque, sign * stall_Nm * (1 - 2e-6), 0.0, kBand);
+    EXPECT_FALSE(below.current_saturated) << sign;
+    EXPECT_FALSE(below.voltage_saturated) << sign;
+  }
+}
+
+TEST(Motor, ATorqueCommandNeedingExactlyTheSupplySaturatesTheVoltage) {
+  MotorModel m = MakeFrictionlessTestRobot().motor;
+  m.current_limit_A = 10;  // the supply binds: V / R = 4.8 A
+  // Stall torque 0.4 × 4.8 = 1.92 N·m; at rest the drive needs R i = 12 V, all of the supply.
+  const double stall_Nm = TorquePerAmp(m) * m.supply_V / m.resistance_ohm;
+  for (double sign : {1.0, -1.0}) {
+    const MotorOutput at = EvaluateMotor(m, DriveMode::kTorque, sign * stall_Nm, 0.0, kBand);
+    EXPECT_TRUE(at.voltage_saturated) << sign;
+    EXPECT_FALSE(at.current_saturated) << sign;
+    EXPECT_NEAR(at.voltage_V, sign * 12.0, 1e-12);
+    const double inside = sign * stall_Nm * (1 - 0.5e-6);
+    EXPECT_TRUE(EvaluateMotor(m, DriveMode::kTorque, inside, 0.0, kBand).voltage_saturated);
+    const double below = sign * stall_Nm * (1 - 2e-6);
+    EXPECT_FALSE(EvaluateMotor(m, DriveMode::kTorque, below, 0.0, kBand).voltage_saturated);
+  }
+}
+
+TEST(Motor, AVoltageCommandAtTheSupplySaturates) {
+  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  // At 10 rad/s the back-EMF is 5 V, so the full 12 V drives (12 − 5) / 2.5 = 2.8 A: the supply
+  // is the only limit reached.
+  for (double sign : {1.0, -1.0}) {
+    const double speed = sign * 10.0;
+    const MotorOutput at = EvaluateMotor(m, DriveMode::kVoltage, sign * m.supply_V, speed, kBand);
+    EXPECT_TRUE(at.voltage_saturated) << sign;
+    EXPECT_FALSE(at.current_saturated) << sign;
+    EXPECT_NEAR(at.current_A, sign * 2.8, 1e-12);
+    const double inside = sign * m.supply_V * (1 - 0.5e-6);
+    EXPECT_TRUE(EvaluateMotor(m, DriveMode::kVoltage, inside, speed, kBand).voltage_saturated);
+    const double below = sign * m.supply_V * (1 - 2e-6);
+    EXPECT_FALSE(EvaluateMotor(m, DriveMode::kVoltage, below, speed, kBand).voltage_saturated);
+  }
 }
 
 TEST(Motor, ViscousAndCoulombFrictionOpposeTheRotation) {

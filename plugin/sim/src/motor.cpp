@@ -22,7 +22,7 @@ MotorOutput EvaluateMotor(const MotorModel& m, DriveMode mode, double command,
   const double back_emf_V = m.back_emf_V_s_per_rad * m.gear_ratio * rel_speed_rad_s;
   const double limit_A = m.current_limit_A;
   if (mode == DriveMode::kVoltage) {
-    out.voltage_saturated = std::abs(command) > m.supply_V;
+    out.voltage_saturated = AtOrBeyondLimit(command, m.supply_V);
     out.voltage_V = std::clamp(command, -m.supply_V, m.supply_V);
     out.current_A = (out.voltage_V - back_emf_V) / m.resistance_ohm;
   } else {
@@ -30,21 +30,21 @@ MotorOutput EvaluateMotor(const MotorModel& m, DriveMode mode, double command,
     // supply can push it against the back-EMF.
     const double torque_per_A = m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A;
     out.current_A = command / torque_per_A;
-    out.current_saturated = std::abs(out.current_A) > limit_A;
+    out.current_saturated = AtOrBeyondLimit(out.current_A, limit_A);
     out.current_A = std::clamp(out.current_A, -limit_A, limit_A);
     out.voltage_V = m.resistance_ohm * out.current_A + back_emf_V;
+    out.voltage_saturated = AtOrBeyondLimit(out.voltage_V, m.supply_V);
     if (std::abs(out.voltage_V) > m.supply_V) {
-      out.voltage_saturated = true;
       out.voltage_V = std::clamp(out.voltage_V, -m.supply_V, m.supply_V);
       out.current_A = (out.voltage_V - back_emf_V) / m.resistance_ohm;
     }
   }
   // The drive's current limit holds in both modes (it lowers the terminal voltage to do so).
   if (std::abs(out.current_A) > limit_A) {
-    out.current_saturated = true;
     out.current_A = std::clamp(out.current_A, -limit_A, limit_A);
     out.voltage_V = m.resistance_ohm * out.current_A + back_emf_V;
   }
+  out.current_saturated = out.current_saturated || AtOrBeyondLimit(out.current_A, limit_A);
   out.wheel_torque_Nm = torque_scale * m.gear_ratio * m.gear_efficiency *
                             m.torque_constant_Nm_per_A * out.current_A -
                         viscous_Nm - coulomb_Nm;

@@ -70,6 +70,7 @@ void MetricRecorder::Add(const StepSample& s) {
   }
   if (slipping) ++slipping_steps_;
   if (s.saturated) ++saturated_steps_;
+  if (s.command_at_limit) ++command_limited_steps_;
 
   // Within the capacity reserved up front push_back never allocates; beyond it, stop buffering.
   if (tilt_rad_.size() < tilt_rad_.capacity() && drift_m_.size() < drift_m_.capacity()) {
@@ -82,15 +83,15 @@ RunMetrics MetricRecorder::Finish(RunStatus status, const std::string& message) 
   RunMetrics m;
   m.status = status;
   m.message = message;
+  if (samples_ == 0) return m;  // never stepped: every figure stays NaN
+  const auto n = static_cast<double>(samples_);
   m.end_time_s = last_time_s_;
-  if (status == RunStatus::kFell && samples_ > 0) m.fall_time_s = last_time_s_;
+  if (status == RunStatus::kFell) m.fall_time_s = last_time_s_;
   m.max_tilt_deg = max_tilt_rad_ * kDeg;
   m.max_drift_m = max_drift_m_;
-  if (samples_ > 0) {
-    const auto n = static_cast<double>(samples_);
-    m.rms_tilt_deg = std::sqrt(sum_tilt2_ / n) * kDeg;
-    m.saturation_frac = static_cast<double>(saturated_steps_) / n;
-  }
+  m.rms_tilt_deg = std::sqrt(sum_tilt2_ / n) * kDeg;
+  m.saturation_pct = 100.0 * static_cast<double>(saturated_steps_) / n;
+  m.command_limit_pct = 100.0 * static_cast<double>(command_limited_steps_) / n;
   m.iae_tilt_deg_s = sum_abs_tilt_ * dt_s_ * kDeg;
   m.effort_Nm2s = effort_;
   m.peak_torque_Nm = peak_torque_;
@@ -119,7 +120,7 @@ void MetricRecorder::JudgeSettling(RunMetrics* metrics) const {
       static_cast<std::size_t>(std::max(1L, std::lround(0.1 * window_s / dt_s_)));
 
   bool judged = false, tilt_unsettled = false, drift_unsettled = false;
-  double worst_tilt_s = 0, worst_drift_s = 0, worst_overshoot_pct = 0;
+  double worst_tilt_s = 0, worst_drift_s = 0, worst_rebound_rad = 0, worst_rebound_pct = 0;
   for (double start_s : disturbances_s_) {
     const double end_s = start_s + window_s;
     // A window running past the data: cut short by an early end, it did not settle; past the
@@ -151,19 +152,18 @@ void MetricRecorder::JudgeSettling(RunMetrics* metrics) const {
     drift_unsettled = drift_unsettled || std::isnan(drift_s);
     if (!std::isnan(drift_s)) worst_drift_s = std::max(worst_drift_s, drift_s + lag_s);
 
-    // Overshoot from the first sample out of the band, so that in-band wiggle before the
-    // disturbance takes hold does not pick the side of the first excursion.
-    std::size_t out = 0;
-    while (out < n && std::abs(tilt[out] - tilt_final) <= tilt_band_rad) ++out;
-    if (out < n) {
-      const double pct = AnalyseExcursion(tilt.subspan(out), dt_s_, tilt_final).overshoot_pct;
-      if (!std::isnan(pct)) worst_overshoot_pct = std::max(worst_overshoot_pct, pct);
+    // The rebound after the peak excursion; none when tilt never left the band.
+    const Rebound rebound = PeakAndRebound(tilt, dt_s_, tilt_final);
+    if (rebound.peak > tilt_band_rad) {
+      worst_rebound_rad = std::max(worst_rebound_rad, rebound.rebound);
+      worst_rebound_pct = std::max(worst_rebound_pct, rebound.rebound_pct);
     }
   }
   if (!judged) return;
   metrics->tilt_settle_s = tilt_unsettled ? kNaN : worst_tilt_s;
   metrics->drift_settle_s = drift_unsettled ? kNaN : worst_drift_s;
-  metrics->tilt_overshoot_pct = worst_overshoot_pct;
+  metrics->tilt_rebound_deg = worst_rebound_rad * kDeg;
+  metrics->tilt_rebound_pct = worst_rebound_pct;
 }
 
 }  // namespace upright::runner

@@ -20,35 +20,28 @@ double SettlingTime(std::span<const double> y, double dt_s, double final_value, 
   return static_cast<double>(first_in) * dt_s;
 }
 
-Excursion AnalyseExcursion(std::span<const double> y, double dt_s, double final_value) {
-  Excursion e;
-  // The side of the first excursion: the sign of the first sample off the final value.
-  std::size_t i = 0;
-  while (i < y.size() && y[i] == final_value) ++i;
-  if (i == y.size()) {
-    e.overshoot_pct = kNaN;
-    return e;
-  }
-  const double side = y[i] > final_value ? 1.0 : -1.0;
-  for (; i < y.size(); ++i) {
-    const double d = side * (y[i] - final_value);
-    if (d < 0) break;  // crossed back over the final value
-    if (d > e.first_peak) {
-      e.first_peak = d;
-      e.first_peak_time_s = static_cast<double>(i) * dt_s;
+Rebound PeakAndRebound(std::span<const double> y, double dt_s, double final_value) {
+  Rebound r;
+  std::size_t peak = y.size();
+  for (std::size_t i = 0; i < y.size(); ++i) {
+    const double d = std::abs(y[i] - final_value);
+    if (d > r.peak) {
+      r.peak = d;
+      peak = i;
     }
   }
-  const bool crossed = i < y.size();
-  for (; i < y.size(); ++i) {
-    const double d = -side * (y[i] - final_value);
-    if (d > e.rebound) e.rebound = d;
+  if (peak == y.size()) {
+    r.rebound_pct = kNaN;
+    return r;
   }
-  if (!(e.first_peak > 0)) {
-    e.overshoot_pct = kNaN;
-  } else {
-    e.overshoot_pct = crossed ? 100.0 * e.rebound / e.first_peak : 0.0;
+  r.peak_time_s = static_cast<double>(peak) * dt_s;
+  const double other_side = y[peak] > final_value ? -1.0 : 1.0;
+  for (std::size_t i = peak + 1; i < y.size(); ++i) {
+    const double d = other_side * (y[i] - final_value);
+    if (d > r.rebound) r.rebound = d;
   }
-  return e;
+  r.rebound_pct = 100.0 * r.rebound / r.peak;
+  return r;
 }
 
 double StepOvershootPct(std::span<const double> y, double initial, double final_value) {

@@ -161,8 +161,8 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
     return true;
   }
 
-  // The scenario's events: from the trace that ran longest, since a run cut short carries the
-  // later events on its last row. Status marks ("fell") are drawn per run instead.
+  // The scenario's events: from the trace that ran longest, since a run cut short shows only the
+  // events up to its end. Status marks ("fell") are drawn per run instead.
   const ControllerTrace* longest = nullptr;
   for (const ControllerTrace& t : traces) {
     if (!t.loaded) continue;

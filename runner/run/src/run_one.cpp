@@ -10,6 +10,7 @@
 
 #include "timeline.hpp"
 #include "upright/design/linear_model.hpp"
+#include "upright/design/weights.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/runner/linear_twin.hpp"
@@ -28,8 +29,10 @@ std::string Format(const char* format, double a, double b = 0) {
   return text;
 }
 
-// The readings the metrics take after a step; no allocation.
-StepSample Sample(const sim::Plant& plant, double tilt_rad, double drift_m) {
+// The readings the metrics take after a step, the module's command held over it and that
+// command's limit (command_limit, V or N·m as the module commands); no allocation.
+StepSample Sample(const sim::Plant& plant, const host::ControllerHost& host, double command_limit,
+                  double tilt_rad, double drift_m) {
   const sim::TrueState& s = plant.truth();
   const sim::MotorState& m = plant.motors();
   const sim::ContactState& c = plant.contact();
@@ -45,6 +48,9 @@ StepSample Sample(const sim::Plant& plant, double tilt_rad, double drift_m) {
     out.slip_ratio[i] = c.wheels[i].slip_ratio;
     out.touching[i] = c.wheels[i].touching;
   }
+  const auto command = host.command();
+  out.command_at_limit = sim::AtOrBeyondLimit(command[0], command_limit) ||
+                         sim::AtOrBeyondLimit(command[1], command_limit);
   return out;
 }
 
@@ -208,6 +214,12 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
 
   const double equilibrium_pitch_rad =
       design::Linearise(scenario.built_model(), design::InputKind::kTorque).equilibrium_pitch_rad;
+  // The drive's limit on the module's command, of its kind: the supply voltage, or the stall
+  // torque at the wheel — the limit the built-in controllers clamp at (design::InputLimit).
+  const double command_limit =
+      design::InputLimit(scenario.built_model(), host->drive() == sim::DriveMode::kVoltage
+                                                     ? design::InputKind::kVoltage
+                                                     : design::InputKind::kTorque);
   const double fall_tilt_rad = scenario.metrics.fall_tilt_deg / kDeg;
   const double dt_s = scenario.dt_s;
   const long total_steps = std::lround(scenario.duration_s / dt_s);
@@ -268,7 +280,7 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     }
     const double drift_m = drift();
     const double tilt_rad = plant->truth().pitch_rad - equilibrium_pitch_rad;
-    recorder.Add(Sample(*plant, tilt_rad, drift_m));
+    recorder.Add(Sample(*plant, *host, command_limit, tilt_rad, drift_m));
     if (options.linear_twin) plant_series.Add(tilt_rad, drift_m);
     if (trace_every > 0 && plant->step_count() % trace_every == 0) {
       result.trace.rows.push_back(Row(*plant, *host, timeline, drift_m));
@@ -295,6 +307,11 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     }
   }
   if (status == RunStatus::kOk && message.empty()) message = "survived";
+  // The trace ends where the run ended, on the trace rate's grid or not, so that what happened
+  // last (a fall, a fault) has its row.
+  if (trace_every > 0 && result.trace.rows.back().time_s < plant->time_s()) {
+    result.trace.rows.push_back(Row(*plant, *host, timeline, drift()));
+  }
   if (trace_every > 0 && status != RunStatus::kOk) {
     // The end of a run cut short, among the event marks in time order.
     const double end_s =

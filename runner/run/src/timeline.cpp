@@ -111,27 +111,33 @@ double Timeline::QuietFrom(const Scenario& s) {
 
 std::vector<EventMark> Timeline::Marks(const Scenario& s) {
   std::vector<EventMark> marks;
+  // The time of the first physics step an event acts on, computed as the plant computes a step's
+  // time, so that a trace row at that step compares equal.
+  const auto acts_at = [&](double start_s) {
+    return static_cast<double>(sim::FirstStepAtOrAfter(start_s, s.dt_s)) * s.dt_s;
+  };
   for (const auto& p : s.pushes) {
-    marks.push_back({p.start_s, Format("push %.0f N ", p.peak_N) + sim::ToString(p.shape) +
-                                    Format(" %.3g s", p.duration_s)});
+    marks.push_back({acts_at(p.start_s), Format("push %.0f N ", p.peak_N) + sim::ToString(p.shape) +
+                                             Format(" %.3g s", p.duration_s)});
   }
   for (const auto& p : s.payload_shifts) {
-    marks.push_back(
-        {p.start_s, Format("payload shift %+.3g m over %.3g s", p.distance_m, p.duration_s)});
+    marks.push_back({acts_at(p.start_s),
+                     Format("payload shift %+.3g m over %.3g s", p.distance_m, p.duration_s)});
   }
   for (const auto& d : s.drives) {
-    marks.push_back({d.start_s, Format("drive %.3g m/s, %.3g deg/s over %.3g s", d.speed_m_s,
-                                       d.yaw_rate_rad_s * 180 / kPi, d.ramp_s)});
+    marks.push_back(
+        {acts_at(d.start_s), Format("drive %.3g m/s, %.3g deg/s over %.3g s", d.speed_m_s,
+                                    d.yaw_rate_rad_s * 180 / kPi, d.ramp_s)});
   }
   for (const auto& f : s.motor_faults) {
-    marks.push_back({f.start_s, std::string("motor fault ") + sim::ToString(f.side) +
-                                    Format(" torque x%.3g", f.torque_scale)});
+    marks.push_back({acts_at(f.start_s), std::string("motor fault ") + sim::ToString(f.side) +
+                                             Format(" torque x%.3g", f.torque_scale)});
   }
   for (const auto& f : s.sensor_faults) {
     std::string label =
         std::string("sensor fault ") + sim::ToString(f.channel) + " " + sim::ToString(f.kind);
     if (f.kind == sim::SensorFaultKind::kBias) label += Format(" %+.3g", f.value);
-    marks.push_back({f.start_s, label});
+    marks.push_back({acts_at(f.start_s), label});
   }
   std::stable_sort(marks.begin(), marks.end(),
                    [](const EventMark& a, const EventMark& b) { return a.time_s < b.time_s; });

@@ -37,7 +37,8 @@ class Timeline {
   // start: its effect is steady after that), provided the reference is then at rest; infinity
   // when the reference is still asking for motion at the end. Envelope probes stop early after it.
   static double QuietFrom(const Scenario& scenario);
-  // One mark per event start, in time order, for traces.
+  // One mark per event start, in time order, for traces; each at the time of the first physics
+  // step the event acts on (sim::FirstStepAtOrAfter), the time of the trace row that shows it.
   static std::vector<EventMark> Marks(const Scenario& scenario);
 
  private:

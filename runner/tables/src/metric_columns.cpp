@@ -7,19 +7,21 @@
 namespace upright::runner {
 namespace {
 
-constexpr std::array<MetricColumn, 16> kColumns = {{
+constexpr std::array<MetricColumn, 18> kColumns = {{
     {"fall_time_s", "fall time (s)", &RunMetrics::fall_time_s, false},
     {"max_tilt_deg", "max tilt (deg)", &RunMetrics::max_tilt_deg, true},
     {"max_drift_m", "max drift (m)", &RunMetrics::max_drift_m, true},
     {"tilt_settle_s", "tilt settle (s)", &RunMetrics::tilt_settle_s, true},
     {"drift_settle_s", "drift settle (s)", &RunMetrics::drift_settle_s, true},
-    {"tilt_overshoot_pct", "tilt overshoot (%)", &RunMetrics::tilt_overshoot_pct, true},
+    {"tilt_rebound_deg", "tilt rebound (deg)", &RunMetrics::tilt_rebound_deg, true},
+    {"tilt_rebound_pct", "tilt rebound (% of peak)", &RunMetrics::tilt_rebound_pct, true},
     {"rms_tilt_deg", "RMS tilt (deg)", &RunMetrics::rms_tilt_deg, true},
     {"iae_tilt_deg_s", "IAE tilt (deg·s)", &RunMetrics::iae_tilt_deg_s, true},
     {"effort_Nm2s", "effort (N²m²s)", &RunMetrics::effort_Nm2s, true},
     {"peak_torque_Nm", "peak torque (N·m)", &RunMetrics::peak_torque_Nm, true},
     {"peak_current_A", "peak current (A)", &RunMetrics::peak_current_A, true},
-    {"saturation_frac", "saturation (fraction of steps)", &RunMetrics::saturation_frac, true},
+    {"saturation_pct", "saturation (% of steps)", &RunMetrics::saturation_pct, true},
+    {"command_limit_pct", "command at limit (% of steps)", &RunMetrics::command_limit_pct, true},
     {"max_slip_ratio", "max slip ratio", &RunMetrics::max_slip_ratio, true},
     {"slip_time_s", "slip time (s)", &RunMetrics::slip_time_s, true},
     {"energy_J", "energy (J)", &RunMetrics::energy_J, true},

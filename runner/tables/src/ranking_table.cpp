@@ -33,7 +33,7 @@ constexpr std::array<RankingWeight, 9> kRankingWeights = {{
     {"drift settle", &RunMetrics::drift_settle_s, 0.5, true},
     {"effort", &RunMetrics::effort_Nm2s, 0.5, false},
     {"peak current", &RunMetrics::peak_current_A, 0.5, false},
-    {"saturation", &RunMetrics::saturation_frac, 0.5, false},
+    {"saturation", &RunMetrics::saturation_pct, 0.5, false},
     {"energy", &RunMetrics::energy_J, 0.5, false},
 }};
 

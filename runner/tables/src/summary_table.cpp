@@ -22,11 +22,11 @@ constexpr std::array<ReadableColumn, 11> kReadableColumns = {{
     {"max drift (m)", &RunMetrics::max_drift_m, 1, false},
     {"tilt settle (s)", &RunMetrics::tilt_settle_s, 1, true},
     {"drift settle (s)", &RunMetrics::drift_settle_s, 1, true},
-    {"tilt overshoot (%)", &RunMetrics::tilt_overshoot_pct, 1, false},
+    {"tilt rebound (%)", &RunMetrics::tilt_rebound_pct, 1, false},
     {"RMS tilt (deg)", &RunMetrics::rms_tilt_deg, 1, false},
     {"effort (N²m²s)", &RunMetrics::effort_Nm2s, 1, false},
     {"peak current (A)", &RunMetrics::peak_current_A, 1, false},
-    {"saturation (%)", &RunMetrics::saturation_frac, 100, false},
+    {"saturation (%)", &RunMetrics::saturation_pct, 1, false},
     {"max slip ratio", &RunMetrics::max_slip_ratio, 1, false},
     {"energy (J)", &RunMetrics::energy_J, 1, false},
 }};

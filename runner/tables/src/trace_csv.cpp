@@ -91,10 +91,10 @@ std::string TraceCsv(const Trace& trace) {
       AppendNumber(&csv, row.*kTwinColumns[c].field);
       csv += ',';
     }
-    const bool last = r + 1 == trace.rows.size();
+    // A mark goes on the first row at or after its time: never earlier than it happened, and
+    // not at all when it comes after the last row (after the run ended).
     labels.clear();
-    while (next_mark < marks.size() &&
-           (last || marks[next_mark]->time_s < trace.rows[r + 1].time_s)) {
+    while (next_mark < marks.size() && marks[next_mark]->time_s <= row.time_s) {
       if (!labels.empty()) labels += "; ";
       labels += marks[next_mark]->label;
       ++next_mark;

@@ -3,6 +3,7 @@
 // current and wheel torque. Armature inductance is neglected (electrical time constant ≪ the step).
 #pragma once
 
+#include <cmath>
 #include <string>
 
 #include "upright/model/robot_model.hpp"
@@ -14,17 +15,29 @@ enum class DriveMode {
   kTorque,   // command = wheel torque, N·m; the drive sets current, up to the supply voltage
 };
 
+// A value counts as at its limit when |value| >= (1 − kLimitTolerance) · limit: a command clamped
+// at exactly a limit, or a current that reaches it up to rounding, is at the limit.
+inline constexpr double kLimitTolerance = 1e-6;
+
+// True when |value| is at or beyond `limit` (> 0) within kLimitTolerance of it.
+inline bool AtOrBeyondLimit(double value, double limit) {
+  return std::abs(value) >= (1 - kLimitTolerance) * limit;
+}
+
 struct MotorOutput {
-  double voltage_V = 0;         // terminal voltage applied
-  double current_A = 0;         // armature current
-  double wheel_torque_Nm = 0;   // on the wheel (and −this on the chassis), friction included
-  bool voltage_saturated = false;  // the command asked for more than the supply
-  bool current_saturated = false;  // the current limit cut the command
+  double voltage_V = 0;        // terminal voltage applied
+  double current_A = 0;        // armature current
+  double wheel_torque_Nm = 0;  // on the wheel (and −this on the chassis), friction included
+  // The voltage asked for (the command, or what a torque command needs) at or beyond the supply.
+  bool voltage_saturated = false;
+  // The current asked for, or the current that flows, at or beyond the drive's current limit.
+  bool current_saturated = false;
   double power_W() const { return voltage_V * current_A; }  // electrical power drawn
 };
 
 // One evaluation of the motor equations:
-//   i = (V − K_e n ω_rel) / R, |V| ≤ supply, |i| ≤ current limit,
+//   i = (V − K_e n ω_rel) / R, |V| ≤ supply, |i| ≤ current limit (each "saturated" when at its
+//   limit within kLimitTolerance),
 //   τ_wheel = s · n η K_t i − b ω_rel − c · sat(ω_rel / coulomb_band)
 // ω_rel: wheel speed relative to the chassis, rad/s. coulomb_band_rad_s > 0 smooths the Coulomb
 // friction's sign near zero speed (see MotorCoulombBand). s = torque_scale in [0, 1] is a motor

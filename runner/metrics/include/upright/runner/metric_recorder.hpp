@@ -1,6 +1,6 @@
 // MetricRecorder: one run's physics steps in (a StepSample each), its RunMetrics out. Running
 // figures accumulate as the run goes; tilt and drift are buffered (allocated once, up front) so
-// settling and overshoot can be judged after each disturbance. Add() never allocates.
+// settling and rebound can be judged after each disturbance. Add() never allocates.
 #pragma once
 
 #include <array>
@@ -21,6 +21,7 @@ struct StepSample {
   std::array<double, 2> current_A{};  // motor currents
   std::array<double, 2> power_W{};    // electrical power V·i (negative when regenerating)
   bool saturated = false;             // either motor voltage- or current-limited this step
+  bool command_at_limit = false;      // either wheel's command at or beyond the drive's limit
   std::array<double, 2> slip_ratio{};
   std::array<bool, 2> touching{};  // wheel in contact with the ground
 };
@@ -37,11 +38,12 @@ class MetricRecorder {
   void Add(const StepSample& sample);
   // The figures for the steps added so far (definitions in the README, "Metrics"). `status`
   // and `message` say how the run ended; fall_time_s is the last sample's time when the status
-  // is kFell. Settling and overshoot are judged only when the status is kOk (else NaN).
+  // is kFell. Settling and rebound are judged only when the status is kOk (else NaN). With no
+  // step added every figure, end_time_s included, is NaN.
   RunMetrics Finish(RunStatus status, const std::string& message) const;
 
  private:
-  // Fills the settling and overshoot figures of `metrics` from the buffered tilt and drift.
+  // Fills the settling and rebound figures of `metrics` from the buffered tilt and drift.
   void JudgeSettling(RunMetrics* metrics) const;
 
   MetricSettings settings_;
@@ -53,7 +55,7 @@ class MetricRecorder {
   double first_time_s_ = 0, last_time_s_ = 0;
   double max_tilt_rad_ = 0, max_drift_m_ = 0, sum_tilt2_ = 0, sum_abs_tilt_ = 0;
   double effort_ = 0, peak_torque_ = 0, peak_current_ = 0, energy_J_ = 0;
-  long saturated_steps_ = 0, slipping_steps_ = 0;
+  long saturated_steps_ = 0, command_limited_steps_ = 0, slipping_steps_ = 0;
   double max_slip_ = 0;
 };
 

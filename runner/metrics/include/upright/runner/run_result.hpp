@@ -40,7 +40,7 @@ struct TraceRow {
 
 // A moment worth marking in a trace: an event starting, a fault, a fall.
 struct EventMark {
-  double time_s = 0;
+  double time_s = 0;  // when it acts: a trace shows it on the first row at or after this time
   std::string label;  // "push 120 N half-sine", "fall", ...
 };
 

@@ -1,6 +1,7 @@
 // Step-response figures of a uniformly sampled signal (handbook definitions): settling time into
-// a band around the final value, overshoot past it and the time of the peak. MetricRecorder uses
-// them after each disturbance; tests hold them to the second-order formulas.
+// a band around the final value, the peak excursion and the rebound past it, overshoot and the
+// time of the peak. MetricRecorder uses them after each disturbance; tests hold them to the
+// second-order formulas.
 #pragma once
 
 #include <span>
@@ -13,20 +14,19 @@ namespace upright::runner {
 // run. A non-finite sample counts as out of band.
 double SettlingTime(std::span<const double> y, double dt_s, double final_value, double band);
 
-struct Excursion {
-  double first_peak = 0;  // the largest |y − final| before y first crosses back over final
-  double first_peak_time_s = 0;
-  double rebound = 0;  // the largest |y − final| on the other side, after that crossing
-  // rebound / first_peak × 100; 0 when there is no crossing; NaN when first_peak is 0.
-  double overshoot_pct = 0;
+struct Rebound {
+  double peak = 0;         // P = max |y − final|: the peak excursion (0 for an empty y)
+  double peak_time_s = 0;  // the time of the peak's first sample
+  double rebound = 0;      // R = the largest excursion past final on the other side, after the peak
+  double rebound_pct = 0;  // 100 R / P, at most 100; NaN when P is 0
 };
 
-// How a signal leaves and returns to `final_value`: its first excursion and the rebound past the
-// final value. The first excursion's side is that of the first sample off final_value; samples
-// equal to final_value are on neither side. For a step response from `initial` (final_value ≠
-// initial) the classic percentage overshoot is (max(y) − final) / (final − initial), given by
-// StepOvershootPct.
-Excursion AnalyseExcursion(std::span<const double> y, double dt_s, double final_value);
+// How far a signal swings from its final value and back past it: the peak excursion and the
+// rebound on the other side after it. For a step response from `initial` the peak excursion is
+// |initial − final| at the start, so rebound_pct is the classic percentage overshoot; for a
+// response that starts and ends at final it is the decay from one swing to the next. Samples equal
+// to final_value lie on neither side; NaN samples are skipped.
+Rebound PeakAndRebound(std::span<const double> y, double dt_s, double final_value);
 
 // Percentage overshoot of a step response from `initial` to `final_value`; 0 when y never passes
 // the final value. And the time of its peak (first sample of the maximum excursion in the step's
