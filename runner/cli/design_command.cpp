@@ -197,31 +197,34 @@ void PrintController(const char* title, const ControllerReport& c, double latenc
     PrintPoles(c.loop.poles);
     std::printf("push norm ||T_zw||inf: %s\n", Figure(c.loop.push_norm).c_str());
     const design::LoopMargins& m = c.loop.margins;
-    std::printf("input margins (worst wheel): gain %s..%s, phase %s deg, disk alpha %s "
-                "(gain %s..%s, phase %s deg), delay %s s\n",
-                Figure(m.gain_low).c_str(), Figure(m.gain_high).c_str(),
-                Figure(m.phase_deg).c_str(), Figure(m.disk_alpha).c_str(),
-                Figure(m.disk_gain_low).c_str(), Figure(m.disk_gain_high).c_str(),
-                Figure(m.disk_phase_deg).c_str(), Figure(m.delay_s).c_str());
+    std::printf(
+        "input margins (worst wheel): gain %s..%s, phase %s deg, disk alpha %s "
+        "(gain %s..%s, phase %s deg), delay %s s\n",
+        Figure(m.gain_low).c_str(), Figure(m.gain_high).c_str(), Figure(m.phase_deg).c_str(),
+        Figure(m.disk_alpha).c_str(), Figure(m.disk_gain_low).c_str(),
+        Figure(m.disk_gain_high).c_str(), Figure(m.disk_phase_deg).c_str(),
+        Figure(m.delay_s).c_str());
     const std::string warning = DelayWarning(c, latency_s, rate_hz);
     if (!warning.empty()) std::printf("warning: %s\n", warning.c_str());
   }
   if (c.sampled.analysed()) {
-    std::printf("sampled as the module runs it, at %g Hz: max |z| %.4g (%s); poles (1/s, log z / T):",
-                1 / c.sampled.period_s, c.sampled.max_abs_z,
-                c.sampled.max_abs_z < 1 ? "stable" : "UNSTABLE");
+    std::printf(
+        "sampled as the module runs it, at %g Hz: max |z| %.4g (%s); poles (1/s, log z / T):",
+        1 / c.sampled.period_s, c.sampled.max_abs_z,
+        c.sampled.max_abs_z < 1 ? "stable" : "UNSTABLE");
     PrintPoles(c.sampled.s);
   }
 }
 
 void PrintText(const RobotModel& model, const DesignSet& d) {
   const design::LinearModel& p = d.plant;
-  std::printf("robot '%s': linearised about upright (%s input, controllers at %g Hz)\n",
-              model.name.c_str(), p.input == design::InputKind::kTorque ? "wheel torque" : "voltage",
-              d.request.rate_hz);
-  std::printf("lumped body %.3g kg, COM %.3g m above the axle; falls at %.4g 1/s "
-              "(time constant %.3g s)\n",
-              p.body.mass_kg, p.body.com_height_m, p.fall_rate_1_s, 1 / p.fall_rate_1_s);
+  std::printf(
+      "robot '%s': linearised about upright (%s input, controllers at %g Hz)\n", model.name.c_str(),
+      p.input == design::InputKind::kTorque ? "wheel torque" : "voltage", d.request.rate_hz);
+  std::printf(
+      "lumped body %.3g kg, COM %.3g m above the axle; falls at %.4g 1/s "
+      "(time constant %.3g s)\n",
+      p.body.mass_kg, p.body.com_height_m, p.fall_rate_1_s, 1 / p.fall_rate_1_s);
   PrintMatrix("A", p.A, false);
   PrintMatrix("B [left, right]", p.B, false);
   std::printf("performance: push of %.4g N at %.3g m above the axle → z = [Q½ x; R½ u]\n",
@@ -238,21 +241,24 @@ void PrintText(const RobotModel& model, const DesignSet& d) {
   PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
   const double nyquist_1_s = kPi * d.request.rate_hz;
   if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {
-    std::printf("note: the continuous estimator reaches %.4g 1/s, beyond the %.4g 1/s Nyquist rate "
-                "of %g Hz: the lqg module's sampled filter (same noise) is slower, so read these "
-                "LQG figures as those of its continuous limit\n",
-                d.lqg.estimator_fastest_1_s, nyquist_1_s, d.request.rate_hz);
+    std::printf(
+        "note: the continuous estimator reaches %.4g 1/s, beyond the %.4g 1/s Nyquist rate "
+        "of %g Hz: the lqg module's sampled filter (same noise) is slower, so read these "
+        "LQG figures as those of its continuous limit\n",
+        d.lqg.estimator_fastest_1_s, nyquist_1_s, d.request.rate_hz);
   }
   PrintController(controllers[3].title, d.pid, latency_s, rate_hz);
   const design::PidGains& g = d.pid.gains;
   if (d.pid.ok) {
-    std::printf("tilt kp %.4g N·m/rad, kd %.4g N·m·s/rad; speed kp %.4g rad/(m/s), ki %.4g rad/m; "
-                "yaw kp %.4g N·m·s/rad, ki %.4g N·m/rad\n",
-                g.tilt_kp_Nm_per_rad, g.tilt_kd_Nm_s_per_rad, g.speed_kp_rad_per_m_s,
-                g.speed_ki_rad_per_m, g.yaw_kp_Nm_s_per_rad, g.yaw_ki_Nm_per_rad);
+    std::printf(
+        "tilt kp %.4g N·m/rad, kd %.4g N·m·s/rad; speed kp %.4g rad/(m/s), ki %.4g rad/m; "
+        "yaw kp %.4g N·m·s/rad, ki %.4g N·m/rad\n",
+        g.tilt_kp_Nm_per_rad, g.tilt_kd_Nm_s_per_rad, g.speed_kp_rad_per_m_s, g.speed_ki_rad_per_m,
+        g.yaw_kp_Nm_s_per_rad, g.yaw_ki_Nm_per_rad);
   }
-  std::printf("\nLinear-model figures only: check them on the plant (upright run) and on hardware "
-              "with a tether or spotter.\n");
+  std::printf(
+      "\nLinear-model figures only: check them on the plant (upright run) and on hardware "
+      "with a tether or spotter.\n");
 }
 
 // The flag a DesignRequest or DesignWeights field is set by.
@@ -331,7 +337,9 @@ int RunDesign(const DesignOptions& options) {
     std::cerr << error << "\n";
     return kExitBadInput;
   }
-  const ModelLoadResult loaded = LoadModelFile(options.model_path);
+  // A design never steps the physics, so a robot whose rates suit another step still designs.
+  const ModelLoadResult loaded =
+      LoadModelFile(options.model_path, ModelLoadOptions{.check_default_step = false});
   if (!loaded.ok()) {
     for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
     return kExitBadInput;

@@ -214,12 +214,12 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
 
   const double equilibrium_pitch_rad =
       design::Linearise(scenario.built_model(), design::InputKind::kTorque).equilibrium_pitch_rad;
-  // The drive's limit on the module's command, of its kind: the supply voltage, or the stall
-  // torque at the wheel — the limit the built-in controllers clamp at (design::InputLimit).
-  const double command_limit =
-      design::InputLimit(scenario.built_model(), host->drive() == sim::DriveMode::kVoltage
-                                                     ? design::InputKind::kVoltage
-                                                     : design::InputKind::kTorque);
+  // The limit on the module's command, of its kind: the supply voltage, or the stall torque at
+  // the wheel — on the robot the module is given (its nominal one, not one a sweep or envelope
+  // changed), the limit the built-in controllers clamp at (design::InputLimit).
+  const double command_limit = design::InputLimit(
+      scenario.model, host->drive() == sim::DriveMode::kVoltage ? design::InputKind::kVoltage
+                                                                : design::InputKind::kTorque);
   const double fall_tilt_rad = scenario.metrics.fall_tilt_deg / kDeg;
   const double dt_s = scenario.dt_s;
   const long total_steps = std::lround(scenario.duration_s / dt_s);
