@@ -12,6 +12,8 @@
 #include <string>
 #include <vector>
 
+#include "upright/runner/metric_columns.hpp"
+
 namespace upright::runner {
 namespace {
 
@@ -210,15 +212,15 @@ TEST_F(ResultsWriter, SummaryCsvHasOneRowPerRunWithExactCells) {
             "max_drift_m,tilt_settle_s,drift_settle_s,tilt_overshoot_pct,rms_tilt_deg,"
             "iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,saturation_frac,"
             "max_slip_ratio,slip_time_s,energy_J,end_time_s,message");
-  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,1,,2,0.125,1,2,10,0.5,1,10,2,4,0,0,0,20,5,survived");
+  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,true,,2,0.125,1,2,10,0.5,1,10,2,4,0,0,0,20,5,survived");
   // hinf seed 1: the unsettled drift and the inapplicable overshoot are empty fields.
-  EXPECT_EQ(lines[3], "ramp,hinf,1,false,ok,1,,1.5,0.25,1,,,0.5,1,15,2,5,0.0625,0,0,25,5,survived");
-  // The fall: status, survived 0, fall time; the message quoted per RFC 4180 (comma, doubled
+  EXPECT_EQ(lines[3], "ramp,hinf,1,false,ok,true,,1.5,0.25,1,,,0.5,1,15,2,5,0.0625,0,0,25,5,survived");
+  // The fall: status, survived false, fall time; the message quoted per RFC 4180 (comma, doubled
   // quotes, a line break inside the quotes), so this record spans two lines.
   EXPECT_EQ(lines[5] + "\n" + lines[6],
-            "ramp,pid,1,false,fell,0,3.25,45,0.75,,,10,10,1,30,2,12,0.375,0.5,0.25,30,3.25,"
+            "ramp,pid,1,false,fell,false,3.25,45,0.75,,,10,10,1,30,2,12,0.375,0.5,0.25,30,3.25,"
             "\"tilt 45.2 deg, \"\"hard\"\" fall\nat 3.25 s\"");
-  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,1,,3,0.5,1,2,,0.5,1,8,2,4,0,0,0,16,5,survived");
+  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,true,,3,0.5,1,2,,0.5,1,8,2,4,0,0,0,16,5,survived");
   EXPECT_EQ(lines.size(), 12u);  // header + 10 runs, one of them on two lines
 }
 
@@ -457,8 +459,10 @@ TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
                     "4.00 | 0 | 0 | 20.0 |"),
             std::string::npos)
       << md;
-  EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2],
-            "s,a,2,true,setup_failed,0,,0,0,,,,0,0,0,0,0,0,0,0,0,0,module not found");
+  // Every figure of the run that was not played is empty.
+  EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2], "s,a,2,true,setup_failed,false," +
+                                                      std::string(MetricColumns().size(), ',') +
+                                                      "module not found");
   EXPECT_EQ(Lines(Read(dir / "ranking.csv"))[1].substr(0, 14), "1,a,0.5,1,2,1,");
 }
 

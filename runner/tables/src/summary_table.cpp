@@ -52,8 +52,9 @@ std::string SummaryCsv(const BatchResult& batch) {
     AppendCsvField(&csv, run.controller);
     csv += ',';
     csv += std::to_string(run.seed);
-    csv += run.baseline ? ",true" : ",false";
-    AppendOutcomeCells(&csv, run.metrics);
+    csv += ',';
+    csv += CsvBool(run.baseline);
+    AppendOutcomeCells(&csv, run);
     csv += '\n';
   }
   return csv;
