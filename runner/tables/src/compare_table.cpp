@@ -1,7 +1,6 @@
 #include "compare_table.hpp"
 
 #include <cmath>
-#include <limits>
 
 #include "spread_text.hpp"
 #include "upright/runner/metric_columns.hpp"
@@ -10,8 +9,6 @@
 
 namespace upright::runner::internal {
 namespace {
-
-constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
 // Whether difference `d` counts: at least kSameWithinPct of |baseline_mean| when that reaches the
 // floor, at least the floor itself below it; never a zero difference.
@@ -31,21 +28,11 @@ Verdict Direction(double d, bool counts, bool higher_is_better) {
 
 Comparison CompareSurvival(const ScenarioGroup& scenario, const ControllerGroup& baseline,
                            const ControllerGroup& controller) {
-  Comparison c{"survival_rate",
-               "survival (%)",
-               true,
-               MetricFloor{},
-               {},
-               {},
-               kNaN,
-               kNaN,
-               "McNemar exact",
-               0,
-               kNaN,
-               kNaN,
-               kNaN,
-               Verdict::kNotApplicable,
-               Verdict::kNotApplicable};
+  Comparison c;
+  c.metric = "survival_rate";
+  c.label = "survival (%)";
+  c.higher_is_better = true;
+  c.test = "McNemar exact";
   c.baseline.runs = c.baseline.values = baseline.size();
   c.baseline.mean = baseline.SurvivalRate();
   c.controller.runs = c.controller.values = controller.size();
@@ -77,7 +64,7 @@ Comparison CompareSurvival(const ScenarioGroup& scenario, const ControllerGroup&
   const double d = c.pairs > 0 ? c.mean_diff : c.diff_abs;
   c.direction = Direction(d, d != 0, true);
   if (c.pairs < kMcNemarMinPairs) {
-    c.p_value = kNaN;  // too few pairs to test
+    c.p_value = kNoValue;  // too few pairs to test
     c.verdict = Verdict::kIndicative;
   } else {
     c.verdict = c.p_value < kTestLevel ? c.direction : Verdict::kSame;
@@ -87,21 +74,11 @@ Comparison CompareSurvival(const ScenarioGroup& scenario, const ControllerGroup&
 
 Comparison CompareFigure(const ScenarioGroup& scenario, const MetricColumn& column,
                          const ControllerGroup& baseline, const ControllerGroup& controller) {
-  Comparison c{column.name,
-               column.label,
-               false,
-               FloorOf(column.name),
-               {},
-               {},
-               kNaN,
-               kNaN,
-               "paired t",
-               0,
-               kNaN,
-               kNaN,
-               kNaN,
-               Verdict::kNotApplicable,
-               Verdict::kNotApplicable};
+  Comparison c;
+  c.metric = column.name;
+  c.label = column.label;
+  c.floor = FloorOf(column.name);
+  c.test = "paired t";
   c.baseline = StatsOver(baseline.runs, column.field);
   c.controller = StatsOver(controller.runs, column.field);
   std::vector<double> differences;
@@ -123,8 +100,8 @@ Comparison CompareFigure(const ScenarioGroup& scenario, const MetricColumn& colu
   const double d = c.pairs > 0 ? c.mean_diff : c.diff_abs;
   c.direction = Direction(d, Counts(d, c.baseline.mean, c.floor), c.higher_is_better);
   if (c.pairs < kMinTPairs) {
-    c.t = kNaN;  // too few pairs to test
-    c.p_value = kNaN;
+    c.t = kNoValue;  // too few pairs to test
+    c.p_value = kNoValue;
     c.verdict = Verdict::kIndicative;
   } else if (c.p_value < kTestLevel && Counts(c.mean_diff, c.baseline.mean, c.floor)) {
     c.verdict = c.direction;
@@ -220,7 +197,7 @@ std::string CompareCsv(const std::vector<ScenarioGroup>& groups) {
         csv += ',';
         csv += row.metric;
         csv += row.higher_is_better ? ",higher" : ",lower";
-        AppendNumberCell(&csv, row.higher_is_better ? kNaN : row.floor.value);
+        AppendNumberCell(&csv, row.higher_is_better ? kNoValue : row.floor.value);
         AppendStatsCells(&csv, row.baseline);
         AppendStatsCells(&csv, row.controller);
         AppendNumberCell(&csv, row.diff_abs);

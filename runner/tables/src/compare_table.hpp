@@ -6,6 +6,7 @@
 #pragma once
 
 #include <cstddef>
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -21,24 +22,27 @@ inline constexpr double kSameWithinPct = 0.5;
 // The paired tests' level, two-sided.
 inline constexpr double kTestLevel = 0.05;
 // With fewer pairs the paired t-test is not applied (indicative): 2 pairs leave one degree of
-// freedom, where only |t| > 12.7 rejects.
+// freedom, where only |t| > 12.71 rejects (SciPy: t.ppf(0.975, 1) = 12.706).
 inline constexpr std::size_t kMinTPairs = 3;
 
+// A figure that does not apply: an empty CSV cell, "—" in compare.md.
+inline constexpr double kNoValue = std::numeric_limits<double>::quiet_NaN();
+
 struct Comparison {
-  const char* metric;  // compare.csv name ("survival_rate", "max_tilt_deg", ...)
-  const char* label;   // compare.md label
-  bool higher_is_better;
+  const char* metric = "";  // compare.csv name ("survival_rate", "max_tilt_deg", ...)
+  const char* label = "";   // compare.md label
+  bool higher_is_better = false;
   MetricFloor floor;  // survival: {0, ""} (its difference is always a difference of rates)
   FigureStats baseline, controller;
-  double diff_abs;    // controller.mean − baseline.mean, in the figure's unit
-  double diff_pct;    // diff_abs / |baseline.mean| · 100; NaN below the floor and for survival
-  const char* test;   // "paired t" or "McNemar exact"
-  std::size_t pairs;  // seeds both played (figures: both with a value)
-  double mean_diff;   // over the pairs, controller − baseline (survival: of the 0/1 outcomes)
-  double t;           // the paired t statistic; NaN for survival and below 2 pairs
-  double p_value;     // two-sided; NaN when not computed
-  Verdict direction;  // better / worse / same: where the difference points; n/a without values
-  Verdict verdict;
+  double diff_abs = kNoValue;   // controller.mean − baseline.mean, in the figure's unit
+  double diff_pct = kNoValue;   // diff_abs / |baseline.mean| · 100; NaN below the floor, survival
+  const char* test = "";        // "paired t" or "McNemar exact"
+  std::size_t pairs = 0;        // seeds both played (figures: both with a value)
+  double mean_diff = kNoValue;  // over the pairs, controller − baseline (survival: 0/1 outcomes)
+  double t = kNoValue;          // the paired t statistic; NaN for survival and below kMinTPairs
+  double p_value = kNoValue;    // two-sided; NaN when no test was applied
+  Verdict direction = Verdict::kNotApplicable;  // where the difference points; n/a: no values
+  Verdict verdict = Verdict::kNotApplicable;
 };
 
 // Survival first, then every judged figure of MetricColumns(), for `controller` against
