@@ -236,8 +236,10 @@ TEST(Envelope, FilesAreByteIdenticalWithOneJobOrTwo) {
                 "first_failing_value,probes,seeds,outcome,message\n",
                 0),
       0u);
-  EXPECT_NE(csv.find("shove,lqr,1,timeline/push[1].peak_N,N,40,640,40,"), std::string::npos) << csv;
-  EXPECT_NE(csv.find("shove,pid,0,timeline/push[1].peak_N,N,40,640,40,"), std::string::npos) << csv;
+  EXPECT_NE(csv.find("shove,lqr,true,timeline/push[1].peak_N,N,40,640,40,"), std::string::npos)
+      << csv;
+  EXPECT_NE(csv.find("shove,pid,false,timeline/push[1].peak_N,N,40,640,40,"), std::string::npos)
+      << csv;
   const std::string md = ReadFile(dir_a / "envelope.md");
   EXPECT_NE(md.find("| lqr (baseline) |"), std::string::npos) << md;
   EXPECT_NE(md.find("simulated robot only"), std::string::npos) << md;
@@ -288,11 +290,13 @@ TEST(Envelope, SurvivalMapSurvivesTheEasyCornerAndFallsAtTheHardOne) {
                       "seeds_survived,seeds\n",
                       0),
             0u);
-  EXPECT_NE(csv.find("shove,lqr,timeline/push[1].peak_N,40,timeline/push[1].duration_s,0.1,1,1,1"),
-            std::string::npos)
+  EXPECT_NE(
+      csv.find("shove,lqr,timeline/push[1].peak_N,40,timeline/push[1].duration_s,0.1,true,1,1"),
+      std::string::npos)
       << csv;
-  EXPECT_NE(csv.find("shove,lqr,timeline/push[1].peak_N,400,timeline/push[1].duration_s,0.5,0,0,1"),
-            std::string::npos)
+  EXPECT_NE(
+      csv.find("shove,lqr,timeline/push[1].peak_N,400,timeline/push[1].duration_s,0.5,false,0,1"),
+      std::string::npos)
       << csv;
   const std::string md = ReadFile(dir / "envelope.md");
   EXPECT_NE(md.find("## Survival map"), std::string::npos) << md;

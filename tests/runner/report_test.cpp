@@ -12,6 +12,7 @@
 #include <filesystem>
 #include <fstream>
 #include <functional>
+#include <map>
 #include <regex>
 
 #include "html_text.hpp"
@@ -19,7 +20,9 @@
 #include "report_page.hpp"
 #include "report_test_support.hpp"
 #include "upright/runner/csv_reader.hpp"
+#include "upright/runner/metric_columns.hpp"
 #include "upright/runner/sha256.hpp"
+#include "upright/runner/verdict.hpp"
 
 namespace upright::runner {
 namespace {
@@ -212,19 +215,37 @@ TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
   ASSERT_EQ(run.batch.scenarios[0].model_sha256, model_sha) << error;
   EXPECT_NE(html.find(model_sha), std::string::npos);
 
-  // Every better and worse verdict of compare.csv shows with its symbol and word.
+  // Every verdict of compare.csv shows with the mark compare.md gives it (one convention,
+  // upright/runner/verdict.hpp): a symbol and a word, not colour alone, and not the old arrows.
   CsvTable compare;
   ASSERT_TRUE(ReadCsvFile((run.dir / "compare.csv").string(), &compare, &error)) << error;
-  const int verdict = compare.Column("verdict");
-  std::size_t better = 0, worse = 0;
+  const int verdict_column = compare.Column("verdict");
+  const int direction_column = compare.Column("direction");
+  ASSERT_GE(verdict_column, 0);
+  ASSERT_GE(direction_column, 0);
+  std::map<std::string, std::size_t> marks;
   for (const auto& row : compare.rows) {
-    better += row[verdict] == "better";
-    worse += row[verdict] == "worse";
+    Verdict verdict = Verdict::kNotApplicable, direction = Verdict::kNotApplicable;
+    ASSERT_TRUE(FromString(row[verdict_column], &verdict)) << row[verdict_column];
+    ASSERT_TRUE(FromString(row[direction_column], &direction)) << row[direction_column];
+    ++marks[VerdictMark(verdict, direction)];
   }
-  ASSERT_GT(better + worse, 0u);
+  ASSERT_FALSE(marks.empty());
   const auto count = [&](const std::string& needle) { return Count(html, needle); };
-  EXPECT_EQ(count("▲ better"), better + 1);  // and once in the table's caption
-  EXPECT_EQ(count("▼ worse"), worse + 1);
+  const std::string md = ReadFile(run.dir / "compare.md");
+  for (const auto& [mark, n] : marks) {
+    // The table's caption carries the legend once.
+    EXPECT_EQ(count(mark), n + Count(VerdictLegend(), mark)) << mark;
+    EXPECT_GE(Count(md, mark), n) << mark;
+  }
+  EXPECT_EQ(count("▲"), 0u);
+  EXPECT_EQ(count("▼"), 0u);
+  // Headings read as words with their units, never as raw column names.
+  for (const MetricColumn& column : MetricColumns()) {
+    EXPECT_EQ(html.find(std::string(">") + column.name + "<"), std::string::npos) << column.name;
+  }
+  EXPECT_NE(html.find("<th class=\"num\">max tilt (deg)</th>"), std::string::npos);
+  EXPECT_NE(html.find("<td>max tilt (deg)</td>"), std::string::npos);
   // The summary: one row per run, the fall shown with a symbol and a word.
   EXPECT_EQ(count("✘ fell"),
             static_cast<std::size_t>(std::count_if(

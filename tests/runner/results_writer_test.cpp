@@ -3,6 +3,7 @@
 #include <gtest/gtest.h>
 #include <unistd.h>
 
+#include <algorithm>
 #include <cmath>
 #include <filesystem>
 #include <fstream>
@@ -11,6 +12,8 @@
 #include <sstream>
 #include <string>
 #include <vector>
+
+#include "upright/runner/metric_columns.hpp"
 
 namespace upright::runner {
 namespace {
@@ -216,16 +219,16 @@ TEST_F(ResultsWriter, SummaryCsvHasOneRowPerRunWithExactCells) {
             "rms_tilt_deg,iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,"
             "saturation_pct,command_limit_pct,max_slip_ratio,slip_time_s,energy_J,end_time_s,"
             "message");
-  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,1,,2,0.125,1,2,1,10,0.5,1,10,2,4,0,0,0,0,20,5,survived");
+  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,true,,2,0.125,1,2,1,10,0.5,1,10,2,4,0,0,0,0,20,5,survived");
   // hinf seed 1: the unsettled drift and the inapplicable rebound are empty fields.
   EXPECT_EQ(lines[3],
-            "ramp,hinf,1,false,ok,1,,1.5,0.25,1,,,,0.5,1,15,2,5,6.25,0,0,0,25,5,survived");
-  // The fall: status, survived 0, fall time; the message quoted per RFC 4180 (comma, doubled
+            "ramp,hinf,1,false,ok,true,,1.5,0.25,1,,,,0.5,1,15,2,5,6.25,0,0,0,25,5,survived");
+  // The fall: status, survived false, fall time; the message quoted per RFC 4180 (comma, doubled
   // quotes, a line break inside the quotes), so this record spans two lines.
   EXPECT_EQ(lines[5] + "\n" + lines[6],
-            "ramp,pid,1,false,fell,0,3.25,45,0.75,,,1,10,10,1,30,2,12,37.5,0,0.5,0.25,30,3.25,"
+            "ramp,pid,1,false,fell,false,3.25,45,0.75,,,1,10,10,1,30,2,12,37.5,0,0.5,0.25,30,3.25,"
             "\"tilt 45.2 deg, \"\"hard\"\" fall\nat 3.25 s\"");
-  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,1,,3,0.5,1,2,,,0.5,1,8,2,4,0,0,0,0,16,5,survived");
+  EXPECT_EQ(lines[11], "shove,hinf,2,false,ok,true,,3,0.5,1,2,,,0.5,1,8,2,4,0,0,0,0,16,5,survived");
   EXPECT_EQ(lines.size(), 12u);  // header + 10 runs, one of them on two lines
 }
 
@@ -246,84 +249,109 @@ TEST_F(ResultsWriter, NumbersUseSixSignificantDigitsWithoutLocale) {
 
 TEST_F(ResultsWriter, SummaryMarkdownShowsMeansOverSeeds) {
   const std::string md = Read(WriteInto("a", MakeBatch()) / "summary.md");
-  EXPECT_NE(md.find("## ramp\n\nRobot: demo_bot · baseline: lqr · seeds: 1, 2\n"),
+  EXPECT_NE(md.find("## ramp\n\nRobot: demo_bot · baseline: lqr · seeds: 1, 2 · spread: min–max\n"),
             std::string::npos)
       << md;
-  EXPECT_NE(md.find("| controller | survived | max tilt (deg) | max drift (m) | tilt settle (s) | "
-                    "drift settle (s) | tilt rebound (%) | RMS tilt (deg) | effort (N²m²s) | "
-                    "peak current (A) | saturation (%) | max slip ratio | energy (J) |"),
+  EXPECT_NE(md.find("| figure | lqr (baseline) | hinf | pid |"), std::string::npos) << md;
+  // pid fell in seed 1: 1/2 survived.
+  EXPECT_NE(md.find("| survived | 2/2 | 2/2 | 1/2 |"), std::string::npos) << md;
+  // Means of the two seeds, 3 significant digits, with their min–max: tilt (2+4)/2, ...; hinf's
+  // two equal values have no spread to show.
+  EXPECT_NE(md.find("| max tilt (deg) | 3.00 (2.00–4.00) | 1.50 | 25.5 (6.00–45.0) |"),
             std::string::npos)
       << md;
-  // Means of the two seeds, 3 significant digits: tilt (2+4)/2, drift (0.125+0.375)/2, ...
-  EXPECT_NE(md.find("| lqr (baseline) | 2/2 | 3.00 | 0.250 | 1.50 | 2.50 | 10.0 | 0.625 | 12.0 | "
-                    "5.00 | 6.25 | 0 | 22.0 |"),
+  EXPECT_NE(md.find("| max drift (m) | 0.250 (0.125–0.375) | 0.250 | 0.625 (0.500–0.750) |"),
             std::string::npos)
       << md;
-  // hinf's drift settled in one seed of two: that seed's time with the "*" marker; the rebound
-  // never applied: "—".
-  EXPECT_NE(md.find("| hinf | 2/2 | 1.50 | 0.250 | 1.00 | 4.00* | — | 0.500 | 15.0 | 5.01 | 6.25 | "
-                    "0 | 25.0 |"),
+  // hinf's drift settled in one seed of two, pid's in the seed it did not fall: that seed's time,
+  // marked as the mean of 1 of 2 runs.
+  EXPECT_NE(md.find("| drift settle (s) | 2.50 (2.00–3.00) | 4.00 [1 of 2] | 3.00 [1 of 2] |"),
             std::string::npos)
       << md;
-  // pid fell in seed 1: 1/2 survived; its settling times are those of seed 2 alone, marked.
-  EXPECT_NE(md.find("| pid | 1/2 | 25.5 | 0.625 | 3.00* | 3.00* | 10.0 | 5.50 | 25.0 | 10.0 | "
-                    "25.0 | 0.500 | 28.0 |"),
+  EXPECT_NE(
+      md.find("| peak current (A) | 5.00 (4.00–6.00) | 5.01 (5.00–5.02) | 10.0 (8.00–12.0) |"),
+      std::string::npos)
+      << md;
+  EXPECT_NE(md.find("| energy (J) | 22.0 (20.0–24.0) | 25.0 | 28.0 (26.0–30.0) |"),
             std::string::npos)
       << md;
   EXPECT_NE(md.find("— : no run gave a value"), std::string::npos);
-  EXPECT_NE(md.find("* : mean over the runs that settled"), std::string::npos);
+  EXPECT_NE(md.find("[k of n]: the mean of the k runs with a value"), std::string::npos);
+}
+
+// The compare.csv cell of `column` for (scenario, controller, metric); "?" when there is no such
+// record or column.
+std::string CompareCell(const std::string& csv, const std::string& scenario,
+                        const std::string& controller, const std::string& metric,
+                        const std::string& column) {
+  const std::vector<std::string> header = Cells(Lines(csv)[0]);
+  const auto at = std::find(header.begin(), header.end(), column);
+  const std::string record = CompareRecord(csv, scenario, controller, metric);
+  if (at == header.end() || record.empty()) return "?";
+  const std::vector<std::string> cells = Cells(record);
+  const auto index = static_cast<std::size_t>(at - header.begin());
+  return index < cells.size() ? cells[index] : "?";
 }
 
 TEST_F(ResultsWriter, ComparePercentagesAndVerdictsAgainstBaseline) {
   const std::string csv = Read(WriteInto("a", MakeBatch()) / "compare.csv");
   EXPECT_EQ(Lines(csv)[0],
-            "scenario,baseline,controller,metric,better_when,baseline_mean,controller_mean,"
-            "diff_pct,verdict");
-  // Worked by hand from the means: (c − b) / |b| · 100.
+            "scenario,baseline,controller,metric,better_when,floor,baseline_n,baseline_skipped,"
+            "baseline_mean,baseline_min,baseline_max,baseline_sd,controller_n,controller_skipped,"
+            "controller_mean,controller_min,controller_max,controller_sd,diff_abs,diff_pct,test,"
+            "pairs,mean_diff,t,p_value,direction,verdict");
+  const auto cells = [&](const std::string& scenario, const std::string& controller,
+                         const std::string& metric) {
+    std::string text;
+    for (const char* column : {"baseline_mean", "controller_mean", "diff_abs", "diff_pct", "pairs",
+                               "direction", "verdict"}) {
+      text += (text.empty() ? "" : ",") + CompareCell(csv, scenario, controller, metric, column);
+    }
+    return text;
+  };
+  // Worked by hand from the means: (c − b) / |b| · 100. Two seeds give two pairs, too few for
+  // the paired test: every verdict is indicative, the direction a hint.
   // (1.5 − 3) / 3 = −50 %: lower tilt is better.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "max_tilt_deg"),
-            "ramp,lqr,hinf,max_tilt_deg,lower,3,1.5,-50,better");
+  EXPECT_EQ(cells("ramp", "hinf", "max_tilt_deg"), "3,1.5,-1.5,-50,2,better,indicative");
   // (1 − 1.5) / 1.5 = −33.333 %.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "tilt_settle_s"),
-            "ramp,lqr,hinf,tilt_settle_s,lower,1.5,1,-33.3333,better");
-  // Mean over the settled seed only: (4 − 2.5) / 2.5 = +60 %.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "drift_settle_s"),
-            "ramp,lqr,hinf,drift_settle_s,lower,2.5,4,60,worse");
+  EXPECT_EQ(cells("ramp", "hinf", "tilt_settle_s"), "1.5,1,-0.5,-33.3333,2,better,indicative");
+  // Mean over the settled seed only: (4 − 2.5) / 2.5 = +60 %, one pair.
+  EXPECT_EQ(cells("ramp", "hinf", "drift_settle_s"), "2.5,4,1.5,60,1,worse,indicative");
+  EXPECT_EQ(CompareCell(csv, "ramp", "hinf", "drift_settle_s", "controller_skipped"), "1");
   // (25 − 22) / 22 = +13.636 %.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "energy_J"),
-            "ramp,lqr,hinf,energy_J,lower,22,25,13.6364,worse");
-  // (5.01 − 5) / 5 = +0.2 %: inside the 0.5 % band, so the same.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "peak_current_A"),
-            "ramp,lqr,hinf,peak_current_A,lower,5,5.01,0.2,same");
+  EXPECT_EQ(cells("ramp", "hinf", "energy_J"), "22,25,3,13.6364,2,worse,indicative");
+  // (5.01 − 5) / 5 = +0.2 %: inside the 0.5 % band, so the same way.
+  EXPECT_EQ(cells("ramp", "hinf", "peak_current_A"), "5,5.01,0.01,0.2,2,same,indicative");
   // Exactly equal means.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "max_drift_m"),
-            "ramp,lqr,hinf,max_drift_m,lower,0.25,0.25,0,same");
-  // Missing controller mean, and a zero baseline: n/a with no percentage.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "hinf", "tilt_rebound_pct"),
-            "ramp,lqr,hinf,tilt_rebound_pct,lower,10,,,n/a");
-  EXPECT_EQ(CompareRecord(csv, "ramp", "pid", "max_slip_ratio"),
-            "ramp,lqr,pid,max_slip_ratio,lower,0,0.5,,n/a");
-  // Survival is better when higher: (0.5 − 1) / 1 = −50 %.
-  EXPECT_EQ(CompareRecord(csv, "ramp", "pid", "survival_rate"),
-            "ramp,lqr,pid,survival_rate,higher,1,0.5,-50,worse");
+  EXPECT_EQ(cells("ramp", "hinf", "max_drift_m"), "0.25,0.25,0,0,2,same,indicative");
+  // A zero baseline is below the slip ratio's floor (0.01): the difference is absolute.
+  EXPECT_EQ(cells("ramp", "pid", "max_slip_ratio"), "0,0.5,0.5,,2,worse,indicative");
+  // Survival is better when higher, compared as a difference of rates: 0.5 − 1.
+  EXPECT_EQ(cells("ramp", "pid", "survival_rate"), "1,0.5,-0.5,,2,worse,indicative");
   // (3 − 2) / 2 = +50 % in the other scenario.
-  EXPECT_EQ(CompareRecord(csv, "shove", "hinf", "max_tilt_deg"),
-            "shove,lqr,hinf,max_tilt_deg,lower,2,3,50,worse");
+  EXPECT_EQ(cells("shove", "hinf", "max_tilt_deg"), "2,3,1,50,2,worse,indicative");
   // The baseline is not compared with itself, and pid did not run in shove.
   EXPECT_EQ(CompareRecord(csv, "ramp", "lqr", "max_tilt_deg"), "");
   EXPECT_EQ(CompareRecord(csv, "shove", "pid", "max_tilt_deg"), "");
-  // 2 comparisons in ramp + 1 in shove, each survival + 16 figures, + header.
-  EXPECT_EQ(Lines(csv).size(), 3u * 17u + 1u);
+  // 2 comparisons in ramp + 1 in shove, each survival + every judged figure, + header.
+  std::size_t judged = 0;
+  for (const MetricColumn& column : MetricColumns()) judged += column.compared ? 1 : 0;
+  EXPECT_EQ(Lines(csv).size(), 3u * (1 + judged) + 1u);
 
   const std::string md = Read(WriteInto("b", MakeBatch()) / "compare.md");
-  EXPECT_NE(md.find("| metric | lqr (baseline) | hinf | pid |"), std::string::npos) << md;
-  EXPECT_NE(md.find("| max tilt (deg) | 3.00 | 1.50 (-50.0 %) ✔ better | 25.5 (+750 %) ✘ worse |"),
+  EXPECT_NE(md.find("### hinf against lqr\n\n| figure | lqr (baseline) | hinf | difference | "
+                    "paired test | verdict |"),
             std::string::npos)
       << md;
-  EXPECT_NE(md.find("| survival (%) | 100 | 100 (0 %) ≈ same | 50.0 (-50.0 %) ✘ worse |"),
+  EXPECT_NE(md.find("| max tilt (deg) | 3.00 (2.00–4.00) | 1.50 | -50.0 % | 2 pairs, too few | "
+                    "? better (hint) |"),
             std::string::npos)
       << md;
-  EXPECT_NE(md.find("| tilt rebound (% of peak) | 10.0 | — n/a | 10.0 (0 %) ≈ same |"),
+  EXPECT_NE(md.find("| survival (%) | 100 | 50.0 | -50.0 pp | 2 pairs, too few | ? worse (hint) |"),
+            std::string::npos)
+      << md;
+  EXPECT_NE(md.find("| max slip ratio | 0 | 0.500 | +0.500 (abs.) | 2 pairs, too few | "
+                    "? worse (hint) |"),
             std::string::npos)
       << md;
 }
@@ -388,15 +416,15 @@ TEST_F(ResultsWriter, RankingOrderAndScoresWorkedByHand) {
   const std::vector<std::string> lines = Lines(Read(WriteInto("a", MakeBatch()) / "ranking.csv"));
   ASSERT_EQ(lines.size(), 4u);
   EXPECT_EQ(lines[0],
-            "rank,controller,survival_rate,survived,runs,score,scenarios_scored,"
-            "rank_ramp,rank_shove");
+            "rank,controller,survival_rate,survived,runs,score,scenarios_scored,partial,"
+            "values_skipped,rank_ramp,rank_shove");
   // Both survive everything: hinf's lower score first. pid fell once: last, whatever its score;
-  // it did not run in shove, so has no rank there and is scored on ramp alone.
+  // it did not run in shove, so has no rank there, is scored on ramp alone and is partial.
   const std::vector<std::string> hinf_row = Cells(lines[1]);
   const std::vector<std::string> lqr_row = Cells(lines[2]);
   const std::vector<std::string> pid_row = Cells(lines[3]);
-  ASSERT_EQ(hinf_row.size(), 9u);
-  ASSERT_EQ(pid_row.size(), 9u);
+  ASSERT_EQ(hinf_row.size(), 11u);
+  ASSERT_EQ(pid_row.size(), 11u);
   EXPECT_EQ(hinf_row[1], "hinf");
   EXPECT_EQ(lqr_row[1], "lqr");
   EXPECT_EQ(pid_row[1], "pid");
@@ -407,12 +435,16 @@ TEST_F(ResultsWriter, RankingOrderAndScoresWorkedByHand) {
   EXPECT_NEAR(std::stod(lqr_row[5]), lqr, 1e-5 * lqr);
   EXPECT_NEAR(std::stod(pid_row[5]), pid_ramp, 1e-5 * pid_ramp);
   // Per-scenario ranks: ramp hinf, lqr, pid; shove lqr, hinf.
-  EXPECT_EQ(hinf_row[6] + " " + hinf_row[7] + " " + hinf_row[8], "2 1 2");
-  EXPECT_EQ(lqr_row[6] + " " + lqr_row[7] + " " + lqr_row[8], "2 2 1");
-  EXPECT_EQ(pid_row[6] + " " + pid_row[7] + " [" + pid_row[8] + "]", "1 3 []");
+  EXPECT_EQ(hinf_row[6] + " " + hinf_row[7] + " " + hinf_row[9] + " " + hinf_row[10],
+            "2 false 1 2");
+  EXPECT_EQ(lqr_row[6] + " " + lqr_row[7] + " " + lqr_row[9] + " " + lqr_row[10], "2 false 2 1");
+  EXPECT_EQ(pid_row[6] + " " + pid_row[7] + " " + pid_row[9] + " [" + pid_row[10] + "]",
+            "1 true 3 []");
 
   const std::string md = Read(WriteInto("b", MakeBatch()) / "ranking.md");
-  EXPECT_NE(md.find("| rank | controller | survived | score | ramp | shove |"), std::string::npos);
+  EXPECT_NE(md.find("| rank | controller | survived | score | scenarios scored | values skipped | "
+                    "ramp | shove |"),
+            std::string::npos);
   EXPECT_NE(md.find("| 3 | pid | 1/2 |"), std::string::npos) << md;
   EXPECT_NE(md.find(" | 3 | — |\n"), std::string::npos) << md;
   EXPECT_NE(md.find("max tilt 2, max drift 1, tilt settle 1, RMS tilt 1, drift settle 0.5"),
@@ -461,12 +493,12 @@ TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {
   batch.runs.push_back(failed);
   const fs::path dir = WriteInto("a", batch);
   const std::string md = Read(dir / "summary.md");
-  EXPECT_NE(md.find("| a (baseline) | 1/2 | 2.00 | 0.250 | 1.00 | 1.00 | 10.0 | 0.500 | 10.0 | "
-                    "4.00 | 0 | 0 | 20.0 |"),
-            std::string::npos)
-      << md;
-  EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2],
-            "s,a,2,true,setup_failed,0,,,,,,,,,,,,,,,,,,,module not found");
+  EXPECT_NE(md.find("| survived | 1/2 (1 not played) |"), std::string::npos) << md;
+  EXPECT_NE(md.find("| max tilt (deg) | 2.00 [1 of 2] |"), std::string::npos) << md;
+  // Every figure of the run that was not played is empty.
+  EXPECT_EQ(Lines(Read(dir / "summary.csv"))[2], "s,a,2,true,setup_failed,false," +
+                                                     std::string(MetricColumns().size(), ',') +
+                                                     "module not found");
   EXPECT_EQ(Lines(Read(dir / "ranking.csv"))[1].substr(0, 14), "1,a,0.5,1,2,1,");
 }
 

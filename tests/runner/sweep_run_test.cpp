@@ -2,11 +2,13 @@
 // same whatever N, survival counts that agree with the rows, and a module that will not load.
 #include <gtest/gtest.h>
 
+#include <limits>
 #include <sstream>
 #include <string>
 #include <vector>
 
 #include "run_test_support.hpp"
+#include "upright/runner/metric_columns.hpp"
 #include "upright/runner/sweep.hpp"
 #include "upright/runner/sweep_writer.hpp"
 
@@ -123,9 +125,9 @@ TEST_F(SweepRun, CountsAgreeWithTheRows) {
     EXPECT_EQ(f[2], std::to_string(sample + 1));                 // noise seed
     EXPECT_EQ(std::stod(f[3]), four.samples[sample].values[0]);  // exact: shortest round trip
     EXPECT_EQ(std::stod(f[4]), four.samples[sample].values[1]);
-    EXPECT_EQ(f[7], f[6] == "ok" ? "1" : "0");
-    survived[c] += f[7] == "1";
-    (c == 0 ? lqr_ok : pid_ok).push_back(f[7] == "1");
+    EXPECT_EQ(f[7], f[6] == "ok" ? "true" : "false");
+    survived[c] += f[7] == "true";
+    (c == 0 ? lqr_ok : pid_ok).push_back(f[7] == "true");
   }
   EXPECT_EQ(CountSurvived(four, 0), survived[0]);
   EXPECT_EQ(CountSurvived(four, 1), survived[1]);
@@ -169,6 +171,37 @@ TEST_F(SweepRun, AModuleThatWillNotLoadStopsTheSweep) {
   EXPECT_NE(result.module_error.find("controller 'pid': "), std::string::npos)
       << result.module_error;
   EXPECT_TRUE(result.runs.empty());
+}
+
+// A sample that could not be drawn leaves runs that were never played: sweep.csv prints their
+// status and message, survived false, and every figure empty whatever the metrics hold.
+TEST(SweepCsv, RunsNotPlayedHaveEmptyFigures) {
+  SweepResult result;
+  result.scenario.name = "s";
+  result.scenario.controllers = {"lqr"};
+  result.scenario.baseline = "lqr";
+  Dispersion spread;
+  spread.param = "robot/chassis.mass_kg";
+  result.dispersions = {spread};
+  SweepSample sample;
+  sample.noise_seed = 1;
+  sample.values = {std::numeric_limits<double>::quiet_NaN()};
+  sample.redraws = {100};
+  sample.error = "no draw accepted";
+  result.samples = {sample};
+  RunResult run;
+  run.scenario = "s";
+  run.controller = "lqr";
+  run.seed = 1;
+  run.metrics.status = RunStatus::kSetupFailed;
+  run.metrics.message = "no draw accepted";
+  run.metrics.max_tilt_deg = 5;  // not a figure of a run that never ran
+  run.metrics.energy_J = 2;
+  result.runs = {run};
+  const std::vector<std::string> rows = Lines(SweepCsv(result));
+  ASSERT_EQ(rows.size(), 2u);
+  EXPECT_EQ(rows[1], "0,lqr,1,,setup_failed,false," + std::string(MetricColumns().size(), ',') +
+                         "no draw accepted");
 }
 
 }  // namespace

@@ -1,5 +1,5 @@
-// Sweep statistics: the Wilson score interval against published values and the closed form, the
-// percentile against NumPy, and the exact McNemar p-value against SciPy.
+// Sweep statistics: the Wilson score interval against published values and the closed form, and
+// the percentile against NumPy (the exact McNemar test is checked in paired_tests_test.cpp).
 #include "upright/runner/sweep_statistics.hpp"
 
 #include <gtest/gtest.h>
@@ -110,34 +110,6 @@ TEST(Percentile, InfinityTakesPartOnlyAtTheTop) {
   EXPECT_EQ(Percentile(values, 90), kInf);  // between 4 and infinity
   const std::vector<double> unsettled = {kInf, kInf};
   EXPECT_EQ(Percentile(unsettled, 50), kInf);
-}
-
-// SciPy's exact binomial test, which for p = 1/2 is the exact McNemar test:
-//   /usr/bin/python3 -c "from scipy.stats import binomtest
-//   for b,c in [(3,0),(0,6),(2,8),(5,5),(1,20),(40,60),(7,3)]:
-//     print(b, c, binomtest(min(b,c), b+c, 0.5).pvalue)"
-TEST(McNemarExactP, MatchesScipysBinomialTest) {
-  struct Case {
-    std::size_t b, c;
-    double p;
-  };
-  for (const Case& k : {Case{3, 0, 0.25}, Case{0, 6, 0.03125}, Case{2, 8, 0.109375},
-                        Case{5, 5, 1.0}, Case{1, 20, 2.09808349609375e-05},
-                        Case{40, 60, 0.05688793364098088}, Case{7, 3, 0.34375}}) {
-    PairedCounts counts;
-    counts.both = 11;  // concordant pairs do not enter the test
-    counts.neither = 4;
-    counts.only_baseline = k.b;
-    counts.only_other = k.c;
-    EXPECT_NEAR(McNemarExactP(counts), k.p, 1e-12 + 1e-9 * k.p) << k.b << " vs " << k.c;
-  }
-}
-
-TEST(McNemarExactP, IsOneWithoutDiscordantPairs) {
-  PairedCounts counts;
-  counts.both = 7;
-  counts.neither = 3;
-  EXPECT_EQ(McNemarExactP(counts), 1.0);
 }
 
 }  // namespace

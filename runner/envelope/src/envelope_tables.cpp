@@ -123,7 +123,7 @@ std::string EnvelopeCsv(const EnvelopeResult& result) {
       "scenario,controller,baseline,parameter,unit,lo,hi,tol,direction,survived_value,"
       "first_failing_value,probes,seeds,outcome,message\n";
   for (const ControllerEnvelope& e : result.controllers) {
-    AppendRow(&csv, {result.scenario.name, e.controller, e.baseline ? "1" : "0", plan.axis.path,
+    AppendRow(&csv, {result.scenario.name, e.controller, CsvBool(e.baseline), plan.axis.path,
                      plan.axis.unit, ExactNumber(plan.axis.lo), ExactNumber(plan.axis.hi),
                      ExactNumber(plan.tol), ToString(e.bisect.direction),
                      ExactNumber(e.bisect.survived_value),
@@ -142,7 +142,7 @@ std::string EnvelopeMapCsv(const EnvelopeResult& result) {
     for (const MapPoint& p : map.points) {
       AppendRow(&csv,
                 {result.scenario.name, map.controller, plan.axis.path, ExactNumber(p.value),
-                 plan.axis2->path, ExactNumber(p.value2), p.survived() ? "1" : "0",
+                 plan.axis2->path, ExactNumber(p.value2), CsvBool(p.survived()),
                  p.setup_failed ? "" : std::to_string(p.seeds_survived), std::to_string(p.seeds)});
     }
   }

@@ -103,7 +103,7 @@ bool AppendMaps(const std::string& path, const std::string& scenario_name,
       MapOutcome outcome = MapOutcome::kNone;
       if (row[c[6]].empty()) {
         outcome = MapOutcome::kNotRun;
-      } else if (row[c[5]] == "1") {
+      } else if (row[c[5]] == "true") {
         outcome = MapOutcome::kAll;
       } else if (CsvNumber(row[c[6]]) > 0) {
         outcome = MapOutcome::kSome;

@@ -13,8 +13,11 @@
 #include "sections.hpp"
 #include "trace_reader.hpp"
 #include "upright/runner/csv_reader.hpp"
+#include "upright/runner/metric_columns.hpp"
+#include "upright/runner/metric_floors.hpp"
 #include "upright/runner/results_writer.hpp"
 #include "upright/runner/run_metrics.hpp"
+#include "upright/runner/verdict.hpp"
 
 namespace upright::runner::report {
 namespace {
@@ -51,6 +54,16 @@ bool IsStatusWord(const std::string& label) {
 std::string Words(std::string text) {
   std::replace(text.begin(), text.end(), '_', ' ');
   return text;
+}
+
+// A column or metric name as a heading: the catalogue's label with its unit ("max tilt (deg)"),
+// survival as "survival (%)", any other name with spaces for underscores.
+std::string Heading(const std::string& name) {
+  for (const MetricColumn& column : MetricColumns()) {
+    if (name == column.name) return column.label;
+  }
+  if (name == "survival_rate") return "survival (%)";
+  return Words(name);
 }
 
 // One row of summary.csv, by name.
@@ -247,7 +260,9 @@ void AppendSummaryTable(const CsvTable& summary, const ScenarioRuns& scenario, s
     header.push_back(name);
     numeric.push_back(name != "controller" && name != "status" && name != "message");
   }
-  HtmlTable table(header, numeric);
+  std::vector<std::string> headings;
+  for (const std::string& name : header) headings.push_back(Heading(name));
+  HtmlTable table(headings, numeric);
   for (const RunRow* row : scenario.rows) {
     std::vector<HtmlCell> cells;
     for (std::size_t k = 0; k < shown.size(); ++k) {
@@ -268,13 +283,28 @@ void AppendSummaryTable(const CsvTable& summary, const ScenarioRuns& scenario, s
   *html += table.Html("Summary: every run (summary.csv); – : does not apply");
 }
 
+// A compare.csv difference for display: "-50 %", "+0.42 A (abs.)" below the floor, "-50 pp" for
+// survival; "" when there is none.
+std::string DifferenceText(const std::string& metric, const std::string& better_when,
+                           double diff_abs, double diff_pct) {
+  const auto sign = [](double v) { return std::string(v > 0 ? "+" : ""); };
+  if (better_when == "higher" && std::isfinite(diff_abs)) {
+    return sign(diff_abs) + FormatSignificant(diff_abs * 100, 3) + " pp";
+  }
+  if (std::isfinite(diff_pct)) return sign(diff_pct) + FormatSignificant(diff_pct, 3) + " %";
+  if (!std::isfinite(diff_abs)) return "";
+  const std::string unit = FloorOf(metric).unit;
+  return sign(diff_abs) + FormatSignificant(diff_abs, 3) + (unit.empty() ? "" : " " + unit) +
+         " (abs.)";
+}
+
 // compare.csv of one scenario as metric rows × controller columns.
 bool AppendCompareTable(const CsvTable& compare, const std::string& path,
                         const ScenarioRuns& scenario, std::string* html, std::string* error) {
   std::vector<int> c;
   if (!Columns(compare, path,
                {"scenario", "baseline", "controller", "metric", "better_when", "baseline_mean",
-                "controller_mean", "diff_pct", "verdict"},
+                "controller_mean", "diff_abs", "diff_pct", "direction", "verdict"},
                &c, error)) {
     return false;
   }
@@ -297,7 +327,7 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
     cell[{metric, controller}] = &row;
   }
   if (metrics.empty()) return true;
-  std::vector<std::string> header = {"metric", "better when", baseline + " (baseline)"};
+  std::vector<std::string> header = {"figure", "better when", baseline + " (baseline)"};
   std::vector<bool> numeric = {false, false, true};
   for (const auto& name : controllers) {
     header.push_back(name);
@@ -306,8 +336,16 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
   HtmlTable table(header, numeric);
   for (const std::string& metric : metrics) {
     const auto& first = *by_metric[metric];
+    // Survival shows as a percentage of runs, as in compare.md.
+    const bool survival = first[c[4]] == "higher";
+    const auto mean_cell = [&](const std::string& text) {
+      const double value = CsvNumber(text);
+      return survival && std::isfinite(value)
+                 ? HtmlCell{FormatSignificant(value * 100, 3), true, ""}
+                 : NumberCell(text);
+    };
     std::vector<HtmlCell> cells = {
-        {metric, false, ""}, {first[c[4]], false, ""}, NumberCell(first[c[5]])};
+        {Heading(metric), false, ""}, {first[c[4]], false, ""}, mean_cell(first[c[5]])};
     for (const std::string& controller : controllers) {
       const auto found = cell.find({metric, controller});
       if (found == cell.end()) {
@@ -315,33 +353,27 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
         continue;
       }
       const auto& row = *found->second;
-      const HtmlCell mean = NumberCell(row[c[6]]);
-      std::string text = mean.text;
-      const double diff = CsvNumber(row[c[7]]);
-      if (std::isfinite(diff)) {
-        text += " (" + std::string(diff > 0 ? "+" : "") + FormatSignificant(diff, 3) + " %)";
-      }
-      const std::string& verdict = row[c[8]];
-      std::string css;
-      if (verdict == "better") {
-        text += " ▲ better";
-        css = "better";
-      } else if (verdict == "worse") {
-        text += " ▼ worse";
-        css = "worse";
-      } else if (verdict == "same") {
-        text += " ≈ same";
-      } else {
-        text += " " + verdict;
-        css = "na";
-      }
+      std::string text = mean_cell(row[c[6]]).text;
+      const std::string diff =
+          DifferenceText(metric, row[c[4]], CsvNumber(row[c[7]]), CsvNumber(row[c[8]]));
+      if (!diff.empty()) text += " (" + diff + ")";
+      Verdict verdict = Verdict::kNotApplicable, direction = Verdict::kNotApplicable;
+      FromString(row[c[10]], &verdict);
+      FromString(row[c[9]], &direction);
+      text += " " + VerdictMark(verdict, direction);
+      std::string css = "na";
+      if (verdict == Verdict::kBetter) css = "better";
+      if (verdict == Verdict::kWorse) css = "worse";
+      if (verdict == Verdict::kSame || verdict == Verdict::kIndicative) css = "";
       cells.push_back({text, true, css});
     }
     table.AddRow(std::move(cells));
   }
   *html += table.Html(
-      "Against the baseline (compare.csv): mean over seeds, difference in % of "
-      "the baseline; ▲ better, ▼ worse, ≈ same within 0.5 %");
+      "Against the baseline (compare.csv; compare.md gives the spreads and the paired tests): "
+      "mean over seeds, difference in % of the baseline (in the figure's unit below its floor, "
+      "\"abs.\"; survival in percentage points, pp). " +
+      VerdictLegend() + ".");
   return true;
 }
 
@@ -384,8 +416,12 @@ void AppendRanking(const CsvTable& ranking, std::string* html) {
   std::vector<std::string> header;
   std::vector<bool> numeric;
   for (const std::string& name : ranking.header) {
-    header.push_back(name.rfind("rank_", 0) == 0 ? name.substr(5) : name);
-    numeric.push_back(name != "controller");
+    if (name.rfind("rank_", 0) == 0) {
+      header.push_back("rank in " + name.substr(5));
+    } else {
+      header.push_back(name == "survival_rate" ? "survival rate (0–1)" : Words(name));
+    }
+    numeric.push_back(name != "controller" && name != "partial");
   }
   HtmlTable table(header, numeric);
   for (const auto& row : ranking.rows) {
@@ -397,8 +433,9 @@ void AppendRanking(const CsvTable& ranking, std::string* html) {
   }
   *html += table.Html(
       "Ranking across scenarios (ranking.csv): survival rate first, then the "
-      "weighted score (lower is better); one column per scenario with the rank "
-      "there");
+      "weighted score (lower is better); a partial controller, scored on fewer scenarios than "
+      "another, is ranked apart after the others (ranking.md states the rule); one column per "
+      "scenario with the rank there");
 }
 
 bool ReadOptional(const std::string& path, CsvTable* table, bool* present, std::string* error) {

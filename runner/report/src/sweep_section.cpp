@@ -34,7 +34,7 @@ bool AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifes
       it = bars.end() - 1;
     }
     ++it->runs;
-    it->survived += row[survived] == "1";
+    it->survived += row[survived] == "true";
   }
   for (RateBar& bar : bars) {
     const Interval interval = WilsonInterval(bar.survived, bar.runs);

@@ -27,7 +27,7 @@ std::string SweepCsv(const SweepResult& result) {
         csv += ',';
         internal::AppendExactNumber(&csv, value);
       }
-      AppendOutcomeCells(&csv, run.metrics);
+      AppendOutcomeCells(&csv, run);
       csv += '\n';
     }
   }

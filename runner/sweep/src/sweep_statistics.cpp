@@ -1,4 +1,4 @@
-// Wilson score interval, linear-interpolation percentiles and the exact McNemar test.
+// Wilson score interval and linear-interpolation percentiles.
 #include "upright/runner/sweep_statistics.hpp"
 
 #include <algorithm>
@@ -33,22 +33,6 @@ double Percentile(std::span<const double> values, double percent) {
   if (fraction == 0 || i + 1 >= x.size()) return x[i];
   if (std::isinf(x[i + 1])) return x[i + 1];
   return x[i] + fraction * (x[i + 1] - x[i]);
-}
-
-double McNemarExactP(const PairedCounts& counts) {
-  const std::size_t n = counts.only_baseline + counts.only_other;
-  if (n == 0) return 1;
-  const std::size_t k = std::min(counts.only_baseline, counts.only_other);
-  // P[X <= k] for X ~ Binomial(n, 1/2), term by term in logarithms (n may be large).
-  const double log_half_n = static_cast<double>(n) * std::log(0.5);
-  const double log_n_fact = std::lgamma(static_cast<double>(n) + 1);
-  double tail = 0;
-  for (std::size_t j = 0; j <= k; ++j) {
-    const double log_choose = log_n_fact - std::lgamma(static_cast<double>(j) + 1) -
-                              std::lgamma(static_cast<double>(n - j) + 1);
-    tail += std::exp(log_choose + log_half_n);
-  }
-  return std::min(1.0, 2 * tail);
 }
 
 }  // namespace upright::runner

@@ -6,22 +6,30 @@
 
 namespace upright::runner::internal {
 
-bool WasPlayed(const RunResult& run) {
-  return run.metrics.status != RunStatus::kNotRun && run.metrics.status != RunStatus::kSetupFailed;
-}
-
-double MeanOver(const std::vector<const RunResult*>& runs, double RunMetrics::*field, int* count) {
+FigureStats StatsOver(const std::vector<const RunResult*>& runs, double RunMetrics::*field) {
+  FigureStats stats;
+  stats.runs = static_cast<int>(runs.size());
   double sum = 0;
-  int n = 0;
   for (const RunResult* run : runs) {
     if (!WasPlayed(*run)) continue;
     const double value = run->metrics.*field;
     if (std::isnan(value)) continue;
     sum += value;
-    ++n;
+    if (stats.values == 0 || value < stats.min) stats.min = value;
+    if (stats.values == 0 || value > stats.max) stats.max = value;
+    ++stats.values;
   }
-  if (count != nullptr) *count = n;
-  return n > 0 ? sum / n : std::numeric_limits<double>::quiet_NaN();
+  if (stats.values == 0) return stats;
+  stats.mean = sum / stats.values;
+  if (stats.values < 2) return stats;
+  double squares = 0;
+  for (const RunResult* run : runs) {
+    const double value = run->metrics.*field;
+    if (!WasPlayed(*run) || std::isnan(value)) continue;
+    squares += (value - stats.mean) * (value - stats.mean);
+  }
+  stats.sd = std::sqrt(squares / (stats.values - 1));
+  return stats;
 }
 
 double ControllerGroup::SurvivalRate() const {
@@ -34,6 +42,23 @@ const ControllerGroup* ScenarioGroup::Baseline() const {
     if (controller.baseline) return &controller;
   }
   return nullptr;
+}
+
+std::vector<SeedPair> PairBySeed(const ScenarioGroup& scenario, const ControllerGroup& baseline,
+                                 const ControllerGroup& other) {
+  const auto run_of = [](const ControllerGroup& group, std::uint64_t seed) -> const RunResult* {
+    for (const RunResult* run : group.runs) {
+      if (run->seed == seed) return run;
+    }
+    return nullptr;
+  };
+  std::vector<SeedPair> pairs;
+  for (const std::uint64_t seed : scenario.seeds) {
+    const RunResult* b = run_of(baseline, seed);
+    const RunResult* o = run_of(other, seed);
+    if (b != nullptr && o != nullptr) pairs.push_back({seed, b, o});
+  }
+  return pairs;
 }
 
 std::vector<ScenarioGroup> GroupBatch(const BatchResult& batch) {

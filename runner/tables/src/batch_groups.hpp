@@ -1,23 +1,32 @@
-// A batch's runs gathered by scenario and controller, with each group's survival count and the
-// mean of every figure over its seeds: what summary.md, the comparison and the ranking read.
+// A batch's runs gathered by scenario and controller, with each group's survival count, every
+// figure's mean and spread over its seeds, and two controllers' runs paired by seed: what
+// summary.md, the comparison and the ranking read.
 // Groups keep the batch's order (scenarios, then controllers, as they first appear in the runs).
 #pragma once
 
+#include <cstdint>
+#include <limits>
 #include <string>
 #include <vector>
 
+#include "upright/runner/played_run.hpp"
 #include "upright/runner/run_result.hpp"
 
 namespace upright::runner::internal {
 
-// True for a run that was played (it may have fallen or faulted); false for one not run or whose
-// set-up failed, whose figures are only defaults. Means are taken over played runs only.
-bool WasPlayed(const RunResult& run);
+// One figure over a controller's runs: the played runs where it is not NaN, in `runs` order.
+struct FigureStats {
+  int runs = 0;    // runs of the group, played or not
+  int values = 0;  // of them, played runs with a value: the others are skipped
+  double mean = std::numeric_limits<double>::quiet_NaN();  // NaN without values
+  double min = std::numeric_limits<double>::quiet_NaN();
+  double max = std::numeric_limits<double>::quiet_NaN();
+  // Sample standard deviation (n − 1 denominator); NaN with fewer than 2 values.
+  double sd = std::numeric_limits<double>::quiet_NaN();
+};
 
-// The mean of `field` over the played runs where it is not NaN, summed in `runs` order; NaN
-// when there is none. *count (when given) receives how many values went into it.
-double MeanOver(const std::vector<const RunResult*>& runs, double RunMetrics::*field,
-                int* count = nullptr);
+// `field` over the played runs (WasPlayed) of `runs`, summed in `runs` order.
+FigureStats StatsOver(const std::vector<const RunResult*>& runs, double RunMetrics::*field);
 
 struct ControllerGroup {
   std::string name;
@@ -40,6 +49,18 @@ struct ScenarioGroup {
   // The baseline controller's group, or null when no run is marked baseline.
   const ControllerGroup* Baseline() const;
 };
+
+// Two controllers' runs of one scenario paired by seed: the seeds both ran, in the scenario's seed
+// order, with each side's run (never null).
+struct SeedPair {
+  std::uint64_t seed = 0;
+  const RunResult* baseline = nullptr;
+  const RunResult* other = nullptr;
+};
+
+// The runs of `baseline` and `other` (groups of `scenario`) that share a seed.
+std::vector<SeedPair> PairBySeed(const ScenarioGroup& scenario, const ControllerGroup& baseline,
+                                 const ControllerGroup& other);
 
 // The batch's runs by scenario and controller. Pointers refer into `batch`, which must outlive
 // the result.

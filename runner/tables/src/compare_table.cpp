@@ -1,101 +1,194 @@
 #include "compare_table.hpp"
 
 #include <cmath>
-#include <limits>
 
+#include "spread_text.hpp"
 #include "upright/runner/metric_columns.hpp"
+#include "upright/runner/paired_tests.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {
 
-// compare.md's verdict text: a word with a symbol, so it reads without colour.
-const char* VerdictText(Verdict verdict) {
-  switch (verdict) {
-    case Verdict::kBetter:
-      return "✔ better";
-    case Verdict::kWorse:
-      return "✘ worse";
-    case Verdict::kSame:
-      return "≈ same";
-    case Verdict::kNotApplicable:
-      break;
-  }
-  return "n/a";
+// Whether difference `d` counts: at least kSameWithinPct of |baseline_mean| when that reaches the
+// floor, at least the floor itself below it; never a zero difference.
+bool Counts(double d, double baseline_mean, const MetricFloor& floor) {
+  if (!(d != 0) || std::isnan(baseline_mean)) return false;
+  const double base = std::fabs(baseline_mean);
+  if (base >= floor.value && base > 0) return std::fabs(d) / base * 100 >= kSameWithinPct;
+  return std::fabs(d) >= floor.value;
 }
 
-std::string SignedPercent(double diff_pct) {
-  if (std::isnan(diff_pct)) return "";
-  std::string text = FormatReadable(diff_pct);
-  if (diff_pct > 0) text = "+" + text;
-  return text + " %";
+// Where `d` points for a figure in the direction `higher_is_better`.
+Verdict Direction(double d, bool counts, bool higher_is_better) {
+  if (std::isnan(d)) return Verdict::kNotApplicable;
+  if (!counts) return Verdict::kSame;
+  return (d > 0) == higher_is_better ? Verdict::kBetter : Verdict::kWorse;
 }
 
-}  // namespace
-
-const char* ToString(Verdict verdict) {
-  switch (verdict) {
-    case Verdict::kBetter:
-      return "better";
-    case Verdict::kWorse:
-      return "worse";
-    case Verdict::kSame:
-      return "same";
-    case Verdict::kNotApplicable:
-      break;
+Comparison CompareSurvival(const ScenarioGroup& scenario, const ControllerGroup& baseline,
+                           const ControllerGroup& controller) {
+  Comparison c;
+  c.metric = "survival_rate";
+  c.label = "survival (%)";
+  c.higher_is_better = true;
+  c.test = "McNemar exact";
+  c.baseline.runs = c.baseline.values = baseline.size();
+  c.baseline.mean = baseline.SurvivalRate();
+  c.controller.runs = c.controller.values = controller.size();
+  c.controller.mean = controller.SurvivalRate();
+  if (baseline.runs.empty() || controller.runs.empty()) return c;
+  c.diff_abs = c.controller.mean - c.baseline.mean;
+  PairedCounts counts;
+  for (const SeedPair& pair : PairBySeed(scenario, baseline, controller)) {
+    if (!WasPlayed(*pair.baseline) || !WasPlayed(*pair.other)) continue;
+    const bool b = pair.baseline->metrics.status == RunStatus::kOk;
+    const bool o = pair.other->metrics.status == RunStatus::kOk;
+    if (b && o) {
+      ++counts.both;
+    } else if (b) {
+      ++counts.only_baseline;
+    } else if (o) {
+      ++counts.only_other;
+    } else {
+      ++counts.neither;
+    }
   }
-  return "n/a";
-}
-
-Comparison Compare(const char* metric, const char* label, bool higher_is_better,
-                   double baseline_mean, double controller_mean) {
-  Comparison c{metric,
-               label,
-               higher_is_better,
-               baseline_mean,
-               controller_mean,
-               std::numeric_limits<double>::quiet_NaN(),
-               Verdict::kNotApplicable};
-  if (std::isnan(baseline_mean) || std::isnan(controller_mean)) return c;
-  if (controller_mean == baseline_mean) {
-    c.diff_pct = 0;
-    c.verdict = Verdict::kSame;
-    return c;
+  c.pairs = counts.both + counts.only_baseline + counts.only_other + counts.neither;
+  if (c.pairs > 0) {
+    c.mean_diff =
+        (static_cast<double>(counts.only_other) - static_cast<double>(counts.only_baseline)) /
+        static_cast<double>(c.pairs);
+    c.p_value = McNemarExactP(counts);
   }
-  if (baseline_mean == 0) return c;
-  c.diff_pct = (controller_mean - baseline_mean) / std::fabs(baseline_mean) * 100;
-  if (std::fabs(c.diff_pct) < kSameWithinPct) {
-    c.verdict = Verdict::kSame;
+  const double d = c.pairs > 0 ? c.mean_diff : c.diff_abs;
+  c.direction = Direction(d, d != 0, true);
+  if (c.pairs < kMcNemarMinPairs) {
+    c.p_value = kNoValue;  // too few pairs to test
+    c.verdict = Verdict::kIndicative;
   } else {
-    const bool higher = c.diff_pct > 0;
-    c.verdict = higher == higher_is_better ? Verdict::kBetter : Verdict::kWorse;
+    c.verdict = c.p_value < kTestLevel ? c.direction : Verdict::kSame;
   }
   return c;
 }
 
-std::vector<Comparison> CompareGroups(const ControllerGroup& baseline,
-                                      const ControllerGroup& controller) {
-  std::vector<Comparison> rows;
-  rows.push_back(Compare("survival_rate", "survival (%)", true, baseline.SurvivalRate(),
-                         controller.SurvivalRate()));
+Comparison CompareFigure(const ScenarioGroup& scenario, const MetricColumn& column,
+                         const ControllerGroup& baseline, const ControllerGroup& controller) {
+  Comparison c;
+  c.metric = column.name;
+  c.label = column.label;
+  c.floor = FloorOf(column.name);
+  c.test = "paired t";
+  c.baseline = StatsOver(baseline.runs, column.field);
+  c.controller = StatsOver(controller.runs, column.field);
+  std::vector<double> differences;
+  for (const SeedPair& pair : PairBySeed(scenario, baseline, controller)) {
+    if (!WasPlayed(*pair.baseline) || !WasPlayed(*pair.other)) continue;
+    const double b = pair.baseline->metrics.*column.field;
+    const double o = pair.other->metrics.*column.field;
+    if (!std::isnan(b) && !std::isnan(o)) differences.push_back(o - b);
+  }
+  const PairedT test = PairedTTest(differences);
+  c.pairs = test.pairs;
+  c.mean_diff = test.mean_diff;
+  c.t = test.t;
+  c.p_value = test.p_value;
+  if (c.baseline.values == 0 || c.controller.values == 0) return c;
+  c.diff_abs = c.controller.mean - c.baseline.mean;
+  const double base = std::fabs(c.baseline.mean);
+  if (base >= c.floor.value && base > 0) c.diff_pct = c.diff_abs / base * 100;
+  const double d = c.pairs > 0 ? c.mean_diff : c.diff_abs;
+  c.direction = Direction(d, Counts(d, c.baseline.mean, c.floor), c.higher_is_better);
+  if (c.pairs < kMinTPairs) {
+    c.t = kNoValue;  // too few pairs to test
+    c.p_value = kNoValue;
+    c.verdict = Verdict::kIndicative;
+  } else if (c.p_value < kTestLevel && Counts(c.mean_diff, c.baseline.mean, c.floor)) {
+    c.verdict = c.direction;
+  } else {
+    c.verdict = Verdict::kSame;
+  }
+  return c;
+}
+
+void AppendNumberCell(std::string* csv, double value) {
+  csv->push_back(',');
+  AppendNumber(csv, value);
+}
+
+void AppendStatsCells(std::string* csv, const FigureStats& stats) {
+  *csv += ',' + std::to_string(stats.values) + ',' + std::to_string(stats.runs - stats.values);
+  AppendNumberCell(csv, stats.mean);
+  AppendNumberCell(csv, stats.min);
+  AppendNumberCell(csv, stats.max);
+  AppendNumberCell(csv, stats.sd);
+}
+
+// "+1.50" from 3 significant digits, a sign on every non-zero value.
+std::string Signed(double value) {
+  std::string text = FormatReadable(value);
+  return value > 0 ? "+" + text : text;
+}
+
+// compare.md's difference: "-50.0 %", "+0.42 A (abs.)", "-50.0 pp" for survival; "—" for none.
+std::string DifferenceText(const Comparison& c) {
+  if (std::isnan(c.diff_abs)) return "—";
+  if (c.higher_is_better) return Signed(c.diff_abs * 100) + " pp";
+  if (!std::isnan(c.diff_pct)) return Signed(c.diff_pct) + " %";
+  std::string text = Signed(c.diff_abs);
+  if (*c.floor.unit != '\0') text += std::string(" ") + c.floor.unit;
+  return text + " (abs.)";
+}
+
+// compare.md's test cell: "t = -3.20, p = 0.0410 (3 pairs)", "no spread, p = 1.00 (3 pairs)",
+// "McNemar p = 0.0313 (6 pairs)", "2 pairs, too few", "—".
+std::string TestText(const Comparison& c) {
+  const std::string pairs = std::to_string(c.pairs) + (c.pairs == 1 ? " pair" : " pairs");
+  if (c.verdict == Verdict::kNotApplicable) return "—";
+  if (c.verdict == Verdict::kIndicative) return pairs + ", too few";
+  std::string text = c.higher_is_better ? "McNemar "
+                     : std::isnan(c.t)  ? std::string("no spread, ")
+                                        : "t = " + FormatReadable(c.t) + ", ";
+  return text + "p = " + FormatReadable(c.p_value) + " (" + pairs + ")";
+}
+
+std::string FloorsText() {
+  std::string text;
   for (const MetricColumn& column : MetricColumns()) {
     if (!column.compared) continue;
-    rows.push_back(Compare(column.name, column.label, false, MeanOver(baseline.runs, column.field),
-                           MeanOver(controller.runs, column.field)));
+    const MetricFloor floor = FloorOf(column.name);
+    if (!text.empty()) text += ", ";
+    text += std::string(column.label) + " " + FormatNumber(floor.value);
+    if (*floor.unit != '\0') text += std::string(" ") + floor.unit;
+  }
+  return text;
+}
+
+}  // namespace
+
+std::vector<Comparison> CompareGroups(const ScenarioGroup& scenario,
+                                      const ControllerGroup& baseline,
+                                      const ControllerGroup& controller) {
+  std::vector<Comparison> rows;
+  rows.push_back(CompareSurvival(scenario, baseline, controller));
+  for (const MetricColumn& column : MetricColumns()) {
+    if (column.compared) rows.push_back(CompareFigure(scenario, column, baseline, controller));
   }
   return rows;
 }
 
 std::string CompareCsv(const std::vector<ScenarioGroup>& groups) {
   std::string csv =
-      "scenario,baseline,controller,metric,better_when,baseline_mean,controller_mean,diff_pct,"
-      "verdict\n";
+      "scenario,baseline,controller,metric,better_when,floor,baseline_n,baseline_skipped,"
+      "baseline_mean,baseline_min,baseline_max,baseline_sd,controller_n,controller_skipped,"
+      "controller_mean,controller_min,controller_max,controller_sd,diff_abs,diff_pct,test,pairs,"
+      "mean_diff,t,p_value,direction,verdict\n";
   for (const ScenarioGroup& scenario : groups) {
     const ControllerGroup* baseline = scenario.Baseline();
     if (baseline == nullptr) continue;
     for (const ControllerGroup& controller : scenario.controllers) {
       if (&controller == baseline) continue;
-      for (const Comparison& row : CompareGroups(*baseline, controller)) {
+      for (const Comparison& row : CompareGroups(scenario, *baseline, controller)) {
         AppendCsvField(&csv, scenario.name);
         csv += ',';
         AppendCsvField(&csv, baseline->name);
@@ -103,12 +196,20 @@ std::string CompareCsv(const std::vector<ScenarioGroup>& groups) {
         AppendCsvField(&csv, controller.name);
         csv += ',';
         csv += row.metric;
-        csv += row.higher_is_better ? ",higher," : ",lower,";
-        AppendNumber(&csv, row.baseline_mean);
+        csv += row.higher_is_better ? ",higher" : ",lower";
+        AppendNumberCell(&csv, row.higher_is_better ? kNoValue : row.floor.value);
+        AppendStatsCells(&csv, row.baseline);
+        AppendStatsCells(&csv, row.controller);
+        AppendNumberCell(&csv, row.diff_abs);
+        AppendNumberCell(&csv, row.diff_pct);
         csv += ',';
-        AppendNumber(&csv, row.controller_mean);
+        csv += row.test;
+        csv += ',' + std::to_string(row.pairs);
+        AppendNumberCell(&csv, row.mean_diff);
+        AppendNumberCell(&csv, row.t);
+        AppendNumberCell(&csv, row.p_value);
         csv += ',';
-        AppendNumber(&csv, row.diff_pct);
+        csv += ToString(row.direction);
         csv += ',';
         csv += ToString(row.verdict);
         csv += '\n';
@@ -121,13 +222,34 @@ std::string CompareCsv(const std::vector<ScenarioGroup>& groups) {
 std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
   std::string md = "# Comparison against the baseline\n\n";
   md +=
-      "Per scenario, each controller's mean over seeds against the baseline controller's, as "
-      "(controller − baseline) / |baseline| · 100. Survival is better when higher; every other "
-      "figure is better when lower. Within ±";
-  md += FormatNumber(kSameWithinPct);
+      "Per scenario, each controller against the scenario's baseline controller. Means are over "
+      "the seeds of the runs that were played and have a value, with their spread over the "
+      "seeds: min–max up to " +
+      std::to_string(kRangeUpToSeeds) + " seeds, ± the standard deviation (n − 1) above; " +
+      SkippedNote() + ".\n\n";
   md +=
-      " % counts as the same; n/a when the baseline is 0 or either mean is missing. Settling "
-      "times are means over the runs that settled (summary.md marks the partial ones).\n";
+      "Difference: (controller − baseline) / |baseline| · 100 from the means; when |baseline| is "
+      "below the figure's floor, where a percentage means nothing, the difference in the "
+      "figure's unit, marked (abs.). Floors: " +
+      FloorsText() + ".\n\n";
+  md +=
+      "Verdict: the runs are paired by seed (both played, both with a value) and the paired "
+      "t-test, two-sided at " +
+      FormatNumber(kTestLevel * 100) +
+      " %, is applied to the differences. Better or worse needs the test to reject and the mean "
+      "difference over the pairs to reach " +
+      FormatNumber(kSameWithinPct) +
+      " % of the baseline mean (the floor itself when the baseline is below it); with fewer than " +
+      std::to_string(kMinTPairs) +
+      " pairs there is no test, and the direction of the difference is shown as a hint only. "
+      "Identical differences on every pair leave no spread to test: all zero count as no "
+      "difference (p = 1), all equal and non-zero as a sure one (t infinite, p = 0). Every "
+      "figure is better when lower but survival, better when higher: compared as a difference "
+      "of rates in percentage points (pp), with the exact McNemar test on the seeds both "
+      "played, which cannot reach " +
+      FormatNumber(kTestLevel * 100) + " % with fewer than " + std::to_string(kMcNemarMinPairs) +
+      " pairs (indicative).\n\n";
+  md += "Marks: " + VerdictLegend() + ".\n";
   for (const ScenarioGroup& scenario : groups) {
     md += "\n## " + MarkdownCell(scenario.name) + "\n\n";
     const ControllerGroup* baseline = scenario.Baseline();
@@ -139,29 +261,28 @@ std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
       md += "Only the baseline (" + MarkdownCell(baseline->name) + ") ran: nothing to compare.\n";
       continue;
     }
-    md += "| metric | " + MarkdownCell(baseline->name) + " (baseline) |";
-    std::vector<std::vector<Comparison>> columns;
+    const SpreadKind spread = SpreadFor(scenario.seeds.size());
+    if (scenario.info != nullptr) md += "Robot: " + MarkdownCell(scenario.info->model_name) + " · ";
+    md += "baseline: " + MarkdownCell(baseline->name) +
+          " · seeds: " + std::to_string(scenario.seeds.size()) +
+          " · spread: " + SpreadName(spread) + "\n";
     for (const ControllerGroup& controller : scenario.controllers) {
       if (&controller == baseline) continue;
+      md += "\n### " + MarkdownCell(controller.name) + " against " + MarkdownCell(baseline->name) +
+            "\n\n| figure | " + MarkdownCell(baseline->name) + " (baseline) |";
       AppendMarkdownCell(&md, MarkdownCell(controller.name));
-      columns.push_back(CompareGroups(*baseline, controller));
-    }
-    md += "\n|---|---:|";
-    for (std::size_t i = 0; i < columns.size(); ++i) md += "---|";
-    md += '\n';
-    for (std::size_t row = 0; row < columns.front().size(); ++row) {
-      const Comparison& first = columns.front()[row];
-      // Row 0 is survival, shown as a percentage of runs; the figures show as they are.
-      const double scale = row == 0 ? 100 : 1;
-      md += std::string("| ") + first.label + " | " + FormatReadable(first.baseline_mean * scale);
-      for (const std::vector<Comparison>& column : columns) {
-        const Comparison& c = column[row];
-        md += " | " + FormatReadable(c.controller_mean * scale);
-        const std::string diff = SignedPercent(c.diff_pct);
-        md += diff.empty() ? std::string(" ") : " (" + diff + ") ";
-        md += VerdictText(c.verdict);
+      md += " difference | paired test | verdict |\n|---|---:|---:|---:|---|---|\n";
+      for (const Comparison& c : CompareGroups(scenario, *baseline, controller)) {
+        // Survival shows as a percentage of runs; the figures show as they are.
+        const double scale = c.higher_is_better ? 100 : 1;
+        md += std::string("| ") + c.label + " |";
+        AppendMarkdownCell(&md, MeanWithSpread(c.baseline, spread, scale));
+        AppendMarkdownCell(&md, MeanWithSpread(c.controller, spread, scale));
+        AppendMarkdownCell(&md, DifferenceText(c));
+        AppendMarkdownCell(&md, TestText(c));
+        AppendMarkdownCell(&md, VerdictMark(c.verdict, c.direction));
+        md += '\n';
       }
-      md += " |\n";
     }
   }
   return md;

@@ -53,15 +53,17 @@ std::string GapMarkdown(const std::vector<ScenarioGroup>& groups) {
   std::string md = "# Linear model against physics\n\n";
   md +=
       "Each run was also played on the linear model the controllers are designed on: the same "
-      "module, rate, hold and drive reference, the pushes' x part at their heights, ideal "
-      "sensors, no contact or limits, for the whole scenario.\n"
+      "module, rate, hold and drive reference (speed and yaw rate, drift taken from the same "
+      "commanded path), the pushes' x part at their heights, ideal sensors, no contact or "
+      "limits, for the whole scenario.\n"
       "A ratio near 1 with no time under \"parts at\" means the linear model predicted the run; "
       "a time is when tilt first differed by more than max(1°, 10 % of the plant's peak tilt), or "
       "drift by more than max(0.05 m, 10 % of the plant's peak drift).\n"
       "Gaps come from the scenario's \"not in the linear model\" line and from what the linear "
       "model never has: contact and wheel slip, motor voltage and current limits, motor and "
-      "rolling friction, sensor noise, bias, quantisation and latency (bias with friction alone "
-      "makes a parked robot lean and creep).\n"
+      "rolling friction, the coupling of turning and pitch (it is linearised at rest: a drive "
+      "command reaches it, a turn does not lean it), sensor noise, quantisation and latency. It "
+      "does carry the robot's constant sensor biases.\n"
       "A fall with a linear peak far above the plant's: a limit or the ground ended what the "
       "linear model rode out; a linear peak far below: something it lacks pushed the robot.\n";
   for (const ScenarioGroup& scenario : groups) {

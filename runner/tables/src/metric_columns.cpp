@@ -2,6 +2,7 @@
 
 #include <array>
 
+#include "upright/runner/played_run.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner {
@@ -41,13 +42,16 @@ void AppendOutcomeHeader(std::string* csv) {
   *csv += ",message";
 }
 
-void AppendOutcomeCells(std::string* csv, const RunMetrics& metrics) {
+void AppendOutcomeCells(std::string* csv, const RunResult& run) {
+  const RunMetrics& metrics = run.metrics;
+  const bool played = WasPlayed(run);
   *csv += ',';
   *csv += ToString(metrics.status);
-  *csv += metrics.status == RunStatus::kOk ? ",1" : ",0";
+  *csv += ',';
+  *csv += CsvBool(metrics.status == RunStatus::kOk);
   for (const MetricColumn& column : kColumns) {
     *csv += ',';
-    AppendNumber(csv, metrics.*column.field);
+    if (played) AppendNumber(csv, metrics.*column.field);
   }
   *csv += ',';
   AppendCsvField(csv, metrics.message);

@@ -51,9 +51,9 @@ bool RanksBefore(double survival_a, double score_a, const std::string& name_a, d
 }
 
 // The mean of one figure for one controller, with unsettled runs replaced by `unsettled_value`
-// when the figure is a settling time.
+// when the figure is a settling time; *skipped (when given) receives how many runs it left out.
 double RankingMean(const ControllerGroup& controller, const RankingWeight& weight,
-                   double unsettled_value) {
+                   double unsettled_value, int* skipped = nullptr) {
   double sum = 0;
   int count = 0;
   for (const RunResult* run : controller.runs) {
@@ -64,12 +64,16 @@ double RankingMean(const ControllerGroup& controller, const RankingWeight& weigh
     sum += value;
     ++count;
   }
+  if (skipped != nullptr) *skipped = controller.size() - count;
   return count > 0 ? sum / count : kNaN;
 }
 
-// Each controller's score in `scenario`, in its controller order (see RankingWeight).
-std::vector<double> ScenarioScores(const ScenarioGroup& scenario) {
+// Each controller's score in `scenario`, in its controller order (see RankingWeight), and in
+// `skipped` the empty values each one's score left out.
+std::vector<double> ScenarioScores(const ScenarioGroup& scenario, std::vector<int>* skipped) {
   const std::size_t n = scenario.controllers.size();
+  skipped->assign(n, 0);
+  std::vector<int> figure_skipped(n, 0);
   std::vector<double> weighted_sum(n, 0), weight_sum(n, 0);
   for (const RankingWeight& weight : kRankingWeights) {
     double unsettled_value = kNaN;
@@ -87,7 +91,7 @@ std::vector<double> ScenarioScores(const ScenarioGroup& scenario) {
     std::vector<double> means(n);
     double best = kNaN;
     for (std::size_t i = 0; i < n; ++i) {
-      means[i] = RankingMean(scenario.controllers[i], weight, unsettled_value);
+      means[i] = RankingMean(scenario.controllers[i], weight, unsettled_value, &figure_skipped[i]);
       if (means[i] > 0 && !(means[i] >= best)) best = means[i];
     }
     if (std::isnan(best)) continue;
@@ -95,6 +99,7 @@ std::vector<double> ScenarioScores(const ScenarioGroup& scenario) {
       if (std::isnan(means[i])) continue;
       weighted_sum[i] += weight.weight * means[i] / best;
       weight_sum[i] += weight.weight;
+      (*skipped)[i] += figure_skipped[i];
     }
   }
   std::vector<double> scores(n, kNaN);
@@ -121,7 +126,8 @@ std::vector<RankedController> RankControllers(const std::vector<ScenarioGroup>& 
   std::vector<RankedController> ranked;
   for (std::size_t s = 0; s < groups.size(); ++s) {
     const ScenarioGroup& scenario = groups[s];
-    const std::vector<double> scores = ScenarioScores(scenario);
+    std::vector<int> skipped;
+    const std::vector<double> scores = ScenarioScores(scenario, &skipped);
     std::vector<std::size_t> order(scenario.controllers.size());
     for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
     std::sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) {
@@ -147,9 +153,11 @@ std::vector<RankedController> RankControllers(const std::vector<ScenarioGroup>& 
       entry->runs += controller.size();
       entry->survived += controller.survived;
       entry->scenario_scores[s] = scores[i];
+      if (!std::isnan(scores[i])) entry->values_skipped += skipped[i];
       entry->scenario_ranks[s] = static_cast<int>(position) + 1;
     }
   }
+  int most_scored = 0;
   for (RankedController& entry : ranked) {
     entry.survival_rate = static_cast<double>(entry.survived) / entry.runs;
     double sum = 0;
@@ -159,15 +167,19 @@ std::vector<RankedController> RankControllers(const std::vector<ScenarioGroup>& 
       ++entry.scenarios_scored;
     }
     entry.score = entry.scenarios_scored > 0 ? sum / entry.scenarios_scored : kNaN;
+    most_scored = std::max(most_scored, entry.scenarios_scored);
   }
+  for (RankedController& entry : ranked) entry.partial = entry.scenarios_scored < most_scored;
   std::sort(ranked.begin(), ranked.end(), [](const RankedController& a, const RankedController& b) {
+    if (a.partial != b.partial) return !a.partial;
     return RanksBefore(a.survival_rate, a.score, a.name, b.survival_rate, b.score, b.name);
   });
   return ranked;
 }
 
 std::string RankingCsv(const std::vector<ScenarioGroup>& groups) {
-  std::string csv = "rank,controller,survival_rate,survived,runs,score,scenarios_scored";
+  std::string csv =
+      "rank,controller,survival_rate,survived,runs,score,scenarios_scored,partial,values_skipped";
   for (const ScenarioGroup& scenario : groups) {
     csv += ',';
     AppendCsvField(&csv, "rank_" + scenario.name);
@@ -183,7 +195,8 @@ std::string RankingCsv(const std::vector<ScenarioGroup>& groups) {
     AppendNumber(&csv, entry.survival_rate);
     csv += ',' + std::to_string(entry.survived) + ',' + std::to_string(entry.runs) + ',';
     AppendNumber(&csv, entry.score);
-    csv += ',' + std::to_string(entry.scenarios_scored);
+    csv += ',' + std::to_string(entry.scenarios_scored) + ',' + CsvBool(entry.partial) + ',' +
+           std::to_string(entry.values_skipped);
     for (int rank : entry.scenario_ranks) {
       csv += ',';
       if (rank > 0) csv += std::to_string(rank);
@@ -194,32 +207,45 @@ std::string RankingCsv(const std::vector<ScenarioGroup>& groups) {
 }
 
 std::string RankingMarkdown(const std::vector<ScenarioGroup>& groups) {
+  const std::vector<RankedController> ranked = RankControllers(groups);
+  int most_scored = 0;
+  for (const RankedController& entry : ranked) {
+    most_scored = std::max(most_scored, entry.scenarios_scored);
+  }
   std::string md = "# Ranking\n\n";
   md +=
       "Controllers are matched by name across scenarios and ordered by survival rate over all "
-      "their runs (higher first), then by score (lower first), then by name.\n";
+      "their runs (higher first; a run not played counts as not survived), then by score (lower "
+      "first), then by name.\n";
   md +=
-      "Score: in each scenario, each figure's mean over a controller's runs is divided by the "
-      "smallest positive mean any controller reached there (the best gets 1.0), and the ratios "
-      "are averaged with weights " +
+      "Score: in each scenario, each figure's mean over a controller's played runs is divided by "
+      "the smallest positive mean any controller reached there (the best gets 1.0), and the "
+      "ratios are averaged with weights " +
       WeightsText() + ".\n";
   md +=
       "A run that did not settle counts as twice the longest settling time of any run in that "
-      "scenario. The overall score is the mean over the scenarios the controller ran in.\n";
+      "scenario; any other empty value (a run not played, a figure that does not apply) is left "
+      "out of the mean, and \"values skipped\" counts them. The overall score is the mean over "
+      "the scenarios the controller was scored in.\n";
+  md += "A controller scored on fewer scenarios than the most any controller was scored on (here " +
+        std::to_string(most_scored) +
+        ") is partial: it is ranked apart, after every controller scored on that many, whatever "
+        "its survival and score, since its figures come from fewer situations.\n";
   md +=
       "The rank in each scenario follows the same rule within that scenario; — : not run "
       "there.\n\n";
-  md += "| rank | controller | survived | score |";
+  md += "| rank | controller | survived | score | scenarios scored | values skipped |";
   for (const ScenarioGroup& scenario : groups) AppendMarkdownCell(&md, MarkdownCell(scenario.name));
-  md += "\n|---:|---|---:|---:|";
+  md += "\n|---:|---|---:|---:|---:|---:|";
   for (std::size_t i = 0; i < groups.size(); ++i) md += "---:|";
   md += '\n';
-  const std::vector<RankedController> ranked = RankControllers(groups);
   for (std::size_t i = 0; i < ranked.size(); ++i) {
     const RankedController& entry = ranked[i];
     md += "| " + std::to_string(i + 1) + " | " + MarkdownCell(entry.name) + " | " +
           std::to_string(entry.survived) + "/" + std::to_string(entry.runs) + " | " +
-          FormatReadable(entry.score) + " |";
+          FormatReadable(entry.score) + " | " + std::to_string(entry.scenarios_scored) + " of " +
+          std::to_string(most_scored) + (entry.partial ? " (partial, ranked apart)" : "") + " | " +
+          std::to_string(entry.values_skipped) + " |";
     for (int rank : entry.scenario_ranks) {
       AppendMarkdownCell(&md, rank > 0 ? std::to_string(rank) : std::string("—"));
     }

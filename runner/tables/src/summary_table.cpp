@@ -1,35 +1,13 @@
 #include "summary_table.hpp"
 
-#include <array>
 #include <cmath>
 
+#include "spread_text.hpp"
 #include "upright/runner/metric_columns.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {
-
-// The figures summary.md shows (a readable subset), each scaled for display.
-struct ReadableColumn {
-  const char* label;
-  double RunMetrics::*field;
-  double scale;
-  bool settle;  // a settling time: "*" marks a mean over only the runs that settled
-};
-
-constexpr std::array<ReadableColumn, 11> kReadableColumns = {{
-    {"max tilt (deg)", &RunMetrics::max_tilt_deg, 1, false},
-    {"max drift (m)", &RunMetrics::max_drift_m, 1, false},
-    {"tilt settle (s)", &RunMetrics::tilt_settle_s, 1, true},
-    {"drift settle (s)", &RunMetrics::drift_settle_s, 1, true},
-    {"tilt rebound (%)", &RunMetrics::tilt_rebound_pct, 1, false},
-    {"RMS tilt (deg)", &RunMetrics::rms_tilt_deg, 1, false},
-    {"effort (N²m²s)", &RunMetrics::effort_Nm2s, 1, false},
-    {"peak current (A)", &RunMetrics::peak_current_A, 1, false},
-    {"saturation (%)", &RunMetrics::saturation_pct, 1, false},
-    {"max slip ratio", &RunMetrics::max_slip_ratio, 1, false},
-    {"energy (J)", &RunMetrics::energy_J, 1, false},
-}};
 
 std::string JoinSeeds(const std::vector<std::uint64_t>& seeds) {
   std::string text;
@@ -37,6 +15,14 @@ std::string JoinSeeds(const std::vector<std::uint64_t>& seeds) {
     if (i > 0) text += ", ";
     text += std::to_string(seeds[i]);
   }
+  return text;
+}
+
+// "2/3", with "(1 not played)" when some runs never took a step.
+std::string SurvivedText(const ControllerGroup& controller) {
+  std::string text = std::to_string(controller.survived) + "/" + std::to_string(controller.size());
+  const int unplayed = controller.size() - controller.played;
+  if (unplayed > 0) text += " (" + std::to_string(unplayed) + " not played)";
   return text;
 }
 
@@ -52,8 +38,9 @@ std::string SummaryCsv(const BatchResult& batch) {
     AppendCsvField(&csv, run.controller);
     csv += ',';
     csv += std::to_string(run.seed);
-    csv += run.baseline ? ",true" : ",false";
-    AppendOutcomeCells(&csv, run.metrics);
+    csv += ',';
+    csv += CsvBool(run.baseline);
+    AppendOutcomeCells(&csv, run);
     csv += '\n';
   }
   return csv;
@@ -62,42 +49,50 @@ std::string SummaryCsv(const BatchResult& batch) {
 std::string SummaryMarkdown(const std::vector<ScenarioGroup>& groups) {
   std::string md = "# Summary\n\n";
   md +=
-      "Per scenario and controller: how many runs survived, and the mean over seeds of each "
-      "figure (runs that were played; a fall counts with the figures it reached).\n";
+      "Per scenario, one column per controller: how many runs survived, then every figure of "
+      "summary.csv in its column order, as the mean over the seeds of the runs that were played "
+      "(a fall counts with the figures it reached) with its spread over those seeds: min–max up "
+      "to " +
+      std::to_string(kRangeUpToSeeds) +
+      " seeds, ± the standard deviation (n − 1) above. Each run's own figures are in "
+      "summary.csv.\n";
   for (const ScenarioGroup& scenario : groups) {
     md += "\n## " + MarkdownCell(scenario.name) + "\n\n";
     if (scenario.info != nullptr) md += "Robot: " + MarkdownCell(scenario.info->model_name) + " · ";
     const ControllerGroup* baseline = scenario.Baseline();
     md += "baseline: " + (baseline != nullptr ? MarkdownCell(baseline->name) : std::string("none"));
-    md += " · seeds: " + JoinSeeds(scenario.seeds) + "\n\n";
+    const SpreadKind spread = SpreadFor(scenario.seeds.size());
+    md += " · seeds: " + JoinSeeds(scenario.seeds) + " · spread: " + SpreadName(spread) + "\n\n";
 
-    md += "| controller | survived |";
-    for (const ReadableColumn& column : kReadableColumns) AppendMarkdownCell(&md, column.label);
-    md += "\n|---|---|";
-    for (std::size_t i = 0; i < kReadableColumns.size(); ++i) md += "---:|";
-    md += '\n';
-    bool any_partly_settled = false;
+    md += "| figure |";
     for (const ControllerGroup& controller : scenario.controllers) {
-      md += "| " + MarkdownCell(controller.name) + (controller.baseline ? " (baseline)" : "");
-      md += " | " + std::to_string(controller.survived) + "/" + std::to_string(controller.size());
-      for (const ReadableColumn& column : kReadableColumns) {
-        int count = 0;
-        const double mean = MeanOver(controller.runs, column.field, &count);
-        md += " | " + FormatReadable(mean * column.scale);
-        if (column.settle && count > 0 && count < controller.played) {
-          md += '*';
-          any_partly_settled = true;
-        }
+      AppendMarkdownCell(
+          &md, MarkdownCell(controller.name) + (controller.baseline ? " (baseline)" : ""));
+    }
+    md += "\n|---|";
+    for (std::size_t i = 0; i < scenario.controllers.size(); ++i) md += "---:|";
+    md += "\n| survived |";
+    for (const ControllerGroup& controller : scenario.controllers) {
+      AppendMarkdownCell(&md, SurvivedText(controller));
+    }
+    md += '\n';
+    bool any_skipped = false;
+    for (const MetricColumn& column : MetricColumns()) {
+      md += std::string("| ") + column.label + " |";
+      for (const ControllerGroup& controller : scenario.controllers) {
+        const FigureStats stats = StatsOver(controller.runs, column.field);
+        any_skipped = any_skipped || (stats.values > 0 && stats.values < stats.runs);
+        AppendMarkdownCell(&md, MeanWithSpread(stats, spread));
       }
-      md += " |\n";
+      md += '\n';
     }
     md +=
-        "\n— : no run gave a value (nothing to settle from, never settled within the window, or "
-        "no run was played).";
-    if (any_partly_settled) {
-      md +=
-          " * : mean over the runs that settled; the others did not settle within the window "
-          "or fell.";
+        "\n— : no run gave a value (not played, nothing to settle from, never settled within the "
+        "window, or never fell).";
+    if (any_skipped) {
+      md += ' ';
+      md += SkippedNote();
+      md += '.';
     }
     md += '\n';
   }

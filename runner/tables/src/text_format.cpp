@@ -37,6 +37,8 @@ void AppendCsvField(std::string* out, std::string_view text) {
   out->push_back('"');
 }
 
+const char* CsvBool(bool value) { return value ? "true" : "false"; }
+
 std::string FormatReadable(double value) {
   if (std::isnan(value)) return "—";
   if (value == 0) return "0";

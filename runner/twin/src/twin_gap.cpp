@@ -70,10 +70,6 @@ std::string NotModelled(const Scenario& s) {
   for (const PayloadShift& p : s.payload_shifts) {
     add(Format("payload shift %+g m at %g s", p.distance_m, p.start_s));
   }
-  for (const DriveChange& d : s.drives) {
-    add(Format("drive to %g m/s", d.speed_m_s) +
-        Format(", %g deg/s at %g s (reference only)", d.yaw_rate_rad_s * kDeg, d.start_s));
-  }
   for (const sim::MotorFault& f : s.motor_faults) {
     add(std::string("motor fault ") + sim::ToString(f.side) +
         Format(" x%g at %g s", f.torque_scale, f.start_s));

@@ -1,10 +1,12 @@
 // Statistics of a Monte Carlo sweep: survival counts in, a confidence interval for the survival
-// rate, percentiles of a figure over runs, and the paired comparison of two controllers on the
-// same samples out. Pure functions of their arguments.
+// rate and percentiles of a figure over runs out; the paired comparison of two controllers on the
+// same samples is the exact McNemar test of paired_tests.hpp. Pure functions of their arguments.
 #pragma once
 
 #include <cstddef>
 #include <span>
+
+#include "upright/runner/paired_tests.hpp"
 
 namespace upright::runner {
 
@@ -26,17 +28,5 @@ Interval WilsonInterval(std::size_t successes, std::size_t trials, double z = kZ
 // x[⌊h⌋] + (h − ⌊h⌋)(x[⌊h⌋ + 1] − x[⌊h⌋]). +inf values sort last and give +inf where they take
 // part. NaN for no values; the values must not be NaN (UPRIGHT_CHECK).
 double Percentile(std::span<const double> values, double percent);
-
-// Two controllers run on the same samples: how their outcomes pair up.
-struct PairedCounts {
-  std::size_t both = 0;           // both survived
-  std::size_t only_baseline = 0;  // the baseline survived, the other did not
-  std::size_t only_other = 0;     // the other survived, the baseline did not
-  std::size_t neither = 0;        // both fell (or failed)
-};
-
-// Exact two-sided McNemar test (McNemar 1947) on the discordant pairs: under "no difference"
-// only_baseline ~ Binomial(b + c, 1/2); p = min(1, 2 · P[X ≤ min(b, c)]). 1 when b + c = 0.
-double McNemarExactP(const PairedCounts& counts);
 
 }  // namespace upright::runner

@@ -6,7 +6,7 @@
 #include <span>
 #include <string>
 
-#include "upright/runner/run_metrics.hpp"
+#include "upright/runner/run_result.hpp"
 
 namespace upright::runner {
 
@@ -25,8 +25,9 @@ std::span<const MetricColumn> MetricColumns();
 // end a row of summary.csv and of sweep.csv.
 void AppendOutcomeHeader(std::string* csv);
 
-// Appends the outcome cells of `metrics` under that header: ",<status>,<1 survived | 0>,<every
-// figure>,<message>" (figures as AppendNumber prints them, the message as one CSV field).
-void AppendOutcomeCells(std::string* csv, const RunMetrics& metrics);
+// Appends the outcome cells of `run` under that header: ",<status>,<survived: true | false>,<every
+// figure>,<message>" (figures as AppendNumber prints them, every one empty for a run that was not
+// played (WasPlayed) whatever its metrics hold; the message as one CSV field).
+void AppendOutcomeCells(std::string* csv, const RunResult& run);
 
 }  // namespace upright::runner

@@ -1,6 +1,6 @@
 // Text pieces every results table shares (runs, sweeps, envelopes): numbers in a fixed,
-// locale-independent form, CSV fields quoted per RFC 4180 and Markdown cells made safe. The same
-// value always gives the same bytes.
+// locale-independent form, CSV fields quoted per RFC 4180, yes/no cells spelled alike, and
+// Markdown cells made safe. The same value always gives the same bytes.
 #pragma once
 
 #include <string>
@@ -18,6 +18,9 @@ std::string FormatNumber(double value);
 // Appends `text` as one CSV field (RFC 4180 §2, rules 5–7): enclosed in double quotes when it
 // holds a comma, a double quote, CR or LF, with each double quote doubled; as is otherwise.
 void AppendCsvField(std::string* out, std::string_view text);
+
+// A yes/no cell of every CSV file: "true" or "false".
+const char* CsvBool(bool value);
 
 // `value` rounded to 3 significant digits for reading, without an exponent for magnitudes from
 // 0.001 up to 10^15 (integers keep all their digits: 1234 → "1234", 0.012345 → "0.0123");

@@ -30,10 +30,11 @@ GapFigures CompareTwin(const TiltDriftSeries& twin, const TiltDriftSeries& plant
                        const GapBands& bands = {});
 
 // The scenario's events and ground the linear model leaves out, "; "-joined in the order: pushes'
-// lateral parts, payload shifts, drive changes (the module gets the reference, the linear model
-// has no speed-dependent friction or limits and no turning–pitch coupling), motor faults, sensor
-// faults, ground; "" when there are none. Always left out, and so not listed: contact and slip,
-// motor limits and friction, sensor noise, bias, quantisation and latency.
+// lateral parts, payload shifts, motor faults, sensor faults, ground; "" when there are none.
+// Drive changes are not listed: the twin gets the same speed and yaw-rate reference and is judged
+// against the same commanded path. Always left out, and so not listed: contact and slip, motor
+// limits and friction, the coupling of turning and pitch (the model is linearised at rest),
+// sensor noise, quantisation and latency (the twin's sensors do carry the robot's constant biases).
 std::string NotModelled(const Scenario& scenario);
 
 }  // namespace upright::runner
