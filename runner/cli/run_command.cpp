@@ -210,7 +210,7 @@ int RunDemo(const RunCommandOptions& options) {
   std::printf("\nupright demo: the same shove on 50 robots drawn from its spreads\n");
   if (const int code = RunSweep(sweep); code != kExitOk) return code;
 
-  std::string report_path;
+  std::string report_path, error;
   if (!runner::WriteReport(demo.out_dir, &report_path, &error)) {
     std::cerr << error << "\n";
     return kExitFailed;

@@ -171,9 +171,9 @@ TEST(RunOne, RunsThatNeverSteppedHaveNoFiguresAndEmptyCells) {
   const std::vector<std::string> lines = Lines(ReadFile(dir / "summary.csv"));
   ASSERT_EQ(lines.size(), 3u);
   const std::string empty_figures(MetricColumns().size(), ',');
-  EXPECT_EQ(lines[1].rfind("shove,lqr,7,true,setup_failed,0" + empty_figures + ",", 0), 0u)
+  EXPECT_EQ(lines[1].rfind("shove,lqr,7,true,setup_failed,false" + empty_figures + ",", 0), 0u)
       << lines[1];
-  EXPECT_EQ(lines[2].rfind("shove,lqr,8,true,controller_fault,0" + empty_figures + ",", 0), 0u)
+  EXPECT_EQ(lines[2].rfind("shove,lqr,8,true,controller_fault,false" + empty_figures + ",", 0), 0u)
       << lines[2];
 }
 
