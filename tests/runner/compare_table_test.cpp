@@ -41,9 +41,9 @@ std::map<std::string, std::string> Row(const CsvRecords& csv, const std::string&
   return csv.Find({{"scenario", scenario}, {"controller", "ctl"}, {"metric", metric}});
 }
 
-// Every figure compare judges has a floor (a column whose unit no rule knows would get none, and
-// percentages of near-zero baselines again), found by its unit suffix, longer suffixes first.
-TEST(MetricFloors, EveryJudgedFigureHasOneByItsUnit) {
+// Every figure compare judges has a floor in the column catalogue (a figure without one would get
+// percentages of near-zero baselines again), in the figure's own unit.
+TEST(MetricFloors, EveryJudgedFigureHasOneInItsUnit) {
   for (const MetricColumn& column : MetricColumns()) {
     if (column.compared) EXPECT_GT(FloorOf(column.name).value, 0) << column.name;
   }
@@ -54,12 +54,15 @@ TEST(MetricFloors, EveryJudgedFigureHasOneByItsUnit) {
   EXPECT_EQ(FloorOf("effort_Nm2s").value, 1e-4);
   EXPECT_EQ(FloorOf("peak_torque_Nm").value, 0.01);
   EXPECT_EQ(FloorOf("max_drift_m").value, 0.01);
-  EXPECT_EQ(FloorOf("any_share_pct").value, 0.1);
+  EXPECT_EQ(FloorOf("saturation_pct").value, 0.1);
+  EXPECT_STREQ(FloorOf("saturation_pct").unit, "%");
+  EXPECT_EQ(FloorOf("tilt_rebound_pct").value, 5);  // a rebound within 5 % of its peak
   EXPECT_EQ(FloorOf("max_slip_ratio").value, 0.01);
-  EXPECT_EQ(FloorOf("no_unit").value, 0);
+  EXPECT_EQ(FloorOf("end_time_s").value, 0);  // not compared
+  EXPECT_EQ(FloorOf("no_such_figure").value, 0);
 }
 
-// The floor of peak current is 0.1 A (common practice, metric_floors.cpp). Below it the
+// The floor of peak current is 0.1 A (common practice, metric_columns.cpp). Below it the
 // difference is absolute, in A, with no percentage; at it and above, a percentage. One seed each,
 // so each mean is its value exactly.
 TEST(CompareTable, BelowTheFloorTheDifferenceIsAbsolute) {
@@ -181,12 +184,12 @@ TEST(CompareTable, TooFewPairsAreIndicative) {
   auto unplayed = Row(csv, "unplayed", "max_tilt_deg");
   EXPECT_EQ(unplayed["pairs"], "2");
   EXPECT_EQ(unplayed["controller_mean"], "2");  // (1 + 3) / 2: the 99 stays out
-  EXPECT_EQ(unplayed["controller_skipped"], "1");
+  EXPECT_EQ(unplayed["baseline_mean"], "3");    // (2 + 4) / 2: over the seeds both survived
 
   const std::string md = ReadText(dir / "compare.md");
   EXPECT_NE(md.find("? better (hint)"), std::string::npos) << md;
   EXPECT_NE(md.find("2 pairs, too few"), std::string::npos) << md;
-  EXPECT_NE(md.find("| max tilt (deg) | 3.00 (2.00–4.00) | 2.00 (1.00–3.00) [2 of 3] |"),
+  EXPECT_NE(md.find("| max tilt (deg) | 3.00 (2.00–4.00) | 2.00 (1.00–3.00) | -33.3 % |"),
             std::string::npos)
       << md;
 }
@@ -274,6 +277,35 @@ TEST(CompareTable, LegendStatesTheTestAndItsLimits) {
   }
   // Three seeds: the spread is min–max, beside each mean.
   EXPECT_NE(md.find("| max tilt (deg) | 3.00 (2.00–4.00) | 1.83 (1.00–2.50) |"), std::string::npos)
+      << md;
+}
+
+// A fall ends a run early, so its totals are not those of the same task: a controller falling on
+// every seed at 1 s has a tenth of the IAE of one balancing for 8 s, and must not be called better
+// for it. Figures are compared over the seeds both survived; survival weighs the falls.
+TEST(CompareTable, FiguresAreComparedOverTheSeedsBothSurvived) {
+  BatchResult batch;
+  AddPairedRuns(&batch, "all_fell", "iae_tilt_deg_s", {8.0, 8.1, 8.2}, {0.8, 0.81, 0.82});
+  AddPairedRuns(&batch, "one_fell", "iae_tilt_deg_s", {8.0, 8.1, 8.2, 8.3}, {0.5, 9.0, 9.1, 9.3});
+  for (RunResult& run : batch.runs) {
+    const bool falls = run.scenario == "all_fell" || run.seed == 1;
+    if (run.controller == "ctl" && falls) run.metrics.status = RunStatus::kFell;
+  }
+  const auto dir = WriteTables(batch, "falls");
+  const CsvRecords csv = ReadRecords(dir / "compare.csv");
+  auto all = Row(csv, "all_fell", "iae_tilt_deg_s");
+  EXPECT_EQ(all["verdict"], "n/a");
+  EXPECT_EQ(all["pairs"], "0");
+  EXPECT_EQ(all["controller_mean"], "");
+  EXPECT_EQ(Row(csv, "all_fell", "survival_rate")["direction"], "worse");
+  // Seeds 2–4: differences 0.9, 1.0, 1.0, all worse; the fall's 0.5 on seed 1 stays out.
+  auto one = Row(csv, "one_fell", "iae_tilt_deg_s");
+  EXPECT_EQ(one["pairs"], "3");
+  EXPECT_EQ(one["baseline_mean"], "8.2");
+  EXPECT_EQ(one["direction"], "worse");
+  const std::string md = ReadText(dir / "compare.md");
+  EXPECT_NE(md.find("| IAE tilt (deg·s) | — | — | — | no seed both survived | — n/a |"),
+            std::string::npos)
       << md;
 }
 

@@ -19,6 +19,11 @@ bool Counts(double d, double baseline_mean, const MetricFloor& floor) {
   return std::fabs(d) >= floor.value;
 }
 
+// A run played to its end: the runs whose figures compare judges.
+bool Survived(const RunResult& run) {
+  return WasPlayed(run) && run.metrics.status == RunStatus::kOk;
+}
+
 // Where `d` points for a figure in the direction `higher_is_better`.
 Verdict Direction(double d, bool counts, bool higher_is_better) {
   if (std::isnan(d)) return Verdict::kNotApplicable;
@@ -79,15 +84,21 @@ Comparison CompareFigure(const ScenarioGroup& scenario, const MetricColumn& colu
   c.label = column.label;
   c.floor = FloorOf(column.name);
   c.test = "paired t";
-  c.baseline = StatsOver(baseline.runs, column.field);
-  c.controller = StatsOver(controller.runs, column.field);
+  // Over the seeds both survived: a fall ends a run early, so its totals (IAE, effort, energy)
+  // and extremes are not those of the same task; the survival row weighs the falls.
+  std::vector<const RunResult*> baseline_runs, controller_runs;
   std::vector<double> differences;
   for (const SeedPair& pair : PairBySeed(scenario, baseline, controller)) {
-    if (!WasPlayed(*pair.baseline) || !WasPlayed(*pair.other)) continue;
+    if (!Survived(*pair.baseline) || !Survived(*pair.other)) continue;
+    baseline_runs.push_back(pair.baseline);
+    controller_runs.push_back(pair.other);
     const double b = pair.baseline->metrics.*column.field;
     const double o = pair.other->metrics.*column.field;
     if (!std::isnan(b) && !std::isnan(o)) differences.push_back(o - b);
   }
+  c.seeds_compared = baseline_runs.size();
+  c.baseline = StatsOver(baseline_runs, column.field);
+  c.controller = StatsOver(controller_runs, column.field);
   const PairedT test = PairedTTest(differences);
   c.pairs = test.pairs;
   c.mean_diff = test.mean_diff;
@@ -136,7 +147,9 @@ std::string DifferenceText(const Comparison& c) {
   if (c.higher_is_better) return Signed(c.diff_abs * 100) + " pp";
   if (!std::isnan(c.diff_pct)) return Signed(c.diff_pct) + " %";
   std::string text = Signed(c.diff_abs);
-  if (*c.floor.unit != '\0') text += std::string(" ") + c.floor.unit;
+  // A difference of percentages is in percentage points.
+  const std::string unit = std::string(c.floor.unit) == "%" ? "pp" : c.floor.unit;
+  if (!unit.empty()) text += " " + unit;
   return text + " (abs.)";
 }
 
@@ -144,7 +157,9 @@ std::string DifferenceText(const Comparison& c) {
 // "McNemar p = 0.0313 (6 pairs)", "2 pairs, too few", "—".
 std::string TestText(const Comparison& c) {
   const std::string pairs = std::to_string(c.pairs) + (c.pairs == 1 ? " pair" : " pairs");
-  if (c.verdict == Verdict::kNotApplicable) return "—";
+  if (c.verdict == Verdict::kNotApplicable) {
+    return !c.higher_is_better && c.seeds_compared == 0 ? "no seed both survived" : "—";
+  }
   if (c.verdict == Verdict::kIndicative) return pairs + ", too few";
   std::string text = c.higher_is_better ? "McNemar "
                      : std::isnan(c.t)  ? std::string("no spread, ")
@@ -222,9 +237,11 @@ std::string CompareCsv(const std::vector<ScenarioGroup>& groups) {
 std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
   std::string md = "# Comparison against the baseline\n\n";
   md +=
-      "Per scenario, each controller against the scenario's baseline controller. Means are over "
-      "the seeds of the runs that were played and have a value, with their spread over the "
-      "seeds: min–max up to " +
+      "Per scenario, each controller against the scenario's baseline controller. Survival is "
+      "compared over every run; every other figure over the seeds on which both controllers "
+      "survived, since a fall ends a run early and its totals (IAE, effort, energy) and extremes "
+      "are not those of the same task (n/a when no seed was survived by both). Means are over "
+      "those seeds' runs that have a value, with their spread over the seeds: min–max up to " +
       std::to_string(kRangeUpToSeeds) + " seeds, ± the standard deviation (n − 1) above; " +
       SkippedNote() + ".\n\n";
   md +=
@@ -233,7 +250,7 @@ std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
       "figure's unit, marked (abs.). Floors: " +
       FloorsText() + ".\n\n";
   md +=
-      "Verdict: the runs are paired by seed (both played, both with a value) and the paired "
+      "Verdict: the runs are paired by seed (both survived, both with a value) and the paired "
       "t-test, two-sided at " +
       FormatNumber(kTestLevel * 100) +
       " %, is applied to the differences. Better or worse needs the test to reject and the mean "

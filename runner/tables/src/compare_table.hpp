@@ -33,6 +33,8 @@ struct Comparison {
   const char* label = "";   // compare.md label
   bool higher_is_better = false;
   MetricFloor floor;  // survival: {0, ""} (its difference is always a difference of rates)
+  // Figures: over the seeds both survived (seeds_compared of them); survival: over every run.
+  std::size_t seeds_compared = 0;
   FigureStats baseline, controller;
   double diff_abs = kNoValue;   // controller.mean − baseline.mean, in the figure's unit
   double diff_pct = kNoValue;   // diff_abs / |baseline.mean| · 100; NaN below the floor, survival

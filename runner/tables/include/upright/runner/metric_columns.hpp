@@ -1,5 +1,5 @@
 // The catalogue of RunMetrics figures as the tables show them: the CSV column name, the reading
-// label with its unit, and whether lower is better; and a run's outcome cells (status, survival,
+// label with its unit, whether lower is better and the floor of its comparisons; and a run's outcome cells (status, survival,
 // figures, message) in CSV. Every table of every results folder takes its columns from here.
 #pragma once
 
@@ -16,6 +16,10 @@ struct MetricColumn {
   const char* label;          // Markdown header, e.g. "max tilt (deg)"
   double RunMetrics::*field;  // the figure, read as metrics.*field
   bool compared;              // a lower-is-better figure that compare and ranking judge
+  // The floor of a compared figure (metric_floors.hpp): the smallest |baseline| of which a
+  // percentage means something, and the unit its differences read in ("deg", "%", "" for a ratio).
+  double floor = 0;
+  const char* unit = "";
 };
 
 // All numeric figures, in summary.csv order (fall_time_s … energy_J, end_time_s).
