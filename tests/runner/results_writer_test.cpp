@@ -13,6 +13,7 @@
 #include <string>
 #include <vector>
 
+#include "tables_test_support.hpp"
 #include "upright/runner/metric_columns.hpp"
 
 namespace upright::runner {
@@ -153,21 +154,11 @@ std::vector<std::string> Lines(const std::string& text) {
   return lines;
 }
 
-// Splits one CSV record without quoted fields.
-std::vector<std::string> Cells(const std::string& line) {
-  std::vector<std::string> cells;
-  std::string cell;
-  std::stringstream stream(line);
-  while (std::getline(stream, cell, ',')) cells.push_back(cell);
-  if (!line.empty() && line.back() == ',') cells.push_back("");
-  return cells;
-}
-
 // The compare.csv record for (scenario, controller, metric), or "" when missing.
 std::string CompareRecord(const std::string& csv, const std::string& scenario,
                           const std::string& controller, const std::string& metric) {
   for (const std::string& line : Lines(csv)) {
-    const std::vector<std::string> cells = Cells(line);
+    const std::vector<std::string> cells = testing::SplitRecord(line);
     if (cells.size() >= 4 && cells[0] == scenario && cells[2] == controller && cells[3] == metric) {
       return line;
     }
@@ -219,7 +210,8 @@ TEST_F(ResultsWriter, SummaryCsvHasOneRowPerRunWithExactCells) {
             "rms_tilt_deg,iae_tilt_deg_s,effort_Nm2s,peak_torque_Nm,peak_current_A,"
             "saturation_pct,command_limit_pct,max_slip_ratio,slip_time_s,energy_J,end_time_s,"
             "message");
-  EXPECT_EQ(lines[1], "ramp,lqr,1,true,ok,true,,2,0.125,1,2,1,10,0.5,1,10,2,4,0,0,0,0,20,5,survived");
+  EXPECT_EQ(lines[1],
+            "ramp,lqr,1,true,ok,true,,2,0.125,1,2,1,10,0.5,1,10,2,4,0,0,0,0,20,5,survived");
   // hinf seed 1: the unsettled drift and the inapplicable rebound are empty fields.
   EXPECT_EQ(lines[3],
             "ramp,hinf,1,false,ok,true,,1.5,0.25,1,,,,0.5,1,15,2,5,6.25,0,0,0,25,5,survived");
@@ -239,7 +231,7 @@ TEST_F(ResultsWriter, NumbersUseSixSignificantDigitsWithoutLocale) {
   batch.runs[1].metrics.effort_Nm2s = 0.000012345678;
   batch.runs[1].metrics.peak_torque_Nm = -0.0;
   const std::vector<std::string> cells =
-      Cells(Lines(Read(WriteInto("a", batch) / "summary.csv"))[2]);
+      testing::SplitRecord(Lines(Read(WriteInto("a", batch) / "summary.csv"))[2]);
   // printf("%.6g") of each value (C standard §7.21.6.1, the g conversion).
   EXPECT_EQ(cells[7], "3.14159");
   EXPECT_EQ(cells[22], "1.23457e+06");
@@ -284,11 +276,11 @@ TEST_F(ResultsWriter, SummaryMarkdownShowsMeansOverSeeds) {
 std::string CompareCell(const std::string& csv, const std::string& scenario,
                         const std::string& controller, const std::string& metric,
                         const std::string& column) {
-  const std::vector<std::string> header = Cells(Lines(csv)[0]);
+  const std::vector<std::string> header = testing::SplitRecord(Lines(csv)[0]);
   const auto at = std::find(header.begin(), header.end(), column);
   const std::string record = CompareRecord(csv, scenario, controller, metric);
   if (at == header.end() || record.empty()) return "?";
-  const std::vector<std::string> cells = Cells(record);
+  const std::vector<std::string> cells = testing::SplitRecord(record);
   const auto index = static_cast<std::size_t>(at - header.begin());
   return index < cells.size() ? cells[index] : "?";
 }
@@ -421,9 +413,9 @@ TEST_F(ResultsWriter, RankingOrderAndScoresWorkedByHand) {
             "values_skipped,rank_ramp,rank_shove");
   // Both survive everything: hinf's lower score first. pid fell once: last, whatever its score;
   // it did not run in shove, so has no rank there, is scored on ramp alone and is partial.
-  const std::vector<std::string> hinf_row = Cells(lines[1]);
-  const std::vector<std::string> lqr_row = Cells(lines[2]);
-  const std::vector<std::string> pid_row = Cells(lines[3]);
+  const std::vector<std::string> hinf_row = testing::SplitRecord(lines[1]);
+  const std::vector<std::string> lqr_row = testing::SplitRecord(lines[2]);
+  const std::vector<std::string> pid_row = testing::SplitRecord(lines[3]);
   ASSERT_EQ(hinf_row.size(), 11u);
   ASSERT_EQ(pid_row.size(), 11u);
   EXPECT_EQ(hinf_row[1], "hinf");
@@ -468,14 +460,14 @@ TEST_F(ResultsWriter, RankingPutsSurvivalFirstThenScoreThenName) {
   }
   const std::vector<std::string> lines = Lines(Read(WriteInto("a", batch) / "ranking.csv"));
   ASSERT_EQ(lines.size(), 4u);
-  EXPECT_EQ(Cells(lines[1])[1], "alpha");
-  EXPECT_EQ(Cells(lines[2])[1], "zeta");
-  EXPECT_EQ(Cells(lines[3])[1], "risky");
+  EXPECT_EQ(testing::SplitRecord(lines[1])[1], "alpha");
+  EXPECT_EQ(testing::SplitRecord(lines[2])[1], "zeta");
+  EXPECT_EQ(testing::SplitRecord(lines[3])[1], "risky");
   // risky's mean is the smallest of every figure, the others' twice as large (all saturations
   // are 0, so that figure is left out): scores 1 and 2. Only the fall puts risky last.
-  EXPECT_EQ(Cells(lines[3])[5], "1");
-  EXPECT_EQ(Cells(lines[1])[5], "2");
-  EXPECT_EQ(Cells(lines[2])[5], "2");
+  EXPECT_EQ(testing::SplitRecord(lines[3])[5], "1");
+  EXPECT_EQ(testing::SplitRecord(lines[1])[5], "2");
+  EXPECT_EQ(testing::SplitRecord(lines[2])[5], "2");
 }
 
 TEST_F(ResultsWriter, RunsThatWereNotPlayedCountAsLostButNotInMeans) {

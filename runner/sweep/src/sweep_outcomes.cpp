@@ -31,17 +31,8 @@ PairedCounts PairWithBaseline(const SweepResult& result, std::size_t controller)
   const std::size_t baseline = BaselineIndex(result);
   PairedCounts counts;
   for (const SweepSample& sample : result.samples) {
-    const bool b = Survived(result.run(sample.index, baseline));
-    const bool o = Survived(result.run(sample.index, controller));
-    if (b && o) {
-      ++counts.both;
-    } else if (b) {
-      ++counts.only_baseline;
-    } else if (o) {
-      ++counts.only_other;
-    } else {
-      ++counts.neither;
-    }
+    counts.Add(Survived(result.run(sample.index, baseline)),
+               Survived(result.run(sample.index, controller)));
   }
   return counts;
 }

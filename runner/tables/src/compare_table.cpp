@@ -47,19 +47,9 @@ Comparison CompareSurvival(const ScenarioGroup& scenario, const ControllerGroup&
   PairedCounts counts;
   for (const SeedPair& pair : PairBySeed(scenario, baseline, controller)) {
     if (!WasPlayed(*pair.baseline) || !WasPlayed(*pair.other)) continue;
-    const bool b = pair.baseline->metrics.status == RunStatus::kOk;
-    const bool o = pair.other->metrics.status == RunStatus::kOk;
-    if (b && o) {
-      ++counts.both;
-    } else if (b) {
-      ++counts.only_baseline;
-    } else if (o) {
-      ++counts.only_other;
-    } else {
-      ++counts.neither;
-    }
+    counts.Add(Survived(*pair.baseline), Survived(*pair.other));
   }
-  c.pairs = counts.both + counts.only_baseline + counts.only_other + counts.neither;
+  c.pairs = counts.pairs();
   if (c.pairs > 0) {
     c.mean_diff =
         (static_cast<double>(counts.only_other) - static_cast<double>(counts.only_baseline)) /

@@ -14,6 +14,20 @@ struct PairedCounts {
   std::size_t only_baseline = 0;  // the baseline survived, the other did not
   std::size_t only_other = 0;     // the other survived, the baseline did not
   std::size_t neither = 0;        // both fell (or failed)
+
+  // Counts one pair by whether each side survived.
+  void Add(bool baseline_survived, bool other_survived) {
+    if (baseline_survived && other_survived) {
+      ++both;
+    } else if (baseline_survived) {
+      ++only_baseline;
+    } else if (other_survived) {
+      ++only_other;
+    } else {
+      ++neither;
+    }
+  }
+  std::size_t pairs() const { return both + only_baseline + only_other + neither; }
 };
 
 // Exact two-sided McNemar test (McNemar 1947) on the discordant pairs: under "no difference"
