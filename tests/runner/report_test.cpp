@@ -238,6 +238,17 @@ TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
     EXPECT_EQ(count(mark), n + Count(VerdictLegend(), mark)) << mark;
     EXPECT_GE(Count(md, mark), n) << mark;
   }
+  // Each controller is compared over the seeds both it and the baseline survived, so every
+  // cell carries both means ("7.95 vs 6.18"), under a heading "<controller> vs <baseline>".
+  const int controller_column = compare.Column("controller");
+  const int baseline_column = compare.Column("baseline");
+  for (const auto& row : compare.rows) {
+    EXPECT_NE(html.find(">" + row[controller_column] + " vs " + row[baseline_column] + "</th>"),
+              std::string::npos)
+        << row[controller_column];
+  }
+  EXPECT_GE(count(" vs "), compare.rows.size());
+  EXPECT_EQ(count("(baseline)</th>"), 0u);
   EXPECT_EQ(count("▲"), 0u);
   EXPECT_EQ(count("▼"), 0u);
   // Headings read as words with their units, never as raw column names.

@@ -283,22 +283,8 @@ void AppendSummaryTable(const CsvTable& summary, const ScenarioRuns& scenario, s
   *html += table.Html("Summary: every run (summary.csv); – : does not apply");
 }
 
-// A compare.csv difference for display: "-50 %", "+0.42 A (abs.)" below the floor, "-50 pp" for
-// survival; "" when there is none.
-std::string DifferenceText(const std::string& metric, const std::string& better_when,
-                           double diff_abs, double diff_pct) {
-  const auto sign = [](double v) { return std::string(v > 0 ? "+" : ""); };
-  if (better_when == "higher" && std::isfinite(diff_abs)) {
-    return sign(diff_abs) + FormatSignificant(diff_abs * 100, 3) + " pp";
-  }
-  if (std::isfinite(diff_pct)) return sign(diff_pct) + FormatSignificant(diff_pct, 3) + " %";
-  if (!std::isfinite(diff_abs)) return "";
-  const std::string unit = FloorOf(metric).unit;
-  return sign(diff_abs) + FormatSignificant(diff_abs, 3) + (unit.empty() ? "" : " " + unit) +
-         " (abs.)";
-}
-
-// compare.csv of one scenario as metric rows × controller columns.
+// compare.csv of one scenario as metric rows × controller columns. Each controller is compared
+// with the baseline over the seeds both survived, so a cell carries both means.
 bool AppendCompareTable(const CsvTable& compare, const std::string& path,
                         const ScenarioRuns& scenario, std::string* html, std::string* error) {
   std::vector<int> c;
@@ -310,7 +296,7 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
   }
   std::vector<std::string> metrics, controllers;
   std::map<std::pair<std::string, std::string>, const std::vector<std::string>*> cell;
-  std::map<std::string, const std::vector<std::string>*> by_metric;
+  std::map<std::string, std::string> better_when;
   std::string baseline;
   for (const auto& row : compare.rows) {
     if (row[c[0]] != scenario.name) continue;
@@ -319,7 +305,7 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
     const std::string& metric = row[c[3]];
     if (std::find(metrics.begin(), metrics.end(), metric) == metrics.end()) {
       metrics.push_back(metric);
-      by_metric[metric] = &row;
+      better_when[metric] = row[c[4]];
     }
     if (std::find(controllers.begin(), controllers.end(), controller) == controllers.end()) {
       controllers.push_back(controller);
@@ -327,25 +313,22 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
     cell[{metric, controller}] = &row;
   }
   if (metrics.empty()) return true;
-  std::vector<std::string> header = {"figure", "better when", baseline + " (baseline)"};
-  std::vector<bool> numeric = {false, false, true};
+  std::vector<std::string> header = {"figure", "better when"};
+  std::vector<bool> numeric = {false, false};
   for (const auto& name : controllers) {
-    header.push_back(name);
+    header.push_back(name + " vs " + baseline);
     numeric.push_back(true);
   }
   HtmlTable table(header, numeric);
   for (const std::string& metric : metrics) {
-    const auto& first = *by_metric[metric];
     // Survival shows as a percentage of runs, as in compare.md.
-    const bool survival = first[c[4]] == "higher";
-    const auto mean_cell = [&](const std::string& text) {
+    const bool survival = better_when[metric] == "higher";
+    const auto mean_text = [&](const std::string& text) {
       const double value = CsvNumber(text);
-      return survival && std::isfinite(value)
-                 ? HtmlCell{FormatSignificant(value * 100, 3), true, ""}
-                 : NumberCell(text);
+      if (!std::isfinite(value)) return std::string("–");
+      return survival ? FormatSignificant(value * 100, 3) : NumberCell(text).text;
     };
-    std::vector<HtmlCell> cells = {
-        {Heading(metric), false, ""}, {first[c[4]], false, ""}, mean_cell(first[c[5]])};
+    std::vector<HtmlCell> cells = {{Heading(metric), false, ""}, {better_when[metric], false, ""}};
     for (const std::string& controller : controllers) {
       const auto found = cell.find({metric, controller});
       if (found == cell.end()) {
@@ -353,10 +336,13 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
         continue;
       }
       const auto& row = *found->second;
-      std::string text = mean_cell(row[c[6]]).text;
-      const std::string diff =
-          DifferenceText(metric, row[c[4]], CsvNumber(row[c[7]]), CsvNumber(row[c[8]]));
-      if (!diff.empty()) text += " (" + diff + ")";
+      std::string text = mean_text(row[c[6]]) + " vs " + mean_text(row[c[5]]);
+      const double diff_abs = CsvNumber(row[c[7]]);
+      if (std::isfinite(diff_abs)) {
+        text += " (" +
+                DifferenceText(diff_abs, CsvNumber(row[c[8]]), FloorOf(metric).unit, survival) +
+                ")";
+      }
       Verdict verdict = Verdict::kNotApplicable, direction = Verdict::kNotApplicable;
       FromString(row[c[10]], &verdict);
       FromString(row[c[9]], &direction);
@@ -371,7 +357,9 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
   }
   *html += table.Html(
       "Against the baseline (compare.csv; compare.md gives the spreads and the paired tests): "
-      "mean over seeds, difference in % of the baseline (in the figure's unit below its floor, "
+      "each cell is the controller's mean vs the baseline's, survival over every run and every "
+      "other figure over the seeds both survived (a fall ends a run early, so its totals are not "
+      "comparable); the difference in % of the baseline (in the figure's unit below its floor, "
       "\"abs.\"; survival in percentage points, pp). " +
       VerdictLegend() + ".");
   return true;

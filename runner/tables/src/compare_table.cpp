@@ -125,24 +125,6 @@ void AppendStatsCells(std::string* csv, const FigureStats& stats) {
   AppendNumberCell(csv, stats.sd);
 }
 
-// "+1.50" from 3 significant digits, a sign on every non-zero value.
-std::string Signed(double value) {
-  std::string text = FormatReadable(value);
-  return value > 0 ? "+" + text : text;
-}
-
-// compare.md's difference: "-50.0 %", "+0.42 A (abs.)", "-50.0 pp" for survival; "—" for none.
-std::string DifferenceText(const Comparison& c) {
-  if (std::isnan(c.diff_abs)) return "—";
-  if (c.higher_is_better) return Signed(c.diff_abs * 100) + " pp";
-  if (!std::isnan(c.diff_pct)) return Signed(c.diff_pct) + " %";
-  std::string text = Signed(c.diff_abs);
-  // A difference of percentages is in percentage points.
-  const std::string unit = std::string(c.floor.unit) == "%" ? "pp" : c.floor.unit;
-  if (!unit.empty()) text += " " + unit;
-  return text + " (abs.)";
-}
-
 // compare.md's test cell: "t = -3.20, p = 0.0410 (3 pairs)", "no spread, p = 1.00 (3 pairs)",
 // "McNemar p = 0.0313 (6 pairs)", "2 pairs, too few", "—".
 std::string TestText(const Comparison& c) {
@@ -285,7 +267,8 @@ std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
         md += std::string("| ") + c.label + " |";
         AppendMarkdownCell(&md, MeanWithSpread(c.baseline, spread, scale));
         AppendMarkdownCell(&md, MeanWithSpread(c.controller, spread, scale));
-        AppendMarkdownCell(&md, DifferenceText(c));
+        AppendMarkdownCell(
+            &md, DifferenceText(c.diff_abs, c.diff_pct, c.floor.unit, c.higher_is_better));
         AppendMarkdownCell(&md, TestText(c));
         AppendMarkdownCell(&md, VerdictMark(c.verdict, c.direction));
         md += '\n';

@@ -1,5 +1,9 @@
 #include "upright/runner/verdict.hpp"
 
+#include <cmath>
+
+#include "upright/runner/text_format.hpp"
+
 namespace upright::runner {
 
 const char* ToString(Verdict verdict) {
@@ -46,6 +50,27 @@ std::string VerdictMark(Verdict verdict, Verdict direction) {
       break;
   }
   return "— n/a";
+}
+
+namespace {
+
+// "+1.50" from 3 significant digits, a sign on every non-zero value.
+std::string Signed(double value) {
+  std::string text = FormatReadable(value);
+  return value > 0 ? "+" + text : text;
+}
+
+}  // namespace
+
+std::string DifferenceText(double diff_abs, double diff_pct, std::string_view unit, bool rate) {
+  if (std::isnan(diff_abs)) return "—";
+  if (rate) return Signed(diff_abs * 100) + " pp";
+  if (!std::isnan(diff_pct)) return Signed(diff_pct) + " %";
+  // A difference of percentages is in percentage points.
+  const std::string_view shown = unit == "%" ? std::string_view("pp") : unit;
+  std::string text = Signed(diff_abs);
+  if (!shown.empty()) text += " " + std::string(shown);
+  return text + " (abs.)";
 }
 
 std::string VerdictLegend() {

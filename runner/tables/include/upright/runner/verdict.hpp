@@ -24,6 +24,12 @@ bool FromString(std::string_view text, Verdict* verdict);
 // for kIndicative.
 std::string VerdictMark(Verdict verdict, Verdict direction = Verdict::kNotApplicable);
 
+// The difference of a comparison as a person reads it, 3 significant digits: "-50.0 %" of the
+// baseline; below the figure's floor (diff_pct NaN) "+0.420 A (abs.)" in the figure's `unit`, in
+// percentage points for a figure that is itself a percentage ("%"); "-50.0 pp" for a difference
+// of rates (`rate`, diff_abs a fraction); "—" when diff_abs is NaN.
+std::string DifferenceText(double diff_abs, double diff_pct, std::string_view unit, bool rate);
+
 // One sentence saying what every mark means, for the legends of compare.md and the report.
 std::string VerdictLegend();
 
