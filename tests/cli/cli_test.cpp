@@ -328,6 +328,20 @@ TEST(Cli, DesignRefusesARateOfZeroByItsFlag) {
   }
 }
 
+TEST(Cli, DesignRefusesAValueThatIsNoFiniteNumberSayingSo) {
+  // "--rate = inf: must be > 0" would be false (infinity is > 0), and NaN printed as "-"
+  // unreadable.
+  for (const auto& [args, expected] :
+       {std::pair<std::string, std::string>{"--rate inf", "--rate = inf: must be finite and > 0"},
+        {"--gamma inf", "--gamma = inf: must be finite and > 0"},
+        {"--push-height-m nan", "--push-height-m = nan: must be finite and >= 0"},
+        {"--push-scale-N -inf", "--push-scale-N = -inf: must be finite and > 0"}}) {
+    const Result r = RunUpright("design " + args + " " + Models() + "courier.xml");
+    EXPECT_EQ(r.exit_code, 2) << args << "\n" << r.output;
+    EXPECT_EQ(r.output.rfind(expected, 0), 0u) << args << "\n" << r.output;
+  }
+}
+
 // A short scenario for the courier robot: two built-ins, a half-sine shove.
 std::string ShortScenario(const std::string& name, const std::string& extra = "") {
   return WriteTemp(name + ".xml", R"(<scenario name=")" + name + R"(" schema="1" duration_s="2">
