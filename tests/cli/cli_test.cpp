@@ -565,6 +565,27 @@ TEST(Cli, RunTakesAFolderAsItsScenarioFilesByName) {
       << none.output;
 }
 
+TEST(Cli, RunOfTheWorkingFolderWritesIntoResultsUnderItsName) {
+  // `upright run .` in a folder of scenarios: the default results folder is named after the
+  // folder ("results/<folder name>/"), not "results/." (the results folder itself).
+  const auto folder = TempOut("here");
+  std::filesystem::create_directories(folder);
+  std::filesystem::copy_file(ShortScenario("one"), folder / "one.xml");
+  std::filesystem::copy_file(ShortScenario("two"), folder / "two.xml");
+  for (const char* arg : {".", "./"}) {
+    std::filesystem::remove_all(folder / "results");
+    const Result r =
+        RunUpright(std::string("run ") + arg + " --seeds 1 --trace-rate 0", folder.string());
+    ASSERT_EQ(r.exit_code, 0) << r.output;
+    EXPECT_NE(r.output.find("2 scenario(s), 4 run(s) into results/here\n"), std::string::npos)
+        << arg << "\n"
+        << r.output;
+    EXPECT_TRUE(std::filesystem::is_regular_file(folder / "results" / "here" / "summary.csv"))
+        << arg;
+    EXPECT_FALSE(std::filesystem::exists(folder / "results" / "summary.csv")) << arg;
+  }
+}
+
 TEST(Cli, RunOffATerminalLogsPlainProgressLines) {
   // stderr into a file, as in a CI job: no carriage returns, and a plain line for the end.
   const auto out = TempOut("progress");
