@@ -45,7 +45,9 @@ std::map<std::string, std::string> Row(const CsvRecords& csv, const std::string&
 // percentages of near-zero baselines again), in the figure's own unit.
 TEST(MetricFloors, EveryJudgedFigureHasOneInItsUnit) {
   for (const MetricColumn& column : MetricColumns()) {
-    if (column.compared) EXPECT_GT(FloorOf(column.name).value, 0) << column.name;
+    if (column.compared) {
+      EXPECT_GT(FloorOf(column.name).value, 0) << column.name;
+    }
   }
   EXPECT_EQ(FloorOf("iae_tilt_deg_s").value, 0.1);  // deg·s, not the 0.05 s of a settling time
   EXPECT_STREQ(FloorOf("iae_tilt_deg_s").unit, "deg·s");
