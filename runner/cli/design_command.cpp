@@ -290,35 +290,36 @@ std::string InFlagTerms(const std::string& message) {
 // The typed options into *request: a value given must be a real one (the request's 0 or -1
 // "default" cannot be typed). False with the message, naming the flag, in *error.
 bool ResolveFlags(const DesignOptions& o, design::DesignRequest* request, std::string* error) {
+  // "--rate = inf: must be finite and > 0 (...)": a value that is no finite number is told so.
   const auto refuse = [&](const char* flag, double value, const char* rule) {
-    *error = std::string(flag) + " = " + Figure(value, "%g") + ": " + rule;
+    char text[32];
+    std::snprintf(text, sizeof text, "%g", value);
+    *error = std::string(flag) + " = " + text + ": must be " +
+             (std::isfinite(value) ? "" : "finite and ") + rule;
     return false;
   };
   if (o.rate_hz) {
     if (!(*o.rate_hz > 0) || !std::isfinite(*o.rate_hz)) {
-      return refuse("--rate", *o.rate_hz,
-                    "must be > 0 (leave it out for the model's control rate_hz)");
+      return refuse("--rate", *o.rate_hz, "> 0 (leave it out for the model's control rate_hz)");
     }
     request->rate_hz = *o.rate_hz;
   }
   if (o.gamma) {
     if (!(*o.gamma > 0) || !std::isfinite(*o.gamma)) {
-      return refuse("--gamma", *o.gamma,
-                    "must be > 0 (leave it out for --gamma-factor x gamma_opt)");
+      return refuse("--gamma", *o.gamma, "> 0 (leave it out for --gamma-factor x gamma_opt)");
     }
     request->gamma = *o.gamma;
   }
   if (o.push_height_m) {
     if (!(*o.push_height_m >= 0) || !std::isfinite(*o.push_height_m)) {
-      return refuse("--push-height-m", *o.push_height_m,
-                    "must be >= 0 (leave it out for the COM height)");
+      return refuse("--push-height-m", *o.push_height_m, ">= 0 (leave it out for the COM height)");
     }
     request->push_height_m = *o.push_height_m;
   }
   if (o.push_scale_N) {
     if (!(*o.push_scale_N > 0) || !std::isfinite(*o.push_scale_N)) {
       return refuse("--push-scale-N", *o.push_scale_N,
-                    "must be > 0 (leave it out for 10 % of the robot's weight)");
+                    "> 0 (leave it out for 10 % of the robot's weight)");
     }
     request->push_scale_N = *o.push_scale_N;
   }

@@ -30,9 +30,13 @@ namespace fs = std::filesystem;
 // they share ("batch" when they do not).
 std::string DefaultOutDir(const std::vector<runner::Scenario>& scenarios) {
   if (scenarios.size() == 1) return "results/" + scenarios.front().name;
-  const fs::path folder = fs::absolute(scenarios.front().path).parent_path();
+  // Normalised, so that the scenarios of `upright run .` share the working folder's own name.
+  const auto folder_of = [](const std::string& path) {
+    return fs::absolute(path).lexically_normal().parent_path();
+  };
+  const fs::path folder = folder_of(scenarios.front().path);
   for (const auto& s : scenarios) {
-    if (fs::absolute(s.path).parent_path() != folder) return "results/batch";
+    if (folder_of(s.path) != folder) return "results/batch";
   }
   return "results/" + folder.filename().string();
 }

@@ -63,6 +63,18 @@ std::string BrokenCopy(const std::string& name, const std::string& from, const s
   return WriteTemp(name, text);
 }
 
+// ":N:" for the line of `path` on which `needle` first stands, as a message gives it, so that a
+// test does not depend on the layout of a demo file.
+std::string LineOf(const std::string& path, const std::string& needle) {
+  std::ifstream in(path);
+  std::string line;
+  for (int n = 1; std::getline(in, line); ++n) {
+    if (line.find(needle) != std::string::npos) return ":" + std::to_string(n) + ":";
+  }
+  ADD_FAILURE() << needle << " not in " << path;
+  return ":?:";
+}
+
 TEST(Cli, VersionPrintsTheToolVersion) {
   const Result r = RunUpright("--version");
   EXPECT_EQ(r.exit_code, 0);
@@ -111,7 +123,9 @@ TEST(Cli, CheckReportsABrokenModelWithItsLineAndExitsTwo) {
   const std::string bad = BrokenCopy("courier.xml", "mass_kg=\"24\"", "mass_kg=\"-24\"");
   const Result r = RunUpright("check " + Models() + "tabletop.xml " + bad);
   EXPECT_EQ(r.exit_code, 2);
-  EXPECT_NE(r.output.find(bad + ":22: chassis mass_kg = -24"), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find(bad + LineOf(bad, "mass_kg=\"-24\"") + " chassis mass_kg = -24"),
+            std::string::npos)
+      << r.output;
   EXPECT_NE(r.output.find("1 of 2 file(s) invalid"), std::string::npos) << r.output;
 }
 
@@ -137,11 +151,11 @@ TEST(Cli, CheckTellsASchemaOneModelTheNamesThatReplacedItsOwn) {
   const std::string old = WriteTemp("courier-schema-1.xml", text);
   const Result r = RunUpright("check " + old);
   EXPECT_EQ(r.exit_code, 2) << r.output;
-  EXPECT_NE(r.output.find(old +
-                          ":21: <robot> is the former name of this file's root element: "
+  EXPECT_NE(r.output.find(old + LineOf(old, "<robot ") +
+                          " <robot> is the former name of this file's root element: "
                           "rename it <balancer> (schema 2)\n" +
-                          old +
-                          ":23: chassis: <inertia> is the former name of this element: "
+                          old + LineOf(old, "<inertia ") +
+                          " chassis: <inertia> is the former name of this element: "
                           "rename it <principal_moments> (schema 2)\n"),
             std::string::npos)
       << r.output;
@@ -328,6 +342,20 @@ TEST(Cli, DesignRefusesARateOfZeroByItsFlag) {
   }
 }
 
+TEST(Cli, DesignRefusesAValueThatIsNoFiniteNumberSayingSo) {
+  // "--rate = inf: must be > 0" would be false (infinity is > 0), and NaN printed as "-"
+  // unreadable.
+  for (const auto& [args, expected] :
+       {std::pair<std::string, std::string>{"--rate inf", "--rate = inf: must be finite and > 0"},
+        {"--gamma inf", "--gamma = inf: must be finite and > 0"},
+        {"--push-height-m nan", "--push-height-m = nan: must be finite and >= 0"},
+        {"--push-scale-N -inf", "--push-scale-N = -inf: must be finite and > 0"}}) {
+    const Result r = RunUpright("design " + args + " " + Models() + "courier.xml");
+    EXPECT_EQ(r.exit_code, 2) << args << "\n" << r.output;
+    EXPECT_EQ(r.output.rfind(expected, 0), 0u) << args << "\n" << r.output;
+  }
+}
+
 // A short scenario for the courier robot: two built-ins, a half-sine shove.
 std::string ShortScenario(const std::string& name, const std::string& extra = "") {
   return WriteTemp(name + ".xml", R"(<scenario name=")" + name + R"(" schema="1" duration_s="2">
@@ -436,8 +464,9 @@ TEST(Cli, CheckRefusesAModelWhoseImuMissesTheDefaultStep) {
       BrokenCopy("courier.xml", R"(<imu rate_hz="1000")", R"(<imu rate_hz="400")");
   const Result r = RunUpright("check " + bad);
   EXPECT_EQ(r.exit_code, 2) << r.output;
-  EXPECT_NE(r.output.find(bad + ":32: sensors/imu rate_hz = 400: its period is 2.5 physics "
-                                "steps of the default dt_s = 0.001 s"),
+  EXPECT_NE(r.output.find(bad + LineOf(bad, "<imu ") +
+                          " sensors/imu rate_hz = 400: its period is 2.5 physics steps of the "
+                          "default dt_s = 0.001 s"),
             std::string::npos)
       << r.output;
 }
@@ -452,7 +481,8 @@ TEST(Cli, CheckOfAFolderChecksItsXmlFilesOnly) {
   fs::copy_file(Models() + "tabletop.xml", folder / "sub" / "c.xml");  // not looked into
   const Result r = RunUpright("check " + folder.string());
   EXPECT_EQ(r.exit_code, 2) << r.output;
-  EXPECT_NE(r.output.find((folder / "a.xml").string() + ":22: chassis mass_kg = -24"),
+  const std::string a = (folder / "a.xml").string();
+  EXPECT_NE(r.output.find(a + LineOf(a, "mass_kg=\"-24\"") + " chassis mass_kg = -24"),
             std::string::npos)
       << r.output;
   EXPECT_NE(r.output.find((folder / "b.xml").string() + ": ok (robot model 'tabletop')\n"),
@@ -549,6 +579,27 @@ TEST(Cli, RunTakesAFolderAsItsScenarioFilesByName) {
                              ": a folder with no scenario files (*.xml whose root is <scenario>)"),
             std::string::npos)
       << none.output;
+}
+
+TEST(Cli, RunOfTheWorkingFolderWritesIntoResultsUnderItsName) {
+  // `upright run .` in a folder of scenarios: the default results folder is named after the
+  // folder ("results/<folder name>/"), not "results/." (the results folder itself).
+  const auto folder = TempOut("here");
+  std::filesystem::create_directories(folder);
+  std::filesystem::copy_file(ShortScenario("one"), folder / "one.xml");
+  std::filesystem::copy_file(ShortScenario("two"), folder / "two.xml");
+  for (const char* arg : {".", "./"}) {
+    std::filesystem::remove_all(folder / "results");
+    const Result r =
+        RunUpright(std::string("run ") + arg + " --seeds 1 --trace-rate 0", folder.string());
+    ASSERT_EQ(r.exit_code, 0) << r.output;
+    EXPECT_NE(r.output.find("2 scenario(s), 4 run(s) into results/here\n"), std::string::npos)
+        << arg << "\n"
+        << r.output;
+    EXPECT_TRUE(std::filesystem::is_regular_file(folder / "results" / "here" / "summary.csv"))
+        << arg;
+    EXPECT_FALSE(std::filesystem::exists(folder / "results" / "summary.csv")) << arg;
+  }
 }
 
 TEST(Cli, RunOffATerminalLogsPlainProgressLines) {

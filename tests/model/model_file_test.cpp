@@ -335,6 +335,13 @@ TEST(ModelFile, RejectsWrongRoot) {
             Lines{"mini.xml:1: root element is <scenario>, expected <balancer>"});
 }
 
+// A <robot> file of another format (it states no schema, as every upright model file did) is not
+// an old upright model: it is told the root expected, not to rename its root.
+TEST(ModelFile, RejectsARobotRootOfAnotherFormatWithoutCallingItAFormerName) {
+  EXPECT_EQ(Errors("<robot name=\"arm\">\n  <link name=\"base\"/>\n</robot>"),
+            Lines{"mini.xml:1: root element is <robot>, expected <balancer>"});
+}
+
 // kMinimal written in schema 1's names: root <robot>, <inertia> for <principal_moments>.
 std::string InSchemaOne() {
   std::string text =
@@ -654,10 +661,12 @@ TEST(ModelFile, AcceptsChassisInertiaOfAFlatPlate) {
   const std::string plate = Edit(R"(pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3")",
                                  R"(pitch_kgm2="0.9" roll_kgm2="0.3" yaw_kgm2="0.6")");
   EXPECT_EQ(Errors(plate), Lines{});
-  EXPECT_EQ(Errors(Edit(R"(pitch_kgm2="0.9")", R"(pitch_kgm2="0.9001")", plate)),
-            Lines{"mini.xml:3: chassis/principal_moments pitch_kgm2 = 0.9001, roll_kgm2 = 0.3, yaw_kgm2 = "
-                  "0.6: each moment must be <= the sum of the other two (no rigid body has "
-                  "these)"});
+  EXPECT_EQ(
+      Errors(Edit(R"(pitch_kgm2="0.9")", R"(pitch_kgm2="0.9001")", plate)),
+      Lines{
+          "mini.xml:3: chassis/principal_moments pitch_kgm2 = 0.9001, roll_kgm2 = 0.3, yaw_kgm2 = "
+          "0.6: each moment must be <= the sum of the other two (no rigid body has "
+          "these)"});
 }
 
 TEST(ModelFile, ImuPeriodMustFitTheDefaultPhysicsStep) {

@@ -274,6 +274,21 @@ TEST(XmlReader, SaysInWordsWhatIsWrongWithAnElement) {
                   "closed)"});
 }
 
+// A file that ends right after an opening tag (cut short while written): the parser calls it a
+// mismatched element, but no closing tag follows; the message must not say one does.
+TEST(XmlReader, AnElementOpenAtTheVeryEndIsNotClosedRatherThanMismatched) {
+  EXPECT_EQ(Malformed("<r>\n  <a x=\"1\">"),
+            Lines{"t.xml:2: malformed XML: the element <a> opened on this line is not closed "
+                  "before the end of the file"});
+  EXPECT_EQ(Malformed("<r>"), Lines{"t.xml:1: malformed XML: the element <r> opened on this line "
+                                    "is not closed before the end of the file"});
+  // A closing tag of another element after it is a mismatch.
+  EXPECT_EQ(Malformed("<r>\n  <a>\n</b>"),
+            Lines{"t.xml:2: malformed XML: mismatched closing tag: the element <a> opened on this "
+                  "line is closed by another element's closing tag (expected </a>, or <a .../> "
+                  "for an element with no content)"});
+}
+
 TEST(XmlReader, SaysInWordsWhatIsNotClosed) {
   EXPECT_EQ(Malformed("<r>\n  <!-- a note\n</r>"),
             Lines{"t.xml:2: malformed XML: a comment is not closed (expected -->)"});

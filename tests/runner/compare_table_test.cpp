@@ -45,7 +45,9 @@ std::map<std::string, std::string> Row(const CsvRecords& csv, const std::string&
 // percentages of near-zero baselines again), in the figure's own unit.
 TEST(MetricFloors, EveryJudgedFigureHasOneInItsUnit) {
   for (const MetricColumn& column : MetricColumns()) {
-    if (column.compared) EXPECT_GT(FloorOf(column.name).value, 0) << column.name;
+    if (column.compared) {
+      EXPECT_GT(FloorOf(column.name).value, 0) << column.name;
+    }
   }
   EXPECT_EQ(FloorOf("iae_tilt_deg_s").value, 0.1);  // deg·s, not the 0.05 s of a settling time
   EXPECT_STREQ(FloorOf("iae_tilt_deg_s").unit, "deg·s");
@@ -194,6 +196,38 @@ TEST(CompareTable, TooFewPairsAreIndicative) {
       << md;
 }
 
+// A settling time a run did not reach within the window is no value, so the paired test sees only
+// the seeds both settled on. A controller that settles faster where it settles but never on two
+// seeds the baseline settled on is not "better": the verdict is indicative, the test's direction a
+// hint; the same the other way for "worse".
+TEST(CompareTable, SeedsSettledOnOneSideOnlyWithholdTheVerdictTheyContradict) {
+  BatchResult batch;
+  AddPairedRuns(&batch, "unsettled_ctl", "tilt_settle_s", {1.0, 1.5, 2.0, 1.0, 1.5},
+                {0.5, 1.0, 1.5, kNaN, kNaN});
+  AddPairedRuns(&batch, "unsettled_base", "tilt_settle_s", {1.0, 1.5, 2.0, kNaN, kNaN},
+                {2.0, 2.5, 3.0, 2.0, 2.5});
+  AddPairedRuns(&batch, "agrees", "tilt_settle_s", {1.0, 1.5, 2.0, kNaN, kNaN},
+                {0.5, 1.0, 1.5, 0.5, 1.0});
+  const auto dir = WriteTables(batch, "one-sided");
+  const CsvRecords csv = ReadRecords(dir / "compare.csv");
+  auto ctl = Row(csv, "unsettled_ctl", "tilt_settle_s");
+  EXPECT_EQ(ctl["pairs"], "3");
+  EXPECT_EQ(ctl["p_value"], "0");  // -0.5 on each of the three: certain where both settled
+  EXPECT_EQ(ctl["controller_skipped"], "2");
+  EXPECT_EQ(ctl["direction"], "better");
+  EXPECT_EQ(ctl["verdict"], "indicative");
+  auto base = Row(csv, "unsettled_base", "tilt_settle_s");
+  EXPECT_EQ(base["direction"], "worse");
+  EXPECT_EQ(base["verdict"], "indicative");
+  // Seeds settled by the controller alone agree with "better": it stands.
+  EXPECT_EQ(Row(csv, "agrees", "tilt_settle_s")["verdict"], "better");
+  const std::string md = ReadText(dir / "compare.md");
+  EXPECT_NE(md.find("t = -inf, p = 0 (3 pairs); 2 seeds with a value on one side only | "
+                    "? better (hint) |"),
+            std::string::npos)
+      << md;
+}
+
 // The same difference on every seed leaves no spread: a non-zero one is sure (t infinite, p 0),
 // a zero one is none (p 1).
 TEST(CompareTable, IdenticalDifferencesAreSureOrNone) {
@@ -272,7 +306,7 @@ TEST(CompareTable, LegendStatesTheTestAndItsLimits) {
   for (const char* phrase :
        {"paired t-test, two-sided at 5 %", "fewer than 3 pairs", "0.5 % of the baseline mean",
         "exact McNemar test", "fewer than 6 pairs", "min–max up to 5 seeds", "✔ better and ✘ worse",
-        "≈ same", "(hint)"}) {
+        "≈ same", "(hint)", "only one side has a value", "the verdict is withheld"}) {
     EXPECT_NE(md.find(phrase), std::string::npos) << phrase << "\n" << md;
   }
   // Three seeds: the spread is min–max, beside each mean.

@@ -117,5 +117,19 @@ TEST(CsvReader, NumbersAsTheTablesWriteThem) {
   EXPECT_TRUE(std::isnan(CsvNumber("1.5 s")));
 }
 
+// Yes/no cells read "true" or "false"; anything else (a "1" of another writer, a typo) is an
+// error at its line, never read as false.
+TEST(CsvReader, YesNoCellsAreTrueOrFalseAndNothingElse) {
+  const CsvTable table = Parse("controller,survived\nlqr,true\npid,false\nhinf,1\n");
+  bool value = false;
+  std::string error;
+  EXPECT_TRUE(CsvBoolAt(table, 0, 1, "t.csv", &value, &error)) << error;
+  EXPECT_TRUE(value);
+  EXPECT_TRUE(CsvBoolAt(table, 1, 1, "t.csv", &value, &error)) << error;
+  EXPECT_FALSE(value);
+  EXPECT_FALSE(CsvBoolAt(table, 2, 1, "t.csv", &value, &error));
+  EXPECT_EQ(error, "t.csv:4: survived = '1': expected true or false");
+}
+
 }  // namespace
 }  // namespace upright::runner

@@ -355,6 +355,19 @@ TEST(Report, AMalformedTableIsRefusedWithItsLine) {
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
 }
 
+// A sweep table whose yes/no cells are not true/false (another writer's 1 and 0) is refused at
+// the cell's line rather than read as no sample survived.
+TEST(Report, ASurvivedCellThatIsNotTrueOrFalseIsRefusedWithItsLine) {
+  const auto dir = ScratchDir("report-bad-bool");
+  std::ofstream(dir / "sweep.csv") << "sample,controller,status,survived\n0,lqr,ok,true\n"
+                                      "1,lqr,ok,1\n";
+  const ReportOutcome outcome = MakeReport(dir.string());
+  EXPECT_EQ(outcome.status, ReportStatus::kBadInput);
+  EXPECT_EQ(outcome.message,
+            (dir / "sweep.csv").string() + ":3: survived = '1': expected true or false");
+  EXPECT_FALSE(fs::exists(dir / kReportFileName));
+}
+
 TEST(Report, OptionsAreChecked) {
   ReportOptions options;
   options.max_points = 3;

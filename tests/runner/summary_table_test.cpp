@@ -99,5 +99,29 @@ TEST(SummaryTable, SpreadIsAStandardDeviationAboveFiveSeeds) {
   EXPECT_NE(md.find("spread: ± standard deviation"), std::string::npos) << md;
 }
 
+// Values alike at the 3 digits shown have no spread to show, as a range or as a standard
+// deviation: "11.2", not "11.2 (11.2–11.2)" nor "11.2 ± 8.94e-05".
+TEST(SummaryTable, ValuesAlikeAtThreeDigitsShowNoSpread) {
+  BatchResult batch;
+  const double tilts[] = {11.2001, 11.2002, 11.2003, 11.2001, 11.2002, 11.2003};
+  for (std::uint64_t seed = 1; seed <= 6; ++seed) {
+    batch.runs.push_back(
+        MakeTableRun("six", "a", seed, true, RunStatus::kOk, {{"max_tilt_deg", tilts[seed - 1]}}));
+  }
+  for (std::uint64_t seed = 1; seed <= 3; ++seed) {
+    batch.runs.push_back(MakeTableRun("three", "a", seed, true, RunStatus::kOk,
+                                      {{"max_tilt_deg", tilts[seed - 1]}}));
+  }
+  const std::string md = ReadText(WriteTables(batch, "alike") / "summary.md");
+  EXPECT_NE(md.find("spread: ± standard deviation"), std::string::npos) << md;
+  EXPECT_NE(md.find("spread: min–max"), std::string::npos) << md;
+  std::size_t rows = 0;
+  for (auto at = md.find("| max tilt (deg) | 11.2 |\n"); at != std::string::npos;
+       at = md.find("| max tilt (deg) | 11.2 |\n", at + 1)) {
+    ++rows;
+  }
+  EXPECT_EQ(rows, 2u) << md;
+}
+
 }  // namespace
 }  // namespace upright::runner

@@ -171,7 +171,10 @@ ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
   }
   XmlElement root = doc.Root();
   const std::string root_name(internal::kModelRootElement);
-  if (root.name() != root_name && root.name() != kFormerRootElement) {
+  // A <robot> root is a model file of schema 1 only when it states a schema, as every one did;
+  // without one it is a file of another format, told only the root expected.
+  const bool former_root = root.name() == kFormerRootElement && root.Has("schema");
+  if (root.name() != root_name && !former_root) {
     doc.AddError(root.line(),
                  "root element is <" + root.name() + ">, expected <" + root_name + ">");
     result.errors = doc.errors();

@@ -105,24 +105,30 @@ std::string ElementInDetail(const tinyxml2::XMLDocument& doc) {
   return at == std::string::npos ? std::string() : detail.substr(at + key.size());
 }
 
+// Where the opening tag of <element> that reaches line `line` starts: the last "<element" that
+// begins at or before the end of the line; npos when there is none.
+std::size_t TagStart(std::string_view text, int line, const std::string& element) {
+  const auto [line_start, line_end] = LineSpan(text, line);
+  if (element.empty() || line_start == std::string_view::npos) return std::string_view::npos;
+  std::size_t at = line_end;
+  while (true) {
+    at = text.rfind("<" + element, at);
+    if (at == std::string_view::npos) return at;
+    const std::size_t after = at + 1 + element.size();
+    if (after >= text.size() || !IsNameChar(text[after])) return at;
+    if (at == 0) return std::string_view::npos;
+    --at;
+  }
+}
+
 // What is wrong with the attributes of the tag of <element> that reaches line `line`: the first
 // attribute, from the tag's start, that is not name="value" (or 'value'), or that repeats a name.
 std::string AttributeProblem(std::string_view text, int line, const std::string& element) {
   const std::string fallback = "an attribute of <" + element +
                                "> is malformed or given twice (expected name=\"value\", each "
                                "name once)";
-  const auto [line_start, line_end] = LineSpan(text, line);
-  if (element.empty() || line_start == std::string_view::npos) return fallback;
-  // The tag's start: the last "<element" that begins at or before the end of the line.
-  std::size_t at = line_end;
-  while (true) {
-    at = text.rfind("<" + element, at);
-    if (at == std::string_view::npos) return fallback;
-    const std::size_t after = at + 1 + element.size();
-    if (after >= text.size() || !IsNameChar(text[after])) break;
-    if (at == 0) return fallback;
-    --at;
-  }
+  const std::size_t at = TagStart(text, line, element);
+  if (at == std::string_view::npos) return fallback;
   std::size_t p = at + 1 + element.size();
   std::vector<std::string> names;
   while (p < text.size()) {
@@ -162,11 +168,20 @@ std::string ParserMessage(const tinyxml2::XMLDocument& doc, std::string_view tex
     case tinyxml2::XML_ERROR_EMPTY_DOCUMENT:
       what = "the file is empty (expected one root element)";
       break;
-    case tinyxml2::XML_ERROR_MISMATCHED_ELEMENT:
+    case tinyxml2::XML_ERROR_MISMATCHED_ELEMENT: {
+      // The parser says so too of an element open when the text ends right after its tag (a
+      // file cut short): no closing tag follows it then.
+      const std::size_t at = TagStart(text, line, element);
+      if (at != std::string_view::npos && text.find("</", at) == std::string_view::npos) {
+        what = "the element <" + element +
+               "> opened on this line is not closed before the end of the file";
+        break;
+      }
       what = "mismatched closing tag: the element <" + element +
              "> opened on this line is closed by another element's closing tag (expected </" +
              element + ">, or <" + element + " .../> for an element with no content)";
       break;
+    }
     case tinyxml2::XML_ERROR_PARSING_ATTRIBUTE:
       what = AttributeProblem(text, line, element);
       break;

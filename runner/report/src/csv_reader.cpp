@@ -131,4 +131,17 @@ double CsvNumber(std::string_view cell) {
   return value;
 }
 
+bool CsvBoolAt(const CsvTable& table, std::size_t row, int column, const std::string& path,
+               bool* value, std::string* error) {
+  const std::string& cell = table.rows.at(row).at(static_cast<std::size_t>(column));
+  if (cell == "true" || cell == "false") {
+    *value = cell == "true";
+    return true;
+  }
+  *error = path + ":" + std::to_string(table.lines.at(row)) + ": " +
+           table.header.at(static_cast<std::size_t>(column)) + " = '" + cell +
+           "': expected true or false";
+  return false;
+}
+
 }  // namespace upright::runner

@@ -60,6 +60,13 @@ bool AppendMaps(const std::string& path, const std::string& scenario_name,
     }
   }
   if (map_table.rows.empty()) return true;
+  // Every survived cell read before anything is drawn: true, false, or the table is refused.
+  std::vector<bool> all_survived(map_table.rows.size());
+  for (std::size_t r = 0; r < map_table.rows.size(); ++r) {
+    bool survived = false;
+    if (!CsvBoolAt(map_table, r, c[5], path, &survived, error)) return false;
+    all_survived[r] = survived;
+  }
   std::string unit1, unit2;
   if (manifest.parameters.size() >= 2) {
     unit1 = manifest.parameters[0].unit;
@@ -95,7 +102,8 @@ bool AppendMaps(const std::string& path, const std::string& scenario_name,
     std::sort(map.xs.begin(), map.xs.end());
     std::sort(map.ys.begin(), map.ys.end());
     map.cells.assign(map.xs.size() * map.ys.size(), MapOutcome::kMissing);
-    for (const auto& row : map_table.rows) {
+    for (std::size_t r = 0; r < map_table.rows.size(); ++r) {
+      const auto& row = map_table.rows[r];
       if (row[c[0]] != controller) continue;
       const double x = CsvNumber(row[c[2]]), y = CsvNumber(row[c[4]]);
       const auto xi = std::find(map.xs.begin(), map.xs.end(), x) - map.xs.begin();
@@ -103,7 +111,7 @@ bool AppendMaps(const std::string& path, const std::string& scenario_name,
       MapOutcome outcome = MapOutcome::kNone;
       if (row[c[6]].empty()) {
         outcome = MapOutcome::kNotRun;
-      } else if (row[c[5]] == "true") {
+      } else if (all_survived[r]) {
         outcome = MapOutcome::kAll;
       } else if (CsvNumber(row[c[6]]) > 0) {
         outcome = MapOutcome::kSome;

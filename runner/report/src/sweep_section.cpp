@@ -26,7 +26,10 @@ bool AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifes
     return false;
   }
   std::vector<RateBar> bars;
-  for (const auto& row : table.rows) {
+  for (std::size_t r = 0; r < table.rows.size(); ++r) {
+    const auto& row = table.rows[r];
+    bool ok = false;
+    if (!CsvBoolAt(table, r, survived, path, &ok, error)) return false;
     auto it = std::find_if(bars.begin(), bars.end(),
                            [&](const RateBar& b) { return b.name == row[controller]; });
     if (it == bars.end()) {
@@ -34,7 +37,7 @@ bool AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifes
       it = bars.end() - 1;
     }
     ++it->runs;
-    it->survived += row[survived] == "true";
+    it->survived += ok;
   }
   for (RateBar& bar : bars) {
     const Interval interval = WilsonInterval(bar.survived, bar.runs);

@@ -85,6 +85,8 @@ Comparison CompareFigure(const ScenarioGroup& scenario, const MetricColumn& colu
     const double b = pair.baseline->metrics.*column.field;
     const double o = pair.other->metrics.*column.field;
     if (!std::isnan(b) && !std::isnan(o)) differences.push_back(o - b);
+    if (!std::isnan(b) && std::isnan(o)) ++c.only_baseline_value;
+    if (std::isnan(b) && !std::isnan(o)) ++c.only_controller_value;
   }
   c.seeds_compared = baseline_runs.size();
   c.baseline = StatsOver(baseline_runs, column.field);
@@ -109,6 +111,12 @@ Comparison CompareFigure(const ScenarioGroup& scenario, const MetricColumn& colu
   } else {
     c.verdict = Verdict::kSame;
   }
+  // The test saw only the seeds both have a value on: a side that has none where the other has
+  // one (it never settled there) cannot be called the better one on the others alone.
+  if ((c.verdict == Verdict::kBetter && c.only_baseline_value > 0) ||
+      (c.verdict == Verdict::kWorse && c.only_controller_value > 0)) {
+    c.verdict = Verdict::kIndicative;
+  }
   return c;
 }
 
@@ -126,17 +134,24 @@ void AppendStatsCells(std::string* csv, const FigureStats& stats) {
 }
 
 // compare.md's test cell: "t = -3.20, p = 0.0410 (3 pairs)", "no spread, p = 1.00 (3 pairs)",
-// "McNemar p = 0.0313 (6 pairs)", "2 pairs, too few", "—".
+// "McNemar p = 0.0313 (6 pairs)", "2 pairs, too few", "—", and after a test whose verdict the
+// seeds with a value on one side only withheld, "...; 2 seeds with a value on one side only".
 std::string TestText(const Comparison& c) {
   const std::string pairs = std::to_string(c.pairs) + (c.pairs == 1 ? " pair" : " pairs");
   if (c.verdict == Verdict::kNotApplicable) {
     return !c.higher_is_better && c.seeds_compared == 0 ? "no seed both survived" : "—";
   }
-  if (c.verdict == Verdict::kIndicative) return pairs + ", too few";
+  if (c.verdict == Verdict::kIndicative && std::isnan(c.p_value)) return pairs + ", too few";
   std::string text = c.higher_is_better ? "McNemar "
                      : std::isnan(c.t)  ? std::string("no spread, ")
                                         : "t = " + FormatReadable(c.t) + ", ";
-  return text + "p = " + FormatReadable(c.p_value) + " (" + pairs + ")";
+  text += "p = " + FormatReadable(c.p_value) + " (" + pairs + ")";
+  if (c.verdict == Verdict::kIndicative) {
+    const std::size_t one_sided = c.only_baseline_value + c.only_controller_value;
+    text += "; " + std::to_string(one_sided) + (one_sided == 1 ? " seed" : " seeds") +
+            " with a value on one side only";
+  }
+  return text;
 }
 
 std::string FloorsText() {
@@ -231,6 +246,9 @@ std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
       " % of the baseline mean (the floor itself when the baseline is below it); with fewer than " +
       std::to_string(kMinTPairs) +
       " pairs there is no test, and the direction of the difference is shown as a hint only. "
+      "A seed both survived on which only one side has a value (a settling time only one of them "
+      "reached within the window) is outside the test; when it goes against the verdict (better "
+      "for the side that never settled there), the verdict is withheld, a hint only. "
       "Identical differences on every pair leave no spread to test: all zero count as no "
       "difference (p = 1), all equal and non-zero as a sure one (t infinite, p = 0). Every "
       "figure is better when lower but survival, better when higher: compared as a difference "

@@ -45,6 +45,9 @@ struct Comparison {
   double p_value = kNoValue;    // two-sided; NaN when no test was applied
   Verdict direction = Verdict::kNotApplicable;  // where the difference points; n/a: no values
   Verdict verdict = Verdict::kNotApplicable;
+  // Figures: seeds both survived on which only the baseline, or only the controller, has a
+  // value (a settling time only one of them reached within the window).
+  std::size_t only_baseline_value = 0, only_controller_value = 0;
 };
 
 // Survival first, then every judged figure of MetricColumns(), for `controller` against

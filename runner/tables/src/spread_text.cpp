@@ -17,11 +17,13 @@ const char* SpreadName(SpreadKind kind) {
 std::string MeanWithSpread(const FigureStats& stats, SpreadKind kind, double scale) {
   if (stats.values == 0) return "—";
   std::string text = FormatReadable(stats.mean * scale);
-  const bool spread = !std::isnan(stats.min) && !std::isnan(stats.max) && stats.min != stats.max;
+  // Values alike at the digits shown have no spread to show.
+  const std::string min = FormatReadable(stats.min * scale);
+  const std::string max = FormatReadable(stats.max * scale);
+  const bool spread = !std::isnan(stats.min) && !std::isnan(stats.max) && min != max;
   if (stats.values >= 2 && spread) {
     if (kind == SpreadKind::kRange) {
-      text +=
-          " (" + FormatReadable(stats.min * scale) + "–" + FormatReadable(stats.max * scale) + ")";
+      text += " (" + min + "–" + max + ")";
     } else if (!std::isnan(stats.sd)) {
       text += " ± " + FormatReadable(stats.sd * scale);
     }

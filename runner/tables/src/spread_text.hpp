@@ -22,9 +22,9 @@ SpreadKind SpreadFor(std::size_t seeds);
 const char* SpreadName(SpreadKind kind);
 
 // The mean rounded to 3 significant digits, with its spread: "3.00 (2.00–4.00)" or "3.00 ± 0.500";
-// the mean alone from one value or from values all alike; "—" without values. Then " [2 of 3]" when
-// it is the mean of fewer values than the group has runs. Every number is multiplied by `scale`
-// first.
+// the mean alone from one value or from values alike at the 3 digits shown; "—" without values.
+// Then " [2 of 3]" when it is the mean of fewer values than the group has runs. Every number is
+// multiplied by `scale` first.
 std::string MeanWithSpread(const FigureStats& stats, SpreadKind kind, double scale = 1);
 
 // The line saying what "[k of n]" means, for legends.

@@ -57,7 +57,8 @@ namespace {
 // "+1.50" from 3 significant digits, a sign on every non-zero value.
 std::string Signed(double value) {
   std::string text = FormatReadable(value);
-  return value > 0 ? "+" + text : text;
+  if (value > 0) text.insert(text.begin(), '+');
+  return text;
 }
 
 }  // namespace
@@ -69,14 +70,15 @@ std::string DifferenceText(double diff_abs, double diff_pct, std::string_view un
   // A difference of percentages is in percentage points.
   const std::string_view shown = unit == "%" ? std::string_view("pp") : unit;
   std::string text = Signed(diff_abs);
-  if (!shown.empty()) text += " " + std::string(shown);
+  if (!shown.empty()) text.append(" ").append(shown);
   return text + " (abs.)";
 }
 
 std::string VerdictLegend() {
   return "✔ better and ✘ worse: the paired test rejects \"no difference\" at 5 % and the "
          "difference counts; ≈ same: it does not, or the difference is too small to count; "
-         "? … (hint): too few pairs to test, the direction of the difference only; — n/a: "
+         "? … (hint): too few pairs to test, or seeds with a value on one side only against the "
+         "verdict, the direction of the difference only; — n/a: "
          "nothing to compare";
 }
 

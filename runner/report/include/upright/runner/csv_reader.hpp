@@ -3,6 +3,7 @@
 // through it.
 #pragma once
 
+#include <cstddef>
 #include <string>
 #include <string_view>
 #include <vector>
@@ -32,5 +33,11 @@ bool ReadCsvFile(const std::string& path, CsvTable* table, std::string* error);
 // A cell as a number: "" → NaN; "inf", "-inf" and any decimal or exponent form as written
 // (std::from_chars, locale-independent). Text that is not a number gives NaN too.
 double CsvNumber(std::string_view cell);
+
+// The yes/no cell in `column` of row `row` (indices into table.rows and the header): "true" or
+// "false", as every results table writes them. Any other text is no answer: false and *error
+// "<path>:<line>: <column name> = '<text>': expected true or false".
+bool CsvBoolAt(const CsvTable& table, std::size_t row, int column, const std::string& path,
+               bool* value, std::string* error);
 
 }  // namespace upright::runner

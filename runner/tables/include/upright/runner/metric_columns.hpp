@@ -1,6 +1,7 @@
 // The catalogue of RunMetrics figures as the tables show them: the CSV column name, the reading
-// label with its unit, whether lower is better and the floor of its comparisons; and a run's outcome cells (status, survival,
-// figures, message) in CSV. Every table of every results folder takes its columns from here.
+// label with its unit, whether lower is better and the floor of its comparisons; and a run's
+// outcome cells (status, survival, figures, message) in CSV. Every table of every results folder
+// takes its columns from here.
 #pragma once
 
 #include <span>
