@@ -297,7 +297,8 @@ TEST_F(ResultsWriter, ComparePercentagesAndVerdictsAgainstBaseline) {
     std::string text;
     for (const char* column : {"baseline_mean", "controller_mean", "diff_abs", "diff_pct", "pairs",
                                "direction", "verdict"}) {
-      text += (text.empty() ? "" : ",") + CompareCell(csv, scenario, controller, metric, column);
+      if (!text.empty()) text += ',';
+      text += CompareCell(csv, scenario, controller, metric, column);
     }
     return text;
   };
