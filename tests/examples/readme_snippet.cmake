@@ -1,19 +1,8 @@
 # Builds the example module with the README's CMake snippet for out-of-tree modules, word for word
 # but for the source file, against the upright installed in PREFIX, and links it with
 # --no-undefined: the snippet must link everything a module needs (the example calls libm).
-foreach(var README SOURCE PREFIX SNIPPET_BUILD)
-  if(NOT DEFINED ${var})
-    message(FATAL_ERROR "readme_snippet.cmake needs -D${var}=...")
-  endif()
-endforeach()
-
-function(run what)
-  execute_process(COMMAND ${ARGN} RESULT_VARIABLE result OUTPUT_VARIABLE out ERROR_VARIABLE out)
-  if(result)
-    message(FATAL_ERROR "${what} failed (${result}):\n${out}")
-  endif()
-  message(STATUS "${what}: ok")
-endfunction()
+include(${CMAKE_CURRENT_LIST_DIR}/../script_steps.cmake)
+require_vars(readme_snippet.cmake README SOURCE PREFIX SNIPPET_BUILD)
 
 file(READ ${README} readme)
 string(FIND "${readme}" "```cmake\nfind_package(upright" start)

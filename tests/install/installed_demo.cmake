@@ -1,21 +1,9 @@
 # Installs upright from BUILD_DIR into PREFIX and runs the installed program from WORK, a folder
 # outside both trees: `upright demo` must read the scenarios and models installed under
 # PREFIX/share/upright, and load the built-in modules installed under PREFIX's module folder.
-foreach(var BUILD_DIR PREFIX WORK)
-  if(NOT DEFINED ${var})
-    message(FATAL_ERROR "installed_demo.cmake needs -D${var}=...")
-  endif()
-endforeach()
-
-function(run what)
-  execute_process(COMMAND ${ARGN} WORKING_DIRECTORY ${WORK} RESULT_VARIABLE result
-                  OUTPUT_VARIABLE out ERROR_VARIABLE out)
-  if(result)
-    message(FATAL_ERROR "${what} failed (${result}):\n${out}")
-  endif()
-  message(STATUS "${what}: ok")
-  set(output "${out}" PARENT_SCOPE)
-endfunction()
+include(${CMAKE_CURRENT_LIST_DIR}/../script_steps.cmake)
+require_vars(installed_demo.cmake BUILD_DIR PREFIX WORK)
+set(RUN_IN ${WORK})
 
 function(expect_under path folder what)
   file(REAL_PATH "${path}" real)
