@@ -61,8 +61,8 @@ TEST(NiceAxis, StepsOfOneTwoOrFiveWidenedToWholeSteps) {
   EXPECT_DOUBLE_EQ(tilt.lo, -15.0);
   EXPECT_DOUBLE_EQ(tilt.hi, 5.0);
   EXPECT_EQ(tilt.Ticks(), (std::vector<double>{-15, -10, -5, 0, 5}));
-  EXPECT_DOUBLE_EQ(tilt.Px(-15), 200.0);
-  EXPECT_DOUBLE_EQ(tilt.Px(5), 0.0);
+  EXPECT_DOUBLE_EQ(tilt.ToPixel(-15), 200.0);
+  EXPECT_DOUBLE_EQ(tilt.ToPixel(5), 0.0);
   const Axis slip = NiceAxis(-0.0004, 0.0031, 5, 0, 1);
   EXPECT_DOUBLE_EQ(slip.step, 0.001);
   EXPECT_EQ(slip.decimals, 3);
@@ -92,7 +92,7 @@ TEST(HtmlText, NumbersInAFixedForm) {
     tenths += ' ';
   }
   EXPECT_EQ(tenths, "12.3 12 .5 -.5 0 -123.4 ");
-  EXPECT_EQ(Px(12.345), "12.3");
+  EXPECT_EQ(PixelText(12.345), "12.3");
 }
 
 }  // namespace

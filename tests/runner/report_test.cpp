@@ -14,6 +14,7 @@
 #include <functional>
 #include <map>
 #include <regex>
+#include <sstream>
 
 #include "html_text.hpp"
 #include "palette.hpp"
@@ -297,6 +298,26 @@ TEST(Report, SameResultsGiveTheSameBytes) {
   Report moved;
   MakeAndParse(copy, {}, &moved);
   EXPECT_EQ(moved.html, first.html);
+}
+
+// Each plotted seed is named whole: lqr's only run is seed 12 and pid plots seed 1, which a match
+// of text inside "seed 12" would drop.
+TEST(Report, NamesEachPlottedSeedWhole) {
+  const auto& run = SmallRunFolder();
+  const fs::path copy = ScratchDir("report-seed12") / run.dir.filename();
+  fs::copy(run.dir, copy, fs::copy_options::recursive);
+  std::istringstream in(ReadFile(copy / "summary.csv"));
+  std::string summary, line;
+  while (std::getline(in, line)) {
+    if (line.rfind("shove,lqr,2,", 0) == 0) continue;  // lqr keeps one run, renamed seed 12
+    if (line.rfind("shove,lqr,1,", 0) == 0) line.replace(0, 12, "shove,lqr,12,");
+    summary += line + "\n";
+  }
+  std::ofstream(copy / "summary.csv", std::ios::binary) << summary;
+  fs::rename(copy / "traces" / "shove__lqr__seed1.csv", copy / "traces" / "shove__lqr__seed12.csv");
+  Report report;
+  MakeAndParse(copy, {}, &report);
+  EXPECT_NE(report.html.find("Traces of seed 12, seed 1 ("), std::string::npos);
 }
 
 TEST(Report, PlotsAreThinnedToTheirBound) {

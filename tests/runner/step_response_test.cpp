@@ -53,19 +53,6 @@ struct SecondOrder {
 
 class SecondOrderStep : public ::testing::TestWithParam<double> {};
 
-TEST_P(SecondOrderStep, OvershootMatchesTheDampingFormula) {
-  const SecondOrder sys{GetParam(), 2 * kPi};  // ωn = 2π rad/s (1 Hz)
-  const std::vector<double> y = sys.Sampled(10);
-  // Mp = 100 exp(−ζπ / √(1−ζ²)) % (Ogata, ch. 5).
-  const double expected = 100 * std::exp(-sys.zeta * kPi / std::sqrt(1 - sys.zeta * sys.zeta));
-  // The nearest sample lies within one step of the peak, where |y''| = ωn² e^{−σ t_p} ≤ ωn², so
-  // the sampled maximum is low by at most ½ ωn² dt² (≈ 2e-3 percentage points here).
-  const double tolerance_pct = 100 * 0.5 * sys.wn * sys.wn * kDt * kDt;
-  const double measured = StepOvershootPct(y, 0, 1);
-  EXPECT_LE(measured, expected + 1e-9);
-  EXPECT_NEAR(measured, expected, tolerance_pct);
-}
-
 TEST_P(SecondOrderStep, ReboundIsThePercentOvershoot) {
   // The step from 0 to 1 starts 1 from its final value: that is its peak excursion, and the
   // rebound past 1 after it is the overshoot, so R / P · 100 = Mp = 100 exp(−ζπ / √(1−ζ²)) %
@@ -80,13 +67,6 @@ TEST_P(SecondOrderStep, ReboundIsThePercentOvershoot) {
   const double tolerance_pct = 100 * 0.5 * sys.wn * sys.wn * kDt * kDt;
   EXPECT_LE(r.rebound_pct, expected + 1e-9);
   EXPECT_NEAR(r.rebound_pct, expected, tolerance_pct);
-}
-
-TEST_P(SecondOrderStep, PeakTimeIsHalfTheDampedPeriod) {
-  const SecondOrder sys{GetParam(), 2 * kPi};
-  const std::vector<double> y = sys.Sampled(10);
-  // t_p = π / ωd (Ogata, ch. 5); the sampled peak is one of the samples either side of it.
-  EXPECT_NEAR(PeakTime(y, kDt, 0, 1), kPi / sys.wd(), kDt);
 }
 
 TEST_P(SecondOrderStep, SettlingTimeMatchesTheExactLastBandCrossing) {
@@ -194,23 +174,23 @@ TEST(PeakAndRebound, SignalAtTheFinalValueHasNoRatio) {
   EXPECT_TRUE(std::isnan(PeakAndRebound({}, 0.1, 0).rebound_pct));
 }
 
-TEST(StepOvershoot, DownwardStepMeasuresBelowTheFinalValue) {
-  // From 10 down to 4, undershooting to 3: 1 / 6 of the step.
+TEST(StepRebound, DownwardStepMeasuresBelowTheFinalValue) {
+  // From 10 down to 4, undershooting to 3: a peak excursion of 6 at the start, a rebound of 1 past
+  // the final value on the other side, 1 / 6 of the step.
   const std::vector<double> y = {10.0, 6.0, 3.0, 4.5, 4.0};
-  EXPECT_NEAR(StepOvershootPct(y, 10, 4), 100.0 / 6.0, 1e-12);
-  EXPECT_DOUBLE_EQ(PeakTime(y, 0.5, 10, 4), 1.0);
+  const Rebound r = PeakAndRebound(y, 0.5, 4);
+  EXPECT_EQ(r.peak, 6);
+  EXPECT_EQ(r.peak_time_s, 0);
+  EXPECT_EQ(r.rebound, 1);
+  EXPECT_NEAR(r.rebound_pct, 100.0 / 6.0, 1e-12);
 }
 
-TEST(StepOvershoot, MonotoneResponseHasNone) {
+TEST(StepRebound, MonotoneResponseHasNone) {
   const std::vector<double> y = {0.0, 0.5, 0.9, 1.0};
-  EXPECT_EQ(StepOvershootPct(y, 0, 1), 0);
-  EXPECT_DOUBLE_EQ(PeakTime(y, 0.5, 0, 1), 1.5);
-}
-
-TEST(StepOvershoot, ZeroStepIsNaN) {
-  const std::vector<double> y = {1.0, 2.0};
-  EXPECT_TRUE(std::isnan(StepOvershootPct(y, 1, 1)));
-  EXPECT_TRUE(std::isnan(PeakTime(y, 0.1, 1, 1)));
+  const Rebound r = PeakAndRebound(y, 0.5, 1);
+  EXPECT_EQ(r.peak, 1);
+  EXPECT_EQ(r.rebound, 0);
+  EXPECT_EQ(r.rebound_pct, 0);
 }
 
 }  // namespace

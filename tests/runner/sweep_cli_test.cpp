@@ -7,6 +7,7 @@
 #include <string>
 
 #include "run_test_support.hpp"
+#include "upright/runner/sweep_writer.hpp"
 
 namespace upright::runner {
 namespace {
@@ -77,7 +78,7 @@ TEST(SweepCommand, WritesTheThreeFiles) {
                  (dir / "out").string());
   EXPECT_EQ(o.code, 0) << o.out;
   EXPECT_NE(o.out.find("lqr"), std::string::npos) << o.out;
-  for (const char* name : {"sweep.csv", "sweep.md", "manifest.json"}) {
+  for (const std::string& name : SweepFileNames()) {
     EXPECT_TRUE(fs::exists(dir / "out" / name)) << name;
   }
   EXPECT_NE(ReadFile(dir / "out" / "manifest.json").find("\"seed\": 9"), std::string::npos);

@@ -189,66 +189,75 @@ bool EnvelopeResult::any_setup_failed() const {
   return false;
 }
 
-EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& options,
-                           const EnvelopePlan& plan, const std::string& tool_version,
-                           const ProgressFn& progress) {
-  const auto wall_start = std::chrono::steady_clock::now();
-  EnvelopeResult result;
-  result.tool_version = tool_version;
-  result.scenario = DescribeScenario(scenario, plan.seeds);
-  result.plan = plan;
-  const std::size_t jobs = JobsWanted(options.jobs);
-  result.jobs = static_cast<int>(jobs);
+namespace {
 
-  // Every controller's module, loaded once per distinct module before any thread starts.
-  const ModuleSet module_set({&scenario, 1}, options.module_dirs);
-  std::vector<const LoadedModule*> modules;
-  for (const ControllerEntry& entry : scenario.controllers) {
-    modules.push_back(&module_set.Get(entry));
+// Runs done against the runs still expected, for the progress callback: each controller's share
+// shrinks to what it used once its bisection ends, and the map's runs come after.
+class ProgressCount {
+ public:
+  ProgressCount(std::size_t controllers, std::size_t per_controller, std::size_t map_runs,
+                const ProgressFn& progress)
+      : expected_(controllers, per_controller), map_runs_(map_runs), progress_(progress) {
+    Recount();
   }
+  // Controller c makes `runs` in all; or no more than `runs`.
+  void Set(std::size_t c, std::size_t runs) { expected_[c] = runs; }
+  void Cap(std::size_t c, std::size_t runs) { expected_[c] = std::min(expected_[c], runs); }
+  void Recount() {
+    total_ = map_runs_;
+    for (const std::size_t e : expected_) total_ += e;
+  }
+  // From here on the only runs left are `remaining` more.
+  void ExpectOnly(std::size_t remaining) { total_ = done_ + remaining; }
+  void OneDone() {
+    ++done_;
+    if (progress_) progress_(done_, total_);
+  }
+
+ private:
+  std::vector<std::size_t> expected_;
+  std::size_t map_runs_ = 0, done_ = 0, total_ = 0;
+  const ProgressFn& progress_;
+};
+
+// What both phases of an envelope share: the scenario, its plan, each controller's module and the
+// run settings of a probe.
+struct EnvelopeWork {
+  const Scenario& scenario;
+  const EnvelopePlan& plan;
+  std::vector<const LoadedModule*> modules;  // per controller, loaded once
   RunOptions run_options;
-  run_options.trace_rate_hz = 0;
-  run_options.stop_when_settled = true;
-  run_options.settle_hold_s = options.settle_hold_s;
+  std::size_t jobs = 1;
+  ProgressCount& progress;
 
+  std::size_t Seeds() const { return plan.seeds.size(); }
+  std::size_t Controllers() const { return scenario.controllers.size(); }
+};
+
+// Phase 1: every controller's bisection side by side, one round of probes at a time, into
+// result->controllers; adds the runs made to result->runs.
+void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
+  const Scenario& scenario = work.scenario;
+  const EnvelopePlan& plan = work.plan;
   const std::vector<std::uint64_t>& seeds = plan.seeds;
-  const std::size_t n_seeds = seeds.size();
-  const std::size_t n_controllers = scenario.controllers.size();
+  const std::size_t n_seeds = work.Seeds();
+  const std::size_t n_controllers = work.Controllers();
 
-  // Progress: runs done against the runs still expected, each controller's share shrinking to
-  // what it used once its bisection ends.
-  std::size_t done = 0;
-  std::vector<std::size_t> expected(
-      n_controllers, n_seeds * BracketedProbes(plan.axis.hi - plan.axis.lo, plan.tol));
-  const std::size_t map_runs =
-      plan.axis2 ? n_controllers * n_seeds * static_cast<std::size_t>(plan.grid * plan.grid) : 0;
-  const auto total = [&] {
-    std::size_t sum = map_runs;
-    for (const std::size_t e : expected) sum += e;
-    return sum;
-  };
-  std::size_t total_now = total();
-  const auto after_each = [&] {
-    ++done;
-    if (progress) progress(done, total_now);
-  };
-
-  // Bisections side by side, one round of probes at a time.
   std::vector<Bisection> bisections;
   std::vector<bool> active(n_controllers, true);
   for (std::size_t c = 0; c < n_controllers; ++c) {
     ControllerEnvelope envelope;
     envelope.controller = scenario.controllers[c].name;
     envelope.baseline = c == scenario.baseline;
-    if (!modules[c]->module) {
-      envelope.setup_error = modules[c]->error;
+    if (!work.modules[c]->module) {
+      envelope.setup_error = work.modules[c]->error;
       active[c] = false;
-      expected[c] = 0;
+      work.progress.Set(c, 0);
     }
-    result.controllers.push_back(envelope);
+    result->controllers.push_back(envelope);
     bisections.emplace_back(plan.axis.lo, plan.axis.hi, plan.tol);
   }
-  total_now = total();
+  work.progress.Recount();
   std::vector<std::size_t> used(n_controllers, 0);  // runs made per controller
 
   struct Probe {
@@ -266,7 +275,7 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
         probe.value = value;
         std::string error;
         if (!ProbeScenario(scenario, plan.axis.path, value, "", 0, &probe.scenario, &error)) {
-          result.controllers[c].setup_error = error;
+          result->controllers[c].setup_error = error;
           active[c] = false;
           break;
         }
@@ -276,21 +285,21 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
         probes.erase(std::remove_if(probes.begin(), probes.end(),
                                     [c](const Probe& p) { return p.controller == c; }),
                      probes.end());
-        expected[c] = used[c];
+        work.progress.Set(c, used[c]);
       }
     }
-    total_now = total();
+    work.progress.Recount();
     if (probes.empty()) break;
 
     std::vector<RunVerdict> verdicts(probes.size() * n_seeds);
     ParallelFor(
-        verdicts.size(), jobs,
+        verdicts.size(), work.jobs,
         [&](std::size_t i) {
           const Probe& probe = probes[i / n_seeds];
           verdicts[i] = RunProbe(probe.scenario, probe.controller, seeds[i % n_seeds],
-                                 *modules[probe.controller], run_options);
+                                 *work.modules[probe.controller], work.run_options);
         },
-        after_each);
+        [&] { work.progress.OneDone(); });
 
     // Verdicts back to each bisection, in the order its values were pending.
     std::vector<std::vector<bool>> survived(n_controllers);
@@ -298,7 +307,7 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
       const std::size_t c = probes[p].controller;
       used[c] += n_seeds;
       const ProbeTally tally = Tally(seeds, &verdicts[p * n_seeds]);
-      ControllerEnvelope& envelope = result.controllers[c];
+      ControllerEnvelope& envelope = result->controllers[c];
       envelope.probes.push_back(
           {probes[p].value, tally.survived, static_cast<int>(n_seeds), tally.failure});
       if (!active[c]) continue;  // an earlier probe of this round could not run
@@ -311,21 +320,21 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
     }
     for (std::size_t c = 0; c < n_controllers; ++c) {
       if (!active[c]) {
-        expected[c] = std::min(expected[c], used[c]);
+        work.progress.Cap(c, used[c]);
         continue;
       }
       if (survived[c].empty()) continue;
       bisections[c].Record(survived[c]);
       if (bisections[c].done()) {
         active[c] = false;
-        expected[c] = used[c];
+        work.progress.Set(c, used[c]);
       }
     }
-    total_now = total();
+    work.progress.Recount();
   }
 
   for (std::size_t c = 0; c < n_controllers; ++c) {
-    ControllerEnvelope& envelope = result.controllers[c];
+    ControllerEnvelope& envelope = result->controllers[c];
     envelope.bisect = bisections[c].result();
     if (!envelope.setup_error.empty()) {
       // Cut short: no bisection answer, only the probes made.
@@ -336,78 +345,119 @@ EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& opti
         if (probe.value == envelope.bisect.first_failing_value) envelope.failure = probe.failure;
       }
     }
-    result.runs += used[c];
+    result->runs += used[c];
   }
+}
 
-  if (plan.axis2) {
-    const ParameterAxis& a1 = plan.axis;
-    const ParameterAxis& a2 = *plan.axis2;
-    const std::size_t grid = static_cast<std::size_t>(plan.grid);
-    const std::size_t n_points = grid * grid;
-    // One scenario per point, shared by the controllers; a point the scenario refuses is kept
-    // with its reason.
-    std::vector<Scenario> points(n_points);
-    std::vector<std::string> refused(n_points);
-    for (std::size_t i2 = 0; i2 < grid; ++i2) {
-      for (std::size_t i1 = 0; i1 < grid; ++i1) {
-        const std::size_t k = i2 * grid + i1;
-        ProbeScenario(scenario, a1.path, GridValue(a1, static_cast<int>(i1), plan.grid), a2.path,
-                      GridValue(a2, static_cast<int>(i2), plan.grid), &points[k], &refused[k]);
-      }
+// Phase 2: the grid of both parameters, every controller at every point, into result->maps; adds
+// the runs made to result->runs.
+void MapGrid(EnvelopeWork& work, EnvelopeResult* result) {
+  const EnvelopePlan& plan = work.plan;
+  const std::vector<std::uint64_t>& seeds = plan.seeds;
+  const std::size_t n_seeds = work.Seeds();
+  const std::size_t n_controllers = work.Controllers();
+  const ParameterAxis& a1 = plan.axis;
+  const ParameterAxis& a2 = *plan.axis2;
+  const std::size_t grid = static_cast<std::size_t>(plan.grid);
+  const std::size_t n_points = grid * grid;
+  // One scenario per point, shared by the controllers; a point the scenario refuses is kept
+  // with its reason.
+  std::vector<Scenario> points(n_points);
+  std::vector<std::string> refused(n_points);
+  for (std::size_t i2 = 0; i2 < grid; ++i2) {
+    for (std::size_t i1 = 0; i1 < grid; ++i1) {
+      const std::size_t k = i2 * grid + i1;
+      ProbeScenario(work.scenario, a1.path, GridValue(a1, static_cast<int>(i1), plan.grid), a2.path,
+                    GridValue(a2, static_cast<int>(i2), plan.grid), &points[k], &refused[k]);
     }
-    // Tasks: controller by controller, point by point, seed by seed; only what can run.
-    struct MapTask {
-      std::size_t controller = 0, point = 0, seed = 0;
-    };
-    std::vector<MapTask> tasks;
-    for (std::size_t c = 0; c < n_controllers; ++c) {
-      if (!modules[c]->module) continue;
-      for (std::size_t k = 0; k < n_points; ++k) {
-        if (!refused[k].empty()) continue;
-        for (std::size_t s = 0; s < n_seeds; ++s) tasks.push_back({c, k, s});
-      }
+  }
+  // Tasks: controller by controller, point by point, seed by seed; only what can run.
+  struct MapTask {
+    std::size_t controller = 0, point = 0, seed = 0;
+  };
+  std::vector<MapTask> tasks;
+  for (std::size_t c = 0; c < n_controllers; ++c) {
+    if (!work.modules[c]->module) continue;
+    for (std::size_t k = 0; k < n_points; ++k) {
+      if (!refused[k].empty()) continue;
+      for (std::size_t s = 0; s < n_seeds; ++s) tasks.push_back({c, k, s});
     }
-    total_now = done + tasks.size();
-    std::vector<RunVerdict> verdicts(tasks.size());
-    ParallelFor(
-        tasks.size(), jobs,
-        [&](std::size_t i) {
-          const MapTask& t = tasks[i];
-          verdicts[i] = RunProbe(points[t.point], t.controller, seeds[t.seed],
-                                 *modules[t.controller], run_options);
-        },
-        after_each);
-    result.runs += tasks.size();
+  }
+  work.progress.ExpectOnly(tasks.size());
+  std::vector<RunVerdict> verdicts(tasks.size());
+  ParallelFor(
+      tasks.size(), work.jobs,
+      [&](std::size_t i) {
+        const MapTask& t = tasks[i];
+        verdicts[i] = RunProbe(points[t.point], t.controller, seeds[t.seed],
+                               *work.modules[t.controller], work.run_options);
+      },
+      [&] { work.progress.OneDone(); });
+  result->runs += tasks.size();
 
-    std::size_t next_task = 0;
-    for (std::size_t c = 0; c < n_controllers; ++c) {
-      ControllerMap map;
-      map.controller = scenario.controllers[c].name;
-      if (!modules[c]->module) map.setup_error = modules[c]->error;
-      for (std::size_t k = 0; k < n_points; ++k) {
-        MapPoint point;
-        point.value = GridValue(a1, static_cast<int>(k % grid), plan.grid);
-        point.value2 = GridValue(a2, static_cast<int>(k / grid), plan.grid);
-        point.seeds = static_cast<int>(n_seeds);
-        if (!modules[c]->module) {
+  std::size_t next_task = 0;
+  for (std::size_t c = 0; c < n_controllers; ++c) {
+    ControllerMap map;
+    map.controller = work.scenario.controllers[c].name;
+    if (!work.modules[c]->module) map.setup_error = work.modules[c]->error;
+    for (std::size_t k = 0; k < n_points; ++k) {
+      MapPoint point;
+      point.value = GridValue(a1, static_cast<int>(k % grid), plan.grid);
+      point.value2 = GridValue(a2, static_cast<int>(k / grid), plan.grid);
+      point.seeds = static_cast<int>(n_seeds);
+      if (!work.modules[c]->module) {
+        point.setup_failed = true;
+      } else if (!refused[k].empty()) {
+        point.setup_failed = true;
+        if (map.setup_error.empty()) map.setup_error = refused[k];
+      } else {
+        const ProbeTally tally = Tally(seeds, &verdicts[next_task]);
+        next_task += n_seeds;
+        point.seeds_survived = tally.survived;
+        if (!tally.setup_error.empty()) {
           point.setup_failed = true;
-        } else if (!refused[k].empty()) {
-          point.setup_failed = true;
-          if (map.setup_error.empty()) map.setup_error = refused[k];
-        } else {
-          const ProbeTally tally = Tally(seeds, &verdicts[next_task]);
-          next_task += n_seeds;
-          point.seeds_survived = tally.survived;
-          if (!tally.setup_error.empty()) {
-            point.setup_failed = true;
-            if (map.setup_error.empty()) map.setup_error = tally.setup_error;
-          }
+          if (map.setup_error.empty()) map.setup_error = tally.setup_error;
         }
-        map.points.push_back(point);
       }
-      result.maps.push_back(std::move(map));
+      map.points.push_back(point);
     }
+    result->maps.push_back(std::move(map));
   }
+}
+
+}  // namespace
+
+EnvelopeResult RunEnvelope(const Scenario& scenario, const EnvelopeOptions& options,
+                           const EnvelopePlan& plan, const std::string& tool_version,
+                           const ProgressFn& progress) {
+  const auto wall_start = std::chrono::steady_clock::now();
+  EnvelopeResult result;
+  result.tool_version = tool_version;
+  result.scenario = DescribeScenario(scenario, plan.seeds);
+  result.plan = plan;
+  const std::size_t jobs = JobsWanted(options.jobs);
+  result.jobs = static_cast<int>(jobs);
+
+  const std::size_t n_seeds = plan.seeds.size();
+  const std::size_t n_controllers = scenario.controllers.size();
+  const std::size_t map_runs =
+      plan.axis2 ? n_controllers * n_seeds * static_cast<std::size_t>(plan.grid * plan.grid) : 0;
+  ProgressCount count(n_controllers,
+                      n_seeds * BracketedProbes(plan.axis.hi - plan.axis.lo, plan.tol), map_runs,
+                      progress);
+
+  // Every controller's module, loaded once per distinct module before any thread starts.
+  const ModuleSet module_set({&scenario, 1}, options.module_dirs);
+  EnvelopeWork work{scenario, plan, {}, {}, jobs, count};
+  for (const ControllerEntry& entry : scenario.controllers) {
+    work.modules.push_back(&module_set.Get(entry));
+  }
+  work.run_options.trace_rate_hz = 0;
+  work.run_options.stop_when_settled = true;
+  work.run_options.settle_hold_s = options.settle_hold_s;
+
+  BisectSideBySide(work, &result);
+  if (plan.axis2) MapGrid(work, &result);
 
   result.wall_s =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();

@@ -44,27 +44,4 @@ Rebound PeakAndRebound(std::span<const double> y, double dt_s, double final_valu
   return r;
 }
 
-double StepOvershootPct(std::span<const double> y, double initial, double final_value) {
-  const double step = final_value - initial;
-  if (y.empty() || !(step != 0)) return kNaN;
-  const double side = step > 0 ? 1.0 : -1.0;
-  double beyond = 0;  // furthest past the final value, in the step's direction
-  for (double v : y) {
-    const double d = side * (v - final_value);
-    if (d > beyond) beyond = d;
-  }
-  return 100.0 * beyond / std::abs(step);
-}
-
-double PeakTime(std::span<const double> y, double dt_s, double initial, double final_value) {
-  const double step = final_value - initial;
-  if (y.empty() || !(step != 0)) return kNaN;
-  const double side = step > 0 ? 1.0 : -1.0;
-  std::size_t peak = 0;
-  for (std::size_t i = 1; i < y.size(); ++i) {
-    if (side * y[i] > side * y[peak]) peak = i;
-  }
-  return static_cast<double>(peak) * dt_s;
-}
-
 }  // namespace upright::runner

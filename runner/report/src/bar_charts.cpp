@@ -19,9 +19,9 @@ constexpr double kTop = 30;
 std::string OpenSvg(const char* chart, const std::string& scenario, double height,
                     const std::string& label) {
   return std::string("<svg class=\"chart\" data-chart=\"") + chart + "\" data-scenario=\"" +
-         Escape(scenario) + "\" viewBox=\"0 0 " + Px(kWidth) + " " + Px(height) + "\" width=\"" +
-         Px(kWidth) + "\" height=\"" + Px(height) + "\" role=\"img\" aria-label=\"" +
-         Escape(label) + "\">";
+         Escape(scenario) + "\" viewBox=\"0 0 " + PixelText(kWidth) + " " + PixelText(height) +
+         "\" width=\"" + PixelText(kWidth) + "\" height=\"" + PixelText(height) +
+         "\" role=\"img\" aria-label=\"" + Escape(label) + "\">";
 }
 
 // Vertical grid lines with tick labels under the rows, and the axis title below them.
@@ -29,8 +29,9 @@ void AppendValueAxis(std::string* svg, const Axis& axis, double top, double bott
                      const std::string& title, const std::string& suffix = "") {
   *svg += "<g class=\"axes\">";
   for (const double v : axis.Ticks()) {
-    AppendSvgLine(svg, axis.Px(v), top, axis.Px(v), bottom, "class=\"grid\"");
-    AppendSvgText(svg, axis.Px(v), bottom + 14, axis.Label(v) + suffix, "text-anchor=\"middle\"");
+    AppendSvgLine(svg, axis.ToPixel(v), top, axis.ToPixel(v), bottom, "class=\"grid\"");
+    AppendSvgText(svg, axis.ToPixel(v), bottom + 14, axis.Label(v) + suffix,
+                  "text-anchor=\"middle\"");
   }
   AppendSvgLine(svg, axis.px_lo, bottom, axis.px_hi, bottom, "class=\"baseline\"");
   AppendSvgText(svg, (axis.px_lo + axis.px_hi) / 2, bottom + 30, title, "text-anchor=\"middle\"");
@@ -39,14 +40,15 @@ void AppendValueAxis(std::string* svg, const Axis& axis, double top, double bott
 
 void AppendRect(std::string* svg, double x, double y, double width, double height,
                 const std::string& attributes) {
-  *svg += "<rect x=\"" + Px(x) + "\" y=\"" + Px(y) + "\" width=\"" + Px(std::max(0.0, width)) +
-          "\" height=\"" + Px(height) + "\" " + attributes + "/>";
+  *svg += "<rect x=\"" + PixelText(x) + "\" y=\"" + PixelText(y) + "\" width=\"" +
+          PixelText(std::max(0.0, width)) + "\" height=\"" + PixelText(height) + "\" " +
+          attributes + "/>";
 }
 
 void AppendCross(std::string* svg, double x, double y, double half) {
-  *svg += "<path class=\"cross\" d=\"M" + Px(x - half) + " " + Px(y - half) + "l" + Px(2 * half) +
-          " " + Px(2 * half) + "m0 -" + Px(2 * half) + "l-" + Px(2 * half) + " " + Px(2 * half) +
-          "\"/>";
+  *svg += "<path class=\"cross\" d=\"M" + PixelText(x - half) + " " + PixelText(y - half) + "l" +
+          PixelText(2 * half) + " " + PixelText(2 * half) + "m0 -" + PixelText(2 * half) + "l-" +
+          PixelText(2 * half) + " " + PixelText(2 * half) + "\"/>";
 }
 
 std::string WithUnit(double value, const std::string& unit) {
@@ -74,7 +76,7 @@ std::string RenderEnvelopeBars(const EnvelopeChart& chart) {
                              kPlotLeft, kPlotRight);
   AppendValueAxis(&svg, axis, kRowsTop - 4, bottom, axis_title);
   if (std::isfinite(chart.scenario_value)) {
-    const double px = axis.Px(chart.scenario_value);
+    const double px = axis.ToPixel(chart.scenario_value);
     const std::string text = "scenario's value " + WithUnit(chart.scenario_value, chart.unit);
     const bool left = px + 3 + 5.6 * static_cast<double>(text.size()) > kPlotRight;
     svg += "<g class=\"reference\">";
@@ -88,12 +90,13 @@ std::string RenderEnvelopeBars(const EnvelopeChart& chart) {
     const double y = kRowsTop + kRow * static_cast<double>(i);
     AppendSvgText(&svg, kLabelRight, y + 11, bar.name, "text-anchor=\"end\"");
     if (std::isfinite(bar.survived)) {
-      const double from = axis.Px(bar.downward ? bar.survived : chart.lo);
-      const double to = axis.Px(bar.downward ? chart.hi : bar.survived);
+      const double from = axis.ToPixel(bar.downward ? bar.survived : chart.lo);
+      const double to = axis.ToPixel(bar.downward ? chart.hi : bar.survived);
       AppendRect(&svg, std::min(from, to), y + 2, std::fabs(to - from), 12,
                  std::string("class=\"bar\" fill=\"") + StyleFor(bar.style).colour + "\"");
     }
-    if (std::isfinite(bar.first_failing)) AppendCross(&svg, axis.Px(bar.first_failing), y + 8, 5);
+    if (std::isfinite(bar.first_failing))
+      AppendCross(&svg, axis.ToPixel(bar.first_failing), y + 8, 5);
     AppendSvgText(&svg, kPlotLeft, y + 27, bar.note, "class=\"note\"");
   }
   svg += "</svg>";
@@ -120,9 +123,9 @@ std::string RenderSurvivalRates(const std::string& scenario, const std::vector<R
     AppendSvgText(&svg, kLabelRight, y + 11, bar.name, "text-anchor=\"end\"");
     const double rate =
         bar.runs == 0 ? 0 : static_cast<double>(bar.survived) / static_cast<double>(bar.runs);
-    AppendRect(&svg, axis.Px(0), y + 2, axis.Px(100 * rate) - axis.Px(0), 12,
+    AppendRect(&svg, axis.ToPixel(0), y + 2, axis.ToPixel(100 * rate) - axis.ToPixel(0), 12,
                std::string("class=\"bar\" fill=\"") + StyleFor(bar.style).colour + "\"");
-    const double lo = axis.Px(100 * bar.lo), hi = axis.Px(100 * bar.hi);
+    const double lo = axis.ToPixel(100 * bar.lo), hi = axis.ToPixel(100 * bar.hi);
     AppendSvgLine(&svg, lo, y + 8, hi, y + 8, "class=\"whisker\"");
     AppendSvgLine(&svg, lo, y + 2, lo, y + 14, "class=\"whisker\"");
     AppendSvgLine(&svg, hi, y + 2, hi, y + 14, "class=\"whisker\"");
@@ -163,12 +166,13 @@ std::string RenderGapBars(const std::string& scenario, const std::vector<GapPair
     for (int k = 0; k < 2; ++k) {
       const double top = y + 1 + 10 * k;
       if (!std::isfinite(values[k])) {
-        AppendSvgText(&svg, axis.Px(0) + 3, top + 8, "no value", "class=\"note\"");
+        AppendSvgText(&svg, axis.ToPixel(0) + 3, top + 8, "no value", "class=\"note\"");
         continue;
       }
-      AppendRect(&svg, axis.Px(0), top, axis.Px(values[k]) - axis.Px(0), 9, classes[k]);
-      AppendSvgText(&svg, axis.Px(values[k]) + 4, top + 8, FormatSignificant(values[k], 3) + "°",
-                    "class=\"value\"");
+      AppendRect(&svg, axis.ToPixel(0), top, axis.ToPixel(values[k]) - axis.ToPixel(0), 9,
+                 classes[k]);
+      AppendSvgText(&svg, axis.ToPixel(values[k]) + 4, top + 8,
+                    FormatSignificant(values[k], 3) + "°", "class=\"value\"");
     }
     AppendSvgText(&svg, kPlotLeft, y + 32, p.note, "class=\"note\"");
   }

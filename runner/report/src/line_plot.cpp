@@ -38,8 +38,8 @@ std::string SeriesPath(const PlotSeries& s, const Axis& x, const Axis& y, std::s
       pen_down = false;
       continue;
     }
-    const long px = std::lround(x.Px(s.time_s[i]) * 10);
-    const long py = std::lround(y.Px(v) * 10);
+    const long px = std::lround(x.ToPixel(s.time_s[i]) * 10);
+    const long py = std::lround(y.ToPixel(v) * 10);
     if (!pen_down) {
       if (!d.empty() && d.back() == 'l') d.pop_back();  // a lone point before a break
       d += 'M';
@@ -130,9 +130,9 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
   // A little room so a line along the edge stays visible.
   const double pad = 0.04 * (y_hi - y_lo);
   std::string svg = "<svg class=\"plot\" data-plot=\"" + Escape(plot.kind) + "\" data-scenario=\"" +
-                    Escape(plot.scenario) + "\" viewBox=\"0 0 " + Px(kWidth) + " " + Px(kHeight) +
-                    "\" width=\"" + Px(kWidth) + "\" height=\"" + Px(kHeight) +
-                    "\" role=\"img\" aria-label=\"" +
+                    Escape(plot.scenario) + "\" viewBox=\"0 0 " + PixelText(kWidth) + " " +
+                    PixelText(kHeight) + "\" width=\"" + PixelText(kWidth) + "\" height=\"" +
+                    PixelText(kHeight) + "\" role=\"img\" aria-label=\"" +
                     Escape(plot.title + ": " + plot.y_label + " against time") + "\">";
   AppendSvgText(&svg, 8, 15, plot.title, "class=\"title\"");
   const double top = AppendLegend(&svg, plot);
@@ -142,18 +142,19 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
   // Grid, frame, ticks and their labels.
   svg += "<g class=\"axes\">";
   for (const double t : x.Ticks()) {
-    AppendSvgLine(&svg, x.Px(t), top, x.Px(t), kBottom, "class=\"grid\"");
-    AppendSvgText(&svg, x.Px(t), kBottom + 14, x.Label(t), "text-anchor=\"middle\"");
+    AppendSvgLine(&svg, x.ToPixel(t), top, x.ToPixel(t), kBottom, "class=\"grid\"");
+    AppendSvgText(&svg, x.ToPixel(t), kBottom + 14, x.Label(t), "text-anchor=\"middle\"");
   }
   for (const double v : y.Ticks()) {
-    AppendSvgLine(&svg, kLeft, y.Px(v), kRight, y.Px(v),
+    AppendSvgLine(&svg, kLeft, y.ToPixel(v), kRight, y.ToPixel(v),
                   std::fabs(v) < y.step * 1e-6 ? "class=\"zero\"" : "class=\"grid\"");
-    AppendSvgText(&svg, kLeft - 4, y.Px(v) + 4, y.Label(v), "text-anchor=\"end\"");
+    AppendSvgText(&svg, kLeft - 4, y.ToPixel(v) + 4, y.Label(v), "text-anchor=\"end\"");
   }
-  svg += "<rect class=\"frame\" x=\"" + Px(kLeft) + "\" y=\"" + Px(top) + "\" width=\"" +
-         Px(kRight - kLeft) + "\" height=\"" + Px(kBottom - top) + "\"/>";
+  svg += "<rect class=\"frame\" x=\"" + PixelText(kLeft) + "\" y=\"" + PixelText(top) +
+         "\" width=\"" + PixelText(kRight - kLeft) + "\" height=\"" + PixelText(kBottom - top) +
+         "\"/>";
   AppendSvgText(&svg, (kLeft + kRight) / 2, kHeight - 6, "time (s)", "text-anchor=\"middle\"");
-  svg += "<text text-anchor=\"middle\" transform=\"translate(14 " + Px((top + kBottom) / 2) +
+  svg += "<text text-anchor=\"middle\" transform=\"translate(14 " + PixelText((top + kBottom) / 2) +
          ") rotate(-90)\">" + Escape(plot.y_label) + "</text>";
   svg += "</g>";
 
@@ -161,7 +162,7 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
   double last_px = -1e9;
   int row = 0;
   for (const PlotEvent& e : plot.events) {
-    const double px = x.Px(e.time_s);
+    const double px = x.ToPixel(e.time_s);
     row = px - last_px < 22 ? (row + 1) % 3 : 0;
     last_px = px;
     svg += "<g class=\"event\"><title>" + Escape(e.label) + "</title>";
@@ -185,10 +186,10 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
   };
   std::vector<Box> placed;
   for (const PlotMark& m : plot.marks) {
-    const double px = x.Px(m.time_s);
-    const double py = std::isfinite(m.value) ? y.Px(m.value) : kBottom;
+    const double px = x.ToPixel(m.time_s);
+    const double py = std::isfinite(m.value) ? y.ToPixel(m.value) : kBottom;
     const std::string colour = StyleFor(m.style).colour;
-    svg += "<g class=\"mark\"><path d=\"M" + Px(px - 5) + " " + Px(py - 5) +
+    svg += "<g class=\"mark\"><path d=\"M" + PixelText(px - 5) + " " + PixelText(py - 5) +
            "l10 10m0 -10l-10 10\" stroke=\"" + colour + "\" stroke-width=\"2.2\"/>";
     const double text_width = kCharWidth * static_cast<double>(m.text.size());
     const bool left = px + 8 + text_width > kRight;

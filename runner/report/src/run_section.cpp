@@ -71,7 +71,7 @@ struct RunRow {
   std::string scenario, controller, seed_text, status;
   std::uint64_t seed = 0;
   bool baseline = false;
-  double fall_time_s = kNoValue, end_time_s = kNoValue;
+  double fall_time_s = kNoValue;
   const std::vector<std::string>* cells = nullptr;
 };
 
@@ -137,7 +137,7 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
                  std::string* error) {
   std::vector<ControllerTrace> traces;
   std::vector<std::string> missing;
-  std::string seeds_used;
+  std::vector<std::string> seeds;  // the seed texts plotted, each once, in controller order
   for (std::size_t c = 0; c < scenario.controllers.size(); ++c) {
     ControllerTrace t;
     t.controller = scenario.controllers[c];
@@ -159,9 +159,8 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
     }
     if (!ReadTrace(path, &t.signals, error)) return false;
     t.loaded = !t.signals.time_s.empty();
-    const std::string seed = "seed " + t.run->seed_text;
-    if (seeds_used.find(seed) == std::string::npos) {
-      seeds_used += (seeds_used.empty() ? "" : ", ") + seed;
+    if (std::find(seeds.begin(), seeds.end(), t.run->seed_text) == seeds.end()) {
+      seeds.push_back(t.run->seed_text);
     }
     traces.push_back(std::move(t));
   }
@@ -193,6 +192,10 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
     if (t.loaded) x_max = std::max(x_max, t.signals.time_s.back());
   }
 
+  std::string seeds_used;
+  for (const std::string& seed : seeds) {
+    seeds_used += (seeds_used.empty() ? "seed " : ", seed ") + seed;
+  }
   *html += "<p>Traces of " + Escape(seeds_used.empty() ? "no seed" : seeds_used) +
            " (seed 1 when it was run, else each controller's first seed), thinned to at most " +
            std::to_string(options.max_points) +
@@ -445,7 +448,6 @@ bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
   }
   const int baseline_column = summary.Column("baseline");
   const int fall_column = summary.Column("fall_time_s");
-  const int end_column = summary.Column("end_time_s");
 
   std::vector<RunRow> rows;
   rows.reserve(summary.rows.size());
@@ -458,7 +460,6 @@ bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
     row.status = cells[c[3]];
     row.baseline = baseline_column >= 0 && cells[baseline_column] == "true";
     if (fall_column >= 0) row.fall_time_s = CsvNumber(cells[fall_column]);
-    if (end_column >= 0) row.end_time_s = CsvNumber(cells[end_column]);
     row.cells = &cells;
     rows.push_back(std::move(row));
   }

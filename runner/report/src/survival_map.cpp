@@ -18,17 +18,18 @@ void AppendSymbol(std::string* svg, MapOutcome outcome, double x, double y) {
   constexpr double r = 7;
   switch (outcome) {
     case MapOutcome::kAll:
-      *svg +=
-          "<circle class=\"all\" cx=\"" + Px(x) + "\" cy=\"" + Px(y) + "\" r=\"" + Px(r) + "\"/>";
+      *svg += "<circle class=\"all\" cx=\"" + PixelText(x) + "\" cy=\"" + PixelText(y) + "\" r=\"" +
+              PixelText(r) + "\"/>";
       break;
     case MapOutcome::kSome:
-      *svg += "<circle class=\"some\" cx=\"" + Px(x) + "\" cy=\"" + Px(y) + "\" r=\"" + Px(r) +
-              "\"/><path class=\"all\" d=\"M" + Px(x) + " " + Px(y - r) + "a" + Px(r) + " " +
-              Px(r) + " 0 0 0 0 " + Px(2 * r) + "z\"/>";
+      *svg += "<circle class=\"some\" cx=\"" + PixelText(x) + "\" cy=\"" + PixelText(y) +
+              "\" r=\"" + PixelText(r) + "\"/><path class=\"all\" d=\"M" + PixelText(x) + " " +
+              PixelText(y - r) + "a" + PixelText(r) + " " + PixelText(r) + " 0 0 0 0 " +
+              PixelText(2 * r) + "z\"/>";
       break;
     case MapOutcome::kNone:
-      *svg +=
-          "<path class=\"cross\" d=\"M" + Px(x - 5) + " " + Px(y - 5) + "l10 10m0 -10l-10 10\"/>";
+      *svg += "<path class=\"cross\" d=\"M" + PixelText(x - 5) + " " + PixelText(y - 5) +
+              "l10 10m0 -10l-10 10\"/>";
       break;
     case MapOutcome::kNotRun:
       AppendSvgText(svg, x, y + 5, "!", "class=\"notrun\" text-anchor=\"middle\"");
@@ -60,9 +61,9 @@ std::string RenderSurvivalMap(const SurvivalMap& map) {
   const double width = std::max(grid_right + 12, 400.0);
   const double height = grid_bottom + 76;
   std::string svg = "<svg class=\"chart\" data-chart=\"map\" data-scenario=\"" +
-                    Escape(map.scenario) + "\" viewBox=\"0 0 " + Px(width) + " " + Px(height) +
-                    "\" width=\"" + Px(width) + "\" height=\"" + Px(height) +
-                    "\" role=\"img\" aria-label=\"" +
+                    Escape(map.scenario) + "\" viewBox=\"0 0 " + PixelText(width) + " " +
+                    PixelText(height) + "\" width=\"" + PixelText(width) + "\" height=\"" +
+                    PixelText(height) + "\" role=\"img\" aria-label=\"" +
                     Escape("Survival map of " + map.controller + ": rows " + map.y_label +
                            ", columns " + map.x_label) +
                     "\">";
@@ -77,8 +78,9 @@ std::string RenderSurvivalMap(const SurvivalMap& map) {
       const std::size_t at = r * map.xs.size() + c;
       const MapOutcome outcome = at < map.cells.size() ? map.cells[at] : MapOutcome::kMissing;
       const double x = kLeft + kCellWidth * static_cast<double>(c);
-      svg += "<rect class=\"" + std::string(CellClass(outcome)) + "\" x=\"" + Px(x) + "\" y=\"" +
-             Px(y) + "\" width=\"" + Px(kCellWidth) + "\" height=\"" + Px(kCellHeight) + "\"/>";
+      svg += "<rect class=\"" + std::string(CellClass(outcome)) + "\" x=\"" + PixelText(x) +
+             "\" y=\"" + PixelText(y) + "\" width=\"" + PixelText(kCellWidth) + "\" height=\"" +
+             PixelText(kCellHeight) + "\"/>";
       AppendSymbol(&svg, outcome, x + kCellWidth / 2, y + kCellHeight / 2);
     }
   }

@@ -47,7 +47,7 @@ Axis NiceAxis(double data_lo, double data_hi, int target_ticks, double px_lo, do
   return axis;
 }
 
-std::string Px(double pixels) {
+std::string PixelText(double pixels) {
   std::string text;
   AppendTenths(&text, std::lround(pixels * 10));
   return text;
@@ -55,7 +55,7 @@ std::string Px(double pixels) {
 
 void AppendSvgText(std::string* svg, double x, double y, std::string_view text,
                    std::string_view attributes) {
-  *svg += "<text x=\"" + Px(x) + "\" y=\"" + Px(y) + "\"";
+  *svg += "<text x=\"" + PixelText(x) + "\" y=\"" + PixelText(y) + "\"";
   if (!attributes.empty()) {
     *svg += ' ';
     *svg += attributes;
@@ -67,8 +67,8 @@ void AppendSvgText(std::string* svg, double x, double y, std::string_view text,
 
 void AppendSvgLine(std::string* svg, double x1, double y1, double x2, double y2,
                    std::string_view attributes) {
-  *svg += "<line x1=\"" + Px(x1) + "\" y1=\"" + Px(y1) + "\" x2=\"" + Px(x2) + "\" y2=\"" + Px(y2) +
-          "\" ";
+  *svg += "<line x1=\"" + PixelText(x1) + "\" y1=\"" + PixelText(y1) + "\" x2=\"" + PixelText(x2) +
+          "\" y2=\"" + PixelText(y2) + "\" ";
   *svg += attributes;
   *svg += "/>";
 }

@@ -15,7 +15,7 @@ struct Axis {
   int decimals = 0;  // digits after the point that show every tick value exactly
   double px_lo = 0, px_hi = 1;
 
-  double Px(double value) const { return px_lo + (value - lo) / (hi - lo) * (px_hi - px_lo); }
+  double ToPixel(double value) const { return px_lo + (value - lo) / (hi - lo) * (px_hi - px_lo); }
   // lo, lo + step, ..., hi.
   std::vector<double> Ticks() const;
   // A tick value as text with `decimals` digits after the point.
@@ -28,7 +28,7 @@ struct Axis {
 Axis NiceAxis(double data_lo, double data_hi, int target_ticks, double px_lo, double px_hi);
 
 // A pixel position rounded to a tenth, shortest form ("12.3", "12", ".5").
-std::string Px(double pixels);
+std::string PixelText(double pixels);
 
 // Appends <text x=.. y=.. ATTRS>escaped text</text>; `attributes` (without a leading space)
 // may be empty.

@@ -9,17 +9,35 @@
 
 namespace upright::runner {
 
+namespace {
+
+// The files in writing order, each with the function that builds its text: the one list both
+// WriteSweepResults and SweepFileNames read.
+struct SweepFile {
+  const char* name;
+  std::string (*text)(const SweepResult&);
+};
+constexpr SweepFile kFiles[] = {
+    {"sweep.csv", SweepCsv}, {"sweep.md", SweepMarkdown}, {"manifest.json", SweepManifestJson}};
+
+}  // namespace
+
 const std::vector<std::string>& SweepFileNames() {
-  static const std::vector<std::string> kNames = {"sweep.csv", "sweep.md", "manifest.json"};
+  static const std::vector<std::string> kNames = [] {
+    std::vector<std::string> names;
+    for (const SweepFile& file : kFiles) names.emplace_back(file.name);
+    return names;
+  }();
   return kNames;
 }
 
 bool WriteSweepResults(const std::string& dir, const SweepResult& result, std::string* error) {
   if (!MakeResultsFolder(dir, error)) return false;
   const std::filesystem::path root(dir);
-  return WriteFileAtomically((root / "sweep.csv").string(), SweepCsv(result), error) &&
-         WriteFileAtomically((root / "sweep.md").string(), SweepMarkdown(result), error) &&
-         WriteFileAtomically((root / "manifest.json").string(), SweepManifestJson(result), error);
+  for (const SweepFile& file : kFiles) {
+    if (!WriteFileAtomically((root / file.name).string(), file.text(result), error)) return false;
+  }
+  return true;
 }
 
 }  // namespace upright::runner

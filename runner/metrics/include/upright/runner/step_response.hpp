@@ -1,6 +1,6 @@
 // Step-response figures of a uniformly sampled signal (handbook definitions): settling time into
-// a band around the final value, the peak excursion and the rebound past it, overshoot and the
-// time of the peak. MetricRecorder uses them after each disturbance; tests hold them to the
+// a band around the final value, and the peak excursion and the rebound past it (for a step, the
+// percentage overshoot). MetricRecorder uses both after each disturbance; tests hold them to the
 // second-order formulas.
 #pragma once
 
@@ -27,11 +27,5 @@ struct Rebound {
 // response that starts and ends at final it is the decay from one swing to the next. Samples equal
 // to final_value lie on neither side; NaN samples are skipped.
 Rebound PeakAndRebound(std::span<const double> y, double dt_s, double final_value);
-
-// Percentage overshoot of a step response from `initial` to `final_value`; 0 when y never passes
-// the final value. And the time of its peak (first sample of the maximum excursion in the step's
-// direction). Both NaN when y is empty or final_value == initial.
-double StepOvershootPct(std::span<const double> y, double initial, double final_value);
-double PeakTime(std::span<const double> y, double dt_s, double initial, double final_value);
 
 }  // namespace upright::runner
