@@ -131,18 +131,22 @@ std::string TracePath(const ResultsFolder& folder, const ManifestInfo& manifest,
   return (fs::path(folder.path) / "traces" / TraceFileName(named)).string();
 }
 
-// The plots of one scenario: one figure per signal, every controller's first-seed trace in it.
-bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
-                 const ReportOptions& options, const ScenarioRuns& scenario, std::string* html,
-                 std::string* error) {
+// Each controller's plotted run of one scenario with its trace read, the controllers whose trace
+// file is missing, and the seeds plotted.
+struct PlottedRuns {
   std::vector<ControllerTrace> traces;
   std::vector<std::string> missing;
   std::vector<std::string> seeds;  // the seed texts plotted, each once, in controller order
+};
+
+// Seed 1 of each controller when it ran it, else its smallest seed; its trace read when the file
+// is there. False and *error when a trace file is malformed.
+bool LoadPlottedRuns(const ResultsFolder& folder, const ManifestInfo& manifest,
+                     const ScenarioRuns& scenario, PlottedRuns* plotted, std::string* error) {
   for (std::size_t c = 0; c < scenario.controllers.size(); ++c) {
     ControllerTrace t;
     t.controller = scenario.controllers[c];
     t.style = c;
-    // Seed 1 when the controller ran it, else its smallest seed.
     for (const RunRow* row : scenario.rows) {
       if (row->controller != t.controller) continue;
       if (t.run == nullptr || (row->seed == 1) || (t.run->seed != 1 && row->seed < t.run->seed)) {
@@ -153,28 +157,24 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
     const std::string path = TracePath(folder, manifest, *t.run);
     std::error_code ec;
     if (!fs::is_regular_file(path, ec)) {
-      if (t.run->status != "setup_failed") missing.push_back(t.controller);
-      traces.push_back(std::move(t));
+      if (t.run->status != "setup_failed") plotted->missing.push_back(t.controller);
+      plotted->traces.push_back(std::move(t));
       continue;
     }
     if (!ReadTrace(path, &t.signals, error)) return false;
     t.loaded = !t.signals.time_s.empty();
+    std::vector<std::string>& seeds = plotted->seeds;
     if (std::find(seeds.begin(), seeds.end(), t.run->seed_text) == seeds.end()) {
       seeds.push_back(t.run->seed_text);
     }
-    traces.push_back(std::move(t));
+    plotted->traces.push_back(std::move(t));
   }
-  const bool any =
-      std::any_of(traces.begin(), traces.end(), [](const ControllerTrace& t) { return t.loaded; });
-  if (!any) {
-    *html +=
-        "<p class=\"muted\">No traces for this scenario in the folder (run with "
-        "<code>--trace-rate</code> above 0 to plot them).</p>";
-    return true;
-  }
+  return true;
+}
 
-  // The scenario's events: from the trace that ran longest, since a run cut short shows only the
-  // events up to its end. Status marks ("fell") are drawn per run instead.
+// The scenario's events: from the trace that ran longest, since a run cut short shows only the
+// events up to its end. Status marks ("fell") are drawn per run instead.
+std::vector<PlotEvent> ScenarioEvents(const std::vector<ControllerTrace>& traces) {
   const ControllerTrace* longest = nullptr;
   for (const ControllerTrace& t : traces) {
     if (!t.loaded) continue;
@@ -183,26 +183,28 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
     }
   }
   std::vector<PlotEvent> events;
+  if (longest == nullptr) return events;
   for (const TraceLabel& label : longest->signals.labels) {
     if (IsStatusWord(label.label)) continue;
     events.push_back({label.time_s, "E" + std::to_string(events.size() + 1), label.label});
   }
-  double x_max = 0;
-  for (const ControllerTrace& t : traces) {
-    if (t.loaded) x_max = std::max(x_max, t.signals.time_s.back());
-  }
+  return events;
+}
 
+// The paragraphs above the figures: which seeds, how thinned, missing traces, the events.
+void AppendPlotNotes(const PlottedRuns& plotted, const std::vector<PlotEvent>& events,
+                     const ReportOptions& options, std::string* html) {
   std::string seeds_used;
-  for (const std::string& seed : seeds) {
+  for (const std::string& seed : plotted.seeds) {
     seeds_used += (seeds_used.empty() ? "seed " : ", seed ") + seed;
   }
   *html += "<p>Traces of " + Escape(seeds_used.empty() ? "no seed" : seeds_used) +
            " (seed 1 when it was run, else each controller's first seed), thinned to at most " +
            std::to_string(options.max_points) +
            " samples per line by min/max decimation, which keeps every peak.";
-  if (!missing.empty()) {
+  if (!plotted.missing.empty()) {
     std::string names;
-    for (const auto& m : missing) names += (names.empty() ? "" : ", ") + m;
+    for (const auto& m : plotted.missing) names += (names.empty() ? "" : ", ") + m;
     *html += " No trace file for " + Escape(names) + ".";
   }
   *html += "</p>";
@@ -215,32 +217,63 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
     html->back() = '.';
     *html += "</p>";
   }
+}
 
+// One figure of `signal`: every loaded trace, its twin when it has one, a mark where a run ended
+// short of ok.
+LinePlot SignalPlot(const Signal& signal, const std::string& scenario,
+                    const std::vector<ControllerTrace>& traces,
+                    const std::vector<PlotEvent>& events, double x_max) {
+  LinePlot plot;
+  plot.kind = signal.kind;
+  plot.scenario = scenario;
+  plot.title = signal.title;
+  plot.y_label = signal.y_label;
+  plot.x_max_s = x_max;
+  plot.events = events;
+  for (const ControllerTrace& t : traces) {
+    if (!t.loaded) continue;
+    const TraceSignals& s = t.signals;
+    plot.series.push_back({t.controller, t.style, false, s.time_s, s.*signal.values});
+    if (signal.twin != nullptr && s.has_twin) {
+      plot.series.push_back(
+          {t.controller + " (linear twin)", t.style, true, s.time_s, s.*signal.twin});
+    }
+    if (t.run->status != "ok") {
+      const double at = std::isfinite(t.run->fall_time_s) ? t.run->fall_time_s : s.time_s.back();
+      plot.marks.push_back(
+          {s.time_s.back(), LastFinite(s.*signal.values), t.style,
+           t.controller + " " + Words(t.run->status) + " at " + FormatFixed(at, 3) + " s"});
+    }
+  }
+  return plot;
+}
+
+// The plots of one scenario: one figure per signal, every controller's first-seed trace in it.
+bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
+                 const ReportOptions& options, const ScenarioRuns& scenario, std::string* html,
+                 std::string* error) {
+  PlottedRuns plotted;
+  if (!LoadPlottedRuns(folder, manifest, scenario, &plotted, error)) return false;
+  const std::vector<ControllerTrace>& traces = plotted.traces;
+  const bool any =
+      std::any_of(traces.begin(), traces.end(), [](const ControllerTrace& t) { return t.loaded; });
+  if (!any) {
+    *html +=
+        "<p class=\"muted\">No traces for this scenario in the folder (run with "
+        "<code>--trace-rate</code> above 0 to plot them).</p>";
+    return true;
+  }
+  const std::vector<PlotEvent> events = ScenarioEvents(traces);
+  double x_max = 0;
+  for (const ControllerTrace& t : traces) {
+    if (t.loaded) x_max = std::max(x_max, t.signals.time_s.back());
+  }
+  AppendPlotNotes(plotted, events, options, html);
   *html += "<div class=\"figures\">";
   for (const Signal& signal : kSignals) {
-    LinePlot plot;
-    plot.kind = signal.kind;
-    plot.scenario = scenario.name;
-    plot.title = signal.title;
-    plot.y_label = signal.y_label;
-    plot.x_max_s = x_max;
-    plot.events = events;
-    for (const ControllerTrace& t : traces) {
-      if (!t.loaded) continue;
-      const TraceSignals& s = t.signals;
-      plot.series.push_back({t.controller, t.style, false, s.time_s, s.*signal.values});
-      if (signal.twin != nullptr && s.has_twin) {
-        plot.series.push_back(
-            {t.controller + " (linear twin)", t.style, true, s.time_s, s.*signal.twin});
-      }
-      if (t.run->status != "ok") {
-        const double at = std::isfinite(t.run->fall_time_s) ? t.run->fall_time_s : s.time_s.back();
-        plot.marks.push_back(
-            {s.time_s.back(), LastFinite(s.*signal.values), t.style,
-             t.controller + " " + Words(t.run->status) + " at " + FormatFixed(at, 3) + " s"});
-      }
-    }
-    *html += RenderLinePlot(plot, options.max_points);
+    *html += RenderLinePlot(SignalPlot(signal, scenario.name, traces, events, x_max),
+                            options.max_points);
   }
   *html += "</div>";
   return true;
@@ -435,22 +468,16 @@ bool ReadOptional(const std::string& path, CsvTable* table, bool* present, std::
   return !*present || ReadCsvFile(path, table, error);
 }
 
-}  // namespace
-
-bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
-                      const ReportOptions& options, ReportPage* page, std::string* error) {
-  const std::string summary_path = (fs::path(folder.path) / "summary.csv").string();
-  CsvTable summary;
-  if (!ReadCsvFile(summary_path, &summary, error)) return false;
+// summary.csv's rows by name; false and *error when a required column is missing.
+bool ReadRunRows(const CsvTable& summary, const std::string& summary_path,
+                 std::vector<RunRow>* rows, std::string* error) {
   std::vector<int> c;
   if (!Columns(summary, summary_path, {"scenario", "controller", "seed", "status"}, &c, error)) {
     return false;
   }
   const int baseline_column = summary.Column("baseline");
   const int fall_column = summary.Column("fall_time_s");
-
-  std::vector<RunRow> rows;
-  rows.reserve(summary.rows.size());
+  rows->reserve(summary.rows.size());
   for (const auto& cells : summary.rows) {
     RunRow row;
     row.scenario = cells[c[0]];
@@ -461,8 +488,13 @@ bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
     row.baseline = baseline_column >= 0 && cells[baseline_column] == "true";
     if (fall_column >= 0) row.fall_time_s = CsvNumber(cells[fall_column]);
     row.cells = &cells;
-    rows.push_back(std::move(row));
+    rows->push_back(std::move(row));
   }
+  return true;
+}
+
+// The rows grouped by scenario, scenarios and controllers in file order, seeds ascending.
+std::vector<ScenarioRuns> GroupByScenario(const std::vector<RunRow>& rows) {
   std::vector<ScenarioRuns> scenarios;
   for (const RunRow& row : rows) {
     auto it = std::find_if(scenarios.begin(), scenarios.end(),
@@ -482,17 +514,74 @@ bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
     it->rows.push_back(&row);
   }
   for (ScenarioRuns& s : scenarios) std::sort(s.seeds.begin(), s.seeds.end());
+  return scenarios;
+}
 
-  CsvTable compare, ranking, gap;
+// The tables a run folder holds beside summary.csv, each when present.
+struct RunTables {
+  CsvTable summary, compare, ranking, gap;
+  std::string compare_path, ranking_path, gap_path;
   bool has_compare = false, has_ranking = false, has_gap = false;
-  const std::string compare_path = (fs::path(folder.path) / "compare.csv").string();
-  const std::string ranking_path = (fs::path(folder.path) / "ranking.csv").string();
-  const std::string gap_path = (fs::path(folder.path) / "gap.csv").string();
-  if (!ReadOptional(compare_path, &compare, &has_compare, error) ||
-      !ReadOptional(ranking_path, &ranking, &has_ranking, error) ||
-      !ReadOptional(gap_path, &gap, &has_gap, error)) {
+};
+
+bool ReadRunTables(const std::string& dir, RunTables* tables, std::string* error) {
+  tables->compare_path = (fs::path(dir) / "compare.csv").string();
+  tables->ranking_path = (fs::path(dir) / "ranking.csv").string();
+  tables->gap_path = (fs::path(dir) / "gap.csv").string();
+  return ReadOptional(tables->compare_path, &tables->compare, &tables->has_compare, error) &&
+         ReadOptional(tables->ranking_path, &tables->ranking, &tables->has_ranking, error) &&
+         ReadOptional(tables->gap_path, &tables->gap, &tables->has_gap, error);
+}
+
+// One scenario's subsection: its file, robot and seeds, the plots, every run, the comparison and
+// the gap.
+bool AppendScenario(const ResultsFolder& folder, const ManifestInfo& manifest,
+                    const ReportOptions& options, const RunTables& tables,
+                    const ScenarioRuns& scenario, ReportPage* page, std::string* error) {
+  std::string& html = page->body;
+  const std::string id = AnchorId(folder.id + "s-", scenario.name);
+  page->toc.push_back({id, scenario.name, 2});
+  html += "<section><h3 id=\"" + id + "\">" + Escape(scenario.name) + "</h3>";
+  std::string robot, scenario_file;
+  for (const ManifestScenario& m : manifest.scenarios) {
+    if (m.name != scenario.name) continue;
+    robot = m.model_name;
+    scenario_file = fs::path(m.path).filename().string();
+  }
+  std::string seeds;
+  for (const std::uint64_t s : scenario.seeds) {
+    seeds += (seeds.empty() ? "" : ", ") + std::to_string(s);
+  }
+  html += "<p>";
+  if (!scenario_file.empty()) html += "File <code>" + Escape(scenario_file) + "</code> · ";
+  if (!robot.empty()) html += "robot " + Escape(robot) + " · ";
+  html += "controllers " + std::to_string(scenario.controllers.size()) + ", baseline " +
+          Escape(scenario.baseline.empty() ? "not marked" : scenario.baseline) + " · seeds " +
+          Escape(seeds) + "</p>";
+  if (!AppendPlots(folder, manifest, options, scenario, &html, error)) return false;
+  AppendSummaryTable(tables.summary, scenario, &html);
+  if (tables.has_compare &&
+      !AppendCompareTable(tables.compare, tables.compare_path, scenario, &html, error)) {
     return false;
   }
+  if (tables.has_gap && !AppendGapChart(tables.gap, tables.gap_path, scenario, &html, error)) {
+    return false;
+  }
+  html += "</section>";
+  return true;
+}
+
+}  // namespace
+
+bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                      const ReportOptions& options, ReportPage* page, std::string* error) {
+  RunTables tables;
+  const std::string summary_path = (fs::path(folder.path) / "summary.csv").string();
+  if (!ReadCsvFile(summary_path, &tables.summary, error)) return false;
+  std::vector<RunRow> rows;
+  if (!ReadRunRows(tables.summary, summary_path, &rows, error)) return false;
+  const std::vector<ScenarioRuns> scenarios = GroupByScenario(rows);
+  if (!ReadRunTables(folder.path, &tables, error)) return false;
 
   const std::string section_id = folder.id + "runs";
   const std::string where = folder.relative == "." ? "this folder" : folder.relative + "/";
@@ -505,41 +594,15 @@ bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
           std::to_string(rows.size()) + " run(s), " + std::to_string(survived) +
           " survived. Each scenario below: time plots, every run's figures, the comparison "
           "with the baseline" +
-          (has_gap ? std::string(" and the linear twin's gap") : std::string()) + ".</p>";
+          (tables.has_gap ? std::string(" and the linear twin's gap") : std::string()) + ".</p>";
   if (!manifest.present) {
     html +=
         "<p class=\"muted\">No manifest.json here: the folder may be incomplete, and its "
         "input files are not listed above.</p>";
   }
-  if (has_ranking) AppendRanking(ranking, &html);
-
+  if (tables.has_ranking) AppendRanking(tables.ranking, &html);
   for (const ScenarioRuns& scenario : scenarios) {
-    const std::string id = AnchorId(folder.id + "s-", scenario.name);
-    page->toc.push_back({id, scenario.name, 2});
-    html += "<section><h3 id=\"" + id + "\">" + Escape(scenario.name) + "</h3>";
-    std::string robot, scenario_file;
-    for (const ManifestScenario& m : manifest.scenarios) {
-      if (m.name != scenario.name) continue;
-      robot = m.model_name;
-      scenario_file = fs::path(m.path).filename().string();
-    }
-    std::string seeds;
-    for (const std::uint64_t s : scenario.seeds) {
-      seeds += (seeds.empty() ? "" : ", ") + std::to_string(s);
-    }
-    html += "<p>";
-    if (!scenario_file.empty()) html += "File <code>" + Escape(scenario_file) + "</code> · ";
-    if (!robot.empty()) html += "robot " + Escape(robot) + " · ";
-    html += "controllers " + std::to_string(scenario.controllers.size()) + ", baseline " +
-            Escape(scenario.baseline.empty() ? "not marked" : scenario.baseline) + " · seeds " +
-            Escape(seeds) + "</p>";
-    if (!AppendPlots(folder, manifest, options, scenario, &html, error)) return false;
-    AppendSummaryTable(summary, scenario, &html);
-    if (has_compare && !AppendCompareTable(compare, compare_path, scenario, &html, error)) {
-      return false;
-    }
-    if (has_gap && !AppendGapChart(gap, gap_path, scenario, &html, error)) return false;
-    html += "</section>";
+    if (!AppendScenario(folder, manifest, options, tables, scenario, page, error)) return false;
   }
   html += "</section>\n";
   return true;
