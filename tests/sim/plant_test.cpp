@@ -341,7 +341,7 @@ TEST(Plant, WheelsEachCarryHalfTheWeightStandingStill) {
   const RobotModel model = MakeTestRobot();  // COM above the axle, zero pitch: an equilibrium
   auto plant = MakePlant(model, Unpowered());
   ASSERT_NE(plant, nullptr);
-  // (M + 2 m_w) g / 2 per wheel (statics; engine notes' validation table, 0.1 %).
+  // (M + 2 m_w) g / 2 per wheel (statics, derived by hand; tolerance 0.1 %, common practice).
   const double expected = RollingMass(model) * kG / 2;
   for (int k = 1; k <= 200; ++k) {
     plant->Step();
