@@ -66,7 +66,8 @@ TEST(LinearModel, MatchesFiniteDifferencesOfTheNonlinearEquations) {
 
 TEST(LinearModel, OpenLoopPolesAreZeroZeroAndPlusMinusTheFallRate) {
   // Open-loop poles 0, 0, ±√(M_x m_b g l / Δ) for the pitch/drive block, and 0, 0 for yaw
-  // (CONTROL-NOTES.md, derived by hand).
+  // (derived by hand from the linearised equations of motion in linear_model.cpp: the A block
+  // [0 1 0 0; 0 0 a 0; 0 0 0 1; 0 0 λ² 0] has characteristic polynomial s²(s² − λ²)).
   const LinearModel lm = Linearise(Demo("courier.xml"), InputKind::kTorque);
   Eigen::VectorXcd poles = lm.A.eigenvalues();
   std::vector<double> re;
@@ -96,7 +97,8 @@ TEST(LinearModel, YawIsDecoupledFromPitchAndDrive) {
 
 TEST(LinearModel, HeavyWheelsLeaveAPendulumOnAFixedAxle) {
   // As M_x → ∞ the axle stops moving and the pitch equation becomes a pendulum on a fixed pivot:
-  // λ² → m_b g l / (I_b + m_b l²) (CONTROL-NOTES.md test suggestion; pendulum, from memory).
+  // λ² → m_b g l / (I_b + m_b l²) (compound pendulum on a fixed pivot, mechanics handbook, from
+  // memory).
   RobotModel m = Demo("tabletop.xml");
   m.wheel.mass_kg = 1e9;
   m.wheel.spin_inertia_kgm2 = 0.5 * 1e9 * m.wheel.radius_m * m.wheel.radius_m;
@@ -142,8 +144,8 @@ sim::TrueState PlantAfter(const RobotModel& model, double t_s, double left_Nm, d
 
 TEST(LinearModel, PredictsThePlantsYawResponseToOppositeTorques) {
   // Opposite torques ±τ turn the robot at ψ̈ = 2 d τ / (r J_ψ); after t, ψ = ½ ψ̈ t². The plant
-  // (rolling wheels with friction, rigid bodies) must agree within 2 % (BULLET-NOTES tolerance
-  // for the torque-step check).
+  // (rolling wheels with friction, rigid bodies) must agree within 2 % (common practice: the
+  // margin the torque-step check in robot_physics_test.cpp allows).
   const RobotModel model = Lossless(Demo("tabletop.xml"));
   const LinearModel lm = Linearise(model, InputKind::kTorque);
   const double tau = 0.005, t = 0.2;
@@ -154,8 +156,9 @@ TEST(LinearModel, PredictsThePlantsYawResponseToOppositeTorques) {
 }
 
 TEST(LinearModel, PredictsThePlantsPitchResponseToATorqueStep) {
-  // θ(t) = b_θ u / λ² (cosh λt − 1) from rest (linear model); BULLET-NOTES tolerance 2 % at
-  // 0.1 s. The demo courier's parcel rides on its carriage, as the lumped body assumes.
+  // θ(t) = b_θ u / λ² (cosh λt − 1) from rest (linear model); tolerance 2 % at 0.1 s (common
+  // practice, as in robot_physics_test.cpp). The demo courier's parcel rides on its carriage, as
+  // the lumped body assumes.
   const RobotModel model = Lossless(Demo("courier.xml"));
   const LinearModel lm = Linearise(model, InputKind::kTorque);
   const double tau = 1.0, t = 0.1, lambda = lm.fall_rate_1_s;

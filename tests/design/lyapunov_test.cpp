@@ -56,15 +56,15 @@ MatrixXd KroneckerSolution(const MatrixXd& A, const MatrixXd& Q, bool discrete) 
 }
 
 TEST(SolveLyapunov, ScalarMatchesClosedForm) {
-  // a x + x a + q = 0 → x = −q/(2a) (closed form [D]); a = −3, q = 2 → 1/3.
+  // a x + x a + q = 0 → x = −q/(2a) (closed form, derived by hand); a = −3, q = 2 → 1/3.
   const LyapunovResult result = SolveLyapunov(Scalar(-3), Scalar(2));
   ASSERT_TRUE(result.ok()) << result.message;
   EXPECT_NEAR(result.X(0, 0), 1.0 / 3.0, 1e-15);
 }
 
 TEST(SolveLyapunov, DiagonalMatchesClosedForm) {
-  // A = diag(λ) gives x_ij = −q_ij / (λ_i + λ_j) (closed form [D]): λ = −1, −2 and Q = ones
-  // → X = [1/2 1/3; 1/3 1/4].
+  // A = diag(λ) gives x_ij = −q_ij / (λ_i + λ_j) (closed form, derived by hand): λ = −1, −2 and
+  // Q = ones → X = [1/2 1/3; 1/3 1/4].
   const MatrixXd A{{-1, 0}, {0, -2}};
   const MatrixXd expected{{0.5, 1.0 / 3}, {1.0 / 3, 0.25}};
   const LyapunovResult result = SolveLyapunov(A, MatrixXd::Ones(2, 2));
@@ -74,7 +74,8 @@ TEST(SolveLyapunov, DiagonalMatchesClosedForm) {
 
 TEST(SolveLyapunov, OscillatorGramianMatchesClosedForm) {
   // ẍ + 2ζω ẋ + ω² x = w: A = [0 1; −ω² −2ζω], Q = B Bᵀ = [0 0; 0 1]. The stationary covariance
-  // is diag(1/(4ζω³), 1/(4ζω)) (closed form [D], from the two scalar conditions of AX + XAᵀ + Q).
+  // is diag(1/(4ζω³), 1/(4ζω)) (closed form, derived by hand from the two scalar conditions of
+  // AX + XAᵀ + Q = 0).
   const double omega = 2.0, zeta = 0.3;
   const MatrixXd A{{0, 1}, {-omega * omega, -2 * zeta * omega}};
   const MatrixXd Q{{0, 0}, {0, 1}};
@@ -113,7 +114,7 @@ TEST(SolveLyapunov, SolvesNonSymmetricRightHandSides) {
 
 TEST(SolveLyapunov, UnstableButNonsingularAIsSolved) {
   // The solution is unique whenever λ_i + λ_j ≠ 0, Hurwitz or not: A = diag(1, 2), Q = ones
-  // → x_ij = −1/(λ_i + λ_j) (closed form [D]).
+  // → x_ij = −1/(λ_i + λ_j) (closed form, derived by hand).
   const MatrixXd A{{1, 0}, {0, 2}};
   const MatrixXd expected{{-0.5, -1.0 / 3}, {-1.0 / 3, -0.25}};
   const LyapunovResult result = SolveLyapunov(A, MatrixXd::Ones(2, 2));
@@ -138,7 +139,7 @@ TEST(SolveLyapunov, RejectsInvalidInput) {
 }
 
 TEST(SolveDiscreteLyapunov, ScalarMatchesClosedForm) {
-  // a² x − x + q = 0 → x = q/(1 − a²) (closed form [D]); a = 0.5, q = 1 → 4/3.
+  // a² x − x + q = 0 → x = q/(1 − a²) (closed form, derived by hand); a = 0.5, q = 1 → 4/3.
   const LyapunovResult result = SolveDiscreteLyapunov(Scalar(0.5), Scalar(1));
   ASSERT_TRUE(result.ok()) << result.message;
   EXPECT_NEAR(result.X(0, 0), 4.0 / 3.0, 1e-15);
@@ -168,8 +169,8 @@ TEST(SolveDiscreteLyapunov, SingularEquationIsReported) {
 }
 
 TEST(DiscretiseZoh, DoubleIntegratorMatchesClosedForm) {
-  // A² = 0, so e^{AT} = I + AT = [1 T; 0 1] and Bd = ∫₀ᵀ e^{Aτ} dτ B = [T²/2; T] (closed form
-  // [D]; the textbook result, also from memory).
+  // A² = 0, so e^{AT} = I + AT = [1 T; 0 1] and Bd = ∫₀ᵀ e^{Aτ} dτ B = [T²/2; T] (closed form,
+  // derived by hand; the textbook result, also from memory).
   const double period_s = 0.005;
   MatrixXd Ad, Bd;
   DiscretiseZoh(MatrixXd{{0, 1}, {0, 0}}, MatrixXd{{0}, {1}}, period_s, &Ad, &Bd);
@@ -180,7 +181,7 @@ TEST(DiscretiseZoh, DoubleIntegratorMatchesClosedForm) {
 }
 
 TEST(DiscretiseZoh, FirstOrderMatchesClosedForm) {
-  // ẋ = a x + b u: Ad = e^{aT}, Bd = b (e^{aT} − 1)/a (closed form [D]).
+  // ẋ = a x + b u: Ad = e^{aT}, Bd = b (e^{aT} − 1)/a (closed form, derived by hand).
   const double a = -3.0, b = 2.0, period_s = 0.1;
   MatrixXd Ad, Bd;
   DiscretiseZoh(Scalar(a), Scalar(b), period_s, &Ad, &Bd);
@@ -190,7 +191,7 @@ TEST(DiscretiseZoh, FirstOrderMatchesClosedForm) {
 
 TEST(DiscretiseZoh, OscillatorMatchesClosedForm) {
   // A = [0 ω; −ω 0], B = [0; 1]: Ad is the rotation [cos ωT, sin ωT; −sin ωT, cos ωT] and
-  // Bd = [(1 − cos ωT)/ω; sin ωT/ω] (closed form [D]).
+  // Bd = [(1 − cos ωT)/ω; sin ωT/ω] (closed form, derived by hand).
   const double omega = 3.0, period_s = 0.2;
   MatrixXd Ad, Bd;
   DiscretiseZoh(MatrixXd{{0, omega}, {-omega, 0}}, MatrixXd{{0}, {1}}, period_s, &Ad, &Bd);

@@ -1,6 +1,6 @@
 // SisoMargins, InputMargins and WorstInputMargins against published check values, closed forms
 // derived by hand, the LQR guarantees, and brute-force stability sweeps that share nothing with
-// the crossover analysis.
+// the crossover analysis. Sources cited as [Key] are listed in tests/REFERENCES.md.
 #include <gtest/gtest.h>
 
 #include <Eigen/Dense>
@@ -157,7 +157,7 @@ void ExpectDiskFieldsFollowAlpha(const LoopMargins& m) {
 
 // Disks inside the classical margins: the disk of gains and phases that α guarantees contains the
 // real interval [disk_gain_low, disk_gain_high] and the unit-circle arc up to disk_phase_deg, so
-// it cannot reach past the classical margins (Seiler, Packard, Gahinet 2020) [D].
+// it cannot reach past the classical margins (the disk of [SPG2020]; derived by hand).
 void ExpectDiskWithinClassical(const LoopMargins& m) {
   EXPECT_GE(m.disk_gain_low, m.gain_low - 1e-12);
   EXPECT_LE(m.disk_gain_high, m.gain_high + 1e-12);
@@ -166,30 +166,31 @@ void ExpectDiskWithinClassical(const LoopMargins& m) {
 
 TEST(SisoMargins, ThirdOrderLoopMatchesThePublishedMargins) {
   // 24/((s + 1)(s + 2)(s + 3)) = 24/(s³ + 6s² + 11s + 6): GM 2.5 at √11, PM 35.425° at
-  // 2.0638 rad/s (GNU Octave control package, margin.m; CONTROL-NOTES #14 [F,V], tolerance 1e-3).
+  // 2.0638 rad/s ([Octave-control, margin.m]; checked numerically; tolerance 1e-3 from the
+  // printed digits).
   const LoopMargins m = SisoMargins(ThirdOrder(24, 6, 11, 6));
   ASSERT_TRUE(m.ok) << m.message;
   EXPECT_NEAR(m.gain_high, 2.5, 1e-3);
   EXPECT_NEAR(m.gain_high_rad_s, std::sqrt(11.0), 1e-3);
   EXPECT_NEAR(m.phase_deg, 35.425, 1e-3);
   EXPECT_NEAR(m.phase_rad_s, 2.0638, 1e-3);
-  // By hand: L(j√11) = 24/(6 − 6·11) = −0.4 exactly, so GM = 2.5 [D] (tighter tolerance).
+  // By hand: L(j√11) = 24/(6 − 6·11) = −0.4 exactly, so GM = 2.5 (tighter tolerance).
   EXPECT_NEAR(m.gain_high, 2.5, 1e-10);
   EXPECT_NEAR(m.gain_high_rad_s, std::sqrt(11.0), 1e-10);
-  // L(0) = 4 > 0: no gain reduction destabilises [D].
+  // L(0) = 4 > 0: no gain reduction destabilises (derived by hand).
   EXPECT_EQ(m.gain_low, 0.0);
   EXPECT_TRUE(std::isnan(m.gain_low_rad_s));
   // ∠L = −(180° − PM) at the crossover and a delay τ adds ω_c τ of lag, so the delay margin is
-  // PM_rad / ω_c [D], here from the published PM and ω_c (tolerance from their rounding).
+  // PM_rad / ω_c (derived by hand), here from the published PM and ω_c (tolerance from their
+  // rounding).
   EXPECT_NEAR(m.delay_s, 35.425 / kDeg / 2.0638, 1e-4);
   ExpectDiskFieldsFollowAlpha(m);
   ExpectDiskWithinClassical(m);
 }
 
 TEST(SisoMargins, DiskMarginMatchesThePublishedExample) {
-  // 25/(s³ + 10s² + 10s + 10): disk margin α = 0.45809, gain 4.0508 dB, phase 25.80° (Seiler,
-  // Packard, Gahinet 2020 / python-control margin tests; CONTROL-NOTES #15 [F,V]; tolerances
-  // from the printed digits).
+  // 25/(s³ + 10s² + 10s + 10): disk margin α = 0.45809, gain 4.0508 dB, phase 25.80° ([SPG2020];
+  // [python-control]; checked numerically; tolerances from the printed digits).
   const LoopMargins m = SisoMargins(ThirdOrder(25, 10, 10, 10));
   ASSERT_TRUE(m.ok) << m.message;
   EXPECT_NEAR(m.disk_alpha, 0.45809, 1e-5);
@@ -202,7 +203,7 @@ TEST(SisoMargins, DiskMarginMatchesThePublishedExample) {
 
 TEST(SisoMargins, IntegratorHasDelayMarginPiOverTwoK) {
   // L = k/s: |L| = 1 at ω = k with phase −90°, so PM = 90° and the delay margin is π/(2k); the
-  // closed loop s + k is stable for every gain factor [D].
+  // closed loop s + k is stable for every gain factor (derived by hand).
   for (double k : {0.5, 2.0, 40.0}) {
     const LoopMargins m = SisoMargins({Scalar(0), Scalar(1), Scalar(k), Scalar(0)});
     ASSERT_TRUE(m.ok) << m.message;
@@ -211,14 +212,14 @@ TEST(SisoMargins, IntegratorHasDelayMarginPiOverTwoK) {
     EXPECT_NEAR(m.phase_deg, 90, 1e-10);
     EXPECT_EQ(m.gain_high, kInf);
     EXPECT_EQ(m.gain_low, 0.0);
-    // S − ½ = (s − k)/(2(s + k)) is all-pass times ½: α = 2, disk gains [0, inf) [D].
+    // S − ½ = (s − k)/(2(s + k)) is all-pass times ½: α = 2, disk gains [0, inf) (by hand).
     EXPECT_NEAR(m.disk_alpha, 2, 1e-9);
   }
 }
 
 TEST(SisoMargins, FirstOrderLagPhaseMargin) {
   // L = k/(s + 1), k > 1: |L| = 1 at ω = √(k² − 1), PM = 180° − atan √(k² − 1), no phase
-  // crossover so gain_high = inf; delay margin (π − atan ω_c)/ω_c [D].
+  // crossover so gain_high = inf; delay margin (π − atan ω_c)/ω_c (derived by hand).
   for (double k : {1.5, 3.0, 100.0}) {
     const LoopMargins m = SisoMargins(Lag(k, 1));
     ASSERT_TRUE(m.ok) << m.message;
@@ -235,7 +236,7 @@ TEST(SisoMargins, FirstOrderLagPhaseMargin) {
 TEST(SisoMargins, FeedthroughShiftsTheCrossovers) {
   // L = 0.5 + 2/(s + 1) = (0.5 s + 2.5)/(s + 1): |L|² = (0.25ω² + 6.25)/(ω² + 1) = 1 at ω = √7;
   // PM = 180° − (atan √7 − atan(√7/5)); 1 + kL has the pole −(1 + 2.5k)/(1 + 0.5k) < 0 for all
-  // k > 0 [D].
+  // k > 0 (derived by hand).
   const LoopMargins m = SisoMargins({Scalar(-1), Scalar(1), Scalar(2), Scalar(0.5)});
   ASSERT_TRUE(m.ok) << m.message;
   const double wc = std::sqrt(7.0);
@@ -247,7 +248,7 @@ TEST(SisoMargins, FeedthroughShiftsTheCrossovers) {
 
 TEST(SisoMargins, NegativeFeedthroughLosesAPoleThroughInfinity) {
   // L = −0.5 + 3/(s + 1) = (−0.5 s + 2.5)/(s + 1): 1 + kL ∝ (1 − 0.5k) s + (1 + 2.5k), whose
-  // pole leaves through infinity at k = 2 [D].
+  // pole leaves through infinity at k = 2 (derived by hand).
   const LoopMargins m = SisoMargins({Scalar(-1), Scalar(1), Scalar(3), Scalar(-0.5)});
   ASSERT_TRUE(m.ok) << m.message;
   EXPECT_NEAR(m.gain_high, 2.0, 1e-12);
@@ -258,7 +259,7 @@ TEST(SisoMargins, NegativeFeedthroughLosesAPoleThroughInfinity) {
 TEST(InputMargins, UnstablePlantHasAGainReductionMargin) {
   // ẋ = x + u, u = −2x: L = 2/(s − 1). L(0) = −2, so gain_low = 0.5 at DC; no other phase
   // crossover, gain_high = inf. |L| = 1 at ω = √3 with ∠L = −120°: PM = 60°, delay margin
-  // (π/3)/√3. S − ½ = (s − 3)/(2(s + 1)) peaks at DC at 3/2: α = 2/3 [D].
+  // (π/3)/√3. S − ½ = (s − 3)/(2(s + 1)) peaks at DC at 3/2: α = 2/3 (derived by hand).
   const LoopMargins m = InputMargins(Scalar(1), Scalar(1), Scalar(2), 0);
   ASSERT_TRUE(m.ok) << m.message;
   EXPECT_NEAR(m.gain_low, 0.5, 1e-12);
@@ -274,9 +275,9 @@ TEST(InputMargins, UnstablePlantHasAGainReductionMargin) {
 }
 
 TEST(InputMargins, ScalarLqrHasTheGuaranteedMargins) {
-  // ẋ = x + u, q = r = 1: K = 1 + √2 (CONTROL-NOTES #9 [D]). The LQR guarantees ‖S‖∞ ≤ 1,
-  // gain_low ≤ ½, gain_high = inf, PM ≥ 60° (Safonov & Athans 1977, from memory; CONTROL-NOTES
-  // #20 [M], tolerance 1e-9). Here exactly [D]: L = K/(s − 1), gain_low = 1/K = √2 − 1;
+  // ẋ = x + u, q = r = 1: 2x − x² + 1 = 0, K = x = 1 + √2 (closed form, derived by hand). The
+  // LQR guarantees ‖S‖∞ ≤ 1, gain_low ≤ ½, gain_high = inf, PM ≥ 60° ([SA1977], from memory;
+  // tolerance 1e-9). Here exactly (by hand): L = K/(s − 1), gain_low = 1/K = √2 − 1;
   // |L| = 1 at ω = √(K² − 1) with PM = atan ω; S = (s − 1)/(s + √2) has ‖S‖∞ = 1 at infinity;
   // S − ½ = (s − 2 − √2)/(2(s + √2)) peaks at DC: α = 2√2/(2 + √2) = 2(√2 − 1).
   const double k = 1 + std::sqrt(2.0);
@@ -296,8 +297,8 @@ TEST(InputMargins, ScalarLqrHasTheGuaranteedMargins) {
 }
 
 TEST(InputMargins, DoubleIntegratorLqrHasTheGuaranteedMargins) {
-  // A = [0 1; 0 0], B = [0; 1], Q = I, R = 1: K = [1 √3] (SLICOT SB02OD documentation example;
-  // CONTROL-NOTES #1 [F,V]). Guarantees as above (#20 [M], tolerance 1e-9). By hand [D]:
+  // A = [0 1; 0 0], B = [0; 1], Q = I, R = 1: K = [1 √3] ([SB02OD] documentation example;
+  // checked numerically). Guarantees as above ([SA1977], tolerance 1e-9). By hand:
   // L = (√3 s + 1)/s²; 1 + kL ∝ s² + √3k s + k is stable for every k > 0 (gain_low = 0,
   // gain_high = inf); |L| = 1 at ω² = (3 + √13)/2 with PM = atan(√3 ω);
   // S = s²/(s² + √3 s + 1), |S|² = ω⁴/(ω⁴ + ω² + 1) < 1, so ‖S‖∞ = 1 at infinity.
@@ -382,7 +383,7 @@ TEST(WorstInputMargins, TakesTheWorstOfEachFigure) {
   // Decoupled: ẋ1 = x1 + u1 with u1 = −2x1 (L = 2/(s − 1): gain_low ½, PM 60°, delay
   // π/(3√3) ≈ 0.605 s, α = 2/3), ẋ2 = −x2 + u2 with u2 = −3x2 (L = 3/(s + 1): gain_low 0,
   // PM 180° − atan √8 ≈ 109.5°, delay (π − atan √8)/√8 ≈ 0.676 s, S − ½ = (s − 2)/(2(s + 4)) →
-  // α = 2 at infinity) [D].
+  // α = 2 at infinity) (derived by hand).
   const Eigen::MatrixXd a = Eigen::Vector2d(1, -1).asDiagonal();
   const Eigen::MatrixXd b = Eigen::Matrix2d::Identity();
   const Eigen::MatrixXd k = Eigen::Vector2d(2, 3).asDiagonal();
@@ -411,7 +412,7 @@ TEST(WorstInputMargins, TakesTheWorstOfEachFigure) {
 TEST(SisoMargins, PureGainLoop) {
   // L = 2: 1 + 2k never vanishes for k > 0 and |L| never equals 1, so every classical margin is
   // infinite; S − ½ = 1/3 − 1/2 = −1/6 gives α = 6, beyond 2: disk gains [0, inf) and disk phase
-  // 2 atan 3 [D].
+  // 2 atan 3 (derived by hand).
   const LoopMargins m =
       SisoMargins({Eigen::MatrixXd(0, 0), Eigen::MatrixXd(0, 1), Eigen::MatrixXd(1, 0), Scalar(2)});
   ASSERT_TRUE(m.ok) << m.message;
@@ -426,7 +427,7 @@ TEST(SisoMargins, PureGainLoop) {
 }
 
 TEST(SisoMargins, UnstableClosedLoopIsReported) {
-  // L = 0.5/(s − 1): 1 + L ∝ s − 0.5, unstable [D].
+  // L = 0.5/(s − 1): 1 + L ∝ s − 0.5, unstable (derived by hand).
   const LoopMargins m = SisoMargins({Scalar(1), Scalar(1), Scalar(0.5), Scalar(0)});
   EXPECT_FALSE(m.ok);
   EXPECT_NE(m.message.find("unstable"), std::string::npos) << m.message;

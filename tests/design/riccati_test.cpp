@@ -1,5 +1,6 @@
 // Riccati solvers against published check values and closed forms, their typed failures, and the
-// Schur and sign-function methods against each other.
+// Schur and sign-function methods against each other. Sources cited as [Key] are listed in
+// tests/REFERENCES.md.
 #include "upright/design/riccati.hpp"
 
 #include <gtest/gtest.h>
@@ -43,15 +44,16 @@ ScalarHinf MakeScalarHinf(double a, double gamma) {
   return problem;
 }
 
-// Closed form of its stabilising solution, X = (a + √(a² + 1 − γ⁻²)) / (1 − γ⁻²)
-// (CONTROL-NOTES #10: closed form [D]).
+// Closed form of its stabilising solution, X = (a + √(a² + 1 − γ⁻²)) / (1 − γ⁻²): the stabilising
+// root of (1 − γ⁻²) X² − 2a X − 1 = 0 (derived by hand).
 double ScalarHinfClosedForm(double a, double gamma) {
   const double g = 1 - 1 / (gamma * gamma);
   return (a + std::sqrt(a * a + g)) / g;
 }
 
 TEST(SolveCare, DoubleIntegratorMatchesPublishedExample) {
-  // CONTROL-NOTES #1: X = [√3 1; 1 √3], K = [1 √3], tol 1e-10 (SLICOT SB02OD doc example [F,V]).
+  // X = [√3 1; 1 √3], K = [1 √3], tol 1e-10 ([SB02OD] documentation example; checked
+  // numerically).
   const MatrixXd A{{0, 1}, {0, 0}};
   const MatrixXd B{{0}, {1}};
   const MatrixXd Q = MatrixXd::Identity(2, 2);
@@ -69,8 +71,8 @@ TEST(SolveCare, DoubleIntegratorMatchesPublishedExample) {
 }
 
 TEST(SolveCare, OutputWeightedExampleMatchesPublishedValues) {
-  // CONTROL-NOTES #2: X = [0.5895 1.8216; 1.8216 8.8188], K = [0.6072 2.9396], poles −3.5026,
-  // −1.4370, tol 1e-4 (GNU Octave control package, care.m test [F,V]).
+  // X = [0.5895 1.8216; 1.8216 8.8188], K = [0.6072 2.9396], poles −3.5026, −1.4370, tol 1e-4
+  // from the printed digits ([Octave-control, care.m test]; checked numerically).
   const MatrixXd A{{-3, 2}, {1, 1}};
   const MatrixXd B{{0}, {1}};
   const MatrixXd C{{1, -1}};
@@ -88,8 +90,8 @@ TEST(SolveCare, OutputWeightedExampleMatchesPublishedValues) {
 }
 
 TEST(SolveCare, GivenQuadraticTermMatchesPublishedExample) {
-  // CONTROL-NOTES #3: A = [0 1; 0 0], Q = diag(1, 2), G = B R⁻¹ Bᵀ = diag(0, 1) → X = [2 1; 1 2],
-  // tol 1e-10 (SLICOT SB02MD doc [F]). G = diag(0, 1) is B = [0; 1], R = 1.
+  // A = [0 1; 0 0], Q = diag(1, 2), G = B R⁻¹ Bᵀ = diag(0, 1) → X = [2 1; 1 2], tol 1e-10
+  // ([SB02MD] documentation example). G = diag(0, 1) is B = [0; 1], R = 1.
   const MatrixXd A{{0, 1}, {0, 0}};
   const MatrixXd B{{0}, {1}};
   const MatrixXd Q{{1, 0}, {0, 2}};
@@ -100,8 +102,8 @@ TEST(SolveCare, GivenQuadraticTermMatchesPublishedExample) {
 }
 
 TEST(SolveCare, UnstableExampleMatchesPublishedValues) {
-  // CONTROL-NOTES #4: X = [[21.72792206, 14.48528137], [14.48528137, 9.65685425]], tol 1e-8
-  // (SciPy solve_continuous_are docstring [F]).
+  // X = [[21.72792206, 14.48528137], [14.48528137, 9.65685425]], tol 1e-8 from the printed
+  // digits ([SciPy-CARE] example).
   const MatrixXd A{{4, 3}, {-4.5, -3.5}};
   const MatrixXd B{{1}, {-1}};
   const MatrixXd Q{{9, 6}, {6, 4}};
@@ -114,7 +116,8 @@ TEST(SolveCare, UnstableExampleMatchesPublishedValues) {
 }
 
 TEST(SolveCare, ScalarLqrMatchesClosedForm) {
-  // CONTROL-NOTES #9: ẋ = x + u, q = r = 1: K = 1 + √2, pole −√2, tol 1e-12 (closed form [D]).
+  // ẋ = x + u, q = r = 1: 2x − x² + 1 = 0, so K = x = 1 + √2 and the pole is 1 − K = −√2, tol
+  // 1e-12 (closed form, derived by hand).
   const RiccatiResult result = SolveCare(Scalar(1), Scalar(1), Scalar(1), Scalar(1));
   ASSERT_TRUE(result.ok()) << result.message;
   const double gain = result.X(0, 0);  // K = r⁻¹ b x = x
@@ -124,7 +127,8 @@ TEST(SolveCare, ScalarLqrMatchesClosedForm) {
 
 TEST(SolveCare, ScalarCrossTermMatchesClosedForm) {
   // a = b = 1, q = 2, r = 1, s = 0.5: (x b + s)² = r (2 a x + q) → x² − x − 1.75 = 0, stabilising
-  // root x = (1 + 2√2)/2 (closed form [D]; the other root −0.914 gives the pole +1.41).
+  // root x = (1 + 2√2)/2 (closed form, derived by hand; the other root −0.914 gives the pole
+  // +1.41).
   const RiccatiResult result = SolveCare(Scalar(1), Scalar(1), Scalar(2), Scalar(1), Scalar(0.5));
   ASSERT_TRUE(result.ok()) << result.message;
   EXPECT_NEAR(result.X(0, 0), (1 + 2 * std::sqrt(2.0)) / 2, 1e-12);
@@ -135,8 +139,8 @@ TEST(SolveCare, ScalarCrossTermMatchesClosedForm) {
 }
 
 TEST(SolveCare, ScalarHinfIndefiniteRMatchesClosedForm) {
-  // CONTROL-NOTES #10: γ = 2: a = 1 → X = 3.0971675407, a = −1 → X = 0.4305008740, tol 1e-9
-  // (closed form [D,V: SciPy, SB02OD]).
+  // γ = 2: a = 1 → X = 3.0971675407, a = −1 → X = 0.4305008740, tol 1e-9 (the closed form
+  // above, derived by hand; checked numerically with SciPy and SLICOT SB02OD).
   const struct { double a, expected; } cases[] = {{1.0, 3.0971675407}, {-1.0, 0.4305008740}};
   for (const auto& c : cases) {
     const ScalarHinf p = MakeScalarHinf(c.a, 2.0);
@@ -149,8 +153,9 @@ TEST(SolveCare, ScalarHinfIndefiniteRMatchesClosedForm) {
 }
 
 TEST(SolveCare, ScalarHinfSolvableJustAboveOptimalGamma) {
-  // CONTROL-NOTES #11: for a = −1, γ_opt = 1/√(1 + a²) = 0.70710678 (tol 1e-4; closed form
-  // [D,V]). 1e-4 above it the stabilising X exists, is ≥ 0, and matches the closed form of #10.
+  // For a < 0, γ_opt = 1/√(1 + a²), where a² + 1 − γ⁻² reaches 0 (a = −1: 0.70710678; closed
+  // form, derived by hand; checked numerically). 1e-4 above it the stabilising X exists, is ≥ 0,
+  // and matches the closed form of ScalarHinfClosedForm.
   const double gamma_opt = 1 / std::sqrt(2.0);
   const double gamma = gamma_opt * (1 + 1e-4);
   const ScalarHinf p = MakeScalarHinf(-1.0, gamma);
@@ -161,7 +166,7 @@ TEST(SolveCare, ScalarHinfSolvableJustAboveOptimalGamma) {
 }
 
 TEST(SolveCare, ScalarHinfFailsJustBelowOptimalGamma) {
-  // CONTROL-NOTES #11 (a = −1, γ_opt = 1/√2 [D,V]): 1e-4 below it the Hamiltonian
+  // a = −1, γ_opt = 1/√2 (derived by hand, as above): 1e-4 below it the Hamiltonian
   // [a, −(1 − γ⁻²); −1, −a] has λ² = 2 − γ⁻² < 0, an imaginary pair: no stabilising solution.
   const double gamma = (1 / std::sqrt(2.0)) * (1 - 1e-4);
   const ScalarHinf p = MakeScalarHinf(-1.0, gamma);
@@ -173,9 +178,10 @@ TEST(SolveCare, ScalarHinfFailsJustBelowOptimalGamma) {
 }
 
 TEST(SolveCare, ScalarHinfIndefiniteSolutionRejectedWhenPsdRequired) {
-  // a = 1, γ = 0.9 < γ_opt = 1 (CONTROL-NOTES #11, a ≥ 0 [D,V]): 1 − γ⁻² < 0 while
-  // a² + 1 − γ⁻² > 0, so the stabilising X = (a + √(a² + 1 − γ⁻²))/(1 − γ⁻²) exists but is
-  // negative (closed form [D]). With require_psd it must be refused with the typed reason.
+  // a = 1, γ = 0.9 < γ_opt = 1 (for a ≥ 0, X ≥ 0 needs 1 − γ⁻² > 0; derived by hand): 1 − γ⁻² < 0
+  // while a² + 1 − γ⁻² > 0, so the stabilising X = (a + √(a² + 1 − γ⁻²))/(1 − γ⁻²) exists but is
+  // negative (closed form, derived by hand). With require_psd it must be refused with the typed
+  // reason.
   const ScalarHinf p = MakeScalarHinf(1.0, 0.9);
   const double expected = ScalarHinfClosedForm(1.0, 0.9);
   ASSERT_LT(expected, 0);
@@ -189,8 +195,9 @@ TEST(SolveCare, ScalarHinfIndefiniteSolutionRejectedWhenPsdRequired) {
 }
 
 TEST(SolveCare, KalmanBucyFilterIsTheDualEquation) {
-  // CONTROL-NOTES #16: ẋ = −x + w, y = x + v, Q = R = 1: P = L = √2 − 1, tol 1e-12 (closed form
-  // [D]). The filter equation A P + P Aᵀ − P Cᵀ R⁻¹ C P + Q = 0 is the CARE for (Aᵀ, Cᵀ).
+  // ẋ = −x + w, y = x + v, Q = R = 1: −2P − P² + 1 = 0, P = L = √2 − 1, tol 1e-12 (closed form,
+  // derived by hand). The filter equation A P + P Aᵀ − P Cᵀ R⁻¹ C P + Q = 0 is the CARE for
+  // (Aᵀ, Cᵀ).
   const MatrixXd A = Scalar(-1);
   const MatrixXd C = Scalar(1);
   const MatrixXd R = Scalar(1);
@@ -332,8 +339,8 @@ TEST(SolveCare, SolutionMakesTheClosedLoopStableOnRandomSystems) {
 }
 
 TEST(SolveDare, OutputWeightedExampleMatchesPublishedValues) {
-  // CONTROL-NOTES #5: X = [1.5354 1.2623; 1.2623 10.5596], K = [0.4092 1.7283], tol 1e-4 (GNU
-  // Octave control package, dare.m [F,V]).
+  // X = [1.5354 1.2623; 1.2623 10.5596], K = [0.4092 1.7283], tol 1e-4 from the printed digits
+  // ([Octave-control, dare.m test]; checked numerically).
   const MatrixXd A{{0.4, 1.7}, {0.9, 3.8}};
   const MatrixXd B{{0.8}, {2.1}};
   const MatrixXd C{{1, -1}};
@@ -349,19 +356,20 @@ TEST(SolveDare, OutputWeightedExampleMatchesPublishedValues) {
 }
 
 TEST(SolveDare, RandomWalkKalmanFilterIsTheDualEquation) {
-  // CONTROL-NOTES #17: x[k+1] = x[k] + w, y = x + v, Q = R = 1: P⁻ = 1.6180340 ((1 + √5)/2),
-  // K = 0.6180340, tol 1e-9 (closed form [D]). The predictor equation is the DARE for (Aᵀ, Cᵀ).
+  // x[k+1] = x[k] + w, y = x + v, Q = R = 1: P = P − P²/(P + 1) + 1 → P² − P − 1 = 0,
+  // P⁻ = (1 + √5)/2 = 1.6180340, K = P/(P + 1) = 0.6180340, tol 1e-9 (closed form, derived by
+  // hand). The predictor equation is the DARE for (Aᵀ, Cᵀ).
   const RiccatiResult result = SolveDare(Scalar(1), Scalar(1), Scalar(1), Scalar(1));
   ASSERT_TRUE(result.ok()) << result.message;
   const double p = result.X(0, 0);
-  EXPECT_NEAR(p, 1.6180340, 1e-7);  // the table's 8 digits
+  EXPECT_NEAR(p, 1.6180340, 1e-7);  // the 8 digits written above
   EXPECT_NEAR(p, (1 + std::sqrt(5.0)) / 2, 1e-9);
   EXPECT_NEAR(p / (p + 1), 0.6180340, 1e-7);
 }
 
 TEST(SolveDare, ScalarUnstableLqrMatchesClosedForm) {
-  // a = 2, b = q = r = 1: x = a²x − a²x²/(1 + x) + 1 → x² − 4x − 1 = 0, x = 2 + √5 (closed form
-  // [D]); closed loop a − a x/(1 + x) = 2/(1 + x) ≈ 0.38.
+  // a = 2, b = q = r = 1: x = a²x − a²x²/(1 + x) + 1 → x² − 4x − 1 = 0, x = 2 + √5 (closed form,
+  // derived by hand); closed loop a − a x/(1 + x) = 2/(1 + x) ≈ 0.38.
   const RiccatiResult result = SolveDare(Scalar(2), Scalar(1), Scalar(1), Scalar(1));
   ASSERT_TRUE(result.ok()) << result.message;
   EXPECT_NEAR(result.X(0, 0), 2 + std::sqrt(5.0), 1e-12);
@@ -369,7 +377,7 @@ TEST(SolveDare, ScalarUnstableLqrMatchesClosedForm) {
 
 TEST(SolveDare, ScalarCrossTermMatchesClosedForm) {
   // a = b = 1, q = 2, r = 1, s = 0.5: x − x − (x + 0.5)²/(1 + x) + 2 = 0 → x² − x − 1.75 = 0,
-  // x = (1 + 2√2)/2; closed loop 0.5/(1 + x) (closed form [D]).
+  // x = (1 + 2√2)/2; closed loop 0.5/(1 + x) (closed form, derived by hand).
   const RiccatiResult result = SolveDare(Scalar(1), Scalar(1), Scalar(2), Scalar(1), Scalar(0.5));
   ASSERT_TRUE(result.ok()) << result.message;
   EXPECT_NEAR(result.X(0, 0), (1 + 2 * std::sqrt(2.0)) / 2, 1e-12);

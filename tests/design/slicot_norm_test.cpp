@@ -58,7 +58,8 @@ Reference SlicotNorm(const StateSpace& s, double tolerance) {
   double e = 1;
   const int lda = std::max(1, n), ldb = std::max(1, n), ldc = std::max(1, p), ldd = std::max(1, p);
   const int lde = 1;
-  // Workspace sizes from the routine's documentation (CONTROL-NOTES).
+  // Workspace sizes from the routine's documentation (SLICOT AB13DD, arguments LDWORK and
+  // LCWORK).
   const int ldwork = std::max(1, 15 * n * n + p * p + m * m + (6 * n + 3) * (p + m) + 4 * p * m +
                                      n * m + 22 * n + 7 * std::min(p, m));
   const int lcwork = std::max(1, (n + m) * (n + p) + 2 * std::min(p, m) + std::max(p, m));
@@ -141,7 +142,7 @@ StateSpace RandomStable(Random& random, Eigen::Index n, Eigen::Index p, Eigen::I
 }
 
 TEST(SlicotNorm, CallIsRightOnAFirstOrderLag) {
-  // 1/(s + 1): |G(jω)| = 1/√(1 + ω²), norm 1 at ω = 0 [D].
+  // 1/(s + 1): |G(jω)| = 1/√(1 + ω²), norm 1 at ω = 0 (derived by hand).
   const StateSpace lag{Eigen::MatrixXd::Constant(1, 1, -1.0), Eigen::MatrixXd::Ones(1, 1),
                        Eigen::MatrixXd::Ones(1, 1), Eigen::MatrixXd::Zero(1, 1)};
   const Reference ref = SlicotNorm(lag, 1e-10);
@@ -156,7 +157,7 @@ TEST(SlicotNorm, CallIsRightOnAFirstOrderLag) {
 
 TEST(SlicotNorm, CallIsRightOnAResonance) {
   // 1/(s² + 0.2 s + 1): Mr = 1/(2ζ√(1 − ζ²)) at ω = √(1 − 2ζ²), ζ = 0.1 (handbook, from memory;
-  // CONTROL-NOTES #13 [M,V]).
+  // it is the minimum over ω² of |1 − ω² + 2jζω|², derived by hand).
   Eigen::MatrixXd a(2, 2);
   a << 0, 1, -1, -0.2;
   const StateSpace resonance{a, Eigen::Vector2d(0, 1), Eigen::RowVector2d(1, 0),
@@ -169,7 +170,7 @@ TEST(SlicotNorm, CallIsRightOnAResonance) {
 }
 
 TEST(SlicotNorm, CallIsRightWithFeedthrough) {
-  // 2 + 1/(s + 1): real and decreasing in |G| from 3 at DC to 2 at infinity [D].
+  // 2 + 1/(s + 1): real and decreasing in |G| from 3 at DC to 2 at infinity (derived by hand).
   const StateSpace s{Eigen::MatrixXd::Constant(1, 1, -1.0), Eigen::MatrixXd::Ones(1, 1),
                      Eigen::MatrixXd::Ones(1, 1), Eigen::MatrixXd::Constant(1, 1, 2.0)};
   const Reference ref = SlicotNorm(s, 1e-10);
@@ -181,7 +182,8 @@ TEST(SlicotNorm, CallIsRightWithFeedthrough) {
 TEST(SlicotNorm, SixthOrderLightlyDampedSystemAgrees) {
   // Our own example (not the routine's documented one): three modes s/(s² + c_i s + ω_i²) summed,
   // ω_i² = 0.5, 1, 2 and c_i = 2e-4, 2e-5, 2e-6. The last mode alone peaks at 1/c = 5e5 at √2
-  // [D]; the others add a few units there. A peak 1e-6 wide: both methods must find it.
+  // (derived by hand); the others add a few units there. A peak 1e-6 wide: both methods must
+  // find it.
   Eigen::MatrixXd a = Eigen::MatrixXd::Zero(6, 6);
   const double omega2[3] = {0.5, 1.0, 2.0};
   const double damping[3] = {2e-4, 2e-5, 2e-6};

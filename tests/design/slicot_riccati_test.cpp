@@ -144,7 +144,7 @@ double Compare(const RiccatiResult& ours, const Reference& reference, const char
 }
 
 TEST(SlicotRiccati, Sb02odCallReproducesItsDocumentedExample) {
-  // CONTROL-NOTES #1: X = [√3 1; 1 √3], tol 1e-10 (SLICOT SB02OD doc example [F,V]). Proves the
+  // X = [√3 1; 1 √3], tol 1e-10 (SLICOT SB02OD, its documentation's program example). Proves the
   // Fortran call itself before it serves as a reference.
   const MatrixXd A{{0, 1}, {0, 0}};
   const MatrixXd B{{0}, {1}};
@@ -157,8 +157,8 @@ TEST(SlicotRiccati, Sb02odCallReproducesItsDocumentedExample) {
 }
 
 TEST(SlicotRiccati, Sb02mdCallReproducesItsDocumentedExample) {
-  // CONTROL-NOTES #3: A = [0 1; 0 0], Q = diag(1, 2), G = diag(0, 1) → X = [2 1; 1 2], tol 1e-10
-  // (SLICOT SB02MD doc [F]).
+  // A = [0 1; 0 0], Q = diag(1, 2), G = diag(0, 1) → X = [2 1; 1 2], tol 1e-10 (SLICOT SB02MD,
+  // its documentation's program example).
   const Reference reference =
       Sb02md(MatrixXd{{0, 1}, {0, 0}}, MatrixXd{{0, 0}, {0, 1}}, MatrixXd{{1, 0}, {0, 2}});
   ASSERT_EQ(reference.info, 0);

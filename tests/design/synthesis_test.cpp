@@ -1,5 +1,6 @@
 // Controller synthesis against published worked examples and closed forms, and the designs of the
-// demo robots against the properties the theory guarantees.
+// demo robots against the properties the theory guarantees. Sources cited as [Key] are listed in
+// tests/REFERENCES.md.
 #include "upright/design/synthesis.hpp"
 
 #include <gtest/gtest.h>
@@ -30,8 +31,9 @@ MatrixXd M(std::initializer_list<std::initializer_list<double>> rows) {
 }
 
 // Cart-pole of the University of Michigan Control Tutorials, inverted pendulum state-space
-// example (M = 0.5, m = 0.2, b = 0.1, I = 0.006, g = 9.8, l = 0.3), built from its parameters
-// with the tutorial's formulas (p = I(M + m) + M m l²) rather than from its rounded table.
+// example [CTMS-pendulum] (M = 0.5, m = 0.2, b = 0.1, I = 0.006, g = 9.8, l = 0.3), built from its
+// parameters with the tutorial's formulas (p = I(M + m) + M m l²) rather than from its rounded
+// table.
 constexpr double kCartM = 0.5, kPoleM = 0.2, kFriction = 0.1, kPoleI = 0.006, kCartG = 9.8,
                  kPoleL = 0.3;
 constexpr double kP = kPoleI * (kCartM + kPoleM) + kCartM * kPoleM * kPoleL * kPoleL;
@@ -49,8 +51,8 @@ MatrixXd CartPoleB() {
 }
 
 TEST(Synthesis, CartPoleModelMatchesTheTutorialTable) {
-  // CONTROL-NOTES #6: A = [0 1 0 0; 0 −0.1818 2.6727 0; 0 0 0 1; 0 −0.4545 31.1818 0],
-  // B = [0; 1.8182; 0; 4.5455] (same tutorial [F,V]), to the table's 4 decimals.
+  // A = [0 1 0 0; 0 −0.1818 2.6727 0; 0 0 0 1; 0 −0.4545 31.1818 0], B = [0; 1.8182; 0; 4.5455]
+  // ([CTMS-pendulum]; checked numerically), to the tutorial's 4 printed decimals.
   const MatrixXd table_a =
       M({{0, 1, 0, 0}, {0, -0.1818, 2.6727, 0}, {0, 0, 0, 1}, {0, -0.4545, 31.1818, 0}});
   const MatrixXd table_b = M({{0}, {1.8182}, {0}, {4.5455}});
@@ -59,8 +61,8 @@ TEST(Synthesis, CartPoleModelMatchesTheTutorialTable) {
 }
 
 TEST(Synthesis, LqrGainMatchesTheCartPoleTutorialWithHeavyPositionWeight) {
-  // CONTROL-NOTES #7: Q = diag(5000, 0, 100, 0), R = 1 → K = [−70.7107 −37.8345 105.5298 20.9238]
-  // (same tutorial [F,V]), to the table's 1e-4.
+  // Q = diag(5000, 0, 100, 0), R = 1 → K = [−70.7107 −37.8345 105.5298 20.9238]
+  // ([CTMS-pendulum]; checked numerically), to the tutorial's 4 printed decimals.
   const GainResult k =
       LqrGain(CartPoleA(), CartPoleB(),
               M({{5000, 0, 0, 0}, {0, 0, 0, 0}, {0, 0, 100, 0}, {0, 0, 0, 0}}), M({{1}}));
@@ -70,7 +72,8 @@ TEST(Synthesis, LqrGainMatchesTheCartPoleTutorialWithHeavyPositionWeight) {
 }
 
 TEST(Synthesis, LqrGainMatchesTheCartPoleTutorialWithUnitWeights) {
-  // CONTROL-NOTES #8: Q = diag(1, 0, 1, 0), R = 1 → K = [−1.0000 −1.6567 18.6854 3.4594] [M,V].
+  // Q = diag(1, 0, 1, 0), R = 1 → K = [−1.0000 −1.6567 18.6854 3.4594] ([CTMS-pendulum], from
+  // memory; checked numerically), to 4 decimals.
   const GainResult k =
       LqrGain(CartPoleA(), CartPoleB(), M({{1, 0, 0, 0}, {0, 0, 0, 0}, {0, 0, 1, 0}, {0, 0, 0, 0}}),
               M({{1}}));
@@ -80,7 +83,8 @@ TEST(Synthesis, LqrGainMatchesTheCartPoleTutorialWithUnitWeights) {
 }
 
 TEST(Synthesis, ScalarLqrHasTheClosedFormGain) {
-  // CONTROL-NOTES #9: ẋ = x + u, q = r = 1 → K = 1 + √2, closed-loop pole −√2 [D].
+  // ẋ = x + u, q = r = 1: 2x − x² + 1 = 0 → K = x = 1 + √2, closed-loop pole −√2 (closed form,
+  // derived by hand).
   const GainResult k = LqrGain(M({{1}}), M({{1}}), M({{1}}), M({{1}}));
   ASSERT_TRUE(k.ok());
   EXPECT_NEAR(k.K(0, 0), 1 + std::sqrt(2.0), 1e-12);
@@ -92,9 +96,11 @@ double ScalarLoopNorm(double a, double k) {
 }
 
 TEST(Synthesis, ScalarHinfGainMatchesTheClosedForm) {
-  // CONTROL-NOTES #10: ẋ = a x + w + u, z = [x; u]: X = (a + √(a² + 1 − γ⁻²)) / (1 − γ⁻²),
-  // F = −X. a = 1, γ = 2: X = 3.0971675407, ‖T_zw‖∞ = 1.5519045913; a = −1, γ = 2:
-  // X = 0.4305008740, ‖T_zw‖∞ = 0.7610824268 [D,V: SciPy, SB02OD].
+  // ẋ = a x + w + u, z = [x; u]: the H-infinity Riccati equation [DGKF1989] is
+  // (1 − γ⁻²) X² − 2a X − 1 = 0, so X = (a + √(a² + 1 − γ⁻²)) / (1 − γ⁻²), F = −X. a = 1, γ = 2:
+  // X = 3.0971675407, ‖T_zw‖∞ = 1.5519045913; a = −1, γ = 2: X = 0.4305008740,
+  // ‖T_zw‖∞ = 0.7610824268 (closed form, derived by hand; checked numerically with SciPy and
+  // SLICOT SB02OD).
   struct Case {
     double a, x, norm;
   };
@@ -107,8 +113,9 @@ TEST(Synthesis, ScalarHinfGainMatchesTheClosedForm) {
 }
 
 TEST(Synthesis, GammaIterationFindsTheScalarOptimum) {
-  // CONTROL-NOTES #11: for a < 0, γ_opt = 1/√(1 + a²) (a = −1: 0.70710678); for a ≥ 0 γ_opt = 1,
-  // approached but not attained [D,V]. Bisection to a relative gap of 1e-6.
+  // For a < 0, γ_opt = 1/√(1 + a²), where the root above turns complex (a = −1: 0.70710678); for
+  // a ≥ 0, X ≥ 0 needs 1 − γ⁻² > 0, so γ_opt = 1, approached but not attained (derived by hand;
+  // checked numerically). Bisection to a relative gap of 1e-6.
   const GammaSearch stable =
       OptimalGamma(M({{-1}}), M({{1}}), M({{1}}), M({{1}}), M({{1}}), 2.0, 1e-6);
   ASSERT_TRUE(stable.ok()) << stable.message;
@@ -121,7 +128,8 @@ TEST(Synthesis, GammaIterationFindsTheScalarOptimum) {
 }
 
 TEST(Synthesis, KalmanBucyGainOfAFirstOrderSystem) {
-  // CONTROL-NOTES #16: ẋ = −x + w, y = x + v, Q = R = 1 → P = L = √2 − 1 [D].
+  // ẋ = −x + w, y = x + v, Q = R = 1: −2P − P² + 1 = 0 → P = L = √2 − 1 (closed form, derived
+  // by hand).
   MatrixXd P;
   const GainResult l = KalmanBucyGain(M({{-1}}), M({{1}}), M({{1}}), M({{1}}), &P);
   ASSERT_TRUE(l.ok()) << l.message;
@@ -130,8 +138,8 @@ TEST(Synthesis, KalmanBucyGainOfAFirstOrderSystem) {
 }
 
 TEST(Synthesis, DiscreteKalmanGainOfARandomWalk) {
-  // CONTROL-NOTES #17: x⁺ = x + w, y = x + v, Q = R = 1 → P⁻ = 1.6180340 (the golden ratio),
-  // K = 0.6180340 [D].
+  // x⁺ = x + w, y = x + v, Q = R = 1: P² − P − 1 = 0 → P⁻ = (1 + √5)/2 = 1.6180340,
+  // K = P/(P + 1) = 0.6180340 (closed form, derived by hand).
   MatrixXd P;
   const GainResult l = DiscreteKalmanGain(M({{1}}), M({{1}}), M({{1}}), M({{1}}), &P);
   ASSERT_TRUE(l.ok()) << l.message;
@@ -161,7 +169,7 @@ TEST(Synthesis, DiscreteLqrApproachesTheContinuousGainAsTheRateRises) {
 }
 
 TEST(Synthesis, LqgPolesAreTheRegulatorAndEstimatorPolesTogether) {
-  // CONTROL-NOTES #19, the separation principle: eig(closed loop) = eig(A − BK) ∪ eig(A − LC)
+  // The separation principle: eig(closed loop) = eig(A − BK) ∪ eig(A − LC)
   // (handbook, from memory), here with the robot's sensors and their input feedthrough.
   const DesignSet d = DesignAll(Demo("courier.xml"), DesignRequest{});
   ASSERT_TRUE(d.lqg.ok) << d.lqg.message;
@@ -180,9 +188,8 @@ TEST(Synthesis, LqgPolesAreTheRegulatorAndEstimatorPolesTogether) {
 }
 
 TEST(Synthesis, ContinuousLqrKeepsItsGuaranteedMargins) {
-  // CONTROL-NOTES #20: a continuous LQR with R = ρI has |1 + L| ≥ 1 in every channel: gain
-  // margin [½, ∞) and phase margin ≥ 60° (Kalman 1964; Safonov and Athans, IEEE TAC 22(2),
-  // 1977, from memory). Loop-at-a-time margins must meet them too.
+  // A continuous LQR with R = ρI has |1 + L| ≥ 1 in every channel: gain margin [½, ∞) and phase
+  // margin ≥ 60° ([SA1977], from memory). Loop-at-a-time margins must meet them too.
   for (const char* name : {"courier.xml", "tabletop.xml"}) {
     const DesignSet d = DesignAll(Demo(name), DesignRequest{});
     ASSERT_TRUE(d.lqr.ok) << name << ": " << d.lqr.message;

@@ -112,5 +112,22 @@ TEST(Percentile, InfinityTakesPartOnlyAtTheTop) {
   EXPECT_EQ(Percentile(unsettled, 50), kInf);
 }
 
+// A percent outside [0, 100] (or NaN) would index past the sorted values: it is a broken caller,
+// stopped by UPRIGHT_CHECK with the percent in the message, with or without values.
+TEST(PercentileDeathTest, RefusesAPercentOutsideZeroToHundred) {
+  const std::vector<double> values = {1.0, 2.0};
+  EXPECT_EQ(Percentile(values, 0), 1.0);  // both edges are allowed
+  EXPECT_EQ(Percentile(values, 100), 2.0);
+  EXPECT_DEATH(Percentile(values, -0.5), "Percentile at -0\\.5 %, must be in \\[0, 100\\]");
+  EXPECT_DEATH(Percentile(values, 100.5), "Percentile at 100\\.5 %, must be in \\[0, 100\\]");
+  EXPECT_DEATH(Percentile(values, std::nan("")), "Percentile at -?nan %");
+  EXPECT_DEATH(Percentile(std::vector<double>{}, 101), "Percentile at 101 %");
+}
+
+TEST(PercentileDeathTest, RefusesANanValue) {
+  const std::vector<double> values = {1.0, std::nan(""), 2.0};
+  EXPECT_DEATH(Percentile(values, 50), "Percentile over a NaN value");
+}
+
 }  // namespace
 }  // namespace upright::runner

@@ -223,31 +223,9 @@ RunHashes RunKnockedOver(std::uint64_t seed) {
     const double volts = 40 * (s.accel_m_s2[0] / kG) + 2 * s.gyro_rad_s[1];
     plant->SetCommand(volts, 0.9 * volts);
     plant->Step();
-    const TrueState& t = plant->truth();
-    for (double v : {t.time_s, t.x_m, t.y_m, t.z_m, t.pitch_rad, t.roll_rad, t.yaw_rad,
-                     t.pitch_rate_rad_s, t.roll_rate_rad_s, t.yaw_rate_rad_s, t.forward_speed_m_s,
-                     t.vertical_speed_m_s, t.payload_x_m}) {
-      truth.Add(v);
-    }
-    for (int i : {kLeft, kRight}) {
-      truth.Add(t.wheel_angle_rad[i]);
-      truth.Add(t.wheel_rate_rad_s[i]);
-      const WheelContact& c = plant->contact().wheels[i];
-      for (double v :
-           {c.normal_N, c.traction_N, c.lateral_N, c.friction, c.slip_ratio, c.friction_use}) {
-        truth.Add(v);
-      }
-      const MotorOutput& m = plant->motors()[i];
-      for (double v : {m.voltage_V, m.current_A, m.wheel_torque_Nm}) truth.Add(v);
-    }
-    truth.Add(plant->contact().chassis_on_ground ? 1 : 0);
+    testing::AddPhysics(*plant, &truth);
     out.fell = out.fell || plant->contact().chassis_on_ground;
-    const SensorSample after = plant->Sense();
-    sensors.Add(after.time_s);
-    for (double v : after.gyro_rad_s) sensors.Add(v);
-    for (double v : after.accel_m_s2) sensors.Add(v);
-    for (double v : after.encoder_angle_rad) sensors.Add(v);
-    for (double v : after.encoder_rate_rad_s) sensors.Add(v);
+    testing::AddSensors(*plant, &sensors);
   }
   EXPECT_FALSE(plant->diverged());
   out.truth = truth.value();
@@ -341,7 +319,7 @@ TEST(Plant, WheelsEachCarryHalfTheWeightStandingStill) {
   const RobotModel model = MakeTestRobot();  // COM above the axle, zero pitch: an equilibrium
   auto plant = MakePlant(model, Unpowered());
   ASSERT_NE(plant, nullptr);
-  // (M + 2 m_w) g / 2 per wheel (statics; engine notes' validation table, 0.1 %).
+  // (M + 2 m_w) g / 2 per wheel (statics, derived by hand; tolerance 0.1 %, common practice).
   const double expected = RollingMass(model) * kG / 2;
   for (int k = 1; k <= 200; ++k) {
     plant->Step();

@@ -64,8 +64,8 @@ TEST(Sensor, AccelerometerReadsPlusGStandingStillOnFlatGround) {
     az.push_back(s.accel_m_s2[2]);
   }
   EXPECT_LT(std::abs(plant->truth().pitch_rad), 1e-6);
-  // At rest the specific force is −g_vec = +g on body z (conventions.hpp); 0.2 % as in the
-  // engine notes' validation table (common practice).
+  // At rest the specific force is −g_vec = +g on body z (conventions.hpp); tolerance 0.2 % of g
+  // (common practice).
   EXPECT_NEAR(Mean(az), kG, 0.002 * kG);
   EXPECT_NEAR(Mean(ax), 0, 0.002 * kG);
   EXPECT_NEAR(Mean(ay), 0, 0.002 * kG);

@@ -110,4 +110,37 @@ class TraceHash {
   std::uint64_t hash_ = 0xcbf29ce484222325ULL;
 };
 
+// Adds everything the physics decides after a step: the true state, each wheel's contact and
+// motor readout, and whether the chassis touches the ground.
+inline void AddPhysics(const Plant& plant, TraceHash* hash) {
+  const TrueState& t = plant.truth();
+  for (double v : {t.time_s, t.x_m, t.y_m, t.z_m, t.pitch_rad, t.roll_rad, t.yaw_rad,
+                   t.pitch_rate_rad_s, t.roll_rate_rad_s, t.yaw_rate_rad_s, t.forward_speed_m_s,
+                   t.vertical_speed_m_s, t.payload_x_m}) {
+    hash->Add(v);
+  }
+  for (int i : {kLeft, kRight}) {
+    hash->Add(t.wheel_angle_rad[i]);
+    hash->Add(t.wheel_rate_rad_s[i]);
+    const WheelContact& c = plant.contact().wheels[i];
+    for (double v :
+         {c.normal_N, c.traction_N, c.lateral_N, c.friction, c.slip_ratio, c.friction_use}) {
+      hash->Add(v);
+    }
+    const MotorOutput& m = plant.motors()[i];
+    for (double v : {m.voltage_V, m.current_A, m.wheel_torque_Nm}) hash->Add(v);
+  }
+  hash->Add(plant.contact().chassis_on_ground ? 1 : 0);
+}
+
+// Adds the sensor sample the controller would read now.
+inline void AddSensors(const Plant& plant, TraceHash* hash) {
+  const SensorSample s = plant.Sense();
+  hash->Add(s.time_s);
+  for (double v : s.gyro_rad_s) hash->Add(v);
+  for (double v : s.accel_m_s2) hash->Add(v);
+  for (double v : s.encoder_angle_rad) hash->Add(v);
+  for (double v : s.encoder_rate_rad_s) hash->Add(v);
+}
+
 }  // namespace upright::sim::testing

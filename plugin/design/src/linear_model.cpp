@@ -7,9 +7,11 @@
 namespace upright::design {
 namespace {
 
-// Constants of the equations of motion (CONTROL-NOTES.md, derived by hand; cross-check Pathak,
-// Franch and Agrawal, IEEE T-RO 21(3), 2005, from memory). The COM sits at distance L from the
-// axle, at angle α ahead of the body's z axis, so the pendulum angle is φ = θ + α.
+// Constants of the equations of motion (derived by hand from Lagrange's equations of the planar
+// wheeled pendulum, wheels rolling without slip, motor torque +τ on the wheel and −τ on the body;
+// cross-check Pathak, Franch and Agrawal, IEEE Trans. Robotics 21(3), 2005, from memory). The
+// COM sits at distance L from the axle, at angle α ahead of the body's z axis, so the pendulum
+// angle is φ = θ + α.
 struct Constants {
   double mb, L, alpha, j_pitch, mx, r, half_track, j_yaw;
 };

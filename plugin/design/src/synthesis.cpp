@@ -47,8 +47,10 @@ GainResult DiscreteLqrGain(const MatrixXd& Ad, const MatrixXd& Bd, const MatrixX
 
 GainResult HinfGain(const MatrixXd& A, const MatrixXd& B1, const MatrixXd& B2, const MatrixXd& Q,
                     const MatrixXd& R, double gamma) {
-  // AᵀX + XA − X [B1 B2] diag(−γ² I, R)⁻¹ [B1 B2]ᵀ X + Q = 0 with X ≥ 0 stabilising
-  // (CONTROL-NOTES.md; the form SLICOT SB10QD solves); F = −R⁻¹ B2ᵀ X, so K = R⁻¹ B2ᵀ X.
+  // AᵀX + XA − X [B1 B2] diag(−γ² I, R)⁻¹ [B1 B2]ᵀ X + Q = 0 with X ≥ 0 stabilising (Doyle,
+  // Glover, Khargonekar and Francis, IEEE Trans. Automatic Control 34(8), 1989, the
+  // full-information central controller; the form SLICOT SB10QD solves); F = −R⁻¹ B2ᵀ X, so
+  // K = R⁻¹ B2ᵀ X.
   if (!(gamma > 0) || !std::isfinite(gamma)) {
     std::ostringstream why;
     why << "H-infinity: gamma = " << gamma << ", must be > 0";

@@ -2,8 +2,14 @@
 
 #include <cmath>
 
+#include "upright/model/check.hpp"
+
 namespace upright::sim {
 namespace {
+
+std::uint64_t Rotl(std::uint64_t x, int k) { return (x << k) | (x >> (64 - k)); }
+
+}  // namespace
 
 // splitmix64, to spread one 64-bit seed over the generator state (Vigna, public domain).
 std::uint64_t SplitMix64(std::uint64_t* x) {
@@ -13,12 +19,16 @@ std::uint64_t SplitMix64(std::uint64_t* x) {
   return z ^ (z >> 31);
 }
 
-std::uint64_t Rotl(std::uint64_t x, int k) { return (x << k) | (x >> (64 - k)); }
-
-}  // namespace
-
 Random::Random(std::uint64_t seed) {
   for (auto& s : s_) s = SplitMix64(&seed);
+}
+
+Random Random::FromState(const std::array<std::uint64_t, 4>& state) {
+  UPRIGHT_CHECK((state[0] | state[1] | state[2] | state[3]) != 0,
+                "xoshiro256++ has no all-zero state");
+  Random r;
+  for (int i = 0; i < 4; ++i) r.s_[i] = state[i];
+  return r;
 }
 
 // xoshiro256++ (Blackman and Vigna, 2019).

@@ -12,13 +12,8 @@
 namespace upright::runner {
 namespace {
 
-// One splitmix64 step from state x (Vigna, public domain): the increment, then the finaliser.
-std::uint64_t SplitMix64(std::uint64_t x) {
-  std::uint64_t z = x + 0x9e3779b97f4a7c15ULL;
-  z = (z ^ (z >> 30)) * 0xbf58476d1ce4e5b9ULL;
-  z = (z ^ (z >> 27)) * 0x94d049bb133111ebULL;
-  return z ^ (z >> 31);
-}
+// The splitmix64 output that follows state x (the generator's own seeding step).
+std::uint64_t SplitMix64(std::uint64_t x) { return sim::SplitMix64(&x); }
 
 double Draw(const Dispersion& d, sim::Random& random) {
   if (d.kind == SpreadKind::kNormal) return d.mean + d.sd * random.Gaussian();

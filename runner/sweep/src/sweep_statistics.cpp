@@ -22,6 +22,8 @@ Interval WilsonInterval(std::size_t successes, std::size_t trials, double z) {
 }
 
 double Percentile(std::span<const double> values, double percent) {
+  UPRIGHT_CHECK(percent >= 0 && percent <= 100, "Percentile at %g %%, must be in [0, 100]",
+                percent);
   if (values.empty()) return std::numeric_limits<double>::quiet_NaN();
   std::vector<double> x(values.begin(), values.end());
   for (const double v : x) UPRIGHT_CHECK(!std::isnan(v), "Percentile over a NaN value");

@@ -23,10 +23,10 @@ struct Interval {
 // [0, 1] and is not empty at 0 or n successes. No trials: [0, 1].
 Interval WilsonInterval(std::size_t successes, std::size_t trials, double z = kZ95);
 
-// The `percent` percentile (0–100) of `values` by linear interpolation between order statistics
+// The `percent` percentile of `values` by linear interpolation between order statistics
 // (NumPy's default, 'linear'): with x sorted ascending and h = (n − 1) · percent / 100,
 // x[⌊h⌋] + (h − ⌊h⌋)(x[⌊h⌋ + 1] − x[⌊h⌋]). +inf values sort last and give +inf where they take
-// part. NaN for no values; the values must not be NaN (UPRIGHT_CHECK).
+// part. NaN for no values. Preconditions (UPRIGHT_CHECK): percent in [0, 100], no NaN value.
 double Percentile(std::span<const double> values, double percent);
 
 }  // namespace upright::runner
