@@ -1,6 +1,6 @@
 // `upright run` and `upright demo`: scenario files (or folders of them) in; every scenario ×
-// controller × seed run in parallel with its progress on stderr; the results folder written
-// (tables, traces, manifest) and its location printed.
+// controller × seed run in parallel with its progress on stderr, then what the runs' modules
+// logged; the results folder written (tables, traces, manifest) and its location printed.
 #include <tinyxml2.h>
 
 #include <algorithm>
