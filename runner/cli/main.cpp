@@ -25,6 +25,7 @@ struct VerbosityFlags {
   }
 };
 
+// Adds -q/--quiet and -v/--verbose to `cmd`, into `flags` (shared by every subcommand: one runs).
 void AddVerbosityFlags(CLI::App* cmd, VerbosityFlags* flags) {
   auto* quiet = cmd->add_flag("-q,--quiet", flags->quiet,
                               "Errors, warnings and the safety caution only: no progress, no "
