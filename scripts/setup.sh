@@ -8,7 +8,6 @@ packages=(
   libbullet-dev          # Bullet 3.24, double-precision build via pkg-config bullet-float64
   libeigen3-dev          # Eigen 3.4
   libtinyxml2-dev        # model and scenario files
-  libspdlog-dev          # logging
   libcli11-dev           # command line
   libexpected-dev        # Result/Status of fallible functions (tl::expected)
   libgtest-dev           # tests

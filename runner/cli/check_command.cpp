@@ -4,10 +4,11 @@
 
 #include <algorithm>
 #include <filesystem>
-#include <iostream>
 #include <system_error>
 
 #include "commands.hpp"
+#include "log.hpp"
+#include "module_messages.hpp"
 #include "upright/model/model_file.hpp"
 #include "upright/runner/modules.hpp"
 #include "upright/runner/run_one.hpp"
@@ -55,15 +56,25 @@ std::vector<std::string> ExpandFolders(const std::vector<std::string>& args,
 
 // What a run of each controller of `scenario` would refuse at set-up, at the controller's line:
 // its module not loading, its create refusing the robot, settings or rate, or the plant refusing.
+// What each module logged while it was created is logged as it would be after a run.
 std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
   std::vector<FileError> problems;
   const runner::ModuleSet modules({&scenario, 1}, {});
+  const LogLevel level = Log().Shows(LogLevel::kDebug) ? LogLevel::kDebug : LogLevel::kInfo;
   for (std::size_t i = 0; i < scenario.controllers.size(); ++i) {
     const runner::ControllerEntry& entry = scenario.controllers[i];
     const runner::LoadedModule& loaded = modules.Get(entry);
     std::string problem = loaded.error;
     if (loaded.module) {
-      problem = runner::RunStartProblem(scenario, i, loaded.module);
+      Log().Debug(FileError{scenario.path, entry.line,
+                            "controller '" + entry.name + "': module '" + loaded.module->name() +
+                                "' from " + loaded.module->path()}
+                      .ToString());
+      runner::ModuleLog module_log;
+      problem = runner::RunStartProblem(scenario, i, loaded.module, &module_log, level);
+      LogModuleMessages(
+          Log(), FileError{scenario.path, entry.line, "controller '" + entry.name + "'"}.ToString(),
+          module_log);
       if (problem.empty()) continue;
       // The host names the module by its own name and file; the message names the controller.
       const std::string host_lead =
@@ -82,12 +93,12 @@ bool CheckScenario(const std::string& path) {
   std::vector<FileError> problems = loaded.errors;
   if (loaded.ok()) problems = ControllerProblems(loaded.scenario);
   if (problems.empty()) {
-    std::cout << path << ": ok (scenario '" << loaded.scenario.name << "', robot '"
-              << loaded.scenario.model.name << "', " << loaded.scenario.controllers.size()
-              << " controller(s))\n";
+    Log().Info(path + ": ok (scenario '" + loaded.scenario.name + "', robot '" +
+               loaded.scenario.model.name + "', " +
+               std::to_string(loaded.scenario.controllers.size()) + " controller(s))");
     return true;
   }
-  for (const auto& e : problems) std::cerr << e.ToString() << "\n";
+  for (const auto& e : problems) Log().Error(e.ToString());
   return false;
 }
 
@@ -96,7 +107,7 @@ bool CheckScenario(const std::string& path) {
 int RunCheck(const std::vector<std::string>& args) {
   std::vector<std::string> folder_problems;
   const std::vector<std::string> files = ExpandFolders(args, &folder_problems);
-  for (const std::string& problem : folder_problems) std::cerr << problem << "\n";
+  for (const std::string& problem : folder_problems) Log().Error(problem);
   std::size_t bad = folder_problems.size();
   for (const auto& path : files) {
     const std::string root = RootName(path);
@@ -105,21 +116,21 @@ int RunCheck(const std::vector<std::string>& args) {
       continue;
     }
     if (!root.empty() && root != "balancer" && root != "robot") {
-      std::cerr << path << ": root element <" << root << "> is not a known file kind "
-                << "(expected <balancer> or <scenario>)\n";
+      Log().Error(path + ": root element <" + root + "> is not a known file kind " +
+                  "(expected <balancer> or <scenario>)");
       ++bad;
       continue;
     }
     const ModelLoadResult result = LoadModelFile(path);
     if (result.ok()) {
-      std::cout << path << ": ok (robot model '" << result.model.name << "')\n";
+      Log().Info(path + ": ok (robot model '" + result.model.name + "')");
     } else {
-      for (const auto& e : result.errors) std::cerr << e.ToString() << "\n";
+      for (const auto& e : result.errors) Log().Error(e.ToString());
       ++bad;
     }
   }
   if (bad > 0) {
-    std::cerr << bad << " of " << files.size() + folder_problems.size() << " file(s) invalid\n";
+    Log().Error(Printf("%zu of %zu file(s) invalid", bad, files.size() + folder_problems.size()));
     return kExitBadInput;
   }
   return kExitOk;

@@ -12,6 +12,7 @@
 
 #include "commands.hpp"
 #include "json_writer.hpp"
+#include "log.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
@@ -335,14 +336,14 @@ int RunDesign(const DesignOptions& options) {
   design::DesignRequest request = options.request;
   std::string error;
   if (!ResolveFlags(options, &request, &error)) {
-    std::cerr << error << "\n";
+    Log().Error(error);
     return kExitBadInput;
   }
   // A design never steps the physics, so a robot whose rates suit another step still designs.
   const ModelLoadResult loaded =
       LoadModelFile(options.model_path, ModelLoadOptions{.check_default_step = false});
   if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
+    for (const auto& e : loaded.errors) Log().Error(e.ToString());
     return kExitBadInput;
   }
   const DesignSet set = design::DesignAll(loaded.model, request);
@@ -363,15 +364,17 @@ int RunDesign(const DesignOptions& options) {
     if (status == DesignStatus::kOk) {
       ++usable;
     } else if (status == DesignStatus::kFailed) {
-      std::cerr << options.model_path << ": design failed: " << c.report->message << "\n";
+      Log().Error(options.model_path + ": design failed: " + c.report->message);
     } else {
-      std::cerr << options.model_path << ": " << c.title
-                << ": unstable as the module samples it at " << Figure(set.request.rate_hz)
-                << " Hz (max |z| " << Figure(c.report->sampled.max_abs_z) << ")\n";
+      Log().Warning(options.model_path + ": " + c.title +
+                    ": unstable as the module samples it at " + Figure(set.request.rate_hz) +
+                    " Hz (max |z| " + Figure(c.report->sampled.max_abs_z) + ")");
     }
   }
   if (usable == offered) return kExitOk;
-  std::cerr << options.model_path << ": " << usable << " of " << offered << " design(s) usable\n";
+  Log().Err(usable > 0 ? LogLevel::kWarning : LogLevel::kError,
+            options.model_path + ": " + std::to_string(usable) + " of " + std::to_string(offered) +
+                " design(s) usable");
   return usable > 0 ? kExitSomeDesignsUnusable : kExitFailed;
 }
 

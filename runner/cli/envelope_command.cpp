@@ -5,10 +5,10 @@
 
 #include <algorithm>
 #include <cstdio>
-#include <iostream>
 
 #include "commands.hpp"
 #include "load_scenario.hpp"
+#include "log.hpp"
 #include "progress.hpp"
 #include "upright/runner/envelope.hpp"
 #include "upright/runner/envelope_writer.hpp"
@@ -87,49 +87,51 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
   runner::EnvelopePlan plan;
   std::string error;
   if (!runner::PlanEnvelope(scenario, envelope_options, &plan, &error)) {
-    std::cerr << options.scenario_path << ": " << error << "\n"
-              << "(parameter paths: upright envelope --help; nothing was run)\n";
+    Log().Error(options.scenario_path + ": " + error + "\n" +
+                "(parameter paths: upright envelope --help; nothing was run)");
     return kExitBadInput;
   }
   const std::string out_dir =
       options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
 
   ProgressLine progress_line({.label = "upright envelope"});
-  std::printf("upright envelope: %s, %s to within %g%s%s; %zu controller(s) x %zu seed(s)\n",
-              scenario.name.c_str(), Range(plan.axis).c_str(), plan.tol,
-              plan.axis.unit.empty() ? "" : " ", plan.axis.unit.c_str(),
-              scenario.controllers.size(), plan.seeds.size());
+  Log().Info(Printf("upright envelope: %s, %s to within %g%s%s; %zu controller(s) x %zu seed(s)",
+                    scenario.name.c_str(), Range(plan.axis).c_str(), plan.tol,
+                    plan.axis.unit.empty() ? "" : " ", plan.axis.unit.c_str(),
+                    scenario.controllers.size(), plan.seeds.size()));
   if (plan.axis2) {
-    std::printf("  and a %d x %d survival map over %s\n", plan.grid, plan.grid,
-                Range(*plan.axis2).c_str());
+    Log().Info(Printf("  and a %d x %d survival map over %s", plan.grid, plan.grid,
+                      Range(*plan.axis2).c_str()));
   }
-  std::printf("  at most %zu run(s) into %s\n", plan.max_runs, out_dir.c_str());
-  std::fflush(stdout);
-  const runner::EnvelopeResult result = runner::RunEnvelope(
-      scenario, envelope_options, plan, UPRIGHT_VERSION, progress_line.Callback());
+  Log().Info(Printf("  at most %zu run(s) into %s", plan.max_runs, out_dir.c_str()));
+  const runner::EnvelopeResult result =
+      runner::RunEnvelope(scenario, envelope_options, plan, UPRIGHT_VERSION,
+                          Log().ShowsProgress() ? progress_line.Callback() : runner::ProgressFn());
   // The runs expected can shrink after the last one (a bisection that ended early).
   progress_line.Close();
   if (!runner::WriteEnvelopeResults(out_dir, result, &error)) {
-    std::cerr << error << "\n";
+    Log().Error(error);
     return kExitFailed;
   }
 
   std::size_t width = 0;
   for (const auto& c : result.controllers) width = std::max(width, c.controller.size());
   for (const auto& c : result.controllers) {
-    std::printf("  %-*s  %s (%d probe(s))\n", static_cast<int>(width), c.controller.c_str(),
-                runner::EnvelopeOutcomeText(c, plan).c_str(), c.bisect.probes);
+    // A controller that could not run is the exit code's reason: shown when quiet too.
+    Log().Out(c.setup_error.empty() ? LogLevel::kInfo : LogLevel::kError,
+              Printf("  %-*s  %s (%d probe(s))", static_cast<int>(width), c.controller.c_str(),
+                     runner::EnvelopeOutcomeText(c, plan).c_str(), c.bisect.probes));
   }
   for (const auto& m : result.maps) {
     if (!m.setup_error.empty()) {
-      std::printf("  %s map: some points could not run: %s\n", m.controller.c_str(),
-                  m.setup_error.c_str());
+      Log().Out(LogLevel::kError,
+                "  " + m.controller + " map: some points could not run: " + m.setup_error);
     }
   }
-  std::printf("%zu run(s); %.1f s on %d job(s)\n", result.runs, result.wall_s, result.jobs);
-  std::printf("tables: %s/envelope.md, %s/envelope.csv%s\n", out_dir.c_str(), out_dir.c_str(),
-              plan.axis2 ? (", " + out_dir + "/envelope_map.csv").c_str() : "");
-  if (options.caution) std::printf("%s\n", kCaution);
+  Log().Info(Printf("%zu run(s); %.1f s on %d job(s)", result.runs, result.wall_s, result.jobs));
+  Log().Info("tables: " + out_dir + "/envelope.md, " + out_dir + "/envelope.csv" +
+             (plan.axis2 ? ", " + out_dir + "/envelope_map.csv" : std::string()));
+  if (options.caution) Log().Caution(kCaution);
   return result.any_setup_failed() ? kExitFailed : kExitOk;
 }
 

@@ -1,8 +1,8 @@
 #include "load_scenario.hpp"
 
-#include <iostream>
 #include <utility>
 
+#include "log.hpp"
 #include "upright/runner/scenario_file.hpp"
 
 namespace upright::cli {
@@ -10,8 +10,8 @@ namespace upright::cli {
 bool LoadScenarioOrSayWhy(const std::string& path, runner::Scenario* scenario) {
   runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
   if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
-    std::cerr << path << ": invalid; nothing was run\n";
+    for (const auto& e : loaded.errors) Log().Error(e.ToString());
+    Log().Error(path + ": invalid; nothing was run");
     return false;
   }
   *scenario = std::move(loaded.scenario);

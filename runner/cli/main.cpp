@@ -2,18 +2,39 @@
 #include <CLI/CLI.hpp>
 #include <algorithm>
 #include <cstddef>
-#include <iostream>
 #include <optional>
 #include <string>
 #include <vector>
 
 #include "commands.hpp"
 #include "envelope_command.hpp"
+#include "log.hpp"
 #include "report_command.hpp"
 #include "sweep_command.hpp"
 #include "upright_version.hpp"
 
 namespace {
+
+// The flags every subcommand takes: --quiet and --verbose, one or the other.
+struct VerbosityFlags {
+  bool quiet = false;
+  bool verbose = false;
+  upright::cli::Verbosity verbosity() const {
+    if (verbose) return upright::cli::Verbosity::kVerbose;
+    return quiet ? upright::cli::Verbosity::kQuiet : upright::cli::Verbosity::kNormal;
+  }
+};
+
+// Adds -q/--quiet and -v/--verbose to `cmd`, into `flags` (shared by every subcommand: one runs).
+void AddVerbosityFlags(CLI::App* cmd, VerbosityFlags* flags) {
+  auto* quiet = cmd->add_flag("-q,--quiet", flags->quiet,
+                              "Errors, warnings and the safety caution only: no progress, no "
+                              "information, no module messages below warning");
+  auto* verbose = cmd->add_flag(
+      "-v,--verbose", flags->verbose,
+      "Also debug lines on stderr, the controller modules' debug messages among them");
+  quiet->excludes(verbose);
+}
 
 // An option that sets a std::optional<double> when given.
 void AddOptionalNumber(CLI::App* cmd, const std::string& name, std::optional<double>* target,
@@ -114,9 +135,9 @@ bool FirstWordIsACommand(const CLI::App& app, int argc, char** argv) {
       nearest_distance = distance;
     }
   }
-  std::cerr << "upright: unknown command '" << word << "'";
-  if (!nearest.empty()) std::cerr << "; did you mean '" << nearest << "'?";
-  std::cerr << "\ncommands: " << list << " (upright --help describes them)\n";
+  upright::cli::Log().Error("upright: unknown command '" + word + "'" +
+                            (nearest.empty() ? "" : "; did you mean '" + nearest + "'?") +
+                            "\ncommands: " + list + " (upright --help describes them)");
   return false;
 }
 
@@ -188,6 +209,9 @@ int main(int argc, char** argv) {
   std::string report_dir;
   auto* report_cmd = upright::cli::AddReportCommand(&app, &report_dir);
 
+  VerbosityFlags verbosity;
+  for (CLI::App* cmd : app.get_subcommands({})) AddVerbosityFlags(cmd, &verbosity);
+
   if (!FirstWordIsACommand(app, argc, argv)) return upright::cli::kExitBadInput;
   try {
     app.parse(argc, argv);
@@ -195,6 +219,7 @@ int main(int argc, char** argv) {
     const int code = app.exit(e);
     return code == 0 ? 0 : upright::cli::kExitBadInput;
   }
+  upright::cli::SetLogVerbosity(verbosity.verbosity());
   if (check->parsed()) return upright::cli::RunCheck(check_files);
   if (design_cmd->parsed()) {
     design.request.input = design.input_text == "voltage" ? upright::design::InputKind::kVoltage

@@ -1,9 +1,8 @@
 // `upright report DIR`: the report of a results folder, and where it went.
 #include "report_command.hpp"
 
-#include <cstdio>
-
 #include "commands.hpp"
+#include "log.hpp"
 #include "upright/runner/report.hpp"
 
 namespace upright::cli {
@@ -25,15 +24,15 @@ int RunReport(const std::string& dir) {
       break;
     case runner::ReportStatus::kNoResults:
     case runner::ReportStatus::kBadInput:
-      std::fprintf(stderr, "%s\n", outcome.message.c_str());
+      Log().Error(outcome.message);
       return kExitBadInput;
     case runner::ReportStatus::kWriteFailed:
-      std::fprintf(stderr, "%s\n", outcome.message.c_str());
+      Log().Error(outcome.message);
       return kExitFailed;
   }
-  std::printf("upright report: %s (%.1f kB, %zu results folder(s))\n", outcome.path.c_str(),
-              static_cast<double>(outcome.bytes) / 1000.0, outcome.folders);
-  std::printf("%s\n", kCaution);
+  Log().Info(Printf("upright report: %s (%.1f kB, %zu results folder(s))", outcome.path.c_str(),
+                    static_cast<double>(outcome.bytes) / 1000.0, outcome.folders));
+  Log().Caution(kCaution);
   return kExitOk;
 }
 

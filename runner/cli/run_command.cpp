@@ -1,18 +1,19 @@
 // `upright run` and `upright demo`: scenario files (or folders of them) in; every scenario ×
-// controller × seed run in parallel with its progress on stderr; the results folder written
-// (tables, traces, manifest) and its location printed.
+// controller × seed run in parallel with its progress on stderr, then what the runs' modules
+// logged; the results folder written (tables, traces, manifest) and its location printed.
 #include <tinyxml2.h>
 
 #include <algorithm>
 #include <cstdio>
 #include <filesystem>
-#include <iostream>
 #include <string>
 #include <vector>
 
 #include "commands.hpp"
 #include "data_folders.hpp"
 #include "envelope_command.hpp"
+#include "log.hpp"
+#include "module_messages.hpp"
 #include "progress.hpp"
 #include "sweep_command.hpp"
 #include "upright/runner/batch.hpp"
@@ -58,8 +59,8 @@ std::vector<std::string> ScenarioFilesIn(const fs::path& folder, std::error_code
   return files;
 }
 
-// The arguments with each folder replaced by its scenario files. False, the reason on stderr,
-// when a folder cannot be read or holds none.
+// The arguments with each folder replaced by its scenario files. False, the reason logged as an
+// error, when a folder cannot be read or holds none.
 bool ExpandFolders(const std::vector<std::string>& args, std::vector<std::string>* files) {
   for (const auto& arg : args) {
     std::error_code ec;
@@ -69,8 +70,8 @@ bool ExpandFolders(const std::vector<std::string>& args, std::vector<std::string
     }
     const std::vector<std::string> found = ScenarioFilesIn(arg, &ec);
     if (ec || found.empty()) {
-      std::cerr << arg << ": a folder with no scenario files (*.xml whose root is <scenario>)"
-                << (ec ? " (" + ec.message() + ")" : std::string()) << "; nothing was run\n";
+      Log().Error(arg + ": a folder with no scenario files (*.xml whose root is <scenario>)" +
+                  (ec ? " (" + ec.message() + ")" : std::string()) + "; nothing was run");
       return false;
     }
     files->insert(files->end(), found.begin(), found.end());
@@ -105,43 +106,57 @@ int RunScenarios(const RunCommandOptions& options) {
   for (const auto& path : paths) {
     runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
     if (!loaded.ok()) {
-      for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
+      for (const auto& e : loaded.errors) Log().Error(e.ToString());
       ++bad;
       continue;
     }
     scenarios.push_back(std::move(loaded.scenario));
   }
   if (bad > 0) {
-    std::cerr << bad << " of " << paths.size() << " scenario file(s) invalid; nothing was run\n";
+    Log().Error(Printf("%d of %zu scenario file(s) invalid; nothing was run", bad, paths.size()));
     return kExitBadInput;
   }
   for (std::size_t i = 0; i < scenarios.size(); ++i) {
     for (std::size_t j = 0; j < i; ++j) {
       if (scenarios[i].name == scenarios[j].name) {
-        std::cerr << scenarios[i].path << ": scenario name '" << scenarios[i].name
-                  << "' is also the name of " << scenarios[j].path
-                  << "; names must differ within one run\n";
+        Log().Error(scenarios[i].path + ": scenario name '" + scenarios[i].name +
+                    "' is also the name of " + scenarios[j].path +
+                    "; names must differ within one run");
         return kExitBadInput;
       }
     }
   }
   runner::BatchOptions batch_options = options.batch;
+  // What the modules log at debug level is kept only when it is to be shown.
+  if (Log().Shows(LogLevel::kDebug)) batch_options.run.module_log_level = LogLevel::kDebug;
   std::string error;
   if (!batch_options.IsValid(&error)) {
-    std::cerr << error << "\n";
+    Log().Error(error);
     return kExitBadInput;
+  }
+  for (const runner::Scenario& s : scenarios) {
+    Log().Debug(Printf("%s: scenario '%s', robot '%s' (%s), %zu controller(s)", s.path.c_str(),
+                       s.name.c_str(), s.model.name.c_str(), s.model_path.c_str(),
+                       s.controllers.size()));
   }
   const std::string out_dir = options.out_dir.empty() ? DefaultOutDir(scenarios) : options.out_dir;
   const std::size_t total = runner::CountRuns(scenarios, batch_options);
 
   ProgressLine progress_line({.label = options.label});
-  std::printf("%s %zu scenario(s), %zu run(s) into %s\n", options.verb.c_str(), scenarios.size(),
-              total, out_dir.c_str());
-  std::fflush(stdout);
+  Log().Info(Printf("%s %zu scenario(s), %zu run(s) into %s", options.verb.c_str(),
+                    scenarios.size(), total, out_dir.c_str()));
   const runner::BatchResult batch =
-      runner::RunBatch(scenarios, batch_options, UPRIGHT_VERSION, progress_line.Callback());
+      runner::RunBatch(scenarios, batch_options, UPRIGHT_VERSION,
+                       Log().ShowsProgress() ? progress_line.Callback() : runner::ProgressFn());
+  LogModuleMessages(Log(), batch);
+  for (const auto& run : batch.runs) {
+    Log().Debug(Printf(
+        "%s / %s / seed %llu: %s after %ld step(s), %.3f s: %s", run.scenario.c_str(),
+        run.controller.c_str(), static_cast<unsigned long long>(run.seed),
+        runner::ToString(run.metrics.status), run.steps, run.wall_s, run.metrics.message.c_str()));
+  }
   if (!runner::WriteResults(out_dir, batch, &error)) {
-    std::cerr << error << "\n";
+    Log().Error(error);
     return kExitFailed;
   }
 
@@ -150,19 +165,20 @@ int RunScenarios(const RunCommandOptions& options) {
     survived += run.metrics.status == runner::RunStatus::kOk;
     failed_setup += run.metrics.status == runner::RunStatus::kSetupFailed;
   }
-  std::printf("%zu of %zu run(s) survived; %.1f s on %d job(s)\n", survived, batch.runs.size(),
-              batch.wall_s, batch.jobs);
+  Log().Info(Printf("%zu of %zu run(s) survived; %.1f s on %d job(s)", survived, batch.runs.size(),
+                    batch.wall_s, batch.jobs));
   for (const auto& run : batch.runs) {
     if (run.metrics.status == runner::RunStatus::kSetupFailed) {
-      std::printf("  %s / %s: %s\n", run.scenario.c_str(), run.controller.c_str(),
-                  run.metrics.message.c_str());
+      // Among the command's own lines on stdout, but shown when quiet: the exit code's reason.
+      Log().Out(LogLevel::kError,
+                "  " + run.scenario + " / " + run.controller + ": " + run.metrics.message);
     }
   }
-  std::printf("tables: %s/summary.md, %s/compare.md, %s/ranking.md", out_dir.c_str(),
-              out_dir.c_str(), out_dir.c_str());
-  if (batch.linear_twin) std::printf(", %s/gap.md", out_dir.c_str());
-  std::printf("\n");
-  if (options.caution) std::printf("%s\n", kCaution);
+  std::string tables =
+      "tables: " + out_dir + "/summary.md, " + out_dir + "/compare.md, " + out_dir + "/ranking.md";
+  if (batch.linear_twin) tables += ", " + out_dir + "/gap.md";
+  Log().Info(tables);
+  if (options.caution) Log().Caution(kCaution);
   // Runs that could not even start mean the user's setup is wrong; falls are results.
   return failed_setup > 0 ? kExitFailed : kExitOk;
 }
@@ -176,7 +192,7 @@ int RunDemo(const RunCommandOptions& options) {
     std::string error;
     demo.scenario_paths = DemoScenarios(&error);
     if (demo.scenario_paths.empty()) {
-      std::cerr << error << "\n";
+      Log().Error(error);
       return kExitBadInput;
     }
   }
@@ -202,7 +218,7 @@ int RunDemo(const RunCommandOptions& options) {
   envelope.jobs = demo.batch.jobs;
   envelope.out_dir = demo.out_dir + "/envelope";
   envelope.caution = false;
-  std::printf("\nupright demo: the push each controller survives in %s\n", shove.c_str());
+  Log().Info("\nupright demo: the push each controller survives in " + shove);
   if (const int code = RunEnvelope(envelope); code != kExitOk) return code;
 
   SweepCommandOptions sweep;
@@ -211,16 +227,17 @@ int RunDemo(const RunCommandOptions& options) {
   sweep.jobs = demo.batch.jobs;
   sweep.out_dir = demo.out_dir + "/sweep";
   sweep.caution = false;
-  std::printf("\nupright demo: the same shove on 50 robots drawn from its spreads\n");
+  Log().Info("\nupright demo: the same shove on 50 robots drawn from its spreads");
   if (const int code = RunSweep(sweep); code != kExitOk) return code;
 
   std::string report_path, error;
   if (!runner::WriteReport(demo.out_dir, &report_path, &error)) {
-    std::cerr << error << "\n";
+    Log().Error(error);
     return kExitFailed;
   }
-  std::printf("\n%s\n", kCaution);
-  std::printf("report: %s (open it in any browser; it needs no network)\n", report_path.c_str());
+  Log().Info("");
+  Log().Caution(kCaution);
+  Log().Info("report: " + report_path + " (open it in any browser; it needs no network)");
   return kExitOk;
 }
 

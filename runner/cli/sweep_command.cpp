@@ -3,11 +3,9 @@
 // each controller's survival printed.
 #include "sweep_command.hpp"
 
-#include <cstdio>
-#include <iostream>
-
 #include "commands.hpp"
 #include "load_scenario.hpp"
+#include "log.hpp"
 #include "progress.hpp"
 #include "upright/runner/sweep.hpp"
 #include "upright/runner/sweep_writer.hpp"
@@ -19,14 +17,15 @@ int RunSweep(const SweepCommandOptions& options) {
   runner::Scenario scenario;
   if (!LoadScenarioOrSayWhy(options.scenario_path, &scenario)) return kExitBadInput;
   if (scenario.dispersions.empty()) {
-    std::cerr << options.scenario_path << ": the scenario declares no dispersions, so there is "
-              << "nothing to sample. Add, inside <scenario>:\n"
-              << "  <dispersions>\n"
-              << "    <spread param=\"robot/chassis.mass_kg\" kind=\"normal\" sd=\"1.5\"/>\n"
-              << "    <spread param=\"timeline/push[1].peak_N\" kind=\"uniform\" lo=\"120\" "
-                 "hi=\"200\"/>\n"
-              << "  </dispersions>\n"
-              << "(parameter paths and the element's rules: scenarios/README.md)\n";
+    Log().Error(options.scenario_path +
+                ": the scenario declares no dispersions, so there is nothing to sample. Add, "
+                "inside <scenario>:\n"
+                "  <dispersions>\n"
+                "    <spread param=\"robot/chassis.mass_kg\" kind=\"normal\" sd=\"1.5\"/>\n"
+                "    <spread param=\"timeline/push[1].peak_N\" kind=\"uniform\" lo=\"120\" "
+                "hi=\"200\"/>\n"
+                "  </dispersions>\n"
+                "(parameter paths and the element's rules: scenarios/README.md)");
     return kExitBadInput;
   }
   runner::SweepOptions sweep_options;
@@ -35,7 +34,7 @@ int RunSweep(const SweepCommandOptions& options) {
   sweep_options.jobs = options.jobs;
   std::string error;
   if (!sweep_options.IsValid(&error)) {
-    std::cerr << error << "\n";
+    Log().Error(error);
     return kExitBadInput;
   }
   const std::string out_dir =
@@ -43,19 +42,19 @@ int RunSweep(const SweepCommandOptions& options) {
   const std::size_t total = static_cast<std::size_t>(options.samples) * scenario.controllers.size();
 
   ProgressLine progress_line({.label = "upright sweep"});
-  std::printf(
-      "upright sweep: %s, %d sample(s) x %zu controller(s) = %zu run(s), seed %llu, into %s\n",
-      scenario.name.c_str(), options.samples, scenario.controllers.size(), total,
-      static_cast<unsigned long long>(options.seed), out_dir.c_str());
-  std::fflush(stdout);
-  const runner::SweepResult result =
-      runner::RunSweepSamples(scenario, sweep_options, UPRIGHT_VERSION, progress_line.Callback());
+  Log().Info(
+      Printf("upright sweep: %s, %d sample(s) x %zu controller(s) = %zu run(s), seed %llu, into %s",
+             scenario.name.c_str(), options.samples, scenario.controllers.size(), total,
+             static_cast<unsigned long long>(options.seed), out_dir.c_str()));
+  const runner::SweepResult result = runner::RunSweepSamples(
+      scenario, sweep_options, UPRIGHT_VERSION,
+      Log().ShowsProgress() ? progress_line.Callback() : runner::ProgressFn());
   if (!result.module_error.empty()) {
-    std::cerr << options.scenario_path << ": " << result.module_error << "; nothing was run\n";
+    Log().Error(options.scenario_path + ": " + result.module_error + "; nothing was run");
     return kExitFailed;
   }
   if (!runner::WriteSweepResults(out_dir, result, &error)) {
-    std::cerr << error << "\n";
+    Log().Error(error);
     return kExitFailed;
   }
 
@@ -63,20 +62,21 @@ int RunSweep(const SweepCommandOptions& options) {
   for (std::size_t c = 0; c < result.controller_count(); ++c) {
     const std::size_t k = runner::CountSurvived(result, c);
     const runner::Interval interval = runner::WilsonInterval(k, n);
-    std::printf("  %-12s survived %zu/%zu  (%.1f %%, 95 %% interval %.1f-%.1f %%)%s\n",
-                result.scenario.controllers[c].c_str(), k, n,
-                100.0 * static_cast<double>(k) / static_cast<double>(n), 100 * interval.lo,
-                100 * interval.hi, c == runner::BaselineIndex(result) ? "  baseline" : "");
+    Log().Info(Printf("  %-12s survived %zu/%zu  (%.1f %%, 95 %% interval %.1f-%.1f %%)%s",
+                      result.scenario.controllers[c].c_str(), k, n,
+                      100.0 * static_cast<double>(k) / static_cast<double>(n), 100 * interval.lo,
+                      100 * interval.hi, c == runner::BaselineIndex(result) ? "  baseline" : ""));
   }
   std::size_t failed_samples = 0;
   for (const auto& sample : result.samples) failed_samples += sample.error.empty() ? 0 : 1;
   if (failed_samples > 0) {
-    std::printf("  %zu sample(s) had no acceptable draw (setup_failed rows in sweep.csv)\n",
-                failed_samples);
+    Log().Out(LogLevel::kWarning,
+              Printf("  %zu sample(s) had no acceptable draw (setup_failed rows in sweep.csv)",
+                     failed_samples));
   }
-  std::printf("%.1f s on %d job(s); tables: %s/sweep.md, %s/sweep.csv\n", result.wall_s,
-              result.jobs, out_dir.c_str(), out_dir.c_str());
-  if (options.caution) std::printf("%s\n", kCaution);
+  Log().Info(Printf("%.1f s on %d job(s); tables: %s/sweep.md, %s/sweep.csv", result.wall_s,
+                    result.jobs, out_dir.c_str(), out_dir.c_str()));
+  if (options.caution) Log().Caution(kCaution);
   return kExitOk;
 }
 

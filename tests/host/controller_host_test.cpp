@@ -1,11 +1,16 @@
 // The controller host: modules run at their rate with the command held between ticks; outputs
 // left unwritten or non-finite, error statuses and exceptions become recorded faults, and other
 // runs go on.
+#include "upright/host/controller_host.hpp"
+
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <functional>
+#include <string>
+#include <string_view>
+#include <vector>
 
-#include "upright/host/controller_host.hpp"
 #include "upright/model/model_file.hpp"
 
 namespace upright::host {
@@ -65,14 +70,68 @@ TEST(ControllerHost, StepsAtTheControllerRateAndHoldsTheCommand) {
   EXPECT_EQ(run.host->diagnostics()[0], 10.0);  // steps 0, 5, ..., 45
 }
 
+// A message as the host hands it on.
+struct Logged {
+  int level = -1;
+  double time_s = 0;
+  std::string text;
+};
+
+// A log callback that appends to `logged`.
+std::function<void(int, double, std::string_view)> Into(std::vector<Logged>* logged) {
+  return [logged](int level, double time_s, std::string_view text) {
+    logged->push_back({level, time_s, std::string(text)});
+  };
+}
+
 TEST(ControllerHost, PassesTheModulesLogMessagesToTheCallerWithTheirLevel) {
   ControllerSpec spec;
-  std::vector<std::pair<int, std::string>> messages;
-  spec.log = [&](int level, const std::string& message) { messages.emplace_back(level, message); };
+  std::vector<Logged> logged;
+  spec.log = Into(&logged);
   RunModule("faulty_0", 1, spec);
-  ASSERT_EQ(messages.size(), 1u);
-  EXPECT_EQ(messages[0].first, UPRIGHT_LOG_INFO);
-  EXPECT_EQ(messages[0].second, "created");
+  ASSERT_EQ(logged.size(), 1u);
+  EXPECT_EQ(logged[0].level, UPRIGHT_LOG_INFO);
+  EXPECT_EQ(logged[0].text, "created");
+  EXPECT_TRUE(std::isnan(logged[0].time_s));  // logged by create, before the first tick
+}
+
+TEST(ControllerHost, HandsEachTicksMessagesOnWithTheTicksTime) {
+  // The courier's 200 Hz control rate on 1 ms steps: ticks at steps 0, 5 and 10 in 12 steps.
+  ControllerSpec spec;
+  spec.config = {{"per_step", "1"}};
+  std::vector<Logged> logged;
+  spec.log = Into(&logged);
+  const HostRun run = RunModule("logging", 12, spec);
+  ASSERT_FALSE(run.faulted) << run.host->fault();
+  // Four from create (one per level), then "first tick" and one per tick.
+  ASSERT_EQ(logged.size(), 4u + 1u + 3u);
+  for (int level = UPRIGHT_LOG_DEBUG; level <= UPRIGHT_LOG_ERROR; ++level) {
+    EXPECT_EQ(logged[level].level, level);
+    EXPECT_TRUE(std::isnan(logged[level].time_s)) << logged[level].text;
+  }
+  EXPECT_EQ(logged[0].text, "create: debug");
+  EXPECT_EQ(logged[3].text, "create: error");
+  EXPECT_EQ(logged[4].text, "first tick");
+  EXPECT_EQ(logged[4].level, UPRIGHT_LOG_WARNING);
+  EXPECT_EQ(logged[4].time_s, 0.0);
+  EXPECT_EQ(logged[5].text, "tick 1 message 1");
+  EXPECT_EQ(logged[6].text, "tick 2 message 1");
+  EXPECT_NEAR(logged[6].time_s, 0.005, 1e-12);
+  EXPECT_EQ(logged[7].text, "tick 3 message 1");
+  EXPECT_NEAR(logged[7].time_s, 0.010, 1e-12);
+}
+
+TEST(ControllerHost, AModuleThatRefusesCreateStillHasItsMessagesHandedOn) {
+  ControllerSpec spec;
+  spec.module = Load("logging");
+  spec.config = {{"refuse", "true"}};
+  std::vector<Logged> logged;
+  spec.log = Into(&logged);
+  std::string error;
+  EXPECT_EQ(ControllerHost::Create(spec, Courier(), 0.001, &error), nullptr);
+  EXPECT_NE(error.find("refused as asked"), std::string::npos) << error;
+  ASSERT_EQ(logged.size(), 4u);
+  EXPECT_EQ(logged[3].text, "create: error");
 }
 
 TEST(ControllerHost, AnOptionalRateOverridesTheRobots) {

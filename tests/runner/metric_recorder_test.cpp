@@ -4,23 +4,10 @@
 
 #include <cmath>
 #include <cstddef>
-#include <cstdlib>
 #include <functional>
-#include <new>
 #include <vector>
 
-// Every allocation in this test program is counted, so a test can show that Add() makes none.
-namespace {
-long g_allocations = 0;
-}  // namespace
-
-void* operator new(std::size_t size) {
-  ++g_allocations;
-  if (void* p = std::malloc(size == 0 ? 1 : size)) return p;
-  throw std::bad_alloc();
-}
-void operator delete(void* p) noexcept { std::free(p); }
-void operator delete(void* p, std::size_t) noexcept { std::free(p); }
+#include "allocation_count.hpp"
 
 namespace upright::runner {
 namespace {
@@ -177,13 +164,13 @@ TEST(MetricRecorder, AddNeverAllocatesEvenPastItsCapacity) {
   MetricRecorder recorder(settings, kDt, 1.0, {0.2});  // room for 1002 samples
   StepSample s;
   s.torque_Nm = {1.0, 1.0};
-  const long before = g_allocations;
+  const long before = testing::AllocationCount();
   for (long i = 0; i < 1500; ++i) {
     s.time_s = TimeOf(i);
     s.tilt_rad = 0.01;
     recorder.Add(s);
   }
-  const long allocations = g_allocations - before;
+  const long allocations = testing::AllocationCount() - before;
   EXPECT_EQ(allocations, 0);
   const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
   // Running figures keep counting past the buffer: 1500 steps of 2 N²m² each.

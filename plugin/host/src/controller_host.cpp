@@ -60,6 +60,7 @@ std::unique_ptr<ControllerHost> ControllerHost::Create(const ControllerSpec& spe
   host->dt_s_ = dt_s;
   host->true_state_ = spec.true_state;
   host->log_ = spec.log;
+  host->log_time_s_ = std::numeric_limits<double>::quiet_NaN();  // create's messages
 
   const upright_robot robot = internal::RobotForModule(model);
   const upright_linear_model linear = internal::LinearForModule(model);
@@ -128,7 +129,9 @@ ControllerHost::~ControllerHost() {
 
 void ControllerHost::LogFromModule(void* host, upright_log_level level, const char* message) {
   const auto* self = static_cast<const ControllerHost*>(host);
-  if (self && self->log_ && message) self->log_(static_cast<int>(level), message);
+  if (self && self->log_ && message) {
+    self->log_(static_cast<int>(level), self->log_time_s_, std::string_view(message));
+  }
 }
 
 std::string ControllerHost::Who() const { return "controller '" + module_->name() + "'"; }
@@ -190,6 +193,7 @@ bool ControllerHost::Tick(long step, const sim::SensorSample& s, const sim::True
   constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
   output_.command[0] = output_.command[1] = kNaN;
   for (double& d : output_.diagnostics) d = kNaN;
+  log_time_s_ = t;
   char message[kErrorSize] = "";
   int status = UPRIGHT_ERROR;
   std::string thrown;
@@ -218,6 +222,7 @@ bool ControllerHost::Tick(long step, const sim::SensorSample& s, const sim::True
 }
 
 bool ControllerHost::Reset(std::string* error) {
+  log_time_s_ = std::numeric_limits<double>::quiet_NaN();  // back before the first tick
   char message[kErrorSize] = "";
   int status = UPRIGHT_ERROR;
   std::string thrown;

@@ -5,8 +5,10 @@
 #include <cmath>
 #include <cstdio>
 #include <exception>
+#include <functional>
 #include <limits>
 #include <sstream>
+#include <string_view>
 
 #include "timeline.hpp"
 #include "upright/design/linear_model.hpp"
@@ -96,7 +98,7 @@ TraceRow Row(const sim::Plant& plant, const host::ControllerHost& host,
 // own, the twin over the scenario's whole duration, its gap to `plant` and its trace columns.
 void AddLinearTwin(const Scenario& scenario, std::size_t controller,
                    const std::shared_ptr<host::Module>& module, const TiltDriftSeries& plant,
-                   long total_steps, RunResult* result) {
+                   long total_steps, LogLevel module_log_level, RunResult* result) {
   DrivePlan plan;
   plan.reference.reserve(static_cast<std::size_t>(total_steps));
   plan.path_x_m.reserve(static_cast<std::size_t>(total_steps));
@@ -111,7 +113,10 @@ void AddLinearTwin(const Scenario& scenario, std::size_t controller,
   }
   TwinRun twin;
   std::string error;
-  if (!RunLinearTwin(scenario, controller, module, plan, &twin, &error)) {
+  ModuleLogRecorder twin_log(module_log_level);
+  const bool ran = RunLinearTwin(scenario, controller, module, plan, &twin, &error, &twin_log);
+  result->twin_module_log = twin_log.Log();
+  if (!ran) {
     result->gap.twin_message = "not run: " + error;
     return;
   }
@@ -134,10 +139,19 @@ struct RunStart {
   std::unique_ptr<sim::Plant> plant;
 };
 
-// Sets up the run of `controller` with `seed`: false and *error (the run's setup_failed message)
-// when the module refuses its settings or the plant refuses the scenario.
+// The module's log messages into `recorder`, which must outlive the host.
+std::function<void(int, double, std::string_view)> LogInto(ModuleLogRecorder* recorder) {
+  return [recorder](int level, double time_s, std::string_view text) {
+    recorder->Add(level, time_s, text);
+  };
+}
+
+// Sets up the run of `controller` with `seed`, the module's messages (create's included) into
+// `log`: false and *error (the run's setup_failed message) when the module refuses its settings
+// or the plant refuses the scenario.
 bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-              const std::shared_ptr<host::Module>& module, RunStart* start, std::string* error) {
+              const std::shared_ptr<host::Module>& module, ModuleLogRecorder* log, RunStart* start,
+              std::string* error) {
   const ControllerEntry& entry = scenario.controllers.at(controller);
   // The controller first: the plant's drive mode is the module's.
   host::ControllerSpec spec;
@@ -145,6 +159,7 @@ bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t se
   spec.config = entry.config;
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
+  spec.log = LogInto(log);
   start->host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
   if (!start->host) return false;
 
@@ -178,6 +193,9 @@ bool RunOptions::IsValid(std::string* error) const {
     why << "RunOptions::trace_rate_hz = " << trace_rate_hz << ", must be >= 0 and finite";
   } else if (!(settle_hold_s > 0) || !std::isfinite(settle_hold_s)) {
     why << "RunOptions::settle_hold_s = " << settle_hold_s << ", must be > 0 and finite";
+  } else if (module_log_level < LogLevel::kDebug || module_log_level > LogLevel::kError) {
+    why << "RunOptions::module_log_level = " << static_cast<int>(module_log_level)
+        << ", must be a LogLevel";
   } else {
     return true;
   }
@@ -194,9 +212,12 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   result.controller = scenario.controllers.at(controller).name;
   result.seed = seed;
   result.baseline = controller == scenario.baseline;
+  // Before the controller host, which hands it messages until it is destroyed.
+  ModuleLogRecorder module_log(options.module_log_level);
   const auto finish = [&](RunStatus status, std::string message) {
     result.metrics.status = status;
     result.metrics.message = std::move(message);
+    result.module_log = module_log.Log();
     result.wall_s =
         std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
     return result;
@@ -206,7 +227,7 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   if (!module) return finish(RunStatus::kSetupFailed, load_error);
 
   RunStart start;
-  if (!StartRun(scenario, controller, seed, module, &start, &error)) {
+  if (!StartRun(scenario, controller, seed, module, &module_log, &start, &error)) {
     return finish(RunStatus::kSetupFailed, error);
   }
   const std::unique_ptr<host::ControllerHost>& host = start.host;
@@ -323,7 +344,8 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   }
   result.steps = plant->step_count();
   if (options.linear_twin) {
-    AddLinearTwin(scenario, controller, module, plant_series, total_steps, &result);
+    AddLinearTwin(scenario, controller, module, plant_series, total_steps, options.module_log_level,
+                  &result);
   }
   result.metrics = recorder.Finish(status, message);
   const RunMetrics metrics = result.metrics;
@@ -331,11 +353,15 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
 }
 
 std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
-                            const std::shared_ptr<host::Module>& module) {
+                            const std::shared_ptr<host::Module>& module, ModuleLog* module_log,
+                            LogLevel module_log_level) {
+  ModuleLogRecorder log(module_log_level);  // outlives the host in `start`
   RunStart start;
   std::string error;
   const std::uint64_t seed = scenario.seeds.empty() ? 1 : scenario.seeds.front();
-  return StartRun(scenario, controller, seed, module, &start, &error) ? "" : error;
+  const bool started = StartRun(scenario, controller, seed, module, &log, &start, &error);
+  if (module_log) *module_log = log.Log();
+  return started ? "" : error;
 }
 
 RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,

@@ -4,6 +4,26 @@
 #include "upright/runner/scenario_info_json.hpp"
 
 namespace upright::runner::internal {
+namespace {
+
+// {"messages": [{"time_s", "level", "text"}, ...], "dropped": N}; time_s null before the first
+// control tick (create).
+void AppendModuleLog(JsonText* json, std::string_view key, const ModuleLog& log) {
+  json->BeginObject(key);
+  json->BeginArray("messages");
+  for (const ModuleMessage& message : log.messages) {
+    json->BeginObject();
+    json->Number("time_s", message.time_s);
+    json->String("level", ToString(message.level));
+    json->String("text", message.text);
+    json->EndObject();
+  }
+  json->EndArray();
+  json->Integer("dropped", log.dropped);
+  json->EndObject();
+}
+
+}  // namespace
 
 std::string ManifestJson(const BatchResult& batch, const std::vector<std::string>& trace_files) {
   JsonText json;
@@ -37,6 +57,12 @@ std::string ManifestJson(const BatchResult& batch, const std::vector<std::string
       json.String("trace", trace_files[i]);
     } else {
       json.Null("trace");
+    }
+    AppendModuleLog(&json, "module_log", run.module_log);
+    if (batch.linear_twin) {
+      AppendModuleLog(&json, "twin_module_log", run.twin_module_log);
+    } else {
+      json.Null("twin_module_log");
     }
     json.EndObject();
   }

@@ -1,6 +1,7 @@
 // manifest.json: what a batch ran and with what — tool version, jobs, the scenario and model files
 // with their SHA-256, time step, controllers, baseline and seeds, and per run its status, steps,
-// wall time and trace file. The one results file that may differ between identical batches.
+// wall time, trace file and what its module (and its linear twin's) logged. The one results file
+// that may differ between identical batches.
 #pragma once
 
 #include <string>

@@ -2,6 +2,7 @@
 
 #include <cmath>
 #include <cstdio>
+#include <string_view>
 
 #include "upright/model/conventions.hpp"
 #include "upright/runner/twin_dynamics.hpp"
@@ -42,7 +43,7 @@ void FillTruth(double time_s, const design::StateVector& x, double equilibrium_p
 
 bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
                    const std::shared_ptr<host::Module>& module, const DrivePlan& plan, TwinRun* out,
-                   std::string* error) {
+                   std::string* error, ModuleLogRecorder* module_log) {
   const std::size_t steps = plan.reference.size();
   if (plan.path_x_m.size() != steps || plan.path_y_m.size() != steps) {
     if (error) *error = "DrivePlan: reference, path_x_m and path_y_m differ in length";
@@ -54,6 +55,11 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
   spec.config = entry.config;
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
+  if (module_log) {
+    spec.log = [module_log](int level, double time_s, std::string_view text) {
+      module_log->Add(level, time_s, text);
+    };
+  }
   const auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
   if (!host) return false;
 

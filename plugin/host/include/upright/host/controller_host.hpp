@@ -7,6 +7,7 @@
 #include <functional>
 #include <memory>
 #include <string>
+#include <string_view>
 #include <utility>
 #include <vector>
 
@@ -22,8 +23,10 @@ struct ControllerSpec {
   std::vector<std::pair<std::string, std::string>> config;  // key/value from the scenario
   double rate_hz = 0;        // 0: the robot's control rate
   bool true_state = false;   // hand the module the true state each tick
-  // Receives the module's log messages (level as in upright_log_level); empty drops them.
-  std::function<void(int level, const std::string& message)> log;
+  // Receives the module's log messages: level as the module passed it (upright_log_level), the
+  // simulated time of the tick being stepped (NaN before the first: create, reset), the text
+  // (valid only during the call). Called on the module's thread; empty drops them.
+  std::function<void(int level, double time_s, std::string_view message)> log;
 };
 
 // What the module is asked to follow.
@@ -76,7 +79,8 @@ class ControllerHost {
   static void LogFromModule(void* host, upright_log_level level, const char* message);
 
   std::shared_ptr<Module> module_;
-  std::function<void(int, const std::string&)> log_;
+  std::function<void(int, double, std::string_view)> log_;
+  double log_time_s_ = 0;  // the time handed with a log message (NaN before the first tick)
   void* instance_ = nullptr;
   sim::DriveMode drive_ = sim::DriveMode::kVoltage;
   long period_steps_ = 1;

@@ -1,5 +1,6 @@
 // RunResult and BatchResult: what the runner hands the table writers — per run its identity, its
-// metrics and its trace; per scenario what the manifest records. Plain data, no behaviour.
+// metrics, its trace and its module's messages; per scenario what the manifest records. Plain
+// data, no behaviour.
 #pragma once
 
 #include <cstdint>
@@ -7,6 +8,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/runner/module_log.hpp"
 #include "upright/runner/run_metrics.hpp"
 
 namespace upright::runner {
@@ -80,6 +82,8 @@ struct RunResult {
   long steps = 0;     // physics steps taken
   double wall_s = 0;  // wall-clock time of the run (manifest only, never in tables)
   GapFigures gap;     // the linear twin's comparison, when asked for
+  ModuleLog module_log;       // what the module logged, create included (RunOptions's level)
+  ModuleLog twin_module_log;  // what the linear twin's instance of it logged, when asked for
 };
 
 // What the manifest says about one scenario of a batch.

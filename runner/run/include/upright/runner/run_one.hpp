@@ -10,6 +10,7 @@
 #include <string>
 
 #include "upright/host/module.hpp"
+#include "upright/runner/module_log.hpp"
 #include "upright/runner/run_result.hpp"
 #include "upright/runner/scenario.hpp"
 
@@ -26,6 +27,9 @@ struct RunOptions {
   // Also replay the run on the linear robot (runner/twin: linear_twin.hpp) for the scenario's
   // whole duration and compare: RunResult::gap, and twin columns in the trace.
   bool linear_twin = false;
+  // The least severe module message a run keeps (RunResult::module_log): info, warnings and
+  // errors by default; kDebug keeps the modules' debug messages too.
+  LogLevel module_log_level = LogLevel::kInfo;
   // True when valid; otherwise false and the broken rule in *error, naming the field and value.
   bool IsValid(std::string* error) const;
 };
@@ -40,8 +44,11 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
 // `module` could not start, or "" when it could: the module's create refusing the robot, its
 // settings or its rate, or the plant refusing the scenario — RunOne's own set-up and message
 // (seed: the scenario's first), nothing stepped. `upright check` asks this of every controller.
+// When `module_log` is given, it receives what create logged at `module_log_level` and above.
 std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
-                            const std::shared_ptr<host::Module>& module);
+                            const std::shared_ptr<host::Module>& module,
+                            ModuleLog* module_log = nullptr,
+                            LogLevel module_log_level = LogLevel::kInfo);
 
 // The row of a run that could not happen: controller `controller` of `scenario` with `seed`,
 // status kSetupFailed and `message`, nothing else filled in.
