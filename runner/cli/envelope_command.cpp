@@ -10,6 +10,7 @@
 #include "commands.hpp"
 #include "load_scenario.hpp"
 #include "progress.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/envelope.hpp"
 #include "upright/runner/envelope_writer.hpp"
 #include "upright/runner/scenario_parameter.hpp"
@@ -26,10 +27,8 @@ void AddOptionalNumber(CLI::App* cmd, const std::string& name, std::optional<dou
 }
 
 std::string Range(const runner::ParameterAxis& axis) {
-  char text[128];
-  std::snprintf(text, sizeof text, "from %g to %g%s%s", axis.lo, axis.hi,
-                axis.unit.empty() ? "" : " ", axis.unit.c_str());
-  return axis.path + " " + text;
+  return axis.path + " from " + SignificantText(axis.lo, 6) + " to " + SignificantText(axis.hi, 6) +
+         (axis.unit.empty() ? "" : " " + axis.unit);
 }
 
 }  // namespace
@@ -95,8 +94,8 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
       options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
 
   ProgressLine progress_line({.label = "upright envelope"});
-  std::printf("upright envelope: %s, %s to within %g%s%s; %zu controller(s) x %zu seed(s)\n",
-              scenario.name.c_str(), Range(plan.axis).c_str(), plan.tol,
+  std::printf("upright envelope: %s, %s to within %s%s%s; %zu controller(s) x %zu seed(s)\n",
+              scenario.name.c_str(), Range(plan.axis).c_str(), SignificantText(plan.tol, 6).c_str(),
               plan.axis.unit.empty() ? "" : " ", plan.axis.unit.c_str(),
               scenario.controllers.size(), plan.seeds.size());
   if (plan.axis2) {
@@ -126,7 +125,8 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
                   m.setup_error.c_str());
     }
   }
-  std::printf("%zu run(s); %.1f s on %d job(s)\n", result.runs, result.wall_s, result.jobs);
+  std::printf("%zu run(s); %s s on %d job(s)\n", result.runs, FixedText(result.wall_s, 1).c_str(),
+              result.jobs);
   std::printf("tables: %s/envelope.md, %s/envelope.csv%s\n", out_dir.c_str(), out_dir.c_str(),
               plan.axis2 ? (", " + out_dir + "/envelope_map.csv").c_str() : "");
   if (options.caution) std::printf("%s\n", kCaution);

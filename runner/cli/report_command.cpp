@@ -4,6 +4,7 @@
 #include <cstdio>
 
 #include "commands.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/report.hpp"
 
 namespace upright::cli {
@@ -31,8 +32,8 @@ int RunReport(const std::string& dir) {
       std::fprintf(stderr, "%s\n", outcome.message.c_str());
       return kExitFailed;
   }
-  std::printf("upright report: %s (%.1f kB, %zu results folder(s))\n", outcome.path.c_str(),
-              static_cast<double>(outcome.bytes) / 1000.0, outcome.folders);
+  std::printf("upright report: %s (%s kB, %zu results folder(s))\n", outcome.path.c_str(),
+              FixedText(static_cast<double>(outcome.bytes) / 1000.0, 1).c_str(), outcome.folders);
   std::printf("%s\n", kCaution);
   return kExitOk;
 }

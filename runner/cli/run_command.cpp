@@ -15,6 +15,7 @@
 #include "envelope_command.hpp"
 #include "progress.hpp"
 #include "sweep_command.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/report.hpp"
 #include "upright/runner/results_writer.hpp"
@@ -150,8 +151,8 @@ int RunScenarios(const RunCommandOptions& options) {
     survived += run.metrics.status == runner::RunStatus::kOk;
     failed_setup += run.metrics.status == runner::RunStatus::kSetupFailed;
   }
-  std::printf("%zu of %zu run(s) survived; %.1f s on %d job(s)\n", survived, batch.runs.size(),
-              batch.wall_s, batch.jobs);
+  std::printf("%zu of %zu run(s) survived; %s s on %d job(s)\n", survived, batch.runs.size(),
+              FixedText(batch.wall_s, 1).c_str(), batch.jobs);
   for (const auto& run : batch.runs) {
     if (run.metrics.status == runner::RunStatus::kSetupFailed) {
       std::printf("  %s / %s: %s\n", run.scenario.c_str(), run.controller.c_str(),

@@ -6,6 +6,7 @@
 #include "html_text.hpp"
 #include "palette.hpp"
 #include "svg_axis.hpp"
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner::report {
 namespace {
@@ -50,7 +51,7 @@ void AppendCross(std::string* svg, double x, double y, double half) {
 }
 
 std::string WithUnit(double value, const std::string& unit) {
-  const std::string text = FormatSignificant(value, 4);
+  const std::string text = SignificantText(value, 4, NanAs::kEmpty);
   return unit.empty() ? text : text + " " + unit;
 }
 
@@ -128,8 +129,9 @@ std::string RenderSurvivalRates(const std::string& scenario, const std::vector<R
     AppendSvgLine(&svg, hi, y + 2, hi, y + 14, "class=\"whisker\"");
     AppendSvgText(&svg, kPlotLeft, y + 27,
                   std::to_string(bar.survived) + " of " + std::to_string(bar.runs) +
-                      " survived: " + FormatFixed(100 * rate, 1) + " % (95 % interval " +
-                      FormatFixed(100 * bar.lo, 1) + "–" + FormatFixed(100 * bar.hi, 1) + " %)",
+                      " survived: " + FixedText(100 * rate, 1, NanAs::kEmpty) +
+                      " % (95 % interval " + FixedText(100 * bar.lo, 1, NanAs::kEmpty) + "–" +
+                      FixedText(100 * bar.hi, 1, NanAs::kEmpty) + " %)",
                   "class=\"note\"");
   }
   svg += "</svg>";
@@ -167,8 +169,8 @@ std::string RenderGapBars(const std::string& scenario, const std::vector<GapPair
         continue;
       }
       AppendRect(&svg, axis.Px(0), top, axis.Px(values[k]) - axis.Px(0), 9, classes[k]);
-      AppendSvgText(&svg, axis.Px(values[k]) + 4, top + 8, FormatSignificant(values[k], 3) + "°",
-                    "class=\"value\"");
+      AppendSvgText(&svg, axis.Px(values[k]) + 4, top + 8,
+                    SignificantText(values[k], 3, NanAs::kEmpty) + "°", "class=\"value\"");
     }
     AppendSvgText(&svg, kPlotLeft, y + 32, p.note, "class=\"note\"");
   }
