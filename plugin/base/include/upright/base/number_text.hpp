@@ -57,9 +57,9 @@ std::string ComplexText(std::complex<double> value, int digits);
 // "%.<decimals>f": 2 → 3.14, 0.00.
 std::string FixedText(double value, int decimals, NanAs nan = NanAs::kWord);
 
-// For reading in tables: 3 significant digits, in plain digits from 0.001 up to 10^15 and whole
-// numbers of 4 digits and more in full (1234 → 1234, 0.012345 → 0.0123, 9.996 → 10.0), with an
-// exponent outside that range (1.23e-05).
+// For reading in tables: 3 significant digits in plain digits while the value so rounded is from
+// 0.001 up to 10^15 (0.012345 → 0.0123, 9.996 → 10.0, 3 → 3.00), from 100 up every digit of the
+// whole part and no decimals (1234.5 → 1234); with an exponent outside that range (1.23e-05).
 std::string ReadableText(double value, NanAs nan = NanAs::kWord);
 
 // A length counted in tenths of a unit as the shortest decimal: 123 → 12.3, 120 → 12, 5 → .5,
