@@ -18,6 +18,7 @@
 #include <vector>
 
 #include "robot_body.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
@@ -31,7 +32,9 @@
 
 namespace {
 
+using upright::FixedText;
 using upright::RobotModel;
+using upright::SignificantText;
 using namespace upright::runner;
 namespace sim = upright::sim;
 using Clock = std::chrono::steady_clock;
@@ -51,7 +54,7 @@ double ProcessCpuSeconds() {
 }
 
 void Print(const char* name, double value, const char* unit) {
-  std::printf("%s=%.4g%s%s\n", name, value, unit[0] ? " " : "", unit);
+  std::printf("%s=%s%s%s\n", name, SignificantText(value, 4).c_str(), unit[0] ? " " : "", unit);
   std::fflush(stdout);
 }
 
@@ -124,9 +127,9 @@ double FloorPerStep(const RobotModel& model, const sim::PlantOptions& options, c
       std::asin(std::clamp(-body->getBaseWorldTransform().getBasis()[2][0], -1.0, 1.0));
   if (!(std::abs(pitch) < 0.5)) {
     std::fprintf(stderr,
-                 "upright-bench: the floor's robot fell (pitch %.2f rad): its figure "
+                 "upright-bench: the floor's robot fell (pitch %s rad): its figure "
                  "times a fallen robot\n",
-                 pitch);
+                 FixedText(pitch, 2).c_str());
   }
   return seconds;
 }
@@ -239,9 +242,9 @@ int main(int argc, char** argv) {
   const auto module = Builtin(scenario.controllers[0].module);
   if (!module) return 1;
   const long steps = std::lround(scenario.duration_s / scenario.dt_s);
-  std::printf("scenario=%s controller=%s steps=%ld dt_s=%g hardware_threads=%u\n",
-              scenario.name.c_str(), scenario.controllers[0].name.c_str(), steps, scenario.dt_s,
-              std::thread::hardware_concurrency());
+  std::printf("scenario=%s controller=%s steps=%ld dt_s=%s hardware_threads=%u\n",
+              scenario.name.c_str(), scenario.controllers[0].name.c_str(), steps,
+              SignificantText(scenario.dt_s, 6).c_str(), std::thread::hardware_concurrency());
 
   sim::PlantOptions floor_options;
   floor_options.dt_s = scenario.dt_s;

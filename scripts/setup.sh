@@ -10,6 +10,7 @@ packages=(
   libtinyxml2-dev        # model and scenario files
   libcli11-dev           # command line
   libexpected-dev        # Result/Status of fallible functions (tl::expected)
+  nlohmann-json3-dev     # reading JSON (the manifests the report reads back)
   libgtest-dev           # tests
   libslicot-dev liblapack-dev libblas-dev gfortran   # reference checks of the control solvers
   python3 python3-numpy python3-scipy                # reference checks of the control solvers

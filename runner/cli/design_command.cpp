@@ -1,21 +1,24 @@
 // `upright design MODEL`: the linear model and the built-in controllers' gains, closed-loop
 // poles, push norms and margins, with a status per controller, as readable text or as one JSON
 // object (--json).
+#include <Eigen/Dense>
 #include <array>
 #include <cmath>
 #include <complex>
 #include <cstdio>
 #include <iostream>
 #include <string>
+#include <string_view>
 #include <utility>
 #include <vector>
 
 #include "commands.hpp"
-#include "json_writer.hpp"
 #include "log.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
+#include "upright/runner/json_text.hpp"
 
 namespace upright::cli {
 namespace {
@@ -23,6 +26,7 @@ namespace {
 using design::ControllerReport;
 using design::DesignSet;
 using design::DesignStatus;
+using runner::JsonText;
 
 constexpr const char* kInputNames[] = {"left", "right"};
 
@@ -39,13 +43,8 @@ std::array<Named, 4> Controllers(const DesignSet& d) {
            {"PID cascade (tilt PD inside speed PI, yaw-rate PI)", &d.pid}}};
 }
 
-std::string Figure(double v, const char* format = "%.4g") {
-  if (std::isinf(v)) return v > 0 ? "inf" : "-inf";
-  if (std::isnan(v)) return "-";
-  char buffer[32];
-  std::snprintf(buffer, sizeof buffer, format, v);
-  return buffer;
-}
+// A figure of the text output: 4 significant digits, "inf" for an unbounded margin.
+std::string Figure(double v) { return SignificantText(v, 4); }
 
 // Why a controller is not usable, in a phrase; "ok" when it is.
 std::string Verdict(const ControllerReport& c) {
@@ -75,7 +74,30 @@ std::string DelayWarning(const ControllerReport& c, double latency_s, double rat
          "): the loop as the module runs it is likely unstable";
 }
 
-void WriteMargins(JsonWriter& j, const design::LoopMargins& m) {
+// A matrix as row-major nested arrays.
+void WriteMatrix(JsonText& j, std::string_view key, const Eigen::MatrixXd& m) {
+  j.BeginArray(key);
+  for (Eigen::Index i = 0; i < m.rows(); ++i) {
+    j.BeginArray();
+    for (Eigen::Index k = 0; k < m.cols(); ++k) j.Number({}, m(i, k));
+    j.EndArray();
+  }
+  j.EndArray();
+}
+
+// Complex numbers as [re, im] pairs.
+void WritePoles(JsonText& j, std::string_view key, const std::vector<std::complex<double>>& poles) {
+  j.BeginArray(key);
+  for (const auto& p : poles) {
+    j.BeginArray();
+    j.Number({}, p.real());
+    j.Number({}, p.imag());
+    j.EndArray();
+  }
+  j.EndArray();
+}
+
+void WriteMargins(JsonText& j, const design::LoopMargins& m) {
   j.BeginObject("margins");
   j.Number("gain_low", m.gain_low);
   j.Number("gain_high", m.gain_high);
@@ -88,20 +110,20 @@ void WriteMargins(JsonWriter& j, const design::LoopMargins& m) {
   j.EndObject();
 }
 
-void WriteController(JsonWriter& j, const ControllerReport& c) {
+void WriteController(JsonText& j, const ControllerReport& c) {
   const DesignStatus status = c.status();
   j.String("status", design::ToString(status));
   j.Bool("ok", status == DesignStatus::kOk);
   j.String("message", status == DesignStatus::kOk ? c.message : Verdict(c));
-  j.Matrix("K", c.K);
-  j.ComplexList("poles", c.loop.poles);
+  WriteMatrix(j, "K", c.K);
+  WritePoles(j, "poles", c.loop.poles);
   j.Number("push_norm", c.loop.push_norm);
   WriteMargins(j, c.loop.margins);
   if (c.sampled.analysed()) {
     j.BeginObject("sampled");
     j.Number("rate_hz", 1 / c.sampled.period_s);
     j.Number("max_abs_z", c.sampled.max_abs_z);
-    j.ComplexList("poles", c.sampled.s);
+    WritePoles(j, "poles", c.sampled.s);
     j.EndObject();
   }
   j.Number("unanalysed_delay_s", c.unanalysed_delay_s);
@@ -109,7 +131,7 @@ void WriteController(JsonWriter& j, const ControllerReport& c) {
 }
 
 std::string Json(const RobotModel& model, const DesignSet& d) {
-  JsonWriter j;
+  JsonText j;
   j.BeginObject();
   j.String("robot", model.name);
   j.String("input", d.plant.input == design::InputKind::kTorque ? "torque" : "voltage");
@@ -118,19 +140,19 @@ std::string Json(const RobotModel& model, const DesignSet& d) {
   j.BeginArray("states");
   for (int i = 0; i < design::kStates; ++i) j.String({}, design::StateName(i));
   j.EndArray();
-  j.Matrix("A", d.plant.A);
-  j.Matrix("B", d.plant.B);
-  j.Matrix("E", d.plant.E);
+  WriteMatrix(j, "A", d.plant.A);
+  WriteMatrix(j, "B", d.plant.B);
+  WriteMatrix(j, "E", d.plant.E);
   j.Number("push_height_m", d.plant.push_height_m);
   j.Number("push_scale_N", d.performance.push_scale_N);
   j.Number("fall_rate_1_s", d.plant.fall_rate_1_s);
   j.Number("equilibrium_pitch_rad", d.plant.equilibrium_pitch_rad);
-  j.Matrix("Q", d.performance.Q);
-  j.Matrix("R", d.performance.R);
+  WriteMatrix(j, "Q", d.performance.Q);
+  WriteMatrix(j, "R", d.performance.R);
 
   j.BeginObject("lqr");
   WriteController(j, d.lqr);
-  j.Matrix("K_discrete", d.lqr.K_discrete);
+  WriteMatrix(j, "K_discrete", d.lqr.K_discrete);
   j.EndObject();
 
   j.BeginObject("hinf");
@@ -142,10 +164,10 @@ std::string Json(const RobotModel& model, const DesignSet& d) {
 
   j.BeginObject("lqg");
   WriteController(j, d.lqg);
-  j.Matrix("K_discrete", d.lqg.K_discrete);
-  j.Matrix("C", d.lqg.sensors.C);
-  j.Matrix("D", d.lqg.sensors.D);
-  j.Matrix("L_discrete", d.lqg.L_discrete);
+  WriteMatrix(j, "K_discrete", d.lqg.K_discrete);
+  WriteMatrix(j, "C", d.lqg.sensors.C);
+  WriteMatrix(j, "D", d.lqg.sensors.D);
+  WriteMatrix(j, "L_discrete", d.lqg.L_discrete);
   j.Number("estimator_fastest_1_s", d.lqg.estimator_fastest_1_s);
   j.EndObject();
 
@@ -163,7 +185,7 @@ std::string Json(const RobotModel& model, const DesignSet& d) {
   j.EndObject();
   j.EndObject();
   j.EndObject();
-  return j.text() + "\n";
+  return j.text();
 }
 
 void PrintMatrix(const char* title, const Eigen::MatrixXd& m, bool state_columns) {
@@ -175,7 +197,7 @@ void PrintMatrix(const char* title, const Eigen::MatrixXd& m, bool state_columns
   }
   for (int i = 0; i < m.rows(); ++i) {
     std::printf("  %16s", state_columns ? (i < 2 ? kInputNames[i] : "") : design::StateName(i));
-    for (int j = 0; j < m.cols(); ++j) std::printf(" %15.6g", m(i, j));
+    for (int j = 0; j < m.cols(); ++j) std::printf(" %15s", SignificantText(m(i, j), 6).c_str());
     std::printf("\n");
   }
 }
@@ -184,7 +206,8 @@ void PrintMatrix(const char* title, const Eigen::MatrixXd& m, bool state_columns
 void PrintPoles(const std::vector<std::complex<double>>& poles) {
   for (const auto& p : poles) {
     if (p.imag() < 0) continue;
-    std::printf(p.imag() == 0 ? " %.4g" : " %.4g±%.4gi", p.real(), p.imag());
+    std::printf(" %s", Figure(p.real()).c_str());
+    if (p.imag() != 0) std::printf("±%si", Figure(p.imag()).c_str());
   }
   std::printf("\n");
 }
@@ -209,53 +232,59 @@ void PrintController(const char* title, const ControllerReport& c, double latenc
     if (!warning.empty()) std::printf("warning: %s\n", warning.c_str());
   }
   if (c.sampled.analysed()) {
-    std::printf(
-        "sampled as the module runs it, at %g Hz: max |z| %.4g (%s); poles (1/s, log z / T):",
-        1 / c.sampled.period_s, c.sampled.max_abs_z,
-        c.sampled.max_abs_z < 1 ? "stable" : "UNSTABLE");
+    std::printf("sampled as the module runs it, at %s Hz: max |z| %s (%s); poles (1/s, log z / T):",
+                SignificantText(1 / c.sampled.period_s, 6).c_str(),
+                Figure(c.sampled.max_abs_z).c_str(),
+                c.sampled.max_abs_z < 1 ? "stable" : "UNSTABLE");
     PrintPoles(c.sampled.s);
   }
 }
 
 void PrintText(const RobotModel& model, const DesignSet& d) {
   const design::LinearModel& p = d.plant;
+  std::printf("robot '%s': linearised about upright (%s input, controllers at %s Hz)\n",
+              model.name.c_str(),
+              p.input == design::InputKind::kTorque ? "wheel torque" : "voltage",
+              SignificantText(d.request.rate_hz, 6).c_str());
   std::printf(
-      "robot '%s': linearised about upright (%s input, controllers at %g Hz)\n", model.name.c_str(),
-      p.input == design::InputKind::kTorque ? "wheel torque" : "voltage", d.request.rate_hz);
-  std::printf(
-      "lumped body %.3g kg, COM %.3g m above the axle; falls at %.4g 1/s "
-      "(time constant %.3g s)\n",
-      p.body.mass_kg, p.body.com_height_m, p.fall_rate_1_s, 1 / p.fall_rate_1_s);
+      "lumped body %s kg, COM %s m above the axle; falls at %s 1/s "
+      "(time constant %s s)\n",
+      SignificantText(p.body.mass_kg, 3).c_str(), SignificantText(p.body.com_height_m, 3).c_str(),
+      Figure(p.fall_rate_1_s).c_str(), SignificantText(1 / p.fall_rate_1_s, 3).c_str());
   PrintMatrix("A", p.A, false);
   PrintMatrix("B [left, right]", p.B, false);
-  std::printf("performance: push of %.4g N at %.3g m above the axle → z = [Q½ x; R½ u]\n",
-              d.performance.push_scale_N, p.push_height_m);
+  std::printf("performance: push of %s N at %s m above the axle → z = [Q½ x; R½ u]\n",
+              Figure(d.performance.push_scale_N).c_str(),
+              SignificantText(p.push_height_m, 3).c_str());
   const double latency_s = model.sensors.latency_s;
   const double rate_hz = d.request.rate_hz;
   const auto controllers = Controllers(d);
   PrintController(controllers[0].title, d.lqr, latency_s, rate_hz);
   PrintController(controllers[1].title, d.hinf, latency_s, rate_hz);
   if (d.hinf.gamma_opt > 0) {
-    std::printf("gamma %.5g = %.3g x gamma_opt %.5g\n", d.hinf.gamma,
-                d.hinf.gamma / d.hinf.gamma_opt, d.hinf.gamma_opt);
+    std::printf("gamma %s = %s x gamma_opt %s\n", SignificantText(d.hinf.gamma, 5).c_str(),
+                SignificantText(d.hinf.gamma / d.hinf.gamma_opt, 3).c_str(),
+                SignificantText(d.hinf.gamma_opt, 5).c_str());
   }
   PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
   const double nyquist_1_s = kPi * d.request.rate_hz;
   if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {
     std::printf(
-        "note: the continuous estimator reaches %.4g 1/s, beyond the %.4g 1/s Nyquist rate "
-        "of %g Hz: the lqg module's sampled filter (same noise) is slower, so read these "
+        "note: the continuous estimator reaches %s 1/s, beyond the %s 1/s Nyquist rate "
+        "of %s Hz: the lqg module's sampled filter (same noise) is slower, so read these "
         "LQG figures as those of its continuous limit\n",
-        d.lqg.estimator_fastest_1_s, nyquist_1_s, d.request.rate_hz);
+        Figure(d.lqg.estimator_fastest_1_s).c_str(), Figure(nyquist_1_s).c_str(),
+        SignificantText(d.request.rate_hz, 6).c_str());
   }
   PrintController(controllers[3].title, d.pid, latency_s, rate_hz);
   const design::PidGains& g = d.pid.gains;
   if (d.pid.ok) {
     std::printf(
-        "tilt kp %.4g N·m/rad, kd %.4g N·m·s/rad; speed kp %.4g rad/(m/s), ki %.4g rad/m; "
-        "yaw kp %.4g N·m·s/rad, ki %.4g N·m/rad\n",
-        g.tilt_kp_Nm_per_rad, g.tilt_kd_Nm_s_per_rad, g.speed_kp_rad_per_m_s, g.speed_ki_rad_per_m,
-        g.yaw_kp_Nm_s_per_rad, g.yaw_ki_Nm_per_rad);
+        "tilt kp %s N·m/rad, kd %s N·m·s/rad; speed kp %s rad/(m/s), ki %s rad/m; "
+        "yaw kp %s N·m·s/rad, ki %s N·m/rad\n",
+        Figure(g.tilt_kp_Nm_per_rad).c_str(), Figure(g.tilt_kd_Nm_s_per_rad).c_str(),
+        Figure(g.speed_kp_rad_per_m_s).c_str(), Figure(g.speed_ki_rad_per_m).c_str(),
+        Figure(g.yaw_kp_Nm_s_per_rad).c_str(), Figure(g.yaw_ki_Nm_per_rad).c_str());
   }
   std::printf(
       "\nLinear-model figures only: check them on the plant (upright run) and on hardware "
@@ -293,9 +322,7 @@ std::string InFlagTerms(const std::string& message) {
 bool ResolveFlags(const DesignOptions& o, design::DesignRequest* request, std::string* error) {
   // "--rate = inf: must be finite and > 0 (...)": a value that is no finite number is told so.
   const auto refuse = [&](const char* flag, double value, const char* rule) {
-    char text[32];
-    std::snprintf(text, sizeof text, "%g", value);
-    *error = std::string(flag) + " = " + text + ": must be " +
+    *error = std::string(flag) + " = " + SignificantText(value, 6) + ": must be " +
              (std::isfinite(value) ? "" : "finite and ") + rule;
     return false;
   };

@@ -10,6 +10,7 @@
 #include "load_scenario.hpp"
 #include "log.hpp"
 #include "progress.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/envelope.hpp"
 #include "upright/runner/envelope_writer.hpp"
 #include "upright/runner/scenario_parameter.hpp"
@@ -26,10 +27,8 @@ void AddOptionalNumber(CLI::App* cmd, const std::string& name, std::optional<dou
 }
 
 std::string Range(const runner::ParameterAxis& axis) {
-  char text[128];
-  std::snprintf(text, sizeof text, "from %g to %g%s%s", axis.lo, axis.hi,
-                axis.unit.empty() ? "" : " ", axis.unit.c_str());
-  return axis.path + " " + text;
+  return axis.path + " from " + SignificantText(axis.lo, 6) + " to " + SignificantText(axis.hi, 6) +
+         (axis.unit.empty() ? "" : " " + axis.unit);
 }
 
 }  // namespace
@@ -95,10 +94,10 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
       options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
 
   ProgressLine progress_line({.label = "upright envelope"});
-  Log().Info(Printf("upright envelope: %s, %s to within %g%s%s; %zu controller(s) x %zu seed(s)",
-                    scenario.name.c_str(), Range(plan.axis).c_str(), plan.tol,
-                    plan.axis.unit.empty() ? "" : " ", plan.axis.unit.c_str(),
-                    scenario.controllers.size(), plan.seeds.size()));
+  Log().Info(Printf("upright envelope: %s, %s to within %s%s%s; %zu controller(s) x %zu seed(s)",
+                    scenario.name.c_str(), Range(plan.axis).c_str(),
+                    SignificantText(plan.tol, 6).c_str(), plan.axis.unit.empty() ? "" : " ",
+                    plan.axis.unit.c_str(), scenario.controllers.size(), plan.seeds.size()));
   if (plan.axis2) {
     Log().Info(Printf("  and a %d x %d survival map over %s", plan.grid, plan.grid,
                       Range(*plan.axis2).c_str()));
@@ -128,7 +127,8 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
                 "  " + m.controller + " map: some points could not run: " + m.setup_error);
     }
   }
-  Log().Info(Printf("%zu run(s); %.1f s on %d job(s)", result.runs, result.wall_s, result.jobs));
+  Log().Info(Printf("%zu run(s); %s s on %d job(s)", result.runs,
+                    FixedText(result.wall_s, 1).c_str(), result.jobs));
   Log().Info("tables: " + out_dir + "/envelope.md, " + out_dir + "/envelope.csv" +
              (plan.axis2 ? ", " + out_dir + "/envelope_map.csv" : std::string()));
   if (options.caution) Log().Caution(kCaution);

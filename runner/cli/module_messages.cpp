@@ -2,6 +2,8 @@
 
 #include <cmath>
 
+#include "upright/base/number_text.hpp"
+
 namespace upright::cli {
 namespace {
 
@@ -15,7 +17,7 @@ std::string_view Trimmed(std::string_view text) {
 
 // "t = 0.250 s", or "create" before the first control tick.
 std::string When(double time_s) {
-  return std::isnan(time_s) ? std::string("create") : Printf("t = %.3f s", time_s);
+  return std::isnan(time_s) ? std::string("create") : "t = " + FixedText(time_s, 3) + " s";
 }
 
 }  // namespace

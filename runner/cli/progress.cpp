@@ -7,6 +7,8 @@
 #include <string>
 #include <utility>
 
+#include "upright/base/number_text.hpp"
+
 namespace upright::cli {
 namespace {
 
@@ -38,8 +40,8 @@ void ProgressLine::Show(std::size_t done, std::size_t all) {
   const double percent = 100.0 * static_cast<double>(done) / static_cast<double>(all);
   if (terminal_) {
     open_ = done != all;
-    std::fprintf(options_.stream, "\r  %zu/%zu runs  %3.0f %%  elapsed %s  left ~%s   ", done, all,
-                 percent, Clock(elapsed).c_str(), Clock(eta).c_str());
+    std::fprintf(options_.stream, "\r  %zu/%zu runs  %3s %%  elapsed %s  left ~%s   ", done, all,
+                 FixedText(percent, 0).c_str(), Clock(elapsed).c_str(), Clock(eta).c_str());
     if (done == all) std::fputc('\n', options_.stream);
     return;
   }
@@ -50,9 +52,9 @@ void ProgressLine::Show(std::size_t done, std::size_t all) {
     std::fprintf(options_.stream, "%s: %zu/%zu runs, 100 %%, %s elapsed\n", options_.label.c_str(),
                  done, all, Clock(elapsed).c_str());
   } else {
-    std::fprintf(options_.stream, "%s: %zu/%zu runs, %.0f %%, %s elapsed, ~%s left\n",
-                 options_.label.c_str(), done, all, percent, Clock(elapsed).c_str(),
-                 Clock(eta).c_str());
+    std::fprintf(options_.stream, "%s: %zu/%zu runs, %s %%, %s elapsed, ~%s left\n",
+                 options_.label.c_str(), done, all, FixedText(percent, 0).c_str(),
+                 Clock(elapsed).c_str(), Clock(eta).c_str());
   }
   std::fflush(options_.stream);
 }

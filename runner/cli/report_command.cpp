@@ -3,6 +3,7 @@
 
 #include "commands.hpp"
 #include "log.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/report.hpp"
 
 namespace upright::cli {
@@ -30,8 +31,9 @@ int RunReport(const std::string& dir) {
       Log().Error(outcome.message);
       return kExitFailed;
   }
-  Log().Info(Printf("upright report: %s (%.1f kB, %zu results folder(s))", outcome.path.c_str(),
-                    static_cast<double>(outcome.bytes) / 1000.0, outcome.folders));
+  Log().Info(Printf("upright report: %s (%s kB, %zu results folder(s))", outcome.path.c_str(),
+                    FixedText(static_cast<double>(outcome.bytes) / 1000.0, 1).c_str(),
+                    outcome.folders));
   Log().Caution(kCaution);
   return kExitOk;
 }

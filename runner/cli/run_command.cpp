@@ -16,6 +16,7 @@
 #include "module_messages.hpp"
 #include "progress.hpp"
 #include "sweep_command.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/report.hpp"
 #include "upright/runner/results_writer.hpp"
@@ -151,9 +152,10 @@ int RunScenarios(const RunCommandOptions& options) {
   LogModuleMessages(Log(), batch);
   for (const auto& run : batch.runs) {
     Log().Debug(Printf(
-        "%s / %s / seed %llu: %s after %ld step(s), %.3f s: %s", run.scenario.c_str(),
+        "%s / %s / seed %llu: %s after %ld step(s), %s s: %s", run.scenario.c_str(),
         run.controller.c_str(), static_cast<unsigned long long>(run.seed),
-        runner::ToString(run.metrics.status), run.steps, run.wall_s, run.metrics.message.c_str()));
+        runner::ToString(run.metrics.status), run.steps, FixedText(run.wall_s, 3).c_str(),
+        run.metrics.message.c_str()));
   }
   if (!runner::WriteResults(out_dir, batch, &error)) {
     Log().Error(error);
@@ -165,8 +167,8 @@ int RunScenarios(const RunCommandOptions& options) {
     survived += run.metrics.status == runner::RunStatus::kOk;
     failed_setup += run.metrics.status == runner::RunStatus::kSetupFailed;
   }
-  Log().Info(Printf("%zu of %zu run(s) survived; %.1f s on %d job(s)", survived, batch.runs.size(),
-                    batch.wall_s, batch.jobs));
+  Log().Info(Printf("%zu of %zu run(s) survived; %s s on %d job(s)", survived, batch.runs.size(),
+                    FixedText(batch.wall_s, 1).c_str(), batch.jobs));
   for (const auto& run : batch.runs) {
     if (run.metrics.status == runner::RunStatus::kSetupFailed) {
       // Among the command's own lines on stdout, but shown when quiet: the exit code's reason.

@@ -7,6 +7,7 @@
 #include "load_scenario.hpp"
 #include "log.hpp"
 #include "progress.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/sweep.hpp"
 #include "upright/runner/sweep_writer.hpp"
 #include "upright_version.hpp"
@@ -62,10 +63,12 @@ int RunSweep(const SweepCommandOptions& options) {
   for (std::size_t c = 0; c < result.controller_count(); ++c) {
     const std::size_t k = runner::CountSurvived(result, c);
     const runner::Interval interval = runner::WilsonInterval(k, n);
-    Log().Info(Printf("  %-12s survived %zu/%zu  (%.1f %%, 95 %% interval %.1f-%.1f %%)%s",
+    Log().Info(Printf("  %-12s survived %zu/%zu  (%s %%, 95 %% interval %s-%s %%)%s",
                       result.scenario.controllers[c].c_str(), k, n,
-                      100.0 * static_cast<double>(k) / static_cast<double>(n), 100 * interval.lo,
-                      100 * interval.hi, c == runner::BaselineIndex(result) ? "  baseline" : ""));
+                      FixedText(100.0 * static_cast<double>(k) / static_cast<double>(n), 1).c_str(),
+                      FixedText(100 * interval.lo, 1).c_str(),
+                      FixedText(100 * interval.hi, 1).c_str(),
+                      c == runner::BaselineIndex(result) ? "  baseline" : ""));
   }
   std::size_t failed_samples = 0;
   for (const auto& sample : result.samples) failed_samples += sample.error.empty() ? 0 : 1;
@@ -74,8 +77,9 @@ int RunSweep(const SweepCommandOptions& options) {
               Printf("  %zu sample(s) had no acceptable draw (setup_failed rows in sweep.csv)",
                      failed_samples));
   }
-  Log().Info(Printf("%.1f s on %d job(s); tables: %s/sweep.md, %s/sweep.csv", result.wall_s,
-                    result.jobs, out_dir.c_str(), out_dir.c_str()));
+  Log().Info(Printf("%s s on %d job(s); tables: %s/sweep.md, %s/sweep.csv",
+                    FixedText(result.wall_s, 1).c_str(), result.jobs, out_dir.c_str(),
+                    out_dir.c_str()));
   if (options.caution) Log().Caution(kCaution);
   return kExitOk;
 }

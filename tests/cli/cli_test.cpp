@@ -9,15 +9,13 @@
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <nlohmann/json.hpp>
 #include <string>
 #include <utility>
 
-#include "json_reader.hpp"
-
 namespace {
 
-using upright::runner::report::JsonKind;
-using upright::runner::report::JsonValue;
+using Json = nlohmann::json;
 
 struct Result {
   int exit_code = -1;
@@ -176,33 +174,120 @@ TEST(Cli, DesignPrintsEveryControllerForBothDemoRobots) {
   }
 }
 
-TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
-  const Result r = RunUpright("design --json " + Models() + "courier.xml");
-  EXPECT_EQ(r.exit_code, 0) << r.output;
-  for (const char* key :
-       {"\"A\":[[", "\"B\":[[", "\"lqr\":{", "\"hinf\":{", "\"lqg\":{", "\"K\":[[", "\"poles\":[[",
-        "\"gamma\":", "\"gamma_opt\":", "\"norm\":", "\"margins\":{",
-        "\"gain_low\":", "\"gain_high\":", "\"phase_deg\":", "\"disk_alpha\":", "\"delay_s\":",
-        "\"sampled\":{", "\"max_abs_z\":"}) {
-    EXPECT_NE(r.output.find(key), std::string::npos) << key;
+// `upright design --json ARGS` parsed with nlohmann-json; stderr left out.
+Json DesignJson(const std::string& args) {
+  const Result r = RunUpright("design --json " + args, "", "2>/dev/null");
+  Json value = Json::parse(r.output, nullptr, /*allow_exceptions=*/false);
+  EXPECT_FALSE(value.is_discarded()) << r.output;
+  return value;
+}
+
+// The member `key` of `object` (null when absent, which the checks below then refuse).
+const Json& At(const Json& object, const char* key) {
+  static const Json kAbsent;
+  EXPECT_TRUE(object.is_object() && object.contains(key)) << key;
+  return object.is_object() && object.contains(key) ? object.at(key) : kAbsent;
+}
+
+double NumberAt(const Json& object, const char* key) {
+  const Json& v = At(object, key);
+  EXPECT_TRUE(v.is_number()) << key << " = " << v.dump();
+  return v.is_number() ? v.get<double>() : NAN;
+}
+
+bool BoolAt(const Json& object, const char* key) {
+  const Json& v = At(object, key);
+  EXPECT_TRUE(v.is_boolean()) << key << " = " << v.dump();
+  return v.is_boolean() && v.get<bool>();
+}
+
+std::string StringAt(const Json& object, const char* key) {
+  const Json& v = At(object, key);
+  EXPECT_TRUE(v.is_string()) << key << " = " << v.dump();
+  return v.is_string() ? v.get<std::string>() : "";
+}
+
+// A figure: a number, or null for an unbounded one (JSON has no infinity).
+bool IsFigure(const Json& v) { return v.is_number() || v.is_null(); }
+
+// A row-major matrix of numbers, `rows` × `cols`.
+bool IsMatrix(const Json& v, std::size_t rows, std::size_t cols) {
+  if (!v.is_array() || v.size() != rows) return false;
+  for (const Json& row : v) {
+    if (!row.is_array() || row.size() != cols) return false;
+    for (const Json& x : row) {
+      if (!x.is_number()) return false;
+    }
   }
+  return true;
+}
+
+// Poles as [re, im] pairs of numbers.
+bool IsPoleList(const Json& v) { return v.is_array() && !v.empty() && IsMatrix(v, v.size(), 2); }
+
+constexpr const char* kControllerKeys[] = {"lqr", "hinf", "lqg", "pid"};
+
+// Every key README.md documents for `upright design --json`, with its type: the courier robot as
+// given (torque input, every design ok, a gain margin with no upper limit).
+TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
+  const Result r = RunUpright("design --json " + Models() + "courier.xml", "", "2>/dev/null");
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  const Json json = Json::parse(r.output, nullptr, /*allow_exceptions=*/false);
+  ASSERT_TRUE(json.is_object()) << r.output;
+  EXPECT_EQ(StringAt(json, "robot"), "courier");
+  EXPECT_EQ(StringAt(json, "input"), "torque");
+  EXPECT_GT(NumberAt(json, "rate_hz"), 0);
+  EXPECT_GE(NumberAt(json, "latency_s"), 0);
+  EXPECT_EQ(At(json, "states").size(), 6u);
+  EXPECT_TRUE(IsMatrix(At(json, "A"), 6, 6)) << At(json, "A").dump();
+  EXPECT_TRUE(IsMatrix(At(json, "B"), 6, 2)) << At(json, "B").dump();
+  EXPECT_TRUE(IsMatrix(At(json, "E"), 6, 2)) << At(json, "E").dump();
+  // pitch row of A: d(pitch)/dt = pitch rate, so A[2][3] = 1 (row-major: rows are states).
+  EXPECT_EQ(At(json, "A")[2][3], 1);
+  int unbounded_gains = 0;
+  for (const char* key : kControllerKeys) {
+    SCOPED_TRACE(key);
+    const Json& c = At(json, key);
+    EXPECT_EQ(StringAt(c, "status"), "ok");
+    EXPECT_TRUE(BoolAt(c, "ok"));
+    StringAt(c, "message");
+    EXPECT_TRUE(IsMatrix(At(c, "K"), 2, 6)) << At(c, "K").dump();
+    EXPECT_TRUE(IsPoleList(At(c, "poles"))) << At(c, "poles").dump();
+    EXPECT_TRUE(IsFigure(At(c, "push_norm")));
+    const Json& margins = At(c, "margins");
+    for (const char* figure : {"gain_low", "gain_high", "phase_deg", "disk_alpha", "disk_gain_low",
+                               "disk_gain_high", "disk_phase_deg", "delay_s"}) {
+      EXPECT_TRUE(IsFigure(At(margins, figure))) << figure;
+    }
+    unbounded_gains += At(margins, "gain_high").is_null();
+    if (std::string(key) == "pid") {
+      EXPECT_FALSE(c.contains("sampled"));
+    } else {
+      const Json& sampled = At(c, "sampled");
+      EXPECT_GT(NumberAt(sampled, "rate_hz"), 0);
+      EXPECT_LT(NumberAt(sampled, "max_abs_z"), 1);
+      EXPECT_TRUE(IsPoleList(At(sampled, "poles")));
+    }
+    EXPECT_GE(NumberAt(c, "unanalysed_delay_s"), 0);
+    BoolAt(c, "delay_margin_short");
+  }
+  EXPECT_GT(unbounded_gains, 0) << "an unbounded gain margin prints as null";
+  const Json& hinf = At(json, "hinf");
+  EXPECT_GE(NumberAt(hinf, "gamma"), NumberAt(hinf, "gamma_opt"));
+  EXPECT_TRUE(IsFigure(At(hinf, "norm")));
+  EXPECT_GT(NumberAt(At(json, "lqg"), "estimator_fastest_1_s"), 0);
   EXPECT_EQ(r.output.front(), '{');
+  EXPECT_EQ(r.output.back(), '\n');
 }
 
 TEST(Cli, DesignNotesAnEstimatorFasterThanItsSamplingOnlyThen) {
   // The note appears exactly when the continuous estimator's fastest pole, printed in the JSON,
   // is beyond the Nyquist rate π · rate_hz of the control rate.
   for (const char* name : {"courier.xml", "tabletop.xml"}) {
-    const Result json = RunUpright("design --json " + Models() + name);
-    const std::string key = "\"estimator_fastest_1_s\":";
-    const auto at = json.output.find(key);
-    ASSERT_NE(at, std::string::npos) << json.output;
-    const double fastest = std::stod(json.output.substr(at + key.size()));
+    const Json json = DesignJson(Models() + name);
+    const double fastest = NumberAt(At(json, "lqg"), "estimator_fastest_1_s");
+    const double rate_hz = NumberAt(json, "rate_hz");
     const Result text = RunUpright("design " + Models() + name);
-    const std::string rate_key = "controllers at ";
-    const auto rate_at = text.output.find(rate_key);
-    ASSERT_NE(rate_at, std::string::npos) << text.output;
-    const double rate_hz = std::stod(text.output.substr(rate_at + rate_key.size()));
     const bool beyond = fastest > 3.141592653589793 * rate_hz;
     EXPECT_EQ(text.output.find("note: the continuous estimator reaches") != std::string::npos,
               beyond)
@@ -228,31 +313,6 @@ TEST(Cli, DesignWithAnInfeasibleGammaReportsItInPlaceAndExitsThree) {
   }
 }
 
-// `upright design --json ARGS` parsed; stderr left out.
-JsonValue DesignJson(const std::string& args) {
-  const Result r = RunUpright("design --json " + args, "", "2>/dev/null");
-  JsonValue value;
-  std::string error;
-  EXPECT_TRUE(upright::runner::report::ParseJson(r.output, "design", &value, &error))
-      << error << "\n"
-      << r.output;
-  return value;
-}
-
-double NumberAt(const JsonValue& object, const char* key) {
-  const JsonValue* v = object.Find(key);
-  EXPECT_NE(v, nullptr) << key;
-  return v != nullptr && v->kind == JsonKind::kNumber ? v->number : NAN;
-}
-
-bool BoolAt(const JsonValue& object, const char* key) {
-  const JsonValue* v = object.Find(key);
-  EXPECT_TRUE(v != nullptr && v->kind == JsonKind::kBool) << key;
-  return v != nullptr && v->boolean;
-}
-
-constexpr const char* kControllerKeys[] = {"lqr", "hinf", "lqg", "pid"};
-
 TEST(Cli, DesignWithVoltageInputSaysPidIsNotOfferedAndExitsZero) {
   const Result r = RunUpright("design --input voltage " + Models() + "courier.xml");
   EXPECT_EQ(r.exit_code, 0) << r.output;
@@ -261,28 +321,25 @@ TEST(Cli, DesignWithVoltageInputSaysPidIsNotOfferedAndExitsZero) {
             std::string::npos)
       << r.output;
   EXPECT_NE(r.output.find("== LQR: ok"), std::string::npos) << r.output;
-  const JsonValue json = DesignJson("--input voltage " + Models() + "courier.xml");
-  ASSERT_NE(json.Find("pid"), nullptr);
-  EXPECT_EQ(json.Find("pid")->StringOr("status", ""), "unsupported");
-  EXPECT_FALSE(BoolAt(*json.Find("pid"), "ok"));
-  EXPECT_EQ(json.Find("lqr")->StringOr("status", ""), "ok");
+  const Json json = DesignJson("--input voltage " + Models() + "courier.xml");
+  EXPECT_EQ(StringAt(At(json, "pid"), "status"), "unsupported");
+  EXPECT_FALSE(BoolAt(At(json, "pid"), "ok"));
+  EXPECT_EQ(StringAt(At(json, "lqr"), "status"), "ok");
 }
 
 TEST(Cli, DesignDoesNotCallALoopUnstableWhenSampledOk) {
   // At 5 Hz a continuous gain applied once a sample can diverge: the status follows the sampled
   // loop's largest |z| (stable below 1), in the JSON and in the text heading.
   const std::string args = "--rate 5 " + Models() + "courier.xml";
-  const JsonValue json = DesignJson(args);
+  const Json json = DesignJson(args);
   const Result text = RunUpright("design " + args);
   int unstable = 0;
   for (const char* key : kControllerKeys) {
-    const JsonValue* c = json.Find(key);
-    ASSERT_NE(c, nullptr) << key;
-    const JsonValue* sampled = c->Find("sampled");
-    const bool diverges = sampled != nullptr && !(NumberAt(*sampled, "max_abs_z") < 1);
+    const Json& c = At(json, key);
+    const bool diverges = c.contains("sampled") && !(NumberAt(c["sampled"], "max_abs_z") < 1);
     unstable += diverges;
-    EXPECT_EQ(c->StringOr("status", ""), diverges ? "unstable_sampled" : "ok") << key;
-    EXPECT_EQ(BoolAt(*c, "ok"), !diverges) << key;
+    EXPECT_EQ(StringAt(c, "status"), diverges ? "unstable_sampled" : "ok") << key;
+    EXPECT_EQ(BoolAt(c, "ok"), !diverges) << key;
   }
   ASSERT_GT(unstable, 0) << text.output;
   EXPECT_EQ(text.exit_code, 3) << text.output;
@@ -295,22 +352,22 @@ TEST(Cli, DesignWarnsWhenADelayMarginIsBelowTheSensorLatency) {
   // The demo courier as given: a warning exactly where the delay margin is below the delay the
   // figures leave out, and that delay is the sensor latency (plus half a period for PID, whose
   // sampled loop is not analysed).
-  const JsonValue as_given = DesignJson(Models() + "courier.xml");
+  const Json as_given = DesignJson(Models() + "courier.xml");
   const double latency_s = NumberAt(as_given, "latency_s");
   const double period_s = 1 / NumberAt(as_given, "rate_hz");
   for (const char* key : kControllerKeys) {
-    const JsonValue& c = *as_given.Find(key);
-    const double margin_s = NumberAt(*c.Find("margins"), "delay_s");
+    const Json& c = At(as_given, key);
+    const double margin_s = NumberAt(At(c, "margins"), "delay_s");
     const double delay_s = NumberAt(c, "unanalysed_delay_s");
-    EXPECT_NEAR(delay_s, latency_s + (c.Find("sampled") ? 0 : period_s / 2), 1e-15) << key;
+    EXPECT_NEAR(delay_s, latency_s + (c.contains("sampled") ? 0 : period_s / 2), 1e-15) << key;
     EXPECT_EQ(BoolAt(c, "delay_margin_short"), margin_s < delay_s) << key;
   }
   // A latency of 0.2 s (within the model's limit of 50 control periods) outlasts every margin.
   const std::string slow = BrokenCopy("courier.xml", "latency_s=\"0.002\"", "latency_s=\"0.2\"");
-  const JsonValue json = DesignJson(slow);
+  const Json json = DesignJson(slow);
   for (const char* key : kControllerKeys) {
-    EXPECT_LT(NumberAt(*json.Find(key)->Find("margins"), "delay_s"), 0.2) << key;
-    EXPECT_TRUE(BoolAt(*json.Find(key), "delay_margin_short")) << key;
+    EXPECT_LT(NumberAt(At(At(json, key), "margins"), "delay_s"), 0.2) << key;
+    EXPECT_TRUE(BoolAt(At(json, key), "delay_margin_short")) << key;
   }
   const Result text = RunUpright("design " + slow);
   std::size_t warnings = 0;

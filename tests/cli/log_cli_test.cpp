@@ -12,13 +12,12 @@
 #include <sstream>
 #include <string>
 
-#include "json_reader.hpp"
+#include <nlohmann/json.hpp>
 
 namespace {
 
 namespace fs = std::filesystem;
-using upright::runner::report::JsonKind;
-using upright::runner::report::JsonValue;
+using Json = nlohmann::json;
 
 fs::path Scratch(const std::string& name) {
   const fs::path dir =
@@ -115,38 +114,34 @@ TEST(CliLog, TheManifestCarriesEachRunsModuleMessages) {
     const Outcome r =
         Upright("run " + scenario + " --out " + out.string() + (twin ? " --linear-twin" : ""), dir);
     ASSERT_EQ(r.exit_code, 0) << r.out << r.err;
-    JsonValue manifest;
-    std::string error;
-    ASSERT_TRUE(upright::runner::report::ParseJson(Read(out / "manifest.json"), "manifest.json",
-                                                   &manifest, &error))
-        << error;
-    const JsonValue* runs = manifest.Find("runs");
-    ASSERT_NE(runs, nullptr);
-    ASSERT_EQ(runs->items.size(), 2u);
-    const JsonValue& lqr = runs->items[0];
-    const JsonValue& mine = runs->items[1];
-    ASSERT_EQ(mine.StringOr("controller", ""), "mine");
+    const Json manifest = Json::parse(Read(out / "manifest.json"));
+    ASSERT_TRUE(manifest.contains("runs"));
+    const Json& runs = manifest["runs"];
+    ASSERT_EQ(runs.size(), 2u);
+    const Json& lqr = runs[0];
+    const Json& mine = runs[1];
+    ASSERT_EQ(mine.value("controller", ""), "mine");
     // The built-in logs at debug only: nothing kept at the default level.
-    ASSERT_NE(lqr.Find("module_log"), nullptr);
-    EXPECT_TRUE(lqr.Find("module_log")->Find("messages")->items.empty());
+    ASSERT_TRUE(lqr.contains("module_log"));
+    EXPECT_TRUE(lqr["module_log"]["messages"].empty());
     for (const char* key : {"module_log", "twin_module_log"}) {
-      const JsonValue* log = mine.Find(key);
-      ASSERT_NE(log, nullptr) << key;
+      ASSERT_TRUE(mine.contains(key)) << key;
+      const Json& log = mine[key];
       if (!twin && std::string(key) == "twin_module_log") {
-        EXPECT_EQ(log->kind, JsonKind::kNull);
+        EXPECT_TRUE(log.is_null());
         continue;
       }
-      ASSERT_EQ(log->kind, JsonKind::kObject) << key;
-      const JsonValue& messages = *log->Find("messages");
-      ASSERT_EQ(messages.items.size(), 20u) << key;
-      const JsonValue& created = messages.items[0];
-      EXPECT_EQ(created.Find("time_s")->kind, JsonKind::kNull);  // before the first tick
-      EXPECT_EQ(created.StringOr("level", ""), "info");
-      EXPECT_EQ(created.StringOr("text", ""), "create: info");
-      const JsonValue& tick = messages.items[5];
-      EXPECT_EQ(tick.StringOr("text", ""), "tick 2 message 1");
-      EXPECT_EQ(tick.Find("time_s")->text, "0.005");
-      EXPECT_EQ(log->Find("dropped")->number, 24) << key;
+      ASSERT_TRUE(log.is_object()) << key;
+      const Json& messages = log["messages"];
+      ASSERT_EQ(messages.size(), 20u) << key;
+      const Json& created = messages[0];
+      EXPECT_TRUE(created["time_s"].is_null());  // before the first tick
+      EXPECT_EQ(created.value("level", ""), "info");
+      EXPECT_EQ(created.value("text", ""), "create: info");
+      const Json& tick = messages[5];
+      EXPECT_EQ(tick.value("text", ""), "tick 2 message 1");
+      EXPECT_EQ(tick["time_s"].get<double>(), 0.005);
+      EXPECT_EQ(log["dropped"].get<int>(), 24) << key;
     }
   }
 }

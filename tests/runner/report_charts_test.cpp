@@ -79,19 +79,10 @@ TEST(HtmlText, EscapesMarkupCharacters) {
   EXPECT_EQ(Escape("° ▲"), "° ▲");
 }
 
-TEST(HtmlText, NumbersInAFixedForm) {
-  EXPECT_EQ(FormatSignificant(6.21125, 4), "6.211");
-  EXPECT_EQ(FormatSignificant(-1e-9, 2), "-1e-09");
-  EXPECT_EQ(FormatSignificant(-0.0, 4), "0");
-  EXPECT_EQ(FormatSignificant(std::numeric_limits<double>::quiet_NaN(), 4), "");
-  EXPECT_EQ(FormatFixed(1.2345678, 3), "1.235");
-  EXPECT_EQ(FormatFixed(-0.001, 2), "0.00");
-  std::string tenths;
-  for (const long v : {123L, 120L, 5L, -5L, 0L, -1234L}) {
-    AppendTenths(&tenths, v);
-    tenths += ' ';
-  }
-  EXPECT_EQ(tenths, "12.3 12 .5 -.5 0 -123.4 ");
+// The forms themselves are tested with the base's number text; here, the report's use of them.
+TEST(SvgText, CoordinatesInTenthsOfAPixel) {
+  EXPECT_EQ(PixelText(-0.04), "0");
+  EXPECT_EQ(PixelText(-123.44), "-123.4");
   EXPECT_EQ(PixelText(12.345), "12.3");
 }
 

@@ -20,6 +20,7 @@
 #include "palette.hpp"
 #include "report_page.hpp"
 #include "report_test_support.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/csv_reader.hpp"
 #include "upright/runner/metric_columns.hpp"
 #include "upright/runner/sha256.hpp"
@@ -185,7 +186,7 @@ TEST(Report, TiltPlotShowsLinesTwinsEventsTheFallAxesAndLegend) {
     if (Attribute(g, "class") == "mark") marks.push_back(TextOf(g));
   }
   ASSERT_EQ(marks.size(), 1u);
-  EXPECT_EQ(marks[0], "lqr fell at " + report::FormatFixed(lqr.metrics.fall_time_s, 3) + " s");
+  EXPECT_EQ(marks[0], "lqr fell at " + FixedText(lqr.metrics.fall_time_s, 3) + " s");
 
   // Axes with units and ticks, and the legend naming both controllers and the twin.
   std::vector<std::string> texts;

@@ -8,7 +8,6 @@
 #include <algorithm>
 #include <cmath>
 #include <complex>
-#include <cstdio>
 #include <limits>
 #include <optional>
 #include <string>
@@ -31,20 +30,6 @@ inline constexpr double kSingularRcond = 1e-14;
 // An eigenvalue counts as unstable when Re λ ≥ −kStabilityTolerance · max|λ(A)|: poles that close
 // to the imaginary axis are indistinguishable from it in double precision.
 inline constexpr double kStabilityTolerance = 1e-12;
-
-// "1.5-0.25j"
-inline std::string FormatComplex(Complex z) {
-  char text[64];
-  std::snprintf(text, sizeof text, "%.6g%+.6gj", z.real(), z.imag());
-  return text;
-}
-
-// "2" or "inf"
-inline std::string FormatNumber(double x) {
-  char text[32];
-  std::snprintf(text, sizeof text, "%.6g", x);
-  return text;
-}
 
 // Checks the sizes of a system and fills in an empty D with zeros: A n×n, B n×m, C p×n, D p×m.
 // With n = 0, B and C may be empty and D gives p and m. Returns an error message, empty if valid.

@@ -5,6 +5,8 @@
 #include <limits>
 #include <vector>
 
+#include "upright/base/number_text.hpp"
+
 namespace upright::design {
 namespace {
 
@@ -135,10 +137,7 @@ LoopAnalysis AnalyseLoop(const LinearModel& plant, const Measurement& meas,
   const double worst = out.poles.empty() ? -1 : out.poles.back().real();
   if (!(worst < 0)) {
     out.push_norm = std::numeric_limits<double>::infinity();
-    out.message = "closed loop unstable: pole at " + std::to_string(out.poles.back().real()) +
-                  (out.poles.back().imag() != 0
-                       ? (" + " + std::to_string(std::abs(out.poles.back().imag())) + "i")
-                       : std::string());
+    out.message = "closed loop unstable: pole at " + ComplexText(out.poles.back(), 6);
     return out;
   }
   const NormResult norm = HinfNorm({closed.A, closed.B, closed.C, closed.D});

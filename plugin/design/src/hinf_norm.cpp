@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "analysis_frequency.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/analysis.hpp"
 
 namespace upright::design {
@@ -85,9 +86,8 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
   NormResult result;
   result.peak_rad_s = kNaN;
   if (!(relative_tolerance > 0 && relative_tolerance < 1)) {
-    result.message =
-        "HinfNorm: relative_tolerance = " + internal::FormatNumber(relative_tolerance) +
-        ", must be in (0, 1)";
+    result.message = "HinfNorm: relative_tolerance = " + SignificantText(relative_tolerance, 6) +
+                     ", must be in (0, 1)";
     return result;
   }
   StateSpace s = system;
@@ -98,7 +98,7 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
   internal::BalanceStates(&s);
   if (const std::optional<internal::Complex> lambda = internal::UnstableEigenvalue(s.A)) {
     result.norm = kInf;
-    result.message = "HinfNorm: A has the eigenvalue " + internal::FormatComplex(*lambda) +
+    result.message = "HinfNorm: A has the eigenvalue " + ComplexText(*lambda, 6) +
                      ", not in the open left half-plane: the H-infinity norm is infinite";
     return result;
   }
@@ -158,7 +158,7 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
       result.norm = bound.gain;
       result.peak_rad_s = bound.omega;
       result.message = "HinfNorm: the Hamiltonian eigenvalues could not be computed at γ = " +
-                       internal::FormatNumber(gamma) + "; the norm is only a lower bound";
+                       SignificantText(gamma, 6) + "; the norm is only a lower bound";
       return result;
     }
     double best = 0;

@@ -8,13 +8,13 @@
 #include <string>
 
 #include "riccati_common.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/riccati.hpp"
 
 namespace upright::design {
 namespace {
 
 using Complex = std::complex<double>;
-using internal::FormatComplex;
 
 // λ_i + conj(λ_j) (continuous) or λ_i conj(λ_j) − 1 (discrete) smaller than this share of the
 // scale makes the equation singular.
@@ -46,8 +46,8 @@ bool Singular(Complex pivot, double scale, Complex lambda_i, Complex lambda_j, c
               LyapunovResult* result) {
   if (std::abs(pivot) > kSingularTolerance * scale) return false;
   result->failure = SolveFailure::kIllConditioned;
-  result->message = "A has eigenvalues " + FormatComplex(lambda_i) + " and " +
-                    FormatComplex(lambda_j) + " with " + rule +
+  result->message = "A has eigenvalues " + ComplexText(lambda_i, 6) + " and " +
+                    ComplexText(lambda_j, 6) + " with " + rule +
                     ": the Lyapunov equation has no unique solution";
   return true;
 }

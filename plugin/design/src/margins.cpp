@@ -11,6 +11,7 @@
 #include <vector>
 
 #include "analysis_frequency.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/analysis.hpp"
 
 namespace upright::design {
@@ -230,7 +231,7 @@ LoopMargins SisoMargins(const StateSpace& loop) {
   }
   if (const std::optional<Complex> lambda = internal::UnstableEigenvalue(*closed)) {
     result.message = "SisoMargins: the closed loop is unstable, it has the eigenvalue " +
-                     internal::FormatComplex(*lambda);
+                     ComplexText(*lambda, 6);
     return result;
   }
   const Eigen::VectorXcd open_poles = internal::Eigenvalues(l.A).value_or(Eigen::VectorXcd());

@@ -9,13 +9,12 @@
 
 #include "riccati_common.hpp"
 #include "schur_reorder.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/riccati.hpp"
 
 namespace upright::design {
 namespace {
 
-using internal::FormatComplex;
-using internal::FormatNumber;
 using internal::RiccatiProblem;
 
 constexpr double kEpsilon = std::numeric_limits<double>::epsilon();
@@ -57,9 +56,10 @@ bool OnImaginaryAxis(const Eigen::VectorXcd& eigenvalues, double h_norm, std::st
   Eigen::Index index = 0;
   const double closest = eigenvalues.real().cwiseAbs().minCoeff(&index);
   if (closest > internal::kBoundaryTolerance * h_norm) return false;
-  *message = "Hamiltonian eigenvalue " + FormatComplex(eigenvalues(index)) +
-             " lies on the imaginary axis (|Re λ| ≤ " + FormatNumber(internal::kBoundaryTolerance) +
-             "·‖H‖_F = " + FormatNumber(internal::kBoundaryTolerance * h_norm) +
+  *message = "Hamiltonian eigenvalue " + ComplexText(eigenvalues(index), 6) +
+             " lies on the imaginary axis (|Re λ| ≤ " +
+             SignificantText(internal::kBoundaryTolerance, 6) +
+             "·‖H‖_F = " + SignificantText(internal::kBoundaryTolerance * h_norm, 6) +
              "): no stabilising solution";
   return true;
 }
@@ -110,10 +110,11 @@ RiccatiResult ValidateCare(const RiccatiProblem& problem, Eigen::MatrixXd X, Ref
                            const RiccatiOptions& options, RiccatiResult result) {
   const double asymmetry = (X - X.transpose()).norm();
   if (!(asymmetry <= kAsymmetryTolerance * X.norm())) {
-    return internal::Fail(result, SolveFailure::kIllConditioned,
-                          "the candidate X is not symmetric (‖X − Xᵀ‖_F = " +
-                              FormatNumber(asymmetry) + ", ‖X‖_F = " + FormatNumber(X.norm()) +
-                              "): the stable subspace was not computed reliably");
+    return internal::Fail(
+        result, SolveFailure::kIllConditioned,
+        "the candidate X is not symmetric (‖X − Xᵀ‖_F = " + SignificantText(asymmetry, 6) +
+            ", ‖X‖_F = " + SignificantText(X.norm(), 6) +
+            "): the stable subspace was not computed reliably");
   }
   X = 0.5 * (X + X.transpose()).eval();
   if (refinement == Refinement::kNewton) X = RefineCare(problem, X);
@@ -122,14 +123,15 @@ RiccatiResult ValidateCare(const RiccatiProblem& problem, Eigen::MatrixXd X, Ref
   result.relative_residual = internal::CareResidual(problem, X, &residual);
   if (!(result.relative_residual <= options.residual_tolerance)) {
     return internal::Fail(result, SolveFailure::kResidualTooLarge,
-                          "relative residual " + FormatNumber(result.relative_residual) +
-                              " exceeds the tolerance " + FormatNumber(options.residual_tolerance));
+                          "relative residual " + SignificantText(result.relative_residual, 6) +
+                              " exceeds the tolerance " +
+                              SignificantText(options.residual_tolerance, 6));
   }
   const Eigen::MatrixXd closed_loop = problem.A - problem.B * internal::CareGain(problem, X);
   const std::complex<double> rightmost = internal::RightmostEigenvalue(closed_loop);
   if (!(rightmost.real() < 0)) {
     return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
-                          "closed loop A − BK has the eigenvalue " + FormatComplex(rightmost) +
+                          "closed loop A − BK has the eigenvalue " + ComplexText(rightmost, 6) +
                               ", not in the open left half-plane: X is not stabilising");
   }
   std::string message;
@@ -184,7 +186,7 @@ RiccatiResult SolveCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   const double rcond = ReciprocalCondition(u11);
   if (!(rcond > internal::kRcondTolerance)) {
     return internal::Fail(result, SolveFailure::kIllConditioned,
-                          "the stable-subspace basis U11 has rcond " + FormatNumber(rcond) +
+                          "the stable-subspace basis U11 has rcond " + SignificantText(rcond, 6) +
                               ", singular to working precision: X would be unbounded");
   }
   const Eigen::MatrixXcd y_transpose = u11.transpose().partialPivLu().solve(u21.transpose());
@@ -220,9 +222,9 @@ RiccatiResult SolveCareBySign(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B
       c = std::exp(-log_det / static_cast<double>(size));
     }
     if (!std::isfinite(c) || !(lu.rcond() > kEpsilon)) {
-      return internal::Fail(
-          result, SolveFailure::kIllConditioned,
-          "the sign iteration met a singular iterate (rcond " + FormatNumber(lu.rcond()) + ")");
+      return internal::Fail(result, SolveFailure::kIllConditioned,
+                            "the sign iteration met a singular iterate (rcond " +
+                                SignificantText(lu.rcond(), 6) + ")");
     }
     const Eigen::MatrixXd next = 0.5 * (c * Z + lu.inverse() / c);
     const double change = (next - Z).lpNorm<1>() / next.lpNorm<1>();
@@ -245,7 +247,7 @@ RiccatiResult SolveCareBySign(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B
   if (!(rcond > internal::kRcondTolerance)) {
     return internal::Fail(result, SolveFailure::kIllConditioned,
                           "[W12; W22 + I] from the sign function is rank deficient (rcond " +
-                              FormatNumber(rcond) + "): X would be unbounded");
+                              SignificantText(rcond, 6) + "): X would be unbounded");
   }
   const Eigen::MatrixXd X = hamiltonian.alpha * lhs.colPivHouseholderQr().solve(-rhs);
   return ValidateCare(problem, X, Refinement::kNone, options, result);

@@ -2,8 +2,9 @@
 #include "riccati_common.hpp"
 
 #include <cmath>
-#include <cstdio>
 #include <limits>
+
+#include "upright/base/number_text.hpp"
 
 namespace upright::design {
 
@@ -58,25 +59,13 @@ bool CheckSymmetric(const Eigen::MatrixXd& matrix, const char* name, const char*
   const double asymmetry = (matrix - matrix.transpose()).norm();
   if (asymmetry <= kSymmetryTolerance * matrix.norm()) return true;
   *message = std::string(equation) + ": " + name + " is not symmetric: ‖" + name + " − " + name +
-             "ᵀ‖_F = " + FormatNumber(asymmetry) + " > " + FormatNumber(kSymmetryTolerance) + "·‖" +
-             name + "‖_F = " + FormatNumber(kSymmetryTolerance * matrix.norm());
+             "ᵀ‖_F = " + SignificantText(asymmetry, 6) + " > " +
+             SignificantText(kSymmetryTolerance, 6) + "·‖" + name +
+             "‖_F = " + SignificantText(kSymmetryTolerance * matrix.norm(), 6);
   return false;
 }
 
 }  // namespace
-
-std::string FormatNumber(double value) {
-  char text[32];
-  std::snprintf(text, sizeof text, "%.6g", value);
-  return text;
-}
-
-std::string FormatComplex(std::complex<double> value) {
-  if (value.imag() == 0) return FormatNumber(value.real());
-  char text[64];
-  std::snprintf(text, sizeof text, "%.6g%+.6gi", value.real(), value.imag());
-  return text;
-}
 
 bool PrepareRiccatiProblem(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
                            const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
@@ -119,7 +108,7 @@ bool PrepareRiccatiProblem(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   const double r_smallest = r_eigenvalues.cwiseAbs().minCoeff();
   if (!(r_smallest > kRcondTolerance * r_largest)) {
     *message = std::string(equation) + ": R is singular or nearly so (eigenvalue moduli from " +
-               FormatNumber(r_smallest) + " to " + FormatNumber(r_largest) + ")";
+               SignificantText(r_smallest, 6) + " to " + SignificantText(r_largest, 6) + ")";
     return false;
   }
   problem->R_lu.compute(problem->R);
@@ -150,11 +139,11 @@ bool FindUnstabilisableMode(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, 
     pbh.rightCols(m) = B.cast<std::complex<double>>();
     const double sigma_min = Eigen::JacobiSVD<Eigen::MatrixXcd>(pbh).singularValues()(n - 1);
     if (sigma_min <= 1e-10 * rank_scale) {
-      *message = std::string("(A, B) is not stabilisable: the mode λ = ") + FormatComplex(lambda) +
+      *message = std::string("(A, B) is not stabilisable: the mode λ = ") + ComplexText(lambda, 6) +
                  " of A is " +
                  (discrete ? "not inside the unit circle" : "not in the open left half-plane") +
                  " and cannot be moved by B (PBH: smallest singular value of [A − λI, B] is " +
-                 FormatNumber(sigma_min) + ")";
+                 SignificantText(sigma_min, 6) + ")";
       return true;
     }
   }
@@ -209,9 +198,9 @@ bool IsClearlyIndefinite(const Eigen::MatrixXd& X, std::string* message) {
   const double largest = eigenvalues.cwiseAbs().maxCoeff();
   const double smallest = eigenvalues.minCoeff();
   if (smallest >= -kPsdTolerance * largest) return false;
-  *message = "X is not positive semidefinite: smallest eigenvalue " + FormatNumber(smallest) +
-             " < −" + FormatNumber(kPsdTolerance) +
-             "·‖X‖₂ = " + FormatNumber(-kPsdTolerance * largest);
+  *message = "X is not positive semidefinite: smallest eigenvalue " + SignificantText(smallest, 6) +
+             " < −" + SignificantText(kPsdTolerance, 6) +
+             "·‖X‖₂ = " + SignificantText(-kPsdTolerance * largest, 6);
   return true;
 }
 

@@ -66,8 +66,4 @@ bool IsClearlyIndefinite(const Eigen::MatrixXd& X, std::string* message);
 std::complex<double> RightmostEigenvalue(const Eigen::MatrixXd& matrix);
 std::complex<double> LargestEigenvalue(const Eigen::MatrixXd& matrix);
 
-// Numbers for messages: "0.25", "1e-14+2i".
-std::string FormatNumber(double value);
-std::string FormatComplex(std::complex<double> value);
-
 }  // namespace upright::design::internal

@@ -7,13 +7,12 @@
 #include <string>
 
 #include "riccati_common.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/riccati.hpp"
 
 namespace upright::design {
 namespace {
 
-using internal::FormatComplex;
-using internal::FormatNumber;
 using internal::RiccatiProblem;
 
 // Doubling squares the convergence factor each step, so 100 steps only run out when the symplectic
@@ -78,7 +77,7 @@ RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
       return internal::Fail(result, SolveFailure::kIllConditioned,
                             "doubling step " + std::to_string(iteration) +
                                 ": I + G_k H_k is singular to working precision (rcond " +
-                                FormatNumber(lu.rcond()) + ")");
+                                SignificantText(lu.rcond(), 6) + ")");
     }
     const Eigen::MatrixXd solved_a = lu.solve(a_k);
     const Eigen::MatrixXd solved_g = lu.solve(g_k);
@@ -111,18 +110,19 @@ RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
     return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
                           "doubling did not converge in " + std::to_string(iteration) +
                               " steps and the closed loop has the eigenvalue " +
-                              FormatComplex(largest) +
+                              ComplexText(largest, 6) +
                               ": the symplectic pencil has eigenvalues on the unit circle");
   }
   if (!(result.relative_residual <= options.residual_tolerance)) {
     return internal::Fail(result, SolveFailure::kResidualTooLarge,
-                          "relative residual " + FormatNumber(result.relative_residual) +
-                              " exceeds the tolerance " + FormatNumber(options.residual_tolerance));
+                          "relative residual " + SignificantText(result.relative_residual, 6) +
+                              " exceeds the tolerance " +
+                              SignificantText(options.residual_tolerance, 6));
   }
   if (!(std::abs(largest) < 1)) {
     return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
-                          "closed loop A − BK has the eigenvalue " + FormatComplex(largest) +
-                              " (|λ| = " + FormatNumber(std::abs(largest)) +
+                          "closed loop A − BK has the eigenvalue " + ComplexText(largest, 6) +
+                              " (|λ| = " + SignificantText(std::abs(largest), 6) +
                               "), not inside the unit circle: X is not stabilising");
   }
   if (options.require_psd) {
@@ -135,9 +135,9 @@ RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
             .eigenvalues()
             .minCoeff();
     if (!(smallest > 0)) {
-      return internal::Fail(
-          result, SolveFailure::kNotPositiveSemidefinite,
-          "R + BᵀXB is not positive definite (smallest eigenvalue " + FormatNumber(smallest) + ")");
+      return internal::Fail(result, SolveFailure::kNotPositiveSemidefinite,
+                            "R + BᵀXB is not positive definite (smallest eigenvalue " +
+                                SignificantText(smallest, 6) + ")");
     }
   }
   result.failure = SolveFailure::kNone;

@@ -3,11 +3,10 @@
 #include <algorithm>
 #include <charconv>
 #include <cmath>
-#include <cstdio>
 
+#include "upright/base/number_text.hpp"
 #include "upright/model/edge_compare.hpp"
 #include "upright/model/model_file.hpp"
-#include "upright/model/number_text.hpp"
 #include "upright/model/seconds_hint.hpp"
 
 namespace upright::internal {
@@ -505,7 +504,7 @@ constexpr FieldRule kFieldRules[] = {
 
 using Message = std::optional<std::string>;
 
-std::string F(double value) { return NumberText(value); }
+std::string F(double value) { return WholeOrShortestText(value); }
 
 // Geometric comparisons of file values (edge_compare.hpp): the scale is the sum of the magnitudes
 // that enter the comparison, so a value exactly on an edge is judged as on it despite rounding.
@@ -672,9 +671,7 @@ std::string RateOfSteps(double n) {
 }
 // "its period is 2.5 physics steps of the default dt_s = 0.001 s", the steps to six digits.
 std::string PeriodText(double steps) {
-  char text[32];
-  std::snprintf(text, sizeof text, "%.6g", steps);
-  return std::string("its period is ") + text +
+  return "its period is " + SignificantText(steps, 6) +
          " physics steps of the default dt_s = " + F(kDefaultPhysicsStep_s) + " s";
 }
 
@@ -709,7 +706,7 @@ constexpr StepRule kStepRules[] = {
 std::string LimitText(const Limit& limit, bool lower) {
   std::string text(lower ? (limit.bound == Bound::kOpen ? "> " : ">= ")
                          : (limit.bound == Bound::kOpen ? "< " : "<= "));
-  return text + NumberText(limit.value);
+  return text + WholeOrShortestText(limit.value);
 }
 
 // "(0, 1]", "> 0", "<= 3", or "" when neither bound is set.
@@ -718,9 +715,9 @@ std::string BoundsText(const FieldRule& rule) {
   const bool has_max = rule.max.bound != Bound::kNone;
   if (has_min && has_max) {
     std::string text(rule.min.bound == Bound::kOpen ? "(" : "[");
-    text += NumberText(rule.min.value);
+    text += WholeOrShortestText(rule.min.value);
     text += ", ";
-    text += NumberText(rule.max.value);
+    text += WholeOrShortestText(rule.max.value);
     text += rule.max.bound == Bound::kOpen ? ")" : "]";
     return text;
   }
@@ -757,7 +754,7 @@ const ElementRule* FindElementRule(std::string_view path) {
 
 std::optional<std::string> CheckField(const FieldRule& rule, double value) {
   const std::string lead = std::string(rule.element) + " " + std::string(rule.attribute) + " = " +
-                           NumberText(value) + ": ";
+                           WholeOrShortestText(value) + ": ";
   const bool in_bounds = Keeps(rule.min, value, true) && Keeps(rule.max, value, false);
   if (!in_bounds) {
     const bool two_sided = rule.min.bound != Bound::kNone && rule.max.bound != Bound::kNone;

@@ -1,7 +1,7 @@
 #include <string>
 
 #include "model_schema.hpp"
-#include "upright/model/number_text.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/model/model_file.hpp"
 
 namespace upright {
@@ -28,7 +28,7 @@ std::string OccursText(const internal::ElementRule& rule) {
 std::string DefaultText(const internal::FieldRule& rule) {
   if (!rule.default_text.empty()) return std::string(rule.default_text);
   if (rule.required) return "required";
-  return NumberText(rule.default_value);
+  return WholeOrShortestText(rule.default_value);
 }
 
 }  // namespace
@@ -60,7 +60,7 @@ std::string ModelSchemaMarkdown() {
     text += "| `" + std::string(rule.element) + "` | " + std::string(rule.rule) + " |\n";
   }
   text += "\nRules against the default physics step of " +
-          NumberText(kDefaultPhysicsStep_s * 1000) +
+          WholeOrShortestText(kDefaultPhysicsStep_s * 1000) +
           " ms, checked last; a scenario with its own `dt_s` checks the robot against that step "
           "instead:\n\n";
   text += "| element | rule |\n| --- | --- |\n";

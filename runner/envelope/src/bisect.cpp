@@ -3,7 +3,7 @@
 #include <algorithm>
 #include <cmath>
 
-#include "round_value.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/model/check.hpp"
 
 namespace upright::runner {
@@ -67,7 +67,7 @@ std::vector<double> Bisection::Pending() const {
 }
 
 double Bisection::Midpoint() const {
-  return internal::RoundForReading(survived_ + (failing_ - survived_) / 2);
+  return RoundToSignificant(survived_ + (failing_ - survived_) / 2, 12);
 }
 
 void Bisection::Record(const std::vector<bool>& survived) {

@@ -7,7 +7,7 @@
 #include <utility>
 
 #include "parameter_unit.hpp"
-#include "round_value.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/modules.hpp"
 #include "upright/runner/parallel_for.hpp"
 #include "upright/runner/run_one.hpp"
@@ -16,11 +16,7 @@
 namespace upright::runner {
 namespace {
 
-std::string Num(double value) {
-  std::ostringstream text;
-  text << value;
-  return text.str();
-}
+std::string Num(double value) { return SignificantText(value, 6); }
 
 // The axis of `path` with its defaults resolved, the ends checked against the scenario.
 bool ResolveAxis(const Scenario& scenario, const std::string& path, std::optional<double> lo,
@@ -52,8 +48,8 @@ std::size_t BracketedProbes(double width, double tol) {
 // One grid value: lo … hi in grid − 1 equal steps, the last exactly hi; rounded for reading.
 double GridValue(const ParameterAxis& axis, int i, int grid) {
   if (i == grid - 1) return axis.hi;
-  return internal::RoundForReading(axis.lo + (axis.hi - axis.lo) * static_cast<double>(i) /
-                                                 static_cast<double>(grid - 1));
+  return RoundToSignificant(
+      axis.lo + (axis.hi - axis.lo) * static_cast<double>(i) / static_cast<double>(grid - 1), 12);
 }
 
 // What a probe run comes to, kept small.

@@ -1,10 +1,9 @@
 #include "envelope_tables.hpp"
 
 #include <algorithm>
-#include <charconv>
 #include <cmath>
-#include <cstdio>
 
+#include "upright/base/number_text.hpp"
 #include "upright/runner/envelope_writer.hpp"
 #include "upright/runner/json_text.hpp"
 #include "upright/runner/scenario_info_json.hpp"
@@ -14,11 +13,7 @@ namespace upright::runner::internal {
 namespace {
 
 // A plan value for reading: up to 4 significant digits, no trailing zeros ("0.35", "1240").
-std::string Short(double value) {
-  char buffer[32];
-  std::snprintf(buffer, sizeof buffer, "%.4g", value == 0 ? 0.0 : value);
-  return buffer;
-}
+std::string Short(double value) { return SignificantText(value, 4); }
 
 std::string WithUnit(const std::string& text, const std::string& unit) {
   return unit.empty() ? text : text + " " + unit;
@@ -95,26 +90,12 @@ std::string MapText(const ControllerMap& map, const EnvelopePlan& plan) {
 
 }  // namespace
 
-std::string ExactNumber(double value) {
-  if (std::isnan(value)) return "";
-  if (value == 0) return "0";
-  char buffer[64];
-  const auto end = std::to_chars(buffer, buffer + sizeof buffer, value).ptr;
-  return std::string(buffer, end);
-}
-
 std::string AtResolution(double value, double resolution) {
-  if (std::isnan(value)) return "—";
   // One display unit at most half the resolution, so the ends of a final bracket (more than
   // tol / 2 apart once it has been halved) never print alike.
   const int decimals =
       std::clamp(static_cast<int>(std::ceil(-std::log10(resolution / 2) - 1e-9)), 0, 12);
-  char buffer[64];
-  std::snprintf(buffer, sizeof buffer, "%.*f", decimals, value);
-  std::string text = buffer;
-  // "-0", "-0.00": no sign on a value that rounds to zero.
-  if (text.front() == '-' && text.find_first_not_of("-0.") == std::string::npos) text.erase(0, 1);
-  return text;
+  return FixedText(value, decimals, NanAs::kDash);
 }
 
 std::string EnvelopeCsv(const EnvelopeResult& result) {
@@ -123,12 +104,14 @@ std::string EnvelopeCsv(const EnvelopeResult& result) {
       "scenario,controller,baseline,parameter,unit,lo,hi,tol,direction,survived_value,"
       "first_failing_value,probes,seeds,outcome,message\n";
   for (const ControllerEnvelope& e : result.controllers) {
-    AppendRow(&csv, {result.scenario.name, e.controller, CsvBool(e.baseline), plan.axis.path,
-                     plan.axis.unit, ExactNumber(plan.axis.lo), ExactNumber(plan.axis.hi),
-                     ExactNumber(plan.tol), ToString(e.bisect.direction),
-                     ExactNumber(e.bisect.survived_value),
-                     ExactNumber(e.bisect.first_failing_value), std::to_string(e.bisect.probes),
-                     std::to_string(plan.seeds.size()), OutcomeCode(e), Message(e)});
+    AppendRow(
+        &csv,
+        {result.scenario.name, e.controller, CsvBool(e.baseline), plan.axis.path, plan.axis.unit,
+         ShortestText(plan.axis.lo, NanAs::kEmpty), ShortestText(plan.axis.hi, NanAs::kEmpty),
+         ShortestText(plan.tol, NanAs::kEmpty), ToString(e.bisect.direction),
+         ShortestText(e.bisect.survived_value, NanAs::kEmpty),
+         ShortestText(e.bisect.first_failing_value, NanAs::kEmpty), std::to_string(e.bisect.probes),
+         std::to_string(plan.seeds.size()), OutcomeCode(e), Message(e)});
   }
   return csv;
 }
@@ -141,8 +124,9 @@ std::string EnvelopeMapCsv(const EnvelopeResult& result) {
   for (const ControllerMap& map : result.maps) {
     for (const MapPoint& p : map.points) {
       AppendRow(&csv,
-                {result.scenario.name, map.controller, plan.axis.path, ExactNumber(p.value),
-                 plan.axis2->path, ExactNumber(p.value2), CsvBool(p.survived()),
+                {result.scenario.name, map.controller, plan.axis.path,
+                 ShortestText(p.value, NanAs::kEmpty), plan.axis2->path,
+                 ShortestText(p.value2, NanAs::kEmpty), CsvBool(p.survived()),
                  p.setup_failed ? "" : std::to_string(p.seeds_survived), std::to_string(p.seeds)});
     }
   }

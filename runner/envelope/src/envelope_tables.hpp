@@ -24,10 +24,8 @@ std::string EnvelopeMapCsv(const EnvelopeResult& result);
 // every probe made.
 std::string EnvelopeManifestJson(const EnvelopeResult& result);
 
-// `value` printed exactly (the shortest text that reads back to the same double); NaN as "".
-std::string ExactNumber(double value);
-
-// `value` with the decimals that show a step of resolution / 2 (3 → "212", 0.02 → "0.309").
+// `value` with the decimals that show a step of resolution / 2 (3 → "212", 0.02 → "0.309"); NaN
+// as "—", for Markdown.
 std::string AtResolution(double value, double resolution);
 
 }  // namespace upright::runner::internal

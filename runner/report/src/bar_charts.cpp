@@ -6,6 +6,7 @@
 #include "html_text.hpp"
 #include "palette.hpp"
 #include "svg_axis.hpp"
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner::report {
 namespace {
@@ -52,7 +53,7 @@ void AppendCross(std::string* svg, double x, double y, double half) {
 }
 
 std::string WithUnit(double value, const std::string& unit) {
-  const std::string text = FormatSignificant(value, 4);
+  const std::string text = SignificantText(value, 4, NanAs::kEmpty);
   return unit.empty() ? text : text + " " + unit;
 }
 
@@ -131,8 +132,9 @@ std::string RenderSurvivalRates(const std::string& scenario, const std::vector<R
     AppendSvgLine(&svg, hi, y + 2, hi, y + 14, "class=\"whisker\"");
     AppendSvgText(&svg, kPlotLeft, y + 27,
                   std::to_string(bar.survived) + " of " + std::to_string(bar.runs) +
-                      " survived: " + FormatFixed(100 * rate, 1) + " % (95 % interval " +
-                      FormatFixed(100 * bar.lo, 1) + "–" + FormatFixed(100 * bar.hi, 1) + " %)",
+                      " survived: " + FixedText(100 * rate, 1, NanAs::kEmpty) +
+                      " % (95 % interval " + FixedText(100 * bar.lo, 1, NanAs::kEmpty) + "–" +
+                      FixedText(100 * bar.hi, 1, NanAs::kEmpty) + " %)",
                   "class=\"note\"");
   }
   svg += "</svg>";
@@ -172,7 +174,7 @@ std::string RenderGapBars(const std::string& scenario, const std::vector<GapPair
       AppendRect(&svg, axis.ToPixel(0), top, axis.ToPixel(values[k]) - axis.ToPixel(0), 9,
                  classes[k]);
       AppendSvgText(&svg, axis.ToPixel(values[k]) + 4, top + 8,
-                    FormatSignificant(values[k], 3) + "°", "class=\"value\"");
+                    SignificantText(values[k], 3, NanAs::kEmpty) + "°", "class=\"value\"");
     }
     AppendSvgText(&svg, kPlotLeft, y + 32, p.note, "class=\"note\"");
   }

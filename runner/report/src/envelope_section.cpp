@@ -8,6 +8,7 @@
 #include "html_text.hpp"
 #include "sections.hpp"
 #include "survival_map.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/csv_reader.hpp"
 
 namespace upright::runner::report {
@@ -21,7 +22,7 @@ std::string Words(std::string text) {
 }
 
 std::string WithUnit(double value, const std::string& unit) {
-  return FormatSignificant(value, 4) + (unit.empty() ? "" : " " + unit);
+  return SignificantText(value, 4, NanAs::kEmpty) + (unit.empty() ? "" : " " + unit);
 }
 
 // The outcome in a few words, under the bar; the failure itself goes in the table.

@@ -3,6 +3,7 @@
 #include <cmath>
 
 #include "html_text.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/csv_reader.hpp"
 
 namespace upright::runner::report {
@@ -41,7 +42,7 @@ HtmlCell NumberCell(const std::string& csv_cell) {
   if (csv_cell.empty()) return {"–", true, "na"};
   const double value = CsvNumber(csv_cell);
   if (std::isnan(value)) return {csv_cell, false, ""};
-  return {FormatSignificant(value, 4), true, ""};
+  return {SignificantText(value, 4, NanAs::kEmpty), true, ""};
 }
 
 }  // namespace upright::runner::report

@@ -1,287 +1,151 @@
 #include "json_reader.hpp"
 
-#include <cctype>
-#include <charconv>
+#include <algorithm>
 #include <cstdint>
+#include <utility>
+#include <vector>
+
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner::report {
 namespace {
 
-constexpr int kMaxDepth = 64;
+using Json = nlohmann::ordered_json;
 
-class JsonParser {
+// The line (from 1) of the byte at `offset` (from 0; the end of the text counts as its last line).
+int LineAt(std::string_view text, std::size_t offset) {
+  offset = std::min(offset, text.size());
+  return 1 + static_cast<int>(std::count(text.begin(), text.begin() + offset, '\n'));
+}
+
+// The offset of the bracket that opens the (kMaxJsonDepth + 1)-th container, skipping strings;
+// the text up to it is well-formed, since the parser read that far.
+std::size_t TooDeepAt(std::string_view text) {
+  int depth = 0;
+  bool in_string = false;
+  for (std::size_t i = 0; i < text.size(); ++i) {
+    const char c = text[i];
+    if (in_string) {
+      if (c == '\\') {
+        ++i;
+      } else if (c == '"') {
+        in_string = false;
+      }
+    } else if (c == '"') {
+      in_string = true;
+    } else if (c == '[' || c == '{') {
+      if (++depth > kMaxJsonDepth) return i;
+    } else if (c == ']' || c == '}') {
+      --depth;
+    }
+  }
+  return text.size();
+}
+
+// nlohmann's message without its own prefixes ("[json.exception.parse_error.101] parse error at
+// line 1, column 3: "): the path and line go in front instead.
+std::string WhatOf(const nlohmann::json::exception& e) {
+  std::string what = e.what();
+  if (const auto end = what.find("] ");
+      what.rfind("[json.exception.", 0) == 0 && end != std::string::npos) {
+    what.erase(0, end + 2);
+  }
+  if (what.rfind("parse error", 0) == 0) {
+    if (const auto colon = what.find(": "); colon != std::string::npos) what.erase(0, colon + 2);
+  }
+  return what;
+}
+
+// Builds the document from the parser's events, refusing a container beyond kMaxJsonDepth before
+// it is built (the parser stops at the first event refused).
+class Builder : public nlohmann::json_sax<Json> {
  public:
-  JsonParser(std::string_view text, const std::string& path) : text_(text), path_(path) {}
-
-  bool Document(JsonValue* value, std::string* error) {
-    SkipSpace();
-    if (!Value(value, 0)) {
-      *error = error_;
-      return false;
-    }
-    SkipSpace();
-    if (at_ != text_.size()) {
-      Fail("text after the document (expected the end of the file)");
-      *error = error_;
-      return false;
-    }
+  bool null() override { return Put(nullptr); }
+  bool boolean(bool value) override { return Put(value); }
+  bool number_integer(number_integer_t value) override { return Put(value); }
+  bool number_unsigned(number_unsigned_t value) override { return Put(value); }
+  bool number_float(number_float_t value, const string_t&) override { return Put(value); }
+  bool string(string_t& value) override { return Put(std::move(value)); }
+  bool binary(binary_t&) override { return false; }  // JSON text has no binary values
+  bool start_object(std::size_t) override { return Open(Json::object()); }
+  bool key(string_t& name) override {
+    key_ = std::move(name);
     return true;
   }
-
- private:
-  bool Fail(const std::string& what) {
-    if (error_.empty()) error_ = path_ + ":" + std::to_string(line_) + ": " + what;
+  bool end_object() override { return Close(); }
+  bool start_array(std::size_t) override { return Open(Json::array()); }
+  bool end_array() override { return Close(); }
+  bool parse_error(std::size_t position, const std::string&,
+                   const nlohmann::json::exception& e) override {
+    // `position` counts the bytes read, the offending one included.
+    error_offset_ = position > 0 ? position - 1 : 0;
+    error_ = WhatOf(e);
     return false;
   }
 
-  void SkipSpace() {
-    while (at_ < text_.size()) {
-      const char c = text_[at_];
-      if (c == '\n') {
-        ++line_;
-      } else if (c != ' ' && c != '\t' && c != '\r') {
-        return;
-      }
-      ++at_;
-    }
-  }
+  Json& root() { return root_; }
+  bool too_deep() const { return too_deep_; }
+  const std::string& error() const { return error_; }
+  std::size_t error_offset() const { return error_offset_; }
 
-  bool Literal(std::string_view word) {
-    if (text_.substr(at_, word.size()) != word) {
-      return Fail(
-          "unknown word (expected a value: an object, array, string, number, true, "
-          "false or null)");
+ private:
+  // Puts `value` in the innermost open container (or makes it the document) and returns it.
+  Json* Place(Json value) {
+    if (open_.empty()) {
+      root_ = std::move(value);
+      return &root_;
     }
-    at_ += word.size();
+    Json& container = *open_.back();
+    if (container.is_array()) {
+      container.push_back(std::move(value));
+      return &container.back();
+    }
+    return &(container[key_] = std::move(value));
+  }
+  bool Put(Json value) {
+    Place(std::move(value));
+    return true;
+  }
+  // Only the innermost open container grows, so the pointers to the others stay valid.
+  bool Open(Json container) {
+    if (open_.size() >= static_cast<std::size_t>(kMaxJsonDepth)) {
+      too_deep_ = true;
+      return false;
+    }
+    open_.push_back(Place(std::move(container)));
+    return true;
+  }
+  bool Close() {
+    open_.pop_back();
     return true;
   }
 
-  bool Value(JsonValue* value, int depth) {
-    if (depth > kMaxDepth) return Fail("nesting deeper than 64 levels");
-    if (at_ >= text_.size()) return Fail("the file ends early (expected a value)");
-    *value = JsonValue{};
-    const char c = text_[at_];
-    if (c == '{') return Object(value, depth);
-    if (c == '[') return Array(value, depth);
-    if (c == '"') {
-      value->kind = JsonKind::kString;
-      return String(&value->text);
-    }
-    if (c == 't' || c == 'f') {
-      value->kind = JsonKind::kBool;
-      value->boolean = c == 't';
-      return Literal(c == 't' ? "true" : "false");
-    }
-    if (c == 'n') return Literal("null");
-    if (c == '-' || (c >= '0' && c <= '9')) return Number(value);
-    return Fail(std::string("'") + c +
-                "' (expected a value: an object, array, string, number, true, false or null)");
-  }
-
-  bool Object(JsonValue* value, int depth) {
-    value->kind = JsonKind::kObject;
-    ++at_;
-    SkipSpace();
-    if (at_ < text_.size() && text_[at_] == '}') {
-      ++at_;
-      return true;
-    }
-    while (true) {
-      SkipSpace();
-      if (at_ >= text_.size() || text_[at_] != '"') return Fail("expected a member name in quotes");
-      std::string key;
-      if (!String(&key)) return false;
-      SkipSpace();
-      if (at_ >= text_.size() || text_[at_] != ':') return Fail("expected ':' after a member name");
-      ++at_;
-      SkipSpace();
-      JsonValue member;
-      if (!Value(&member, depth + 1)) return false;
-      value->members.emplace_back(std::move(key), std::move(member));
-      SkipSpace();
-      if (at_ < text_.size() && text_[at_] == ',') {
-        ++at_;
-        continue;
-      }
-      if (at_ < text_.size() && text_[at_] == '}') {
-        ++at_;
-        return true;
-      }
-      return Fail("expected ',' or '}' in an object");
-    }
-  }
-
-  bool Array(JsonValue* value, int depth) {
-    value->kind = JsonKind::kArray;
-    ++at_;
-    SkipSpace();
-    if (at_ < text_.size() && text_[at_] == ']') {
-      ++at_;
-      return true;
-    }
-    while (true) {
-      SkipSpace();
-      JsonValue item;
-      if (!Value(&item, depth + 1)) return false;
-      value->items.push_back(std::move(item));
-      SkipSpace();
-      if (at_ < text_.size() && text_[at_] == ',') {
-        ++at_;
-        continue;
-      }
-      if (at_ < text_.size() && text_[at_] == ']') {
-        ++at_;
-        return true;
-      }
-      return Fail("expected ',' or ']' in an array");
-    }
-  }
-
-  bool Number(JsonValue* value) {
-    value->kind = JsonKind::kNumber;
-    const std::size_t start = at_;
-    if (text_[at_] == '-') ++at_;
-    while (at_ < text_.size() &&
-           (std::isdigit(static_cast<unsigned char>(text_[at_])) || text_[at_] == '.' ||
-            text_[at_] == 'e' || text_[at_] == 'E' || text_[at_] == '+' || text_[at_] == '-')) {
-      ++at_;
-    }
-    value->text = std::string(text_.substr(start, at_ - start));
-    const char* first = value->text.data();
-    const char* last = first + value->text.size();
-    const auto [end, ec] = std::from_chars(first, last, value->number);
-    if (ec != std::errc() || end != last) return Fail("'" + value->text + "' is not a number");
-    return true;
-  }
-
-  static void AppendUtf8(std::uint32_t code, std::string* out) {
-    if (code < 0x80) {
-      *out += static_cast<char>(code);
-    } else if (code < 0x800) {
-      *out += static_cast<char>(0xC0 | (code >> 6));
-      *out += static_cast<char>(0x80 | (code & 0x3F));
-    } else if (code < 0x10000) {
-      *out += static_cast<char>(0xE0 | (code >> 12));
-      *out += static_cast<char>(0x80 | ((code >> 6) & 0x3F));
-      *out += static_cast<char>(0x80 | (code & 0x3F));
-    } else {
-      *out += static_cast<char>(0xF0 | (code >> 18));
-      *out += static_cast<char>(0x80 | ((code >> 12) & 0x3F));
-      *out += static_cast<char>(0x80 | ((code >> 6) & 0x3F));
-      *out += static_cast<char>(0x80 | (code & 0x3F));
-    }
-  }
-
-  bool Hex4(std::uint32_t* code) {
-    if (at_ + 4 > text_.size()) return Fail("a \\u escape needs four hex digits");
-    *code = 0;
-    for (int k = 0; k < 4; ++k) {
-      const char c = text_[at_++];
-      std::uint32_t digit = 0;
-      if (c >= '0' && c <= '9') {
-        digit = static_cast<std::uint32_t>(c - '0');
-      } else if (c >= 'a' && c <= 'f') {
-        digit = static_cast<std::uint32_t>(c - 'a' + 10);
-      } else if (c >= 'A' && c <= 'F') {
-        digit = static_cast<std::uint32_t>(c - 'A' + 10);
-      } else {
-        return Fail("a \\u escape needs four hex digits");
-      }
-      *code = *code * 16 + digit;
-    }
-    return true;
-  }
-
-  bool String(std::string* out) {
-    ++at_;  // the opening quote
-    out->clear();
-    while (true) {
-      if (at_ >= text_.size()) return Fail("a string is never closed (expected '\"')");
-      const char c = text_[at_++];
-      if (c == '"') return true;
-      if (static_cast<unsigned char>(c) < 0x20) {
-        return Fail("a control character inside a string (expected it escaped)");
-      }
-      if (c != '\\') {
-        *out += c;
-        continue;
-      }
-      if (at_ >= text_.size()) return Fail("a string is never closed (expected '\"')");
-      const char e = text_[at_++];
-      switch (e) {
-        case '"':
-          *out += '"';
-          break;
-        case '\\':
-          *out += '\\';
-          break;
-        case '/':
-          *out += '/';
-          break;
-        case 'b':
-          *out += '\b';
-          break;
-        case 'f':
-          *out += '\f';
-          break;
-        case 'n':
-          *out += '\n';
-          break;
-        case 'r':
-          *out += '\r';
-          break;
-        case 't':
-          *out += '\t';
-          break;
-        case 'u': {
-          std::uint32_t code = 0;
-          if (!Hex4(&code)) return false;
-          if (code >= 0xD800 && code < 0xDC00) {
-            std::uint32_t low = 0;
-            if (text_.substr(at_, 2) != "\\u") return Fail("a lone high surrogate in \\u escapes");
-            at_ += 2;
-            if (!Hex4(&low)) return false;
-            if (low < 0xDC00 || low >= 0xE000) return Fail("a lone high surrogate in \\u escapes");
-            code = 0x10000 + ((code - 0xD800) << 10) + (low - 0xDC00);
-          } else if (code >= 0xDC00 && code < 0xE000) {
-            return Fail("a lone low surrogate in \\u escapes");
-          }
-          AppendUtf8(code, out);
-          break;
-        }
-        default:
-          return Fail(std::string("unknown escape '\\") + e + "' in a string");
-      }
-    }
-  }
-
-  std::string_view text_;
-  const std::string& path_;
-  std::size_t at_ = 0;
-  int line_ = 1;
+  Json root_;
+  std::vector<Json*> open_;
+  std::string key_;
+  bool too_deep_ = false;
   std::string error_;
+  std::size_t error_offset_ = 0;
 };
 
 }  // namespace
 
-const JsonValue* JsonValue::Find(std::string_view key) const {
-  if (kind != JsonKind::kObject) return nullptr;
-  for (const auto& [name, value] : members) {
-    if (name == key) return &value;
+Result<Json> ParseJson(std::string_view text, const std::string& path) {
+  Builder builder;
+  if (Json::sax_parse(text, &builder)) return std::move(builder.root());
+  if (builder.too_deep()) {
+    return Failure(path + ":" + std::to_string(LineAt(text, TooDeepAt(text))) +
+                   ": nesting deeper than " + std::to_string(kMaxJsonDepth) + " levels");
   }
-  return nullptr;
+  return Failure(path + ":" + std::to_string(LineAt(text, builder.error_offset())) + ": " +
+                 builder.error());
 }
 
-std::string JsonValue::StringOr(std::string_view key, std::string_view fallback) const {
-  const JsonValue* value = Find(key);
-  if (value == nullptr || value->kind != JsonKind::kString) return std::string(fallback);
-  return value->text;
-}
-
-bool ParseJson(std::string_view text, const std::string& path, JsonValue* value,
-               std::string* error) {
-  JsonParser parser(text, path);
-  return parser.Document(value, error);
+std::string NumberText(const Json& value) {
+  if (value.is_number_unsigned()) return std::to_string(value.get<std::uint64_t>());
+  if (value.is_number_integer()) return std::to_string(value.get<std::int64_t>());
+  if (value.is_number_float()) return ShortestText(value.get<double>());
+  return "";
 }
 
 }  // namespace upright::runner::report

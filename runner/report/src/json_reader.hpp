@@ -1,33 +1,27 @@
-// A small JSON (RFC 8259) reader for the manifests of results folders: text in, a tree of values
-// out. Objects keep their members in file order; numbers keep their text as well as their value.
+// The JSON reader of the report, for the manifests of results folders: nlohmann-json's parser
+// (strict RFC 8259) under the project's rules — errors as "<path>:<line>: <what>", and nesting
+// limited, since a manifest is shallow and a document nested a million deep must not exhaust the
+// stack of whatever walks it.
 #pragma once
 
+#include <nlohmann/json.hpp>
 #include <string>
 #include <string_view>
-#include <utility>
-#include <vector>
+
+#include "upright/base/result.hpp"
 
 namespace upright::runner::report {
 
-enum class JsonKind { kNull, kBool, kNumber, kString, kArray, kObject };
+// Containers open at once that a document may have; the one that opens beyond is refused.
+inline constexpr int kMaxJsonDepth = 64;
 
-struct JsonValue {
-  JsonKind kind = JsonKind::kNull;
-  bool boolean = false;
-  double number = 0;
-  std::string text;              // a string's value (UTF-8), or a number as written
-  std::vector<JsonValue> items;  // an array's elements
-  std::vector<std::pair<std::string, JsonValue>> members;  // an object's members, in order
+// Parses one JSON document (surrounding white space allowed); objects keep their members in file
+// order. Fails with "<path>:<line>: <what>" on text RFC 8259 does not allow and on nesting deeper
+// than kMaxJsonDepth.
+Result<nlohmann::ordered_json> ParseJson(std::string_view text, const std::string& path);
 
-  // The member named `key` of an object; nullptr when this is not an object or has none.
-  const JsonValue* Find(std::string_view key) const;
-  // A member's string value, or `fallback` when it is absent or not a string.
-  std::string StringOr(std::string_view key, std::string_view fallback) const;
-};
-
-// Parses one JSON document (surrounding white space allowed). False and *error
-// ("<path>:<line>: <what> (expected ...)") on malformed text or nesting deeper than 64.
-bool ParseJson(std::string_view text, const std::string& path, JsonValue* value,
-               std::string* error);
+// A number as text: integers in their digits, others in the shortest form that reads back as the
+// same double (as the program's manifests write them); "" for a value that is no number.
+std::string NumberText(const nlohmann::ordered_json& value);
 
 }  // namespace upright::runner::report

@@ -8,6 +8,7 @@
 #include "html_text.hpp"
 #include "palette.hpp"
 #include "svg_axis.hpp"
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner::report {
 namespace {

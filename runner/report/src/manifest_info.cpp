@@ -1,6 +1,6 @@
 #include "manifest_info.hpp"
 
-#include <charconv>
+#include <cstdint>
 #include <filesystem>
 
 #include "json_reader.hpp"
@@ -9,33 +9,57 @@
 namespace upright::runner::report {
 namespace {
 
-ManifestScenario ScenarioFrom(const JsonValue& s) {
+using Json = nlohmann::ordered_json;
+
+// The member `key` of an object when it is of the kind `is` tests; nullptr otherwise.
+const Json* Member(const Json& object, const char* key, bool (Json::*is)() const noexcept) {
+  const auto found = object.find(key);
+  return found != object.end() && ((*found).*is)() ? &*found : nullptr;
+}
+
+// A member's string value, or "" when it is absent or not a string.
+std::string StringOf(const Json& object, const char* key) {
+  const Json* value = Member(object, key, &Json::is_string);
+  return value != nullptr ? value->get<std::string>() : "";
+}
+
+ManifestScenario ScenarioFrom(const Json& s) {
   ManifestScenario out;
-  out.name = s.StringOr("name", "");
-  out.path = s.StringOr("path", "");
-  out.sha256 = s.StringOr("sha256", "");
-  out.model_name = s.StringOr("model_name", "");
-  out.model_path = s.StringOr("model_path", "");
-  out.model_sha256 = s.StringOr("model_sha256", "");
-  out.baseline = s.StringOr("baseline", "");
+  out.name = StringOf(s, "name");
+  out.path = StringOf(s, "path");
+  out.sha256 = StringOf(s, "sha256");
+  out.model_name = StringOf(s, "model_name");
+  out.model_path = StringOf(s, "model_path");
+  out.model_sha256 = StringOf(s, "model_sha256");
+  out.baseline = StringOf(s, "baseline");
   return out;
 }
 
-// A parameter or spread object: its strings by name, every number kept as written.
-ManifestParameter ParameterFrom(const JsonValue& p) {
+// A parameter or spread object: its strings by name, every number as text.
+ManifestParameter ParameterFrom(const Json& p) {
   ManifestParameter out;
-  out.path = p.Find("path") != nullptr ? p.StringOr("path", "") : p.StringOr("param", "");
-  out.unit = p.StringOr("unit", "");
-  out.kind = p.StringOr("kind", "");
-  for (const auto& [name, value] : p.members) {
-    if (value.kind != JsonKind::kNumber) continue;
+  out.path = p.contains("path") ? StringOf(p, "path") : StringOf(p, "param");
+  out.unit = StringOf(p, "unit");
+  out.kind = StringOf(p, "kind");
+  for (const auto& [name, value] : p.items()) {
+    if (!value.is_number()) continue;
     if (name == "scenario_value") {
-      out.scenario_value = value.number;
+      out.scenario_value = value.get<double>();
       out.has_scenario_value = true;
     }
-    out.numbers.emplace_back(name, value.text);
+    out.numbers.emplace_back(name, NumberText(value));
   }
   return out;
+}
+
+// Each object of the array `key`, in order.
+template <class Visit>
+void ForEachObject(const Json& root, const char* key, Visit visit) {
+  if (const Json* list = Member(root, key, &Json::is_array)) {
+    for (const Json& item : *list) {
+      if (item.is_object()) visit(item);
+    }
+  }
 }
 
 }  // namespace
@@ -47,52 +71,46 @@ bool ReadManifest(const std::string& dir, ManifestInfo* info, std::string* error
   if (!std::filesystem::is_regular_file(path, ec)) return true;
   std::string text;
   if (!ReadWholeFile(path, &text, error)) return false;
-  JsonValue root;
-  if (!ParseJson(text, path, &root, error)) return false;
-  if (root.kind != JsonKind::kObject) {
+  const Result<Json> parsed = ParseJson(text, path);
+  if (!parsed) {
+    *error = parsed.error();
+    return false;
+  }
+  const Json& root = *parsed;
+  if (!root.is_object()) {
     *error = path + ":1: the manifest is not a JSON object";
     return false;
   }
   info->present = true;
-  info->tool_version = root.StringOr("tool_version", "");
-  info->command = root.StringOr("command", "");
-  if (const JsonValue* list = root.Find("scenarios"); list && list->kind == JsonKind::kArray) {
-    for (const JsonValue& s : list->items) {
-      if (s.kind == JsonKind::kObject) info->scenarios.push_back(ScenarioFrom(s));
-    }
-  }
-  if (const JsonValue* s = root.Find("scenario"); s && s->kind == JsonKind::kObject) {
+  info->tool_version = StringOf(root, "tool_version");
+  info->command = StringOf(root, "command");
+  ForEachObject(root, "scenarios",
+                [&](const Json& s) { info->scenarios.push_back(ScenarioFrom(s)); });
+  if (const Json* s = Member(root, "scenario", &Json::is_object)) {
     info->scenarios.push_back(ScenarioFrom(*s));
   }
-  if (const JsonValue* list = root.Find("runs"); list && list->kind == JsonKind::kArray) {
-    for (const JsonValue& r : list->items) {
-      if (r.kind != JsonKind::kObject) continue;
-      ManifestRun run;
-      run.scenario = r.StringOr("scenario", "");
-      run.controller = r.StringOr("controller", "");
-      if (const JsonValue* seed = r.Find("seed"); seed && seed->kind == JsonKind::kNumber) {
-        std::from_chars(seed->text.data(), seed->text.data() + seed->text.size(), run.seed);
-      }
-      run.trace = r.StringOr("trace", "");
-      info->runs.push_back(run);
+  ForEachObject(root, "runs", [&](const Json& r) {
+    ManifestRun run;
+    run.scenario = StringOf(r, "scenario");
+    run.controller = StringOf(r, "controller");
+    // A seed is read as the integer it is, so one beyond 2^53 survives exactly.
+    if (const Json* seed = Member(r, "seed", &Json::is_number_unsigned)) {
+      run.seed = seed->get<std::uint64_t>();
     }
-  }
+    run.trace = StringOf(r, "trace");
+    info->runs.push_back(run);
+  });
   for (const char* key : {"parameter", "parameter2"}) {
-    if (const JsonValue* p = root.Find(key); p && p->kind == JsonKind::kObject) {
+    if (const Json* p = Member(root, key, &Json::is_object)) {
       info->parameters.push_back(ParameterFrom(*p));
     }
   }
-  if (const JsonValue* list = root.Find("dispersions"); list && list->kind == JsonKind::kArray) {
-    for (const JsonValue& d : list->items) {
-      if (d.kind == JsonKind::kObject) info->dispersions.push_back(ParameterFrom(d));
-    }
+  ForEachObject(root, "dispersions",
+                [&](const Json& d) { info->dispersions.push_back(ParameterFrom(d)); });
+  if (const Json* seed = Member(root, "seed", &Json::is_number)) {
+    info->sweep_seed = NumberText(*seed);
   }
-  if (const JsonValue* seed = root.Find("seed"); seed && seed->kind == JsonKind::kNumber) {
-    info->sweep_seed = seed->text;
-  }
-  if (const JsonValue* n = root.Find("samples"); n && n->kind == JsonKind::kNumber) {
-    info->samples = n->text;
-  }
+  if (const Json* n = Member(root, "samples", &Json::is_number)) info->samples = NumberText(*n);
   return true;
 }
 

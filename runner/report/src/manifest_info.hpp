@@ -24,7 +24,9 @@ struct ManifestRun {
 // One swept or bisected parameter, or one spread of a sweep ("kind" and its numbers as text).
 struct ManifestParameter {
   std::string path, unit, kind;
-  std::vector<std::pair<std::string, std::string>> numbers;  // name → value as written
+  // name → value, in file order, as the manifest writes it (integers in digits, others in the
+  // shortest exact form)
+  std::vector<std::pair<std::string, std::string>> numbers;
   double scenario_value = 0;
   bool has_scenario_value = false;
 };
@@ -37,7 +39,7 @@ struct ManifestInfo {
   std::vector<ManifestRun> runs;
   std::vector<ManifestParameter> parameters;   // envelope: the parameter, then parameter2
   std::vector<ManifestParameter> dispersions;  // sweep: the spreads in file order
-  std::string sweep_seed, samples;             // sweep: as written
+  std::string sweep_seed, samples;             // sweep: as the manifest writes them
 };
 
 // Reads <dir>/manifest.json. A missing file gives present = false and true; a malformed one

@@ -12,6 +12,7 @@
 #include "line_plot.hpp"
 #include "sections.hpp"
 #include "trace_reader.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/csv_reader.hpp"
 #include "upright/runner/metric_columns.hpp"
 #include "upright/runner/metric_floors.hpp"
@@ -211,8 +212,8 @@ void AppendPlotNotes(const PlottedRuns& plotted, const std::vector<PlotEvent>& e
   if (!events.empty()) {
     *html += "<p>Events (dashed lines, at the trace row that carries them):";
     for (const PlotEvent& e : events) {
-      *html += " <strong>" + Escape(e.tag) + "</strong> " + FormatFixed(e.time_s, 2) + " s " +
-               Escape(e.label) + ";";
+      *html += " <strong>" + Escape(e.tag) + "</strong> " + FixedText(e.time_s, 2, NanAs::kEmpty) +
+               " s " + Escape(e.label) + ";";
     }
     html->back() = '.';
     *html += "</p>";
@@ -241,9 +242,9 @@ LinePlot SignalPlot(const Signal& signal, const std::string& scenario,
     }
     if (t.run->status != "ok") {
       const double at = std::isfinite(t.run->fall_time_s) ? t.run->fall_time_s : s.time_s.back();
-      plot.marks.push_back(
-          {s.time_s.back(), LastFinite(s.*signal.values), t.style,
-           t.controller + " " + Words(t.run->status) + " at " + FormatFixed(at, 3) + " s"});
+      plot.marks.push_back({s.time_s.back(), LastFinite(s.*signal.values), t.style,
+                            t.controller + " " + Words(t.run->status) + " at " +
+                                FixedText(at, 3, NanAs::kEmpty) + " s"});
     }
   }
   return plot;
@@ -362,7 +363,7 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
     const auto mean_text = [&](const std::string& text) {
       const double value = CsvNumber(text);
       if (!std::isfinite(value)) return std::string("–");
-      return survival ? FormatSignificant(value * 100, 3) : NumberCell(text).text;
+      return survival ? SignificantText(value * 100, 3, NanAs::kEmpty) : NumberCell(text).text;
     };
     std::vector<HtmlCell> cells = {{Heading(metric), false, ""}, {better_when[metric], false, ""}};
     for (const std::string& controller : controllers) {
@@ -420,9 +421,10 @@ bool AppendGapChart(const CsvTable& gap, const std::string& path, const Scenario
     p.note = "plant: " + Words(row[c[7]]);
     const double tilt = CsvNumber(row[c[5]]);
     const double drift = CsvNumber(row[c[6]]);
-    p.note += std::isfinite(tilt) ? "; tilt parts at " + FormatFixed(tilt, 3) + " s"
+    p.note += std::isfinite(tilt) ? "; tilt parts at " + FixedText(tilt, 3, NanAs::kEmpty) + " s"
                                   : "; tilt within its band while both ran";
-    if (std::isfinite(drift)) p.note += "; drift parts at " + FormatFixed(drift, 3) + " s";
+    if (std::isfinite(drift))
+      p.note += "; drift parts at " + FixedText(drift, 3, NanAs::kEmpty) + " s";
     if (!row[c[8]].empty()) p.note += "; twin: " + row[c[8]];
     pairs.push_back(std::move(p));
   }

@@ -4,6 +4,7 @@
 
 #include "html_text.hpp"
 #include "svg_axis.hpp"
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner::report {
 namespace {
@@ -72,8 +73,8 @@ std::string RenderSurvivalMap(const SurvivalMap& map) {
   for (std::size_t r = 0; r < map.ys.size(); ++r) {
     // Row r of the data is drawn from the bottom up.
     const double y = grid_bottom - kCellHeight * static_cast<double>(r + 1);
-    AppendSvgText(&svg, kLeft - 4, y + kCellHeight / 2 + 4, FormatSignificant(map.ys[r], 4),
-                  "text-anchor=\"end\"");
+    AppendSvgText(&svg, kLeft - 4, y + kCellHeight / 2 + 4,
+                  SignificantText(map.ys[r], 4, NanAs::kEmpty), "text-anchor=\"end\"");
     for (std::size_t c = 0; c < map.xs.size(); ++c) {
       const std::size_t at = r * map.xs.size() + c;
       const MapOutcome outcome = at < map.cells.size() ? map.cells[at] : MapOutcome::kMissing;
@@ -86,7 +87,7 @@ std::string RenderSurvivalMap(const SurvivalMap& map) {
   }
   for (std::size_t c = 0; c < map.xs.size(); ++c) {
     AppendSvgText(&svg, kLeft + kCellWidth * (static_cast<double>(c) + 0.5), grid_bottom + 14,
-                  FormatSignificant(map.xs[c], 4), "text-anchor=\"middle\"");
+                  SignificantText(map.xs[c], 4, NanAs::kEmpty), "text-anchor=\"middle\"");
   }
   AppendSvgText(&svg, kLeft, grid_bottom + 30, "columns: " + map.x_label, "class=\"note\"");
   // The key.

@@ -4,6 +4,7 @@
 #include <cmath>
 
 #include "html_text.hpp"
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner::report {
 
@@ -18,7 +19,7 @@ std::vector<double> Axis::Ticks() const {
 std::string Axis::Label(double value) const {
   // A tick that is zero to within rounding prints as 0, never as -0 or 1e-17.
   if (std::fabs(value) < step * 1e-6) value = 0;
-  return FormatFixed(value, decimals);
+  return FixedText(value, decimals, NanAs::kEmpty);
 }
 
 Axis NiceAxis(double data_lo, double data_hi, int target_ticks, double px_lo, double px_hi) {

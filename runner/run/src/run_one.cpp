@@ -3,7 +3,6 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
-#include <cstdio>
 #include <exception>
 #include <functional>
 #include <limits>
@@ -11,6 +10,7 @@
 #include <string_view>
 
 #include "timeline.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/host/controller_host.hpp"
@@ -24,12 +24,6 @@ namespace upright::runner {
 namespace {
 
 constexpr double kDeg = 180 / kPi;
-
-std::string Format(const char* format, double a, double b = 0) {
-  char text[200];
-  std::snprintf(text, sizeof text, format, a, b);
-  return text;
-}
 
 // The readings the metrics take after a step, the module's command held over it and that
 // command's limit (command_limit, V or N·m as the module commands); no allocation.
@@ -296,7 +290,8 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     timeline.Integrate(dt_s);
     if (plant->diverged()) {
       status = RunStatus::kNumericFailure;
-      message = Format("the physics state became non-finite at t = %.3f s", plant->time_s());
+      message =
+          "the physics state became non-finite at t = " + FixedText(plant->time_s(), 3) + " s";
       break;
     }
     const double drift_m = drift();
@@ -309,10 +304,9 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     const bool on_ground = plant->contact().chassis_on_ground;
     if (on_ground || std::abs(tilt_rad) > fall_tilt_rad) {
       status = RunStatus::kFell;
-      message = on_ground
-                    ? Format("fell at t = %.3f s: the chassis touched the ground", plant->time_s())
-                    : Format("fell at t = %.3f s: tilt %.1f deg beyond the limit", plant->time_s(),
-                             tilt_rad * kDeg);
+      message = "fell at t = " + FixedText(plant->time_s(), 3) + " s: " +
+                (on_ground ? "the chassis touched the ground"
+                           : "tilt " + FixedText(tilt_rad * kDeg, 1) + " deg beyond the limit");
       break;
     }
     if (plant->time_s() >= quiet_from_s) {
@@ -322,7 +316,7 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
                          std::abs(s.forward_speed_m_s) < 0.05;
       quiet_steps = quiet ? quiet_steps + 1 : 0;
       if (quiet_steps >= hold_steps) {
-        message = Format("settled by t = %.3f s; stopped early", plant->time_s());
+        message = "settled by t = " + FixedText(plant->time_s(), 3) + " s; stopped early";
         break;
       }
     }

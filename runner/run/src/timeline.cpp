@@ -2,10 +2,10 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
 #include <limits>
 #include <string>
 
+#include "upright/base/number_text.hpp"
 #include "upright/model/conventions.hpp"
 
 namespace upright::runner::internal {
@@ -16,12 +16,6 @@ double Ramp(double time_s, double start_s, double length_s) {
   if (time_s < start_s) return 0;
   if (length_s <= 0 || time_s >= start_s + length_s) return 1;
   return (time_s - start_s) / length_s;
-}
-
-std::string Format(const char* format, double a, double b = 0, double c = 0) {
-  char text[160];
-  std::snprintf(text, sizeof text, format, a, b, c);
-  return text;
 }
 
 }  // namespace
@@ -117,26 +111,30 @@ std::vector<EventMark> Timeline::Marks(const Scenario& s) {
     return static_cast<double>(sim::FirstStepAtOrAfter(start_s, s.dt_s)) * s.dt_s;
   };
   for (const auto& p : s.pushes) {
-    marks.push_back({acts_at(p.start_s), Format("push %.0f N ", p.peak_N) + sim::ToString(p.shape) +
-                                             Format(" %.3g s", p.duration_s)});
+    marks.push_back({acts_at(p.start_s), "push " + FixedText(p.peak_N, 0) + " N " +
+                                             sim::ToString(p.shape) + " " +
+                                             SignificantText(p.duration_s, 3) + " s"});
   }
   for (const auto& p : s.payload_shifts) {
-    marks.push_back({acts_at(p.start_s),
-                     Format("payload shift %+.3g m over %.3g s", p.distance_m, p.duration_s)});
+    marks.push_back({acts_at(p.start_s), "payload shift " + SignedSignificantText(p.distance_m, 3) +
+                                             " m over " + SignificantText(p.duration_s, 3) + " s"});
   }
   for (const auto& d : s.drives) {
-    marks.push_back(
-        {acts_at(d.start_s), Format("drive %.3g m/s, %.3g deg/s over %.3g s", d.speed_m_s,
-                                    d.yaw_rate_rad_s * 180 / kPi, d.ramp_s)});
+    marks.push_back({acts_at(d.start_s), "drive " + SignificantText(d.speed_m_s, 3) + " m/s, " +
+                                             SignificantText(d.yaw_rate_rad_s * 180 / kPi, 3) +
+                                             " deg/s over " + SignificantText(d.ramp_s, 3) + " s"});
   }
   for (const auto& f : s.motor_faults) {
     marks.push_back({acts_at(f.start_s), std::string("motor fault ") + sim::ToString(f.side) +
-                                             Format(" torque x%.3g", f.torque_scale)});
+                                             " torque x" + SignificantText(f.torque_scale, 3)});
   }
   for (const auto& f : s.sensor_faults) {
     std::string label =
         std::string("sensor fault ") + sim::ToString(f.channel) + " " + sim::ToString(f.kind);
-    if (f.kind == sim::SensorFaultKind::kBias) label += Format(" %+.3g", f.value);
+    if (f.kind == sim::SensorFaultKind::kBias) {
+      label += ' ';
+      label += SignedSignificantText(f.value, 3);
+    }
     marks.push_back({acts_at(f.start_s), label});
   }
   std::stable_sort(marks.begin(), marks.end(),

@@ -7,11 +7,11 @@
 #include <functional>
 #include <sstream>
 
+#include "upright/base/number_text.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/edge_compare.hpp"
 #include "upright/model/model_field.hpp"
 #include "upright/model/model_file.hpp"
-#include "upright/model/number_text.hpp"
 
 namespace upright::runner {
 namespace {
@@ -57,7 +57,7 @@ struct Slot {
 };
 
 // A value as messages print it: exactly, so a value just past a limit never reads as on it.
-std::string Num(double value) { return NumberText(value); }
+std::string Num(double value) { return WholeOrShortestText(value); }
 
 // The element list a timeline path names, with its size, or nullptr.
 template <typename T>

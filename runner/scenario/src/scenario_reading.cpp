@@ -3,11 +3,10 @@
 #include <array>
 #include <charconv>
 #include <cmath>
-#include <cstdio>
 #include <filesystem>
 #include <system_error>
 
-#include "upright/model/number_text.hpp"
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner::internal {
 
@@ -55,13 +54,9 @@ bool OptionalBool(XmlElement& element, std::string_view attribute, bool fallback
   return *choice == 1;
 }
 
-std::string Num(double value) { return NumberText(value); }
+std::string Num(double value) { return WholeOrShortestText(value); }
 
-std::string Approx(double value) {
-  char buffer[32];
-  std::snprintf(buffer, sizeof buffer, "%.6g", value == 0 ? 0.0 : value);  // no "-0"
-  return buffer;
-}
+std::string Approx(double value) { return SignificantText(value, 6); }
 
 std::string Quote(std::string_view text) {
   std::string quoted;

@@ -1,6 +1,6 @@
 // sweep.csv: one row per sample × controller, sample by sample — the sampled values, the status
 // and every figure summary.csv has, in its column order.
-#include "exact_number.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/metric_columns.hpp"
 #include "upright/runner/sweep_writer.hpp"
 #include "upright/runner/text_format.hpp"
@@ -25,7 +25,8 @@ std::string SweepCsv(const SweepResult& result) {
       csv += std::to_string(sample.noise_seed);
       for (const double value : sample.values) {
         csv += ',';
-        internal::AppendExactNumber(&csv, value);
+        // The shortest exact form, so a sample can be replayed from sweep.csv exactly.
+        AppendShortest(&csv, value, NanAs::kEmpty);
       }
       AppendOutcomeCells(&csv, run);
       csv += '\n';

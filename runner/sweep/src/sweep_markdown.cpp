@@ -6,7 +6,7 @@
 #include <string_view>
 #include <vector>
 
-#include "exact_number.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/model/check.hpp"
 #include "upright/runner/metric_columns.hpp"
 #include "upright/runner/sweep_writer.hpp"
@@ -28,7 +28,7 @@ const MetricColumn& Column(std::string_view name) {
   return MetricColumns().front();
 }
 
-std::string Percent(double fraction) { return FormatReadable(100 * fraction) + " %"; }
+std::string Percent(double fraction) { return ReadableText(100 * fraction, NanAs::kDash) + " %"; }
 
 std::string ControllerLabel(const SweepResult& result, std::size_t c) {
   const std::string& name = result.scenario.controllers[c];
@@ -36,11 +36,7 @@ std::string ControllerLabel(const SweepResult& result, std::size_t c) {
 }
 
 // A value as the file gives it (shortest exact form), for the spreads' own parameters.
-std::string Exact(double value) {
-  std::string text;
-  internal::AppendExactNumber(&text, value);
-  return text;
-}
+std::string Exact(double value) { return ShortestText(value, NanAs::kDash); }
 
 std::string SpreadText(const Dispersion& d) {
   if (d.kind == SpreadKind::kNormal) return "normal, mean " + Exact(d.mean) + ", sd " + Exact(d.sd);
@@ -55,7 +51,7 @@ void AppendSurvival(const SweepResult& result, std::string* md) {
     const Interval interval = WilsonInterval(k, n);
     *md += "| " + ControllerLabel(result, c) + " | " + std::to_string(k) + "/" + std::to_string(n) +
            " | " + Percent(static_cast<double>(k) / static_cast<double>(n)) + " | " +
-           FormatReadable(100 * interval.lo) + " – " + Percent(interval.hi) + " |\n";
+           ReadableText(100 * interval.lo, NanAs::kDash) + " – " + Percent(interval.hi) + " |\n";
   }
   *md +=
       "\nThe interval is the Wilson score interval (Wilson 1927) at 95 % (z = 1.959964): the "
@@ -104,7 +100,7 @@ void AppendFigures(const SweepResult& result, std::string* md) {
       *md += "| " + ControllerLabel(result, c) + " | " + std::to_string(values.size());
       for (const double percent : kPercents) {
         const double p = Percentile(values, percent);
-        *md += " | " + (std::isinf(p) ? std::string("unsettled") : FormatReadable(p));
+        *md += " | " + (std::isinf(p) ? std::string("unsettled") : ReadableText(p, NanAs::kDash));
       }
       *md += " |\n";
     }
@@ -127,8 +123,8 @@ void AppendPaired(const SweepResult& result, std::string* md) {
     const PairedCounts counts = PairWithBaseline(result, c);
     *md += "| " + ControllerLabel(result, c) + " | " + std::to_string(counts.both) + " | " +
            std::to_string(counts.only_baseline) + " | " + std::to_string(counts.only_other) +
-           " | " + std::to_string(counts.neither) + " | " + FormatReadable(McNemarExactP(counts)) +
-           " |\n";
+           " | " + std::to_string(counts.neither) + " | " +
+           ReadableText(McNemarExactP(counts), NanAs::kDash) + " |\n";
   }
   *md +=
       "\nBoth controllers ran on the same samples, so only the samples where one survived and the "
@@ -151,9 +147,10 @@ void AppendDispersions(const SweepResult& result, std::string* md) {
       redrawn += sample.redraws[k];
     }
     *md += "| `" + MarkdownCell(d.param) + "` | " + SpreadText(d) + " | " + Exact(d.nominal) +
-           " | " + FormatReadable(Percentile(values, 0)) + " | " +
-           FormatReadable(Percentile(values, 50)) + " | " +
-           FormatReadable(Percentile(values, 100)) + " | " + std::to_string(redrawn) + " |\n";
+           " | " + ReadableText(Percentile(values, 0), NanAs::kDash) + " | " +
+           ReadableText(Percentile(values, 50), NanAs::kDash) + " | " +
+           ReadableText(Percentile(values, 100), NanAs::kDash) + " | " + std::to_string(redrawn) +
+           " |\n";
   }
   *md +=
       "\nValues in the parameter's file units. Each sample draws every parameter once, from its "

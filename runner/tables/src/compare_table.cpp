@@ -3,6 +3,7 @@
 #include <cmath>
 
 #include "spread_text.hpp"
+#include "upright/base/number_text.hpp"
 #include "upright/runner/metric_columns.hpp"
 #include "upright/runner/paired_tests.hpp"
 #include "upright/runner/text_format.hpp"
@@ -122,7 +123,7 @@ Comparison CompareFigure(const ScenarioGroup& scenario, const MetricColumn& colu
 
 void AppendNumberCell(std::string* csv, double value) {
   csv->push_back(',');
-  AppendNumber(csv, value);
+  AppendSignificant(csv, value, 6, NanAs::kEmpty);
 }
 
 void AppendStatsCells(std::string* csv, const FigureStats& stats) {
@@ -144,8 +145,8 @@ std::string TestText(const Comparison& c) {
   if (c.verdict == Verdict::kIndicative && std::isnan(c.p_value)) return pairs + ", too few";
   std::string text = c.higher_is_better ? "McNemar "
                      : std::isnan(c.t)  ? std::string("no spread, ")
-                                        : "t = " + FormatReadable(c.t) + ", ";
-  text += "p = " + FormatReadable(c.p_value) + " (" + pairs + ")";
+                                        : "t = " + ReadableText(c.t, NanAs::kDash) + ", ";
+  text += "p = " + ReadableText(c.p_value, NanAs::kDash) + " (" + pairs + ")";
   if (c.verdict == Verdict::kIndicative) {
     const std::size_t one_sided = c.only_baseline_value + c.only_controller_value;
     text += "; " + std::to_string(one_sided) + (one_sided == 1 ? " seed" : " seeds") +
@@ -160,7 +161,7 @@ std::string FloorsText() {
     if (!column.compared) continue;
     const MetricFloor floor = FloorOf(column.name);
     if (!text.empty()) text += ", ";
-    text += std::string(column.label) + " " + FormatNumber(floor.value);
+    text += std::string(column.label) + " " + SignificantText(floor.value, 6);
     if (*floor.unit != '\0') text += std::string(" ") + floor.unit;
   }
   return text;
@@ -239,10 +240,10 @@ std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
   md +=
       "Verdict: the runs are paired by seed (both survived, both with a value) and the paired "
       "t-test, two-sided at " +
-      FormatNumber(kTestLevel * 100) +
+      SignificantText(kTestLevel * 100, 6) +
       " %, is applied to the differences. Better or worse needs the test to reject and the mean "
       "difference over the pairs to reach " +
-      FormatNumber(kSameWithinPct) +
+      SignificantText(kSameWithinPct, 6) +
       " % of the baseline mean (the floor itself when the baseline is below it); with fewer than " +
       std::to_string(kMinTPairs) +
       " pairs there is no test, and the direction of the difference is shown as a hint only. "
@@ -254,8 +255,8 @@ std::string CompareMarkdown(const std::vector<ScenarioGroup>& groups) {
       "figure is better when lower but survival, better when higher: compared as a difference "
       "of rates in percentage points (pp), with the exact McNemar test on the seeds both "
       "played, which cannot reach " +
-      FormatNumber(kTestLevel * 100) + " % with fewer than " + std::to_string(kMcNemarMinPairs) +
-      " pairs (indicative).\n\n";
+      SignificantText(kTestLevel * 100, 6) + " % with fewer than " +
+      std::to_string(kMcNemarMinPairs) + " pairs (indicative).\n\n";
   md += "Marks: " + VerdictLegend() + ".\n";
   for (const ScenarioGroup& scenario : groups) {
     md += "\n## " + MarkdownCell(scenario.name) + "\n\n";

@@ -1,5 +1,6 @@
 #include "gap_table.hpp"
 
+#include "upright/base/number_text.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
@@ -13,7 +14,7 @@ std::string TwinNote(const RunResult& run) {
 
 void AppendNumberField(std::string* csv, double value) {
   csv->push_back(',');
-  AppendNumber(csv, value);
+  AppendSignificant(csv, value, 6, NanAs::kEmpty);
 }
 
 }  // namespace
@@ -86,12 +87,15 @@ std::string GapMarkdown(const std::vector<ScenarioGroup>& groups) {
       for (const RunResult* run : controller.runs) {
         const GapFigures& g = run->gap;
         md += "| " + MarkdownCell(controller.name) + " | " + std::to_string(run->seed) + " | " +
-              ToString(run->metrics.status) + " | " + FormatReadable(g.peak_tilt_linear_deg) +
-              " / " + FormatReadable(g.peak_tilt_plant_deg) + " | " +
-              FormatReadable(g.peak_tilt_linear_deg / g.peak_tilt_plant_deg) + " | " +
-              FormatReadable(g.peak_drift_linear_m) + " / " + FormatReadable(g.peak_drift_plant_m) +
-              " | " + FormatReadable(g.peak_drift_linear_m / g.peak_drift_plant_m) + " | " +
-              FormatReadable(g.tilt_diverge_s) + " | " + FormatReadable(g.drift_diverge_s) + " |\n";
+              ToString(run->metrics.status) + " | " +
+              ReadableText(g.peak_tilt_linear_deg, NanAs::kDash) + " / " +
+              ReadableText(g.peak_tilt_plant_deg, NanAs::kDash) + " | " +
+              ReadableText(g.peak_tilt_linear_deg / g.peak_tilt_plant_deg, NanAs::kDash) + " | " +
+              ReadableText(g.peak_drift_linear_m, NanAs::kDash) + " / " +
+              ReadableText(g.peak_drift_plant_m, NanAs::kDash) + " | " +
+              ReadableText(g.peak_drift_linear_m / g.peak_drift_plant_m, NanAs::kDash) + " | " +
+              ReadableText(g.tilt_diverge_s, NanAs::kDash) + " | " +
+              ReadableText(g.drift_diverge_s, NanAs::kDash) + " |\n";
         const std::string note = TwinNote(*run);
         if (!note.empty()) {
           notes += "- " + MarkdownCell(controller.name) + ", seed " + std::to_string(run->seed) +

@@ -1,7 +1,8 @@
 #include "upright/runner/json_text.hpp"
 
-#include <charconv>
 #include <cmath>
+
+#include "upright/base/number_text.hpp"
 
 namespace upright::runner {
 
@@ -63,11 +64,9 @@ void JsonText::Number(std::string_view key, double value) {
     out_ += "null";
     return;
   }
-  if (value == 0) value = 0;  // -0 → 0
-  char buffer[32];
-  // Shortest form that reads back as the same double.
-  const auto result = std::to_chars(buffer, buffer + sizeof buffer, value);
-  out_.append(buffer, result.ptr);
+  // Shortest form that reads back as the same double; -0 as 0. Every such text is a JSON number
+  // (RFC 8259 §6).
+  AppendShortest(&out_, value);
 }
 
 void JsonText::Integer(std::string_view key, std::int64_t value) {

@@ -2,6 +2,7 @@
 
 #include <array>
 
+#include "upright/base/number_text.hpp"
 #include "upright/runner/played_run.hpp"
 #include "upright/runner/text_format.hpp"
 
@@ -57,7 +58,7 @@ void AppendOutcomeCells(std::string* csv, const RunResult& run) {
   *csv += CsvBool(metrics.status == RunStatus::kOk);
   for (const MetricColumn& column : kColumns) {
     *csv += ',';
-    if (played) AppendNumber(csv, metrics.*column.field);
+    if (played) AppendSignificant(csv, metrics.*column.field, 6, NanAs::kEmpty);
   }
   *csv += ',';
   AppendCsvField(csv, metrics.message);

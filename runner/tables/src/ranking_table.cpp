@@ -5,6 +5,7 @@
 #include <cmath>
 #include <limits>
 
+#include "upright/base/number_text.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
@@ -115,7 +116,7 @@ std::string WeightsText() {
     if (i > 0) text += ", ";
     text += kRankingWeights[i].label;
     text += ' ';
-    text += FormatNumber(kRankingWeights[i].weight);
+    text += SignificantText(kRankingWeights[i].weight, 6);
   }
   return text;
 }
@@ -192,9 +193,9 @@ std::string RankingCsv(const std::vector<ScenarioGroup>& groups) {
     csv += ',';
     AppendCsvField(&csv, entry.name);
     csv += ',';
-    AppendNumber(&csv, entry.survival_rate);
+    AppendSignificant(&csv, entry.survival_rate, 6, NanAs::kEmpty);
     csv += ',' + std::to_string(entry.survived) + ',' + std::to_string(entry.runs) + ',';
-    AppendNumber(&csv, entry.score);
+    AppendSignificant(&csv, entry.score, 6, NanAs::kEmpty);
     csv += ',' + std::to_string(entry.scenarios_scored) + ',' + CsvBool(entry.partial) + ',' +
            std::to_string(entry.values_skipped);
     for (int rank : entry.scenario_ranks) {
@@ -243,9 +244,9 @@ std::string RankingMarkdown(const std::vector<ScenarioGroup>& groups) {
     const RankedController& entry = ranked[i];
     md += "| " + std::to_string(i + 1) + " | " + MarkdownCell(entry.name) + " | " +
           std::to_string(entry.survived) + "/" + std::to_string(entry.runs) + " | " +
-          FormatReadable(entry.score) + " | " + std::to_string(entry.scenarios_scored) + " of " +
-          std::to_string(most_scored) + (entry.partial ? " (partial, ranked apart)" : "") + " | " +
-          std::to_string(entry.values_skipped) + " |";
+          ReadableText(entry.score, NanAs::kDash) + " | " + std::to_string(entry.scenarios_scored) +
+          " of " + std::to_string(most_scored) + (entry.partial ? " (partial, ranked apart)" : "") +
+          " | " + std::to_string(entry.values_skipped) + " |";
     for (int rank : entry.scenario_ranks) {
       AppendMarkdownCell(&md, rank > 0 ? std::to_string(rank) : std::string("—"));
     }

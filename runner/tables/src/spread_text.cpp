@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "upright/base/number_text.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
@@ -16,16 +17,16 @@ const char* SpreadName(SpreadKind kind) {
 
 std::string MeanWithSpread(const FigureStats& stats, SpreadKind kind, double scale) {
   if (stats.values == 0) return "—";
-  std::string text = FormatReadable(stats.mean * scale);
+  std::string text = ReadableText(stats.mean * scale, NanAs::kDash);
   // Values alike at the digits shown have no spread to show.
-  const std::string min = FormatReadable(stats.min * scale);
-  const std::string max = FormatReadable(stats.max * scale);
+  const std::string min = ReadableText(stats.min * scale, NanAs::kDash);
+  const std::string max = ReadableText(stats.max * scale, NanAs::kDash);
   const bool spread = !std::isnan(stats.min) && !std::isnan(stats.max) && min != max;
   if (stats.values >= 2 && spread) {
     if (kind == SpreadKind::kRange) {
       text += " (" + min + "–" + max + ")";
     } else if (!std::isnan(stats.sd)) {
-      text += " ± " + FormatReadable(stats.sd * scale);
+      text += " ± " + ReadableText(stats.sd * scale, NanAs::kDash);
     }
   }
   if (stats.values < stats.runs) {

@@ -4,6 +4,7 @@
 #include <array>
 #include <vector>
 
+#include "upright/base/number_text.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner::internal {
@@ -84,11 +85,11 @@ std::string TraceCsv(const Trace& trace) {
   for (std::size_t r = 0; r < trace.rows.size(); ++r) {
     const TraceRow& row = trace.rows[r];
     for (const TraceColumn& column : kTraceColumns) {
-      AppendNumber(&csv, row.*column.field);
+      AppendSignificant(&csv, row.*column.field, 6, NanAs::kEmpty);
       csv += ',';
     }
     for (std::size_t c = 0; c < twin_columns; ++c) {
-      AppendNumber(&csv, row.*kTwinColumns[c].field);
+      AppendSignificant(&csv, row.*kTwinColumns[c].field, 6, NanAs::kEmpty);
       csv += ',';
     }
     // A mark goes on the first row at or after its time: never earlier than it happened, and

@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "upright/base/number_text.hpp"
 #include "upright/runner/text_format.hpp"
 
 namespace upright::runner {
@@ -56,7 +57,7 @@ namespace {
 
 // "+1.50" from 3 significant digits, a sign on every non-zero value.
 std::string Signed(double value) {
-  std::string text = FormatReadable(value);
+  std::string text = ReadableText(value, NanAs::kDash);
   if (value > 0) text.insert(text.begin(), '+');
   return text;
 }

@@ -1,9 +1,9 @@
 #include "upright/runner/linear_twin.hpp"
 
 #include <cmath>
-#include <cstdio>
 #include <string_view>
 
+#include "upright/base/number_text.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/runner/twin_dynamics.hpp"
 #include "upright/runner/twin_sensors.hpp"
@@ -14,9 +14,7 @@ namespace {
 using design::kPitch, design::kPitchRate, design::kX, design::kXDot, design::kYaw, design::kYawRate;
 
 std::string Stopped(double time_s, const std::string& why) {
-  char at[64];
-  std::snprintf(at, sizeof at, "stopped at t = %.3f s: ", time_s);
-  return at + why;
+  return "stopped at t = " + FixedText(time_s, 3) + " s: " + why;
 }
 
 // The true state of the linear robot, for modules that read it.

@@ -2,9 +2,9 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
 #include <limits>
 
+#include "upright/base/number_text.hpp"
 #include "upright/model/check.hpp"
 #include "upright/model/conventions.hpp"
 
@@ -27,12 +27,6 @@ double FirstApart(const std::vector<double>& a, const std::vector<double>& b, do
     if (std::abs(a[k] - b[k]) > band) return static_cast<double>(k) * dt_s;
   }
   return std::numeric_limits<double>::quiet_NaN();
-}
-
-std::string Format(const char* format, double a, double b = 0) {
-  char text[160];
-  std::snprintf(text, sizeof text, format, a, b);
-  return text;
 }
 
 }  // namespace
@@ -63,33 +57,34 @@ std::string NotModelled(const Scenario& s) {
   for (const sim::Push& p : s.pushes) {
     const double lateral = std::sin(p.direction_deg / kDeg);
     if (std::abs(lateral) > 1e-9) {
-      add(Format("lateral part of the push at %g s (%.0f %% of it)", p.start_s,
-                 100 * std::abs(lateral)));
+      add("lateral part of the push at " + SignificantText(p.start_s, 6) + " s (" +
+          FixedText(100 * std::abs(lateral), 0) + " % of it)");
     }
   }
   for (const PayloadShift& p : s.payload_shifts) {
-    add(Format("payload shift %+g m at %g s", p.distance_m, p.start_s));
+    add("payload shift " + SignedSignificantText(p.distance_m, 6) + " m at " +
+        SignificantText(p.start_s, 6) + " s");
   }
   for (const sim::MotorFault& f : s.motor_faults) {
-    add(std::string("motor fault ") + sim::ToString(f.side) +
-        Format(" x%g at %g s", f.torque_scale, f.start_s));
+    add(std::string("motor fault ") + sim::ToString(f.side) + " x" +
+        SignificantText(f.torque_scale, 6) + " at " + SignificantText(f.start_s, 6) + " s");
   }
   for (const sim::SensorFault& f : s.sensor_faults) {
     add(std::string("sensor fault ") + sim::ToString(f.channel) + " " + sim::ToString(f.kind) +
-        Format(" at %g s", f.start_s));
+        " at " + SignificantText(f.start_s, 6) + " s");
   }
   switch (s.terrain.kind) {
     case sim::TerrainKind::kFlat:
       break;
     case sim::TerrainKind::kSlope:
-      add(Format("slope %g deg", s.terrain.slope_deg));
+      add("slope " + SignificantText(s.terrain.slope_deg, 6) + " deg");
       break;
     case sim::TerrainKind::kProfile:
       add("ground profile (ramps, bumps, curbs)");
       break;
   }
   if (!s.terrain.friction_regions.empty()) {
-    add(Format("%g friction region(s)", static_cast<double>(s.terrain.friction_regions.size())));
+    add(std::to_string(s.terrain.friction_regions.size()) + " friction region(s)");
   }
   return text;
 }

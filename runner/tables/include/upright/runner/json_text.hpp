@@ -1,7 +1,7 @@
-// JsonText: a small writer of indented JSON (RFC 8259) for the manifest of every results folder
-// (runs, sweeps, envelopes) — keys and values in, text out. Strings are escaped per RFC 8259 §7;
-// numbers print in their shortest exact form and non-finite ones as null, since JSON has no NaN or
-// infinity.
+// JsonText: the program's one writer of JSON (RFC 8259), indented, for the manifest of every
+// results folder (runs, sweeps, envelopes) and `upright design --json` — keys and values in, text
+// out. Strings are escaped per RFC 8259 §7; numbers print in their shortest exact form
+// (upright::ShortestText, -0 as 0) and non-finite ones as null, since JSON has no NaN or infinity.
 #pragma once
 
 #include <cstdint>
