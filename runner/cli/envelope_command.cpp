@@ -109,8 +109,8 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
       scenario, envelope_options, plan, UPRIGHT_VERSION, progress_line.Callback());
   // The runs expected can shrink after the last one (a bisection that ended early).
   progress_line.Close();
-  if (!runner::WriteEnvelopeResults(out_dir, result, &error)) {
-    std::cerr << error << "\n";
+  if (const Status written = runner::WriteEnvelopeResults(out_dir, result); !written) {
+    std::cerr << written.error() << "\n";
     return kExitFailed;
   }
 

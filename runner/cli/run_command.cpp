@@ -126,9 +126,8 @@ int RunScenarios(const RunCommandOptions& options) {
     }
   }
   runner::BatchOptions batch_options = options.batch;
-  std::string error;
-  if (!batch_options.IsValid(&error)) {
-    std::cerr << error << "\n";
+  if (const Status valid = batch_options.Validate(); !valid) {
+    std::cerr << valid.error() << "\n";
     return kExitBadInput;
   }
   const std::string out_dir = options.out_dir.empty() ? DefaultOutDir(scenarios) : options.out_dir;
@@ -140,8 +139,8 @@ int RunScenarios(const RunCommandOptions& options) {
   std::fflush(stdout);
   const runner::BatchResult batch =
       runner::RunBatch(scenarios, batch_options, UPRIGHT_VERSION, progress_line.Callback());
-  if (!runner::WriteResults(out_dir, batch, &error)) {
-    std::cerr << error << "\n";
+  if (const Status written = runner::WriteResults(out_dir, batch); !written) {
+    std::cerr << written.error() << "\n";
     return kExitFailed;
   }
 

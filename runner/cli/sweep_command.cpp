@@ -33,9 +33,8 @@ int RunSweep(const SweepCommandOptions& options) {
   sweep_options.samples = options.samples;
   sweep_options.seed = options.seed;
   sweep_options.jobs = options.jobs;
-  std::string error;
-  if (!sweep_options.IsValid(&error)) {
-    std::cerr << error << "\n";
+  if (const Status valid = sweep_options.Validate(); !valid) {
+    std::cerr << valid.error() << "\n";
     return kExitBadInput;
   }
   const std::string out_dir =
@@ -54,8 +53,8 @@ int RunSweep(const SweepCommandOptions& options) {
     std::cerr << options.scenario_path << ": " << result.module_error << "; nothing was run\n";
     return kExitFailed;
   }
-  if (!runner::WriteSweepResults(out_dir, result, &error)) {
-    std::cerr << error << "\n";
+  if (const Status written = runner::WriteSweepResults(out_dir, result); !written) {
+    std::cerr << written.error() << "\n";
     return kExitFailed;
   }
 

@@ -221,8 +221,10 @@ TEST(Envelope, FilesAreByteIdenticalWithOneJobOrTwo) {
     }
   }
   const auto dir_a = ScratchDir("envelope-jobs1"), dir_b = ScratchDir("envelope-jobs2");
-  ASSERT_TRUE(WriteEnvelopeResults(dir_a.string(), a, &error)) << error;
-  ASSERT_TRUE(WriteEnvelopeResults(dir_b.string(), b, &error)) << error;
+  const Status written_a = WriteEnvelopeResults(dir_a.string(), a);
+  ASSERT_TRUE(written_a) << written_a.error();
+  const Status written_b = WriteEnvelopeResults(dir_b.string(), b);
+  ASSERT_TRUE(written_b) << written_b.error();
   for (const auto& name : EnvelopeFileNames(a)) {
     const std::string text = ReadFile(dir_a / name);
     EXPECT_FALSE(text.empty()) << name;
@@ -284,7 +286,8 @@ TEST(Envelope, SurvivalMapSurvivesTheEasyCornerAndFallsAtTheHardOne) {
     }
   }
   const auto dir = ScratchDir("envelope-map");
-  ASSERT_TRUE(WriteEnvelopeResults(dir.string(), r, &error)) << error;
+  const Status written = WriteEnvelopeResults(dir.string(), r);
+  ASSERT_TRUE(written) << written.error();
   const std::string csv = ReadFile(dir / "envelope_map.csv");
   EXPECT_EQ(csv.rfind("scenario,controller,parameter,value,parameter2,value2,survived,"
                       "seeds_survived,seeds\n",
@@ -318,7 +321,8 @@ TEST(Envelope, AControllerThatCannotLoadIsReportedNotRun) {
   EXPECT_EQ(r.controllers[0].bisect.probes, 0);
   EXPECT_EQ(r.runs, 0u);
   const auto dir = ScratchDir("envelope-setup");
-  ASSERT_TRUE(WriteEnvelopeResults(dir.string(), r, &error)) << error;
+  const Status written = WriteEnvelopeResults(dir.string(), r);
+  ASSERT_TRUE(written) << written.error();
   EXPECT_NE(ReadFile(dir / "envelope.csv").find(",setup_failed,"), std::string::npos);
 }
 

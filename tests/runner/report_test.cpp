@@ -210,15 +210,16 @@ TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
   EXPECT_NE(html.find(report::kCaution), std::string::npos);
   EXPECT_NE(html.find("upright test"), std::string::npos);  // the batch's tool version
   // The robot file's digest as the manifest recorded it, and as the file has it.
-  std::string error;
-  const std::string model_sha =
-      Sha256OfFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml", &error);
-  ASSERT_EQ(run.batch.scenarios[0].model_sha256, model_sha) << error;
-  EXPECT_NE(html.find(model_sha), std::string::npos);
+  const Result<std::string> model_sha =
+      Sha256OfFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  ASSERT_TRUE(model_sha) << model_sha.error();
+  ASSERT_EQ(run.batch.scenarios[0].model_sha256, *model_sha);
+  EXPECT_NE(html.find(*model_sha), std::string::npos);
 
   // Every verdict of compare.csv shows with the mark compare.md gives it (one convention,
   // upright/runner/verdict.hpp): a symbol and a word, not colour alone, and not the old arrows.
   CsvTable compare;
+  std::string error;
   ASSERT_TRUE(ReadCsvFile((run.dir / "compare.csv").string(), &compare, &error)) << error;
   const int verdict_column = compare.Column("verdict");
   const int direction_column = compare.Column("direction");
@@ -392,9 +393,9 @@ TEST(Report, ASurvivedCellThatIsNotTrueOrFalseIsRefusedWithItsLine) {
 TEST(Report, OptionsAreChecked) {
   ReportOptions options;
   options.max_points = 3;
-  std::string error;
-  EXPECT_FALSE(options.IsValid(&error));
-  EXPECT_EQ(error, "ReportOptions::max_points = 3, must be >= 4");
+  const Status valid = options.Validate();
+  ASSERT_FALSE(valid);
+  EXPECT_EQ(valid.error(), "ReportOptions::max_points = 3, must be >= 4");
   EXPECT_EQ(MakeReport(SmallRunFolder().dir.string(), options).status, ReportStatus::kBadInput);
 }
 
@@ -442,10 +443,10 @@ TEST(ReportCommand, ReportsEnvelopeAndSweepFoldersInsideAFolder) {
     ++charts[Attribute(svg, "data-chart")];
   }
   // The scenario file's digest, from both manifests, listed once.
-  std::string error;
-  const std::string scenario_sha = Sha256OfFile(scenario, &error);
-  ASSERT_EQ(scenario_sha.size(), 64u) << error;
-  EXPECT_EQ(Count(report.html, scenario_sha), 1u);
+  const Result<std::string> scenario_sha = Sha256OfFile(scenario);
+  ASSERT_TRUE(scenario_sha) << scenario_sha.error();
+  ASSERT_EQ(scenario_sha->size(), 64u);
+  EXPECT_EQ(Count(report.html, *scenario_sha), 1u);
   // The demo shove names four controllers; one survival map each.
   EXPECT_EQ(charts, (std::map<std::string, int>{{"envelope", 1}, {"map", 4}, {"sweep", 1}}));
 

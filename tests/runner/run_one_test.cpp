@@ -40,8 +40,8 @@ std::filesystem::path Written(const std::vector<RunResult>& runs, const std::str
   batch.trace_rate_hz = 100;
   batch.runs = runs;
   const std::filesystem::path dir = ScratchDir(name);
-  std::string error;
-  EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+  const Status written = WriteResults(dir.string(), batch);
+  EXPECT_TRUE(written) << written.error();
   return dir;
 }
 

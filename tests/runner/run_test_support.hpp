@@ -88,9 +88,10 @@ inline OneJobAndTwo RunWithOneJobAndTwo(const std::vector<Scenario>& scenarios,
   out.two = RunBatch(scenarios, options, "test", nullptr);
   out.dir_one = ScratchDir(name + "-jobs1");
   out.dir_two = ScratchDir(name + "-jobs2");
-  std::string error;
-  EXPECT_TRUE(WriteResults(out.dir_one.string(), out.one, &error)) << error;
-  EXPECT_TRUE(WriteResults(out.dir_two.string(), out.two, &error)) << error;
+  const Status one = WriteResults(out.dir_one.string(), out.one);
+  EXPECT_TRUE(one) << one.error();
+  const Status two = WriteResults(out.dir_two.string(), out.two);
+  EXPECT_TRUE(two) << two.error();
   return out;
 }
 

@@ -80,9 +80,10 @@ TEST_F(SweepRun, FilesAreByteIdenticalOnASecondRunWithTwoJobs) {
   const SweepResult again = Sweep(*scenario_, 5, 2);
   EXPECT_EQ(again.jobs, 2);
   const auto dir_a = ScratchDir("sweep-a"), dir_b = ScratchDir("sweep-b");
-  std::string error;
-  ASSERT_TRUE(WriteSweepResults(dir_a.string(), *five_jobs1_, &error)) << error;
-  ASSERT_TRUE(WriteSweepResults(dir_b.string(), again, &error)) << error;
+  const Status written_a = WriteSweepResults(dir_a.string(), *five_jobs1_);
+  ASSERT_TRUE(written_a) << written_a.error();
+  const Status written_b = WriteSweepResults(dir_b.string(), again);
+  ASSERT_TRUE(written_b) << written_b.error();
   ASSERT_EQ(SweepFileNames().size(), 3u);  // sweep.csv, sweep.md, manifest.json
   for (const std::string& name : SweepFileNames()) {
     const std::string text = ReadFile(dir_a / name);

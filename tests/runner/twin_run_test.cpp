@@ -208,8 +208,8 @@ TEST(LinearTwin, NoGapTablesWithoutTheTwin) {
   const BatchResult batch = RunBatch(scenarios, options, "test", nullptr);
   EXPECT_FALSE(batch.linear_twin);
   const auto dir = ScratchDir("twin-off");
-  std::string error;
-  ASSERT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+  const Status written = WriteResults(dir.string(), batch);
+  ASSERT_TRUE(written) << written.error();
   EXPECT_FALSE(std::filesystem::exists(dir / "gap.csv"));
   EXPECT_FALSE(std::filesystem::exists(dir / "gap.md"));
   const std::string trace = ReadFile(dir / "traces" / TraceFileName(batch.runs.front()));

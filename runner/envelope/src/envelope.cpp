@@ -108,7 +108,7 @@ bool ProbeScenario(const Scenario& scenario, const std::string& path, double val
 
 }  // namespace
 
-bool EnvelopeOptions::IsValid(std::string* error) const {
+Status EnvelopeOptions::Validate() const {
   std::ostringstream why;
   const auto finite_if_set = [](const std::optional<double>& v) { return !v || std::isfinite(*v); };
   if (param.empty()) {
@@ -139,15 +139,17 @@ bool EnvelopeOptions::IsValid(std::string* error) const {
   } else if (!(std::isfinite(settle_hold_s) && settle_hold_s > 0)) {
     why << "EnvelopeOptions::settle_hold_s = " << settle_hold_s << ", must be > 0 and finite";
   } else {
-    return true;
+    return {};
   }
-  *error = why.str();
-  return false;
+  return Failure(why.str());
 }
 
 bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, EnvelopePlan* plan,
                   std::string* error) {
-  if (!options.IsValid(error)) return false;
+  if (const Status valid = options.Validate(); !valid) {
+    *error = valid.error();
+    return false;
+  }
   EnvelopePlan p;
   if (!ResolveAxis(scenario, options.param, options.lo, options.hi, &p.axis, error)) return false;
   p.tol = options.tol ? *options.tol : (p.axis.hi - p.axis.lo) / 200;

@@ -43,12 +43,11 @@ void Collect(const fs::path& root, const fs::path& dir, int depth,
 
 }  // namespace
 
-bool ReportOptions::IsValid(std::string* error) const {
+Status ReportOptions::Validate() const {
   if (max_points < 4) {
-    *error = "ReportOptions::max_points = " + std::to_string(max_points) + ", must be >= 4";
-    return false;
+    return Failure("ReportOptions::max_points = " + std::to_string(max_points) + ", must be >= 4");
   }
-  return true;
+  return {};
 }
 
 std::string ReportLooksFor() {
@@ -68,12 +67,12 @@ std::vector<std::string> FindResultsFolders(const std::string& dir) {
 ReportOutcome MakeReport(const std::string& dir, const ReportOptions& options) {
   ReportOutcome outcome;
   outcome.path = (fs::path(dir) / kReportFileName).string();
-  std::string error;
-  if (!options.IsValid(&error)) {
+  if (const Status valid = options.Validate(); !valid) {
     outcome.status = ReportStatus::kBadInput;
-    outcome.message = error;
+    outcome.message = valid.error();
     return outcome;
   }
+  std::string error;
   std::error_code ec;
   if (!fs::is_directory(dir, ec)) {
     outcome.status = ReportStatus::kNoResults;
@@ -117,9 +116,9 @@ ReportOutcome MakeReport(const std::string& dir, const ReportOptions& options) {
     }
   }
   const std::string html = report::PageHtml(page);
-  if (!WriteFileAtomically(outcome.path, html, &error)) {
+  if (Status written = WriteFileAtomically(outcome.path, html); !written) {
     outcome.status = ReportStatus::kWriteFailed;
-    outcome.message = error;
+    outcome.message = written.error();
     return outcome;
   }
   outcome.status = ReportStatus::kWritten;

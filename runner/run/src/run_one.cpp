@@ -172,17 +172,16 @@ bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t se
 
 }  // namespace
 
-bool RunOptions::IsValid(std::string* error) const {
+Status RunOptions::Validate() const {
   std::ostringstream why;
   if (!(trace_rate_hz >= 0) || !std::isfinite(trace_rate_hz)) {
     why << "RunOptions::trace_rate_hz = " << trace_rate_hz << ", must be >= 0 and finite";
   } else if (!(settle_hold_s > 0) || !std::isfinite(settle_hold_s)) {
     why << "RunOptions::settle_hold_s = " << settle_hold_s << ", must be > 0 and finite";
   } else {
-    return true;
+    return {};
   }
-  *error = why.str();
-  return false;
+  return Failure(why.str());
 }
 
 RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
@@ -202,7 +201,9 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
     return result;
   };
   std::string error;
-  if (!options.IsValid(&error)) return finish(RunStatus::kSetupFailed, error);
+  if (const Status valid = options.Validate(); !valid) {
+    return finish(RunStatus::kSetupFailed, valid.error());
+  }
   if (!module) return finish(RunStatus::kSetupFailed, load_error);
 
   RunStart start;

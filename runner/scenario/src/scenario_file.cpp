@@ -219,8 +219,8 @@ void ReadMetrics(XmlElement& root, const ReadContext& context, Scenario* scenari
   m.drift_band_m = internal::OptionalNumber(*metrics, "drift_band_m", m.drift_band_m, &ok);
   m.window_s = internal::OptionalNumber(*metrics, "window_s", m.window_s, &ok);
   m.slip_threshold = internal::OptionalNumber(*metrics, "slip_threshold", m.slip_threshold, &ok);
-  std::string error;
-  if (ok && !m.IsValid(&error)) context.Error(*metrics, error);
+  if (!ok) return;
+  if (const Status valid = m.Validate(); !valid) context.Error(*metrics, valid.error());
 }
 
 // The plant needs the robot's control and IMU periods to be whole numbers of physics steps (an

@@ -14,24 +14,23 @@
 
 namespace upright::runner {
 
-bool SweepOptions::IsValid(std::string* error) const {
+Status SweepOptions::Validate() const {
   std::ostringstream why;
   if (samples < 1) {
     why << "SweepOptions::samples = " << samples << ", must be >= 1";
   } else if (jobs < 0) {
     why << "SweepOptions::jobs = " << jobs << ", must be >= 0 (0: one per core)";
   } else {
-    return true;
+    return {};
   }
-  *error = why.str();
-  return false;
+  return Failure(why.str());
 }
 
 SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
                             const std::string& tool_version, const ProgressFn& progress) {
   UPRIGHT_CHECK(!scenario.dispersions.empty(), "a sweep needs dispersions");
-  std::string invalid;
-  UPRIGHT_CHECK(options.IsValid(&invalid), "%s", invalid.c_str());
+  const Status valid = options.Validate();
+  UPRIGHT_CHECK(valid, "%s", valid.error().c_str());
   const auto wall_start = std::chrono::steady_clock::now();
   const std::size_t samples = static_cast<std::size_t>(options.samples);
   const std::size_t controllers = scenario.controllers.size();

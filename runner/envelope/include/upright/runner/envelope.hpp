@@ -9,6 +9,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/bisect.hpp"
 #include "upright/runner/run_result.hpp"
@@ -34,9 +35,9 @@ struct EnvelopeOptions {
   double settle_hold_s = 1.0;
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
-  // True when the options hold together on their own (the scenario is checked by PlanEnvelope);
-  // otherwise false and *error naming the field, its value and the rule.
-  bool IsValid(std::string* error) const;
+  // Fine when the options hold together on their own (the scenario is checked by PlanEnvelope);
+  // otherwise the broken rule, naming the field and its value.
+  Status Validate() const;
 };
 
 // One varied parameter with its range resolved.

@@ -8,6 +8,8 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner {
 
 inline constexpr const char* kReportFileName = "report.html";
@@ -16,7 +18,8 @@ struct ReportOptions {
   // Samples per plotted series at most (min/max decimation keeps every peak); >= 4.
   std::size_t max_points = 480;
 
-  bool IsValid(std::string* error) const;
+  // Fine when valid; otherwise the broken rule, naming the field and value.
+  Status Validate() const;
 };
 
 enum class ReportStatus {

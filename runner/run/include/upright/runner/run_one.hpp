@@ -9,6 +9,7 @@
 #include <memory>
 #include <string>
 
+#include "upright/base/result.hpp"
 #include "upright/host/module.hpp"
 #include "upright/runner/run_result.hpp"
 #include "upright/runner/scenario.hpp"
@@ -26,8 +27,8 @@ struct RunOptions {
   // Also replay the run on the linear robot (runner/twin: linear_twin.hpp) for the scenario's
   // whole duration and compare: RunResult::gap, and twin columns in the trace.
   bool linear_twin = false;
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
-  bool IsValid(std::string* error) const;
+  // Fine when valid; otherwise the broken rule, naming the field and value.
+  Status Validate() const;
 };
 
 // Runs controller `controller` (index into scenario.controllers) with noise seed `seed`, using the

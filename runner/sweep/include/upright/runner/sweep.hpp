@@ -8,6 +8,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/run_result.hpp"
 #include "upright/runner/scenario.hpp"
@@ -21,8 +22,8 @@ struct SweepOptions {
   int jobs = 0;            // worker threads; 0: one per hardware thread
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
-  bool IsValid(std::string* error) const;
+  // Fine when valid; otherwise the broken rule, naming the field and value.
+  Status Validate() const;
 };
 
 // One sample: its draws, or why it could not be drawn.
