@@ -229,11 +229,11 @@ int main(int argc, char** argv) {
     }
   }
   ScenarioLoadResult loaded = LoadScenarioFile(path);
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::fprintf(stderr, "%s\n", e.ToString().c_str());
+  if (!loaded) {
+    for (const auto& e : loaded.error()) std::fprintf(stderr, "%s\n", e.ToString().c_str());
     return 2;
   }
-  Scenario scenario = loaded.scenario;
+  Scenario scenario = *loaded;
   scenario.controllers.resize(1);  // the baseline module alone
   scenario.baseline = 0;
   const auto module = Builtin(scenario.controllers[0].module);

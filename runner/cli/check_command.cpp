@@ -79,12 +79,10 @@ std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
 // Checks one scenario file; true when it is valid and every controller of it can start.
 bool CheckScenario(const std::string& path) {
   const runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-  std::vector<FileError> problems = loaded.errors;
-  if (loaded.ok()) problems = ControllerProblems(loaded.scenario);
+  const std::vector<FileError> problems = loaded ? ControllerProblems(*loaded) : loaded.error();
   if (problems.empty()) {
-    std::cout << path << ": ok (scenario '" << loaded.scenario.name << "', robot '"
-              << loaded.scenario.model.name << "', " << loaded.scenario.controllers.size()
-              << " controller(s))\n";
+    std::cout << path << ": ok (scenario '" << loaded->name << "', robot '" << loaded->model.name
+              << "', " << loaded->controllers.size() << " controller(s))\n";
     return true;
   }
   for (const auto& e : problems) std::cerr << e.ToString() << "\n";

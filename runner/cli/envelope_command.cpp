@@ -84,13 +84,13 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
   envelope_options.grid = options.grid;
   envelope_options.jobs = options.jobs;
   envelope_options.seed_count = options.seed_count;
-  runner::EnvelopePlan plan;
-  std::string error;
-  if (!runner::PlanEnvelope(scenario, envelope_options, &plan, &error)) {
-    std::cerr << options.scenario_path << ": " << error << "\n"
+  const Result<runner::EnvelopePlan> planned = runner::PlanEnvelope(scenario, envelope_options);
+  if (!planned) {
+    std::cerr << options.scenario_path << ": " << planned.error() << "\n"
               << "(parameter paths: upright envelope --help; nothing was run)\n";
     return kExitBadInput;
   }
+  const runner::EnvelopePlan& plan = *planned;
   const std::string out_dir =
       options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
 

@@ -9,12 +9,12 @@ namespace upright::cli {
 
 bool LoadScenarioOrSayWhy(const std::string& path, runner::Scenario* scenario) {
   runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
+  if (!loaded) {
+    for (const auto& e : loaded.error()) std::cerr << e.ToString() << "\n";
     std::cerr << path << ": invalid; nothing was run\n";
     return false;
   }
-  *scenario = std::move(loaded.scenario);
+  *scenario = std::move(*loaded);
   return true;
 }
 

@@ -104,12 +104,12 @@ int RunScenarios(const RunCommandOptions& options) {
   int bad = 0;
   for (const auto& path : paths) {
     runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-    if (!loaded.ok()) {
-      for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
+    if (!loaded) {
+      for (const auto& e : loaded.error()) std::cerr << e.ToString() << "\n";
       ++bad;
       continue;
     }
-    scenarios.push_back(std::move(loaded.scenario));
+    scenarios.push_back(std::move(*loaded));
   }
   if (bad > 0) {
     std::cerr << bad << " of " << paths.size() << " scenario file(s) invalid; nothing was run\n";

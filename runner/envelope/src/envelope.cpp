@@ -23,25 +23,28 @@ std::string Num(double value) {
 }
 
 // The axis of `path` with its defaults resolved, the ends checked against the scenario.
-bool ResolveAxis(const Scenario& scenario, const std::string& path, std::optional<double> lo,
-                 std::optional<double> hi, ParameterAxis* axis, std::string* error) {
-  axis->path = path;
-  axis->unit = internal::ParameterUnit(path);
-  if (!GetScenarioParameter(scenario, path, &axis->scenario_value, error)) return false;
-  const double v = axis->scenario_value;
+Result<ParameterAxis> ResolveAxis(const Scenario& scenario, const std::string& path,
+                                  std::optional<double> lo, std::optional<double> hi) {
+  ParameterAxis axis;
+  axis.path = path;
+  axis.unit = internal::ParameterUnit(path);
+  const Result<double> value = GetScenarioParameter(scenario, path);
+  if (!value) return Failure(value.error());
+  axis.scenario_value = *value;
+  const double v = axis.scenario_value;
   if ((!lo || !hi) && v == 0) {
-    *error = path + ": the scenario's value is 0, so there is no default range (0.25 to 4 times " +
-             "it); give the range (--lo and --hi)";
-    return false;
+    return Failure(path +
+                   ": the scenario's value is 0, so there is no default range (0.25 to 4 times " +
+                   "it); give the range (--lo and --hi)");
   }
-  axis->lo = lo ? *lo : std::min(0.25 * v, 4 * v);
-  axis->hi = hi ? *hi : std::max(0.25 * v, 4 * v);
-  if (!(axis->lo < axis->hi)) {
-    *error = path + ": range start " + Num(axis->lo) + " must be below its end " + Num(axis->hi) +
-             (lo && hi ? "" : " (defaults: 0.25 and 4 times the scenario's value " + Num(v) + ")");
-    return false;
+  axis.lo = lo ? *lo : std::min(0.25 * v, 4 * v);
+  axis.hi = hi ? *hi : std::max(0.25 * v, 4 * v);
+  if (!(axis.lo < axis.hi)) {
+    return Failure(
+        path + ": range start " + Num(axis.lo) + " must be below its end " + Num(axis.hi) +
+        (lo && hi ? "" : " (defaults: 0.25 and 4 times the scenario's value " + Num(v) + ")"));
   }
-  return true;
+  return axis;
 }
 
 // k + 2 probes for a bisection from width w to tol, k = ⌈log2(w / tol)⌉ (bisect.hpp).
@@ -98,12 +101,15 @@ ProbeTally Tally(const std::vector<std::uint64_t>& seeds, const RunVerdict* verd
   return tally;
 }
 
-// The scenario with the parameters set; false and *error when it refuses a value.
-bool ProbeScenario(const Scenario& scenario, const std::string& path, double value,
-                   const std::string& path2, double value2, Scenario* probe, std::string* error) {
-  *probe = scenario;
-  if (!SetScenarioParameter(probe, path, value, error)) return false;
-  return path2.empty() || SetScenarioParameter(probe, path2, value2, error);
+// The scenario with the parameters set (`path2` empty: the first alone), or why it refuses a
+// value.
+Result<Scenario> ProbeScenario(const Scenario& scenario, const std::string& path, double value,
+                               const std::string& path2, double value2) {
+  Scenario probe = scenario;
+  if (Status set = SetScenarioParameter(&probe, path, value); !set) return Failure(set.error());
+  if (path2.empty()) return probe;
+  if (Status set = SetScenarioParameter(&probe, path2, value2); !set) return Failure(set.error());
+  return probe;
 }
 
 }  // namespace
@@ -144,32 +150,29 @@ Status EnvelopeOptions::Validate() const {
   return Failure(why.str());
 }
 
-bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, EnvelopePlan* plan,
-                  std::string* error) {
-  if (const Status valid = options.Validate(); !valid) {
-    *error = valid.error();
-    return false;
-  }
+Result<EnvelopePlan> PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options) {
+  if (Status valid = options.Validate(); !valid) return Failure(valid.error());
   EnvelopePlan p;
-  if (!ResolveAxis(scenario, options.param, options.lo, options.hi, &p.axis, error)) return false;
+  const Result<ParameterAxis> axis = ResolveAxis(scenario, options.param, options.lo, options.hi);
+  if (!axis) return Failure(axis.error());
+  p.axis = *axis;
   p.tol = options.tol ? *options.tol : (p.axis.hi - p.axis.lo) / 200;
   if (!options.param2.empty()) {
-    ParameterAxis axis2;
-    if (!ResolveAxis(scenario, options.param2, options.lo2, options.hi2, &axis2, error)) {
-      return false;
-    }
-    p.axis2 = axis2;
+    const Result<ParameterAxis> axis2 =
+        ResolveAxis(scenario, options.param2, options.lo2, options.hi2);
+    if (!axis2) return Failure(axis2.error());
+    p.axis2 = *axis2;
     p.grid = options.grid;
   }
   // Both ends, and with a map its four corners, must make a valid scenario.
-  Scenario probe;
   for (const double value : {p.axis.lo, p.axis.hi}) {
-    if (!ProbeScenario(scenario, p.axis.path, value, "", 0, &probe, error)) return false;
+    const Result<Scenario> end = ProbeScenario(scenario, p.axis.path, value, "", 0);
+    if (!end) return Failure(end.error());
     if (p.axis2) {
       for (const double value2 : {p.axis2->lo, p.axis2->hi}) {
-        if (!ProbeScenario(scenario, p.axis.path, value, p.axis2->path, value2, &probe, error)) {
-          return false;
-        }
+        const Result<Scenario> corner =
+            ProbeScenario(scenario, p.axis.path, value, p.axis2->path, value2);
+        if (!corner) return Failure(corner.error());
       }
     }
   }
@@ -177,8 +180,7 @@ bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, Enve
   const std::size_t per_probe = scenario.controllers.size() * p.seeds.size();
   p.max_runs = per_probe * BracketedProbes(p.axis.hi - p.axis.lo, p.tol);
   if (p.axis2) p.max_runs += per_probe * static_cast<std::size_t>(p.grid * p.grid);
-  *plan = std::move(p);
-  return true;
+  return p;
 }
 
 bool EnvelopeResult::any_setup_failed() const {
@@ -272,16 +274,13 @@ void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
     for (std::size_t c = 0; c < n_controllers; ++c) {
       if (!active[c]) continue;
       for (const double value : bisections[c].Pending()) {
-        Probe probe;
-        probe.controller = c;
-        probe.value = value;
-        std::string error;
-        if (!ProbeScenario(scenario, plan.axis.path, value, "", 0, &probe.scenario, &error)) {
-          result->controllers[c].setup_error = error;
+        Result<Scenario> probed = ProbeScenario(scenario, plan.axis.path, value, "", 0);
+        if (!probed) {
+          result->controllers[c].setup_error = probed.error();
           active[c] = false;
           break;
         }
-        probes.push_back(std::move(probe));
+        probes.push_back({c, value, std::move(*probed)});
       }
       if (!active[c]) {
         probes.erase(std::remove_if(probes.begin(), probes.end(),
@@ -369,8 +368,14 @@ void MapGrid(EnvelopeWork& work, EnvelopeResult* result) {
   for (std::size_t i2 = 0; i2 < grid; ++i2) {
     for (std::size_t i1 = 0; i1 < grid; ++i1) {
       const std::size_t k = i2 * grid + i1;
-      ProbeScenario(work.scenario, a1.path, GridValue(a1, static_cast<int>(i1), plan.grid), a2.path,
-                    GridValue(a2, static_cast<int>(i2), plan.grid), &points[k], &refused[k]);
+      Result<Scenario> point =
+          ProbeScenario(work.scenario, a1.path, GridValue(a1, static_cast<int>(i1), plan.grid),
+                        a2.path, GridValue(a2, static_cast<int>(i2), plan.grid));
+      if (point) {
+        points[k] = std::move(*point);
+      } else {
+        refused[k] = point.error();
+      }
     }
   }
   // Tasks: controller by controller, point by point, seed by seed; only what can run.

@@ -60,10 +60,9 @@ struct EnvelopePlan {
 };
 
 // Resolves the defaults and checks them against `scenario`: the parameters exist, the range is
-// not empty, and both ends (every map corner) give a valid scenario. False and *error otherwise
+// not empty, and both ends (every map corner) give a valid scenario. Otherwise why not
 // ("timeline/push[1].peak_N: the scenario's value is 0; give --lo and --hi").
-bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, EnvelopePlan* plan,
-                  std::string* error);
+Result<EnvelopePlan> PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options);
 
 // One probe of a bisection: the value and how its seeds went.
 struct ProbeRecord {
