@@ -61,13 +61,16 @@ std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
   for (std::size_t i = 0; i < scenario.controllers.size(); ++i) {
     const runner::ControllerEntry& entry = scenario.controllers[i];
     const runner::LoadedModule& loaded = modules.Get(entry);
-    std::string problem = loaded.error;
-    if (loaded.module) {
-      problem = runner::RunStartProblem(scenario, i, loaded.module);
-      if (problem.empty()) continue;
+    std::string problem;
+    if (!loaded) {
+      problem = loaded.error();
+    } else {
+      const Status start = runner::CheckRunStart(scenario, i, *loaded);
+      if (start) continue;
+      problem = start.error();
       // The host names the module by its own name and file; the message names the controller.
-      const std::string host_lead =
-          "controller '" + loaded.module->name() + "' (" + loaded.module->path() + "): ";
+      const host::Module& module = **loaded;
+      const std::string host_lead = "controller '" + module.name() + "' (" + module.path() + "): ";
       if (problem.rfind(host_lead, 0) == 0) problem.erase(0, host_lead.size());
     }
     problems.push_back(

@@ -164,7 +164,7 @@ TEST(Envelope, PushPeakIsBracketedAndTheSurvivedValueSurvives) {
     Scenario probe = s;
     const Status set = SetScenarioParameter(&probe, options.param, value);
     ASSERT_TRUE(set) << set.error();
-    const RunResult run = RunOne(probe, 0, 1, module, "", run_options);
+    const RunResult run = RunOne(probe, 0, 1, module, run_options);
     EXPECT_EQ(run.metrics.status == RunStatus::kOk, value == lqr.bisect.survived_value)
         << value << ": " << run.metrics.message;
   }
@@ -173,7 +173,7 @@ TEST(Envelope, PushPeakIsBracketedAndTheSurvivedValueSurvives) {
   Scenario full = s;
   const Status set = SetScenarioParameter(&full, options.param, lqr.bisect.survived_value);
   ASSERT_TRUE(set) << set.error();
-  EXPECT_EQ(RunOne(full, 0, 1, module, "", RunOptions{}).metrics.status, RunStatus::kOk);
+  EXPECT_EQ(RunOne(full, 0, 1, module, RunOptions{}).metrics.status, RunStatus::kOk);
 }
 
 TEST(Envelope, ReportsBothEndsHonestlyWithoutBisecting) {

@@ -68,8 +68,7 @@ struct RunVerdict {
 // One run of one probe scenario, never throwing.
 RunVerdict RunProbe(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
                     const LoadedModule& loaded, const RunOptions& run_options) {
-  const RunResult r =
-      RunOneSafely(scenario, controller, seed, loaded.module, loaded.error, run_options);
+  const RunResult r = RunOneSafely(scenario, controller, seed, loaded, run_options);
   return {r.metrics.status, r.metrics.message};
 }
 
@@ -253,8 +252,8 @@ void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
     ControllerEnvelope envelope;
     envelope.controller = scenario.controllers[c].name;
     envelope.baseline = c == scenario.baseline;
-    if (!work.modules[c]->module) {
-      envelope.setup_error = work.modules[c]->error;
+    if (!*work.modules[c]) {
+      envelope.setup_error = work.modules[c]->error();
       active[c] = false;
       work.progress.Set(c, 0);
     }
@@ -384,7 +383,7 @@ void MapGrid(EnvelopeWork& work, EnvelopeResult* result) {
   };
   std::vector<MapTask> tasks;
   for (std::size_t c = 0; c < n_controllers; ++c) {
-    if (!work.modules[c]->module) continue;
+    if (!*work.modules[c]) continue;
     for (std::size_t k = 0; k < n_points; ++k) {
       if (!refused[k].empty()) continue;
       for (std::size_t s = 0; s < n_seeds; ++s) tasks.push_back({c, k, s});
@@ -406,13 +405,13 @@ void MapGrid(EnvelopeWork& work, EnvelopeResult* result) {
   for (std::size_t c = 0; c < n_controllers; ++c) {
     ControllerMap map;
     map.controller = work.scenario.controllers[c].name;
-    if (!work.modules[c]->module) map.setup_error = work.modules[c]->error;
+    if (!*work.modules[c]) map.setup_error = work.modules[c]->error();
     for (std::size_t k = 0; k < n_points; ++k) {
       MapPoint point;
       point.value = GridValue(a1, static_cast<int>(k % grid), plan.grid);
       point.value2 = GridValue(a2, static_cast<int>(k / grid), plan.grid);
       point.seeds = static_cast<int>(n_seeds);
-      if (!work.modules[c]->module) {
+      if (!*work.modules[c]) {
         point.setup_failed = true;
       } else if (!refused[k].empty()) {
         point.setup_failed = true;

@@ -93,9 +93,9 @@ BatchResult RunBatch(const std::vector<Scenario>& scenarios, const BatchOptions&
       [&](std::size_t i) {
         const RunSlot& slot = slots[i];
         const Scenario& scenario = scenarios[slot.scenario];
-        const LoadedModule& loaded = modules.Get(scenario.controllers[slot.controller]);
-        batch.runs[i] = RunOneSafely(scenario, slot.controller, slot.seed, loaded.module,
-                                     loaded.error, options.run);
+        batch.runs[i] =
+            RunOneSafely(scenario, slot.controller, slot.seed,
+                         modules.Get(scenario.controllers[slot.controller]), options.run);
       },
       [&] {
         ++done;

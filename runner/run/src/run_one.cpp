@@ -109,12 +109,12 @@ void AddLinearTwin(const Scenario& scenario, std::size_t controller,
     plan.path_x_m.push_back(timeline.path_x_m());
     plan.path_y_m.push_back(timeline.path_y_m());
   }
-  TwinRun twin;
-  std::string error;
-  if (!RunLinearTwin(scenario, controller, module, plan, &twin, &error)) {
-    result->gap.twin_message = "not run: " + error;
+  const Result<TwinRun> ran = RunLinearTwin(scenario, controller, module, plan);
+  if (!ran) {
+    result->gap.twin_message = "not run: " + ran.error();
     return;
   }
+  const TwinRun& twin = *ran;
   result->gap = CompareTwin(twin.series, plant);
   result->gap.not_modelled = NotModelled(scenario);
   result->gap.twin_message = twin.message;
@@ -134,40 +134,42 @@ struct RunStart {
   std::unique_ptr<sim::Plant> plant;
 };
 
-// Sets up the run of `controller` with `seed`: false and *error (the run's setup_failed message)
-// when the module refuses its settings or the plant refuses the scenario.
-bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-              const std::shared_ptr<host::Module>& module, RunStart* start, std::string* error) {
+// Sets up the run of `controller` with `seed`, or says why it cannot start (the run's
+// setup_failed message): the module refuses its settings or the plant refuses the scenario.
+Result<RunStart> StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                          const std::shared_ptr<host::Module>& module) {
   const ControllerEntry& entry = scenario.controllers.at(controller);
+  std::string error;  // the host and the plant say what is wrong here
+  RunStart start;
   // The controller first: the plant's drive mode is the module's.
   host::ControllerSpec spec;
   spec.module = module;
   spec.config = entry.config;
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
-  start->host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
-  if (!start->host) return false;
+  start.host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
+  if (!start.host) return Failure(error);
 
   sim::PlantOptions plant_options;
   plant_options.dt_s = scenario.dt_s;
   plant_options.solver_iterations = scenario.solver_iterations;
   plant_options.terrain = scenario.terrain;
   plant_options.initial = scenario.initial;
-  plant_options.drive = start->host->drive();
+  plant_options.drive = start.host->drive();
   plant_options.seed = seed;
   plant_options.sensor_noise = scenario.sensor_noise;
-  start->plant = sim::Plant::Create(scenario.built_model(), plant_options, error);
-  if (!start->plant) return false;
+  start.plant = sim::Plant::Create(scenario.built_model(), plant_options, &error);
+  if (!start.plant) return Failure(error);
   for (const auto& p : scenario.pushes) {
-    if (!start->plant->AddPush(p, error)) return false;
+    if (!start.plant->AddPush(p, &error)) return Failure(error);
   }
   for (const auto& f : scenario.motor_faults) {
-    if (!start->plant->AddMotorFault(f, error)) return false;
+    if (!start.plant->AddMotorFault(f, &error)) return Failure(error);
   }
   for (const auto& f : scenario.sensor_faults) {
-    if (!start->plant->AddSensorFault(f, error)) return false;
+    if (!start.plant->AddSensorFault(f, &error)) return Failure(error);
   }
-  return true;
+  return start;
 }
 
 }  // namespace
@@ -185,8 +187,7 @@ Status RunOptions::Validate() const {
 }
 
 RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                 const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                 const RunOptions& options) {
+                 const LoadedModule& module, const RunOptions& options) {
   const auto wall_start = std::chrono::steady_clock::now();
   RunResult result;
   result.scenario = scenario.name;
@@ -200,16 +201,14 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
         std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
     return result;
   };
-  std::string error;
   if (const Status valid = options.Validate(); !valid) {
     return finish(RunStatus::kSetupFailed, valid.error());
   }
-  if (!module) return finish(RunStatus::kSetupFailed, load_error);
+  if (!module) return finish(RunStatus::kSetupFailed, module.error());
 
-  RunStart start;
-  if (!StartRun(scenario, controller, seed, module, &start, &error)) {
-    return finish(RunStatus::kSetupFailed, error);
-  }
+  Result<RunStart> started = StartRun(scenario, controller, seed, *module);
+  if (!started) return finish(RunStatus::kSetupFailed, started.error());
+  RunStart& start = *started;
   const std::unique_ptr<host::ControllerHost>& host = start.host;
   const std::unique_ptr<sim::Plant>& plant = start.plant;
 
@@ -324,19 +323,19 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
   }
   result.steps = plant->step_count();
   if (options.linear_twin) {
-    AddLinearTwin(scenario, controller, module, plant_series, total_steps, &result);
+    AddLinearTwin(scenario, controller, *module, plant_series, total_steps, &result);
   }
   result.metrics = recorder.Finish(status, message);
   const RunMetrics metrics = result.metrics;
   return finish(metrics.status, metrics.message);
 }
 
-std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
-                            const std::shared_ptr<host::Module>& module) {
-  RunStart start;
-  std::string error;
+Status CheckRunStart(const Scenario& scenario, std::size_t controller,
+                     const std::shared_ptr<host::Module>& module) {
   const std::uint64_t seed = scenario.seeds.empty() ? 1 : scenario.seeds.front();
-  return StartRun(scenario, controller, seed, module, &start, &error) ? "" : error;
+  const Result<RunStart> started = StartRun(scenario, controller, seed, module);
+  if (!started) return Failure(started.error());
+  return {};
 }
 
 RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
@@ -352,10 +351,9 @@ RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::
 }
 
 RunResult RunOneSafely(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                       const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                       const RunOptions& options) {
+                       const LoadedModule& module, const RunOptions& options) {
   try {
-    return RunOne(scenario, controller, seed, module, load_error, options);
+    return RunOne(scenario, controller, seed, module, options);
   } catch (const std::exception& e) {
     return SetupFailedRun(scenario, controller, seed,
                           std::string("the run stopped on an error: ") + e.what());

@@ -46,8 +46,8 @@ SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& option
   const ModuleSet modules({&scenario, 1}, options.module_dirs);
   for (const ControllerEntry& entry : scenario.controllers) {
     const LoadedModule& loaded = modules.Get(entry);
-    if (!loaded.module) {
-      result.module_error = "controller '" + entry.name + "': " + loaded.error;
+    if (!loaded) {
+      result.module_error = "controller '" + entry.name + "': " + loaded.error();
       return result;
     }
   }
@@ -84,9 +84,8 @@ SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& option
           result.runs[slot] = SetupFailedRun(scenario, c, sample.noise_seed,
                                              "sample " + std::to_string(i) + ": " + sample.error);
         } else {
-          result.runs[slot] =
-              RunOneSafely(sampled[i], c, sample.noise_seed,
-                           modules.Get(scenario.controllers[c]).module, "", run_options);
+          result.runs[slot] = RunOneSafely(sampled[i], c, sample.noise_seed,
+                                           modules.Get(scenario.controllers[c]), run_options);
         }
       },
       [&] {

@@ -40,13 +40,11 @@ void FillTruth(double time_s, const design::StateVector& x, double equilibrium_p
 
 }  // namespace
 
-bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
-                   const std::shared_ptr<host::Module>& module, const DrivePlan& plan, TwinRun* out,
-                   std::string* error) {
+Result<TwinRun> RunLinearTwin(const Scenario& scenario, std::size_t controller,
+                              const std::shared_ptr<host::Module>& module, const DrivePlan& plan) {
   const std::size_t steps = plan.reference.size();
   if (plan.path_x_m.size() != steps || plan.path_y_m.size() != steps) {
-    if (error) *error = "DrivePlan: reference, path_x_m and path_y_m differ in length";
-    return false;
+    return Failure("DrivePlan: reference, path_x_m and path_y_m differ in length");
   }
   const ControllerEntry& entry = scenario.controllers.at(controller);
   host::ControllerSpec spec;
@@ -54,8 +52,9 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
   spec.config = entry.config;
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
-  const auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
-  if (!host) return false;
+  std::string error;  // the host says what is wrong here
+  const auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
+  if (!host) return Failure(error);
 
   const RobotModel& robot = scenario.built_model();
   const design::InputKind input = host->drive() == sim::DriveMode::kTorque
@@ -71,8 +70,7 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
   const TwinSensorGeometry geometry = SensorGeometry(robot, equilibrium_pitch_rad, x(kPitch));
   double world_x_m = scenario.initial.x_m, world_y_m = 0;
 
-  TwinRun& run = *out;
-  run = TwinRun{};
+  TwinRun run;
   run.series.dt_s = dt_s;
   run.series.Reserve(steps + 1);
   run.pitch_rad.reserve(steps + 1);
@@ -125,7 +123,7 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
       break;
     }
   }
-  return true;
+  return run;
 }
 
 }  // namespace upright::runner

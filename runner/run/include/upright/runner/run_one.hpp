@@ -11,6 +11,7 @@
 
 #include "upright/base/result.hpp"
 #include "upright/host/module.hpp"
+#include "upright/runner/modules.hpp"
 #include "upright/runner/run_result.hpp"
 #include "upright/runner/scenario.hpp"
 
@@ -32,17 +33,17 @@ struct RunOptions {
 };
 
 // Runs controller `controller` (index into scenario.controllers) with noise seed `seed`, using the
-// already loaded `module` (null: the run is a kSetupFailed result carrying `load_error`).
+// already loaded `module` (a module that did not load: the run is a kSetupFailed result carrying
+// why).
 RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                 const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                 const RunOptions& options);
+                 const LoadedModule& module, const RunOptions& options);
 
-// Why a run of controller `controller` (index into scenario.controllers) with the already loaded
-// `module` could not start, or "" when it could: the module's create refusing the robot, its
-// settings or its rate, or the plant refusing the scenario — RunOne's own set-up and message
-// (seed: the scenario's first), nothing stepped. `upright check` asks this of every controller.
-std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
-                            const std::shared_ptr<host::Module>& module);
+// Whether a run of controller `controller` (index into scenario.controllers) with the already
+// loaded `module` can start, or why not: the module's create refusing the robot, its settings or
+// its rate, or the plant refusing the scenario — RunOne's own set-up and message (seed: the
+// scenario's first), nothing stepped. `upright check` asks this of every controller.
+Status CheckRunStart(const Scenario& scenario, std::size_t controller,
+                     const std::shared_ptr<host::Module>& module);
 
 // The row of a run that could not happen: controller `controller` of `scenario` with `seed`,
 // status kSetupFailed and `message`, nothing else filled in.
@@ -52,7 +53,6 @@ RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::
 // RunOne for a worker thread: never throws. An exception (out of memory and the like) becomes a
 // SetupFailedRun with the message "the run stopped on an error: <what>".
 RunResult RunOneSafely(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                       const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                       const RunOptions& options);
+                       const LoadedModule& module, const RunOptions& options);
 
 }  // namespace upright::runner

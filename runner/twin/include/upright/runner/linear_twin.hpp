@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/host/module.hpp"
 #include "upright/runner/scenario.hpp"
@@ -38,9 +39,8 @@ struct TwinRun {
 // module's drive mode: wheel torque in N·m, or motor voltage with back-EMF and viscous friction;
 // the module is created for scenario.model, as in a physics run. A module fault, or a tilt beyond
 // 90° (outside any linear model) or non-finite, stops the twin with TwinRun::message saying why.
-// False and *error when the module cannot be created or the plan's lists differ in length.
-bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
-                   const std::shared_ptr<host::Module>& module, const DrivePlan& plan, TwinRun* out,
-                   std::string* error);
+// Fails when the module cannot be created or the plan's lists differ in length.
+Result<TwinRun> RunLinearTwin(const Scenario& scenario, std::size_t controller,
+                              const std::shared_ptr<host::Module>& module, const DrivePlan& plan);
 
 }  // namespace upright::runner
