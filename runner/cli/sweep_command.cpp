@@ -47,12 +47,13 @@ int RunSweep(const SweepCommandOptions& options) {
       scenario.name.c_str(), options.samples, scenario.controllers.size(), total,
       static_cast<unsigned long long>(options.seed), out_dir.c_str());
   std::fflush(stdout);
-  const runner::SweepResult result =
+  const Result<runner::SweepResult> swept =
       runner::RunSweepSamples(scenario, sweep_options, UPRIGHT_VERSION, progress_line.Callback());
-  if (!result.module_error.empty()) {
-    std::cerr << options.scenario_path << ": " << result.module_error << "; nothing was run\n";
+  if (!swept) {
+    std::cerr << options.scenario_path << ": " << swept.error() << "; nothing was run\n";
     return kExitFailed;
   }
+  const runner::SweepResult& result = *swept;
   if (const Status written = runner::WriteSweepResults(out_dir, result); !written) {
     std::cerr << written.error() << "\n";
     return kExitFailed;

@@ -5,6 +5,7 @@
 #include <limits>
 #include <sstream>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "run_test_support.hpp"
@@ -38,12 +39,19 @@ const char* kShortSweep = R"(<scenario name="short-sweep" schema="1" duration_s=
   </dispersions>
 </scenario>)";
 
-SweepResult Sweep(const Scenario& scenario, int samples, int jobs) {
+Result<SweepResult> TrySweep(const Scenario& scenario, int samples, int jobs) {
   SweepOptions options;
   options.samples = samples;
   options.seed = 20;
   options.jobs = jobs;
   return RunSweepSamples(scenario, options, "test", nullptr);
+}
+
+// The sweep of `scenario`; a test failure (and an exception ending the test) when it cannot run.
+SweepResult Sweep(const Scenario& scenario, int samples, int jobs) {
+  Result<SweepResult> swept = TrySweep(scenario, samples, jobs);
+  EXPECT_TRUE(swept) << (swept ? "" : swept.error());
+  return std::move(swept).value();
 }
 
 std::vector<std::string> Lines(const std::string& text) {
@@ -170,10 +178,9 @@ TEST_F(SweepRun, AModuleThatWillNotLoadStopsTheSweep) {
   Scenario broken = *scenario_;
   broken.controllers[1].builtin = false;
   broken.controllers[1].module = "/nonexistent/upright_nothing.so";
-  const SweepResult result = Sweep(broken, 3, 1);
-  EXPECT_NE(result.module_error.find("controller 'pid': "), std::string::npos)
-      << result.module_error;
-  EXPECT_TRUE(result.runs.empty());
+  const Result<SweepResult> result = TrySweep(broken, 3, 1);
+  ASSERT_FALSE(result);
+  EXPECT_NE(result.error().find("controller 'pid': "), std::string::npos) << result.error();
 }
 
 // A sample that could not be drawn leaves runs that were never played: sweep.csv prints their

@@ -26,8 +26,8 @@ Status SweepOptions::Validate() const {
   return Failure(why.str());
 }
 
-SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
-                            const std::string& tool_version, const ProgressFn& progress) {
+Result<SweepResult> RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
+                                    const std::string& tool_version, const ProgressFn& progress) {
   UPRIGHT_CHECK(!scenario.dispersions.empty(), "a sweep needs dispersions");
   const Status valid = options.Validate();
   UPRIGHT_CHECK(valid, "%s", valid.error().c_str());
@@ -46,10 +46,7 @@ SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& option
   const ModuleSet modules({&scenario, 1}, options.module_dirs);
   for (const ControllerEntry& entry : scenario.controllers) {
     const LoadedModule& loaded = modules.Get(entry);
-    if (!loaded) {
-      result.module_error = "controller '" + entry.name + "': " + loaded.error();
-      return result;
-    }
+    if (!loaded) return Failure("controller '" + entry.name + "': " + loaded.error());
   }
 
   // The samples, in order (each depends only on the sweep seed and its index).

@@ -43,8 +43,6 @@ struct SweepResult {
   std::vector<SweepSample> samples;
   // Sample by sample, controller by controller (scenario order): runs[i · C + c].
   std::vector<RunResult> runs;
-  // "" or why a controller module could not be loaded; then nothing ran and runs is empty.
-  std::string module_error;
   int jobs = 1;
   double wall_s = 0;  // manifest only
 
@@ -55,10 +53,11 @@ struct SweepResult {
 };
 
 // Runs `scenario`'s sweep. Needs at least one dispersion (UPRIGHT_CHECK). Module files are loaded
-// once each before any run; one that will not load stops the sweep with module_error. `progress`
-// is called after each finished run, one call at a time. No traces are recorded.
-SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
-                            const std::string& tool_version, const ProgressFn& progress);
+// once each before any run; one that will not load stops the sweep before it starts, the message
+// naming the controller ("controller 'pid': ..."). `progress` is called after each finished run,
+// one call at a time. No traces are recorded.
+Result<SweepResult> RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
+                                    const std::string& tool_version, const ProgressFn& progress);
 
 // How many samples controller `controller` survived (status ok; a failed set-up counts as not).
 std::size_t CountSurvived(const SweepResult& result, std::size_t controller);
