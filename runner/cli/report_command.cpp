@@ -19,20 +19,20 @@ CLI::App* AddReportCommand(CLI::App* app, std::string* dir) {
 }
 
 int RunReport(const std::string& dir) {
-  const runner::ReportOutcome outcome = runner::MakeReport(dir);
-  switch (outcome.status) {
-    case runner::ReportStatus::kWritten:
-      break;
-    case runner::ReportStatus::kNoResults:
-    case runner::ReportStatus::kBadInput:
-      std::fprintf(stderr, "%s\n", outcome.message.c_str());
-      return kExitBadInput;
-    case runner::ReportStatus::kWriteFailed:
-      std::fprintf(stderr, "%s\n", outcome.message.c_str());
-      return kExitFailed;
+  const Result<runner::ReportWritten, runner::ReportFailure> made = runner::MakeReport(dir);
+  if (!made) {
+    std::fprintf(stderr, "%s\n", made.error().message.c_str());
+    switch (made.error().problem) {
+      case runner::ReportProblem::kNoResults:
+      case runner::ReportProblem::kBadInput:
+        return kExitBadInput;
+      case runner::ReportProblem::kWriteFailed:
+        return kExitFailed;
+    }
+    return kExitFailed;
   }
-  std::printf("upright report: %s (%.1f kB, %zu results folder(s))\n", outcome.path.c_str(),
-              static_cast<double>(outcome.bytes) / 1000.0, outcome.folders);
+  std::printf("upright report: %s (%.1f kB, %zu results folder(s))\n", made->path.c_str(),
+              static_cast<double>(made->bytes) / 1000.0, made->folders);
   std::printf("%s\n", kCaution);
   return kExitOk;
 }

@@ -213,13 +213,13 @@ int RunDemo(const RunCommandOptions& options) {
   std::printf("\nupright demo: the same shove on 50 robots drawn from its spreads\n");
   if (const int code = RunSweep(sweep); code != kExitOk) return code;
 
-  std::string report_path, error;
-  if (!runner::WriteReport(demo.out_dir, &report_path, &error)) {
-    std::cerr << error << "\n";
+  const Result<std::string> report_path = runner::WriteReport(demo.out_dir);
+  if (!report_path) {
+    std::cerr << report_path.error() << "\n";
     return kExitFailed;
   }
   std::printf("\n%s\n", kCaution);
-  std::printf("report: %s (open it in any browser; it needs no network)\n", report_path.c_str());
+  std::printf("report: %s (open it in any browser; it needs no network)\n", report_path->c_str());
   return kExitOk;
 }
 

@@ -231,12 +231,9 @@ TEST(Cli, DesignWithAnInfeasibleGammaReportsItInPlaceAndExitsThree) {
 // `upright design --json ARGS` parsed; stderr left out.
 JsonValue DesignJson(const std::string& args) {
   const Result r = RunUpright("design --json " + args, "", "2>/dev/null");
-  JsonValue value;
-  std::string error;
-  EXPECT_TRUE(upright::runner::report::ParseJson(r.output, "design", &value, &error))
-      << error << "\n"
-      << r.output;
-  return value;
+  const upright::Result<JsonValue> value = upright::runner::report::ParseJson(r.output, "design");
+  EXPECT_TRUE(value) << value.error() << "\n" << r.output;
+  return value.value_or(JsonValue{});
 }
 
 double NumberAt(const JsonValue& object, const char* key) {

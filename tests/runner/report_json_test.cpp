@@ -13,17 +13,16 @@ namespace upright::runner::report {
 namespace {
 
 JsonValue Parse(std::string_view text) {
-  JsonValue value;
-  std::string error;
-  EXPECT_TRUE(ParseJson(text, "m.json", &value, &error)) << error;
-  return value;
+  const Result<JsonValue> value = ParseJson(text, "m.json");
+  EXPECT_TRUE(value) << value.error();
+  return value.value_or(JsonValue{});
 }
 
+// Why `text` is refused; a test failure, and "", when it is not.
 std::string ErrorOf(std::string_view text) {
-  JsonValue value;
-  std::string error;
-  EXPECT_FALSE(ParseJson(text, "m.json", &value, &error));
-  return error;
+  const Result<JsonValue> value = ParseJson(text, "m.json");
+  EXPECT_FALSE(value);
+  return value ? "" : value.error();
 }
 
 TEST(JsonReader, ReadsEveryKindOfValue) {
@@ -83,9 +82,9 @@ TEST(Manifest, TakesInputsRunsAndParameters) {
   "parameter": {"path": "timeline/push[1].peak_N", "unit": "N", "scenario_value": 160,
                 "lo": 40, "hi": 640}
 })";
-  ManifestInfo info;
-  std::string error;
-  ASSERT_TRUE(ReadManifest(dir.string(), &info, &error)) << error;
+  const Result<ManifestInfo> read = ReadManifest(dir.string());
+  ASSERT_TRUE(read) << read.error();
+  const ManifestInfo& info = *read;
   EXPECT_TRUE(info.present);
   EXPECT_EQ(info.tool_version, "9.9");
   EXPECT_EQ(info.command, "envelope");
@@ -103,10 +102,9 @@ TEST(Manifest, TakesInputsRunsAndParameters) {
 
 TEST(Manifest, AbsentIsNotAnError) {
   const auto dir = runner::testing::ScratchDir("report-no-manifest");
-  ManifestInfo info;
-  std::string error;
-  EXPECT_TRUE(ReadManifest(dir.string(), &info, &error));
-  EXPECT_FALSE(info.present);
+  const Result<ManifestInfo> info = ReadManifest(dir.string());
+  ASSERT_TRUE(info) << info.error();
+  EXPECT_FALSE(info->present);
 }
 
 }  // namespace

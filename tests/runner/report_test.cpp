@@ -92,15 +92,16 @@ std::size_t PathPoints(const std::string& d) {
 }
 
 struct Report {
-  ReportOutcome outcome;
+  ReportWritten written;
   std::string html;
   tinyxml2::XMLDocument doc;
 };
 
 void MakeAndParse(const fs::path& dir, const ReportOptions& options, Report* report) {
-  report->outcome = MakeReport(dir.string(), options);
-  ASSERT_EQ(report->outcome.status, ReportStatus::kWritten) << report->outcome.message;
-  report->html = ReadFile(report->outcome.path);
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string(), options);
+  ASSERT_TRUE(made) << made.error().message;
+  report->written = *made;
+  report->html = ReadFile(report->written.path);
   ASSERT_EQ(report->doc.Parse(report->html.c_str(), report->html.size()), tinyxml2::XML_SUCCESS)
       << report->doc.ErrorStr();
 }
@@ -218,9 +219,9 @@ TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
 
   // Every verdict of compare.csv shows with the mark compare.md gives it (one convention,
   // upright/runner/verdict.hpp): a symbol and a word, not colour alone, and not the old arrows.
-  CsvTable compare;
-  std::string error;
-  ASSERT_TRUE(ReadCsvFile((run.dir / "compare.csv").string(), &compare, &error)) << error;
+  const Result<CsvTable> read = ReadCsvFile((run.dir / "compare.csv").string());
+  ASSERT_TRUE(read) << read.error();
+  const CsvTable& compare = *read;
   const int verdict_column = compare.Column("verdict");
   const int direction_column = compare.Column("direction");
   ASSERT_GE(verdict_column, 0);
@@ -282,9 +283,9 @@ TEST(Report, ReferencesNothingOutsideAndStaysSmall) {
       EXPECT_EQ(href[0], '#') << href;
     }
   });
-  std::printf("report of the small run: %zu bytes\n", report.outcome.bytes);
-  EXPECT_EQ(report.outcome.bytes, html.size());
-  EXPECT_LT(report.outcome.bytes, 2u * 1000 * 1000);
+  std::printf("report of the small run: %zu bytes\n", report.written.bytes);
+  EXPECT_EQ(report.written.bytes, html.size());
+  EXPECT_LT(report.written.bytes, 2u * 1000 * 1000);
 }
 
 TEST(Report, SameResultsGiveTheSameBytes) {
@@ -356,24 +357,28 @@ TEST(Report, PlotsAreThinnedToTheirBound) {
 TEST(Report, AFolderWithoutResultsIsRefusedNamingWhatWasLookedFor) {
   const auto dir = ScratchDir("report-empty");
   fs::create_directories(dir / "sub" / "traces");
-  const ReportOutcome outcome = MakeReport(dir.string());
-  EXPECT_EQ(outcome.status, ReportStatus::kNoResults);
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kNoResults);
+  const std::string& message = made.error().message;
   for (const char* name : {"summary.csv", "envelope.csv", "sweep.csv"}) {
-    EXPECT_NE(outcome.message.find(name), std::string::npos) << outcome.message;
+    EXPECT_NE(message.find(name), std::string::npos) << message;
   }
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
-  std::string path, error;
-  EXPECT_FALSE(WriteReport(dir.string(), &path, &error));
-  EXPECT_EQ(error, outcome.message);
+  const Result<std::string> written = WriteReport(dir.string());
+  ASSERT_FALSE(written);
+  EXPECT_EQ(written.error(), message);
 }
 
 TEST(Report, AMalformedTableIsRefusedWithItsLine) {
   const auto dir = ScratchDir("report-bad");
   std::ofstream(dir / "summary.csv") << "scenario,controller,seed,status\ns,lqr,1,\"ok\n";
-  const ReportOutcome outcome = MakeReport(dir.string());
-  EXPECT_EQ(outcome.status, ReportStatus::kBadInput);
-  EXPECT_EQ(outcome.message, (dir / "summary.csv").string() +
-                                 ":2: a quoted field is never closed (expected a closing '\"')");
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kBadInput);
+  EXPECT_EQ(made.error().message,
+            (dir / "summary.csv").string() +
+                ":2: a quoted field is never closed (expected a closing '\"')");
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
 }
 
@@ -383,9 +388,10 @@ TEST(Report, ASurvivedCellThatIsNotTrueOrFalseIsRefusedWithItsLine) {
   const auto dir = ScratchDir("report-bad-bool");
   std::ofstream(dir / "sweep.csv") << "sample,controller,status,survived\n0,lqr,ok,true\n"
                                       "1,lqr,ok,1\n";
-  const ReportOutcome outcome = MakeReport(dir.string());
-  EXPECT_EQ(outcome.status, ReportStatus::kBadInput);
-  EXPECT_EQ(outcome.message,
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kBadInput);
+  EXPECT_EQ(made.error().message,
             (dir / "sweep.csv").string() + ":3: survived = '1': expected true or false");
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
 }
@@ -396,7 +402,11 @@ TEST(Report, OptionsAreChecked) {
   const Status valid = options.Validate();
   ASSERT_FALSE(valid);
   EXPECT_EQ(valid.error(), "ReportOptions::max_points = 3, must be >= 4");
-  EXPECT_EQ(MakeReport(SmallRunFolder().dir.string(), options).status, ReportStatus::kBadInput);
+  const Result<ReportWritten, ReportFailure> made =
+      MakeReport(SmallRunFolder().dir.string(), options);
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kBadInput);
+  EXPECT_EQ(made.error().message, valid.error());
 }
 
 using Outcome = testing::ProgramOutcome;

@@ -44,28 +44,27 @@ std::string Note(const std::vector<std::string>& row, int outcome, int survived,
 }
 
 // envelope_map.csv into one map per controller, in file order.
-bool AppendMaps(const std::string& path, const std::string& scenario_name,
-                const ResultsFolder& folder, const ManifestInfo& manifest, ReportPage* page,
-                std::string* error) {
-  CsvTable map_table;
-  if (!ReadCsvFile(path, &map_table, error)) return false;
+Status AppendMaps(const std::string& path, const std::string& scenario_name,
+                  const ResultsFolder& folder, const ManifestInfo& manifest, ReportPage* page) {
+  const Result<CsvTable> read = ReadCsvFile(path);
+  if (!read) return Failure(read.error());
+  const CsvTable& map_table = *read;
   const char* kNames[] = {"controller", "parameter", "value",          "parameter2",
                           "value2",     "survived",  "seeds_survived", "seeds"};
   int c[8];
   for (int k = 0; k < 8; ++k) {
     c[k] = map_table.Column(kNames[k]);
     if (c[k] < 0) {
-      *error = path + ":1: no column '" + std::string(kNames[k]) + "' in the header";
-      return false;
+      return Failure(path + ":1: no column '" + std::string(kNames[k]) + "' in the header");
     }
   }
-  if (map_table.rows.empty()) return true;
+  if (map_table.rows.empty()) return {};
   // Every survived cell read before anything is drawn: true, false, or the table is refused.
   std::vector<bool> all_survived(map_table.rows.size());
   for (std::size_t r = 0; r < map_table.rows.size(); ++r) {
-    bool survived = false;
-    if (!CsvBoolAt(map_table, r, c[5], path, &survived, error)) return false;
-    all_survived[r] = survived;
+    const Result<bool> survived = CsvBoolAt(map_table, r, c[5], path);
+    if (!survived) return Failure(survived.error());
+    all_survived[r] = *survived;
   }
   std::string unit1, unit2;
   if (manifest.parameters.size() >= 2) {
@@ -122,16 +121,17 @@ bool AppendMaps(const std::string& path, const std::string& scenario_name,
     page->body += RenderSurvivalMap(map);
   }
   page->body += "</div>";
-  return true;
+  return {};
 }
 
 }  // namespace
 
-bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& manifest,
-                           ReportPage* page, std::string* error) {
+Status AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                             ReportPage* page) {
   const std::string path = (fs::path(folder.path) / "envelope.csv").string();
-  CsvTable table;
-  if (!ReadCsvFile(path, &table, error)) return false;
+  const Result<CsvTable> read = ReadCsvFile(path);
+  if (!read) return Failure(read.error());
+  const CsvTable& table = *read;
   const char* kNames[] = {
       "scenario",  "controller",     "parameter",           "unit",    "lo",     "hi",
       "direction", "survived_value", "first_failing_value", "outcome", "message"};
@@ -139,8 +139,7 @@ bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& mani
   for (int k = 0; k < 11; ++k) {
     c[k] = table.Column(kNames[k]);
     if (c[k] < 0) {
-      *error = path + ":1: no column '" + std::string(kNames[k]) + "' in the header";
-      return false;
+      return Failure(path + ":1: no column '" + std::string(kNames[k]) + "' in the header");
     }
   }
   const std::string section_id = folder.id + "envelope";
@@ -150,7 +149,7 @@ bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& mani
   html += "<section><h2 id=\"" + section_id + "\">Survival envelope: " + Escape(where) + "</h2>";
   if (table.rows.empty()) {
     html += "<p class=\"muted\">envelope.csv holds no controller.</p></section>\n";
-    return true;
+    return {};
   }
   EnvelopeChart chart;
   const auto& first = table.rows.front();
@@ -192,12 +191,13 @@ bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& mani
   html += details.Html("Envelope (envelope.csv)");
   const std::string map_path = (fs::path(folder.path) / "envelope_map.csv").string();
   std::error_code ec;
-  if (fs::is_regular_file(map_path, ec) &&
-      !AppendMaps(map_path, chart.scenario, folder, manifest, page, error)) {
-    return false;
+  if (fs::is_regular_file(map_path, ec)) {
+    if (Status maps = AppendMaps(map_path, chart.scenario, folder, manifest, page); !maps) {
+      return maps;
+    }
   }
   page->body += "</section>\n";
-  return true;
+  return {};
 }
 
 }  // namespace upright::runner::report

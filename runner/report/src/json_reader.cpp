@@ -13,19 +13,16 @@ class JsonParser {
  public:
   JsonParser(std::string_view text, const std::string& path) : text_(text), path_(path) {}
 
-  bool Document(JsonValue* value, std::string* error) {
+  Result<JsonValue> Document() {
+    JsonValue value;
     SkipSpace();
-    if (!Value(value, 0)) {
-      *error = error_;
-      return false;
-    }
+    if (!Value(&value, 0)) return Failure(error_);
     SkipSpace();
     if (at_ != text_.size()) {
       Fail("text after the document (expected the end of the file)");
-      *error = error_;
-      return false;
+      return Failure(error_);
     }
-    return true;
+    return value;
   }
 
  private:
@@ -278,10 +275,9 @@ std::string JsonValue::StringOr(std::string_view key, std::string_view fallback)
   return value->text;
 }
 
-bool ParseJson(std::string_view text, const std::string& path, JsonValue* value,
-               std::string* error) {
+Result<JsonValue> ParseJson(std::string_view text, const std::string& path) {
   JsonParser parser(text, path);
-  return parser.Document(value, error);
+  return parser.Document();
 }
 
 }  // namespace upright::runner::report

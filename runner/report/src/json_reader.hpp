@@ -7,6 +7,8 @@
 #include <utility>
 #include <vector>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner::report {
 
 enum class JsonKind { kNull, kBool, kNumber, kString, kArray, kObject };
@@ -25,9 +27,8 @@ struct JsonValue {
   std::string StringOr(std::string_view key, std::string_view fallback) const;
 };
 
-// Parses one JSON document (surrounding white space allowed). False and *error
+// Parses one JSON document (surrounding white space allowed). Fails
 // ("<path>:<line>: <what> (expected ...)") on malformed text or nesting deeper than 64.
-bool ParseJson(std::string_view text, const std::string& path, JsonValue* value,
-               std::string* error);
+Result<JsonValue> ParseJson(std::string_view text, const std::string& path);
 
 }  // namespace upright::runner::report

@@ -40,29 +40,28 @@ ManifestParameter ParameterFrom(const JsonValue& p) {
 
 }  // namespace
 
-bool ReadManifest(const std::string& dir, ManifestInfo* info, std::string* error) {
-  *info = ManifestInfo{};
+Result<ManifestInfo> ReadManifest(const std::string& dir) {
+  ManifestInfo info;
   const std::string path = (std::filesystem::path(dir) / "manifest.json").string();
   std::error_code ec;
-  if (!std::filesystem::is_regular_file(path, ec)) return true;
-  std::string text;
-  if (!ReadWholeFile(path, &text, error)) return false;
-  JsonValue root;
-  if (!ParseJson(text, path, &root, error)) return false;
-  if (root.kind != JsonKind::kObject) {
-    *error = path + ":1: the manifest is not a JSON object";
-    return false;
-  }
-  info->present = true;
-  info->tool_version = root.StringOr("tool_version", "");
-  info->command = root.StringOr("command", "");
+  if (!std::filesystem::is_regular_file(path, ec)) return info;
+  const Result<std::string> text = ReadWholeFile(path);
+  if (!text) return Failure(text.error());
+  const Result<JsonValue> parsed = ParseJson(*text, path);
+  if (!parsed) return Failure(parsed.error());
+  const JsonValue& root = *parsed;
+  if (root.kind != JsonKind::kObject)
+    return Failure(path + ":1: the manifest is not a JSON object");
+  info.present = true;
+  info.tool_version = root.StringOr("tool_version", "");
+  info.command = root.StringOr("command", "");
   if (const JsonValue* list = root.Find("scenarios"); list && list->kind == JsonKind::kArray) {
     for (const JsonValue& s : list->items) {
-      if (s.kind == JsonKind::kObject) info->scenarios.push_back(ScenarioFrom(s));
+      if (s.kind == JsonKind::kObject) info.scenarios.push_back(ScenarioFrom(s));
     }
   }
   if (const JsonValue* s = root.Find("scenario"); s && s->kind == JsonKind::kObject) {
-    info->scenarios.push_back(ScenarioFrom(*s));
+    info.scenarios.push_back(ScenarioFrom(*s));
   }
   if (const JsonValue* list = root.Find("runs"); list && list->kind == JsonKind::kArray) {
     for (const JsonValue& r : list->items) {
@@ -74,26 +73,26 @@ bool ReadManifest(const std::string& dir, ManifestInfo* info, std::string* error
         std::from_chars(seed->text.data(), seed->text.data() + seed->text.size(), run.seed);
       }
       run.trace = r.StringOr("trace", "");
-      info->runs.push_back(run);
+      info.runs.push_back(run);
     }
   }
   for (const char* key : {"parameter", "parameter2"}) {
     if (const JsonValue* p = root.Find(key); p && p->kind == JsonKind::kObject) {
-      info->parameters.push_back(ParameterFrom(*p));
+      info.parameters.push_back(ParameterFrom(*p));
     }
   }
   if (const JsonValue* list = root.Find("dispersions"); list && list->kind == JsonKind::kArray) {
     for (const JsonValue& d : list->items) {
-      if (d.kind == JsonKind::kObject) info->dispersions.push_back(ParameterFrom(d));
+      if (d.kind == JsonKind::kObject) info.dispersions.push_back(ParameterFrom(d));
     }
   }
   if (const JsonValue* seed = root.Find("seed"); seed && seed->kind == JsonKind::kNumber) {
-    info->sweep_seed = seed->text;
+    info.sweep_seed = seed->text;
   }
   if (const JsonValue* n = root.Find("samples"); n && n->kind == JsonKind::kNumber) {
-    info->samples = n->text;
+    info.samples = n->text;
   }
-  return true;
+  return info;
 }
 
 }  // namespace upright::runner::report
