@@ -71,8 +71,12 @@ CLI::App* AddEnvelopeCommand(CLI::App* app, EnvelopeCommandOptions* o) {
 }
 
 int RunEnvelope(const EnvelopeCommandOptions& options) {
-  runner::Scenario scenario;
-  if (!LoadScenarioOrSayWhy(options.scenario_path, &scenario)) return kExitBadInput;
+  const Result<runner::Scenario> loaded = LoadScenarioForRun(options.scenario_path);
+  if (!loaded) {
+    std::cerr << loaded.error() << "\n";
+    return kExitBadInput;
+  }
+  const runner::Scenario& scenario = *loaded;
   runner::EnvelopeOptions envelope_options;
   envelope_options.param = options.vary;
   envelope_options.lo = options.lo;

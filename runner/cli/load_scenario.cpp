@@ -1,21 +1,17 @@
 #include "load_scenario.hpp"
 
-#include <iostream>
 #include <utility>
 
 #include "upright/runner/scenario_file.hpp"
 
 namespace upright::cli {
 
-bool LoadScenarioOrSayWhy(const std::string& path, runner::Scenario* scenario) {
+Result<runner::Scenario> LoadScenarioForRun(const std::string& path) {
   runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-  if (!loaded) {
-    for (const auto& e : loaded.error()) std::cerr << e.ToString() << "\n";
-    std::cerr << path << ": invalid; nothing was run\n";
-    return false;
-  }
-  *scenario = std::move(*loaded);
-  return true;
+  if (loaded) return std::move(*loaded);
+  std::string lines;
+  for (const auto& e : loaded.error()) lines += e.ToString() + "\n";
+  return Failure(lines + path + ": invalid; nothing was run");
 }
 
 }  // namespace upright::cli

@@ -58,29 +58,29 @@ std::vector<std::string> ScenarioFilesIn(const fs::path& folder, std::error_code
   return files;
 }
 
-// The arguments with each folder replaced by its scenario files. False, the reason on stderr,
-// when a folder cannot be read or holds none.
-bool ExpandFolders(const std::vector<std::string>& args, std::vector<std::string>* files) {
+// The arguments with each folder replaced by its scenario files, or why a folder gives none (it
+// cannot be read or holds none).
+Result<std::vector<std::string>> ExpandFolders(const std::vector<std::string>& args) {
+  std::vector<std::string> files;
   for (const auto& arg : args) {
     std::error_code ec;
     if (!fs::is_directory(arg, ec)) {
-      files->push_back(arg);
+      files.push_back(arg);
       continue;
     }
     const std::vector<std::string> found = ScenarioFilesIn(arg, &ec);
     if (ec || found.empty()) {
-      std::cerr << arg << ": a folder with no scenario files (*.xml whose root is <scenario>)"
-                << (ec ? " (" + ec.message() + ")" : std::string()) << "; nothing was run\n";
-      return false;
+      return Failure(arg + ": a folder with no scenario files (*.xml whose root is <scenario>)" +
+                     (ec ? " (" + ec.message() + ")" : std::string()) + "; nothing was run");
     }
-    files->insert(files->end(), found.begin(), found.end());
+    files.insert(files.end(), found.begin(), found.end());
   }
-  return true;
+  return files;
 }
 
-// The demo suite: the scenario files in scenarios/ of the first data folder that has any.
-// Empty, with *error naming every folder looked in, when none has.
-std::vector<std::string> DemoScenarios(std::string* error) {
+// The demo suite: the scenario files in scenarios/ of the first data folder that has any, or a
+// message naming every folder looked in when none has.
+Result<std::vector<std::string>> DemoScenarios() {
   std::string looked;
   for (const fs::path& data : DataFolders()) {
     const fs::path folder = data / "scenarios";
@@ -90,16 +90,19 @@ std::vector<std::string> DemoScenarios(std::string* error) {
     looked += (looked.empty() ? "" : ", nor in ") + folder.string() + " (" +
               (ec ? ec.message() : std::string("no scenario files")) + ")";
   }
-  *error = "no demo scenarios in " + (looked.empty() ? "any folder" : looked) +
-           "; install upright (cmake --install) or run the program in its build tree";
-  return {};
+  return Failure("no demo scenarios in " + (looked.empty() ? "any folder" : looked) +
+                 "; install upright (cmake --install) or run the program in its build tree");
 }
 
 }  // namespace
 
 int RunScenarios(const RunCommandOptions& options) {
-  std::vector<std::string> paths;
-  if (!ExpandFolders(options.scenario_paths, &paths)) return kExitBadInput;
+  const Result<std::vector<std::string>> expanded = ExpandFolders(options.scenario_paths);
+  if (!expanded) {
+    std::cerr << expanded.error() << "\n";
+    return kExitBadInput;
+  }
+  const std::vector<std::string>& paths = *expanded;
   std::vector<runner::Scenario> scenarios;
   int bad = 0;
   for (const auto& path : paths) {
@@ -172,12 +175,12 @@ int RunDemo(const RunCommandOptions& options) {
   demo.label = "upright demo";
   demo.caution = false;  // once, before the report line
   if (demo.scenario_paths.empty()) {
-    std::string error;
-    demo.scenario_paths = DemoScenarios(&error);
-    if (demo.scenario_paths.empty()) {
-      std::cerr << error << "\n";
+    Result<std::vector<std::string>> found = DemoScenarios();
+    if (!found) {
+      std::cerr << found.error() << "\n";
       return kExitBadInput;
     }
+    demo.scenario_paths = std::move(*found);
   }
   if (demo.out_dir.empty()) demo.out_dir = "results/demo";
   // The whole picture: every scenario with its linear twin, then the margin and the spread of

@@ -16,8 +16,12 @@
 namespace upright::cli {
 
 int RunSweep(const SweepCommandOptions& options) {
-  runner::Scenario scenario;
-  if (!LoadScenarioOrSayWhy(options.scenario_path, &scenario)) return kExitBadInput;
+  const Result<runner::Scenario> loaded = LoadScenarioForRun(options.scenario_path);
+  if (!loaded) {
+    std::cerr << loaded.error() << "\n";
+    return kExitBadInput;
+  }
+  const runner::Scenario& scenario = *loaded;
   if (scenario.dispersions.empty()) {
     std::cerr << options.scenario_path << ": the scenario declares no dispersions, so there is "
               << "nothing to sample. Add, inside <scenario>:\n"
