@@ -172,6 +172,200 @@ Result<RunStart> StartRun(const Scenario& scenario, std::size_t controller, std:
   return start;
 }
 
+// A run in progress: the plant and host it steps, the timeline that drives them, the recorder of
+// its figures, and what it is judged by — all set up before the first step.
+struct RunLoop {
+  RunLoop(const Scenario& run_scenario, const RunOptions& run_options, sim::Plant& run_plant,
+          host::ControllerHost& run_host);
+
+  // The commanded path's distance from the axle now, m.
+  double Drift() const {
+    const sim::TrueState& s = plant.truth();
+    const double dx = s.x_m - timeline.path_x_m(), dy = s.y_m - timeline.path_y_m();
+    return std::sqrt(dx * dx + dy * dy);  // metres: no overflow for hypot to guard against
+  }
+
+  const Scenario& scenario;
+  const RunOptions& options;
+  sim::Plant& plant;
+  host::ControllerHost& host;
+  internal::Timeline timeline;
+  MetricRecorder recorder;
+  double dt_s;
+  long total_steps;
+  double equilibrium_pitch_rad;
+  // The limit on the module's command, of its kind: the supply voltage, or the stall torque at
+  // the wheel — on the robot the module is given (its nominal one, not one a sweep or envelope
+  // changed), the limit the built-in controllers clamp at (design::InputLimit).
+  double command_limit;
+  double fall_tilt_rad;
+  bool drives_payload;
+  long trace_every = 0;  // trace rows every this many steps; 0: no trace
+  // The linear twin compares against tilt and drift at every step (options.linear_twin).
+  TiltDriftSeries plant_series;
+  // Early settling (envelope probes): from when on a quiet robot has nothing more coming to it,
+  // and for how many steps it must stay quiet.
+  double quiet_from_s;
+  long hold_steps;
+  double tilt_band_rad;
+};
+
+RunLoop::RunLoop(const Scenario& run_scenario, const RunOptions& run_options, sim::Plant& run_plant,
+                 host::ControllerHost& run_host)
+    : scenario(run_scenario),
+      options(run_options),
+      plant(run_plant),
+      host(run_host),
+      timeline(run_scenario),
+      recorder(run_scenario.metrics, run_scenario.dt_s, run_scenario.duration_s,
+               internal::Timeline::DisturbanceStarts(run_scenario)),
+      dt_s(run_scenario.dt_s),
+      total_steps(std::lround(run_scenario.duration_s / run_scenario.dt_s)),
+      equilibrium_pitch_rad(
+          design::Linearise(run_scenario.built_model(), design::InputKind::kTorque)
+              .equilibrium_pitch_rad),
+      command_limit(
+          design::InputLimit(run_scenario.model, run_host.drive() == sim::DriveMode::kVoltage
+                                                     ? design::InputKind::kVoltage
+                                                     : design::InputKind::kTorque)),
+      fall_tilt_rad(run_scenario.metrics.fall_tilt_deg / kDeg),
+      drives_payload(run_scenario.built_model().payload.present &&
+                     !run_scenario.payload_shifts.empty()),
+      quiet_from_s(run_options.stop_when_settled ? internal::Timeline::QuietFrom(run_scenario)
+                                                 : std::numeric_limits<double>::infinity()),
+      hold_steps(std::max(1L, std::lround(run_options.settle_hold_s / run_scenario.dt_s))),
+      tilt_band_rad(run_scenario.metrics.tilt_band_deg / kDeg) {}
+
+// The storage the steps fill, reserved before the first: the trace (its rate, marks and first
+// row) and the linear twin's comparison series.
+void ReserveRecords(RunLoop& run, Trace* trace) {
+  if (run.options.trace_rate_hz > 0) {
+    run.trace_every = std::max(1L, std::lround(1.0 / (run.options.trace_rate_hz * run.dt_s)));
+    trace->rate_hz = 1.0 / (static_cast<double>(run.trace_every) * run.dt_s);
+    trace->rows.reserve(static_cast<std::size_t>(run.total_steps / run.trace_every + 2));
+    trace->marks = internal::Timeline::Marks(run.scenario);
+    trace->rows.push_back(Row(run.plant, run.host, run.timeline, 0));
+  }
+  if (run.options.linear_twin) {
+    run.plant_series.dt_s = run.dt_s;
+    run.plant_series.Reserve(static_cast<std::size_t>(run.total_steps + 1));
+    run.plant_series.Add(run.plant.truth().pitch_rad - run.equilibrium_pitch_rad, 0);
+  }
+}
+
+// How the steps ended, with what the run's message needs; the message itself is written after
+// the loop, which formats no text.
+struct LoopEnd {
+  enum class Why { kRanToTheEnd, kControllerFault, kDiverged, kOnGround, kTiltedOver, kSettled };
+  Why why = Why::kRanToTheEnd;
+  double time_s = 0;    // the plant's time when it ended
+  double tilt_rad = 0;  // kTiltedOver: the tilt beyond the limit
+};
+
+// The step loop: timeline, controller tick, physics step, then the figures, the trace row and the
+// verdicts (a fault, non-finite physics, a fall, a robot settled early), until the scenario's
+// duration. The hot path: no allocation (every store reserved up front), no logging, no text.
+LoopEnd StepUntilDecided(RunLoop& run, Trace* trace) {
+  sim::Plant& plant = run.plant;
+  const double rate_band_rad_s = 5 / kDeg;
+  long quiet_steps = 0;
+  for (long step = 0; step < run.total_steps; ++step) {
+    run.timeline.Advance(step);
+    if (run.drives_payload) {
+      plant.SetPayloadTarget(run.timeline.payload_target_m());
+    }
+    if (!run.host.Tick(plant, run.timeline.reference())) {
+      return {LoopEnd::Why::kControllerFault, plant.time_s()};
+    }
+    plant.Step();
+    run.timeline.Integrate(run.dt_s);
+    if (plant.diverged()) return {LoopEnd::Why::kDiverged, plant.time_s()};
+    const double drift_m = run.Drift();
+    const double tilt_rad = plant.truth().pitch_rad - run.equilibrium_pitch_rad;
+    run.recorder.Add(Sample(plant, run.host, run.command_limit, tilt_rad, drift_m));
+    if (run.options.linear_twin) run.plant_series.Add(tilt_rad, drift_m);
+    if (run.trace_every > 0 && plant.step_count() % run.trace_every == 0) {
+      trace->rows.push_back(Row(plant, run.host, run.timeline, drift_m));
+    }
+    if (plant.contact().chassis_on_ground) return {LoopEnd::Why::kOnGround, plant.time_s()};
+    if (std::abs(tilt_rad) > run.fall_tilt_rad) {
+      return {LoopEnd::Why::kTiltedOver, plant.time_s(), tilt_rad};
+    }
+    if (plant.time_s() >= run.quiet_from_s) {
+      const sim::TrueState& s = plant.truth();
+      const bool quiet = std::abs(tilt_rad) <= run.tilt_band_rad &&
+                         std::abs(s.pitch_rate_rad_s) <= rate_band_rad_s &&
+                         std::abs(s.forward_speed_m_s) < 0.05;
+      quiet_steps = quiet ? quiet_steps + 1 : 0;
+      if (quiet_steps >= run.hold_steps) return {LoopEnd::Why::kSettled, plant.time_s()};
+    }
+  }
+  return {LoopEnd::Why::kRanToTheEnd, plant.time_s()};
+}
+
+RunStatus StatusOf(const LoopEnd& end) {
+  switch (end.why) {
+    case LoopEnd::Why::kControllerFault:
+      return RunStatus::kControllerFault;
+    case LoopEnd::Why::kDiverged:
+      return RunStatus::kNumericFailure;
+    case LoopEnd::Why::kOnGround:
+    case LoopEnd::Why::kTiltedOver:
+      return RunStatus::kFell;
+    case LoopEnd::Why::kSettled:
+    case LoopEnd::Why::kRanToTheEnd:
+      break;
+  }
+  return RunStatus::kOk;
+}
+
+// The run's one-line message: why it fell or faulted, or how it survived.
+std::string EndMessage(const LoopEnd& end, const host::ControllerHost& host) {
+  switch (end.why) {
+    case LoopEnd::Why::kControllerFault:
+      return host.fault();
+    case LoopEnd::Why::kDiverged:
+      return Format("the physics state became non-finite at t = %.3f s", end.time_s);
+    case LoopEnd::Why::kOnGround:
+      return Format("fell at t = %.3f s: the chassis touched the ground", end.time_s);
+    case LoopEnd::Why::kTiltedOver:
+      return Format("fell at t = %.3f s: tilt %.1f deg beyond the limit", end.time_s,
+                    end.tilt_rad * kDeg);
+    case LoopEnd::Why::kSettled:
+      return Format("settled by t = %.3f s; stopped early", end.time_s);
+    case LoopEnd::Why::kRanToTheEnd:
+      break;
+  }
+  return "survived";
+}
+
+// After the steps: the trace's last row and the mark where a run cut short ended, the linear twin
+// (options.linear_twin), and the run's figures with its status and message.
+void FinishRun(RunLoop& run, const LoopEnd& end, std::size_t controller,
+               const std::shared_ptr<host::Module>& module, RunResult* result) {
+  const RunStatus status = StatusOf(end);
+  Trace& trace = result->trace;
+  // The trace ends where the run ended, on the trace rate's grid or not, so that what happened
+  // last (a fall, a fault) has its row.
+  if (run.trace_every > 0 && trace.rows.back().time_s < run.plant.time_s()) {
+    trace.rows.push_back(Row(run.plant, run.host, run.timeline, run.Drift()));
+  }
+  if (run.trace_every > 0 && status != RunStatus::kOk) {
+    // The end of a run cut short, among the event marks in time order.
+    const double end_s =
+        status == RunStatus::kControllerFault ? run.host.fault_time_s() : run.plant.time_s();
+    auto& marks = trace.marks;
+    const auto at = std::upper_bound(marks.begin(), marks.end(), end_s,
+                                     [](double t, const EventMark& m) { return t < m.time_s; });
+    marks.insert(at, {end_s, ToString(status)});
+  }
+  result->steps = run.plant.step_count();
+  if (run.options.linear_twin) {
+    AddLinearTwin(run.scenario, controller, module, run.plant_series, run.total_steps, result);
+  }
+  result->metrics = run.recorder.Finish(status, EndMessage(end, run.host));
+}
+
 }  // namespace
 
 Status RunOptions::Validate() const {
@@ -208,124 +402,10 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
 
   Result<RunStart> started = StartRun(scenario, controller, seed, *module);
   if (!started) return finish(RunStatus::kSetupFailed, started.error());
-  RunStart& start = *started;
-  const std::unique_ptr<host::ControllerHost>& host = start.host;
-  const std::unique_ptr<sim::Plant>& plant = start.plant;
-
-  const double equilibrium_pitch_rad =
-      design::Linearise(scenario.built_model(), design::InputKind::kTorque).equilibrium_pitch_rad;
-  // The limit on the module's command, of its kind: the supply voltage, or the stall torque at
-  // the wheel — on the robot the module is given (its nominal one, not one a sweep or envelope
-  // changed), the limit the built-in controllers clamp at (design::InputLimit).
-  const double command_limit = design::InputLimit(
-      scenario.model, host->drive() == sim::DriveMode::kVoltage ? design::InputKind::kVoltage
-                                                                : design::InputKind::kTorque);
-  const double fall_tilt_rad = scenario.metrics.fall_tilt_deg / kDeg;
-  const double dt_s = scenario.dt_s;
-  const long total_steps = std::lround(scenario.duration_s / dt_s);
-  MetricRecorder recorder(scenario.metrics, dt_s, scenario.duration_s,
-                          internal::Timeline::DisturbanceStarts(scenario));
-  internal::Timeline timeline(scenario);
-
-  // Trace rows every `trace_every` steps, the storage reserved up front.
-  long trace_every = 0;
-  if (options.trace_rate_hz > 0) {
-    trace_every = std::max(1L, std::lround(1.0 / (options.trace_rate_hz * dt_s)));
-    result.trace.rate_hz = 1.0 / (static_cast<double>(trace_every) * dt_s);
-    result.trace.rows.reserve(static_cast<std::size_t>(total_steps / trace_every + 2));
-    result.trace.marks = internal::Timeline::Marks(scenario);
-  }
-  const auto drift = [&] {
-    const sim::TrueState& s = plant->truth();
-    const double dx = s.x_m - timeline.path_x_m(), dy = s.y_m - timeline.path_y_m();
-    return std::sqrt(dx * dx + dy * dy);  // metres: no overflow for hypot to guard against
-  };
-  if (trace_every > 0) result.trace.rows.push_back(Row(*plant, *host, timeline, 0));
-  // The linear twin compares against tilt and drift at every step, the storage reserved here.
-  TiltDriftSeries plant_series;
-  if (options.linear_twin) {
-    plant_series.dt_s = dt_s;
-    plant_series.Reserve(static_cast<std::size_t>(total_steps + 1));
-    plant_series.Add(plant->truth().pitch_rad - equilibrium_pitch_rad, 0);
-  }
-
-  // Early settling (envelope probes): from when on a quiet robot has nothing more coming to it.
-  const double quiet_from_s = options.stop_when_settled ? internal::Timeline::QuietFrom(scenario)
-                                                        : std::numeric_limits<double>::infinity();
-  const long hold_steps = std::max(1L, std::lround(options.settle_hold_s / dt_s));
-  const double tilt_band_rad = scenario.metrics.tilt_band_deg / kDeg;
-  const double rate_band_rad_s = 5 / kDeg;
-  long quiet_steps = 0;
-
-  RunStatus status = RunStatus::kOk;
-  std::string message;
-  const bool drives_payload =
-      scenario.built_model().payload.present && !scenario.payload_shifts.empty();
-  for (long step = 0; step < total_steps; ++step) {
-    timeline.Advance(step);
-    if (drives_payload) {
-      plant->SetPayloadTarget(timeline.payload_target_m());
-    }
-    if (!host->Tick(*plant, timeline.reference())) {
-      status = RunStatus::kControllerFault;
-      message = host->fault();
-      break;
-    }
-    plant->Step();
-    timeline.Integrate(dt_s);
-    if (plant->diverged()) {
-      status = RunStatus::kNumericFailure;
-      message = Format("the physics state became non-finite at t = %.3f s", plant->time_s());
-      break;
-    }
-    const double drift_m = drift();
-    const double tilt_rad = plant->truth().pitch_rad - equilibrium_pitch_rad;
-    recorder.Add(Sample(*plant, *host, command_limit, tilt_rad, drift_m));
-    if (options.linear_twin) plant_series.Add(tilt_rad, drift_m);
-    if (trace_every > 0 && plant->step_count() % trace_every == 0) {
-      result.trace.rows.push_back(Row(*plant, *host, timeline, drift_m));
-    }
-    const bool on_ground = plant->contact().chassis_on_ground;
-    if (on_ground || std::abs(tilt_rad) > fall_tilt_rad) {
-      status = RunStatus::kFell;
-      message = on_ground
-                    ? Format("fell at t = %.3f s: the chassis touched the ground", plant->time_s())
-                    : Format("fell at t = %.3f s: tilt %.1f deg beyond the limit", plant->time_s(),
-                             tilt_rad * kDeg);
-      break;
-    }
-    if (plant->time_s() >= quiet_from_s) {
-      const sim::TrueState& s = plant->truth();
-      const bool quiet = std::abs(tilt_rad) <= tilt_band_rad &&
-                         std::abs(s.pitch_rate_rad_s) <= rate_band_rad_s &&
-                         std::abs(s.forward_speed_m_s) < 0.05;
-      quiet_steps = quiet ? quiet_steps + 1 : 0;
-      if (quiet_steps >= hold_steps) {
-        message = Format("settled by t = %.3f s; stopped early", plant->time_s());
-        break;
-      }
-    }
-  }
-  if (status == RunStatus::kOk && message.empty()) message = "survived";
-  // The trace ends where the run ended, on the trace rate's grid or not, so that what happened
-  // last (a fall, a fault) has its row.
-  if (trace_every > 0 && result.trace.rows.back().time_s < plant->time_s()) {
-    result.trace.rows.push_back(Row(*plant, *host, timeline, drift()));
-  }
-  if (trace_every > 0 && status != RunStatus::kOk) {
-    // The end of a run cut short, among the event marks in time order.
-    const double end_s =
-        status == RunStatus::kControllerFault ? host->fault_time_s() : plant->time_s();
-    auto& marks = result.trace.marks;
-    const auto at = std::upper_bound(marks.begin(), marks.end(), end_s,
-                                     [](double t, const EventMark& m) { return t < m.time_s; });
-    marks.insert(at, {end_s, ToString(status)});
-  }
-  result.steps = plant->step_count();
-  if (options.linear_twin) {
-    AddLinearTwin(scenario, controller, *module, plant_series, total_steps, &result);
-  }
-  result.metrics = recorder.Finish(status, message);
+  RunLoop run(scenario, options, *started->plant, *started->host);
+  ReserveRecords(run, &result.trace);
+  const LoopEnd end = StepUntilDecided(run, &result.trace);
+  FinishRun(run, end, controller, *module, &result);
   const RunMetrics metrics = result.metrics;
   return finish(metrics.status, metrics.message);
 }
