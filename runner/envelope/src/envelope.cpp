@@ -237,105 +237,130 @@ struct EnvelopeWork {
   std::size_t Controllers() const { return scenario.controllers.size(); }
 };
 
-// Phase 1: every controller's bisection side by side, one round of probes at a time, into
-// result->controllers; adds the runs made to result->runs.
-void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
+// Every controller's bisection in phase 1: the bisection itself, whether it still probes, and
+// the runs it has made.
+struct SideBySide {
+  std::vector<Bisection> bisections;
+  std::vector<bool> active;
+  std::vector<std::size_t> used;  // runs made per controller
+};
+
+// One probe of a round: a controller at a value, with the scenario set to it.
+struct Probe {
+  std::size_t controller = 0;
+  double value = 0;
+  Scenario scenario;
+};
+
+// Each controller's envelope, begun: one whose module did not load is set aside with its reason.
+SideBySide StartBisections(EnvelopeWork& work, EnvelopeResult* result) {
   const Scenario& scenario = work.scenario;
   const EnvelopePlan& plan = work.plan;
-  const std::vector<std::uint64_t>& seeds = plan.seeds;
-  const std::size_t n_seeds = work.Seeds();
   const std::size_t n_controllers = work.Controllers();
-
-  std::vector<Bisection> bisections;
-  std::vector<bool> active(n_controllers, true);
+  SideBySide state;
+  state.active.assign(n_controllers, true);
+  state.used.assign(n_controllers, 0);
   for (std::size_t c = 0; c < n_controllers; ++c) {
     ControllerEnvelope envelope;
     envelope.controller = scenario.controllers[c].name;
     envelope.baseline = c == scenario.baseline;
     if (!*work.modules[c]) {
       envelope.setup_error = work.modules[c]->error();
-      active[c] = false;
+      state.active[c] = false;
       work.progress.Set(c, 0);
     }
     result->controllers.push_back(envelope);
-    bisections.emplace_back(plan.axis.lo, plan.axis.hi, plan.tol);
+    state.bisections.emplace_back(plan.axis.lo, plan.axis.hi, plan.tol);
   }
   work.progress.Recount();
-  std::vector<std::size_t> used(n_controllers, 0);  // runs made per controller
+  return state;
+}
 
-  struct Probe {
-    std::size_t controller = 0;
-    double value = 0;
-    Scenario scenario;
-  };
-  for (;;) {
-    std::vector<Probe> probes;
-    for (std::size_t c = 0; c < n_controllers; ++c) {
-      if (!active[c]) continue;
-      for (const double value : bisections[c].Pending()) {
-        Result<Scenario> probed = ProbeScenario(scenario, plan.axis.path, value, "", 0);
-        if (!probed) {
-          result->controllers[c].setup_error = probed.error();
-          active[c] = false;
-          break;
-        }
-        probes.push_back({c, value, std::move(*probed)});
+// The probes of the next round, every active controller's pending values; a controller with a
+// value the scenario refuses stops there, with that reason and none of its probes this round.
+std::vector<Probe> NextRound(EnvelopeWork& work, SideBySide& state, EnvelopeResult* result) {
+  std::vector<Probe> probes;
+  for (std::size_t c = 0; c < work.Controllers(); ++c) {
+    if (!state.active[c]) continue;
+    for (const double value : state.bisections[c].Pending()) {
+      Result<Scenario> probed = ProbeScenario(work.scenario, work.plan.axis.path, value, "", 0);
+      if (!probed) {
+        result->controllers[c].setup_error = probed.error();
+        state.active[c] = false;
+        break;
       }
-      if (!active[c]) {
-        probes.erase(std::remove_if(probes.begin(), probes.end(),
-                                    [c](const Probe& p) { return p.controller == c; }),
-                     probes.end());
-        work.progress.Set(c, used[c]);
-      }
+      probes.push_back({c, value, std::move(*probed)});
     }
-    work.progress.Recount();
-    if (probes.empty()) break;
-
-    std::vector<RunVerdict> verdicts(probes.size() * n_seeds);
-    ParallelFor(
-        verdicts.size(), work.jobs,
-        [&](std::size_t i) {
-          const Probe& probe = probes[i / n_seeds];
-          verdicts[i] = RunProbe(probe.scenario, probe.controller, seeds[i % n_seeds],
-                                 *work.modules[probe.controller], work.run_options);
-        },
-        [&] { work.progress.OneDone(); });
-
-    // Verdicts back to each bisection, in the order its values were pending.
-    std::vector<std::vector<bool>> survived(n_controllers);
-    for (std::size_t p = 0; p < probes.size(); ++p) {
-      const std::size_t c = probes[p].controller;
-      used[c] += n_seeds;
-      const ProbeTally tally = Tally(seeds, &verdicts[p * n_seeds]);
-      ControllerEnvelope& envelope = result->controllers[c];
-      envelope.probes.push_back(
-          {probes[p].value, tally.survived, static_cast<int>(n_seeds), tally.failure});
-      if (!active[c]) continue;  // an earlier probe of this round could not run
-      if (!tally.setup_error.empty()) {
-        envelope.setup_error = tally.setup_error;
-        active[c] = false;
-        continue;
-      }
-      survived[c].push_back(tally.survived == static_cast<int>(n_seeds));
+    if (!state.active[c]) {
+      probes.erase(std::remove_if(probes.begin(), probes.end(),
+                                  [c](const Probe& p) { return p.controller == c; }),
+                   probes.end());
+      work.progress.Set(c, state.used[c]);
     }
-    for (std::size_t c = 0; c < n_controllers; ++c) {
-      if (!active[c]) {
-        work.progress.Cap(c, used[c]);
-        continue;
-      }
-      if (survived[c].empty()) continue;
-      bisections[c].Record(survived[c]);
-      if (bisections[c].done()) {
-        active[c] = false;
-        work.progress.Set(c, used[c]);
-      }
-    }
-    work.progress.Recount();
   }
+  work.progress.Recount();
+  return probes;
+}
 
-  for (std::size_t c = 0; c < n_controllers; ++c) {
+// Every probe of the round on every seed, in parallel; verdicts probe by probe, seed by seed.
+std::vector<RunVerdict> RunRound(EnvelopeWork& work, const std::vector<Probe>& probes) {
+  const std::vector<std::uint64_t>& seeds = work.plan.seeds;
+  const std::size_t n_seeds = work.Seeds();
+  std::vector<RunVerdict> verdicts(probes.size() * n_seeds);
+  ParallelFor(
+      verdicts.size(), work.jobs,
+      [&](std::size_t i) {
+        const Probe& probe = probes[i / n_seeds];
+        verdicts[i] = RunProbe(probe.scenario, probe.controller, seeds[i % n_seeds],
+                               *work.modules[probe.controller], work.run_options);
+      },
+      [&] { work.progress.OneDone(); });
+  return verdicts;
+}
+
+// The round's verdicts back to each bisection, in the order its values were pending; a
+// controller whose probe could not be run stops with that reason.
+void RecordRound(EnvelopeWork& work, const std::vector<Probe>& probes,
+                 const std::vector<RunVerdict>& verdicts, SideBySide& state,
+                 EnvelopeResult* result) {
+  const std::size_t n_seeds = work.Seeds();
+  std::vector<std::vector<bool>> survived(work.Controllers());
+  for (std::size_t p = 0; p < probes.size(); ++p) {
+    const std::size_t c = probes[p].controller;
+    state.used[c] += n_seeds;
+    const ProbeTally tally = Tally(work.plan.seeds, &verdicts[p * n_seeds]);
     ControllerEnvelope& envelope = result->controllers[c];
-    envelope.bisect = bisections[c].result();
+    envelope.probes.push_back(
+        {probes[p].value, tally.survived, static_cast<int>(n_seeds), tally.failure});
+    if (!state.active[c]) continue;  // an earlier probe of this round could not run
+    if (!tally.setup_error.empty()) {
+      envelope.setup_error = tally.setup_error;
+      state.active[c] = false;
+      continue;
+    }
+    survived[c].push_back(tally.survived == static_cast<int>(n_seeds));
+  }
+  for (std::size_t c = 0; c < work.Controllers(); ++c) {
+    if (!state.active[c]) {
+      work.progress.Cap(c, state.used[c]);
+      continue;
+    }
+    if (survived[c].empty()) continue;
+    state.bisections[c].Record(survived[c]);
+    if (state.bisections[c].done()) {
+      state.active[c] = false;
+      work.progress.Set(c, state.used[c]);
+    }
+  }
+  work.progress.Recount();
+}
+
+// Each controller's answer: its bisection's, or for one cut short only the probes it made; the
+// runs made added to result->runs.
+void FinishBisections(const SideBySide& state, EnvelopeResult* result) {
+  for (std::size_t c = 0; c < result->controllers.size(); ++c) {
+    ControllerEnvelope& envelope = result->controllers[c];
+    envelope.bisect = state.bisections[c].result();
     if (!envelope.setup_error.empty()) {
       // Cut short: no bisection answer, only the probes made.
       envelope.bisect = BisectResult{};
@@ -345,8 +370,21 @@ void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
         if (probe.value == envelope.bisect.first_failing_value) envelope.failure = probe.failure;
       }
     }
-    result->runs += used[c];
+    result->runs += state.used[c];
   }
+}
+
+// Phase 1: every controller's bisection side by side, one round of probes at a time, into
+// result->controllers; adds the runs made to result->runs.
+void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
+  SideBySide state = StartBisections(work, result);
+  for (;;) {
+    const std::vector<Probe> probes = NextRound(work, state, result);
+    if (probes.empty()) break;
+    const std::vector<RunVerdict> verdicts = RunRound(work, probes);
+    RecordRound(work, probes, verdicts, state, result);
+  }
+  FinishBisections(state, result);
 }
 
 // Phase 2: the grid of both parameters, every controller at every point, into result->maps; adds
