@@ -158,7 +158,7 @@ double PlantPerStep(const RobotModel& model, const sim::PlantOptions& options, l
 // Returns seconds per step.
 double FullPerStep(const Scenario& scenario, const std::shared_ptr<upright::host::Module>& module) {
   const auto start = Clock::now();
-  const RunResult run = RunOne(scenario, 0, 1, module, "", RunOptions{});
+  const RunResult run = RunOne(scenario, 0, 1, module, RunOptions{});
   const double per_step = Seconds(start) / static_cast<double>(std::max(1L, run.steps));
   if (run.metrics.status != RunStatus::kOk) {
     std::fprintf(stderr, "upright-bench: the benchmark run did not survive: %s\n",
@@ -190,7 +190,7 @@ double OneRunPeakMemoryMB(const Scenario& scenario,
                           const std::shared_ptr<upright::host::Module>& module) {
   const pid_t child = fork();
   if (child == 0) {
-    RunOne(scenario, 0, 1, module, "", RunOptions{});
+    RunOne(scenario, 0, 1, module, RunOptions{});
     _exit(0);
   }
   int status = 0;
@@ -232,11 +232,11 @@ int main(int argc, char** argv) {
     }
   }
   ScenarioLoadResult loaded = LoadScenarioFile(path);
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::fprintf(stderr, "%s\n", e.ToString().c_str());
+  if (!loaded) {
+    for (const auto& e : loaded.error()) std::fprintf(stderr, "%s\n", e.ToString().c_str());
     return 2;
   }
-  Scenario scenario = loaded.scenario;
+  Scenario scenario = *loaded;
   scenario.controllers.resize(1);  // the baseline module alone
   scenario.baseline = 0;
   const auto module = Builtin(scenario.controllers[0].module);

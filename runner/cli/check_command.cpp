@@ -64,21 +64,24 @@ std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
   for (std::size_t i = 0; i < scenario.controllers.size(); ++i) {
     const runner::ControllerEntry& entry = scenario.controllers[i];
     const runner::LoadedModule& loaded = modules.Get(entry);
-    std::string problem = loaded.error;
-    if (loaded.module) {
+    std::string problem;
+    if (!loaded) {
+      problem = loaded.error();
+    } else {
+      const host::Module& module = **loaded;
       Log().Debug(FileError{scenario.path, entry.line,
-                            "controller '" + entry.name + "': module '" + loaded.module->name() +
-                                "' from " + loaded.module->path()}
+                            "controller '" + entry.name + "': module '" + module.name() +
+                                "' from " + module.path()}
                       .ToString());
       runner::ModuleLog module_log;
-      problem = runner::RunStartProblem(scenario, i, loaded.module, &module_log, level);
+      const Status start = runner::CheckRunStart(scenario, i, *loaded, &module_log, level);
       LogModuleMessages(
           Log(), FileError{scenario.path, entry.line, "controller '" + entry.name + "'"}.ToString(),
           module_log);
-      if (problem.empty()) continue;
+      if (start) continue;
+      problem = start.error();
       // The host names the module by its own name and file; the message names the controller.
-      const std::string host_lead =
-          "controller '" + loaded.module->name() + "' (" + loaded.module->path() + "): ";
+      const std::string host_lead = "controller '" + module.name() + "' (" + module.path() + "): ";
       if (problem.rfind(host_lead, 0) == 0) problem.erase(0, host_lead.size());
     }
     problems.push_back(
@@ -90,12 +93,10 @@ std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
 // Checks one scenario file; true when it is valid and every controller of it can start.
 bool CheckScenario(const std::string& path) {
   const runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-  std::vector<FileError> problems = loaded.errors;
-  if (loaded.ok()) problems = ControllerProblems(loaded.scenario);
+  const std::vector<FileError> problems = loaded ? ControllerProblems(*loaded) : loaded.error();
   if (problems.empty()) {
-    Log().Info(path + ": ok (scenario '" + loaded.scenario.name + "', robot '" +
-               loaded.scenario.model.name + "', " +
-               std::to_string(loaded.scenario.controllers.size()) + " controller(s))");
+    Log().Info(path + ": ok (scenario '" + loaded->name + "', robot '" + loaded->model.name +
+               "', " + std::to_string(loaded->controllers.size()) + " controller(s))");
     return true;
   }
   for (const auto& e : problems) Log().Error(e.ToString());

@@ -317,55 +317,54 @@ std::string InFlagTerms(const std::string& message) {
   return message;
 }
 
-// The typed options into *request: a value given must be a real one (the request's 0 or -1
-// "default" cannot be typed). False with the message, naming the flag, in *error.
-bool ResolveFlags(const DesignOptions& o, design::DesignRequest* request, std::string* error) {
+// The request with the typed options in: a value given must be a real one (the request's 0 or -1
+// "default" cannot be typed). Otherwise the message, naming the flag.
+Result<design::DesignRequest> ResolveFlags(const DesignOptions& o) {
+  design::DesignRequest request = o.request;
   // "--rate = inf: must be finite and > 0 (...)": a value that is no finite number is told so.
-  const auto refuse = [&](const char* flag, double value, const char* rule) {
-    *error = std::string(flag) + " = " + SignificantText(value, 6) + ": must be " +
-             (std::isfinite(value) ? "" : "finite and ") + rule;
-    return false;
+  const auto refuse = [](const char* flag, double value, const char* rule) {
+    return Failure(std::string(flag) + " = " + SignificantText(value, 6) + ": must be " +
+                   (std::isfinite(value) ? "" : "finite and ") + rule);
   };
   if (o.rate_hz) {
     if (!(*o.rate_hz > 0) || !std::isfinite(*o.rate_hz)) {
       return refuse("--rate", *o.rate_hz, "> 0 (leave it out for the model's control rate_hz)");
     }
-    request->rate_hz = *o.rate_hz;
+    request.rate_hz = *o.rate_hz;
   }
   if (o.gamma) {
     if (!(*o.gamma > 0) || !std::isfinite(*o.gamma)) {
       return refuse("--gamma", *o.gamma, "> 0 (leave it out for --gamma-factor x gamma_opt)");
     }
-    request->gamma = *o.gamma;
+    request.gamma = *o.gamma;
   }
   if (o.push_height_m) {
     if (!(*o.push_height_m >= 0) || !std::isfinite(*o.push_height_m)) {
       return refuse("--push-height-m", *o.push_height_m, ">= 0 (leave it out for the COM height)");
     }
-    request->push_height_m = *o.push_height_m;
+    request.push_height_m = *o.push_height_m;
   }
   if (o.push_scale_N) {
     if (!(*o.push_scale_N > 0) || !std::isfinite(*o.push_scale_N)) {
       return refuse("--push-scale-N", *o.push_scale_N,
                     "> 0 (leave it out for 10 % of the robot's weight)");
     }
-    request->push_scale_N = *o.push_scale_N;
+    request.push_scale_N = *o.push_scale_N;
   }
-  std::string why;
-  if (request->IsValid(&why)) return true;
-  *error = InFlagTerms(why);
-  return false;
+  std::string why;  // the request's own check says what is wrong here
+  if (!request.IsValid(&why)) return Failure(InFlagTerms(why));
+  return request;
 }
 
 }  // namespace
 
 int RunDesign(const DesignOptions& options) {
-  design::DesignRequest request = options.request;
-  std::string error;
-  if (!ResolveFlags(options, &request, &error)) {
-    Log().Error(error);
+  const Result<design::DesignRequest> resolved = ResolveFlags(options);
+  if (!resolved) {
+    Log().Error(resolved.error());
     return kExitBadInput;
   }
+  const design::DesignRequest& request = *resolved;
   // A design never steps the physics, so a robot whose rates suit another step still designs.
   const ModelLoadResult loaded =
       LoadModelFile(options.model_path, ModelLoadOptions{.check_default_step = false});

@@ -70,8 +70,12 @@ CLI::App* AddEnvelopeCommand(CLI::App* app, EnvelopeCommandOptions* o) {
 }
 
 int RunEnvelope(const EnvelopeCommandOptions& options) {
-  runner::Scenario scenario;
-  if (!LoadScenarioOrSayWhy(options.scenario_path, &scenario)) return kExitBadInput;
+  const Result<runner::Scenario> loaded = LoadScenarioForRun(options.scenario_path);
+  if (!loaded) {
+    Log().Error(loaded.error());
+    return kExitBadInput;
+  }
+  const runner::Scenario& scenario = *loaded;
   runner::EnvelopeOptions envelope_options;
   envelope_options.param = options.vary;
   envelope_options.lo = options.lo;
@@ -83,13 +87,13 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
   envelope_options.grid = options.grid;
   envelope_options.jobs = options.jobs;
   envelope_options.seed_count = options.seed_count;
-  runner::EnvelopePlan plan;
-  std::string error;
-  if (!runner::PlanEnvelope(scenario, envelope_options, &plan, &error)) {
-    Log().Error(options.scenario_path + ": " + error + "\n" +
+  const Result<runner::EnvelopePlan> planned = runner::PlanEnvelope(scenario, envelope_options);
+  if (!planned) {
+    Log().Error(options.scenario_path + ": " + planned.error() + "\n" +
                 "(parameter paths: upright envelope --help; nothing was run)");
     return kExitBadInput;
   }
+  const runner::EnvelopePlan& plan = *planned;
   const std::string out_dir =
       options.out_dir.empty() ? "results/" + scenario.name + "-envelope" : options.out_dir;
 
@@ -108,8 +112,8 @@ int RunEnvelope(const EnvelopeCommandOptions& options) {
                           Log().ShowsProgress() ? progress_line.Callback() : runner::ProgressFn());
   // The runs expected can shrink after the last one (a bisection that ended early).
   progress_line.Close();
-  if (!runner::WriteEnvelopeResults(out_dir, result, &error)) {
-    Log().Error(error);
+  if (const Status written = runner::WriteEnvelopeResults(out_dir, result); !written) {
+    Log().Error(written.error());
     return kExitFailed;
   }
 

@@ -2,20 +2,16 @@
 
 #include <utility>
 
-#include "log.hpp"
 #include "upright/runner/scenario_file.hpp"
 
 namespace upright::cli {
 
-bool LoadScenarioOrSayWhy(const std::string& path, runner::Scenario* scenario) {
+Result<runner::Scenario> LoadScenarioForRun(const std::string& path) {
   runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) Log().Error(e.ToString());
-    Log().Error(path + ": invalid; nothing was run");
-    return false;
-  }
-  *scenario = std::move(loaded.scenario);
-  return true;
+  if (loaded) return std::move(*loaded);
+  std::string lines;
+  for (const auto& e : loaded.error()) lines += e.ToString() + "\n";
+  return Failure(lines + path + ": invalid; nothing was run");
 }
 
 }  // namespace upright::cli

@@ -1,15 +1,16 @@
-// One scenario file for a command that runs it: a path in, the validated scenario out, or its
-// problems on stderr (each as path:line: message, then "<path>: invalid; nothing was run").
+// One scenario file for a command that runs it: a path in, the validated scenario out, or what to
+// tell the user (each problem as path:line: message, then "<path>: invalid; nothing was run").
 #pragma once
 
 #include <string>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/scenario.hpp"
 
 namespace upright::cli {
 
-// Loads and validates `path` into *scenario. False, with the problems printed, when the file is
-// invalid; the command then exits with kExitBadInput.
-bool LoadScenarioOrSayWhy(const std::string& path, runner::Scenario* scenario);
+// Loads and validates `path`. When the file is invalid, the lines for stderr (without the last
+// line break); the command then exits with kExitBadInput.
+Result<runner::Scenario> LoadScenarioForRun(const std::string& path);
 
 }  // namespace upright::cli

@@ -11,6 +11,7 @@
 #include "log.hpp"
 #include "report_command.hpp"
 #include "sweep_command.hpp"
+#include "upright/base/result.hpp"
 #include "upright_version.hpp"
 
 namespace {
@@ -117,17 +118,17 @@ std::size_t EditDistance(const std::string& a, const std::string& b) {
   return d[a.size()][b.size()];
 }
 
-// When the first argument is a word that names no command, says so on stderr, lists the
-// commands and suggests the nearest (within two edits, fewer than the word's length); returns
-// false. True when there is no such word.
-bool FirstWordIsACommand(const CLI::App& app, int argc, char** argv) {
-  if (argc < 2 || argv[1][0] == '-') return true;
+// When the first argument is a word that names no command: what to say on stderr, listing the
+// commands and suggesting the nearest (within two edits, fewer than the word's length). Fine when
+// there is no such word.
+upright::Status CheckFirstWord(const CLI::App& app, int argc, char** argv) {
+  if (argc < 2 || argv[1][0] == '-') return {};
   const std::string word = argv[1];
   std::string list, nearest;
   std::size_t nearest_distance = 3;
   for (const CLI::App* sub : app.get_subcommands({})) {
     const std::string& name = sub->get_name();
-    if (name == word) return true;
+    if (name == word) return {};
     list += (list.empty() ? "" : ", ") + name;
     const std::size_t distance = EditDistance(word, name);
     if (distance < nearest_distance && distance < word.size()) {
@@ -135,10 +136,60 @@ bool FirstWordIsACommand(const CLI::App& app, int argc, char** argv) {
       nearest_distance = distance;
     }
   }
-  upright::cli::Log().Error("upright: unknown command '" + word + "'" +
-                            (nearest.empty() ? "" : "; did you mean '" + nearest + "'?") +
-                            "\ncommands: " + list + " (upright --help describes them)");
-  return false;
+  std::string message = "upright: unknown command '" + word + "'";
+  if (!nearest.empty()) message += "; did you mean '" + nearest + "'?";
+  return upright::Failure(message + "\ncommands: " + list + " (upright --help describes them)");
+}
+
+// `upright run`: scenario files or folders in, tables out.
+CLI::App* AddRunCommand(CLI::App* app, upright::cli::RunCommandOptions* run) {
+  auto* run_cmd = app->add_subcommand(
+      "run",
+      "Run every scenario x controller x seed; write summary, comparison and ranking tables");
+  run_cmd
+      ->add_option("SCENARIO", run->scenario_paths,
+                   "Scenario files (.xml), or folders: each folder's *.xml scenario files, by name")
+      ->required();
+  AddRunOptions(run_cmd, run,
+                "Results folder (default: results/<scenario name>, or the scenarios' folder name)");
+  run_cmd->add_flag("--linear-twin", run->batch.run.linear_twin,
+                    "Also play each run on the linear model the controllers are designed on (same "
+                    "module, rate, pushes; ideal sensors, no contact or limits) and write gap.csv "
+                    "and gap.md: where the linear prediction and the physics part");
+  return run_cmd;
+}
+
+// `upright demo`: the demo suite, its envelope and sweep, and the report.
+CLI::App* AddDemoCommand(CLI::App* app, upright::cli::RunCommandOptions* demo) {
+  auto* demo_cmd = app->add_subcommand(
+      "demo",
+      "Run the invented demo suite (scenarios/) with its linear twins, an envelope and a sweep of "
+      "the shove, into results/demo, and write the report");
+  AddRunOptions(demo_cmd, demo,
+                "Results folder (default: results/demo; the envelope and sweep go in its "
+                "envelope/ and sweep/)");
+  return demo_cmd;
+}
+
+// `upright sweep`: a scenario with dispersions in, survival rates and percentiles out.
+CLI::App* AddSweepCommand(CLI::App* app, upright::cli::SweepCommandOptions* sweep) {
+  auto* sweep_cmd = app->add_subcommand(
+      "sweep",
+      "Monte Carlo over the scenario's <dispersions>: survival rate with a 95 % interval, figure "
+      "percentiles, paired comparison with the baseline");
+  sweep_cmd->add_option("SCENARIO", sweep->scenario_path, "Scenario file (.xml) with <dispersions>")
+      ->required();
+  sweep_cmd->add_option("--samples", sweep->samples, "Samples N; every controller runs on each")
+      ->check(CLI::Range(1, 1000000))
+      ->capture_default_str();
+  sweep_cmd->add_option("--seed", sweep->seed, "Sweep seed: the same seed draws the same samples")
+      ->capture_default_str();
+  sweep_cmd->add_option("--out", sweep->out_dir,
+                        "Results folder (default: results/<scenario name>-sweep)");
+  sweep_cmd->add_option("--jobs", sweep->jobs, "Runs in parallel (0: one per core)")
+      ->check(CLI::Range(0, 1024))
+      ->capture_default_str();
+  return sweep_cmd;
 }
 
 }  // namespace
@@ -162,46 +213,13 @@ int main(int argc, char** argv) {
   AddDesignOptions(design_cmd, &design);
 
   upright::cli::RunCommandOptions run;
-  auto* run_cmd = app.add_subcommand(
-      "run",
-      "Run every scenario x controller x seed; write summary, comparison and ranking tables");
-  run_cmd
-      ->add_option("SCENARIO", run.scenario_paths,
-                   "Scenario files (.xml), or folders: each folder's *.xml scenario files, by name")
-      ->required();
-  AddRunOptions(run_cmd, &run,
-                "Results folder (default: results/<scenario name>, or the scenarios' folder name)");
-  run_cmd->add_flag("--linear-twin", run.batch.run.linear_twin,
-                    "Also play each run on the linear model the controllers are designed on (same "
-                    "module, rate, pushes; ideal sensors, no contact or limits) and write gap.csv "
-                    "and gap.md: where the linear prediction and the physics part");
+  auto* run_cmd = AddRunCommand(&app, &run);
 
   upright::cli::RunCommandOptions demo;
-  auto* demo_cmd = app.add_subcommand(
-      "demo",
-      "Run the invented demo suite (scenarios/) with its linear twins, an envelope and a sweep of "
-      "the shove, into results/demo, and write the report");
-  AddRunOptions(demo_cmd, &demo,
-                "Results folder (default: results/demo; the envelope and sweep go in its "
-                "envelope/ and sweep/)");
+  auto* demo_cmd = AddDemoCommand(&app, &demo);
 
   upright::cli::SweepCommandOptions sweep;
-  auto* sweep_cmd = app.add_subcommand(
-      "sweep",
-      "Monte Carlo over the scenario's <dispersions>: survival rate with a 95 % interval, figure "
-      "percentiles, paired comparison with the baseline");
-  sweep_cmd->add_option("SCENARIO", sweep.scenario_path, "Scenario file (.xml) with <dispersions>")
-      ->required();
-  sweep_cmd->add_option("--samples", sweep.samples, "Samples N; every controller runs on each")
-      ->check(CLI::Range(1, 1000000))
-      ->capture_default_str();
-  sweep_cmd->add_option("--seed", sweep.seed, "Sweep seed: the same seed draws the same samples")
-      ->capture_default_str();
-  sweep_cmd->add_option("--out", sweep.out_dir,
-                        "Results folder (default: results/<scenario name>-sweep)");
-  sweep_cmd->add_option("--jobs", sweep.jobs, "Runs in parallel (0: one per core)")
-      ->check(CLI::Range(0, 1024))
-      ->capture_default_str();
+  auto* sweep_cmd = AddSweepCommand(&app, &sweep);
 
   upright::cli::EnvelopeCommandOptions envelope;
   auto* envelope_cmd = upright::cli::AddEnvelopeCommand(&app, &envelope);
@@ -212,7 +230,10 @@ int main(int argc, char** argv) {
   VerbosityFlags verbosity;
   for (CLI::App* cmd : app.get_subcommands({})) AddVerbosityFlags(cmd, &verbosity);
 
-  if (!FirstWordIsACommand(app, argc, argv)) return upright::cli::kExitBadInput;
+  if (const upright::Status known = CheckFirstWord(app, argc, argv); !known) {
+    upright::cli::Log().Error(known.error());
+    return upright::cli::kExitBadInput;
+  }
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {

@@ -19,21 +19,21 @@ CLI::App* AddReportCommand(CLI::App* app, std::string* dir) {
 }
 
 int RunReport(const std::string& dir) {
-  const runner::ReportOutcome outcome = runner::MakeReport(dir);
-  switch (outcome.status) {
-    case runner::ReportStatus::kWritten:
-      break;
-    case runner::ReportStatus::kNoResults:
-    case runner::ReportStatus::kBadInput:
-      Log().Error(outcome.message);
-      return kExitBadInput;
-    case runner::ReportStatus::kWriteFailed:
-      Log().Error(outcome.message);
-      return kExitFailed;
+  const Result<runner::ReportWritten, runner::ReportFailure> made = runner::MakeReport(dir);
+  if (!made) {
+    Log().Error(made.error().message);
+    switch (made.error().problem) {
+      case runner::ReportProblem::kNoResults:
+      case runner::ReportProblem::kBadInput:
+        return kExitBadInput;
+      case runner::ReportProblem::kWriteFailed:
+        return kExitFailed;
+    }
+    return kExitFailed;
   }
-  Log().Info(Printf("upright report: %s (%s kB, %zu results folder(s))", outcome.path.c_str(),
-                    FixedText(static_cast<double>(outcome.bytes) / 1000.0, 1).c_str(),
-                    outcome.folders));
+  Log().Info(Printf("upright report: %s (%s kB, %zu results folder(s))", made->path.c_str(),
+                    FixedText(static_cast<double>(made->bytes) / 1000.0, 1).c_str(),
+                    made->folders));
   Log().Caution(kCaution);
   return kExitOk;
 }

@@ -60,29 +60,29 @@ std::vector<std::string> ScenarioFilesIn(const fs::path& folder, std::error_code
   return files;
 }
 
-// The arguments with each folder replaced by its scenario files. False, the reason logged as an
-// error, when a folder cannot be read or holds none.
-bool ExpandFolders(const std::vector<std::string>& args, std::vector<std::string>* files) {
+// The arguments with each folder replaced by its scenario files, or why a folder gives none (it
+// cannot be read or holds none).
+Result<std::vector<std::string>> ExpandFolders(const std::vector<std::string>& args) {
+  std::vector<std::string> files;
   for (const auto& arg : args) {
     std::error_code ec;
     if (!fs::is_directory(arg, ec)) {
-      files->push_back(arg);
+      files.push_back(arg);
       continue;
     }
     const std::vector<std::string> found = ScenarioFilesIn(arg, &ec);
     if (ec || found.empty()) {
-      Log().Error(arg + ": a folder with no scenario files (*.xml whose root is <scenario>)" +
-                  (ec ? " (" + ec.message() + ")" : std::string()) + "; nothing was run");
-      return false;
+      return Failure(arg + ": a folder with no scenario files (*.xml whose root is <scenario>)" +
+                     (ec ? " (" + ec.message() + ")" : std::string()) + "; nothing was run");
     }
-    files->insert(files->end(), found.begin(), found.end());
+    files.insert(files.end(), found.begin(), found.end());
   }
-  return true;
+  return files;
 }
 
-// The demo suite: the scenario files in scenarios/ of the first data folder that has any.
-// Empty, with *error naming every folder looked in, when none has.
-std::vector<std::string> DemoScenarios(std::string* error) {
+// The demo suite: the scenario files in scenarios/ of the first data folder that has any, or a
+// message naming every folder looked in when none has.
+Result<std::vector<std::string>> DemoScenarios() {
   std::string looked;
   for (const fs::path& data : DataFolders()) {
     const fs::path folder = data / "scenarios";
@@ -92,26 +92,29 @@ std::vector<std::string> DemoScenarios(std::string* error) {
     looked += (looked.empty() ? "" : ", nor in ") + folder.string() + " (" +
               (ec ? ec.message() : std::string("no scenario files")) + ")";
   }
-  *error = "no demo scenarios in " + (looked.empty() ? "any folder" : looked) +
-           "; install upright (cmake --install) or run the program in its build tree";
-  return {};
+  return Failure("no demo scenarios in " + (looked.empty() ? "any folder" : looked) +
+                 "; install upright (cmake --install) or run the program in its build tree");
 }
 
 }  // namespace
 
 int RunScenarios(const RunCommandOptions& options) {
-  std::vector<std::string> paths;
-  if (!ExpandFolders(options.scenario_paths, &paths)) return kExitBadInput;
+  const Result<std::vector<std::string>> expanded = ExpandFolders(options.scenario_paths);
+  if (!expanded) {
+    Log().Error(expanded.error());
+    return kExitBadInput;
+  }
+  const std::vector<std::string>& paths = *expanded;
   std::vector<runner::Scenario> scenarios;
   int bad = 0;
   for (const auto& path : paths) {
     runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-    if (!loaded.ok()) {
-      for (const auto& e : loaded.errors) Log().Error(e.ToString());
+    if (!loaded) {
+      for (const auto& e : loaded.error()) Log().Error(e.ToString());
       ++bad;
       continue;
     }
-    scenarios.push_back(std::move(loaded.scenario));
+    scenarios.push_back(std::move(*loaded));
   }
   if (bad > 0) {
     Log().Error(Printf("%d of %zu scenario file(s) invalid; nothing was run", bad, paths.size()));
@@ -130,9 +133,8 @@ int RunScenarios(const RunCommandOptions& options) {
   runner::BatchOptions batch_options = options.batch;
   // What the modules log at debug level is kept only when it is to be shown.
   if (Log().Shows(LogLevel::kDebug)) batch_options.run.module_log_level = LogLevel::kDebug;
-  std::string error;
-  if (!batch_options.IsValid(&error)) {
-    Log().Error(error);
+  if (const Status valid = batch_options.Validate(); !valid) {
+    Log().Error(valid.error());
     return kExitBadInput;
   }
   for (const runner::Scenario& s : scenarios) {
@@ -157,8 +159,8 @@ int RunScenarios(const RunCommandOptions& options) {
         runner::ToString(run.metrics.status), run.steps, FixedText(run.wall_s, 3).c_str(),
         run.metrics.message.c_str()));
   }
-  if (!runner::WriteResults(out_dir, batch, &error)) {
-    Log().Error(error);
+  if (const Status written = runner::WriteResults(out_dir, batch); !written) {
+    Log().Error(written.error());
     return kExitFailed;
   }
 
@@ -191,12 +193,12 @@ int RunDemo(const RunCommandOptions& options) {
   demo.label = "upright demo";
   demo.caution = false;  // once, before the report line
   if (demo.scenario_paths.empty()) {
-    std::string error;
-    demo.scenario_paths = DemoScenarios(&error);
-    if (demo.scenario_paths.empty()) {
-      Log().Error(error);
+    Result<std::vector<std::string>> found = DemoScenarios();
+    if (!found) {
+      Log().Error(found.error());
       return kExitBadInput;
     }
+    demo.scenario_paths = std::move(*found);
   }
   if (demo.out_dir.empty()) demo.out_dir = "results/demo";
   // The whole picture: every scenario with its linear twin, then the margin and the spread of
@@ -232,14 +234,14 @@ int RunDemo(const RunCommandOptions& options) {
   Log().Info("\nupright demo: the same shove on 50 robots drawn from its spreads");
   if (const int code = RunSweep(sweep); code != kExitOk) return code;
 
-  std::string report_path, error;
-  if (!runner::WriteReport(demo.out_dir, &report_path, &error)) {
-    Log().Error(error);
+  const Result<std::string> report_path = runner::WriteReport(demo.out_dir);
+  if (!report_path) {
+    Log().Error(report_path.error());
     return kExitFailed;
   }
   Log().Info("");
   Log().Caution(kCaution);
-  Log().Info("report: " + report_path + " (open it in any browser; it needs no network)");
+  Log().Info("report: " + *report_path + " (open it in any browser; it needs no network)");
   return kExitOk;
 }
 

@@ -15,8 +15,12 @@
 namespace upright::cli {
 
 int RunSweep(const SweepCommandOptions& options) {
-  runner::Scenario scenario;
-  if (!LoadScenarioOrSayWhy(options.scenario_path, &scenario)) return kExitBadInput;
+  const Result<runner::Scenario> loaded = LoadScenarioForRun(options.scenario_path);
+  if (!loaded) {
+    Log().Error(loaded.error());
+    return kExitBadInput;
+  }
+  const runner::Scenario& scenario = *loaded;
   if (scenario.dispersions.empty()) {
     Log().Error(options.scenario_path +
                 ": the scenario declares no dispersions, so there is nothing to sample. Add, "
@@ -33,9 +37,8 @@ int RunSweep(const SweepCommandOptions& options) {
   sweep_options.samples = options.samples;
   sweep_options.seed = options.seed;
   sweep_options.jobs = options.jobs;
-  std::string error;
-  if (!sweep_options.IsValid(&error)) {
-    Log().Error(error);
+  if (const Status valid = sweep_options.Validate(); !valid) {
+    Log().Error(valid.error());
     return kExitBadInput;
   }
   const std::string out_dir =
@@ -47,15 +50,16 @@ int RunSweep(const SweepCommandOptions& options) {
       Printf("upright sweep: %s, %d sample(s) x %zu controller(s) = %zu run(s), seed %llu, into %s",
              scenario.name.c_str(), options.samples, scenario.controllers.size(), total,
              static_cast<unsigned long long>(options.seed), out_dir.c_str()));
-  const runner::SweepResult result = runner::RunSweepSamples(
+  const Result<runner::SweepResult> swept = runner::RunSweepSamples(
       scenario, sweep_options, UPRIGHT_VERSION,
       Log().ShowsProgress() ? progress_line.Callback() : runner::ProgressFn());
-  if (!result.module_error.empty()) {
-    Log().Error(options.scenario_path + ": " + result.module_error + "; nothing was run");
+  if (!swept) {
+    Log().Error(options.scenario_path + ": " + swept.error() + "; nothing was run");
     return kExitFailed;
   }
-  if (!runner::WriteSweepResults(out_dir, result, &error)) {
-    Log().Error(error);
+  const runner::SweepResult& result = *swept;
+  if (const Status written = runner::WriteSweepResults(out_dir, result); !written) {
+    Log().Error(written.error());
     return kExitFailed;
   }
 

@@ -43,35 +43,38 @@ class AtomicFile : public ::testing::Test {
 TEST_F(AtomicFile, WritesTheBytesAndLeavesNoTemporary) {
   const fs::path path = dir_ / "table.csv";
   const std::string contents("a,b\n1,2\n\0tail", 13);  // embedded NUL: written as bytes
-  std::string error;
-  ASSERT_TRUE(WriteFileAtomically(path.string(), contents, &error)) << error;
+  const Status written = WriteFileAtomically(path.string(), contents);
+  ASSERT_TRUE(written) << written.error();
   EXPECT_EQ(Read(path), contents);
   EXPECT_EQ(Temporaries(), 0);
 }
 
 TEST_F(AtomicFile, ReplacesAnExistingFileWhole) {
   const fs::path path = dir_ / "table.csv";
-  std::string error;
-  ASSERT_TRUE(WriteFileAtomically(path.string(), std::string(1000, 'x'), &error)) << error;
-  ASSERT_TRUE(WriteFileAtomically(path.string(), "short\n", &error)) << error;
+  const Status first = WriteFileAtomically(path.string(), std::string(1000, 'x'));
+  ASSERT_TRUE(first) << first.error();
+  const Status second = WriteFileAtomically(path.string(), "short\n");
+  ASSERT_TRUE(second) << second.error();
   EXPECT_EQ(Read(path), "short\n");
   EXPECT_EQ(Temporaries(), 0);
 }
 
 TEST_F(AtomicFile, MissingFolderFailsNamingThePath) {
   const std::string path = (dir_ / "no_such_folder" / "table.csv").string();
-  std::string error;
-  EXPECT_FALSE(WriteFileAtomically(path, "x", &error));
-  EXPECT_NE(error.find("cannot write " + path + ": "), std::string::npos) << error;
+  const Status written = WriteFileAtomically(path, "x");
+  ASSERT_FALSE(written);
+  EXPECT_NE(written.error().find("cannot write " + path + ": "), std::string::npos)
+      << written.error();
 }
 
 TEST_F(AtomicFile, FailedRenameRemovesTheTemporary) {
   // A folder in the way: the temporary is written, the rename over a non-empty folder fails.
   const fs::path path = dir_ / "occupied";
   fs::create_directories(path / "inside");
-  std::string error;
-  EXPECT_FALSE(WriteFileAtomically(path.string(), "x", &error));
-  EXPECT_NE(error.find("cannot write " + path.string() + ": "), std::string::npos) << error;
+  const Status written = WriteFileAtomically(path.string(), "x");
+  ASSERT_FALSE(written);
+  EXPECT_NE(written.error().find("cannot write " + path.string() + ": "), std::string::npos)
+      << written.error();
   EXPECT_EQ(Temporaries(), 0);
   EXPECT_TRUE(fs::is_directory(path));
 }

@@ -51,9 +51,9 @@ TEST(EnvelopePlan, FillsTheDefaultRangeFromTheScenario) {
   const Scenario s = ScenarioFromText(ShoveText());
   EnvelopeOptions options;
   options.param = "timeline/push[1].peak_N";
-  EnvelopePlan plan;
-  std::string error;
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
+  const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  const EnvelopePlan& plan = *planned;
   EXPECT_EQ(plan.axis.unit, "N");
   EXPECT_DOUBLE_EQ(plan.axis.scenario_value, 160);
   EXPECT_DOUBLE_EQ(plan.axis.lo, 40);   // 0.25 × 160
@@ -71,9 +71,9 @@ TEST(EnvelopePlan, OrdersTheDefaultRangeOfANegativeValue) {
   EnvelopeOptions options;
   options.param = "timeline/push[1].peak_N";
   options.seed_count = 3;
-  EnvelopePlan plan;
-  std::string error;
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
+  const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  const EnvelopePlan& plan = *planned;
   EXPECT_DOUBLE_EQ(plan.axis.lo, -320);
   EXPECT_DOUBLE_EQ(plan.axis.hi, -20);
   EXPECT_EQ(plan.seeds, (std::vector<std::uint64_t>{1, 2, 3}));
@@ -81,28 +81,33 @@ TEST(EnvelopePlan, OrdersTheDefaultRangeOfANegativeValue) {
 
 TEST(EnvelopePlan, RefusesBadInputWithTheReason) {
   const Scenario s = ScenarioFromText(ShoveText());
-  std::string error;
-  EnvelopePlan plan;
+  // Why `options` are refused; a test failure, and "", when they are not.
+  const auto refusal = [&](const EnvelopeOptions& options) {
+    const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+    EXPECT_FALSE(planned);
+    return planned ? std::string() : planned.error();
+  };
   EnvelopeOptions options = PeakOptions();
+  std::string error;
 
   options.param = "timeline/push[2].peak_N";
-  EXPECT_FALSE(PlanEnvelope(s, options, &plan, &error));
+  error = refusal(options);
   EXPECT_NE(error.find("push[2]"), std::string::npos) << error;
   EXPECT_NE(error.find("has 1"), std::string::npos) << error;
 
   options = PeakOptions();
   options.param = "timeline/push[1].peak_kN";
-  EXPECT_FALSE(PlanEnvelope(s, options, &plan, &error));
+  error = refusal(options);
   EXPECT_NE(error.find("peak_kN"), std::string::npos) << error;
 
   options = PeakOptions();
   options.lo = 640;
-  EXPECT_FALSE(PlanEnvelope(s, options, &plan, &error));
+  error = refusal(options);
   EXPECT_NE(error.find("lo = 640, must be < hi = 640"), std::string::npos) << error;
 
   options = PeakOptions();
   options.tol = 0;
-  EXPECT_FALSE(PlanEnvelope(s, options, &plan, &error));
+  error = refusal(options);
   EXPECT_NE(error.find("tol = 0"), std::string::npos) << error;
 
   // The start pitch is 0 in the file: no default range.
@@ -111,7 +116,7 @@ TEST(EnvelopePlan, RefusesBadInputWithTheReason) {
   options.lo.reset();
   options.hi.reset();
   options.tol.reset();
-  EXPECT_FALSE(PlanEnvelope(s, options, &plan, &error));
+  error = refusal(options);
   EXPECT_NE(error.find("--lo and --hi"), std::string::npos) << error;
 
   // A push after the run's end (4 s) is refused at the range's end.
@@ -119,21 +124,21 @@ TEST(EnvelopePlan, RefusesBadInputWithTheReason) {
   options.param = "timeline/push[1].at_s";
   options.lo = 0.5;
   options.hi = 5;
-  EXPECT_FALSE(PlanEnvelope(s, options, &plan, &error));
+  error = refusal(options);
   EXPECT_NE(error.find("at_s = 5"), std::string::npos) << error;
 
   options = PeakOptions();
   options.param2 = options.param;
-  EXPECT_FALSE(PlanEnvelope(s, options, &plan, &error));
+  error = refusal(options);
   EXPECT_NE(error.find("param2"), std::string::npos) << error;
 }
 
 TEST(Envelope, PushPeakIsBracketedAndTheSurvivedValueSurvives) {
   const Scenario s = ScenarioFromText(ShoveText());
   const EnvelopeOptions options = PeakOptions();
-  EnvelopePlan plan;
-  std::string error;
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
+  const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  const EnvelopePlan& plan = *planned;
   const EnvelopeResult r = RunEnvelope(s, options, plan, "test", nullptr);
   ASSERT_EQ(r.controllers.size(), 1u);
   const ControllerEnvelope& lqr = r.controllers[0];
@@ -157,35 +162,37 @@ TEST(Envelope, PushPeakIsBracketedAndTheSurvivedValueSurvives) {
   run_options.stop_when_settled = true;
   for (const double value : {lqr.bisect.survived_value, lqr.bisect.first_failing_value}) {
     Scenario probe = s;
-    ASSERT_TRUE(SetScenarioParameter(&probe, options.param, value, &error)) << error;
-    const RunResult run = RunOne(probe, 0, 1, module, "", run_options);
+    const Status set = SetScenarioParameter(&probe, options.param, value);
+    ASSERT_TRUE(set) << set.error();
+    const RunResult run = RunOne(probe, 0, 1, module, run_options);
     EXPECT_EQ(run.metrics.status == RunStatus::kOk, value == lqr.bisect.survived_value)
         << value << ": " << run.metrics.message;
   }
   // Survival is judged over the whole run, not just until settled: the survived value also
   // survives a run played to the scenario's end.
   Scenario full = s;
-  ASSERT_TRUE(SetScenarioParameter(&full, options.param, lqr.bisect.survived_value, &error));
-  EXPECT_EQ(RunOne(full, 0, 1, module, "", RunOptions{}).metrics.status, RunStatus::kOk);
+  const Status set = SetScenarioParameter(&full, options.param, lqr.bisect.survived_value);
+  ASSERT_TRUE(set) << set.error();
+  EXPECT_EQ(RunOne(full, 0, 1, module, RunOptions{}).metrics.status, RunStatus::kOk);
 }
 
 TEST(Envelope, ReportsBothEndsHonestlyWithoutBisecting) {
   const Scenario s = ScenarioFromText(ShoveText());
   EnvelopeOptions options = PeakOptions();
-  EnvelopePlan plan;
-  std::string error;
 
   options.lo = 10;
   options.hi = 30;  // gentle nudges
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
-  EnvelopeResult r = RunEnvelope(s, options, plan, "test", nullptr);
+  Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  EnvelopeResult r = RunEnvelope(s, options, *planned, "test", nullptr);
   EXPECT_EQ(r.controllers[0].bisect.outcome, BisectOutcome::kSurvivesWholeRange);
   EXPECT_EQ(r.controllers[0].bisect.probes, 2);
 
   options.lo = 2000;
   options.hi = 3000;  // far beyond what 41 N·m of wheel torque can catch
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
-  r = RunEnvelope(s, options, plan, "test", nullptr);
+  planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  r = RunEnvelope(s, options, *planned, "test", nullptr);
   EXPECT_EQ(r.controllers[0].bisect.outcome, BisectOutcome::kFailsAtBothEnds);
   EXPECT_EQ(r.controllers[0].bisect.probes, 2);
   EXPECT_EQ(r.runs, 2u);
@@ -196,9 +203,9 @@ TEST(Envelope, FilesAreByteIdenticalWithOneJobOrTwo) {
     <controller name="pid" builtin="pid"/>)"));
   EnvelopeOptions options = PeakOptions();
   options.tol = 40;
-  EnvelopePlan plan;
-  std::string error;
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
+  const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  const EnvelopePlan& plan = *planned;
   options.jobs = 1;
   const EnvelopeResult a = RunEnvelope(s, options, plan, "test", nullptr);
   options.jobs = 2;
@@ -221,8 +228,10 @@ TEST(Envelope, FilesAreByteIdenticalWithOneJobOrTwo) {
     }
   }
   const auto dir_a = ScratchDir("envelope-jobs1"), dir_b = ScratchDir("envelope-jobs2");
-  ASSERT_TRUE(WriteEnvelopeResults(dir_a.string(), a, &error)) << error;
-  ASSERT_TRUE(WriteEnvelopeResults(dir_b.string(), b, &error)) << error;
+  const Status written_a = WriteEnvelopeResults(dir_a.string(), a);
+  ASSERT_TRUE(written_a) << written_a.error();
+  const Status written_b = WriteEnvelopeResults(dir_b.string(), b);
+  ASSERT_TRUE(written_b) << written_b.error();
   for (const auto& name : EnvelopeFileNames(a)) {
     const std::string text = ReadFile(dir_a / name);
     EXPECT_FALSE(text.empty()) << name;
@@ -254,9 +263,9 @@ TEST(Envelope, SurvivalMapSurvivesTheEasyCornerAndFallsAtTheHardOne) {
   options.lo2 = 0.1;  // lasting 0.1, 0.3, 0.5 s
   options.hi2 = 0.5;
   options.grid = 3;
-  EnvelopePlan plan;
-  std::string error;
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
+  const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  const EnvelopePlan& plan = *planned;
   ASSERT_TRUE(plan.axis2);
   EXPECT_EQ(plan.axis2->unit, "s");
   const EnvelopeResult r = RunEnvelope(s, options, plan, "test", nullptr);
@@ -284,7 +293,8 @@ TEST(Envelope, SurvivalMapSurvivesTheEasyCornerAndFallsAtTheHardOne) {
     }
   }
   const auto dir = ScratchDir("envelope-map");
-  ASSERT_TRUE(WriteEnvelopeResults(dir.string(), r, &error)) << error;
+  const Status written = WriteEnvelopeResults(dir.string(), r);
+  ASSERT_TRUE(written) << written.error();
   const std::string csv = ReadFile(dir / "envelope_map.csv");
   EXPECT_EQ(csv.rfind("scenario,controller,parameter,value,parameter2,value2,survived,"
                       "seeds_survived,seeds\n",
@@ -309,16 +319,17 @@ TEST(Envelope, AControllerThatCannotLoadIsReportedNotRun) {
   const Scenario s = ScenarioFromText(ShoveText());
   EnvelopeOptions options = PeakOptions();
   options.module_dirs = {ScratchDir("no-modules").string()};
-  EnvelopePlan plan;
-  std::string error;
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
+  const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  const EnvelopePlan& plan = *planned;
   const EnvelopeResult r = RunEnvelope(s, options, plan, "test", nullptr);
   EXPECT_TRUE(r.any_setup_failed());
   EXPECT_FALSE(r.controllers[0].setup_error.empty());
   EXPECT_EQ(r.controllers[0].bisect.probes, 0);
   EXPECT_EQ(r.runs, 0u);
   const auto dir = ScratchDir("envelope-setup");
-  ASSERT_TRUE(WriteEnvelopeResults(dir.string(), r, &error)) << error;
+  const Status written = WriteEnvelopeResults(dir.string(), r);
+  ASSERT_TRUE(written) << written.error();
   EXPECT_NE(ReadFile(dir / "envelope.csv").find(",setup_failed,"), std::string::npos);
 }
 
@@ -327,9 +338,9 @@ TEST(Envelope, AControllerThatRefusesItsSettingsStopsAfterItsFirstProbes) {
       <setting key="no_such_key" value="1"/></controller>
     <controller name="pid" builtin="pid"/>)"));
   const EnvelopeOptions options = PeakOptions();
-  EnvelopePlan plan;
-  std::string error;
-  ASSERT_TRUE(PlanEnvelope(s, options, &plan, &error)) << error;
+  const Result<EnvelopePlan> planned = PlanEnvelope(s, options);
+  ASSERT_TRUE(planned) << planned.error();
+  const EnvelopePlan& plan = *planned;
   const EnvelopeResult r = RunEnvelope(s, options, plan, "test", nullptr);
   EXPECT_TRUE(r.any_setup_failed());
   EXPECT_NE(r.controllers[0].setup_error.find("no_such_key"), std::string::npos)

@@ -13,16 +13,16 @@ namespace upright::runner {
 namespace {
 
 TEST(MetricSettings, DefaultsAreValid) {
-  std::string error;
-  EXPECT_TRUE(MetricSettings{}.IsValid(&error)) << error;
+  const Status valid = MetricSettings{}.Validate();
+  EXPECT_TRUE(valid) << valid.error();
 }
 
 TEST(MetricSettings, RejectsZeroWindowNamingFieldValueAndRule) {
   MetricSettings s;
   s.window_s = 0;
-  std::string error;
-  EXPECT_FALSE(s.IsValid(&error));
-  EXPECT_EQ(error, "MetricSettings::window_s = 0, must be > 0");
+  const Status valid = s.Validate();
+  ASSERT_FALSE(valid);
+  EXPECT_EQ(valid.error(), "MetricSettings::window_s = 0, must be > 0");
 }
 
 TEST(MetricSettings, RejectsEachBrokenRule) {
@@ -50,22 +50,25 @@ TEST(MetricSettings, RejectsEachBrokenRule) {
   for (const Case& c : cases) {
     MetricSettings s;
     c.set(&s);
-    std::string error;
-    EXPECT_FALSE(s.IsValid(&error)) << c.message;
-    EXPECT_EQ(error, c.message);
+    const Status valid = s.Validate();
+    ASSERT_FALSE(valid) << c.message;
+    EXPECT_EQ(valid.error(), c.message);
   }
   MetricSettings s;
   s.window_s = nan;
-  EXPECT_FALSE(s.IsValid(nullptr));
+  const Status not_a_number = s.Validate();
+  ASSERT_FALSE(not_a_number);
+  EXPECT_EQ(not_a_number.error(), "MetricSettings::window_s = nan, must be > 0");
   s = MetricSettings{};
   s.window_s = inf;
-  std::string error;
-  EXPECT_FALSE(s.IsValid(&error));
-  EXPECT_EQ(error, "MetricSettings::window_s = inf, must be finite");
+  const Status infinite = s.Validate();
+  ASSERT_FALSE(infinite);
+  EXPECT_EQ(infinite.error(), "MetricSettings::window_s = inf, must be finite");
   s = MetricSettings{};
   s.fall_tilt_deg = 90;  // the closed end of (0, 90]
   s.slip_threshold = 1;  // the closed end of (0, 1]
-  EXPECT_TRUE(s.IsValid(&error)) << error;
+  const Status closed_ends = s.Validate();
+  EXPECT_TRUE(closed_ends) << closed_ends.error();
 }
 
 TEST(RunStatus, StringsRoundTrip) {

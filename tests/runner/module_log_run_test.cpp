@@ -50,7 +50,7 @@ RunOptions NoTrace() {
 
 TEST(RunModuleLog, KeepsCreatesMessagesAndEachTicksWithItsTime) {
   const Scenario s = ScenarioFromText(LoggingText(0.2, R"(<setting key="per_step" value="2"/>)"));
-  const RunResult r = RunOne(s, 0, 1, LoggingModule(), "", NoTrace());
+  const RunResult r = RunOne(s, 0, 1, LoggingModule(), NoTrace());
   ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
   ASSERT_EQ(r.steps, 200);
   const ModuleLog& log = r.module_log;
@@ -78,16 +78,16 @@ TEST(RunModuleLog, DebugMessagesAreKeptOnlyWhenAsked) {
   const Scenario s = ScenarioFromText(LoggingText(0.01, ""));
   RunOptions options = NoTrace();
   options.module_log_level = LogLevel::kDebug;
-  const RunResult r = RunOne(s, 0, 1, LoggingModule(), "", options);
+  const RunResult r = RunOne(s, 0, 1, LoggingModule(), options);
   ASSERT_EQ(r.module_log.messages.size(), 5u);  // create's four and "first tick"
   EXPECT_EQ(r.module_log.messages[0].text, "create: debug");
   EXPECT_EQ(r.module_log.messages[0].level, LogLevel::kDebug);
-  EXPECT_EQ(RunOne(s, 0, 1, LoggingModule(), "", NoTrace()).module_log.messages.size(), 4u);
+  EXPECT_EQ(RunOne(s, 0, 1, LoggingModule(), NoTrace()).module_log.messages.size(), 4u);
 }
 
 TEST(RunModuleLog, ARefusedCreateKeepsWhatTheModuleSaidBeforeRefusing) {
   const Scenario s = ScenarioFromText(LoggingText(0.2, R"(<setting key="refuse" value="true"/>)"));
-  const RunResult r = RunOne(s, 0, 1, LoggingModule(), "", NoTrace());
+  const RunResult r = RunOne(s, 0, 1, LoggingModule(), NoTrace());
   EXPECT_EQ(r.metrics.status, RunStatus::kSetupFailed);
   EXPECT_NE(r.metrics.message.find("refused as asked"), std::string::npos) << r.metrics.message;
   ASSERT_EQ(r.module_log.messages.size(), 3u);
@@ -95,8 +95,9 @@ TEST(RunModuleLog, ARefusedCreateKeepsWhatTheModuleSaidBeforeRefusing) {
   EXPECT_TRUE(std::isnan(r.module_log.messages[2].time_s));
   // `upright check` asks the same set-up, and gets the same messages.
   ModuleLog start_log;
-  const std::string problem = RunStartProblem(s, 0, LoggingModule(), &start_log);
-  EXPECT_NE(problem.find("refused as asked"), std::string::npos) << problem;
+  const Status started = CheckRunStart(s, 0, LoggingModule(), &start_log);
+  ASSERT_FALSE(started);
+  EXPECT_NE(started.error().find("refused as asked"), std::string::npos) << started.error();
   ASSERT_EQ(start_log.messages.size(), 3u);
   EXPECT_EQ(start_log.messages[0].text, "create: info");
 }
@@ -105,7 +106,7 @@ TEST(RunModuleLog, TheLinearTwinsInstanceKeepsItsOwn) {
   const Scenario s = ScenarioFromText(LoggingText(0.2, R"(<setting key="per_step" value="1"/>)"));
   RunOptions options = NoTrace();
   options.linear_twin = true;
-  const RunResult r = RunOne(s, 0, 1, LoggingModule(), "", options);
+  const RunResult r = RunOne(s, 0, 1, LoggingModule(), options);
   ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
   ASSERT_TRUE(r.gap.twin_message.empty()) << r.gap.twin_message;
   // The twin runs the same 40 ticks: 3 + 1 + 40 messages, as the run's own.
@@ -124,7 +125,7 @@ TEST(RunModuleLog, AModuleThatLogsEveryStepMakesTheRunAllocateNoMore) {
         ScenarioFromText(LoggingText(duration_s, R"(<setting key="per_step" value="5"/>)"));
     const auto module = LoggingModule();
     const long before = testing::AllocationCount();
-    const RunResult r = RunOne(s, 0, 1, module, "", NoTrace());
+    const RunResult r = RunOne(s, 0, 1, module, NoTrace());
     const long made = testing::AllocationCount() - before;
     EXPECT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
     EXPECT_EQ(r.steps, std::lround(duration_s / 0.001));

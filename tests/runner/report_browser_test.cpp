@@ -86,8 +86,9 @@ TEST(ReportInBrowser, RendersWithoutConsoleErrors) {
       << "Chromium did not log the broken page's console errors; the check below would be blind";
 
   const auto& run = testing::SmallRunFolder();
-  const ReportOutcome report = MakeReport(run.dir.string());
-  ASSERT_EQ(report.status, ReportStatus::kWritten) << report.message;
+  const Result<ReportWritten, ReportFailure> made = MakeReport(run.dir.string());
+  ASSERT_TRUE(made) << made.error().message;
+  const ReportWritten& report = *made;
   const std::string html = ReadFile(report.path);
 
   const fs::path png = scratch / "report.png";

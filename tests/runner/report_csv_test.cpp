@@ -11,17 +11,16 @@ namespace upright::runner {
 namespace {
 
 CsvTable Parse(std::string_view text) {
-  CsvTable table;
-  std::string error;
-  EXPECT_TRUE(ParseCsv(text, "t.csv", &table, &error)) << error;
-  return table;
+  const Result<CsvTable> table = ParseCsv(text, "t.csv");
+  EXPECT_TRUE(table) << table.error();
+  return table.value_or(CsvTable{});
 }
 
+// Why `text` is refused; a test failure, and "", when it is not.
 std::string ErrorOf(std::string_view text) {
-  CsvTable table;
-  std::string error;
-  EXPECT_FALSE(ParseCsv(text, "t.csv", &table, &error));
-  return error;
+  const Result<CsvTable> table = ParseCsv(text, "t.csv");
+  EXPECT_FALSE(table);
+  return table ? "" : table.error();
 }
 
 TEST(CsvReader, ReadsHeaderAndRows) {
@@ -100,10 +99,9 @@ TEST(CsvReader, RefusesAnEmptyFile) {
 }
 
 TEST(CsvReader, ReadFileNamesAMissingFile) {
-  CsvTable table;
-  std::string error;
-  EXPECT_FALSE(ReadCsvFile("/nonexistent/summary.csv", &table, &error));
-  EXPECT_EQ(error.rfind("cannot read /nonexistent/summary.csv: ", 0), 0u) << error;
+  const Result<CsvTable> table = ReadCsvFile("/nonexistent/summary.csv");
+  ASSERT_FALSE(table);
+  EXPECT_EQ(table.error().rfind("cannot read /nonexistent/summary.csv: ", 0), 0u) << table.error();
 }
 
 TEST(CsvReader, NumbersAsTheTablesWriteThem) {
@@ -121,14 +119,15 @@ TEST(CsvReader, NumbersAsTheTablesWriteThem) {
 // error at its line, never read as false.
 TEST(CsvReader, YesNoCellsAreTrueOrFalseAndNothingElse) {
   const CsvTable table = Parse("controller,survived\nlqr,true\npid,false\nhinf,1\n");
-  bool value = false;
-  std::string error;
-  EXPECT_TRUE(CsvBoolAt(table, 0, 1, "t.csv", &value, &error)) << error;
-  EXPECT_TRUE(value);
-  EXPECT_TRUE(CsvBoolAt(table, 1, 1, "t.csv", &value, &error)) << error;
-  EXPECT_FALSE(value);
-  EXPECT_FALSE(CsvBoolAt(table, 2, 1, "t.csv", &value, &error));
-  EXPECT_EQ(error, "t.csv:4: survived = '1': expected true or false");
+  const Result<bool> lqr = CsvBoolAt(table, 0, 1, "t.csv");
+  ASSERT_TRUE(lqr) << lqr.error();
+  EXPECT_TRUE(*lqr);
+  const Result<bool> pid = CsvBoolAt(table, 1, 1, "t.csv");
+  ASSERT_TRUE(pid) << pid.error();
+  EXPECT_FALSE(*pid);
+  const Result<bool> hinf = CsvBoolAt(table, 2, 1, "t.csv");
+  ASSERT_FALSE(hinf);
+  EXPECT_EQ(hinf.error(), "t.csv:4: survived = '1': expected true or false");
 }
 
 }  // namespace

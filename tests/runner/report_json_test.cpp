@@ -27,6 +27,7 @@ Json Parse(std::string_view text) {
   return parsed.value_or(Json());
 }
 
+// Why `text` is refused; a test failure, and "", when it is not.
 std::string ErrorOf(std::string_view text) {
   const Result<Json> parsed = ParseJson(text, "m.json");
   EXPECT_FALSE(parsed.has_value()) << text;
@@ -199,9 +200,9 @@ TEST(Manifest, TakesInputsRunsAndParameters) {
   "parameter": {"path": "timeline/push[1].peak_N", "unit": "N", "scenario_value": 160,
                 "lo": 40, "hi": 640.5}
 })";
-  ManifestInfo info;
-  std::string error;
-  ASSERT_TRUE(ReadManifest(dir.string(), &info, &error)) << error;
+  const Result<ManifestInfo> read = ReadManifest(dir.string());
+  ASSERT_TRUE(read) << read.error();
+  const ManifestInfo& info = *read;
   EXPECT_TRUE(info.present);
   EXPECT_EQ(info.tool_version, "9.9");
   EXPECT_EQ(info.command, "envelope");
@@ -223,21 +224,22 @@ TEST(Manifest, TakesInputsRunsAndParameters) {
 TEST(Manifest, RefusesAMalformedOneAtItsLine) {
   const auto dir = runner::testing::ScratchDir("report-bad-manifest");
   std::ofstream(dir / "manifest.json") << "{\n  \"jobs\": 01\n}\n";
-  ManifestInfo info;
-  std::string error;
-  EXPECT_FALSE(ReadManifest(dir.string(), &info, &error));
-  EXPECT_EQ(error.rfind((dir / "manifest.json").string() + ":2: ", 0), 0u) << error;
+  const Result<ManifestInfo> leading_zero = ReadManifest(dir.string());
+  ASSERT_FALSE(leading_zero);
+  EXPECT_EQ(leading_zero.error().rfind((dir / "manifest.json").string() + ":2: ", 0), 0u)
+      << leading_zero.error();
   std::ofstream(dir / "manifest.json") << "[1, 2]\n";
-  EXPECT_FALSE(ReadManifest(dir.string(), &info, &error));
-  EXPECT_EQ(error, (dir / "manifest.json").string() + ":1: the manifest is not a JSON object");
+  const Result<ManifestInfo> array = ReadManifest(dir.string());
+  ASSERT_FALSE(array);
+  EXPECT_EQ(array.error(),
+            (dir / "manifest.json").string() + ":1: the manifest is not a JSON object");
 }
 
 TEST(Manifest, AbsentIsNotAnError) {
   const auto dir = runner::testing::ScratchDir("report-no-manifest");
-  ManifestInfo info;
-  std::string error;
-  EXPECT_TRUE(ReadManifest(dir.string(), &info, &error));
-  EXPECT_FALSE(info.present);
+  const Result<ManifestInfo> info = ReadManifest(dir.string());
+  ASSERT_TRUE(info) << info.error();
+  EXPECT_FALSE(info->present);
 }
 
 }  // namespace

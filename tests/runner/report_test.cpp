@@ -93,15 +93,16 @@ std::size_t PathPoints(const std::string& d) {
 }
 
 struct Report {
-  ReportOutcome outcome;
+  ReportWritten written;
   std::string html;
   tinyxml2::XMLDocument doc;
 };
 
 void MakeAndParse(const fs::path& dir, const ReportOptions& options, Report* report) {
-  report->outcome = MakeReport(dir.string(), options);
-  ASSERT_EQ(report->outcome.status, ReportStatus::kWritten) << report->outcome.message;
-  report->html = ReadFile(report->outcome.path);
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string(), options);
+  ASSERT_TRUE(made) << made.error().message;
+  report->written = *made;
+  report->html = ReadFile(report->written.path);
   ASSERT_EQ(report->doc.Parse(report->html.c_str(), report->html.size()), tinyxml2::XML_SUCCESS)
       << report->doc.ErrorStr();
 }
@@ -211,16 +212,17 @@ TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
   EXPECT_NE(html.find(report::kCaution), std::string::npos);
   EXPECT_NE(html.find("upright test"), std::string::npos);  // the batch's tool version
   // The robot file's digest as the manifest recorded it, and as the file has it.
-  std::string error;
-  const std::string model_sha =
-      Sha256OfFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml", &error);
-  ASSERT_EQ(run.batch.scenarios[0].model_sha256, model_sha) << error;
-  EXPECT_NE(html.find(model_sha), std::string::npos);
+  const Result<std::string> model_sha =
+      Sha256OfFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  ASSERT_TRUE(model_sha) << model_sha.error();
+  ASSERT_EQ(run.batch.scenarios[0].model_sha256, *model_sha);
+  EXPECT_NE(html.find(*model_sha), std::string::npos);
 
   // Every verdict of compare.csv shows with the mark compare.md gives it (one convention,
   // upright/runner/verdict.hpp): a symbol and a word, not colour alone, and not the old arrows.
-  CsvTable compare;
-  ASSERT_TRUE(ReadCsvFile((run.dir / "compare.csv").string(), &compare, &error)) << error;
+  const Result<CsvTable> read = ReadCsvFile((run.dir / "compare.csv").string());
+  ASSERT_TRUE(read) << read.error();
+  const CsvTable& compare = *read;
   const int verdict_column = compare.Column("verdict");
   const int direction_column = compare.Column("direction");
   ASSERT_GE(verdict_column, 0);
@@ -282,9 +284,9 @@ TEST(Report, ReferencesNothingOutsideAndStaysSmall) {
       EXPECT_EQ(href[0], '#') << href;
     }
   });
-  std::printf("report of the small run: %zu bytes\n", report.outcome.bytes);
-  EXPECT_EQ(report.outcome.bytes, html.size());
-  EXPECT_LT(report.outcome.bytes, 2u * 1000 * 1000);
+  std::printf("report of the small run: %zu bytes\n", report.written.bytes);
+  EXPECT_EQ(report.written.bytes, html.size());
+  EXPECT_LT(report.written.bytes, 2u * 1000 * 1000);
 }
 
 TEST(Report, SameResultsGiveTheSameBytes) {
@@ -356,24 +358,28 @@ TEST(Report, PlotsAreThinnedToTheirBound) {
 TEST(Report, AFolderWithoutResultsIsRefusedNamingWhatWasLookedFor) {
   const auto dir = ScratchDir("report-empty");
   fs::create_directories(dir / "sub" / "traces");
-  const ReportOutcome outcome = MakeReport(dir.string());
-  EXPECT_EQ(outcome.status, ReportStatus::kNoResults);
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kNoResults);
+  const std::string& message = made.error().message;
   for (const char* name : {"summary.csv", "envelope.csv", "sweep.csv"}) {
-    EXPECT_NE(outcome.message.find(name), std::string::npos) << outcome.message;
+    EXPECT_NE(message.find(name), std::string::npos) << message;
   }
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
-  std::string path, error;
-  EXPECT_FALSE(WriteReport(dir.string(), &path, &error));
-  EXPECT_EQ(error, outcome.message);
+  const Result<std::string> written = WriteReport(dir.string());
+  ASSERT_FALSE(written);
+  EXPECT_EQ(written.error(), message);
 }
 
 TEST(Report, AMalformedTableIsRefusedWithItsLine) {
   const auto dir = ScratchDir("report-bad");
   std::ofstream(dir / "summary.csv") << "scenario,controller,seed,status\ns,lqr,1,\"ok\n";
-  const ReportOutcome outcome = MakeReport(dir.string());
-  EXPECT_EQ(outcome.status, ReportStatus::kBadInput);
-  EXPECT_EQ(outcome.message, (dir / "summary.csv").string() +
-                                 ":2: a quoted field is never closed (expected a closing '\"')");
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kBadInput);
+  EXPECT_EQ(made.error().message,
+            (dir / "summary.csv").string() +
+                ":2: a quoted field is never closed (expected a closing '\"')");
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
 }
 
@@ -383,9 +389,10 @@ TEST(Report, ASurvivedCellThatIsNotTrueOrFalseIsRefusedWithItsLine) {
   const auto dir = ScratchDir("report-bad-bool");
   std::ofstream(dir / "sweep.csv") << "sample,controller,status,survived\n0,lqr,ok,true\n"
                                       "1,lqr,ok,1\n";
-  const ReportOutcome outcome = MakeReport(dir.string());
-  EXPECT_EQ(outcome.status, ReportStatus::kBadInput);
-  EXPECT_EQ(outcome.message,
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kBadInput);
+  EXPECT_EQ(made.error().message,
             (dir / "sweep.csv").string() + ":3: survived = '1': expected true or false");
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
 }
@@ -393,10 +400,14 @@ TEST(Report, ASurvivedCellThatIsNotTrueOrFalseIsRefusedWithItsLine) {
 TEST(Report, OptionsAreChecked) {
   ReportOptions options;
   options.max_points = 3;
-  std::string error;
-  EXPECT_FALSE(options.IsValid(&error));
-  EXPECT_EQ(error, "ReportOptions::max_points = 3, must be >= 4");
-  EXPECT_EQ(MakeReport(SmallRunFolder().dir.string(), options).status, ReportStatus::kBadInput);
+  const Status valid = options.Validate();
+  ASSERT_FALSE(valid);
+  EXPECT_EQ(valid.error(), "ReportOptions::max_points = 3, must be >= 4");
+  const Result<ReportWritten, ReportFailure> made =
+      MakeReport(SmallRunFolder().dir.string(), options);
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().problem, ReportProblem::kBadInput);
+  EXPECT_EQ(made.error().message, valid.error());
 }
 
 using Outcome = testing::ProgramOutcome;
@@ -443,10 +454,10 @@ TEST(ReportCommand, ReportsEnvelopeAndSweepFoldersInsideAFolder) {
     ++charts[Attribute(svg, "data-chart")];
   }
   // The scenario file's digest, from both manifests, listed once.
-  std::string error;
-  const std::string scenario_sha = Sha256OfFile(scenario, &error);
-  ASSERT_EQ(scenario_sha.size(), 64u) << error;
-  EXPECT_EQ(Count(report.html, scenario_sha), 1u);
+  const Result<std::string> scenario_sha = Sha256OfFile(scenario);
+  ASSERT_TRUE(scenario_sha) << scenario_sha.error();
+  ASSERT_EQ(scenario_sha->size(), 64u);
+  EXPECT_EQ(Count(report.html, *scenario_sha), 1u);
   // The demo shove names four controllers; one survival map each.
   EXPECT_EQ(charts, (std::map<std::string, int>{{"envelope", 1}, {"map", 4}, {"sweep", 1}}));
 

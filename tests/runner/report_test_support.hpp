@@ -45,8 +45,8 @@ inline const SmallRun& SmallRunFolder() {
     options.run.trace_rate_hz = 50;
     options.run.linear_twin = true;
     r.batch = RunBatch({ScenarioFromText(kReportScenario, "shove.xml")}, options, "test", nullptr);
-    std::string error;
-    EXPECT_TRUE(WriteResults(r.dir.string(), r.batch, &error)) << error;
+    const Status written = WriteResults(r.dir.string(), r.batch);
+    EXPECT_TRUE(written) << written.error();
     return r;
   }();
   return run;

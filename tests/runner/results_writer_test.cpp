@@ -178,8 +178,8 @@ class ResultsWriter : public ::testing::Test {
   // Writes `batch` into root_/name and returns the folder.
   fs::path WriteInto(const std::string& name, const BatchResult& batch) {
     const fs::path dir = root_ / name / "nested";
-    std::string error;
-    EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+    const Status written = WriteResults(dir.string(), batch);
+    EXPECT_TRUE(written) << written.error();
     return dir;
   }
 
@@ -532,9 +532,9 @@ TEST_F(ResultsWriter, ClashingTraceNamesAreRefused) {
   batch.runs[1].trace.rate_hz = 100;
   batch.runs[1].seed = 1;
   batch.runs[1].controller = "lqr";  // same scenario, controller and seed as run 0
-  std::string error;
-  EXPECT_FALSE(WriteResults((root_ / "a").string(), batch, &error));
-  EXPECT_NE(error.find("ramp__lqr__seed1.csv"), std::string::npos) << error;
+  const Status written = WriteResults((root_ / "a").string(), batch);
+  ASSERT_FALSE(written);
+  EXPECT_NE(written.error().find("ramp__lqr__seed1.csv"), std::string::npos) << written.error();
 }
 
 TEST_F(ResultsWriter, WritingTwiceGivesIdenticalTablesAndTraces) {
@@ -559,8 +559,8 @@ TEST_F(ResultsWriter, WritingTwiceGivesIdenticalTablesAndTraces) {
   }
   EXPECT_EQ(compared, 7);  // six tables and one trace
   // Writing again over an existing folder gives the same bytes.
-  std::string error;
-  ASSERT_TRUE(WriteResults(a.string(), first, &error)) << error;
+  const Status written = WriteResults(a.string(), first);
+  ASSERT_TRUE(written) << written.error();
   EXPECT_EQ(Read(a / "summary.csv"), Read(b / "summary.csv"));
 }
 
@@ -577,8 +577,8 @@ TEST_F(ResultsWriter, AFolderWrittenBeforeKeepsNothingOfThatBatchButOtherFiles) 
   std::ofstream(dir / "notes.txt") << "mine";
   std::ofstream(dir / "traces" / "README.txt") << "mine too";
 
-  std::string error;
-  ASSERT_TRUE(WriteResults(dir.string(), MakeBatch(), &error)) << error;
+  const Status written = WriteResults(dir.string(), MakeBatch());
+  ASSERT_TRUE(written) << written.error();
   EXPECT_FALSE(fs::exists(dir / "gap.csv"));
   EXPECT_FALSE(fs::exists(dir / "gap.md"));
   EXPECT_FALSE(fs::exists(dir / "traces" / "ramp__lqr__seed2.csv"));
@@ -626,18 +626,19 @@ TEST_F(ResultsWriter, UnwritableFolderFailsNamingThePath) {
   fs::create_directories(root_);
   { std::ofstream(root_ / "plain_file") << "x"; }
   const std::string dir = (root_ / "plain_file" / "results").string();
-  std::string error;
-  EXPECT_FALSE(WriteResults(dir, MakeBatch(), &error));
-  EXPECT_NE(error.find(dir), std::string::npos) << error;
+  const Status written = WriteResults(dir, MakeBatch());
+  ASSERT_FALSE(written);
+  EXPECT_NE(written.error().find(dir), std::string::npos) << written.error();
 }
 
 TEST_F(ResultsWriter, UnwritableFileFailsNamingIt) {
   // A non-empty folder in the place of summary.csv: the rename over it fails.
   const fs::path dir = root_ / "a";
   fs::create_directories(dir / "summary.csv" / "inside");
-  std::string error;
-  EXPECT_FALSE(WriteResults(dir.string(), MakeBatch(), &error));
-  EXPECT_NE(error.find((dir / "summary.csv").string()), std::string::npos) << error;
+  const Status written = WriteResults(dir.string(), MakeBatch());
+  ASSERT_FALSE(written);
+  EXPECT_NE(written.error().find((dir / "summary.csv").string()), std::string::npos)
+      << written.error();
   for (const auto& entry : fs::directory_iterator(dir)) {
     EXPECT_EQ(entry.path().filename().string().find(".tmp."), std::string::npos) << entry.path();
   }

@@ -40,8 +40,8 @@ std::filesystem::path Written(const std::vector<RunResult>& runs, const std::str
   batch.trace_rate_hz = 100;
   batch.runs = runs;
   const std::filesystem::path dir = ScratchDir(name);
-  std::string error;
-  EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+  const Status written = WriteResults(dir.string(), batch);
+  EXPECT_TRUE(written) << written.error();
   return dir;
 }
 
@@ -77,7 +77,7 @@ TEST(RunOne, SurvivesAModestPushWithATraceAtTheAskedRate) {
   const Scenario s = ScenarioFromText(ShoveText(60));
   RunOptions options;
   options.trace_rate_hz = 50;
-  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", options);
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), options);
   EXPECT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
   EXPECT_EQ(r.scenario, "shove");
   EXPECT_EQ(r.controller, "lqr");
@@ -106,7 +106,7 @@ TEST(RunOne, SurvivesAModestPushWithATraceAtTheAskedRate) {
 
 TEST(RunOne, AFallEndsTheRunAtOnceWithItsTime) {
   const Scenario s = ScenarioFromText(ShoveText(2500));
-  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), RunOptions{});
   ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
   EXPECT_GT(r.metrics.fall_time_s, 0.5);
   EXPECT_LT(r.metrics.fall_time_s, 3.0);
@@ -131,7 +131,7 @@ TEST(RunOne, AClampedCommandCountsAtTheLimitAndSaturatesTheMotor) {
   </controllers>
   <seeds list="1"/>
 </scenario>)");
-  const RunResult r = RunOne(s, 0, 1, BuiltinModule("hinf"), "", RunOptions{});
+  const RunResult r = RunOne(s, 0, 1, BuiltinModule("hinf"), RunOptions{});
   ASSERT_GT(r.steps, 0) << r.metrics.message;
   EXPECT_NEAR(r.metrics.peak_current_A, s.model.motor.current_limit_A, 1e-9);
   EXPECT_GT(r.metrics.command_limit_pct, 0);
@@ -145,7 +145,7 @@ TEST(RunOne, AClampedCommandCountsAtTheLimitAndSaturatesTheMotor) {
 TEST(RunOne, ACommandInsideTheLimitIsNotCounted) {
   // A modest push: the current stays well inside the 20 A limit and the command inside its own.
   const Scenario s = ScenarioFromText(ShoveText(60));
-  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), RunOptions{});
   ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
   EXPECT_LT(r.metrics.peak_current_A, 0.9 * s.model.motor.current_limit_A);
   EXPECT_EQ(r.metrics.command_limit_pct, 0);
@@ -154,9 +154,9 @@ TEST(RunOne, ACommandInsideTheLimitIsNotCounted) {
 
 TEST(RunOne, RunsThatNeverSteppedHaveNoFiguresAndEmptyCells) {
   const Scenario s = ScenarioFromText(ShoveText(60, R"(<setting key="no_such_key" value="1"/>)"));
-  const RunResult setup_failed = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  const RunResult setup_failed = RunOne(s, 0, 7, BuiltinModule("lqr"), RunOptions{});
   ASSERT_EQ(setup_failed.metrics.status, RunStatus::kSetupFailed);
-  const RunResult faulted = RunOne(s, 0, 8, FirstTickFaultModule(), "", RunOptions{});
+  const RunResult faulted = RunOne(s, 0, 8, FirstTickFaultModule(), RunOptions{});
   ASSERT_EQ(faulted.metrics.status, RunStatus::kControllerFault) << faulted.metrics.message;
   EXPECT_EQ(faulted.steps, 0);
   for (const RunResult* run : {&setup_failed, &faulted}) {
@@ -187,7 +187,7 @@ TEST(RunOne, TraceEventsAppearWhereTheyHappenAndNotAfterTheEnd) {
 )"));
   RunOptions options;
   options.trace_rate_hz = 100;
-  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", options);
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), options);
   ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
   ASSERT_LT(r.metrics.fall_time_s, 2.5);
   // The trace ends on the step the robot fell, on the 10 ms grid or not.
@@ -215,7 +215,7 @@ TEST(RunOne, TraceEventsAppearWhereTheyHappenAndNotAfterTheEnd) {
 
 TEST(RunOne, AControllerThatRefusesItsSettingsIsASetupFailure) {
   const Scenario s = ScenarioFromText(ShoveText(60, R"(<setting key="no_such_key" value="1"/>)"));
-  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), "", RunOptions{});
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), RunOptions{});
   EXPECT_EQ(r.metrics.status, RunStatus::kSetupFailed);
   EXPECT_NE(r.metrics.message.find("no_such_key"), std::string::npos) << r.metrics.message;
   EXPECT_EQ(r.steps, 0);
@@ -223,7 +223,7 @@ TEST(RunOne, AControllerThatRefusesItsSettingsIsASetupFailure) {
 
 TEST(RunOne, AModuleThatDidNotLoadIsASetupFailureCarryingWhy) {
   const Scenario s = ScenarioFromText(ShoveText(60));
-  const RunResult r = RunOne(s, 0, 7, nullptr, "/nowhere/x.so: cannot open", RunOptions{});
+  const RunResult r = RunOne(s, 0, 7, Failure("/nowhere/x.so: cannot open"), RunOptions{});
   EXPECT_EQ(r.metrics.status, RunStatus::kSetupFailed);
   EXPECT_EQ(r.metrics.message, "/nowhere/x.so: cannot open");
 }
@@ -235,7 +235,7 @@ TEST(RunOne, AProbeStopsOnceTheRobotHasSettledAndNotBefore) {
   RunOptions probe;
   probe.trace_rate_hz = 0;
   probe.stop_when_settled = true;
-  const RunResult settled = RunOne(s, 0, 7, BuiltinModule("lqr"), "", probe);
+  const RunResult settled = RunOne(s, 0, 7, BuiltinModule("lqr"), probe);
   EXPECT_EQ(settled.metrics.status, RunStatus::kOk);
   EXPECT_NE(settled.metrics.message.find("stopped early"), std::string::npos)
       << settled.metrics.message;
@@ -245,7 +245,7 @@ TEST(RunOne, AProbeStopsOnceTheRobotHasSettledAndNotBefore) {
 
   // A reference still asking for motion at the end: nothing is decided early.
   s.drives.push_back({/*start_s=*/0.2, /*ramp_s=*/1.0, /*speed_m_s=*/0.3, 0.0});
-  const RunResult driving = RunOne(s, 0, 7, BuiltinModule("lqr"), "", probe);
+  const RunResult driving = RunOne(s, 0, 7, BuiltinModule("lqr"), probe);
   EXPECT_EQ(driving.metrics.status, RunStatus::kOk) << driving.metrics.message;
   EXPECT_NEAR(driving.metrics.end_time_s, 10.0, 1e-9);
 }
@@ -253,9 +253,9 @@ TEST(RunOne, AProbeStopsOnceTheRobotHasSettledAndNotBefore) {
 TEST(RunOne, TheSameSeedGivesTheSameRunAndAnotherSeedDoesNot) {
   const Scenario s = ScenarioFromText(ShoveText(60));
   const auto module = BuiltinModule("lqr");
-  const RunResult a = RunOne(s, 0, 7, module, "", RunOptions{});
-  const RunResult b = RunOne(s, 0, 7, module, "", RunOptions{});
-  const RunResult c = RunOne(s, 0, 8, module, "", RunOptions{});
+  const RunResult a = RunOne(s, 0, 7, module, RunOptions{});
+  const RunResult b = RunOne(s, 0, 7, module, RunOptions{});
+  const RunResult c = RunOne(s, 0, 8, module, RunOptions{});
   EXPECT_EQ(a.metrics.max_tilt_deg, b.metrics.max_tilt_deg);
   EXPECT_EQ(a.metrics.effort_Nm2s, b.metrics.effort_Nm2s);
   EXPECT_NE(a.metrics.effort_Nm2s, c.metrics.effort_Nm2s);  // the sensor noise differs

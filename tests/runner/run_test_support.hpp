@@ -23,14 +23,17 @@
 namespace upright::runner::testing {
 
 // Parses `xml` as if it were a file in scenarios/ (so "../models/courier.xml" names the demo
-// robot); a test failure listing the errors when it does not parse.
+// robot); a test failure listing the errors (and an exception ending the test) when it does not
+// parse.
 inline Scenario ScenarioFromText(const std::string& xml, const std::string& name = "test.xml") {
   const std::string dir = std::string(UPRIGHT_SOURCE_DIR) + "/scenarios";
   ScenarioLoadResult loaded = ParseScenarioText(xml, dir + "/" + name, dir);
-  std::ostringstream errors;
-  for (const auto& e : loaded.errors) errors << e.ToString() << "\n";
-  EXPECT_TRUE(loaded.ok()) << errors.str();
-  return loaded.scenario;
+  if (!loaded) {
+    std::ostringstream errors;
+    for (const auto& e : loaded.error()) errors << e.ToString() << "\n";
+    ADD_FAILURE() << errors.str();
+  }
+  return std::move(loaded).value();
 }
 
 // The built-in module `name` ("lqr", "hinf", "lqg", "pid") from the default module folders; a test
@@ -88,9 +91,10 @@ inline OneJobAndTwo RunWithOneJobAndTwo(const std::vector<Scenario>& scenarios,
   out.two = RunBatch(scenarios, options, "test", nullptr);
   out.dir_one = ScratchDir(name + "-jobs1");
   out.dir_two = ScratchDir(name + "-jobs2");
-  std::string error;
-  EXPECT_TRUE(WriteResults(out.dir_one.string(), out.one, &error)) << error;
-  EXPECT_TRUE(WriteResults(out.dir_two.string(), out.two, &error)) << error;
+  const Status one = WriteResults(out.dir_one.string(), out.one);
+  EXPECT_TRUE(one) << one.error();
+  const Status two = WriteResults(out.dir_two.string(), out.two);
+  EXPECT_TRUE(two) << two.error();
   return out;
 }
 

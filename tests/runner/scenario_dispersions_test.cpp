@@ -4,6 +4,7 @@
 
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include "upright/runner/scenario_file.hpp"
@@ -41,7 +42,9 @@ ScenarioLoadResult Parse(const std::string& text) {
 
 Lines Errors(const std::string& text) {
   Lines lines;
-  for (const FileError& error : Parse(text).errors) lines.push_back(error.ToString());
+  const ScenarioLoadResult result = Parse(text);
+  if (result) return lines;
+  for (const FileError& error : result.error()) lines.push_back(error.ToString());
   return lines;
 }
 
@@ -51,8 +54,8 @@ Scenario Plain() {
   std::string text = WithSpreads("");
   text.erase(text.find("  <dispersions>"), text.find("</scenario>") - text.find("  <dispersions>"));
   ScenarioLoadResult loaded = Parse(text);
-  EXPECT_TRUE(loaded.ok()) << (loaded.ok() ? "" : loaded.errors[0].ToString());
-  return loaded.scenario;
+  EXPECT_TRUE(loaded) << (loaded ? "" : loaded.error()[0].ToString());
+  return std::move(loaded).value();  // throws, failing the test, when it did not load
 }
 
 TEST(ScenarioDispersions, ReadsSpreadsInFileOrderWithTheirNominalValues) {
@@ -60,8 +63,8 @@ TEST(ScenarioDispersions, ReadsSpreadsInFileOrderWithTheirNominalValues) {
       R"(    <spread param="robot/chassis.mass_kg" kind="normal" sd="1.5"/>
     <spread param="timeline/push[1].peak_N" kind="uniform" lo="80" hi="130"/>
     <spread param="robot/sensors/gyro.bias_y_rad_s" kind="normal" mean="0" sd="0.002"/>)"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  const std::vector<Dispersion>& d = result.scenario.dispersions;
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  const std::vector<Dispersion>& d = result->dispersions;
   ASSERT_EQ(d.size(), 3u);
   EXPECT_EQ(d[0].param, "robot/chassis.mass_kg");
   EXPECT_EQ(d[0].kind, SpreadKind::kNormal);
@@ -83,11 +86,11 @@ TEST(ScenarioDispersions, ReadsSpreadsInFileOrderWithTheirNominalValues) {
 TEST(ScenarioDispersions, LeaveTheScenarioAsWritten) {
   const ScenarioLoadResult result =
       Parse(WithSpreads(R"(    <spread param="robot/chassis.mass_kg" kind="normal" sd="1.5"/>)"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
+  ASSERT_TRUE(result) << result.error()[0].ToString();
   const Scenario plain = Plain();
-  EXPECT_FALSE(result.scenario.plant_model.has_value());
-  EXPECT_EQ(result.scenario.model.chassis.mass_kg, plain.model.chassis.mass_kg);
-  EXPECT_EQ(result.scenario.pushes.at(0).peak_N, plain.pushes.at(0).peak_N);
+  EXPECT_FALSE(result->plant_model.has_value());
+  EXPECT_EQ(result->model.chassis.mass_kg, plain.model.chassis.mass_kg);
+  EXPECT_EQ(result->pushes.at(0).peak_N, plain.pushes.at(0).peak_N);
   EXPECT_TRUE(plain.dispersions.empty());
 }
 
@@ -104,11 +107,10 @@ TEST(ScenarioDispersions, KindNamesReadBack) {
 TEST(ScenarioDispersions, RejectsAnUnknownParameterWithTheParameterMessage) {
   for (const std::string param :
        {"robot/chassis.mass_k", "timeline/push[2].peak_N", "ground.slope_deg", "mass"}) {
-    double unused = 0;
-    std::string message;
-    ASSERT_FALSE(GetScenarioParameter(Plain(), param, &unused, &message)) << param;
+    const Result<double> value = GetScenarioParameter(Plain(), param);
+    ASSERT_FALSE(value) << param;
     EXPECT_EQ(Errors(WithSpreads(R"(    <spread param=")" + param + R"(" kind="normal" sd="1"/>)")),
-              Lines{"t.xml:11: dispersions/spread param = '" + param + "': " + message});
+              Lines{"t.xml:11: dispersions/spread param = '" + param + "': " + value.error()});
   }
 }
 
@@ -181,9 +183,12 @@ TEST(ScenarioDispersions, RejectsAnEmptyElement) {
 // The centre of a spread must be a value the parameter takes.
 TEST(ScenarioDispersions, RejectsACentreTheParameterDoesNotTake) {
   Scenario trial = Plain();
-  std::string mass_message, at_message;
-  ASSERT_FALSE(SetScenarioParameter(&trial, "robot/chassis.mass_kg", -5, &mass_message));
-  ASSERT_FALSE(SetScenarioParameter(&trial, "timeline/push[1].at_s", 2.5, &at_message));
+  const Status mass = SetScenarioParameter(&trial, "robot/chassis.mass_kg", -5);
+  ASSERT_FALSE(mass);
+  const std::string mass_message = mass.error();
+  const Status at = SetScenarioParameter(&trial, "timeline/push[1].at_s", 2.5);
+  ASSERT_FALSE(at);
+  const std::string at_message = at.error();
   EXPECT_EQ(Errors(WithSpreads(
                 R"(    <spread param="robot/chassis.mass_kg" kind="normal" mean="-5" sd="1"/>)")),
             Lines{"t.xml:11: dispersions/spread mean = -5: not a value the parameter takes (" +
@@ -208,8 +213,8 @@ TEST(ScenarioDispersions, ChecksParametersOnlyWhenTheRestIsValid) {
 TEST(ScenarioDispersions, TheDemoShoveDeclaresItsSpreads) {
   const ScenarioLoadResult result =
       LoadScenarioFile(std::string(UPRIGHT_SOURCE_DIR) + "/scenarios/courier-shove-half-sine.xml");
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_GE(result.scenario.dispersions.size(), 7u);
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_GE(result->dispersions.size(), 7u);
 }
 
 }  // namespace

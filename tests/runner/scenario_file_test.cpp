@@ -120,7 +120,9 @@ class ScenarioFileTest : public ::testing::Test {
   }
   Lines Errors(const std::string& text) const {
     Lines texts;
-    for (const FileError& error : Parse(text).errors) texts.push_back(error.ToString());
+    const ScenarioLoadResult result = Parse(text);
+    if (result) return texts;
+    for (const FileError& error : result.error()) texts.push_back(error.ToString());
     return texts;
   }
   std::string In(const std::string& file) const { return (dir_ / file).string(); }
@@ -133,8 +135,8 @@ class ScenarioFileTest : public ::testing::Test {
 
 TEST_F(ScenarioFileTest, ParsesMinimalFileWithDefaults) {
   const ScenarioLoadResult result = Parse(std::string(kBase));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  const Scenario& s = result.scenario;
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  const Scenario& s = *result;
   EXPECT_EQ(s.name, "t");
   EXPECT_EQ(s.description, "A test situation.");
   EXPECT_EQ(s.path, "t.xml");
@@ -223,8 +225,8 @@ TEST_F(ScenarioFileTest, ParsesFullFileIntoExactValues) {
 </scenario>
 )";
   const ScenarioLoadResult result = ParseScenarioText(text, "full.xml", dir_.string());
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  const Scenario& s = result.scenario;
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  const Scenario& s = *result;
   EXPECT_EQ(s.name, "full-1.a_b");
   EXPECT_EQ(s.description, "Every element, every attribute.");
   EXPECT_EQ(s.path, "full.xml");
@@ -343,8 +345,8 @@ TEST_F(ScenarioFileTest, LoadsADemoScenario) {
   const std::string path =
       std::string(UPRIGHT_SOURCE_DIR) + "/scenarios/courier-shove-half-sine.xml";
   const ScenarioLoadResult result = LoadScenarioFile(path);
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  const Scenario& s = result.scenario;
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  const Scenario& s = *result;
   EXPECT_EQ(s.name, "courier-shove-half-sine");
   EXPECT_EQ(s.path, path);
   EXPECT_EQ(s.model_path, std::string(UPRIGHT_SOURCE_DIR) + "/scenarios/../models/courier.xml");
@@ -369,8 +371,8 @@ TEST_F(ScenarioFileTest, EveryDemoScenarioLoadsAndComparesTheFourBuiltIns) {
     if (entry.path().extension() != ".xml") continue;
     ++files;
     const ScenarioLoadResult result = LoadScenarioFile(entry.path().string());
-    ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-    const Scenario& s = result.scenario;
+    ASSERT_TRUE(result) << result.error()[0].ToString();
+    const Scenario& s = *result;
     EXPECT_EQ(s.name + ".xml", entry.path().filename().string());
     EXPECT_EQ(s.controllers.at(s.baseline).module, "lqr") << s.name;
     for (const char* builtin : {"lqr", "hinf", "lqg", "pid"}) {
@@ -396,8 +398,9 @@ TEST_F(ScenarioFileTest, ReadmeExampleIsValidButForItsModuleFile) {
   ASSERT_NE(end, std::string::npos);
   const std::string example = text.substr(begin + 7, end - begin - 7);
   const ScenarioLoadResult result = ParseScenarioText(example, "README.md", scenarios);
+  ASSERT_FALSE(result);
   Lines errors;
-  for (const FileError& error : result.errors) errors.push_back(error.ToString());
+  for (const FileError& error : result.error()) errors.push_back(error.ToString());
   EXPECT_EQ(errors, Lines{"README.md:16: controllers/controller file = '../build/my_module.so': "
                           "no such file (resolved to '" +
                           scenarios + "/../build/my_module.so')"});
@@ -410,20 +413,21 @@ TEST_F(ScenarioFileTest, ResolvesRelativePathsAgainstTheScenarioFolder) {
   WriteFile(dir_ / "sub" / "mods" / "c.so", "stand-in");
   const std::string path = In("sub/s.xml");
   const ScenarioLoadResult result = LoadScenarioFile(path);
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.scenario.path, path);
-  EXPECT_EQ(result.scenario.model_path, In("sub/../robot.xml"));
-  EXPECT_EQ(result.scenario.model.name, "testbot");
-  EXPECT_EQ(result.scenario.controllers[0].module, In("sub/mods/c.so"));
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_EQ(result->path, path);
+  EXPECT_EQ(result->model_path, In("sub/../robot.xml"));
+  EXPECT_EQ(result->model.name, "testbot");
+  EXPECT_EQ(result->controllers[0].module, In("sub/mods/c.so"));
 }
 
 TEST_F(ScenarioFileTest, TakesPathsFromTheWorkingFolderWithoutABaseFolder) {
   const ScenarioLoadResult result = ParseScenarioText(
       Edit(R"(file="robot.xml")", R"(file=")" + In("robot.xml") + R"(")"), "t.xml", "");
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.scenario.model_path, In("robot.xml"));
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_EQ(result->model_path, In("robot.xml"));
   const ScenarioLoadResult relative = ParseScenarioText(std::string(kBase), "t.xml", "");
-  EXPECT_EQ(relative.errors.at(0).ToString(),
+  ASSERT_FALSE(relative);
+  EXPECT_EQ(relative.error().at(0).ToString(),
             "t.xml:3: robot file = 'robot.xml': no such file (resolved to 'robot.xml')");
 }
 
@@ -477,8 +481,8 @@ TEST_F(ScenarioFileTest, RequiresDurationOfWholeSteps) {
                   "steps of dt_s = 0.001 (it is 8000.5 steps)"});
   // 2.3 / 0.005 = 459.99999999999994 in binary: within 1e-9 relative of 460, so accepted.
   const ScenarioLoadResult result = Parse(Root(R"(duration_s="2.3" dt_s="0.005")"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.scenario.duration_s, 2.3);
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_EQ(result->duration_s, 2.3);
 }
 
 TEST_F(ScenarioFileTest, RequiresTimeStepUpToTenMilliseconds) {
@@ -488,8 +492,8 @@ TEST_F(ScenarioFileTest, RequiresTimeStepUpToTenMilliseconds) {
   EXPECT_EQ(Errors(Root(R"(duration_s="8" dt_s="0")")),
             Lines{"t.xml:1: scenario dt_s = 0: must be in (0, 0.01]"});
   const ScenarioLoadResult result = Parse(Root(R"(duration_s="8")"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.scenario.dt_s, 0.001);  // default
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_EQ(result->dt_s, 0.001);  // default
 }
 
 TEST_F(ScenarioFileTest, HintsThatATimeStepTooLongIsInSeconds) {
@@ -511,7 +515,7 @@ TEST_F(ScenarioFileTest, ChecksTheRobotRatesAgainstItsOwnStep) {
   WriteFile(dir_ / "robot400.xml", robot);
   const std::string scenario = Edit("robot.xml", "robot400.xml");
   const ScenarioLoadResult own = Parse(Root(R"(duration_s="8" dt_s="0.0005")", scenario));
-  EXPECT_TRUE(own.ok()) << own.errors[0].ToString();
+  EXPECT_TRUE(own) << own.error()[0].ToString();
   EXPECT_EQ(Errors(scenario),
             Lines{"t.xml:1: scenario dt_s = 0.001: the IMU period of robot 'testbot' "
                   "(robot400.xml) (imu rate_hz = 400) must be a whole number of physics steps, or "
@@ -584,8 +588,9 @@ TEST_F(ScenarioFileTest, ReportsMalformedXml) {
 
 TEST_F(ScenarioFileTest, ReportsMissingFile) {
   const ScenarioLoadResult result = LoadScenarioFile(In("none.xml"));
-  ASSERT_EQ(result.errors.size(), 1u);
-  EXPECT_EQ(result.errors[0].ToString(),
+  ASSERT_FALSE(result);
+  ASSERT_EQ(result.error().size(), 1u);
+  EXPECT_EQ(result.error()[0].ToString(),
             In("none.xml") + ": cannot open file: No such file or directory");
 }
 
@@ -636,9 +641,9 @@ TEST_F(ScenarioFileTest, PassesRobotModelErrorsThroughAfterItsOwn) {
 
 TEST_F(ScenarioFileTest, ReadsSlope) {
   const ScenarioLoadResult result = Parse(Before(R"(  <ground kind="slope" slope_deg="-5"/>)"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.scenario.terrain.kind, sim::TerrainKind::kSlope);
-  EXPECT_EQ(result.scenario.terrain.slope_deg, -5);
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_EQ(result->terrain.kind, sim::TerrainKind::kSlope);
+  EXPECT_EQ(result->terrain.slope_deg, -5);
 }
 
 TEST_F(ScenarioFileTest, RequiresSlopeAngleOnlyWithSlope) {
@@ -714,9 +719,9 @@ TEST_F(ScenarioFileTest, ReadsOnlyTheAttributesEachSegmentHas) {
 TEST_F(ScenarioFileTest, ReadsFrictionRegionsOnAnyGroundAndChecksThem) {
   const ScenarioLoadResult result =
       Parse(Before(R"(  <ground><friction start_x_m="1" end_x_m="2" friction="0.1"/></ground>)"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  ASSERT_EQ(result.scenario.terrain.friction_regions.size(), 1u);
-  EXPECT_EQ(result.scenario.terrain.friction_regions[0].friction, 0.1);
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  ASSERT_EQ(result->terrain.friction_regions.size(), 1u);
+  EXPECT_EQ(result->terrain.friction_regions[0].friction, 0.1);
   EXPECT_EQ(Errors(Before(R"(  <ground>
     <friction start_x_m="2" end_x_m="1" friction="0.5"/>
     <friction start_x_m="3" end_x_m="4" friction="4"/>
@@ -736,8 +741,8 @@ TEST_F(ScenarioFileTest, RequiresStartPitchWithinAQuarterTurn) {
   EXPECT_EQ(Errors(Before(R"(  <start pitch_deg="90"/>)")),
             Lines{"t.xml:4: start pitch_deg = 90: must be in (-90, 90)"});
   const ScenarioLoadResult result = Parse(Before(R"(  <start pitch_deg="-10"/>)"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_NEAR(result.scenario.initial.pitch_rad, -0.17453292519943295, 1e-15);  // -π/18
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_NEAR(result->initial.pitch_rad, -0.17453292519943295, 1e-15);  // -π/18
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -782,7 +787,8 @@ TEST_F(ScenarioFileTest, RequiresPushHeightWithinTheOutline) {
             Lines{"t.xml:5: timeline/push height_m = 0.61" + rule});
   EXPECT_EQ(Errors(Events(R"(    <push at_s="1" shape="step" peak_N="1" height_m="-0.06"/>)")),
             Lines{"t.xml:5: timeline/push height_m = -0.06" + rule});
-  EXPECT_TRUE(Parse(Events(R"(    <push at_s="1" shape="step" peak_N="1" height_m="0.6"/>)")).ok());
+  EXPECT_TRUE(
+      Parse(Events(R"(    <push at_s="1" shape="step" peak_N="1" height_m="0.6"/>)")).has_value());
 }
 
 TEST_F(ScenarioFileTest, RequiresPayloadForPayloadShift) {
@@ -816,7 +822,7 @@ TEST_F(ScenarioFileTest, RejectsPayloadTargetBeyondTheTravel) {
     <payload_shift at_s="1" distance_m="-0.01"/>
     <payload_shift at_s="2" distance_m="0.1"/>
     <payload_shift at_s="3" distance_m="0.1"/>)"))
-                  .ok());
+                  .has_value());
   // Just past the limit: the target is printed exactly, not rounded back onto the limit.
   EXPECT_EQ(Errors(Events(R"(    <payload_shift at_s="1" distance_m="0.1000001"/>)")),
             Lines{"t.xml:5: timeline/payload_shift distance_m = 0.1000001: the carriage target "
@@ -906,10 +912,10 @@ TEST_F(ScenarioFileTest, AcceptsTheFourBuiltinNamesOnly) {
     <controller name="b" builtin="hinf"/>
     <controller name="c" builtin="lqg"/>
     <controller name="d" builtin="pid"/>)"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  ASSERT_EQ(result.scenario.controllers.size(), 4u);
-  EXPECT_EQ(result.scenario.controllers[1].module, "hinf");
-  EXPECT_EQ(result.scenario.controllers[3].module, "pid");
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  ASSERT_EQ(result->controllers.size(), 4u);
+  EXPECT_EQ(result->controllers[1].module, "hinf");
+  EXPECT_EQ(result->controllers[3].module, "pid");
   EXPECT_EQ(Errors(Controllers(R"(    <controller name="x" builtin="mpc"/>)")),
             Lines{"t.xml:8: controllers/controller builtin = 'mpc': not a known value (expected "
                   "one of: lqr, hinf, lqg, pid)"});
@@ -928,11 +934,11 @@ TEST_F(ScenarioFileTest, ReportsMissingModuleFileWithResolvedPath) {
 TEST_F(ScenarioFileTest, ChoosesBaselineByNameOrTheFirst) {
   const std::string two = R"(    <controller name="a" builtin="lqr"/>
     <controller name="b" builtin="pid"/>)";
-  EXPECT_EQ(Parse(Controllers(two)).scenario.baseline, 0u);
+  EXPECT_EQ(Parse(Controllers(two)).value().baseline, 0u);
   const ScenarioLoadResult named =
       Parse(Edit("<controllers>", R"(<controllers baseline="b">)", Controllers(two)));
-  ASSERT_TRUE(named.ok()) << named.errors[0].ToString();
-  EXPECT_EQ(named.scenario.baseline, 1u);
+  ASSERT_TRUE(named) << named.error()[0].ToString();
+  EXPECT_EQ(named->baseline, 1u);
   EXPECT_EQ(Errors(Edit("<controllers>", R"(<controllers baseline="c">)", Controllers(two))),
             Lines{"t.xml:7: controllers baseline = 'c': names no controller (expected one of: a, "
                   "b)"});
@@ -948,7 +954,8 @@ TEST_F(ScenarioFileTest, RequiresControllerRateOfWholeSteps) {
             Lines{"t.xml:8: controllers/controller rate_hz = 300" + rule});
   EXPECT_EQ(Errors(Controllers(R"(    <controller name="x" builtin="lqr" rate_hz="2000"/>)")),
             Lines{"t.xml:8: controllers/controller rate_hz = 2000" + rule});
-  EXPECT_TRUE(Parse(Controllers(R"(    <controller name="x" builtin="lqr" rate_hz="250"/>)")).ok());
+  EXPECT_TRUE(
+      Parse(Controllers(R"(    <controller name="x" builtin="lqr" rate_hz="250"/>)")).has_value());
 }
 
 TEST_F(ScenarioFileTest, RequiresUniqueSettingKeys) {
@@ -982,8 +989,8 @@ TEST_F(ScenarioFileTest, RequiresBooleanTrueState) {
 TEST_F(ScenarioFileTest, ReadsSeedList) {
   const ScenarioLoadResult result =
       Parse(Tail("  <seeds list=\" 5\n   3  18446744073709551615\"/>"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.scenario.seeds,
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_EQ(result->seeds,
             (std::vector<std::uint64_t>{5, 3, 18446744073709551615ull}));  // in the order given
 }
 
@@ -1002,9 +1009,9 @@ TEST_F(ScenarioFileTest, RequiresPositiveUniqueSeeds) {
 
 TEST_F(ScenarioFileTest, ReadsSeedCountFromFirst) {
   const ScenarioLoadResult result = Parse(Tail(R"(  <seeds count="4" first="10"/>)"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.scenario.seeds, (std::vector<std::uint64_t>{10, 11, 12, 13}));
-  EXPECT_EQ(Parse(Tail(R"(  <seeds count="2"/>)")).scenario.seeds,
+  ASSERT_TRUE(result) << result.error()[0].ToString();
+  EXPECT_EQ(result->seeds, (std::vector<std::uint64_t>{10, 11, 12, 13}));
+  EXPECT_EQ(Parse(Tail(R"(  <seeds count="2"/>)")).value().seeds,
             (std::vector<std::uint64_t>{1, 2}));
 }
 
@@ -1029,7 +1036,7 @@ TEST_F(ScenarioFileTest, ReportsMetricSettingsRules) {
             Lines{"t.xml:10: metrics: MetricSettings::window_s = 0, must be > 0"});
   EXPECT_EQ(Errors(Tail(R"(  <metrics fall_tilt_deg="95"/>)")),
             Lines{"t.xml:10: metrics: MetricSettings::fall_tilt_deg = 95, must be in (0, 90]"});
-  EXPECT_EQ(Parse(Tail(R"(  <metrics drift_band_m="0.2"/>)")).scenario.metrics.drift_band_m, 0.2);
+  EXPECT_EQ(Parse(Tail(R"(  <metrics drift_band_m="0.2"/>)")).value().metrics.drift_band_m, 0.2);
 }
 
 }  // namespace

@@ -36,10 +36,22 @@ const char* kScenario = R"(<scenario name="params" schema="1" duration_s="6">
 </scenario>)";
 
 double Get(const Scenario& s, const std::string& path) {
-  double value = std::nan("");
-  std::string error;
-  EXPECT_TRUE(GetScenarioParameter(s, path, &value, &error)) << path << ": " << error;
-  return value;
+  const Result<double> value = GetScenarioParameter(s, path);
+  EXPECT_TRUE(value) << path << ": " << value.error();
+  return value.value_or(std::nan(""));
+}
+
+// Sets the parameter, a test failure when it is refused.
+void Set(Scenario* s, const std::string& path, double value) {
+  const Status set = SetScenarioParameter(s, path, value);
+  ASSERT_TRUE(set) << path << " = " << value << ": " << set.error();
+}
+
+// Why setting the parameter is refused; a test failure, and "", when it is accepted.
+std::string Refusal(Scenario* s, const std::string& path, double value) {
+  const Status set = SetScenarioParameter(s, path, value);
+  EXPECT_FALSE(set) << path << " = " << value;
+  return set ? "" : set.error();
 }
 
 TEST(ScenarioParameter, ReadsEveryKindInTheFilesUnits) {
@@ -59,13 +71,12 @@ TEST(ScenarioParameter, ReadsEveryKindInTheFilesUnits) {
 
 TEST(ScenarioParameter, SetsInTheFilesUnitsAndKeepsTheTimelineInOrder) {
   Scenario s = ScenarioFromText(kScenario);
-  std::string error;
-  ASSERT_TRUE(SetScenarioParameter(&s, "start.pitch_deg", 4, &error)) << error;
+  ASSERT_NO_FATAL_FAILURE(Set(&s, "start.pitch_deg", 4));
   EXPECT_NEAR(s.initial.pitch_rad, 4 * kPi / 180, 1e-15);
-  ASSERT_TRUE(SetScenarioParameter(&s, "timeline/drive[1].yaw_rate_deg_s", 45, &error)) << error;
+  ASSERT_NO_FATAL_FAILURE(Set(&s, "timeline/drive[1].yaw_rate_deg_s", 45));
   EXPECT_NEAR(s.drives[0].yaw_rate_rad_s, kPi / 4, 1e-15);
   // Moving the first push after the second re-sorts them.
-  ASSERT_TRUE(SetScenarioParameter(&s, "timeline/push[1].at_s", 5, &error)) << error;
+  ASSERT_NO_FATAL_FAILURE(Set(&s, "timeline/push[1].at_s", 5));
   EXPECT_EQ(s.pushes[0].start_s, 3);
   EXPECT_EQ(s.pushes[1].start_s, 5);
   EXPECT_EQ(s.pushes[1].peak_N, 50);
@@ -73,13 +84,12 @@ TEST(ScenarioParameter, SetsInTheFilesUnitsAndKeepsTheTimelineInOrder) {
 
 TEST(ScenarioParameter, RobotFieldsChangeTheRobotAsBuiltOnly) {
   Scenario s = ScenarioFromText(kScenario);
-  std::string error;
-  ASSERT_TRUE(SetScenarioParameter(&s, "robot/wheels.friction", 0.4, &error)) << error;
+  ASSERT_NO_FATAL_FAILURE(Set(&s, "robot/wheels.friction", 0.4));
   ASSERT_TRUE(s.plant_model.has_value());
   EXPECT_EQ(s.plant_model->wheel.friction, 0.4);
   EXPECT_EQ(s.model.wheel.friction, 0.8);  // what the controllers are designed for
   EXPECT_EQ(Get(s, "robot/wheels.friction"), 0.4);
-  ASSERT_TRUE(SetScenarioParameter(&s, "robot/chassis.mass_kg", 26, &error)) << error;
+  ASSERT_NO_FATAL_FAILURE(Set(&s, "robot/chassis.mass_kg", 26));
   EXPECT_EQ(s.plant_model->wheel.friction, 0.4);  // changes accumulate on the built robot
   EXPECT_EQ(s.plant_model->chassis.mass_kg, 26);
 }
@@ -87,36 +97,37 @@ TEST(ScenarioParameter, RobotFieldsChangeTheRobotAsBuiltOnly) {
 TEST(ScenarioParameter, RefusesWhatTheScenarioCannotHoldAndLeavesItUnchanged) {
   const Scenario original = ScenarioFromText(kScenario);
   Scenario s = original;
-  std::string error;
-  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/push[3].peak_N", 1, &error));
-  EXPECT_EQ(error, "timeline/push[3].peak_N: the scenario has 2 <push> elements");
-  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/push[1].at_s", 6, &error));
-  EXPECT_EQ(error, "timeline/push[1].at_s = 6: push at_s = 6: must be in [0, 6)");
-  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/payload_shift[1].distance_m", 0.5, &error));
-  EXPECT_NE(error.find("outside the carriage travel [-0.15, 0.15] m"), std::string::npos) << error;
+  EXPECT_EQ(Refusal(&s, "timeline/push[3].peak_N", 1),
+            "timeline/push[3].peak_N: the scenario has 2 <push> elements");
+  EXPECT_EQ(Refusal(&s, "timeline/push[1].at_s", 6),
+            "timeline/push[1].at_s = 6: push at_s = 6: must be in [0, 6)");
+  const std::string travel = Refusal(&s, "timeline/payload_shift[1].distance_m", 0.5);
+  EXPECT_NE(travel.find("outside the carriage travel [-0.15, 0.15] m"), std::string::npos)
+      << travel;
   // Just past the travel, the target is printed exactly, not rounded back onto the limit; exactly
   // on it is accepted.
-  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/payload_shift[1].distance_m", 0.1500001, &error));
   EXPECT_EQ(
-      error,
+      Refusal(&s, "timeline/payload_shift[1].distance_m", 0.1500001),
       "timeline/payload_shift[1].distance_m = 0.1500001: the payload target reaches 0.1500001 m "
       "at 2.2 s, outside the carriage travel [-0.15, 0.15] m");
   Scenario on_limit = original;
-  EXPECT_TRUE(SetScenarioParameter(&on_limit, "timeline/payload_shift[1].distance_m", 0.15, &error))
-      << error;
-  EXPECT_TRUE(SetScenarioParameter(&on_limit, "timeline/push[1].height_m", 0.65, &error)) << error;
-  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/push[1].height_m", 0.9, &error));
-  EXPECT_EQ(error,
+  EXPECT_NO_FATAL_FAILURE(Set(&on_limit, "timeline/payload_shift[1].distance_m", 0.15));
+  EXPECT_NO_FATAL_FAILURE(Set(&on_limit, "timeline/push[1].height_m", 0.65));
+  EXPECT_EQ(Refusal(&s, "timeline/push[1].height_m", 0.9),
             "timeline/push[1].height_m = 0.9: push height_m = 0.9: must be within the chassis "
             "outline [-0.1, 0.65] m");
-  EXPECT_FALSE(SetScenarioParameter(&s, "robot/chassis.mass_kg", 0, &error));
-  EXPECT_EQ(error, "robot/chassis.mass_kg = 0: chassis mass_kg = 0: must be in (0, 1000]");
-  EXPECT_FALSE(SetScenarioParameter(&s, "ground.slope_deg", 3, &error));
-  EXPECT_NE(error.find("on a slope"), std::string::npos) << error;
-  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/push[0].peak_N", 1, &error));
-  EXPECT_FALSE(SetScenarioParameter(&s, "peak_N", 1, &error));
-  EXPECT_FALSE(SetScenarioParameter(&s, "timeline/jump[1].at_s", 1, &error));
-  EXPECT_NE(error.find("no parameter element 'timeline/jump'"), std::string::npos) << error;
+  EXPECT_EQ(Refusal(&s, "robot/chassis.mass_kg", 0),
+            "robot/chassis.mass_kg = 0: chassis mass_kg = 0: must be in (0, 1000]");
+  const std::string slope = Refusal(&s, "ground.slope_deg", 3);
+  EXPECT_NE(slope.find("on a slope"), std::string::npos) << slope;
+  EXPECT_EQ(Refusal(&s, "timeline/push[0].peak_N", 1),
+            "parameter 'timeline/push[0].peak_N': an index is [1], [2], ... after the last "
+            "element");
+  EXPECT_EQ(Refusal(&s, "peak_N", 1),
+            "parameter 'peak_N': expected element path '.' attribute, as in "
+            "timeline/push[1].peak_N");
+  const std::string element = Refusal(&s, "timeline/jump[1].at_s", 1);
+  EXPECT_NE(element.find("no parameter element 'timeline/jump'"), std::string::npos) << element;
   EXPECT_EQ(s.pushes[0].peak_N, original.pushes[0].peak_N);
   EXPECT_EQ(s.pushes[0].start_s, original.pushes[0].start_s);
   EXPECT_FALSE(s.plant_model.has_value());

@@ -54,25 +54,24 @@ TEST(Sha256, FileDigestEqualsDigestOfItsBytes) {
     std::ofstream file(path, std::ios::binary);
     file << std::string(1000000, 'a');  // larger than the reader's chunk: several reads
   }
-  std::string error;
+  const Result<std::string> digest = Sha256OfFile(path);
+  ASSERT_TRUE(digest) << digest.error();
   // FIPS 180-2, Appendix B.3, as above.
-  EXPECT_EQ(Sha256OfFile(path, &error),
-            "cdc76e5c9914fb9281a1c7e284d73e67f1809a48a497200e046d39ccc7112cd0");
-  EXPECT_EQ(error, "");
+  EXPECT_EQ(*digest, "cdc76e5c9914fb9281a1c7e284d73e67f1809a48a497200e046d39ccc7112cd0");
   std::filesystem::remove_all(dir);
 }
 
-TEST(Sha256, MissingFileGivesEmptyDigestAndNamesThePath) {
+TEST(Sha256, MissingFileGivesNoDigestAndNamesThePath) {
   const std::string path = "/nonexistent_upright_dir/scenario.xml";
-  std::string error;
-  EXPECT_EQ(Sha256OfFile(path, &error), "");
-  EXPECT_NE(error.find("cannot read " + path), std::string::npos) << error;
+  const Result<std::string> digest = Sha256OfFile(path);
+  ASSERT_FALSE(digest);
+  EXPECT_NE(digest.error().find("cannot read " + path), std::string::npos) << digest.error();
 }
 
 TEST(Sha256, FolderIsNotReadableAsAFile) {
-  std::string error;
-  EXPECT_EQ(Sha256OfFile(std::filesystem::temp_directory_path().string(), &error), "");
-  EXPECT_NE(error.find("cannot read"), std::string::npos) << error;
+  const Result<std::string> digest = Sha256OfFile(std::filesystem::temp_directory_path().string());
+  ASSERT_FALSE(digest);
+  EXPECT_NE(digest.error().find("cannot read"), std::string::npos) << digest.error();
 }
 
 }  // namespace

@@ -5,6 +5,7 @@
 #include <limits>
 #include <sstream>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "run_test_support.hpp"
@@ -38,12 +39,19 @@ const char* kShortSweep = R"(<scenario name="short-sweep" schema="1" duration_s=
   </dispersions>
 </scenario>)";
 
-SweepResult Sweep(const Scenario& scenario, int samples, int jobs) {
+Result<SweepResult> TrySweep(const Scenario& scenario, int samples, int jobs) {
   SweepOptions options;
   options.samples = samples;
   options.seed = 20;
   options.jobs = jobs;
   return RunSweepSamples(scenario, options, "test", nullptr);
+}
+
+// The sweep of `scenario`; a test failure (and an exception ending the test) when it cannot run.
+SweepResult Sweep(const Scenario& scenario, int samples, int jobs) {
+  Result<SweepResult> swept = TrySweep(scenario, samples, jobs);
+  EXPECT_TRUE(swept) << (swept ? "" : swept.error());
+  return std::move(swept).value();
 }
 
 std::vector<std::string> Lines(const std::string& text) {
@@ -80,9 +88,10 @@ TEST_F(SweepRun, FilesAreByteIdenticalOnASecondRunWithTwoJobs) {
   const SweepResult again = Sweep(*scenario_, 5, 2);
   EXPECT_EQ(again.jobs, 2);
   const auto dir_a = ScratchDir("sweep-a"), dir_b = ScratchDir("sweep-b");
-  std::string error;
-  ASSERT_TRUE(WriteSweepResults(dir_a.string(), *five_jobs1_, &error)) << error;
-  ASSERT_TRUE(WriteSweepResults(dir_b.string(), again, &error)) << error;
+  const Status written_a = WriteSweepResults(dir_a.string(), *five_jobs1_);
+  ASSERT_TRUE(written_a) << written_a.error();
+  const Status written_b = WriteSweepResults(dir_b.string(), again);
+  ASSERT_TRUE(written_b) << written_b.error();
   ASSERT_EQ(SweepFileNames().size(), 3u);  // sweep.csv, sweep.md, manifest.json
   for (const std::string& name : SweepFileNames()) {
     const std::string text = ReadFile(dir_a / name);
@@ -169,10 +178,9 @@ TEST_F(SweepRun, AModuleThatWillNotLoadStopsTheSweep) {
   Scenario broken = *scenario_;
   broken.controllers[1].builtin = false;
   broken.controllers[1].module = "/nonexistent/upright_nothing.so";
-  const SweepResult result = Sweep(broken, 3, 1);
-  EXPECT_NE(result.module_error.find("controller 'pid': "), std::string::npos)
-      << result.module_error;
-  EXPECT_TRUE(result.runs.empty());
+  const Result<SweepResult> result = TrySweep(broken, 3, 1);
+  ASSERT_FALSE(result);
+  EXPECT_NE(result.error().find("controller 'pid': "), std::string::npos) << result.error();
 }
 
 // A sample that could not be drawn leaves runs that were never played: sweep.csv prints their

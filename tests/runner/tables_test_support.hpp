@@ -70,8 +70,8 @@ inline const std::filesystem::path& TablesScratchRoot() {
 inline std::filesystem::path WriteTables(const BatchResult& batch, const std::string& name) {
   const auto dir = TablesScratchRoot() / name;
   std::filesystem::remove_all(dir);
-  std::string error;
-  EXPECT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+  const Status written = WriteResults(dir.string(), batch);
+  EXPECT_TRUE(written) << written.error();
   return dir;
 }
 

@@ -61,7 +61,7 @@ TEST(LinearTwin, FollowsThePlantThroughAPushWithinTheMotorsLimits) {
   // centimetres over 4 s, measured) through an estimator that cannot tell them from tilt, held
   // by the wheels' friction; the twin's sensors are ideal, so they are zeroed here to compare
   // the mechanics alone.
-  const RunResult r = RunOne(Knock(250, true), 0, 1, BuiltinModule("lqr"), "", WithTwin());
+  const RunResult r = RunOne(Knock(250, true), 0, 1, BuiltinModule("lqr"), WithTwin());
   ASSERT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
   EXPECT_EQ(r.metrics.saturation_pct, 0);  // 13.5 A of the 20 A limit at the peak
   const GapFigures& g = r.gap;
@@ -89,7 +89,7 @@ TEST(LinearTwin, FollowsThePlantInVoltageModeAndOnTheTrueState) {
       RunOne(Knock(250, true,
                    R"(<controller name="lqr" builtin="lqr"><setting key="input" value="voltage"/>)"
                    R"(</controller>)"),
-             0, 1, BuiltinModule("lqr"), "", WithTwin());
+             0, 1, BuiltinModule("lqr"), WithTwin());
   ASSERT_EQ(voltage.metrics.status, RunStatus::kOk) << voltage.metrics.message;
   EXPECT_NEAR(voltage.gap.peak_tilt_linear_deg / voltage.gap.peak_tilt_plant_deg, 1, 0.05);
   EXPECT_TRUE(std::isnan(voltage.gap.tilt_diverge_s)) << voltage.gap.tilt_diverge_s;
@@ -98,7 +98,7 @@ TEST(LinearTwin, FollowsThePlantInVoltageModeAndOnTheTrueState) {
   const RunResult truth = RunOne(Knock(250, true,
                                        R"(<controller name="lqr" builtin="lqr" true_state="true">)"
                                        R"(<setting key="state" value="true"/></controller>)"),
-                                 0, 1, BuiltinModule("lqr"), "", WithTwin());
+                                 0, 1, BuiltinModule("lqr"), WithTwin());
   ASSERT_EQ(truth.metrics.status, RunStatus::kOk) << truth.metrics.message;
   EXPECT_NEAR(truth.gap.peak_tilt_linear_deg / truth.gap.peak_tilt_plant_deg, 1, 0.10);
   EXPECT_TRUE(std::isnan(truth.gap.tilt_diverge_s)) << truth.gap.tilt_diverge_s;
@@ -107,7 +107,7 @@ TEST(LinearTwin, FollowsThePlantInVoltageModeAndOnTheTrueState) {
 TEST(LinearTwin, PartsFromThePlantOnAPushThatSaturatesTheMotors) {
   // 42 N·s: the plant runs into the 20 A current limit, tilts faster than the unlimited linear
   // robot, and its chassis touches the ground at about 11°; the twin recovers from 18°.
-  const RunResult r = RunOne(Knock(700, false), 0, 1, BuiltinModule("lqr"), "", WithTwin());
+  const RunResult r = RunOne(Knock(700, false), 0, 1, BuiltinModule("lqr"), WithTwin());
   ASSERT_EQ(r.metrics.status, RunStatus::kFell) << r.metrics.message;
   EXPECT_GT(r.metrics.saturation_pct, 5);
   const GapFigures& g = r.gap;
@@ -120,7 +120,7 @@ TEST(LinearTwin, PartsFromThePlantOnAPushThatSaturatesTheMotors) {
 }
 
 TEST(LinearTwin, AddsItsColumnsToTheTraceUntilTheTwinStops) {
-  const RunResult r = RunOne(Knock(250, false), 0, 1, BuiltinModule("lqr"), "", WithTwin(50));
+  const RunResult r = RunOne(Knock(250, false), 0, 1, BuiltinModule("lqr"), WithTwin(50));
   ASSERT_TRUE(r.trace.has_twin);
   ASSERT_EQ(r.trace.rows.size(), 201u);
   EXPECT_EQ(r.trace.rows[0].twin_pitch_deg, 0);
@@ -135,7 +135,7 @@ TEST(LinearTwin, AddsItsColumnsToTheTraceUntilTheTwinStops) {
   EXPECT_LE(peak_deg, r.gap.peak_tilt_linear_deg + 1e-12);
   EXPECT_GT(peak_deg, 0.95 * r.gap.peak_tilt_linear_deg);
 
-  const RunResult plain = RunOne(Knock(250, false), 0, 1, BuiltinModule("lqr"), "", RunOptions{});
+  const RunResult plain = RunOne(Knock(250, false), 0, 1, BuiltinModule("lqr"), RunOptions{});
   EXPECT_FALSE(plain.trace.has_twin);
   EXPECT_FALSE(plain.gap.ran);
 }
@@ -144,10 +144,9 @@ TEST(LinearTwin, RefusesADrivePlanOfUnequalLists) {
   DrivePlan plan;
   plan.reference.resize(10);
   plan.path_x_m.resize(10);
-  TwinRun twin;
-  std::string error;
-  EXPECT_FALSE(RunLinearTwin(Knock(250, false), 0, BuiltinModule("lqr"), plan, &twin, &error));
-  EXPECT_NE(error.find("differ in length"), std::string::npos) << error;
+  const Result<TwinRun> twin = RunLinearTwin(Knock(250, false), 0, BuiltinModule("lqr"), plan);
+  ASSERT_FALSE(twin);
+  EXPECT_NE(twin.error().find("differ in length"), std::string::npos) << twin.error();
 }
 
 // Scenario "two" with a drive after the push (the twin models no drive).
@@ -208,8 +207,8 @@ TEST(LinearTwin, NoGapTablesWithoutTheTwin) {
   const BatchResult batch = RunBatch(scenarios, options, "test", nullptr);
   EXPECT_FALSE(batch.linear_twin);
   const auto dir = ScratchDir("twin-off");
-  std::string error;
-  ASSERT_TRUE(WriteResults(dir.string(), batch, &error)) << error;
+  const Status written = WriteResults(dir.string(), batch);
+  ASSERT_TRUE(written) << written.error();
   EXPECT_FALSE(std::filesystem::exists(dir / "gap.csv"));
   EXPECT_FALSE(std::filesystem::exists(dir / "gap.md"));
   const std::string trace = ReadFile(dir / "traces" / TraceFileName(batch.runs.front()));

@@ -19,25 +19,28 @@ namespace {
 std::string Num(double value) { return SignificantText(value, 6); }
 
 // The axis of `path` with its defaults resolved, the ends checked against the scenario.
-bool ResolveAxis(const Scenario& scenario, const std::string& path, std::optional<double> lo,
-                 std::optional<double> hi, ParameterAxis* axis, std::string* error) {
-  axis->path = path;
-  axis->unit = internal::ParameterUnit(path);
-  if (!GetScenarioParameter(scenario, path, &axis->scenario_value, error)) return false;
-  const double v = axis->scenario_value;
+Result<ParameterAxis> ResolveAxis(const Scenario& scenario, const std::string& path,
+                                  std::optional<double> lo, std::optional<double> hi) {
+  ParameterAxis axis;
+  axis.path = path;
+  axis.unit = internal::ParameterUnit(path);
+  const Result<double> value = GetScenarioParameter(scenario, path);
+  if (!value) return Failure(value.error());
+  axis.scenario_value = *value;
+  const double v = axis.scenario_value;
   if ((!lo || !hi) && v == 0) {
-    *error = path + ": the scenario's value is 0, so there is no default range (0.25 to 4 times " +
-             "it); give the range (--lo and --hi)";
-    return false;
+    return Failure(path +
+                   ": the scenario's value is 0, so there is no default range (0.25 to 4 times " +
+                   "it); give the range (--lo and --hi)");
   }
-  axis->lo = lo ? *lo : std::min(0.25 * v, 4 * v);
-  axis->hi = hi ? *hi : std::max(0.25 * v, 4 * v);
-  if (!(axis->lo < axis->hi)) {
-    *error = path + ": range start " + Num(axis->lo) + " must be below its end " + Num(axis->hi) +
-             (lo && hi ? "" : " (defaults: 0.25 and 4 times the scenario's value " + Num(v) + ")");
-    return false;
+  axis.lo = lo ? *lo : std::min(0.25 * v, 4 * v);
+  axis.hi = hi ? *hi : std::max(0.25 * v, 4 * v);
+  if (!(axis.lo < axis.hi)) {
+    return Failure(
+        path + ": range start " + Num(axis.lo) + " must be below its end " + Num(axis.hi) +
+        (lo && hi ? "" : " (defaults: 0.25 and 4 times the scenario's value " + Num(v) + ")"));
   }
-  return true;
+  return axis;
 }
 
 // k + 2 probes for a bisection from width w to tol, k = ⌈log2(w / tol)⌉ (bisect.hpp).
@@ -61,8 +64,7 @@ struct RunVerdict {
 // One run of one probe scenario, never throwing.
 RunVerdict RunProbe(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
                     const LoadedModule& loaded, const RunOptions& run_options) {
-  const RunResult r =
-      RunOneSafely(scenario, controller, seed, loaded.module, loaded.error, run_options);
+  const RunResult r = RunOneSafely(scenario, controller, seed, loaded, run_options);
   return {r.metrics.status, r.metrics.message};
 }
 
@@ -94,17 +96,20 @@ ProbeTally Tally(const std::vector<std::uint64_t>& seeds, const RunVerdict* verd
   return tally;
 }
 
-// The scenario with the parameters set; false and *error when it refuses a value.
-bool ProbeScenario(const Scenario& scenario, const std::string& path, double value,
-                   const std::string& path2, double value2, Scenario* probe, std::string* error) {
-  *probe = scenario;
-  if (!SetScenarioParameter(probe, path, value, error)) return false;
-  return path2.empty() || SetScenarioParameter(probe, path2, value2, error);
+// The scenario with the parameters set (`path2` empty: the first alone), or why it refuses a
+// value.
+Result<Scenario> ProbeScenario(const Scenario& scenario, const std::string& path, double value,
+                               const std::string& path2, double value2) {
+  Scenario probe = scenario;
+  if (Status set = SetScenarioParameter(&probe, path, value); !set) return Failure(set.error());
+  if (path2.empty()) return probe;
+  if (Status set = SetScenarioParameter(&probe, path2, value2); !set) return Failure(set.error());
+  return probe;
 }
 
 }  // namespace
 
-bool EnvelopeOptions::IsValid(std::string* error) const {
+Status EnvelopeOptions::Validate() const {
   std::ostringstream why;
   const auto finite_if_set = [](const std::optional<double>& v) { return !v || std::isfinite(*v); };
   if (param.empty()) {
@@ -135,35 +140,34 @@ bool EnvelopeOptions::IsValid(std::string* error) const {
   } else if (!(std::isfinite(settle_hold_s) && settle_hold_s > 0)) {
     why << "EnvelopeOptions::settle_hold_s = " << settle_hold_s << ", must be > 0 and finite";
   } else {
-    return true;
+    return {};
   }
-  *error = why.str();
-  return false;
+  return Failure(why.str());
 }
 
-bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, EnvelopePlan* plan,
-                  std::string* error) {
-  if (!options.IsValid(error)) return false;
+Result<EnvelopePlan> PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options) {
+  if (Status valid = options.Validate(); !valid) return Failure(valid.error());
   EnvelopePlan p;
-  if (!ResolveAxis(scenario, options.param, options.lo, options.hi, &p.axis, error)) return false;
+  const Result<ParameterAxis> axis = ResolveAxis(scenario, options.param, options.lo, options.hi);
+  if (!axis) return Failure(axis.error());
+  p.axis = *axis;
   p.tol = options.tol ? *options.tol : (p.axis.hi - p.axis.lo) / 200;
   if (!options.param2.empty()) {
-    ParameterAxis axis2;
-    if (!ResolveAxis(scenario, options.param2, options.lo2, options.hi2, &axis2, error)) {
-      return false;
-    }
-    p.axis2 = axis2;
+    const Result<ParameterAxis> axis2 =
+        ResolveAxis(scenario, options.param2, options.lo2, options.hi2);
+    if (!axis2) return Failure(axis2.error());
+    p.axis2 = *axis2;
     p.grid = options.grid;
   }
   // Both ends, and with a map its four corners, must make a valid scenario.
-  Scenario probe;
   for (const double value : {p.axis.lo, p.axis.hi}) {
-    if (!ProbeScenario(scenario, p.axis.path, value, "", 0, &probe, error)) return false;
+    const Result<Scenario> end = ProbeScenario(scenario, p.axis.path, value, "", 0);
+    if (!end) return Failure(end.error());
     if (p.axis2) {
       for (const double value2 : {p.axis2->lo, p.axis2->hi}) {
-        if (!ProbeScenario(scenario, p.axis.path, value, p.axis2->path, value2, &probe, error)) {
-          return false;
-        }
+        const Result<Scenario> corner =
+            ProbeScenario(scenario, p.axis.path, value, p.axis2->path, value2);
+        if (!corner) return Failure(corner.error());
       }
     }
   }
@@ -171,8 +175,7 @@ bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, Enve
   const std::size_t per_probe = scenario.controllers.size() * p.seeds.size();
   p.max_runs = per_probe * BracketedProbes(p.axis.hi - p.axis.lo, p.tol);
   if (p.axis2) p.max_runs += per_probe * static_cast<std::size_t>(p.grid * p.grid);
-  *plan = std::move(p);
-  return true;
+  return p;
 }
 
 bool EnvelopeResult::any_setup_failed() const {
@@ -230,108 +233,130 @@ struct EnvelopeWork {
   std::size_t Controllers() const { return scenario.controllers.size(); }
 };
 
-// Phase 1: every controller's bisection side by side, one round of probes at a time, into
-// result->controllers; adds the runs made to result->runs.
-void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
+// Every controller's bisection in phase 1: the bisection itself, whether it still probes, and
+// the runs it has made.
+struct SideBySide {
+  std::vector<Bisection> bisections;
+  std::vector<bool> active;
+  std::vector<std::size_t> used;  // runs made per controller
+};
+
+// One probe of a round: a controller at a value, with the scenario set to it.
+struct Probe {
+  std::size_t controller = 0;
+  double value = 0;
+  Scenario scenario;
+};
+
+// Each controller's envelope, begun: one whose module did not load is set aside with its reason.
+SideBySide StartBisections(EnvelopeWork& work, EnvelopeResult* result) {
   const Scenario& scenario = work.scenario;
   const EnvelopePlan& plan = work.plan;
-  const std::vector<std::uint64_t>& seeds = plan.seeds;
-  const std::size_t n_seeds = work.Seeds();
   const std::size_t n_controllers = work.Controllers();
-
-  std::vector<Bisection> bisections;
-  std::vector<bool> active(n_controllers, true);
+  SideBySide state;
+  state.active.assign(n_controllers, true);
+  state.used.assign(n_controllers, 0);
   for (std::size_t c = 0; c < n_controllers; ++c) {
     ControllerEnvelope envelope;
     envelope.controller = scenario.controllers[c].name;
     envelope.baseline = c == scenario.baseline;
-    if (!work.modules[c]->module) {
-      envelope.setup_error = work.modules[c]->error;
-      active[c] = false;
+    if (!*work.modules[c]) {
+      envelope.setup_error = work.modules[c]->error();
+      state.active[c] = false;
       work.progress.Set(c, 0);
     }
     result->controllers.push_back(envelope);
-    bisections.emplace_back(plan.axis.lo, plan.axis.hi, plan.tol);
+    state.bisections.emplace_back(plan.axis.lo, plan.axis.hi, plan.tol);
   }
   work.progress.Recount();
-  std::vector<std::size_t> used(n_controllers, 0);  // runs made per controller
+  return state;
+}
 
-  struct Probe {
-    std::size_t controller = 0;
-    double value = 0;
-    Scenario scenario;
-  };
-  for (;;) {
-    std::vector<Probe> probes;
-    for (std::size_t c = 0; c < n_controllers; ++c) {
-      if (!active[c]) continue;
-      for (const double value : bisections[c].Pending()) {
-        Probe probe;
-        probe.controller = c;
-        probe.value = value;
-        std::string error;
-        if (!ProbeScenario(scenario, plan.axis.path, value, "", 0, &probe.scenario, &error)) {
-          result->controllers[c].setup_error = error;
-          active[c] = false;
-          break;
-        }
-        probes.push_back(std::move(probe));
+// The probes of the next round, every active controller's pending values; a controller with a
+// value the scenario refuses stops there, with that reason and none of its probes this round.
+std::vector<Probe> NextRound(EnvelopeWork& work, SideBySide& state, EnvelopeResult* result) {
+  std::vector<Probe> probes;
+  for (std::size_t c = 0; c < work.Controllers(); ++c) {
+    if (!state.active[c]) continue;
+    for (const double value : state.bisections[c].Pending()) {
+      Result<Scenario> probed = ProbeScenario(work.scenario, work.plan.axis.path, value, "", 0);
+      if (!probed) {
+        result->controllers[c].setup_error = probed.error();
+        state.active[c] = false;
+        break;
       }
-      if (!active[c]) {
-        probes.erase(std::remove_if(probes.begin(), probes.end(),
-                                    [c](const Probe& p) { return p.controller == c; }),
-                     probes.end());
-        work.progress.Set(c, used[c]);
-      }
+      probes.push_back({c, value, std::move(*probed)});
     }
-    work.progress.Recount();
-    if (probes.empty()) break;
-
-    std::vector<RunVerdict> verdicts(probes.size() * n_seeds);
-    ParallelFor(
-        verdicts.size(), work.jobs,
-        [&](std::size_t i) {
-          const Probe& probe = probes[i / n_seeds];
-          verdicts[i] = RunProbe(probe.scenario, probe.controller, seeds[i % n_seeds],
-                                 *work.modules[probe.controller], work.run_options);
-        },
-        [&] { work.progress.OneDone(); });
-
-    // Verdicts back to each bisection, in the order its values were pending.
-    std::vector<std::vector<bool>> survived(n_controllers);
-    for (std::size_t p = 0; p < probes.size(); ++p) {
-      const std::size_t c = probes[p].controller;
-      used[c] += n_seeds;
-      const ProbeTally tally = Tally(seeds, &verdicts[p * n_seeds]);
-      ControllerEnvelope& envelope = result->controllers[c];
-      envelope.probes.push_back(
-          {probes[p].value, tally.survived, static_cast<int>(n_seeds), tally.failure});
-      if (!active[c]) continue;  // an earlier probe of this round could not run
-      if (!tally.setup_error.empty()) {
-        envelope.setup_error = tally.setup_error;
-        active[c] = false;
-        continue;
-      }
-      survived[c].push_back(tally.survived == static_cast<int>(n_seeds));
+    if (!state.active[c]) {
+      probes.erase(std::remove_if(probes.begin(), probes.end(),
+                                  [c](const Probe& p) { return p.controller == c; }),
+                   probes.end());
+      work.progress.Set(c, state.used[c]);
     }
-    for (std::size_t c = 0; c < n_controllers; ++c) {
-      if (!active[c]) {
-        work.progress.Cap(c, used[c]);
-        continue;
-      }
-      if (survived[c].empty()) continue;
-      bisections[c].Record(survived[c]);
-      if (bisections[c].done()) {
-        active[c] = false;
-        work.progress.Set(c, used[c]);
-      }
-    }
-    work.progress.Recount();
   }
+  work.progress.Recount();
+  return probes;
+}
 
-  for (std::size_t c = 0; c < n_controllers; ++c) {
+// Every probe of the round on every seed, in parallel; verdicts probe by probe, seed by seed.
+std::vector<RunVerdict> RunRound(EnvelopeWork& work, const std::vector<Probe>& probes) {
+  const std::vector<std::uint64_t>& seeds = work.plan.seeds;
+  const std::size_t n_seeds = work.Seeds();
+  std::vector<RunVerdict> verdicts(probes.size() * n_seeds);
+  ParallelFor(
+      verdicts.size(), work.jobs,
+      [&](std::size_t i) {
+        const Probe& probe = probes[i / n_seeds];
+        verdicts[i] = RunProbe(probe.scenario, probe.controller, seeds[i % n_seeds],
+                               *work.modules[probe.controller], work.run_options);
+      },
+      [&] { work.progress.OneDone(); });
+  return verdicts;
+}
+
+// The round's verdicts back to each bisection, in the order its values were pending; a
+// controller whose probe could not be run stops with that reason.
+void RecordRound(EnvelopeWork& work, const std::vector<Probe>& probes,
+                 const std::vector<RunVerdict>& verdicts, SideBySide& state,
+                 EnvelopeResult* result) {
+  const std::size_t n_seeds = work.Seeds();
+  std::vector<std::vector<bool>> survived(work.Controllers());
+  for (std::size_t p = 0; p < probes.size(); ++p) {
+    const std::size_t c = probes[p].controller;
+    state.used[c] += n_seeds;
+    const ProbeTally tally = Tally(work.plan.seeds, &verdicts[p * n_seeds]);
     ControllerEnvelope& envelope = result->controllers[c];
-    envelope.bisect = bisections[c].result();
+    envelope.probes.push_back(
+        {probes[p].value, tally.survived, static_cast<int>(n_seeds), tally.failure});
+    if (!state.active[c]) continue;  // an earlier probe of this round could not run
+    if (!tally.setup_error.empty()) {
+      envelope.setup_error = tally.setup_error;
+      state.active[c] = false;
+      continue;
+    }
+    survived[c].push_back(tally.survived == static_cast<int>(n_seeds));
+  }
+  for (std::size_t c = 0; c < work.Controllers(); ++c) {
+    if (!state.active[c]) {
+      work.progress.Cap(c, state.used[c]);
+      continue;
+    }
+    if (survived[c].empty()) continue;
+    state.bisections[c].Record(survived[c]);
+    if (state.bisections[c].done()) {
+      state.active[c] = false;
+      work.progress.Set(c, state.used[c]);
+    }
+  }
+  work.progress.Recount();
+}
+
+// Each controller's answer: its bisection's, or for one cut short only the probes it made; the
+// runs made added to result->runs.
+void FinishBisections(const SideBySide& state, EnvelopeResult* result) {
+  for (std::size_t c = 0; c < result->controllers.size(); ++c) {
+    ControllerEnvelope& envelope = result->controllers[c];
+    envelope.bisect = state.bisections[c].result();
     if (!envelope.setup_error.empty()) {
       // Cut short: no bisection answer, only the probes made.
       envelope.bisect = BisectResult{};
@@ -341,8 +366,21 @@ void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
         if (probe.value == envelope.bisect.first_failing_value) envelope.failure = probe.failure;
       }
     }
-    result->runs += used[c];
+    result->runs += state.used[c];
   }
+}
+
+// Phase 1: every controller's bisection side by side, one round of probes at a time, into
+// result->controllers; adds the runs made to result->runs.
+void BisectSideBySide(EnvelopeWork& work, EnvelopeResult* result) {
+  SideBySide state = StartBisections(work, result);
+  for (;;) {
+    const std::vector<Probe> probes = NextRound(work, state, result);
+    if (probes.empty()) break;
+    const std::vector<RunVerdict> verdicts = RunRound(work, probes);
+    RecordRound(work, probes, verdicts, state, result);
+  }
+  FinishBisections(state, result);
 }
 
 // Phase 2: the grid of both parameters, every controller at every point, into result->maps; adds
@@ -363,8 +401,14 @@ void MapGrid(EnvelopeWork& work, EnvelopeResult* result) {
   for (std::size_t i2 = 0; i2 < grid; ++i2) {
     for (std::size_t i1 = 0; i1 < grid; ++i1) {
       const std::size_t k = i2 * grid + i1;
-      ProbeScenario(work.scenario, a1.path, GridValue(a1, static_cast<int>(i1), plan.grid), a2.path,
-                    GridValue(a2, static_cast<int>(i2), plan.grid), &points[k], &refused[k]);
+      Result<Scenario> point =
+          ProbeScenario(work.scenario, a1.path, GridValue(a1, static_cast<int>(i1), plan.grid),
+                        a2.path, GridValue(a2, static_cast<int>(i2), plan.grid));
+      if (point) {
+        points[k] = std::move(*point);
+      } else {
+        refused[k] = point.error();
+      }
     }
   }
   // Tasks: controller by controller, point by point, seed by seed; only what can run.
@@ -373,7 +417,7 @@ void MapGrid(EnvelopeWork& work, EnvelopeResult* result) {
   };
   std::vector<MapTask> tasks;
   for (std::size_t c = 0; c < n_controllers; ++c) {
-    if (!work.modules[c]->module) continue;
+    if (!*work.modules[c]) continue;
     for (std::size_t k = 0; k < n_points; ++k) {
       if (!refused[k].empty()) continue;
       for (std::size_t s = 0; s < n_seeds; ++s) tasks.push_back({c, k, s});
@@ -395,13 +439,13 @@ void MapGrid(EnvelopeWork& work, EnvelopeResult* result) {
   for (std::size_t c = 0; c < n_controllers; ++c) {
     ControllerMap map;
     map.controller = work.scenario.controllers[c].name;
-    if (!work.modules[c]->module) map.setup_error = work.modules[c]->error;
+    if (!*work.modules[c]) map.setup_error = work.modules[c]->error();
     for (std::size_t k = 0; k < n_points; ++k) {
       MapPoint point;
       point.value = GridValue(a1, static_cast<int>(k % grid), plan.grid);
       point.value2 = GridValue(a2, static_cast<int>(k / grid), plan.grid);
       point.seeds = static_cast<int>(n_seeds);
-      if (!work.modules[c]->module) {
+      if (!*work.modules[c]) {
         point.setup_failed = true;
       } else if (!refused[k].empty()) {
         point.setup_failed = true;

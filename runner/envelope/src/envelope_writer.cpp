@@ -17,17 +17,21 @@ std::vector<std::string> EnvelopeFileNames(const EnvelopeResult& result) {
   return names;
 }
 
-bool WriteEnvelopeResults(const std::string& dir, const EnvelopeResult& result,
-                          std::string* error) {
-  if (!MakeResultsFolder(dir, error)) return false;
+Status WriteEnvelopeResults(const std::string& dir, const EnvelopeResult& result) {
+  if (Status made = MakeResultsFolder(dir); !made) return made;
   const std::filesystem::path root(dir);
   const auto write = [&](const char* name, const std::string& text) {
-    return WriteFileAtomically((root / name).string(), text, error);
+    return WriteFileAtomically((root / name).string(), text);
   };
-  if (!write("envelope.csv", internal::EnvelopeCsv(result))) return false;
-  if (!write("envelope.md", internal::EnvelopeMarkdown(result))) return false;
-  if (result.plan.axis2 && !write("envelope_map.csv", internal::EnvelopeMapCsv(result))) {
-    return false;
+  if (Status written = write("envelope.csv", internal::EnvelopeCsv(result)); !written) {
+    return written;
+  }
+  if (Status written = write("envelope.md", internal::EnvelopeMarkdown(result)); !written) {
+    return written;
+  }
+  if (result.plan.axis2) {
+    Status written = write("envelope_map.csv", internal::EnvelopeMapCsv(result));
+    if (!written) return written;
   }
   return write("manifest.json", internal::EnvelopeManifestJson(result));
 }

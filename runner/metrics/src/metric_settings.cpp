@@ -5,7 +5,7 @@
 
 namespace upright::runner {
 
-bool MetricSettings::IsValid(std::string* error) const {
+Status MetricSettings::Validate() const {
   std::ostringstream why;
   if (!(fall_tilt_deg > 0 && fall_tilt_deg <= 90)) {
     why << "MetricSettings::fall_tilt_deg = " << fall_tilt_deg << ", must be in (0, 90]";
@@ -24,9 +24,8 @@ bool MetricSettings::IsValid(std::string* error) const {
   } else if (!(slip_threshold > 0 && slip_threshold <= 1)) {
     why << "MetricSettings::slip_threshold = " << slip_threshold << ", must be in (0, 1]";
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
 }  // namespace upright::runner

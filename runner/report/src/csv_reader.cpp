@@ -15,10 +15,10 @@ struct RecordParse {
 };
 
 // Parses one record starting at text[*at] (on line *line); advances both past its line break.
-bool ParseRecord(std::string_view text, std::size_t* at, int* line, const std::string& path,
-                 RecordParse* record, std::string* error) {
-  record->fields.clear();
-  record->start_line = *line;
+Result<RecordParse> ParseRecord(std::string_view text, std::size_t* at, int* line,
+                                const std::string& path) {
+  RecordParse record;
+  record.start_line = *line;
   std::string field;
   std::size_t i = *at;
   while (true) {
@@ -28,9 +28,8 @@ bool ParseRecord(std::string_view text, std::size_t* at, int* line, const std::s
       ++i;
       while (true) {
         if (i >= text.size()) {
-          *error = path + ":" + std::to_string(quote_line) +
-                   ": a quoted field is never closed (expected a closing '\"')";
-          return false;
+          return Failure(path + ":" + std::to_string(quote_line) +
+                         ": a quoted field is never closed (expected a closing '\"')");
         }
         const char c = text[i];
         if (c == '"') {
@@ -48,23 +47,21 @@ bool ParseRecord(std::string_view text, std::size_t* at, int* line, const std::s
       }
       if (i < text.size() && text[i] != ',' && text[i] != '\n' &&
           !(text[i] == '\r' && i + 1 < text.size() && text[i + 1] == '\n')) {
-        *error = path + ":" + std::to_string(*line) + ": '" + std::string(1, text[i]) +
-                 "' after a closing quote (expected ',' or the end of the line)";
-        return false;
+        return Failure(path + ":" + std::to_string(*line) + ": '" + std::string(1, text[i]) +
+                       "' after a closing quote (expected ',' or the end of the line)");
       }
     } else {
       while (i < text.size() && text[i] != ',' && text[i] != '\n' &&
              !(text[i] == '\r' && i + 1 < text.size() && text[i + 1] == '\n')) {
         if (text[i] == '"') {
-          *error = path + ":" + std::to_string(*line) +
-                   ": a quote inside an unquoted field (expected the whole field in quotes)";
-          return false;
+          return Failure(path + ":" + std::to_string(*line) +
+                         ": a quote inside an unquoted field (expected the whole field in quotes)");
         }
         field += text[i];
         ++i;
       }
     }
-    record->fields.push_back(field);
+    record.fields.push_back(field);
     if (i < text.size() && text[i] == ',') {
       ++i;
       continue;
@@ -75,7 +72,7 @@ bool ParseRecord(std::string_view text, std::size_t* at, int* line, const std::s
       ++*line;
     }
     *at = i;
-    return true;
+    return record;
   }
 }
 
@@ -88,35 +85,32 @@ int CsvTable::Column(std::string_view name) const {
   return -1;
 }
 
-bool ParseCsv(std::string_view text, const std::string& path, CsvTable* table, std::string* error) {
-  *table = CsvTable{};
-  if (text.empty()) {
-    *error = path + ":1: empty file (expected a header line)";
-    return false;
-  }
+Result<CsvTable> ParseCsv(std::string_view text, const std::string& path) {
+  if (text.empty()) return Failure(path + ":1: empty file (expected a header line)");
   std::size_t at = 0;
   int line = 1;
-  RecordParse record;
-  if (!ParseRecord(text, &at, &line, path, &record, error)) return false;
-  table->header = record.fields;
+  Result<RecordParse> header = ParseRecord(text, &at, &line, path);
+  if (!header) return Failure(header.error());
+  CsvTable table;
+  table.header = std::move(header->fields);
   while (at < text.size()) {
-    if (!ParseRecord(text, &at, &line, path, &record, error)) return false;
-    if (record.fields.size() != table->header.size()) {
-      *error = path + ":" + std::to_string(record.start_line) + ": " +
-               std::to_string(record.fields.size()) + " field(s) (expected " +
-               std::to_string(table->header.size()) + ", as in the header)";
-      return false;
+    Result<RecordParse> record = ParseRecord(text, &at, &line, path);
+    if (!record) return Failure(record.error());
+    if (record->fields.size() != table.header.size()) {
+      return Failure(path + ":" + std::to_string(record->start_line) + ": " +
+                     std::to_string(record->fields.size()) + " field(s) (expected " +
+                     std::to_string(table.header.size()) + ", as in the header)");
     }
-    table->rows.push_back(record.fields);
-    table->lines.push_back(record.start_line);
+    table.rows.push_back(std::move(record->fields));
+    table.lines.push_back(record->start_line);
   }
-  return true;
+  return table;
 }
 
-bool ReadCsvFile(const std::string& path, CsvTable* table, std::string* error) {
-  std::string text;
-  if (!report::ReadWholeFile(path, &text, error)) return false;
-  return ParseCsv(text, path, table, error);
+Result<CsvTable> ReadCsvFile(const std::string& path) {
+  const Result<std::string> text = report::ReadWholeFile(path);
+  if (!text) return Failure(text.error());
+  return ParseCsv(*text, path);
 }
 
 double CsvNumber(std::string_view cell) {
@@ -131,17 +125,13 @@ double CsvNumber(std::string_view cell) {
   return value;
 }
 
-bool CsvBoolAt(const CsvTable& table, std::size_t row, int column, const std::string& path,
-               bool* value, std::string* error) {
+Result<bool> CsvBoolAt(const CsvTable& table, std::size_t row, int column,
+                       const std::string& path) {
   const std::string& cell = table.rows.at(row).at(static_cast<std::size_t>(column));
-  if (cell == "true" || cell == "false") {
-    *value = cell == "true";
-    return true;
-  }
-  *error = path + ":" + std::to_string(table.lines.at(row)) + ": " +
-           table.header.at(static_cast<std::size_t>(column)) + " = '" + cell +
-           "': expected true or false";
-  return false;
+  if (cell == "true" || cell == "false") return cell == "true";
+  return Failure(path + ":" + std::to_string(table.lines.at(row)) + ": " +
+                 table.header.at(static_cast<std::size_t>(column)) + " = '" + cell +
+                 "': expected true or false");
 }
 
 }  // namespace upright::runner

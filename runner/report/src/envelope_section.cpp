@@ -44,42 +44,97 @@ std::string Note(const std::vector<std::string>& row, int outcome, int survived,
   return note;
 }
 
-// envelope_map.csv into one map per controller, in file order.
-bool AppendMaps(const std::string& path, const std::string& scenario_name,
-                const ResultsFolder& folder, const ManifestInfo& manifest, ReportPage* page,
-                std::string* error) {
-  CsvTable map_table;
-  if (!ReadCsvFile(path, &map_table, error)) return false;
+// envelope_map.csv as read: the table, its columns by name and every row's survived cell.
+struct MapTable {
+  CsvTable table;
+  // controller, parameter, value, parameter2, value2, survived, seeds_survived, seeds
+  int c[8];
+  std::vector<bool> all_survived;  // per row
+};
+
+// Reads envelope_map.csv: every column it needs, and every survived cell read before anything is
+// drawn (true, false, or the table is refused).
+Result<MapTable> ReadMapTable(const std::string& path) {
+  Result<CsvTable> read = ReadCsvFile(path);
+  if (!read) return Failure(read.error());
+  MapTable map;
+  map.table = std::move(*read);
   const char* kNames[] = {"controller", "parameter", "value",          "parameter2",
                           "value2",     "survived",  "seeds_survived", "seeds"};
-  int c[8];
   for (int k = 0; k < 8; ++k) {
-    c[k] = map_table.Column(kNames[k]);
-    if (c[k] < 0) {
-      *error = path + ":1: no column '" + std::string(kNames[k]) + "' in the header";
-      return false;
+    map.c[k] = map.table.Column(kNames[k]);
+    if (map.c[k] < 0) {
+      return Failure(path + ":1: no column '" + std::string(kNames[k]) + "' in the header");
     }
   }
-  if (map_table.rows.empty()) return true;
-  // Every survived cell read before anything is drawn: true, false, or the table is refused.
-  std::vector<bool> all_survived(map_table.rows.size());
-  for (std::size_t r = 0; r < map_table.rows.size(); ++r) {
-    bool survived = false;
-    if (!CsvBoolAt(map_table, r, c[5], path, &survived, error)) return false;
-    all_survived[r] = survived;
+  map.all_survived.resize(map.table.rows.size());
+  for (std::size_t r = 0; r < map.table.rows.size(); ++r) {
+    const Result<bool> survived = CsvBoolAt(map.table, r, map.c[5], path);
+    if (!survived) return Failure(survived.error());
+    map.all_survived[r] = *survived;
   }
+  return map;
+}
+
+// One controller's survival map from the table's rows, the axes labelled with their units.
+SurvivalMap ControllerMapOf(const MapTable& read, const std::string& controller,
+                            const std::string& scenario_name, const std::string& unit1,
+                            const std::string& unit2) {
+  const auto label = [](const std::string& name, const std::string& unit) {
+    return unit.empty() ? name : name + " (" + unit + ")";
+  };
+  const int* c = read.c;
+  const std::vector<std::vector<std::string>>& rows = read.table.rows;
+  SurvivalMap map;
+  map.scenario = scenario_name;
+  map.controller = controller;
+  for (const auto& row : rows) {
+    if (row[c[0]] != controller) continue;
+    map.x_label = label(row[c[1]], unit1);
+    map.y_label = label(row[c[3]], unit2);
+    const double x = CsvNumber(row[c[2]]), y = CsvNumber(row[c[4]]);
+    if (std::find(map.xs.begin(), map.xs.end(), x) == map.xs.end()) map.xs.push_back(x);
+    if (std::find(map.ys.begin(), map.ys.end(), y) == map.ys.end()) map.ys.push_back(y);
+  }
+  std::sort(map.xs.begin(), map.xs.end());
+  std::sort(map.ys.begin(), map.ys.end());
+  map.cells.assign(map.xs.size() * map.ys.size(), MapOutcome::kMissing);
+  for (std::size_t r = 0; r < rows.size(); ++r) {
+    const auto& row = rows[r];
+    if (row[c[0]] != controller) continue;
+    const double x = CsvNumber(row[c[2]]), y = CsvNumber(row[c[4]]);
+    const auto xi = std::find(map.xs.begin(), map.xs.end(), x) - map.xs.begin();
+    const auto yi = std::find(map.ys.begin(), map.ys.end(), y) - map.ys.begin();
+    MapOutcome outcome = MapOutcome::kNone;
+    if (row[c[6]].empty()) {
+      outcome = MapOutcome::kNotRun;
+    } else if (read.all_survived[r]) {
+      outcome = MapOutcome::kAll;
+    } else if (CsvNumber(row[c[6]]) > 0) {
+      outcome = MapOutcome::kSome;
+    }
+    map.cells[static_cast<std::size_t>(yi) * map.xs.size() + static_cast<std::size_t>(xi)] =
+        outcome;
+  }
+  return map;
+}
+
+// envelope_map.csv into one map per controller, in file order.
+Status AppendMaps(const std::string& path, const std::string& scenario_name,
+                  const ResultsFolder& folder, const ManifestInfo& manifest, ReportPage* page) {
+  const Result<MapTable> read = ReadMapTable(path);
+  if (!read) return Failure(read.error());
+  if (read->table.rows.empty()) return {};
   std::string unit1, unit2;
   if (manifest.parameters.size() >= 2) {
     unit1 = manifest.parameters[0].unit;
     unit2 = manifest.parameters[1].unit;
   }
-  const auto label = [](const std::string& name, const std::string& unit) {
-    return unit.empty() ? name : name + " (" + unit + ")";
-  };
   std::vector<std::string> controllers;
-  for (const auto& row : map_table.rows) {
-    if (std::find(controllers.begin(), controllers.end(), row[c[0]]) == controllers.end()) {
-      controllers.push_back(row[c[0]]);
+  for (const auto& row : read->table.rows) {
+    const std::string& controller = row[read->c[0]];
+    if (std::find(controllers.begin(), controllers.end(), controller) == controllers.end()) {
+      controllers.push_back(controller);
     }
   }
   const std::string id = folder.id + "map";
@@ -89,50 +144,21 @@ bool AppendMaps(const std::string& path, const std::string& scenario_name,
                 "parameters (envelope_map.csv); each cell's symbol tells the outcome, its "
                 "shade only repeats it.</p><div class=\"figures\">";
   for (const std::string& controller : controllers) {
-    SurvivalMap map;
-    map.scenario = scenario_name;
-    map.controller = controller;
-    for (const auto& row : map_table.rows) {
-      if (row[c[0]] != controller) continue;
-      map.x_label = label(row[c[1]], unit1);
-      map.y_label = label(row[c[3]], unit2);
-      const double x = CsvNumber(row[c[2]]), y = CsvNumber(row[c[4]]);
-      if (std::find(map.xs.begin(), map.xs.end(), x) == map.xs.end()) map.xs.push_back(x);
-      if (std::find(map.ys.begin(), map.ys.end(), y) == map.ys.end()) map.ys.push_back(y);
-    }
-    std::sort(map.xs.begin(), map.xs.end());
-    std::sort(map.ys.begin(), map.ys.end());
-    map.cells.assign(map.xs.size() * map.ys.size(), MapOutcome::kMissing);
-    for (std::size_t r = 0; r < map_table.rows.size(); ++r) {
-      const auto& row = map_table.rows[r];
-      if (row[c[0]] != controller) continue;
-      const double x = CsvNumber(row[c[2]]), y = CsvNumber(row[c[4]]);
-      const auto xi = std::find(map.xs.begin(), map.xs.end(), x) - map.xs.begin();
-      const auto yi = std::find(map.ys.begin(), map.ys.end(), y) - map.ys.begin();
-      MapOutcome outcome = MapOutcome::kNone;
-      if (row[c[6]].empty()) {
-        outcome = MapOutcome::kNotRun;
-      } else if (all_survived[r]) {
-        outcome = MapOutcome::kAll;
-      } else if (CsvNumber(row[c[6]]) > 0) {
-        outcome = MapOutcome::kSome;
-      }
-      map.cells[static_cast<std::size_t>(yi) * map.xs.size() + static_cast<std::size_t>(xi)] =
-          outcome;
-    }
-    page->body += RenderSurvivalMap(map);
+    page->body +=
+        RenderSurvivalMap(ControllerMapOf(*read, controller, scenario_name, unit1, unit2));
   }
   page->body += "</div>";
-  return true;
+  return {};
 }
 
 }  // namespace
 
-bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& manifest,
-                           ReportPage* page, std::string* error) {
+Status AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                             ReportPage* page) {
   const std::string path = (fs::path(folder.path) / "envelope.csv").string();
-  CsvTable table;
-  if (!ReadCsvFile(path, &table, error)) return false;
+  const Result<CsvTable> read = ReadCsvFile(path);
+  if (!read) return Failure(read.error());
+  const CsvTable& table = *read;
   const char* kNames[] = {
       "scenario",  "controller",     "parameter",           "unit",    "lo",     "hi",
       "direction", "survived_value", "first_failing_value", "outcome", "message"};
@@ -140,8 +166,7 @@ bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& mani
   for (int k = 0; k < 11; ++k) {
     c[k] = table.Column(kNames[k]);
     if (c[k] < 0) {
-      *error = path + ":1: no column '" + std::string(kNames[k]) + "' in the header";
-      return false;
+      return Failure(path + ":1: no column '" + std::string(kNames[k]) + "' in the header");
     }
   }
   const std::string section_id = folder.id + "envelope";
@@ -151,7 +176,7 @@ bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& mani
   html += "<section><h2 id=\"" + section_id + "\">Survival envelope: " + Escape(where) + "</h2>";
   if (table.rows.empty()) {
     html += "<p class=\"muted\">envelope.csv holds no controller.</p></section>\n";
-    return true;
+    return {};
   }
   EnvelopeChart chart;
   const auto& first = table.rows.front();
@@ -193,12 +218,13 @@ bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& mani
   html += details.Html("Envelope (envelope.csv)");
   const std::string map_path = (fs::path(folder.path) / "envelope_map.csv").string();
   std::error_code ec;
-  if (fs::is_regular_file(map_path, ec) &&
-      !AppendMaps(map_path, chart.scenario, folder, manifest, page, error)) {
-    return false;
+  if (fs::is_regular_file(map_path, ec)) {
+    if (Status maps = AppendMaps(map_path, chart.scenario, folder, manifest, page); !maps) {
+      return maps;
+    }
   }
   page->body += "</section>\n";
-  return true;
+  return {};
 }
 
 }  // namespace upright::runner::report

@@ -113,6 +113,79 @@ double AppendLegend(std::string* svg, const LinePlot& plot) {
   return y + 8;
 }
 
+// Grid, frame, ticks and their labels, and both axis titles.
+void AppendAxes(std::string* svg, const LinePlot& plot, const Axis& x, const Axis& y, double top) {
+  *svg += "<g class=\"axes\">";
+  for (const double t : x.Ticks()) {
+    AppendSvgLine(svg, x.ToPixel(t), top, x.ToPixel(t), kBottom, "class=\"grid\"");
+    AppendSvgText(svg, x.ToPixel(t), kBottom + 14, x.Label(t), "text-anchor=\"middle\"");
+  }
+  for (const double v : y.Ticks()) {
+    AppendSvgLine(svg, kLeft, y.ToPixel(v), kRight, y.ToPixel(v),
+                  std::fabs(v) < y.step * 1e-6 ? "class=\"zero\"" : "class=\"grid\"");
+    AppendSvgText(svg, kLeft - 4, y.ToPixel(v) + 4, y.Label(v), "text-anchor=\"end\"");
+  }
+  *svg += "<rect class=\"frame\" x=\"" + PixelText(kLeft) + "\" y=\"" + PixelText(top) +
+          "\" width=\"" + PixelText(kRight - kLeft) + "\" height=\"" + PixelText(kBottom - top) +
+          "\"/>";
+  AppendSvgText(svg, (kLeft + kRight) / 2, kHeight - 6, "time (s)", "text-anchor=\"middle\"");
+  *svg += "<text text-anchor=\"middle\" transform=\"translate(14 " +
+          PixelText((top + kBottom) / 2) + ") rotate(-90)\">" + Escape(plot.y_label) + "</text>";
+  *svg += "</g>";
+}
+
+// Events: dashed verticals with their tag, staggered when they crowd.
+void AppendEvents(std::string* svg, const std::vector<PlotEvent>& events, const Axis& x,
+                  double top) {
+  double last_px = -1e9;
+  int row = 0;
+  for (const PlotEvent& e : events) {
+    const double px = x.ToPixel(e.time_s);
+    row = px - last_px < 22 ? (row + 1) % 3 : 0;
+    last_px = px;
+    *svg += "<g class=\"event\"><title>" + Escape(e.label) + "</title>";
+    AppendSvgLine(svg, px, top, px, kBottom, "");
+    AppendSvgText(svg, px + 2, top + 10 + 10 * row, e.tag);
+    *svg += "</g>";
+  }
+}
+
+// Marks: a cross on the line and its text beside it, moved up (or down) a line at a time until
+// it clears the texts already placed.
+void AppendMarks(std::string* svg, const std::vector<PlotMark>& marks, const Axis& x, const Axis& y,
+                 double top) {
+  struct Box {
+    double x0, x1, y;
+  };
+  std::vector<Box> placed;
+  for (const PlotMark& m : marks) {
+    const double px = x.ToPixel(m.time_s);
+    const double py = std::isfinite(m.value) ? y.ToPixel(m.value) : kBottom;
+    const std::string colour = StyleFor(m.style).colour;
+    *svg += "<g class=\"mark\"><path d=\"M" + PixelText(px - 5) + " " + PixelText(py - 5) +
+            "l10 10m0 -10l-10 10\" stroke=\"" + colour + "\" stroke-width=\"2.2\"/>";
+    const double text_width = kCharWidth * static_cast<double>(m.text.size());
+    const bool left = px + 8 + text_width > kRight;
+    const double x0 = left ? px - 8 - text_width : px + 8;
+    const double x1 = x0 + text_width;
+    const auto clashes = [&](double ty) {
+      return std::any_of(placed.begin(), placed.end(), [&](const Box& b) {
+        return x0 < b.x1 && b.x0 < x1 && std::fabs(ty - b.y) < 12;
+      });
+    };
+    double ty = py - 7;
+    while (clashes(ty) && ty > top + 12) ty -= 12;
+    if (ty < top + 12 || clashes(ty)) {
+      ty = py + 16;
+      while (clashes(ty) && ty < kBottom - 4) ty += 12;
+    }
+    placed.push_back({x0, x1, ty});
+    AppendSvgText(svg, left ? px - 8 : px + 8, ty, m.text,
+                  left ? "text-anchor=\"end\"" : std::string_view{});
+    *svg += "</g>";
+  }
+}
+
 }  // namespace
 
 std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
@@ -139,39 +212,8 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
   const double top = AppendLegend(&svg, plot);
   const Axis x = NiceAxis(0, x_max > 0 ? x_max : 1, 8, kLeft, kRight);
   const Axis y = NiceAxis(y_lo - pad, y_hi + pad, 5, kBottom, top);
-
-  // Grid, frame, ticks and their labels.
-  svg += "<g class=\"axes\">";
-  for (const double t : x.Ticks()) {
-    AppendSvgLine(&svg, x.ToPixel(t), top, x.ToPixel(t), kBottom, "class=\"grid\"");
-    AppendSvgText(&svg, x.ToPixel(t), kBottom + 14, x.Label(t), "text-anchor=\"middle\"");
-  }
-  for (const double v : y.Ticks()) {
-    AppendSvgLine(&svg, kLeft, y.ToPixel(v), kRight, y.ToPixel(v),
-                  std::fabs(v) < y.step * 1e-6 ? "class=\"zero\"" : "class=\"grid\"");
-    AppendSvgText(&svg, kLeft - 4, y.ToPixel(v) + 4, y.Label(v), "text-anchor=\"end\"");
-  }
-  svg += "<rect class=\"frame\" x=\"" + PixelText(kLeft) + "\" y=\"" + PixelText(top) +
-         "\" width=\"" + PixelText(kRight - kLeft) + "\" height=\"" + PixelText(kBottom - top) +
-         "\"/>";
-  AppendSvgText(&svg, (kLeft + kRight) / 2, kHeight - 6, "time (s)", "text-anchor=\"middle\"");
-  svg += "<text text-anchor=\"middle\" transform=\"translate(14 " + PixelText((top + kBottom) / 2) +
-         ") rotate(-90)\">" + Escape(plot.y_label) + "</text>";
-  svg += "</g>";
-
-  // Events: dashed verticals with their tag, staggered when they crowd.
-  double last_px = -1e9;
-  int row = 0;
-  for (const PlotEvent& e : plot.events) {
-    const double px = x.ToPixel(e.time_s);
-    row = px - last_px < 22 ? (row + 1) % 3 : 0;
-    last_px = px;
-    svg += "<g class=\"event\"><title>" + Escape(e.label) + "</title>";
-    AppendSvgLine(&svg, px, top, px, kBottom, "");
-    AppendSvgText(&svg, px + 2, top + 10 + 10 * row, e.tag);
-    svg += "</g>";
-  }
-
+  AppendAxes(&svg, plot, x, y, top);
+  AppendEvents(&svg, plot.events, x, top);
   svg += "<g fill=\"none\" stroke-linejoin=\"round\">";
   for (const PlotSeries& s : plot.series) {
     const std::string d = SeriesPath(s, x, y, max_points);
@@ -179,39 +221,7 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
     svg += "<path d=\"" + d + "\" " + StrokeAttributes(s) + "/>";
   }
   svg += "</g>";
-
-  // Marks: a cross on the line and its text beside it, moved up (or down) a line at a time until
-  // it clears the texts already placed.
-  struct Box {
-    double x0, x1, y;
-  };
-  std::vector<Box> placed;
-  for (const PlotMark& m : plot.marks) {
-    const double px = x.ToPixel(m.time_s);
-    const double py = std::isfinite(m.value) ? y.ToPixel(m.value) : kBottom;
-    const std::string colour = StyleFor(m.style).colour;
-    svg += "<g class=\"mark\"><path d=\"M" + PixelText(px - 5) + " " + PixelText(py - 5) +
-           "l10 10m0 -10l-10 10\" stroke=\"" + colour + "\" stroke-width=\"2.2\"/>";
-    const double text_width = kCharWidth * static_cast<double>(m.text.size());
-    const bool left = px + 8 + text_width > kRight;
-    const double x0 = left ? px - 8 - text_width : px + 8;
-    const double x1 = x0 + text_width;
-    const auto clashes = [&](double ty) {
-      return std::any_of(placed.begin(), placed.end(), [&](const Box& b) {
-        return x0 < b.x1 && b.x0 < x1 && std::fabs(ty - b.y) < 12;
-      });
-    };
-    double ty = py - 7;
-    while (clashes(ty) && ty > top + 12) ty -= 12;
-    if (ty < top + 12 || clashes(ty)) {
-      ty = py + 16;
-      while (clashes(ty) && ty < kBottom - 4) ty += 12;
-    }
-    placed.push_back({x0, x1, ty});
-    AppendSvgText(&svg, left ? px - 8 : px + 8, ty, m.text,
-                  left ? "text-anchor=\"end\"" : std::string_view{});
-    svg += "</g>";
-  }
+  AppendMarks(&svg, plot.marks, x, y, top);
   svg += "</svg>";
   return svg;
 }

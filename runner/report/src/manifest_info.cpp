@@ -64,30 +64,24 @@ void ForEachObject(const Json& root, const char* key, Visit visit) {
 
 }  // namespace
 
-bool ReadManifest(const std::string& dir, ManifestInfo* info, std::string* error) {
-  *info = ManifestInfo{};
+Result<ManifestInfo> ReadManifest(const std::string& dir) {
+  ManifestInfo info;
   const std::string path = (std::filesystem::path(dir) / "manifest.json").string();
   std::error_code ec;
-  if (!std::filesystem::is_regular_file(path, ec)) return true;
-  std::string text;
-  if (!ReadWholeFile(path, &text, error)) return false;
-  const Result<Json> parsed = ParseJson(text, path);
-  if (!parsed) {
-    *error = parsed.error();
-    return false;
-  }
+  if (!std::filesystem::is_regular_file(path, ec)) return info;
+  const Result<std::string> text = ReadWholeFile(path);
+  if (!text) return Failure(text.error());
+  const Result<Json> parsed = ParseJson(*text, path);
+  if (!parsed) return Failure(parsed.error());
   const Json& root = *parsed;
-  if (!root.is_object()) {
-    *error = path + ":1: the manifest is not a JSON object";
-    return false;
-  }
-  info->present = true;
-  info->tool_version = StringOf(root, "tool_version");
-  info->command = StringOf(root, "command");
+  if (!root.is_object()) return Failure(path + ":1: the manifest is not a JSON object");
+  info.present = true;
+  info.tool_version = StringOf(root, "tool_version");
+  info.command = StringOf(root, "command");
   ForEachObject(root, "scenarios",
-                [&](const Json& s) { info->scenarios.push_back(ScenarioFrom(s)); });
+                [&](const Json& s) { info.scenarios.push_back(ScenarioFrom(s)); });
   if (const Json* s = Member(root, "scenario", &Json::is_object)) {
-    info->scenarios.push_back(ScenarioFrom(*s));
+    info.scenarios.push_back(ScenarioFrom(*s));
   }
   ForEachObject(root, "runs", [&](const Json& r) {
     ManifestRun run;
@@ -98,20 +92,20 @@ bool ReadManifest(const std::string& dir, ManifestInfo* info, std::string* error
       run.seed = seed->get<std::uint64_t>();
     }
     run.trace = StringOf(r, "trace");
-    info->runs.push_back(run);
+    info.runs.push_back(run);
   });
   for (const char* key : {"parameter", "parameter2"}) {
     if (const Json* p = Member(root, key, &Json::is_object)) {
-      info->parameters.push_back(ParameterFrom(*p));
+      info.parameters.push_back(ParameterFrom(*p));
     }
   }
   ForEachObject(root, "dispersions",
-                [&](const Json& d) { info->dispersions.push_back(ParameterFrom(d)); });
+                [&](const Json& d) { info.dispersions.push_back(ParameterFrom(d)); });
   if (const Json* seed = Member(root, "seed", &Json::is_number)) {
-    info->sweep_seed = NumberText(*seed);
+    info.sweep_seed = NumberText(*seed);
   }
-  if (const Json* n = Member(root, "samples", &Json::is_number)) info->samples = NumberText(*n);
-  return true;
+  if (const Json* n = Member(root, "samples", &Json::is_number)) info.samples = NumberText(*n);
+  return info;
 }
 
 }  // namespace upright::runner::report

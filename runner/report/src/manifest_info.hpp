@@ -7,6 +7,8 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner::report {
 
 struct ManifestScenario {
@@ -42,8 +44,8 @@ struct ManifestInfo {
   std::string sweep_seed, samples;             // sweep: as the manifest writes them
 };
 
-// Reads <dir>/manifest.json. A missing file gives present = false and true; a malformed one
-// false and *error ("<path>:<line>: ...").
-bool ReadManifest(const std::string& dir, ManifestInfo* info, std::string* error);
+// Reads <dir>/manifest.json. A missing file gives present = false; a malformed one fails
+// ("<path>:<line>: ...").
+Result<ManifestInfo> ReadManifest(const std::string& dir);
 
 }  // namespace upright::runner::report

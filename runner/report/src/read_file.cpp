@@ -7,20 +7,13 @@
 
 namespace upright::runner::report {
 
-bool ReadWholeFile(const std::string& path, std::string* text, std::string* error) {
+Result<std::string> ReadWholeFile(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
-  if (!in) {
-    *error = "cannot read " + path + ": " + std::strerror(errno);
-    return false;
-  }
+  if (!in) return Failure("cannot read " + path + ": " + std::strerror(errno));
   std::ostringstream bytes;
   bytes << in.rdbuf();
-  if (in.bad()) {
-    *error = "cannot read " + path + ": read error";
-    return false;
-  }
-  *text = std::move(bytes).str();
-  return true;
+  if (in.bad()) return Failure("cannot read " + path + ": read error");
+  return std::move(bytes).str();
 }
 
 }  // namespace upright::runner::report

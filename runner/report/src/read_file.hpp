@@ -3,10 +3,12 @@
 
 #include <string>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner::report {
 
-// Reads the file at `path` into *text. False and *error ("cannot read <path>: <reason>") when it
-// cannot be opened or read.
-bool ReadWholeFile(const std::string& path, std::string* text, std::string* error);
+// The bytes of the file at `path`, or "cannot read <path>: <reason>" when it cannot be opened or
+// read.
+Result<std::string> ReadWholeFile(const std::string& path);
 
 }  // namespace upright::runner::report

@@ -43,12 +43,11 @@ void Collect(const fs::path& root, const fs::path& dir, int depth,
 
 }  // namespace
 
-bool ReportOptions::IsValid(std::string* error) const {
+Status ReportOptions::Validate() const {
   if (max_points < 4) {
-    *error = "ReportOptions::max_points = " + std::to_string(max_points) + ", must be >= 4";
-    return false;
+    return Failure("ReportOptions::max_points = " + std::to_string(max_points) + ", must be >= 4");
   }
-  return true;
+  return {};
 }
 
 std::string ReportLooksFor() {
@@ -65,28 +64,49 @@ std::vector<std::string> FindResultsFolders(const std::string& dir) {
   return found;
 }
 
-ReportOutcome MakeReport(const std::string& dir, const ReportOptions& options) {
-  ReportOutcome outcome;
-  outcome.path = (fs::path(dir) / kReportFileName).string();
-  std::string error;
-  if (!options.IsValid(&error)) {
-    outcome.status = ReportStatus::kBadInput;
-    outcome.message = error;
-    return outcome;
+namespace {
+
+tl::unexpected<ReportFailure> Refused(ReportProblem problem, std::string message) {
+  return Failure(ReportFailure{problem, std::move(message)});
+}
+
+// One results folder's sections, each kind it holds, and its manifest's input files.
+Status AppendFolder(const report::ResultsFolder& folder, const ReportOptions& options,
+                    report::ReportPage* page) {
+  const Result<report::ManifestInfo> manifest = report::ReadManifest(folder.path);
+  if (!manifest) return Failure(manifest.error());
+  report::AddManifestInputs(*manifest, page);
+  if (folder.run) {
+    if (Status added = report::AppendRunSection(folder, *manifest, options, page); !added) {
+      return added;
+    }
+  }
+  if (folder.envelope) {
+    if (Status added = report::AppendEnvelopeSection(folder, *manifest, page); !added) {
+      return added;
+    }
+  }
+  if (folder.sweep) return report::AppendSweepSection(folder, *manifest, page);
+  return {};
+}
+
+}  // namespace
+
+Result<ReportWritten, ReportFailure> MakeReport(const std::string& dir,
+                                                const ReportOptions& options) {
+  if (const Status valid = options.Validate(); !valid) {
+    return Refused(ReportProblem::kBadInput, valid.error());
   }
   std::error_code ec;
   if (!fs::is_directory(dir, ec)) {
-    outcome.status = ReportStatus::kNoResults;
-    outcome.message =
-        dir + ": not a folder (expected a results folder holding " + ReportLooksFor() + ")";
-    return outcome;
+    return Refused(
+        ReportProblem::kNoResults,
+        dir + ": not a folder (expected a results folder holding " + ReportLooksFor() + ")");
   }
   const std::vector<std::string> relative = FindResultsFolders(dir);
-  outcome.folders = relative.size();
   if (relative.empty()) {
-    outcome.status = ReportStatus::kNoResults;
-    outcome.message = dir + ": no results found (looked for " + ReportLooksFor() + ")";
-    return outcome;
+    return Refused(ReportProblem::kNoResults,
+                   dir + ": no results found (looked for " + ReportLooksFor() + ")");
   }
 
   report::ReportPage page;
@@ -104,37 +124,25 @@ ReportOutcome MakeReport(const std::string& dir, const ReportOptions& options) {
     folder.run = HasFile(folder.path, "summary.csv");
     folder.envelope = HasFile(folder.path, "envelope.csv");
     folder.sweep = HasFile(folder.path, "sweep.csv");
-    report::ManifestInfo manifest;
-    bool ok = report::ReadManifest(folder.path, &manifest, &error);
-    if (ok) report::AddManifestInputs(manifest, &page);
-    if (ok && folder.run) ok = report::AppendRunSection(folder, manifest, options, &page, &error);
-    if (ok && folder.envelope) ok = report::AppendEnvelopeSection(folder, manifest, &page, &error);
-    if (ok && folder.sweep) ok = report::AppendSweepSection(folder, manifest, &page, &error);
-    if (!ok) {
-      outcome.status = ReportStatus::kBadInput;
-      outcome.message = error;
-      return outcome;
+    if (Status added = AppendFolder(folder, options, &page); !added) {
+      return Refused(ReportProblem::kBadInput, added.error());
     }
   }
+  ReportWritten written;
+  written.path = (fs::path(dir) / kReportFileName).string();
+  written.folders = relative.size();
   const std::string html = report::PageHtml(page);
-  if (!WriteFileAtomically(outcome.path, html, &error)) {
-    outcome.status = ReportStatus::kWriteFailed;
-    outcome.message = error;
-    return outcome;
+  if (Status saved = WriteFileAtomically(written.path, html); !saved) {
+    return Refused(ReportProblem::kWriteFailed, saved.error());
   }
-  outcome.status = ReportStatus::kWritten;
-  outcome.bytes = html.size();
-  return outcome;
+  written.bytes = html.size();
+  return written;
 }
 
-bool WriteReport(const std::string& dir, std::string* report_path, std::string* error) {
-  const ReportOutcome outcome = MakeReport(dir);
-  if (outcome.status != ReportStatus::kWritten) {
-    if (error != nullptr) *error = outcome.message;
-    return false;
-  }
-  if (report_path != nullptr) *report_path = outcome.path;
-  return true;
+Result<std::string> WriteReport(const std::string& dir) {
+  Result<ReportWritten, ReportFailure> made = MakeReport(dir);
+  if (!made) return Failure(std::move(made.error().message));
+  return std::move(made->path);
 }
 
 }  // namespace upright::runner

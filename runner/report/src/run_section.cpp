@@ -5,6 +5,7 @@
 #include <cstdint>
 #include <filesystem>
 #include <map>
+#include <optional>
 
 #include "bar_charts.hpp"
 #include "html_table.hpp"
@@ -25,20 +26,16 @@ namespace {
 
 namespace fs = std::filesystem;
 
-// Column indices a table must have; false and *error naming the first one missing.
-bool Columns(const CsvTable& table, const std::string& path,
-             std::initializer_list<const char*> names, std::vector<int>* columns,
-             std::string* error) {
-  columns->clear();
+// Column indices a table must have, or the first one missing.
+Result<std::vector<int>> Columns(const CsvTable& table, const std::string& path,
+                                 std::initializer_list<const char*> names) {
+  std::vector<int> columns;
   for (const char* name : names) {
     const int c = table.Column(name);
-    if (c < 0) {
-      *error = path + ":1: no column '" + name + "' in the header";
-      return false;
-    }
-    columns->push_back(c);
+    if (c < 0) return Failure(path + ":1: no column '" + name + "' in the header");
+    columns.push_back(c);
   }
-  return true;
+  return columns;
 }
 
 std::uint64_t SeedOf(const std::string& text) {
@@ -141,9 +138,10 @@ struct PlottedRuns {
 };
 
 // Seed 1 of each controller when it ran it, else its smallest seed; its trace read when the file
-// is there. False and *error when a trace file is malformed.
-bool LoadPlottedRuns(const ResultsFolder& folder, const ManifestInfo& manifest,
-                     const ScenarioRuns& scenario, PlottedRuns* plotted, std::string* error) {
+// is there. Fails when a trace file is malformed.
+Result<PlottedRuns> LoadPlottedRuns(const ResultsFolder& folder, const ManifestInfo& manifest,
+                                    const ScenarioRuns& scenario) {
+  PlottedRuns plotted;
   for (std::size_t c = 0; c < scenario.controllers.size(); ++c) {
     ControllerTrace t;
     t.controller = scenario.controllers[c];
@@ -158,19 +156,21 @@ bool LoadPlottedRuns(const ResultsFolder& folder, const ManifestInfo& manifest,
     const std::string path = TracePath(folder, manifest, *t.run);
     std::error_code ec;
     if (!fs::is_regular_file(path, ec)) {
-      if (t.run->status != "setup_failed") plotted->missing.push_back(t.controller);
-      plotted->traces.push_back(std::move(t));
+      if (t.run->status != "setup_failed") plotted.missing.push_back(t.controller);
+      plotted.traces.push_back(std::move(t));
       continue;
     }
-    if (!ReadTrace(path, &t.signals, error)) return false;
+    Result<TraceSignals> signals = ReadTrace(path);
+    if (!signals) return Failure(signals.error());
+    t.signals = std::move(*signals);
     t.loaded = !t.signals.time_s.empty();
-    std::vector<std::string>& seeds = plotted->seeds;
+    std::vector<std::string>& seeds = plotted.seeds;
     if (std::find(seeds.begin(), seeds.end(), t.run->seed_text) == seeds.end()) {
       seeds.push_back(t.run->seed_text);
     }
-    plotted->traces.push_back(std::move(t));
+    plotted.traces.push_back(std::move(t));
   }
-  return true;
+  return plotted;
 }
 
 // The scenario's events: from the trace that ran longest, since a run cut short shows only the
@@ -251,11 +251,11 @@ LinePlot SignalPlot(const Signal& signal, const std::string& scenario,
 }
 
 // The plots of one scenario: one figure per signal, every controller's first-seed trace in it.
-bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
-                 const ReportOptions& options, const ScenarioRuns& scenario, std::string* html,
-                 std::string* error) {
-  PlottedRuns plotted;
-  if (!LoadPlottedRuns(folder, manifest, scenario, &plotted, error)) return false;
+Status AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
+                   const ReportOptions& options, const ScenarioRuns& scenario, std::string* html) {
+  const Result<PlottedRuns> loaded = LoadPlottedRuns(folder, manifest, scenario);
+  if (!loaded) return Failure(loaded.error());
+  const PlottedRuns& plotted = *loaded;
   const std::vector<ControllerTrace>& traces = plotted.traces;
   const bool any =
       std::any_of(traces.begin(), traces.end(), [](const ControllerTrace& t) { return t.loaded; });
@@ -263,7 +263,7 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
     *html +=
         "<p class=\"muted\">No traces for this scenario in the folder (run with "
         "<code>--trace-rate</code> above 0 to plot them).</p>";
-    return true;
+    return {};
   }
   const std::vector<PlotEvent> events = ScenarioEvents(traces);
   double x_max = 0;
@@ -277,7 +277,7 @@ bool AppendPlots(const ResultsFolder& folder, const ManifestInfo& manifest,
                             options.max_points);
   }
   *html += "</div>";
-  return true;
+  return {};
 }
 
 HtmlCell StatusCell(const std::string& status) {
@@ -322,15 +322,14 @@ void AppendSummaryTable(const CsvTable& summary, const ScenarioRuns& scenario, s
 
 // compare.csv of one scenario as metric rows × controller columns. Each controller is compared
 // with the baseline over the seeds both survived, so a cell carries both means.
-bool AppendCompareTable(const CsvTable& compare, const std::string& path,
-                        const ScenarioRuns& scenario, std::string* html, std::string* error) {
-  std::vector<int> c;
-  if (!Columns(compare, path,
-               {"scenario", "baseline", "controller", "metric", "better_when", "baseline_mean",
-                "controller_mean", "diff_abs", "diff_pct", "direction", "verdict"},
-               &c, error)) {
-    return false;
-  }
+Status AppendCompareTable(const CsvTable& compare, const std::string& path,
+                          const ScenarioRuns& scenario, std::string* html) {
+  const Result<std::vector<int>> columns =
+      Columns(compare, path,
+              {"scenario", "baseline", "controller", "metric", "better_when", "baseline_mean",
+               "controller_mean", "diff_abs", "diff_pct", "direction", "verdict"});
+  if (!columns) return Failure(columns.error());
+  const std::vector<int>& c = *columns;
   std::vector<std::string> metrics, controllers;
   std::map<std::pair<std::string, std::string>, const std::vector<std::string>*> cell;
   std::map<std::string, std::string> better_when;
@@ -349,7 +348,7 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
     }
     cell[{metric, controller}] = &row;
   }
-  if (metrics.empty()) return true;
+  if (metrics.empty()) return {};
   std::vector<std::string> header = {"figure", "better when"};
   std::vector<bool> numeric = {false, false};
   for (const auto& name : controllers) {
@@ -399,18 +398,17 @@ bool AppendCompareTable(const CsvTable& compare, const std::string& path,
       "comparable); the difference in % of the baseline (in the figure's unit below its floor, "
       "\"abs.\"; survival in percentage points, pp). " +
       VerdictLegend() + ".");
-  return true;
+  return {};
 }
 
-bool AppendGapChart(const CsvTable& gap, const std::string& path, const ScenarioRuns& scenario,
-                    std::string* html, std::string* error) {
-  std::vector<int> c;
-  if (!Columns(gap, path,
-               {"scenario", "controller", "seed", "peak_tilt_linear_deg", "peak_tilt_plant_deg",
-                "tilt_diverge_s", "drift_diverge_s", "plant_status", "twin_message"},
-               &c, error)) {
-    return false;
-  }
+Status AppendGapChart(const CsvTable& gap, const std::string& path, const ScenarioRuns& scenario,
+                      std::string* html) {
+  const Result<std::vector<int>> columns =
+      Columns(gap, path,
+              {"scenario", "controller", "seed", "peak_tilt_linear_deg", "peak_tilt_plant_deg",
+               "tilt_diverge_s", "drift_diverge_s", "plant_status", "twin_message"});
+  if (!columns) return Failure(columns.error());
+  const std::vector<int>& c = *columns;
   std::vector<GapPair> pairs;
   for (const auto& row : gap.rows) {
     if (row[c[0]] != scenario.name) continue;
@@ -428,14 +426,14 @@ bool AppendGapChart(const CsvTable& gap, const std::string& path, const Scenario
     if (!row[c[8]].empty()) p.note += "; twin: " + row[c[8]];
     pairs.push_back(std::move(p));
   }
-  if (pairs.empty()) return true;
+  if (pairs.empty()) return {};
   *html +=
       "<h4>The linear model against physics (gap.csv)</h4><p>Peak tilt of each run on the "
       "linear model the controllers were designed on (outlined, dashed) and on the physics "
       "plant (filled); \"parts\": the first time the two differ beyond the band in "
       "gap.csv.</p>";
   *html += RenderGapBars(scenario.name, pairs);
-  return true;
+  return {};
 }
 
 void AppendRanking(const CsvTable& ranking, std::string* html) {
@@ -464,22 +462,25 @@ void AppendRanking(const CsvTable& ranking, std::string* html) {
       "scenario with the rank there");
 }
 
-bool ReadOptional(const std::string& path, CsvTable* table, bool* present, std::string* error) {
+// The table at `path`, nullopt when there is no such file.
+Result<std::optional<CsvTable>> ReadOptional(const std::string& path) {
   std::error_code ec;
-  *present = fs::is_regular_file(path, ec);
-  return !*present || ReadCsvFile(path, table, error);
+  if (!fs::is_regular_file(path, ec)) return std::optional<CsvTable>();
+  Result<CsvTable> table = ReadCsvFile(path);
+  if (!table) return Failure(table.error());
+  return std::optional<CsvTable>(std::move(*table));
 }
 
-// summary.csv's rows by name; false and *error when a required column is missing.
-bool ReadRunRows(const CsvTable& summary, const std::string& summary_path,
-                 std::vector<RunRow>* rows, std::string* error) {
-  std::vector<int> c;
-  if (!Columns(summary, summary_path, {"scenario", "controller", "seed", "status"}, &c, error)) {
-    return false;
-  }
+// summary.csv's rows by name (pointing into `summary`), or the first required column missing.
+Result<std::vector<RunRow>> ReadRunRows(const CsvTable& summary, const std::string& summary_path) {
+  const Result<std::vector<int>> columns =
+      Columns(summary, summary_path, {"scenario", "controller", "seed", "status"});
+  if (!columns) return Failure(columns.error());
+  const std::vector<int>& c = *columns;
   const int baseline_column = summary.Column("baseline");
   const int fall_column = summary.Column("fall_time_s");
-  rows->reserve(summary.rows.size());
+  std::vector<RunRow> rows;
+  rows.reserve(summary.rows.size());
   for (const auto& cells : summary.rows) {
     RunRow row;
     row.scenario = cells[c[0]];
@@ -490,9 +491,9 @@ bool ReadRunRows(const CsvTable& summary, const std::string& summary_path,
     row.baseline = baseline_column >= 0 && cells[baseline_column] == "true";
     if (fall_column >= 0) row.fall_time_s = CsvNumber(cells[fall_column]);
     row.cells = &cells;
-    rows->push_back(std::move(row));
+    rows.push_back(std::move(row));
   }
-  return true;
+  return rows;
 }
 
 // The rows grouped by scenario, scenarios and controllers in file order, seeds ascending.
@@ -521,25 +522,33 @@ std::vector<ScenarioRuns> GroupByScenario(const std::vector<RunRow>& rows) {
 
 // The tables a run folder holds beside summary.csv, each when present.
 struct RunTables {
-  CsvTable summary, compare, ranking, gap;
+  CsvTable summary;
+  std::optional<CsvTable> compare, ranking, gap;
   std::string compare_path, ranking_path, gap_path;
-  bool has_compare = false, has_ranking = false, has_gap = false;
 };
 
-bool ReadRunTables(const std::string& dir, RunTables* tables, std::string* error) {
+// Reads compare.csv, ranking.csv and gap.csv of `dir` into *tables, each when present.
+Status ReadOptionalTables(const std::string& dir, RunTables* tables) {
   tables->compare_path = (fs::path(dir) / "compare.csv").string();
   tables->ranking_path = (fs::path(dir) / "ranking.csv").string();
   tables->gap_path = (fs::path(dir) / "gap.csv").string();
-  return ReadOptional(tables->compare_path, &tables->compare, &tables->has_compare, error) &&
-         ReadOptional(tables->ranking_path, &tables->ranking, &tables->has_ranking, error) &&
-         ReadOptional(tables->gap_path, &tables->gap, &tables->has_gap, error);
+  const std::pair<const std::string*, std::optional<CsvTable>*> optional[] = {
+      {&tables->compare_path, &tables->compare},
+      {&tables->ranking_path, &tables->ranking},
+      {&tables->gap_path, &tables->gap}};
+  for (const auto& [path, table] : optional) {
+    Result<std::optional<CsvTable>> read = ReadOptional(*path);
+    if (!read) return Failure(read.error());
+    *table = std::move(*read);
+  }
+  return {};
 }
 
 // One scenario's subsection: its file, robot and seeds, the plots, every run, the comparison and
 // the gap.
-bool AppendScenario(const ResultsFolder& folder, const ManifestInfo& manifest,
-                    const ReportOptions& options, const RunTables& tables,
-                    const ScenarioRuns& scenario, ReportPage* page, std::string* error) {
+Status AppendScenario(const ResultsFolder& folder, const ManifestInfo& manifest,
+                      const ReportOptions& options, const RunTables& tables,
+                      const ScenarioRuns& scenario, ReportPage* page) {
   std::string& html = page->body;
   const std::string id = AnchorId(folder.id + "s-", scenario.name);
   page->toc.push_back({id, scenario.name, 2});
@@ -560,30 +569,37 @@ bool AppendScenario(const ResultsFolder& folder, const ManifestInfo& manifest,
   html += "controllers " + std::to_string(scenario.controllers.size()) + ", baseline " +
           Escape(scenario.baseline.empty() ? "not marked" : scenario.baseline) + " · seeds " +
           Escape(seeds) + "</p>";
-  if (!AppendPlots(folder, manifest, options, scenario, &html, error)) return false;
-  AppendSummaryTable(tables.summary, scenario, &html);
-  if (tables.has_compare &&
-      !AppendCompareTable(tables.compare, tables.compare_path, scenario, &html, error)) {
-    return false;
+  if (Status plots = AppendPlots(folder, manifest, options, scenario, &html); !plots) {
+    return plots;
   }
-  if (tables.has_gap && !AppendGapChart(tables.gap, tables.gap_path, scenario, &html, error)) {
-    return false;
+  AppendSummaryTable(tables.summary, scenario, &html);
+  if (tables.compare) {
+    Status compared = AppendCompareTable(*tables.compare, tables.compare_path, scenario, &html);
+    if (!compared) return compared;
+  }
+  if (tables.gap) {
+    if (Status gap = AppendGapChart(*tables.gap, tables.gap_path, scenario, &html); !gap) {
+      return gap;
+    }
   }
   html += "</section>";
-  return true;
+  return {};
 }
 
 }  // namespace
 
-bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
-                      const ReportOptions& options, ReportPage* page, std::string* error) {
+Status AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                        const ReportOptions& options, ReportPage* page) {
   RunTables tables;
   const std::string summary_path = (fs::path(folder.path) / "summary.csv").string();
-  if (!ReadCsvFile(summary_path, &tables.summary, error)) return false;
-  std::vector<RunRow> rows;
-  if (!ReadRunRows(tables.summary, summary_path, &rows, error)) return false;
+  Result<CsvTable> summary = ReadCsvFile(summary_path);
+  if (!summary) return Failure(summary.error());
+  tables.summary = std::move(*summary);
+  const Result<std::vector<RunRow>> read_rows = ReadRunRows(tables.summary, summary_path);
+  if (!read_rows) return Failure(read_rows.error());
+  const std::vector<RunRow>& rows = *read_rows;
   const std::vector<ScenarioRuns> scenarios = GroupByScenario(rows);
-  if (!ReadRunTables(folder.path, &tables, error)) return false;
+  if (Status read = ReadOptionalTables(folder.path, &tables); !read) return read;
 
   const std::string section_id = folder.id + "runs";
   const std::string where = folder.relative == "." ? "this folder" : folder.relative + "/";
@@ -596,18 +612,19 @@ bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
           std::to_string(rows.size()) + " run(s), " + std::to_string(survived) +
           " survived. Each scenario below: time plots, every run's figures, the comparison "
           "with the baseline" +
-          (tables.has_gap ? std::string(" and the linear twin's gap") : std::string()) + ".</p>";
+          (tables.gap ? std::string(" and the linear twin's gap") : std::string()) + ".</p>";
   if (!manifest.present) {
     html +=
         "<p class=\"muted\">No manifest.json here: the folder may be incomplete, and its "
         "input files are not listed above.</p>";
   }
-  if (tables.has_ranking) AppendRanking(tables.ranking, &html);
+  if (tables.ranking) AppendRanking(*tables.ranking, &html);
   for (const ScenarioRuns& scenario : scenarios) {
-    if (!AppendScenario(folder, manifest, options, tables, scenario, page, error)) return false;
+    Status appended = AppendScenario(folder, manifest, options, tables, scenario, page);
+    if (!appended) return appended;
   }
   html += "</section>\n";
-  return true;
+  return {};
 }
 
 }  // namespace upright::runner::report

@@ -1,6 +1,6 @@
 // The sections of the report, one per kind of results folder: a folder and its manifest in, HTML,
-// contents entries and inputs appended to the page out. False and *error ("<path>:<line>: ...")
-// when a results file cannot be read or parsed.
+// contents entries and inputs appended to the page out. Each fails ("<path>:<line>: ...") when a
+// results file cannot be read or parsed.
 #pragma once
 
 #include <string>
@@ -8,21 +8,22 @@
 #include "manifest_info.hpp"
 #include "report_page.hpp"
 #include "results_folder.hpp"
+#include "upright/base/result.hpp"
 #include "upright/runner/report.hpp"
 
 namespace upright::runner::report {
 
 // `upright run` / `demo`: the ranking, then per scenario the time plots of the first seed's
 // traces, the summary and comparison tables and the linear-vs-physics gap.
-bool AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
-                      const ReportOptions& options, ReportPage* page, std::string* error);
+Status AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                        const ReportOptions& options, ReportPage* page);
 
 // `upright envelope`: the envelope bars and, when present, the survival maps.
-bool AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& manifest,
-                           ReportPage* page, std::string* error);
+Status AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                             ReportPage* page);
 
 // `upright sweep`: survival rates with their Wilson intervals, and the spreads sampled.
-bool AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifest, ReportPage* page,
-                        std::string* error);
+Status AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                          ReportPage* page);
 
 }  // namespace upright::runner::report

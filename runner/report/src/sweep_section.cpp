@@ -13,23 +13,23 @@ namespace upright::runner::report {
 
 namespace fs = std::filesystem;
 
-bool AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifest, ReportPage* page,
-                        std::string* error) {
+Status AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                          ReportPage* page) {
   const std::string path = (fs::path(folder.path) / "sweep.csv").string();
-  CsvTable table;
-  if (!ReadCsvFile(path, &table, error)) return false;
+  const Result<CsvTable> read = ReadCsvFile(path);
+  if (!read) return Failure(read.error());
+  const CsvTable& table = *read;
   const int controller = table.Column("controller");
   const int survived = table.Column("survived");
   if (controller < 0 || survived < 0) {
-    *error = path + ":1: no column '" + std::string(controller < 0 ? "controller" : "survived") +
-             "' in the header";
-    return false;
+    return Failure(path + ":1: no column '" +
+                   std::string(controller < 0 ? "controller" : "survived") + "' in the header");
   }
   std::vector<RateBar> bars;
   for (std::size_t r = 0; r < table.rows.size(); ++r) {
     const auto& row = table.rows[r];
-    bool ok = false;
-    if (!CsvBoolAt(table, r, survived, path, &ok, error)) return false;
+    const Result<bool> ok = CsvBoolAt(table, r, survived, path);
+    if (!ok) return Failure(ok.error());
     auto it = std::find_if(bars.begin(), bars.end(),
                            [&](const RateBar& b) { return b.name == row[controller]; });
     if (it == bars.end()) {
@@ -37,7 +37,7 @@ bool AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifes
       it = bars.end() - 1;
     }
     ++it->runs;
-    it->survived += ok;
+    it->survived += *ok;
   }
   for (RateBar& bar : bars) {
     const Interval interval = WilsonInterval(bar.survived, bar.runs);
@@ -72,7 +72,7 @@ bool AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifes
     html += spreads.Html("Spreads sampled (manifest.json)");
   }
   html += "</section>\n";
-  return true;
+  return {};
 }
 
 }  // namespace upright::runner::report

@@ -6,6 +6,8 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner::report {
 
 struct TraceLabel {
@@ -26,8 +28,8 @@ struct TraceSignals {
   std::vector<TraceLabel> labels;  // the event column split at "; ", in row order
 };
 
-// Reads a trace CSV. False and *error ("<path>:<line>: ...", or "<path>: no column <name>") when
-// it cannot be read or lacks a column the plots need.
-bool ReadTrace(const std::string& path, TraceSignals* trace, std::string* error);
+// Reads a trace CSV. Fails ("<path>:<line>: ...", or "<path>: no column <name>") when it cannot be
+// read or lacks a column the plots need.
+Result<TraceSignals> ReadTrace(const std::string& path);
 
 }  // namespace upright::runner::report

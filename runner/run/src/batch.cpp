@@ -19,17 +19,16 @@ struct RunSlot {
 
 }  // namespace
 
-bool BatchOptions::IsValid(std::string* error) const {
+Status BatchOptions::Validate() const {
   std::ostringstream why;
   if (jobs < 0) {
     why << "BatchOptions::jobs = " << jobs << ", must be >= 0 (0: one per core)";
   } else if (seed_count < 0) {
     why << "BatchOptions::seed_count = " << seed_count << ", must be >= 0 (0: the files' seeds)";
   } else {
-    return run.IsValid(error);
+    return run.Validate();
   }
-  *error = why.str();
-  return false;
+  return Failure(why.str());
 }
 
 std::vector<std::uint64_t> RunSeeds(const Scenario& scenario, int seed_count) {
@@ -43,11 +42,11 @@ ScenarioInfo DescribeScenario(const Scenario& scenario, const std::vector<std::u
   ScenarioInfo info;
   info.name = scenario.name;
   info.path = scenario.path;
-  std::string ignored;  // an unreadable file leaves its hash empty in the manifest
-  info.sha256 = Sha256OfFile(scenario.path, &ignored);
+  // An unreadable file leaves its hash empty in the manifest.
+  info.sha256 = Sha256OfFile(scenario.path).value_or("");
   info.model_name = scenario.model.name;
   info.model_path = scenario.model_path;
-  info.model_sha256 = Sha256OfFile(scenario.model_path, &ignored);
+  info.model_sha256 = Sha256OfFile(scenario.model_path).value_or("");
   info.dt_s = scenario.dt_s;
   info.duration_s = scenario.duration_s;
   for (const auto& c : scenario.controllers) info.controllers.push_back(c.name);
@@ -94,9 +93,9 @@ BatchResult RunBatch(const std::vector<Scenario>& scenarios, const BatchOptions&
       [&](std::size_t i) {
         const RunSlot& slot = slots[i];
         const Scenario& scenario = scenarios[slot.scenario];
-        const LoadedModule& loaded = modules.Get(scenario.controllers[slot.controller]);
-        batch.runs[i] = RunOneSafely(scenario, slot.controller, slot.seed, loaded.module,
-                                     loaded.error, options.run);
+        batch.runs[i] =
+            RunOneSafely(scenario, slot.controller, slot.seed,
+                         modules.Get(scenario.controllers[slot.controller]), options.run);
       },
       [&] {
         ++done;

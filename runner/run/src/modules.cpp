@@ -6,14 +6,15 @@ namespace upright::runner {
 namespace {
 
 LoadedModule Load(const ControllerEntry& entry, const std::vector<std::string>& dirs) {
-  LoadedModule loaded;
+  std::string error;  // the host's lookup and loader say what is wrong here
   std::string path = entry.module;
   if (entry.builtin) {
-    path = host::FindBuiltinModule(entry.module, dirs, &loaded.error);
-    if (path.empty()) return loaded;
+    path = host::FindBuiltinModule(entry.module, dirs, &error);
+    if (path.empty()) return Failure(error);
   }
-  loaded.module = host::Module::Load(path, &loaded.error);
-  return loaded;
+  std::shared_ptr<host::Module> module = host::Module::Load(path, &error);
+  if (!module) return Failure(error);
+  return module;
 }
 
 }  // namespace

@@ -105,15 +105,14 @@ void AddLinearTwin(const Scenario& scenario, std::size_t controller,
     plan.path_x_m.push_back(timeline.path_x_m());
     plan.path_y_m.push_back(timeline.path_y_m());
   }
-  TwinRun twin;
-  std::string error;
   ModuleLogRecorder twin_log(module_log_level);
-  const bool ran = RunLinearTwin(scenario, controller, module, plan, &twin, &error, &twin_log);
+  const Result<TwinRun> ran = RunLinearTwin(scenario, controller, module, plan, &twin_log);
   result->twin_module_log = twin_log.Log();
   if (!ran) {
-    result->gap.twin_message = "not run: " + error;
+    result->gap.twin_message = "not run: " + ran.error();
     return;
   }
+  const TwinRun& twin = *ran;
   result->gap = CompareTwin(twin.series, plant);
   result->gap.not_modelled = NotModelled(scenario);
   result->gap.twin_message = twin.message;
@@ -141,12 +140,13 @@ std::function<void(int, double, std::string_view)> LogInto(ModuleLogRecorder* re
 }
 
 // Sets up the run of `controller` with `seed`, the module's messages (create's included) into
-// `log`: false and *error (the run's setup_failed message) when the module refuses its settings
-// or the plant refuses the scenario.
-bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-              const std::shared_ptr<host::Module>& module, ModuleLogRecorder* log, RunStart* start,
-              std::string* error) {
+// `log`, or says why it cannot start (the run's setup_failed message): the module refuses its
+// settings or the plant refuses the scenario.
+Result<RunStart> StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
+                          const std::shared_ptr<host::Module>& module, ModuleLogRecorder* log) {
   const ControllerEntry& entry = scenario.controllers.at(controller);
+  std::string error;  // the host and the plant say what is wrong here
+  RunStart start;
   // The controller first: the plant's drive mode is the module's.
   host::ControllerSpec spec;
   spec.module = module;
@@ -154,34 +154,229 @@ bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t se
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
   spec.log = LogInto(log);
-  start->host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
-  if (!start->host) return false;
+  start.host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
+  if (!start.host) return Failure(error);
 
   sim::PlantOptions plant_options;
   plant_options.dt_s = scenario.dt_s;
   plant_options.solver_iterations = scenario.solver_iterations;
   plant_options.terrain = scenario.terrain;
   plant_options.initial = scenario.initial;
-  plant_options.drive = start->host->drive();
+  plant_options.drive = start.host->drive();
   plant_options.seed = seed;
   plant_options.sensor_noise = scenario.sensor_noise;
-  start->plant = sim::Plant::Create(scenario.built_model(), plant_options, error);
-  if (!start->plant) return false;
+  start.plant = sim::Plant::Create(scenario.built_model(), plant_options, &error);
+  if (!start.plant) return Failure(error);
   for (const auto& p : scenario.pushes) {
-    if (!start->plant->AddPush(p, error)) return false;
+    if (!start.plant->AddPush(p, &error)) return Failure(error);
   }
   for (const auto& f : scenario.motor_faults) {
-    if (!start->plant->AddMotorFault(f, error)) return false;
+    if (!start.plant->AddMotorFault(f, &error)) return Failure(error);
   }
   for (const auto& f : scenario.sensor_faults) {
-    if (!start->plant->AddSensorFault(f, error)) return false;
+    if (!start.plant->AddSensorFault(f, &error)) return Failure(error);
   }
-  return true;
+  return start;
+}
+
+// A run in progress: the plant and host it steps, the timeline that drives them, the recorder of
+// its figures, and what it is judged by — all set up before the first step.
+struct RunLoop {
+  RunLoop(const Scenario& run_scenario, const RunOptions& run_options, sim::Plant& run_plant,
+          host::ControllerHost& run_host);
+
+  // The commanded path's distance from the axle now, m.
+  double Drift() const {
+    const sim::TrueState& s = plant.truth();
+    const double dx = s.x_m - timeline.path_x_m(), dy = s.y_m - timeline.path_y_m();
+    return std::sqrt(dx * dx + dy * dy);  // metres: no overflow for hypot to guard against
+  }
+
+  const Scenario& scenario;
+  const RunOptions& options;
+  sim::Plant& plant;
+  host::ControllerHost& host;
+  internal::Timeline timeline;
+  MetricRecorder recorder;
+  double dt_s;
+  long total_steps;
+  double equilibrium_pitch_rad;
+  // The limit on the module's command, of its kind: the supply voltage, or the stall torque at
+  // the wheel — on the robot the module is given (its nominal one, not one a sweep or envelope
+  // changed), the limit the built-in controllers clamp at (design::InputLimit).
+  double command_limit;
+  double fall_tilt_rad;
+  bool drives_payload;
+  long trace_every = 0;  // trace rows every this many steps; 0: no trace
+  // The linear twin compares against tilt and drift at every step (options.linear_twin).
+  TiltDriftSeries plant_series;
+  // Early settling (envelope probes): from when on a quiet robot has nothing more coming to it,
+  // and for how many steps it must stay quiet.
+  double quiet_from_s;
+  long hold_steps;
+  double tilt_band_rad;
+};
+
+RunLoop::RunLoop(const Scenario& run_scenario, const RunOptions& run_options, sim::Plant& run_plant,
+                 host::ControllerHost& run_host)
+    : scenario(run_scenario),
+      options(run_options),
+      plant(run_plant),
+      host(run_host),
+      timeline(run_scenario),
+      recorder(run_scenario.metrics, run_scenario.dt_s, run_scenario.duration_s,
+               internal::Timeline::DisturbanceStarts(run_scenario)),
+      dt_s(run_scenario.dt_s),
+      total_steps(std::lround(run_scenario.duration_s / run_scenario.dt_s)),
+      equilibrium_pitch_rad(
+          design::Linearise(run_scenario.built_model(), design::InputKind::kTorque)
+              .equilibrium_pitch_rad),
+      command_limit(
+          design::InputLimit(run_scenario.model, run_host.drive() == sim::DriveMode::kVoltage
+                                                     ? design::InputKind::kVoltage
+                                                     : design::InputKind::kTorque)),
+      fall_tilt_rad(run_scenario.metrics.fall_tilt_deg / kDeg),
+      drives_payload(run_scenario.built_model().payload.present &&
+                     !run_scenario.payload_shifts.empty()),
+      quiet_from_s(run_options.stop_when_settled ? internal::Timeline::QuietFrom(run_scenario)
+                                                 : std::numeric_limits<double>::infinity()),
+      hold_steps(std::max(1L, std::lround(run_options.settle_hold_s / run_scenario.dt_s))),
+      tilt_band_rad(run_scenario.metrics.tilt_band_deg / kDeg) {}
+
+// The storage the steps fill, reserved before the first: the trace (its rate, marks and first
+// row) and the linear twin's comparison series.
+void ReserveRecords(RunLoop& run, Trace* trace) {
+  if (run.options.trace_rate_hz > 0) {
+    run.trace_every = std::max(1L, std::lround(1.0 / (run.options.trace_rate_hz * run.dt_s)));
+    trace->rate_hz = 1.0 / (static_cast<double>(run.trace_every) * run.dt_s);
+    trace->rows.reserve(static_cast<std::size_t>(run.total_steps / run.trace_every + 2));
+    trace->marks = internal::Timeline::Marks(run.scenario);
+    trace->rows.push_back(Row(run.plant, run.host, run.timeline, 0));
+  }
+  if (run.options.linear_twin) {
+    run.plant_series.dt_s = run.dt_s;
+    run.plant_series.Reserve(static_cast<std::size_t>(run.total_steps + 1));
+    run.plant_series.Add(run.plant.truth().pitch_rad - run.equilibrium_pitch_rad, 0);
+  }
+}
+
+// How the steps ended, with what the run's message needs; the message itself is written after
+// the loop, which formats no text.
+struct LoopEnd {
+  enum class Why { kRanToTheEnd, kControllerFault, kDiverged, kOnGround, kTiltedOver, kSettled };
+  Why why = Why::kRanToTheEnd;
+  double time_s = 0;    // the plant's time when it ended
+  double tilt_rad = 0;  // kTiltedOver: the tilt beyond the limit
+};
+
+// The step loop: timeline, controller tick, physics step, then the figures, the trace row and the
+// verdicts (a fault, non-finite physics, a fall, a robot settled early), until the scenario's
+// duration. The hot path: no allocation (every store reserved up front), no logging, no text.
+LoopEnd StepUntilDecided(RunLoop& run, Trace* trace) {
+  sim::Plant& plant = run.plant;
+  const double rate_band_rad_s = 5 / kDeg;
+  long quiet_steps = 0;
+  for (long step = 0; step < run.total_steps; ++step) {
+    run.timeline.Advance(step);
+    if (run.drives_payload) {
+      plant.SetPayloadTarget(run.timeline.payload_target_m());
+    }
+    if (!run.host.Tick(plant, run.timeline.reference())) {
+      return {LoopEnd::Why::kControllerFault, plant.time_s()};
+    }
+    plant.Step();
+    run.timeline.Integrate(run.dt_s);
+    if (plant.diverged()) return {LoopEnd::Why::kDiverged, plant.time_s()};
+    const double drift_m = run.Drift();
+    const double tilt_rad = plant.truth().pitch_rad - run.equilibrium_pitch_rad;
+    run.recorder.Add(Sample(plant, run.host, run.command_limit, tilt_rad, drift_m));
+    if (run.options.linear_twin) run.plant_series.Add(tilt_rad, drift_m);
+    if (run.trace_every > 0 && plant.step_count() % run.trace_every == 0) {
+      trace->rows.push_back(Row(plant, run.host, run.timeline, drift_m));
+    }
+    if (plant.contact().chassis_on_ground) return {LoopEnd::Why::kOnGround, plant.time_s()};
+    if (std::abs(tilt_rad) > run.fall_tilt_rad) {
+      return {LoopEnd::Why::kTiltedOver, plant.time_s(), tilt_rad};
+    }
+    if (plant.time_s() >= run.quiet_from_s) {
+      const sim::TrueState& s = plant.truth();
+      const bool quiet = std::abs(tilt_rad) <= run.tilt_band_rad &&
+                         std::abs(s.pitch_rate_rad_s) <= rate_band_rad_s &&
+                         std::abs(s.forward_speed_m_s) < 0.05;
+      quiet_steps = quiet ? quiet_steps + 1 : 0;
+      if (quiet_steps >= run.hold_steps) return {LoopEnd::Why::kSettled, plant.time_s()};
+    }
+  }
+  return {LoopEnd::Why::kRanToTheEnd, plant.time_s()};
+}
+
+RunStatus StatusOf(const LoopEnd& end) {
+  switch (end.why) {
+    case LoopEnd::Why::kControllerFault:
+      return RunStatus::kControllerFault;
+    case LoopEnd::Why::kDiverged:
+      return RunStatus::kNumericFailure;
+    case LoopEnd::Why::kOnGround:
+    case LoopEnd::Why::kTiltedOver:
+      return RunStatus::kFell;
+    case LoopEnd::Why::kSettled:
+    case LoopEnd::Why::kRanToTheEnd:
+      break;
+  }
+  return RunStatus::kOk;
+}
+
+// The run's one-line message: why it fell or faulted, or how it survived.
+std::string EndMessage(const LoopEnd& end, const host::ControllerHost& host) {
+  switch (end.why) {
+    case LoopEnd::Why::kControllerFault:
+      return host.fault();
+    case LoopEnd::Why::kDiverged:
+      return "the physics state became non-finite at t = " + FixedText(end.time_s, 3) + " s";
+    case LoopEnd::Why::kOnGround:
+      return "fell at t = " + FixedText(end.time_s, 3) + " s: the chassis touched the ground";
+    case LoopEnd::Why::kTiltedOver:
+      return "fell at t = " + FixedText(end.time_s, 3) + " s: tilt " +
+             FixedText(end.tilt_rad * kDeg, 1) + " deg beyond the limit";
+    case LoopEnd::Why::kSettled:
+      return "settled by t = " + FixedText(end.time_s, 3) + " s; stopped early";
+    case LoopEnd::Why::kRanToTheEnd:
+      break;
+  }
+  return "survived";
+}
+
+// After the steps: the trace's last row and the mark where a run cut short ended, the linear twin
+// (options.linear_twin), and the run's figures with its status and message.
+void FinishRun(RunLoop& run, const LoopEnd& end, std::size_t controller,
+               const std::shared_ptr<host::Module>& module, RunResult* result) {
+  const RunStatus status = StatusOf(end);
+  Trace& trace = result->trace;
+  // The trace ends where the run ended, on the trace rate's grid or not, so that what happened
+  // last (a fall, a fault) has its row.
+  if (run.trace_every > 0 && trace.rows.back().time_s < run.plant.time_s()) {
+    trace.rows.push_back(Row(run.plant, run.host, run.timeline, run.Drift()));
+  }
+  if (run.trace_every > 0 && status != RunStatus::kOk) {
+    // The end of a run cut short, among the event marks in time order.
+    const double end_s =
+        status == RunStatus::kControllerFault ? run.host.fault_time_s() : run.plant.time_s();
+    auto& marks = trace.marks;
+    const auto at = std::upper_bound(marks.begin(), marks.end(), end_s,
+                                     [](double t, const EventMark& m) { return t < m.time_s; });
+    marks.insert(at, {end_s, ToString(status)});
+  }
+  result->steps = run.plant.step_count();
+  if (run.options.linear_twin) {
+    AddLinearTwin(run.scenario, controller, module, run.plant_series, run.total_steps,
+                  run.options.module_log_level, result);
+  }
+  result->metrics = run.recorder.Finish(status, EndMessage(end, run.host));
 }
 
 }  // namespace
 
-bool RunOptions::IsValid(std::string* error) const {
+Status RunOptions::Validate() const {
   std::ostringstream why;
   if (!(trace_rate_hz >= 0) || !std::isfinite(trace_rate_hz)) {
     why << "RunOptions::trace_rate_hz = " << trace_rate_hz << ", must be >= 0 and finite";
@@ -191,15 +386,13 @@ bool RunOptions::IsValid(std::string* error) const {
     why << "RunOptions::module_log_level = " << static_cast<int>(module_log_level)
         << ", must be a LogLevel";
   } else {
-    return true;
+    return {};
   }
-  *error = why.str();
-  return false;
+  return Failure(why.str());
 }
 
 RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                 const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                 const RunOptions& options) {
+                 const LoadedModule& module, const RunOptions& options) {
   const auto wall_start = std::chrono::steady_clock::now();
   RunResult result;
   result.scenario = scenario.name;
@@ -216,146 +409,30 @@ RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t
         std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
     return result;
   };
-  std::string error;
-  if (!options.IsValid(&error)) return finish(RunStatus::kSetupFailed, error);
-  if (!module) return finish(RunStatus::kSetupFailed, load_error);
+  if (const Status valid = options.Validate(); !valid) {
+    return finish(RunStatus::kSetupFailed, valid.error());
+  }
+  if (!module) return finish(RunStatus::kSetupFailed, module.error());
 
-  RunStart start;
-  if (!StartRun(scenario, controller, seed, module, &module_log, &start, &error)) {
-    return finish(RunStatus::kSetupFailed, error);
-  }
-  const std::unique_ptr<host::ControllerHost>& host = start.host;
-  const std::unique_ptr<sim::Plant>& plant = start.plant;
-
-  const double equilibrium_pitch_rad =
-      design::Linearise(scenario.built_model(), design::InputKind::kTorque).equilibrium_pitch_rad;
-  // The limit on the module's command, of its kind: the supply voltage, or the stall torque at
-  // the wheel — on the robot the module is given (its nominal one, not one a sweep or envelope
-  // changed), the limit the built-in controllers clamp at (design::InputLimit).
-  const double command_limit = design::InputLimit(
-      scenario.model, host->drive() == sim::DriveMode::kVoltage ? design::InputKind::kVoltage
-                                                                : design::InputKind::kTorque);
-  const double fall_tilt_rad = scenario.metrics.fall_tilt_deg / kDeg;
-  const double dt_s = scenario.dt_s;
-  const long total_steps = std::lround(scenario.duration_s / dt_s);
-  MetricRecorder recorder(scenario.metrics, dt_s, scenario.duration_s,
-                          internal::Timeline::DisturbanceStarts(scenario));
-  internal::Timeline timeline(scenario);
-
-  // Trace rows every `trace_every` steps, the storage reserved up front.
-  long trace_every = 0;
-  if (options.trace_rate_hz > 0) {
-    trace_every = std::max(1L, std::lround(1.0 / (options.trace_rate_hz * dt_s)));
-    result.trace.rate_hz = 1.0 / (static_cast<double>(trace_every) * dt_s);
-    result.trace.rows.reserve(static_cast<std::size_t>(total_steps / trace_every + 2));
-    result.trace.marks = internal::Timeline::Marks(scenario);
-  }
-  const auto drift = [&] {
-    const sim::TrueState& s = plant->truth();
-    const double dx = s.x_m - timeline.path_x_m(), dy = s.y_m - timeline.path_y_m();
-    return std::sqrt(dx * dx + dy * dy);  // metres: no overflow for hypot to guard against
-  };
-  if (trace_every > 0) result.trace.rows.push_back(Row(*plant, *host, timeline, 0));
-  // The linear twin compares against tilt and drift at every step, the storage reserved here.
-  TiltDriftSeries plant_series;
-  if (options.linear_twin) {
-    plant_series.dt_s = dt_s;
-    plant_series.Reserve(static_cast<std::size_t>(total_steps + 1));
-    plant_series.Add(plant->truth().pitch_rad - equilibrium_pitch_rad, 0);
-  }
-
-  // Early settling (envelope probes): from when on a quiet robot has nothing more coming to it.
-  const double quiet_from_s = options.stop_when_settled ? internal::Timeline::QuietFrom(scenario)
-                                                        : std::numeric_limits<double>::infinity();
-  const long hold_steps = std::max(1L, std::lround(options.settle_hold_s / dt_s));
-  const double tilt_band_rad = scenario.metrics.tilt_band_deg / kDeg;
-  const double rate_band_rad_s = 5 / kDeg;
-  long quiet_steps = 0;
-
-  RunStatus status = RunStatus::kOk;
-  std::string message;
-  const bool drives_payload =
-      scenario.built_model().payload.present && !scenario.payload_shifts.empty();
-  for (long step = 0; step < total_steps; ++step) {
-    timeline.Advance(step);
-    if (drives_payload) {
-      plant->SetPayloadTarget(timeline.payload_target_m());
-    }
-    if (!host->Tick(*plant, timeline.reference())) {
-      status = RunStatus::kControllerFault;
-      message = host->fault();
-      break;
-    }
-    plant->Step();
-    timeline.Integrate(dt_s);
-    if (plant->diverged()) {
-      status = RunStatus::kNumericFailure;
-      message =
-          "the physics state became non-finite at t = " + FixedText(plant->time_s(), 3) + " s";
-      break;
-    }
-    const double drift_m = drift();
-    const double tilt_rad = plant->truth().pitch_rad - equilibrium_pitch_rad;
-    recorder.Add(Sample(*plant, *host, command_limit, tilt_rad, drift_m));
-    if (options.linear_twin) plant_series.Add(tilt_rad, drift_m);
-    if (trace_every > 0 && plant->step_count() % trace_every == 0) {
-      result.trace.rows.push_back(Row(*plant, *host, timeline, drift_m));
-    }
-    const bool on_ground = plant->contact().chassis_on_ground;
-    if (on_ground || std::abs(tilt_rad) > fall_tilt_rad) {
-      status = RunStatus::kFell;
-      message = "fell at t = " + FixedText(plant->time_s(), 3) + " s: " +
-                (on_ground ? "the chassis touched the ground"
-                           : "tilt " + FixedText(tilt_rad * kDeg, 1) + " deg beyond the limit");
-      break;
-    }
-    if (plant->time_s() >= quiet_from_s) {
-      const sim::TrueState& s = plant->truth();
-      const bool quiet = std::abs(tilt_rad) <= tilt_band_rad &&
-                         std::abs(s.pitch_rate_rad_s) <= rate_band_rad_s &&
-                         std::abs(s.forward_speed_m_s) < 0.05;
-      quiet_steps = quiet ? quiet_steps + 1 : 0;
-      if (quiet_steps >= hold_steps) {
-        message = "settled by t = " + FixedText(plant->time_s(), 3) + " s; stopped early";
-        break;
-      }
-    }
-  }
-  if (status == RunStatus::kOk && message.empty()) message = "survived";
-  // The trace ends where the run ended, on the trace rate's grid or not, so that what happened
-  // last (a fall, a fault) has its row.
-  if (trace_every > 0 && result.trace.rows.back().time_s < plant->time_s()) {
-    result.trace.rows.push_back(Row(*plant, *host, timeline, drift()));
-  }
-  if (trace_every > 0 && status != RunStatus::kOk) {
-    // The end of a run cut short, among the event marks in time order.
-    const double end_s =
-        status == RunStatus::kControllerFault ? host->fault_time_s() : plant->time_s();
-    auto& marks = result.trace.marks;
-    const auto at = std::upper_bound(marks.begin(), marks.end(), end_s,
-                                     [](double t, const EventMark& m) { return t < m.time_s; });
-    marks.insert(at, {end_s, ToString(status)});
-  }
-  result.steps = plant->step_count();
-  if (options.linear_twin) {
-    AddLinearTwin(scenario, controller, module, plant_series, total_steps, options.module_log_level,
-                  &result);
-  }
-  result.metrics = recorder.Finish(status, message);
+  Result<RunStart> started = StartRun(scenario, controller, seed, *module, &module_log);
+  if (!started) return finish(RunStatus::kSetupFailed, started.error());
+  RunLoop run(scenario, options, *started->plant, *started->host);
+  ReserveRecords(run, &result.trace);
+  const LoopEnd end = StepUntilDecided(run, &result.trace);
+  FinishRun(run, end, controller, *module, &result);
   const RunMetrics metrics = result.metrics;
   return finish(metrics.status, metrics.message);
 }
 
-std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
-                            const std::shared_ptr<host::Module>& module, ModuleLog* module_log,
-                            LogLevel module_log_level) {
-  ModuleLogRecorder log(module_log_level);  // outlives the host in `start`
-  RunStart start;
-  std::string error;
+Status CheckRunStart(const Scenario& scenario, std::size_t controller,
+                     const std::shared_ptr<host::Module>& module, ModuleLog* module_log,
+                     LogLevel module_log_level) {
+  ModuleLogRecorder log(module_log_level);  // outlives the host in `started`
   const std::uint64_t seed = scenario.seeds.empty() ? 1 : scenario.seeds.front();
-  const bool started = StartRun(scenario, controller, seed, module, &log, &start, &error);
+  const Result<RunStart> started = StartRun(scenario, controller, seed, module, &log);
   if (module_log) *module_log = log.Log();
-  return started ? "" : error;
+  if (!started) return Failure(started.error());
+  return {};
 }
 
 RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
@@ -371,10 +448,9 @@ RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::
 }
 
 RunResult RunOneSafely(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                       const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                       const RunOptions& options) {
+                       const LoadedModule& module, const RunOptions& options) {
   try {
-    return RunOne(scenario, controller, seed, module, load_error, options);
+    return RunOne(scenario, controller, seed, module, options);
   } catch (const std::exception& e) {
     return SetupFailedRun(scenario, controller, seed,
                           std::string("the run stopped on an error: ") + e.what());

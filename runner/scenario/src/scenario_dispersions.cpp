@@ -82,24 +82,25 @@ std::optional<Dispersion> ReadSpread(XmlElement spread, const ReadContext& conte
   }
 
   if (param && check_against_scenario) {
-    std::string error;
-    if (!GetScenarioParameter(scenario, d.param, &d.nominal, &error)) {
-      context.FieldError(spread, "param", Quote(d.param), error);
+    const Result<double> nominal = GetScenarioParameter(scenario, d.param);
+    if (!nominal) {
+      context.FieldError(spread, "param", Quote(d.param), nominal.error());
       return std::nullopt;
     }
+    d.nominal = *nominal;
     if (!mean_given) d.mean = d.nominal;
     if (!ok) return std::nullopt;
     // The centre of the spread must be a value the parameter takes, or most draws would be
     // redrawn and the sweep would not sample what the file says.
     const double centre = d.kind == SpreadKind::kNormal ? d.mean : 0.5 * (d.lo + d.hi);
     Scenario trial = scenario;
-    if (!SetScenarioParameter(&trial, d.param, centre, &error)) {
+    if (const Status set = SetScenarioParameter(&trial, d.param, centre); !set) {
       if (d.kind == SpreadKind::kNormal) {
         context.FieldError(spread, "mean", Num(d.mean),
-                           "not a value the parameter takes (" + error + ")");
+                           "not a value the parameter takes (" + set.error() + ")");
       } else {
         context.FieldError(spread, "lo", Num(d.lo) + ", hi = " + Num(d.hi),
-                           "the midpoint is not a value the parameter takes (" + error + ")");
+                           "the midpoint is not a value the parameter takes (" + set.error() + ")");
       }
       return std::nullopt;
     }

@@ -219,8 +219,8 @@ void ReadMetrics(XmlElement& root, const ReadContext& context, Scenario* scenari
   m.drift_band_m = internal::OptionalNumber(*metrics, "drift_band_m", m.drift_band_m, &ok);
   m.window_s = internal::OptionalNumber(*metrics, "window_s", m.window_s, &ok);
   m.slip_threshold = internal::OptionalNumber(*metrics, "slip_threshold", m.slip_threshold, &ok);
-  std::string error;
-  if (ok && !m.IsValid(&error)) context.Error(*metrics, error);
+  if (!ok) return;
+  if (const Status valid = m.Validate(); !valid) context.Error(*metrics, valid.error());
 }
 
 // The plant needs the robot's control and IMU periods to be whole numbers of physics steps (an
@@ -249,24 +249,18 @@ void CheckRobotRates(XmlElement& root, const ReadContext& context) {
 }
 
 ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::string& base_dir) {
-  ScenarioLoadResult result;
-  if (!doc.parsed()) {
-    result.errors = doc.errors();
-    return result;
-  }
+  if (!doc.parsed()) return Failure(doc.errors());
   XmlElement root = doc.Root();
   if (root.name() != "scenario") {
     doc.AddError(root.line(), "root element is <" + root.name() + ">, expected <scenario>");
-    result.errors = doc.errors();
-    return result;
+    return Failure(doc.errors());
   }
   const std::optional<long long> schema = root.Integer("schema", Presence::kRequired);
   if (schema && *schema != kSchemaVersion) {
     doc.AddError(root.line(), "scenario schema = " + std::to_string(*schema) +
                                   ": unsupported schema version (supported: " +
                                   std::to_string(kSchemaVersion) + ")");
-    result.errors = doc.errors();
-    return result;
+    return Failure(doc.errors());
   }
 
   Scenario scenario;
@@ -294,10 +288,10 @@ ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::str
   internal::ReadDispersions(root, context, &scenario);  // last: it needs the whole scenario
   doc.ReportUnread();
 
-  result.errors = doc.errors();
-  result.errors.insert(result.errors.end(), model_errors.begin(), model_errors.end());
-  if (result.ok()) result.scenario = std::move(scenario);
-  return result;
+  std::vector<FileError> errors = doc.errors();
+  errors.insert(errors.end(), model_errors.begin(), model_errors.end());
+  if (!errors.empty()) return Failure(std::move(errors));
+  return scenario;
 }
 
 }  // namespace

@@ -24,14 +24,14 @@ struct Path {
   std::string attribute;  // "peak_N"
 };
 
-bool ParsePath(const std::string& text, Path* path, std::string* error) {
+Result<Path> ParsePath(const std::string& text) {
   const auto dot = text.rfind('.');
   if (dot == std::string::npos || dot == 0 || dot + 1 == text.size()) {
-    *error = "parameter '" + text + "': expected element path '.' attribute, as in " +
-             "timeline/push[1].peak_N";
-    return false;
+    return Failure("parameter '" + text + "': expected element path '.' attribute, as in " +
+                   "timeline/push[1].peak_N");
   }
-  path->attribute = text.substr(dot + 1);
+  Path path;
+  path.attribute = text.substr(dot + 1);
   std::string element = text.substr(0, dot);
   const auto open = element.find('[');
   if (open != std::string::npos) {
@@ -40,14 +40,13 @@ bool ParsePath(const std::string& text, Path* path, std::string* error) {
     if (close != element.size() - 1 || digits.empty() ||
         !std::all_of(digits.begin(), digits.end(), [](char c) { return c >= '0' && c <= '9'; }) ||
         std::stoul(digits) == 0) {
-      *error = "parameter '" + text + "': an index is [1], [2], ... after the last element";
-      return false;
+      return Failure("parameter '" + text + "': an index is [1], [2], ... after the last element");
     }
-    path->index = std::stoul(digits);
+    path.index = std::stoul(digits);
     element = element.substr(0, open);
   }
-  path->element = element;
-  return true;
+  path.element = element;
+  return path;
 }
 
 // A number inside the scenario: where it lives, how the file's unit converts to SI.
@@ -59,38 +58,33 @@ struct Slot {
 // A value as messages print it: exactly, so a value just past a limit never reads as on it.
 std::string Num(double value) { return WholeOrShortestText(value); }
 
-// The element list a timeline path names, with its size, or nullptr.
+// The element of the list a timeline path names, or why the list is too short for its index.
 template <typename T>
-T* Pick(std::vector<T>& list, const Path& path, std::string* error) {
+Result<T*> Pick(std::vector<T>& list, const Path& path) {
   const std::size_t i = path.index == 0 ? 1 : path.index;
   if (i > list.size()) {
     const std::string name = path.element.substr(path.element.rfind('/') + 1);
     std::ostringstream why;
     why << path.element << "[" << i << "]." << path.attribute << ": the scenario has "
         << list.size() << " <" << name << "> element" << (list.size() == 1 ? "" : "s");
-    *error = why.str();
-    return nullptr;
+    return Failure(why.str());
   }
   return &list[i - 1];
 }
 
-bool Unknown(const Path& path, const std::string& choices, std::string* error) {
-  *error = "no parameter " + path.element + "." + path.attribute + " (" + choices + ")";
-  return false;
+tl::unexpected<std::string> Unknown(const Path& path, const std::string& choices) {
+  return Failure("no parameter " + path.element + "." + path.attribute + " (" + choices + ")");
 }
 
 // Finds the slot for a scenario (not robot) path.
-bool FindSlot(Scenario& s, const Path& p, Slot* slot, std::string* error) {
+Result<Slot> FindSlot(Scenario& s, const Path& p) {
   const std::string& a = p.attribute;
   const auto choose = [&](std::initializer_list<std::pair<const char*, Slot>> slots,
-                          const std::string& list) {
+                          const std::string& list) -> Result<Slot> {
     for (const auto& [name, candidate] : slots) {
-      if (a == name) {
-        *slot = candidate;
-        return true;
-      }
+      if (a == name) return candidate;
     }
-    return Unknown(p, list, error);
+    return Unknown(p, list);
   };
   if (p.element == "start") {
     return choose({{"x_m", {&s.initial.x_m}},
@@ -100,69 +94,70 @@ bool FindSlot(Scenario& s, const Path& p, Slot* slot, std::string* error) {
   }
   if (p.element == "ground") {
     if (s.terrain.kind != sim::TerrainKind::kSlope || a != "slope_deg") {
-      return Unknown(p, "ground: slope_deg, on a slope", error);
+      return Unknown(p, "ground: slope_deg, on a slope");
     }
-    *slot = {&s.terrain.slope_deg};
-    return true;
+    return Slot{&s.terrain.slope_deg};
   }
   if (p.element == "ground/friction") {
-    auto* r = Pick(s.terrain.friction_regions, p, error);
-    return r && choose({{"friction", {&r->friction}},
-                        {"start_x_m", {&r->start_x_m}},
-                        {"end_x_m", {&r->end_x_m}}},
-                       "ground/friction: friction, start_x_m, end_x_m");
+    return Pick(s.terrain.friction_regions, p).and_then([&](auto* r) {
+      return choose({{"friction", {&r->friction}},
+                     {"start_x_m", {&r->start_x_m}},
+                     {"end_x_m", {&r->end_x_m}}},
+                    "ground/friction: friction, start_x_m, end_x_m");
+    });
   }
   if (p.element == "timeline/push") {
-    auto* e = Pick(s.pushes, p, error);
-    return e && choose({{"at_s", {&e->start_s}},
-                        {"peak_N", {&e->peak_N}},
-                        {"duration_s", {&e->duration_s}},
-                        {"height_m", {&e->height_m}},
-                        {"direction_deg", {&e->direction_deg}}},
-                       "timeline/push: at_s, peak_N, duration_s, height_m, direction_deg");
+    return Pick(s.pushes, p).and_then([&](auto* e) {
+      return choose({{"at_s", {&e->start_s}},
+                     {"peak_N", {&e->peak_N}},
+                     {"duration_s", {&e->duration_s}},
+                     {"height_m", {&e->height_m}},
+                     {"direction_deg", {&e->direction_deg}}},
+                    "timeline/push: at_s, peak_N, duration_s, height_m, direction_deg");
+    });
   }
   if (p.element == "timeline/payload_shift") {
-    auto* e = Pick(s.payload_shifts, p, error);
-    return e && choose({{"at_s", {&e->start_s}},
-                        {"distance_m", {&e->distance_m}},
-                        {"duration_s", {&e->duration_s}}},
-                       "timeline/payload_shift: at_s, distance_m, duration_s");
+    return Pick(s.payload_shifts, p).and_then([&](auto* e) {
+      return choose({{"at_s", {&e->start_s}},
+                     {"distance_m", {&e->distance_m}},
+                     {"duration_s", {&e->duration_s}}},
+                    "timeline/payload_shift: at_s, distance_m, duration_s");
+    });
   }
   if (p.element == "timeline/drive") {
-    auto* e = Pick(s.drives, p, error);
-    return e && choose({{"at_s", {&e->start_s}},
-                        {"speed_m_s", {&e->speed_m_s}},
-                        {"yaw_rate_deg_s", {&e->yaw_rate_rad_s, kDeg}},
-                        {"ramp_s", {&e->ramp_s}}},
-                       "timeline/drive: at_s, speed_m_s, yaw_rate_deg_s, ramp_s");
+    return Pick(s.drives, p).and_then([&](auto* e) {
+      return choose({{"at_s", {&e->start_s}},
+                     {"speed_m_s", {&e->speed_m_s}},
+                     {"yaw_rate_deg_s", {&e->yaw_rate_rad_s, kDeg}},
+                     {"ramp_s", {&e->ramp_s}}},
+                    "timeline/drive: at_s, speed_m_s, yaw_rate_deg_s, ramp_s");
+    });
   }
   if (p.element == "timeline/motor_fault") {
-    auto* e = Pick(s.motor_faults, p, error);
-    return e && choose({{"at_s", {&e->start_s}}, {"torque_scale", {&e->torque_scale}}},
-                       "timeline/motor_fault: at_s, torque_scale");
+    return Pick(s.motor_faults, p).and_then([&](auto* e) {
+      return choose({{"at_s", {&e->start_s}}, {"torque_scale", {&e->torque_scale}}},
+                    "timeline/motor_fault: at_s, torque_scale");
+    });
   }
   if (p.element == "timeline/sensor_fault") {
-    auto* e = Pick(s.sensor_faults, p, error);
-    return e &&
-           choose(
-               {{"at_s", {&e->start_s}}, {"value", {&e->value}}, {"duration_s", {&e->duration_s}}},
-               "timeline/sensor_fault: at_s, value, duration_s");
+    return Pick(s.sensor_faults, p).and_then([&](auto* e) {
+      return choose(
+          {{"at_s", {&e->start_s}}, {"value", {&e->value}}, {"duration_s", {&e->duration_s}}},
+          "timeline/sensor_fault: at_s, value, duration_s");
+    });
   }
-  *error = "no parameter element '" + p.element + "' (elements: start, ground, ground/friction, " +
-           "timeline/push, timeline/payload_shift, timeline/drive, timeline/motor_fault, " +
-           "timeline/sensor_fault, robot/...)";
-  return false;
+  return Failure("no parameter element '" + p.element +
+                 "' (elements: start, ground, ground/friction, timeline/push, "
+                 "timeline/payload_shift, timeline/drive, timeline/motor_fault, "
+                 "timeline/sensor_fault, robot/...)");
 }
 
 // The carriage target at the breakpoints of the payload shifts, each side of any jump, must stay
 // within the travel (the plant would clamp it; a scenario asking for more is wrong).
-bool PayloadWithinTravel(const Scenario& s, std::string* error) {
+Status PayloadWithinTravel(const Scenario& s) {
   const RobotModel& robot = s.built_model();
-  if (s.payload_shifts.empty()) return true;
-  if (!robot.payload.present) {
-    *error = "robot '" + robot.name + "' has no payload to shift";
-    return false;
-  }
+  if (s.payload_shifts.empty()) return {};
+  if (!robot.payload.present) return Failure("robot '" + robot.name + "' has no payload to shift");
   std::vector<double> times;
   for (const auto& p : s.payload_shifts) {
     times.push_back(p.start_s);
@@ -188,67 +183,68 @@ bool PayloadWithinTravel(const Scenario& s, std::string* error) {
         why << "the payload target reaches " << Num(target) << " m at " << t
             << " s, outside the carriage travel [" << Num(robot.payload.min_x_m) << ", "
             << Num(robot.payload.max_x_m) << "] m";
-        *error = why.str();
-        return false;
+        return Failure(why.str());
       }
     }
   }
-  return true;
+  return {};
 }
 
-// What a changed scenario must still keep.
-bool Check(Scenario& s, std::string* error) {
-  const auto in_run = [&](double start_s, const char* what) {
-    if (start_s >= 0 && start_s < s.duration_s) return true;
-    std::ostringstream why;
-    why << what << " at_s = " << start_s << ": must be in [0, " << s.duration_s << ")";
-    *error = why.str();
-    return false;
-  };
-  if (!s.terrain.IsValid(error)) return false;
+// An event's start within the run: [0, duration_s).
+Status InRun(double start_s, double duration_s, const char* what) {
+  if (start_s >= 0 && start_s < duration_s) return {};
+  std::ostringstream why;
+  why << what << " at_s = " << start_s << ": must be in [0, " << duration_s << ")";
+  return Failure(why.str());
+}
+
+// The timeline's events: each one's own rules and its start within the run.
+Status CheckEvents(const Scenario& s) {
+  std::string why;  // the events' own checks say what is wrong here
   const ChassisModel& chassis = s.built_model().chassis;
   for (const auto& p : s.pushes) {
-    if (!p.IsValid(error) || !in_run(p.start_s, "push")) return false;
+    if (!p.IsValid(&why)) return Failure(why);
+    if (Status in_run = InRun(p.start_s, s.duration_s, "push"); !in_run) return in_run;
     const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
     if (!NoMoreThan(chassis.outline_bottom_m, p.height_m, scale_m) ||
         !NoMoreThan(p.height_m, chassis.outline_top_m, scale_m)) {
-      *error = "push height_m = " + Num(p.height_m) + ": must be within the chassis outline [" +
-               Num(chassis.outline_bottom_m) + ", " + Num(chassis.outline_top_m) + "] m";
-      return false;
+      return Failure("push height_m = " + Num(p.height_m) +
+                     ": must be within the chassis outline [" + Num(chassis.outline_bottom_m) +
+                     ", " + Num(chassis.outline_top_m) + "] m");
     }
   }
   for (const auto& p : s.payload_shifts) {
-    if (!in_run(p.start_s, "payload shift")) return false;
-    if (!(p.duration_s >= 0)) {
-      *error = "payload shift duration_s must be >= 0";
-      return false;
-    }
+    if (Status in_run = InRun(p.start_s, s.duration_s, "payload shift"); !in_run) return in_run;
+    if (!(p.duration_s >= 0)) return Failure("payload shift duration_s must be >= 0");
   }
   for (const auto& d : s.drives) {
-    if (!in_run(d.start_s, "drive change")) return false;
-    if (!(d.ramp_s >= 0)) {
-      *error = "drive change ramp_s must be >= 0";
-      return false;
-    }
+    if (Status in_run = InRun(d.start_s, s.duration_s, "drive change"); !in_run) return in_run;
+    if (!(d.ramp_s >= 0)) return Failure("drive change ramp_s must be >= 0");
   }
   for (const auto& f : s.motor_faults) {
-    if (!f.IsValid(error) || !in_run(f.start_s, "motor fault")) return false;
+    if (!f.IsValid(&why)) return Failure(why);
+    if (Status in_run = InRun(f.start_s, s.duration_s, "motor fault"); !in_run) return in_run;
   }
   for (const auto& f : s.sensor_faults) {
-    if (!f.IsValid(error) || !in_run(f.start_s, "sensor fault")) return false;
+    if (!f.IsValid(&why)) return Failure(why);
+    if (Status in_run = InRun(f.start_s, s.duration_s, "sensor fault"); !in_run) return in_run;
   }
+  return {};
+}
+
+// What a changed scenario must still keep; its timeline lists sorted by start time again.
+Status Check(Scenario& s) {
+  std::string why;  // the terrain's own check says what is wrong here
+  if (!s.terrain.IsValid(&why)) return Failure(why);
+  if (Status events = CheckEvents(s); !events) return events;
   if (!(std::abs(s.initial.pitch_rad) < kPi / 2)) {
-    *error = "start pitch_deg must be in (-90, 90)";
-    return false;
+    return Failure("start pitch_deg must be in (-90, 90)");
   }
   if (s.plant_model) {
     const auto problems = ValidateModel(*s.plant_model);
-    if (!problems.empty()) {
-      *error = "robot: " + problems.front();
-      return false;
-    }
+    if (!problems.empty()) return Failure("robot: " + problems.front());
   }
-  if (!PayloadWithinTravel(s, error)) return false;
+  if (Status travel = PayloadWithinTravel(s); !travel) return travel;
   // Keep every timeline list in start-time order, as the timeline expects.
   const auto by_start = [](const auto& a, const auto& b) { return a.start_s < b.start_s; };
   std::stable_sort(s.pushes.begin(), s.pushes.end(), by_start);
@@ -256,7 +252,7 @@ bool Check(Scenario& s, std::string* error) {
   std::stable_sort(s.drives.begin(), s.drives.end(), by_start);
   std::stable_sort(s.motor_faults.begin(), s.motor_faults.end(), by_start);
   std::stable_sort(s.sensor_faults.begin(), s.sensor_faults.end(), by_start);
-  return true;
+  return {};
 }
 
 // "robot/chassis" → "chassis"; false when the path is not a robot path.
@@ -285,49 +281,48 @@ const std::vector<std::string>& ScenarioParameterHelp() {
   return help;
 }
 
-bool GetScenarioParameter(const Scenario& scenario, const std::string& path, double* value,
-                          std::string* error) {
-  Path p;
-  if (!ParsePath(path, &p, error)) return false;
+Result<double> GetScenarioParameter(const Scenario& scenario, const std::string& path) {
+  const Result<Path> p = ParsePath(path);
+  if (!p) return Failure(p.error());
   std::string element;
-  if (RobotElement(p, &element)) {
-    return GetModelField(scenario.built_model(), element, p.attribute, value, error);
+  if (RobotElement(*p, &element)) {
+    double value = 0;
+    std::string why;  // the robot model's field lookup says what is wrong here
+    if (!GetModelField(scenario.built_model(), element, p->attribute, &value, &why)) {
+      return Failure(why);
+    }
+    return value;
   }
   Scenario copy = scenario;  // FindSlot hands out pointers into a scenario it may change
-  Slot slot;
-  if (!FindSlot(copy, p, &slot, error)) return false;
-  *value = *slot.si / slot.per_file_unit;
-  return true;
+  const Result<Slot> slot = FindSlot(copy, *p);
+  if (!slot) return Failure(slot.error());
+  return *slot->si / slot->per_file_unit;
 }
 
-bool SetScenarioParameter(Scenario* scenario, const std::string& path, double value,
-                          std::string* error) {
-  Path p;
-  if (!ParsePath(path, &p, error)) return false;
-  if (!std::isfinite(value)) {
-    *error = path + " = " + Num(value) + ": must be a finite number";
-    return false;
-  }
+Status SetScenarioParameter(Scenario* scenario, const std::string& path, double value) {
+  const Result<Path> p = ParsePath(path);
+  if (!p) return Failure(p.error());
+  if (!std::isfinite(value))
+    return Failure(path + " = " + Num(value) + ": must be a finite number");
   Scenario changed = *scenario;
   std::string element;
-  if (RobotElement(p, &element)) {
+  if (RobotElement(*p, &element)) {
     RobotModel robot = changed.built_model();
-    if (!SetModelField(&robot, element, p.attribute, value, error)) {
-      *error = path + " = " + Num(value) + ": " + *error;
-      return false;
+    std::string why;  // the robot model's field setter says what is wrong here
+    if (!SetModelField(&robot, element, p->attribute, value, &why)) {
+      return Failure(path + " = " + Num(value) + ": " + why);
     }
     changed.plant_model = robot;
   } else {
-    Slot slot;
-    if (!FindSlot(changed, p, &slot, error)) return false;
-    *slot.si = value * slot.per_file_unit;
+    const Result<Slot> slot = FindSlot(changed, *p);
+    if (!slot) return Failure(slot.error());
+    *slot->si = value * slot->per_file_unit;
   }
-  if (!Check(changed, error)) {
-    *error = path + " = " + Num(value) + ": " + *error;
-    return false;
+  if (Status checked = Check(changed); !checked) {
+    return Failure(path + " = " + Num(value) + ": " + checked.error());
   }
   *scenario = std::move(changed);
-  return true;
+  return {};
 }
 
 }  // namespace upright::runner

@@ -14,24 +14,23 @@
 
 namespace upright::runner {
 
-bool SweepOptions::IsValid(std::string* error) const {
+Status SweepOptions::Validate() const {
   std::ostringstream why;
   if (samples < 1) {
     why << "SweepOptions::samples = " << samples << ", must be >= 1";
   } else if (jobs < 0) {
     why << "SweepOptions::jobs = " << jobs << ", must be >= 0 (0: one per core)";
   } else {
-    return true;
+    return {};
   }
-  *error = why.str();
-  return false;
+  return Failure(why.str());
 }
 
-SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
-                            const std::string& tool_version, const ProgressFn& progress) {
+Result<SweepResult> RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
+                                    const std::string& tool_version, const ProgressFn& progress) {
   UPRIGHT_CHECK(!scenario.dispersions.empty(), "a sweep needs dispersions");
-  std::string invalid;
-  UPRIGHT_CHECK(options.IsValid(&invalid), "%s", invalid.c_str());
+  const Status valid = options.Validate();
+  UPRIGHT_CHECK(valid, "%s", valid.error().c_str());
   const auto wall_start = std::chrono::steady_clock::now();
   const std::size_t samples = static_cast<std::size_t>(options.samples);
   const std::size_t controllers = scenario.controllers.size();
@@ -47,10 +46,7 @@ SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& option
   const ModuleSet modules({&scenario, 1}, options.module_dirs);
   for (const ControllerEntry& entry : scenario.controllers) {
     const LoadedModule& loaded = modules.Get(entry);
-    if (!loaded.module) {
-      result.module_error = "controller '" + entry.name + "': " + loaded.error;
-      return result;
-    }
+    if (!loaded) return Failure("controller '" + entry.name + "': " + loaded.error());
   }
 
   // The samples, in order (each depends only on the sweep seed and its index).
@@ -85,9 +81,8 @@ SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& option
           result.runs[slot] = SetupFailedRun(scenario, c, sample.noise_seed,
                                              "sample " + std::to_string(i) + ": " + sample.error);
         } else {
-          result.runs[slot] =
-              RunOneSafely(sampled[i], c, sample.noise_seed,
-                           modules.Get(scenario.controllers[c]).module, "", run_options);
+          result.runs[slot] = RunOneSafely(sampled[i], c, sample.noise_seed,
+                                           modules.Get(scenario.controllers[c]), run_options);
         }
       },
       [&] {

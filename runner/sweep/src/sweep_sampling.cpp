@@ -40,19 +40,19 @@ SampledScenario SampleScenario(const Scenario& nominal, std::uint64_t sweep_seed
   for (std::size_t k = 0; k < count; ++k) {
     const Dispersion& d = nominal.dispersions[k];
     sim::Random random(DispersionStreamSeed(sweep_seed, sample, k));
-    std::string error;
-    bool accepted = false;
-    for (int attempt = 0; attempt <= kMaxRedraws && !accepted; ++attempt) {
+    Status set;
+    for (int attempt = 0; attempt <= kMaxRedraws; ++attempt) {
       const double value = Draw(d, random);
-      accepted = SetScenarioParameter(&out.scenario, d.param, value, &error);
-      if (accepted) {
+      set = SetScenarioParameter(&out.scenario, d.param, value);
+      if (set) {
         out.values[k] = value;
         out.redraws[k] = attempt;
+        break;
       }
     }
-    if (!accepted) {
+    if (!set) {
       std::ostringstream why;
-      why << d.param << ": " << kMaxRedraws + 1 << " draws in a row rejected (last: " << error
+      why << d.param << ": " << kMaxRedraws + 1 << " draws in a row rejected (last: " << set.error()
           << ")";
       out.error = why.str();
       out.redraws[k] = kMaxRedraws + 1;

@@ -31,13 +31,14 @@ const std::vector<std::string>& SweepFileNames() {
   return kNames;
 }
 
-bool WriteSweepResults(const std::string& dir, const SweepResult& result, std::string* error) {
-  if (!MakeResultsFolder(dir, error)) return false;
+Status WriteSweepResults(const std::string& dir, const SweepResult& result) {
+  if (Status made = MakeResultsFolder(dir); !made) return made;
   const std::filesystem::path root(dir);
   for (const SweepFile& file : kFiles) {
-    if (!WriteFileAtomically((root / file.name).string(), file.text(result), error)) return false;
+    Status written = WriteFileAtomically((root / file.name).string(), file.text(result));
+    if (!written) return written;
   }
-  return true;
+  return {};
 }
 
 }  // namespace upright::runner

@@ -11,32 +11,29 @@
 namespace upright::runner {
 namespace {
 
-bool Fail(const std::string& path, const std::string& temporary, int error_number,
-          std::string* error) {
+Status Fail(const std::string& path, const std::string& temporary, int error_number) {
   std::remove(temporary.c_str());
-  if (error != nullptr) *error = "cannot write " + path + ": " + std::strerror(error_number);
-  return false;
+  return Failure("cannot write " + path + ": " + std::strerror(error_number));
 }
 
 }  // namespace
 
-bool WriteFileAtomically(const std::string& path, std::string_view contents, std::string* error) {
+Status WriteFileAtomically(const std::string& path, std::string_view contents) {
   const std::string temporary = path + ".tmp." + std::to_string(static_cast<long>(::getpid()));
   std::FILE* file = std::fopen(temporary.c_str(), "wb");
   if (file == nullptr) {
     const int open_errno = errno;
-    if (error != nullptr) *error = "cannot write " + path + ": " + std::strerror(open_errno);
-    return false;
+    return Failure("cannot write " + path + ": " + std::strerror(open_errno));
   }
   const std::size_t written = std::fwrite(contents.data(), 1, contents.size(), file);
   const int write_errno = errno;
   if (written != contents.size()) {
     std::fclose(file);
-    return Fail(path, temporary, write_errno, error);
+    return Fail(path, temporary, write_errno);
   }
-  if (std::fclose(file) != 0) return Fail(path, temporary, errno, error);
-  if (std::rename(temporary.c_str(), path.c_str()) != 0) return Fail(path, temporary, errno, error);
-  return true;
+  if (std::fclose(file) != 0) return Fail(path, temporary, errno);
+  if (std::rename(temporary.c_str(), path.c_str()) != 0) return Fail(path, temporary, errno);
+  return {};
 }
 
 }  // namespace upright::runner

@@ -5,16 +5,13 @@
 
 namespace upright::runner {
 
-bool MakeResultsFolder(const std::string& dir, std::string* error) {
+Status MakeResultsFolder(const std::string& dir) {
   const std::filesystem::path path(dir);
   std::error_code code;
   std::filesystem::create_directories(path, code);
-  if (!code && std::filesystem::is_directory(path, code)) return true;
-  if (error != nullptr) {
-    *error = "cannot create folder " + path.string() + ": " +
-             (code ? code.message() : std::string("a file of that name is in the way"));
-  }
-  return false;
+  if (!code && std::filesystem::is_directory(path, code)) return {};
+  return Failure("cannot create folder " + path.string() + ": " +
+                 (code ? code.message() : std::string("a file of that name is in the way")));
 }
 
 }  // namespace upright::runner

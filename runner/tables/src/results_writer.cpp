@@ -21,15 +21,15 @@
 namespace upright::runner {
 namespace {
 
-bool Write(const std::filesystem::path& path, const std::string& text, std::string* error) {
-  return WriteFileAtomically(path.string(), text, error);
+Status Write(const std::filesystem::path& path, const std::string& text) {
+  return WriteFileAtomically(path.string(), text);
 }
 
 // A folder written before may hold files of that batch which this one does not write: its gap
 // tables, its traces. Left there they would pass for this batch's (the report reads what it
 // finds), so they go; anything else in the folder is not ours and stays.
-bool RemoveStaleFiles(const std::filesystem::path& root, const BatchResult& batch,
-                      const std::vector<std::string>& trace_files, std::string* error) {
+Status RemoveStaleFiles(const std::filesystem::path& root, const BatchResult& batch,
+                        const std::vector<std::string>& trace_files) {
   namespace fs = std::filesystem;
   std::vector<fs::path> stale;
   if (!batch.linear_twin) stale = {root / "gap.csv", root / "gap.md"};
@@ -47,11 +47,11 @@ bool RemoveStaleFiles(const std::filesystem::path& root, const BatchResult& batc
   for (const fs::path& path : stale) {
     fs::remove(path, ec);  // a file already gone is no error
     if (ec) {
-      *error = "cannot remove " + path.string() + ", left from an earlier batch: " + ec.message();
-      return false;
+      return Failure("cannot remove " + path.string() +
+                     ", left from an earlier batch: " + ec.message());
     }
   }
-  return true;
+  return {};
 }
 
 }  // namespace
@@ -73,7 +73,7 @@ std::string TraceFileName(const RunResult& run) {
   return name + ".csv";
 }
 
-bool WriteResults(const std::string& dir, const BatchResult& batch, std::string* error) {
+Status WriteResults(const std::string& dir, const BatchResult& batch) {
   const std::filesystem::path root(dir);
 
   // Trace paths first: two runs whose names differ only in replaced characters would overwrite
@@ -86,19 +86,16 @@ bool WriteResults(const std::string& dir, const BatchResult& batch, std::string*
     trace_files[i] = "traces/" + TraceFileName(run);
     const auto [entry, fresh] = run_of_trace.emplace(trace_files[i], i);
     if (fresh) continue;
-    if (error != nullptr) {
-      const RunResult& other = batch.runs[entry->second];
-      *error = "cannot write " + (root / trace_files[i]).string() + ": runs " + other.scenario +
-               " / " + other.controller + " / seed " + std::to_string(other.seed) + " and " +
-               run.scenario + " / " + run.controller + " / seed " + std::to_string(run.seed) +
-               " map to the same trace file; rename one";
-    }
-    return false;
+    const RunResult& other = batch.runs[entry->second];
+    return Failure("cannot write " + (root / trace_files[i]).string() + ": runs " + other.scenario +
+                   " / " + other.controller + " / seed " + std::to_string(other.seed) + " and " +
+                   run.scenario + " / " + run.controller + " / seed " + std::to_string(run.seed) +
+                   " map to the same trace file; rename one");
   }
 
-  if (!MakeResultsFolder(root.string(), error)) return false;
+  if (Status made = MakeResultsFolder(root.string()); !made) return made;
   const std::vector<internal::ScenarioGroup> groups = internal::GroupBatch(batch);
-  const std::pair<const char*, std::function<std::string()>> tables[] = {
+  std::vector<std::pair<const char*, std::function<std::string()>>> tables = {
       {"summary.csv", [&] { return internal::SummaryCsv(batch); }},
       {"summary.md", [&] { return internal::SummaryMarkdown(groups); }},
       {"compare.csv", [&] { return internal::CompareCsv(groups); }},
@@ -106,25 +103,24 @@ bool WriteResults(const std::string& dir, const BatchResult& batch, std::string*
       {"ranking.csv", [&] { return internal::RankingCsv(groups); }},
       {"ranking.md", [&] { return internal::RankingMarkdown(groups); }},
   };
-  for (const auto& [name, build] : tables) {
-    if (!Write(root / name, build(), error)) return false;
-  }
   if (batch.linear_twin) {
-    if (!Write(root / "gap.csv", internal::GapCsv(batch), error)) return false;
-    if (!Write(root / "gap.md", internal::GapMarkdown(groups), error)) return false;
+    tables.push_back({"gap.csv", [&] { return internal::GapCsv(batch); }});
+    tables.push_back({"gap.md", [&] { return internal::GapMarkdown(groups); }});
+  }
+  for (const auto& [name, build] : tables) {
+    if (Status written = Write(root / name, build()); !written) return written;
   }
 
   if (!run_of_trace.empty()) {
-    if (!MakeResultsFolder((root / "traces").string(), error)) return false;
+    if (Status made = MakeResultsFolder((root / "traces").string()); !made) return made;
     for (std::size_t i = 0; i < batch.runs.size(); ++i) {
       if (trace_files[i].empty()) continue;
-      if (!Write(root / trace_files[i], internal::TraceCsv(batch.runs[i].trace), error)) {
-        return false;
-      }
+      Status written = Write(root / trace_files[i], internal::TraceCsv(batch.runs[i].trace));
+      if (!written) return written;
     }
   }
-  if (!RemoveStaleFiles(root, batch, trace_files, error)) return false;
-  return Write(root / "manifest.json", internal::ManifestJson(batch, trace_files), error);
+  if (Status removed = RemoveStaleFiles(root, batch, trace_files); !removed) return removed;
+  return Write(root / "manifest.json", internal::ManifestJson(batch, trace_files));
 }
 
 }  // namespace upright::runner

@@ -132,12 +132,9 @@ std::string Sha256Hex(std::string_view bytes) {
   return sha.HexDigest();
 }
 
-std::string Sha256OfFile(const std::string& path, std::string* error) {
+Result<std::string> Sha256OfFile(const std::string& path) {
   std::FILE* file = std::fopen(path.c_str(), "rb");
-  if (file == nullptr) {
-    if (error != nullptr) *error = "cannot read " + path + ": " + std::strerror(errno);
-    return "";
-  }
+  if (file == nullptr) return Failure("cannot read " + path + ": " + std::strerror(errno));
   Sha256 sha;
   std::vector<unsigned char> buffer(1 << 16);
   std::size_t got = 0;
@@ -146,10 +143,7 @@ std::string Sha256OfFile(const std::string& path, std::string* error) {
   const bool failed = std::ferror(file) != 0;
   const int read_errno = errno;
   std::fclose(file);
-  if (failed) {
-    if (error != nullptr) *error = "cannot read " + path + ": " + std::strerror(read_errno);
-    return "";
-  }
+  if (failed) return Failure("cannot read " + path + ": " + std::strerror(read_errno));
   return sha.HexDigest();
 }
 

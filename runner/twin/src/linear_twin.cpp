@@ -37,35 +37,26 @@ void FillTruth(double time_s, const design::StateVector& x, double equilibrium_p
   truth->wheel_rate_rad_s = sensed.encoder_rate_rad_s;
 }
 
-}  // namespace
+// The robot's constant sensor biases, as the plant's sensors carry them: a bias held against
+// wheel friction makes a parked robot creep, and the twin would otherwise part from the plant on a
+// quiet run for that reason alone. Noise, quantisation and latency stay out.
+void AddSensorBiases(const SensorModel& m, sim::SensorSample* sensed) {
+  sensed->gyro_rad_s[0] += m.gyro_bias_x_rad_s;
+  sensed->gyro_rad_s[1] += m.gyro_bias_y_rad_s;
+  sensed->gyro_rad_s[2] += m.gyro_bias_z_rad_s;
+  sensed->accel_m_s2[0] += m.accel_bias_x_m_s2;
+  sensed->accel_m_s2[1] += m.accel_bias_y_m_s2;
+  sensed->accel_m_s2[2] += m.accel_bias_z_m_s2;
+}
 
-bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
-                   const std::shared_ptr<host::Module>& module, const DrivePlan& plan, TwinRun* out,
-                   std::string* error, ModuleLogRecorder* module_log) {
+// The twin's steps: from the scenario's initial tilt and speed, each physics step the ideal
+// sensors (with the biases), the module's tick with the plan's reference, and the exact linear
+// step, recorded after each, until the plan ends or the twin stops (a module fault, a tilt
+// outside any linear model).
+TwinRun PlayTwin(const Scenario& scenario, const ControllerEntry& entry, host::ControllerHost& host,
+                 const TwinDynamics& dynamics, const DrivePlan& plan) {
   const std::size_t steps = plan.reference.size();
-  if (plan.path_x_m.size() != steps || plan.path_y_m.size() != steps) {
-    if (error) *error = "DrivePlan: reference, path_x_m and path_y_m differ in length";
-    return false;
-  }
-  const ControllerEntry& entry = scenario.controllers.at(controller);
-  host::ControllerSpec spec;
-  spec.module = module;
-  spec.config = entry.config;
-  spec.rate_hz = entry.rate_hz;
-  spec.true_state = entry.true_state;
-  if (module_log) {
-    spec.log = [module_log](int level, double time_s, std::string_view text) {
-      module_log->Add(level, time_s, text);
-    };
-  }
-  const auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
-  if (!host) return false;
-
   const RobotModel& robot = scenario.built_model();
-  const design::InputKind input = host->drive() == sim::DriveMode::kTorque
-                                      ? design::InputKind::kTorque
-                                      : design::InputKind::kVoltage;
-  const TwinDynamics dynamics(robot, input, scenario.dt_s, scenario.pushes);
   const double equilibrium_pitch_rad = dynamics.linear().equilibrium_pitch_rad;
   const double dt_s = scenario.dt_s;
 
@@ -75,8 +66,7 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
   const TwinSensorGeometry geometry = SensorGeometry(robot, equilibrium_pitch_rad, x(kPitch));
   double world_x_m = scenario.initial.x_m, world_y_m = 0;
 
-  TwinRun& run = *out;
-  run = TwinRun{};
+  TwinRun run;
   run.series.dt_s = dt_s;
   run.series.Reserve(steps + 1);
   run.pitch_rad.reserve(steps + 1);
@@ -97,25 +87,16 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
     // taken (nothing before the first).
     sim::SensorSample sensed =
         IdealSensors(geometry, time_s, x, dynamics.Derivative(x, u, step - 1));
-    // The robot's constant sensor biases, as the plant's sensors carry them: a bias held against
-    // wheel friction makes a parked robot creep, and the twin would otherwise part from the plant
-    // on a quiet run for that reason alone. Noise, quantisation and latency stay out.
-    const SensorModel& m = robot.sensors;
-    sensed.gyro_rad_s[0] += m.gyro_bias_x_rad_s;
-    sensed.gyro_rad_s[1] += m.gyro_bias_y_rad_s;
-    sensed.gyro_rad_s[2] += m.gyro_bias_z_rad_s;
-    sensed.accel_m_s2[0] += m.accel_bias_x_m_s2;
-    sensed.accel_m_s2[1] += m.accel_bias_y_m_s2;
-    sensed.accel_m_s2[2] += m.accel_bias_z_m_s2;
+    AddSensorBiases(robot.sensors, &sensed);
     if (entry.true_state) {
       FillTruth(time_s, x, equilibrium_pitch_rad, world_x_m, world_y_m, sensed,
                 robot.wheel.radius_m, &truth);
     }
-    if (!host->Tick(step, sensed, entry.true_state ? &truth : nullptr, plan.reference[i])) {
-      run.message = Stopped(time_s, host->fault());
+    if (!host.Tick(step, sensed, entry.true_state ? &truth : nullptr, plan.reference[i])) {
+      run.message = Stopped(time_s, host.fault());
       break;
     }
-    const auto command = host->command();
+    const auto command = host.command();
     u = Eigen::Vector2d(command[kLeft], command[kRight]);
     const double x_before = x(kX), yaw_before = x(kYaw);
     dynamics.Step(step, u, &x);
@@ -129,7 +110,38 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
       break;
     }
   }
-  return true;
+  return run;
+}
+
+}  // namespace
+
+Result<TwinRun> RunLinearTwin(const Scenario& scenario, std::size_t controller,
+                              const std::shared_ptr<host::Module>& module, const DrivePlan& plan,
+                              ModuleLogRecorder* module_log) {
+  const std::size_t steps = plan.reference.size();
+  if (plan.path_x_m.size() != steps || plan.path_y_m.size() != steps) {
+    return Failure("DrivePlan: reference, path_x_m and path_y_m differ in length");
+  }
+  const ControllerEntry& entry = scenario.controllers.at(controller);
+  host::ControllerSpec spec;
+  spec.module = module;
+  spec.config = entry.config;
+  spec.rate_hz = entry.rate_hz;
+  spec.true_state = entry.true_state;
+  if (module_log) {
+    spec.log = [module_log](int level, double time_s, std::string_view text) {
+      module_log->Add(level, time_s, text);
+    };
+  }
+  std::string error;  // the host says what is wrong here
+  const auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
+  if (!host) return Failure(error);
+
+  const design::InputKind input = host->drive() == sim::DriveMode::kTorque
+                                      ? design::InputKind::kTorque
+                                      : design::InputKind::kVoltage;
+  const TwinDynamics dynamics(scenario.built_model(), input, scenario.dt_s, scenario.pushes);
+  return PlayTwin(scenario, entry, *host, dynamics, plan);
 }
 
 }  // namespace upright::runner

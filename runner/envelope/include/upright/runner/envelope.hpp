@@ -9,6 +9,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/bisect.hpp"
 #include "upright/runner/run_result.hpp"
@@ -34,9 +35,9 @@ struct EnvelopeOptions {
   double settle_hold_s = 1.0;
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
-  // True when the options hold together on their own (the scenario is checked by PlanEnvelope);
-  // otherwise false and *error naming the field, its value and the rule.
-  bool IsValid(std::string* error) const;
+  // Fine when the options hold together on their own (the scenario is checked by PlanEnvelope);
+  // otherwise the broken rule, naming the field and its value.
+  Status Validate() const;
 };
 
 // One varied parameter with its range resolved.
@@ -59,10 +60,9 @@ struct EnvelopePlan {
 };
 
 // Resolves the defaults and checks them against `scenario`: the parameters exist, the range is
-// not empty, and both ends (every map corner) give a valid scenario. False and *error otherwise
+// not empty, and both ends (every map corner) give a valid scenario. Otherwise why not
 // ("timeline/push[1].peak_N: the scenario's value is 0; give --lo and --hi").
-bool PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options, EnvelopePlan* plan,
-                  std::string* error);
+Result<EnvelopePlan> PlanEnvelope(const Scenario& scenario, const EnvelopeOptions& options);
 
 // One probe of a bisection: the value and how its seeds went.
 struct ProbeRecord {

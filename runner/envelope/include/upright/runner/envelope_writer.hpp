@@ -6,14 +6,15 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/envelope.hpp"
 
 namespace upright::runner {
 
 // Writes the files into `dir`, creating it and its parents; manifest.json last, so its presence
 // means the folder is complete. Every file but the manifest depends only on the result's
-// contents, never on timing or job count. False and *error (naming the path) on failure.
-bool WriteEnvelopeResults(const std::string& dir, const EnvelopeResult& result, std::string* error);
+// contents, never on timing or job count. On failure, a message naming the path.
+Status WriteEnvelopeResults(const std::string& dir, const EnvelopeResult& result);
 
 // The names of the files WriteEnvelopeResults writes for `result`, for messages and tests.
 std::vector<std::string> EnvelopeFileNames(const EnvelopeResult& result);

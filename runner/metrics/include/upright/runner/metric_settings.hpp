@@ -4,6 +4,8 @@
 
 #include <string>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner {
 
 struct MetricSettings {
@@ -14,9 +16,9 @@ struct MetricSettings {
   // A wheel counts as slipping while |slip ratio| exceeds this (common practice: traction
   // control treats 0.1–0.2 as the edge of the tyre's peak grip).
   double slip_threshold = 0.15;
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value
+  // Fine when valid; otherwise the broken rule, naming the field and value
   // ("MetricSettings::window_s = 0, must be > 0").
-  bool IsValid(std::string* error) const;
+  Status Validate() const;
 };
 
 }  // namespace upright::runner

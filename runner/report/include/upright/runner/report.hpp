@@ -8,6 +8,8 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner {
 
 inline constexpr const char* kReportFileName = "report.html";
@@ -16,22 +18,27 @@ struct ReportOptions {
   // Samples per plotted series at most (min/max decimation keeps every peak); >= 4.
   std::size_t max_points = 480;
 
-  bool IsValid(std::string* error) const;
+  // Fine when valid; otherwise the broken rule, naming the field and value.
+  Status Validate() const;
 };
 
-enum class ReportStatus {
-  kWritten,      // report.html written
+// What MakeReport wrote.
+struct ReportWritten {
+  std::string path;         // <dir>/report.html
+  std::size_t bytes = 0;    // its size
+  std::size_t folders = 0;  // results folders found
+};
+
+// Why MakeReport wrote nothing, in kinds a caller can choose its exit code by.
+enum class ReportProblem {
   kNoResults,    // the folder holds no results files (ReportLooksFor)
-  kBadInput,     // a results file could not be read or parsed; nothing written
+  kBadInput,     // the options are refused, or a results file could not be read or parsed
   kWriteFailed,  // report.html could not be written
 };
 
-struct ReportOutcome {
-  ReportStatus status = ReportStatus::kNoResults;
-  std::string path;         // <dir>/report.html
-  std::size_t bytes = 0;    // its size when written
-  std::size_t folders = 0;  // results folders found
-  std::string message;      // what went wrong, when status is not kWritten
+struct ReportFailure {
+  ReportProblem problem = ReportProblem::kBadInput;
+  std::string message;  // what went wrong
 };
 
 // What the report looks for, for messages: the files that mark a results folder and where.
@@ -44,10 +51,11 @@ std::vector<std::string> FindResultsFolders(const std::string& dir);
 
 // Builds the report of `dir` and writes it atomically to <dir>/report.html. The bytes depend only
 // on the folder's results files (never on timings, the clock or where the folder lies).
-ReportOutcome MakeReport(const std::string& dir, const ReportOptions& options = {});
+Result<ReportWritten, ReportFailure> MakeReport(const std::string& dir,
+                                                const ReportOptions& options = {});
 
-// MakeReport with default options, for callers that only need yes or no (the demo): true and
-// *report_path when written; false and *error otherwise.
-bool WriteReport(const std::string& dir, std::string* report_path, std::string* error);
+// MakeReport with default options, for callers that only need yes or no (the demo): the path of
+// the report written, or why none was.
+Result<std::string> WriteReport(const std::string& dir);
 
 }  // namespace upright::runner

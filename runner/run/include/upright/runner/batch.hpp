@@ -9,6 +9,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/run_one.hpp"
 #include "upright/runner/run_result.hpp"
 #include "upright/runner/scenario.hpp"
@@ -21,7 +22,8 @@ struct BatchOptions {
   RunOptions run;      // per-run options (trace rate)
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
-  bool IsValid(std::string* error) const;
+  // Fine when valid (its RunOptions too); otherwise the broken rule, naming the field and value.
+  Status Validate() const;
 };
 
 // Called after each finished run, from the worker that ran it, one call at a time.

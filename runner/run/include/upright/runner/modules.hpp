@@ -10,16 +10,14 @@
 #include <utility>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/host/module.hpp"
 #include "upright/runner/scenario.hpp"
 
 namespace upright::runner {
 
-// One controller's module as loaded, or why it could not be.
-struct LoadedModule {
-  std::shared_ptr<host::Module> module;  // null when it could not be loaded
-  std::string error;                     // why not, when module is null
-};
+// One controller's module as loaded (never null), or why it could not be.
+using LoadedModule = Result<std::shared_ptr<host::Module>>;
 
 // Every module the controllers of some scenarios name, each loaded once. Read-only once built, so
 // worker threads may share it.

@@ -9,8 +9,10 @@
 #include <memory>
 #include <string>
 
+#include "upright/base/result.hpp"
 #include "upright/host/module.hpp"
 #include "upright/runner/module_log.hpp"
+#include "upright/runner/modules.hpp"
 #include "upright/runner/run_result.hpp"
 #include "upright/runner/scenario.hpp"
 
@@ -30,25 +32,24 @@ struct RunOptions {
   // The least severe module message a run keeps (RunResult::module_log): info, warnings and
   // errors by default; kDebug keeps the modules' debug messages too.
   LogLevel module_log_level = LogLevel::kInfo;
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
-  bool IsValid(std::string* error) const;
+  // Fine when valid; otherwise the broken rule, naming the field and value.
+  Status Validate() const;
 };
 
 // Runs controller `controller` (index into scenario.controllers) with noise seed `seed`, using the
-// already loaded `module` (null: the run is a kSetupFailed result carrying `load_error`).
+// already loaded `module` (a module that did not load: the run is a kSetupFailed result carrying
+// why).
 RunResult RunOne(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                 const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                 const RunOptions& options);
+                 const LoadedModule& module, const RunOptions& options);
 
-// Why a run of controller `controller` (index into scenario.controllers) with the already loaded
-// `module` could not start, or "" when it could: the module's create refusing the robot, its
-// settings or its rate, or the plant refusing the scenario — RunOne's own set-up and message
-// (seed: the scenario's first), nothing stepped. `upright check` asks this of every controller.
+// Whether a run of controller `controller` (index into scenario.controllers) with the already
+// loaded `module` can start, or why not: the module's create refusing the robot, its settings or
+// its rate, or the plant refusing the scenario — RunOne's own set-up and message (seed: the
+// scenario's first), nothing stepped. `upright check` asks this of every controller.
 // When `module_log` is given, it receives what create logged at `module_log_level` and above.
-std::string RunStartProblem(const Scenario& scenario, std::size_t controller,
-                            const std::shared_ptr<host::Module>& module,
-                            ModuleLog* module_log = nullptr,
-                            LogLevel module_log_level = LogLevel::kInfo);
+Status CheckRunStart(const Scenario& scenario, std::size_t controller,
+                     const std::shared_ptr<host::Module>& module, ModuleLog* module_log = nullptr,
+                     LogLevel module_log_level = LogLevel::kInfo);
 
 // The row of a run that could not happen: controller `controller` of `scenario` with `seed`,
 // status kSetupFailed and `message`, nothing else filled in.
@@ -58,7 +59,6 @@ RunResult SetupFailedRun(const Scenario& scenario, std::size_t controller, std::
 // RunOne for a worker thread: never throws. An exception (out of memory and the like) becomes a
 // SetupFailedRun with the message "the run stopped on an error: <what>".
 RunResult RunOneSafely(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
-                       const std::shared_ptr<host::Module>& module, const std::string& load_error,
-                       const RunOptions& options);
+                       const LoadedModule& module, const RunOptions& options);
 
 }  // namespace upright::runner

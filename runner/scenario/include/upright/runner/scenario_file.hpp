@@ -8,18 +8,15 @@
 #include <string_view>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/model/file_error.hpp"
 #include "upright/runner/scenario.hpp"
 
 namespace upright::runner {
 
-struct ScenarioLoadResult {
-  Scenario scenario;  // meaningful only when ok()
-  // Every problem found in one pass: the scenario file's in line order, then the robot model
-  // file's (which carry the model's path).
-  std::vector<FileError> errors;
-  bool ok() const { return errors.empty(); }
-};
+// The scenario, or every problem found in one pass: the scenario file's in line order, then the
+// robot model file's (which carry the model's path); never an empty list.
+using ScenarioLoadResult = Result<Scenario, std::vector<FileError>>;
 
 // Reads and validates a scenario file and the robot model it names (relative model and module
 // paths are taken from the scenario file's folder).

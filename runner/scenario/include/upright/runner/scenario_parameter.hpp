@@ -11,6 +11,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/scenario.hpp"
 
 namespace upright::runner {
@@ -19,16 +20,13 @@ namespace upright::runner {
 // summarised by one line).
 const std::vector<std::string>& ScenarioParameterHelp();
 
-// The parameter's current value in `scenario` (from the plant model for robot fields). False and
-// *error when the path names nothing in this scenario ("timeline/push[3].peak_N: the scenario has
-// 1 push").
-bool GetScenarioParameter(const Scenario& scenario, const std::string& path, double* value,
-                          std::string* error);
+// The parameter's current value in `scenario` (from the plant model for robot fields), or why the
+// path names nothing in this scenario ("timeline/push[3].peak_N: the scenario has 1 push").
+Result<double> GetScenarioParameter(const Scenario& scenario, const std::string& path);
 
 // Sets the parameter, then checks what it touched (the element's own rules, event times within the
-// duration, the robot model's rules, the payload travel). False and *error on any problem;
-// `scenario` is then unchanged.
-bool SetScenarioParameter(Scenario* scenario, const std::string& path, double value,
-                          std::string* error);
+// duration, the robot model's rules, the payload travel). On any problem, the message and
+// `scenario` unchanged.
+Status SetScenarioParameter(Scenario* scenario, const std::string& path, double value);
 
 }  // namespace upright::runner

@@ -8,6 +8,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/run_result.hpp"
 #include "upright/runner/scenario.hpp"
@@ -21,8 +22,8 @@ struct SweepOptions {
   int jobs = 0;            // worker threads; 0: one per hardware thread
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
-  bool IsValid(std::string* error) const;
+  // Fine when valid; otherwise the broken rule, naming the field and value.
+  Status Validate() const;
 };
 
 // One sample: its draws, or why it could not be drawn.
@@ -42,8 +43,6 @@ struct SweepResult {
   std::vector<SweepSample> samples;
   // Sample by sample, controller by controller (scenario order): runs[i · C + c].
   std::vector<RunResult> runs;
-  // "" or why a controller module could not be loaded; then nothing ran and runs is empty.
-  std::string module_error;
   int jobs = 1;
   double wall_s = 0;  // manifest only
 
@@ -54,10 +53,11 @@ struct SweepResult {
 };
 
 // Runs `scenario`'s sweep. Needs at least one dispersion (UPRIGHT_CHECK). Module files are loaded
-// once each before any run; one that will not load stops the sweep with module_error. `progress`
-// is called after each finished run, one call at a time. No traces are recorded.
-SweepResult RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
-                            const std::string& tool_version, const ProgressFn& progress);
+// once each before any run; one that will not load stops the sweep before it starts, the message
+// naming the controller ("controller 'pid': ..."). `progress` is called after each finished run,
+// one call at a time. No traces are recorded.
+Result<SweepResult> RunSweepSamples(const Scenario& scenario, const SweepOptions& options,
+                                    const std::string& tool_version, const ProgressFn& progress);
 
 // How many samples controller `controller` survived (status ok; a failed set-up counts as not).
 std::size_t CountSurvived(const SweepResult& result, std::size_t controller);

@@ -6,14 +6,15 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/sweep.hpp"
 
 namespace upright::runner {
 
 // Writes sweep.csv, sweep.md and, last, manifest.json into `dir`, creating it and its parents.
 // sweep.csv and sweep.md depend only on the result's contents, never on timing or job count.
-// False and *error (naming the path) when the folder cannot be made or a file cannot be written.
-bool WriteSweepResults(const std::string& dir, const SweepResult& result, std::string* error);
+// Fails (the message naming the path) when the folder cannot be made or a file cannot be written.
+Status WriteSweepResults(const std::string& dir, const SweepResult& result);
 
 // The names of the files WriteSweepResults writes, in writing order.
 const std::vector<std::string>& SweepFileNames();

@@ -6,10 +6,12 @@
 #include <string>
 #include <string_view>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner {
 
-// Writes `contents` to `path` through a temporary beside it. The directory must exist. False and
-// *error ("cannot write <path>: <reason>") on failure; the temporary is removed then.
-bool WriteFileAtomically(const std::string& path, std::string_view contents, std::string* error);
+// Writes `contents` to `path` through a temporary beside it. The directory must exist. On failure
+// "cannot write <path>: <reason>", and the temporary is removed.
+Status WriteFileAtomically(const std::string& path, std::string_view contents);
 
 }  // namespace upright::runner

@@ -4,10 +4,12 @@
 
 #include <string>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner {
 
-// Creates `dir` and its parents when missing. True when `dir` is a folder afterwards; otherwise
-// false and, when `error` is not null, "cannot create folder <dir>: <reason>".
-bool MakeResultsFolder(const std::string& dir, std::string* error);
+// Creates `dir` and its parents when missing. Fine when `dir` is a folder afterwards; otherwise
+// "cannot create folder <dir>: <reason>".
+Status MakeResultsFolder(const std::string& dir);
 
 }  // namespace upright::runner

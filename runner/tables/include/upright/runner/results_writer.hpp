@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/runner/run_result.hpp"
 
 namespace upright::runner {
@@ -16,10 +17,10 @@ namespace upright::runner {
 // manifest.json into `dir`, creating it and its parents. In a folder written before, the gap
 // tables and trace CSVs this batch does not write are removed, so none passes for its own. Every
 // file but the manifest depends only on the runs' contents and order, never on timing or job
-// count: identical batches give byte-identical files. False and *error (naming the path) when
+// count: identical batches give byte-identical files. Fails (the message naming the path) when
 // the folder cannot be made, two traced runs map to the same trace file, or a file cannot be
 // written or removed.
-bool WriteResults(const std::string& dir, const BatchResult& batch, std::string* error);
+Status WriteResults(const std::string& dir, const BatchResult& batch);
 
 // The names of the files WriteResults writes at the top of `dir`, for messages and tests (a
 // batch that ran the linear twin adds gap.csv and gap.md).

@@ -5,13 +5,15 @@
 #include <string>
 #include <string_view>
 
+#include "upright/base/result.hpp"
+
 namespace upright::runner {
 
 // The digest of `bytes` as 64 lowercase hex digits.
 std::string Sha256Hex(std::string_view bytes);
 
-// The digest of the file's bytes, read in chunks; "" and *error ("cannot read <path>: <reason>")
-// when the file cannot be read.
-std::string Sha256OfFile(const std::string& path, std::string* error);
+// The digest of the file's bytes, read in chunks; "cannot read <path>: <reason>" when the file
+// cannot be read.
+Result<std::string> Sha256OfFile(const std::string& path);
 
 }  // namespace upright::runner

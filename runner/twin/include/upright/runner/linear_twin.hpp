@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/host/module.hpp"
 #include "upright/runner/module_log.hpp"
@@ -39,10 +40,10 @@ struct TwinRun {
 // module's drive mode: wheel torque in N·m, or motor voltage with back-EMF and viscous friction;
 // the module is created for scenario.model, as in a physics run. A module fault, or a tilt beyond
 // 90° (outside any linear model) or non-finite, stops the twin with TwinRun::message saying why.
-// False and *error when the module cannot be created or the plan's lists differ in length. The
-// module's log messages (create's included, even when it refuses) go to `module_log` when given.
-bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
-                   const std::shared_ptr<host::Module>& module, const DrivePlan& plan, TwinRun* out,
-                   std::string* error, ModuleLogRecorder* module_log = nullptr);
+// Fails when the module cannot be created or the plan's lists differ in length. The module's
+// log messages (create's included, even when it refuses) go to `module_log` when given.
+Result<TwinRun> RunLinearTwin(const Scenario& scenario, std::size_t controller,
+                              const std::shared_ptr<host::Module>& module, const DrivePlan& plan,
+                              ModuleLogRecorder* module_log = nullptr);
 
 }  // namespace upright::runner
