@@ -110,11 +110,11 @@ int RunCheck(const std::vector<std::string>& args) {
       ++bad;
       continue;
     }
-    const ModelLoadResult result = LoadModelFile(path);
-    if (result.ok()) {
-      std::cout << path << ": ok (robot model '" << result.model.name << "')\n";
+    const auto result = LoadModelFile(path);
+    if (result) {
+      std::cout << path << ": ok (robot model '" << result->name << "')\n";
     } else {
-      for (const auto& e : result.errors) std::cerr << e.ToString() << "\n";
+      for (const auto& e : result.error()) std::cerr << e.ToString() << "\n";
       ++bad;
     }
   }

@@ -339,17 +339,17 @@ int RunDesign(const DesignOptions& options) {
     return kExitBadInput;
   }
   // A design never steps the physics, so a robot whose rates suit another step still designs.
-  const ModelLoadResult loaded =
+  const auto loaded =
       LoadModelFile(options.model_path, ModelLoadOptions{.check_default_step = false});
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) std::cerr << e.ToString() << "\n";
+  if (!loaded) {
+    for (const auto& e : loaded.error()) std::cerr << e.ToString() << "\n";
     return kExitBadInput;
   }
-  const DesignSet set = design::DesignAll(loaded.model, request);
+  const DesignSet set = design::DesignAll(*loaded, request);
   if (options.json) {
-    std::cout << Json(loaded.model, set);
+    std::cout << Json(*loaded, set);
   } else {
-    PrintText(loaded.model, set);
+    PrintText(*loaded, set);
   }
   std::cout.flush();
   std::fflush(stdout);

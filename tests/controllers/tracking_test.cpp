@@ -9,6 +9,7 @@
 #include <cmath>
 #include <string>
 
+#include "succeeded.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
@@ -18,8 +19,8 @@ namespace {
 
 RobotModel Courier() {
   auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  return loaded.value_or(RobotModel{});
 }
 
 upright_reference Reference(double speed, double yaw_rate) {

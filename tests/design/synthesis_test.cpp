@@ -8,6 +8,7 @@
 #include <cmath>
 
 #include "demo_robot.hpp"
+#include "succeeded.hpp"
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
@@ -257,16 +258,16 @@ PlantRun RunOnPlant(const RobotModel& model, const DesignSet& d, const Measureme
                     const LinearController& ctrl, double seconds) {
   sim::PlantOptions options;
   options.drive = sim::DriveMode::kTorque;
-  std::string error;
-  auto plant = sim::Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
+  auto built = sim::Plant::Create(model, options);
+  EXPECT_TRUE(Succeeded(built));
+  const std::unique_ptr<sim::Plant> plant = std::move(built.value());
   sim::Push push;
   push.shape = sim::PushShape::kHalfSine;
   push.start_s = 0.5;
   push.duration_s = 0.2;
   push.peak_N = d.performance.push_scale_N;
   push.height_m = d.plant.push_height_m;
-  EXPECT_TRUE(plant->AddPush(push, &error)) << error;
+  EXPECT_TRUE(Succeeded(plant->AddPush(push)));
   const long every = std::lround(1 / (model.control_rate_hz * options.dt_s));
   const double period_s = static_cast<double>(every) * options.dt_s;
   Eigen::VectorXd xc = Eigen::VectorXd::Zero(ctrl.states());

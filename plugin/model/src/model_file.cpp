@@ -163,12 +163,8 @@ int LineOf(std::string_view path, const FoundElements& found, int root_line) {
   return root_line;
 }
 
-ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
-  ModelLoadResult result;
-  if (!doc.parsed()) {
-    result.errors = doc.errors();
-    return result;
-  }
+Result<RobotModel, std::vector<FileError>> Load(XmlDocument doc, const ModelLoadOptions& options) {
+  if (!doc.parsed()) return Failure(doc.errors());
   XmlElement root = doc.Root();
   const std::string root_name(internal::kModelRootElement);
   // A <robot> root is a model file of schema 1 only when it states a schema, as every one did;
@@ -177,20 +173,15 @@ ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
   if (root.name() != root_name && !former_root) {
     doc.AddError(root.line(),
                  "root element is <" + root.name() + ">, expected <" + root_name + ">");
-    result.errors = doc.errors();
-    return result;
+    return Failure(doc.errors());
   }
-  if (ReportFormerNames(root, doc)) {
-    result.errors = doc.errors();
-    return result;
-  }
+  if (ReportFormerNames(root, doc)) return Failure(doc.errors());
   const std::optional<long long> schema = root.Integer("schema", Presence::kRequired);
   if (schema && *schema != internal::kModelSchemaVersion) {
     doc.AddError(root.line(), root_name + " schema = " + std::to_string(*schema) +
                                   ": unsupported schema version (expected " +
                                   std::to_string(internal::kModelSchemaVersion) + ")");
-    result.errors = doc.errors();
-    return result;
+    return Failure(doc.errors());
   }
   ModelDraft draft;
   if (std::optional<std::string> name = root.String("name", Presence::kRequired)) {
@@ -215,19 +206,20 @@ ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
     }
   }
   doc.ReportUnread();
-  result.errors = doc.errors();
-  if (result.ok()) result.model = draft.model;
-  return result;
+  if (doc.HasErrors()) return Failure(doc.errors());
+  return draft.model;
 }
 
 }  // namespace
 
-ModelLoadResult LoadModelFile(const std::string& path, const ModelLoadOptions& options) {
+Result<RobotModel, std::vector<FileError>> LoadModelFile(const std::string& path,
+                                                         const ModelLoadOptions& options) {
   return Load(XmlDocument::Open(path), options);
 }
 
-ModelLoadResult ParseModelText(std::string_view xml_text, const std::string& path,
-                               const ModelLoadOptions& options) {
+Result<RobotModel, std::vector<FileError>> ParseModelText(std::string_view xml_text,
+                                                          const std::string& path,
+                                                          const ModelLoadOptions& options) {
   return Load(XmlDocument::Parse(xml_text, path), options);
 }
 

@@ -1,5 +1,9 @@
 #include "upright/runner/modules.hpp"
 
+#include <memory>
+#include <string>
+#include <utility>
+
 #include "upright/model/check.hpp"
 
 namespace upright::runner {
@@ -9,10 +13,19 @@ LoadedModule Load(const ControllerEntry& entry, const std::vector<std::string>& 
   LoadedModule loaded;
   std::string path = entry.module;
   if (entry.builtin) {
-    path = host::FindBuiltinModule(entry.module, dirs, &loaded.error);
-    if (path.empty()) return loaded;
+    Result<std::string> found = host::FindBuiltinModule(entry.module, dirs);
+    if (!found) {
+      loaded.error = std::move(found.error());
+      return loaded;
+    }
+    path = std::move(*found);
   }
-  loaded.module = host::Module::Load(path, &loaded.error);
+  Result<std::shared_ptr<host::Module>> module = host::Module::Load(path);
+  if (module) {
+    loaded.module = std::move(*module);
+  } else {
+    loaded.error = std::move(module.error());
+  }
   return loaded;
 }
 

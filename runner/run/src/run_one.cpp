@@ -145,8 +145,14 @@ bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t se
   spec.config = entry.config;
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
-  start->host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
-  if (!start->host) return false;
+  // The set-up's first broken rule, into *error.
+  const auto failed = [error](const std::string& why) {
+    if (error) *error = why;
+    return false;
+  };
+  auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s);
+  if (!host) return failed(host.error());
+  start->host = std::move(*host);
 
   sim::PlantOptions plant_options;
   plant_options.dt_s = scenario.dt_s;
@@ -156,16 +162,17 @@ bool StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t se
   plant_options.drive = start->host->drive();
   plant_options.seed = seed;
   plant_options.sensor_noise = scenario.sensor_noise;
-  start->plant = sim::Plant::Create(scenario.built_model(), plant_options, error);
-  if (!start->plant) return false;
+  auto plant = sim::Plant::Create(scenario.built_model(), plant_options);
+  if (!plant) return failed(plant.error());
+  start->plant = std::move(*plant);
   for (const auto& p : scenario.pushes) {
-    if (!start->plant->AddPush(p, error)) return false;
+    if (Status added = start->plant->AddPush(p); !added) return failed(added.error());
   }
   for (const auto& f : scenario.motor_faults) {
-    if (!start->plant->AddMotorFault(f, error)) return false;
+    if (Status added = start->plant->AddMotorFault(f); !added) return failed(added.error());
   }
   for (const auto& f : scenario.sensor_faults) {
-    if (!start->plant->AddSensorFault(f, error)) return false;
+    if (Status added = start->plant->AddSensorFault(f); !added) return failed(added.error());
   }
   return true;
 }

@@ -205,10 +205,15 @@ bool Check(Scenario& s, std::string* error) {
     *error = why.str();
     return false;
   };
-  if (!s.terrain.IsValid(error)) return false;
+  // The first rule `valid` breaks, into *error.
+  const auto kept = [&](const Status& valid) {
+    if (!valid) *error = valid.error();
+    return valid.has_value();
+  };
+  if (!kept(s.terrain.Validate())) return false;
   const ChassisModel& chassis = s.built_model().chassis;
   for (const auto& p : s.pushes) {
-    if (!p.IsValid(error) || !in_run(p.start_s, "push")) return false;
+    if (!kept(p.Validate()) || !in_run(p.start_s, "push")) return false;
     const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
     if (!NoMoreThan(chassis.outline_bottom_m, p.height_m, scale_m) ||
         !NoMoreThan(p.height_m, chassis.outline_top_m, scale_m)) {
@@ -232,19 +237,19 @@ bool Check(Scenario& s, std::string* error) {
     }
   }
   for (const auto& f : s.motor_faults) {
-    if (!f.IsValid(error) || !in_run(f.start_s, "motor fault")) return false;
+    if (!kept(f.Validate()) || !in_run(f.start_s, "motor fault")) return false;
   }
   for (const auto& f : s.sensor_faults) {
-    if (!f.IsValid(error) || !in_run(f.start_s, "sensor fault")) return false;
+    if (!kept(f.Validate()) || !in_run(f.start_s, "sensor fault")) return false;
   }
   if (!(std::abs(s.initial.pitch_rad) < kPi / 2)) {
     *error = "start pitch_deg must be in (-90, 90)";
     return false;
   }
   if (s.plant_model) {
-    const auto problems = ValidateModel(*s.plant_model);
-    if (!problems.empty()) {
-      *error = "robot: " + problems.front();
+    const auto valid_model = ValidateModel(*s.plant_model);
+    if (!valid_model) {
+      *error = "robot: " + valid_model.error().front();
       return false;
     }
   }
@@ -291,7 +296,13 @@ bool GetScenarioParameter(const Scenario& scenario, const std::string& path, dou
   if (!ParsePath(path, &p, error)) return false;
   std::string element;
   if (RobotElement(p, &element)) {
-    return GetModelField(scenario.built_model(), element, p.attribute, value, error);
+    const Result<double> field = GetModelField(scenario.built_model(), element, p.attribute);
+    if (!field) {
+      *error = field.error();
+      return false;
+    }
+    *value = *field;
+    return true;
   }
   Scenario copy = scenario;  // FindSlot hands out pointers into a scenario it may change
   Slot slot;
@@ -312,8 +323,8 @@ bool SetScenarioParameter(Scenario* scenario, const std::string& path, double va
   std::string element;
   if (RobotElement(p, &element)) {
     RobotModel robot = changed.built_model();
-    if (!SetModelField(&robot, element, p.attribute, value, error)) {
-      *error = path + " = " + Num(value) + ": " + *error;
+    if (Status set = SetModelField(&robot, element, p.attribute, value); !set) {
+      *error = path + " = " + Num(value) + ": " + set.error();
       return false;
     }
     changed.plant_model = robot;

@@ -54,8 +54,12 @@ bool RunLinearTwin(const Scenario& scenario, std::size_t controller,
   spec.config = entry.config;
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
-  const auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, error);
-  if (!host) return false;
+  auto created = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s);
+  if (!created) {
+    if (error) *error = created.error();
+    return false;
+  }
+  const std::unique_ptr<host::ControllerHost> host = std::move(*created);
 
   const RobotModel& robot = scenario.built_model();
   const design::InputKind input = host->drive() == sim::DriveMode::kTorque
