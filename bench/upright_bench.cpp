@@ -79,11 +79,11 @@ FloorLaw SameMotionLaw(const Scenario& scenario) {
   const RobotModel& model = scenario.built_model();
   const design::LinearModel linear = design::Linearise(model, design::InputKind::kTorque);
   const design::DesignWeights weights;
-  const design::GainResult gain =
+  const auto gain =
       design::RobotLqr(linear, design::StateWeight(weights),
                        design::InputWeight(weights, model, design::InputKind::kTorque));
   FloorLaw law;
-  if (gain.ok()) law.K = gain.K;
+  if (gain) law.K = *gain;
   law.equilibrium_pitch_rad = linear.equilibrium_pitch_rad;
   law.pushes = scenario.pushes;
   return law;

@@ -323,9 +323,9 @@ bool ResolveFlags(const DesignOptions& o, design::DesignRequest* request, std::s
     }
     request->push_scale_N = *o.push_scale_N;
   }
-  std::string why;
-  if (request->IsValid(&why)) return true;
-  *error = InFlagTerms(why);
+  const Status valid = request->Validate();
+  if (valid) return true;
+  *error = InFlagTerms(valid.error());
   return false;
 }
 

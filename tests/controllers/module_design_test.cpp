@@ -102,9 +102,10 @@ TEST_P(DemoRobotDesign, LqgEstimatesWithTheFilterDesignAnalyses) {
   // builds it from the robot as the C ABI carries it, sensor resolutions included.
   ASSERT_TRUE(design_.lqg.ok) << design_.lqg.message;
   const design::LinearModel& plant = design_.plant;
-  const design::LqgFilter filter = design::DesignLqgFilter(
+  const auto designed = design::DesignLqgFilter(
       model_, plant, plant, design::DefaultFilterNoise(model_, plant), 1 / model_.control_rate_hz);
-  ASSERT_TRUE(filter.ok()) << filter.message;
+  ASSERT_TRUE(Succeeded(designed));
+  const design::LqgFilter& filter = *designed;
   EXPECT_LT((filter.L_discrete - design_.lqg.L_discrete).norm(), 1e-12);
   auto created = CreateBuiltin("lqg", model_, {}, /*true_state=*/false);
   ASSERT_TRUE(Succeeded(created));

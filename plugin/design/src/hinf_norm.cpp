@@ -81,26 +81,24 @@ std::vector<double> TestFrequencies(const std::vector<double>& crossings) {
 
 }  // namespace
 
-NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
-  NormResult result;
-  result.peak_rad_s = kNaN;
+AnalysisResult<NormPeak> HinfNorm(const StateSpace& system, double relative_tolerance) {
+  // A failure with the largest gain found so far (and where), or none.
+  const auto stopped = [](std::string why, double norm = 0, double peak_rad_s = kNaN) {
+    return Failure(AnalysisFailure<NormPeak>{std::move(why), {norm, peak_rad_s}});
+  };
   if (!(relative_tolerance > 0 && relative_tolerance < 1)) {
-    result.message =
-        "HinfNorm: relative_tolerance = " + internal::FormatNumber(relative_tolerance) +
-        ", must be in (0, 1)";
-    return result;
+    return stopped("HinfNorm: relative_tolerance = " + internal::FormatNumber(relative_tolerance) +
+                   ", must be in (0, 1)");
   }
   StateSpace s = system;
-  if (const std::string error = internal::CheckAndNormalise(&s); !error.empty()) {
-    result.message = "HinfNorm: " + error;
-    return result;
+  if (const Status valid = internal::CheckAndNormalise(&s); !valid) {
+    return stopped("HinfNorm: " + valid.error());
   }
   internal::BalanceStates(&s);
   if (const std::optional<internal::Complex> lambda = internal::UnstableEigenvalue(s.A)) {
-    result.norm = kInf;
-    result.message = "HinfNorm: A has the eigenvalue " + internal::FormatComplex(*lambda) +
-                     ", not in the open left half-plane: the H-infinity norm is infinite";
-    return result;
+    return stopped("HinfNorm: A has the eigenvalue " + internal::FormatComplex(*lambda) +
+                       ", not in the open left half-plane: the H-infinity norm is infinite",
+                   kInf);
   }
 
   // Lower bound: DC (preferred on a tie), infinity, and frequencies taken from the poles.
@@ -143,23 +141,15 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
       bound.Consider(s, low * std::pow(high / low, static_cast<double>(i) / (count - 1)));
     }
   }
-  if (bound.gain == 0) {
-    result.norm = 0;
-    result.peak_rad_s = 0;
-    result.ok = true;
-    result.message = "the transfer function is zero";
-    return result;
-  }
+  if (bound.gain == 0) return NormPeak{0, 0};  // the transfer function is zero
 
   for (int iteration = 1; iteration <= kMaxIterations; ++iteration) {
     const double gamma = (1 + 2 * relative_tolerance) * bound.gain;
     const std::optional<std::vector<double>> crossings = CrossingFrequencies(s, gamma);
     if (!crossings) {
-      result.norm = bound.gain;
-      result.peak_rad_s = bound.omega;
-      result.message = "HinfNorm: the Hamiltonian eigenvalues could not be computed at γ = " +
-                       internal::FormatNumber(gamma) + "; the norm is only a lower bound";
-      return result;
+      return stopped("HinfNorm: the Hamiltonian eigenvalues could not be computed at γ = " +
+                         internal::FormatNumber(gamma) + "; the norm is only a lower bound",
+                     bound.gain, bound.omega);
     }
     double best = 0;
     if (!crossings->empty()) {
@@ -170,19 +160,11 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
     }
     // True crossings at γ bracket an interval where σ̄ > γ, so its midpoint beats γ; when no test
     // point does, the candidates were not true crossings and the norm is below γ.
-    if (best <= gamma) {
-      result.norm = bound.gain;
-      result.peak_rad_s = bound.omega;
-      result.ok = true;
-      result.message = "converged in " + std::to_string(iteration) + " iterations";
-      return result;
-    }
+    if (best <= gamma) return NormPeak{bound.gain, bound.omega};
   }
-  result.norm = bound.gain;
-  result.peak_rad_s = bound.omega;
-  result.message = "HinfNorm: no convergence in " + std::to_string(kMaxIterations) +
-                   " iterations; the norm is only a lower bound";
-  return result;
+  return stopped("HinfNorm: no convergence in " + std::to_string(kMaxIterations) +
+                     " iterations; the norm is only a lower bound",
+                 bound.gain, bound.omega);
 }
 
 }  // namespace upright::design

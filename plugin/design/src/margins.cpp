@@ -209,29 +209,25 @@ void SetDisk(double alpha, LoopMargins* m) {
 
 }  // namespace
 
-LoopMargins SisoMargins(const StateSpace& loop) {
+AnalysisResult<LoopMargins> SisoMargins(const StateSpace& loop) {
   LoopMargins result;
+  // A failure keeping the margins found so far.
+  const auto stopped = [&result](const std::string& why) {
+    return Failure(AnalysisFailure<LoopMargins>{"SisoMargins: " + why, result});
+  };
   StateSpace l = loop;
-  if (const std::string error = internal::CheckAndNormalise(&l); !error.empty()) {
-    result.message = "SisoMargins: " + error;
-    return result;
-  }
+  if (const Status valid = internal::CheckAndNormalise(&l); !valid) return stopped(valid.error());
   if (l.D.rows() != 1 || l.D.cols() != 1) {
-    result.message = "SisoMargins: the loop must have one input and one output, D is " +
-                     std::to_string(l.D.rows()) + "×" + std::to_string(l.D.cols());
-    return result;
+    return stopped("the loop must have one input and one output, D is " +
+                   std::to_string(l.D.rows()) + "×" + std::to_string(l.D.cols()));
   }
   internal::BalanceStates(&l);
   const double d = l.D(0, 0);
   const std::optional<Eigen::MatrixXd> closed = ClosedLoop(l, 1.0);
-  if (!closed) {
-    result.message = "SisoMargins: 1 + D = 0, the feedback loop is not well posed";
-    return result;
-  }
+  if (!closed) return stopped("1 + D = 0, the feedback loop is not well posed");
   if (const std::optional<Complex> lambda = internal::UnstableEigenvalue(*closed)) {
-    result.message = "SisoMargins: the closed loop is unstable, it has the eigenvalue " +
-                     internal::FormatComplex(*lambda);
-    return result;
+    return stopped("the closed loop is unstable, it has the eigenvalue " +
+                   internal::FormatComplex(*lambda));
   }
   const Eigen::VectorXcd open_poles = internal::Eigenvalues(l.A).value_or(Eigen::VectorXcd());
   const Eigen::VectorXcd closed_poles = internal::Eigenvalues(*closed).value_or(Eigen::VectorXcd());
@@ -250,10 +246,7 @@ LoopMargins SisoMargins(const StateSpace& loop) {
   if (d < 0) critical.push_back({-1 / d, kInf});
   const std::optional<std::vector<double>> phase_candidates =
       l.A.rows() > 0 ? ImaginaryAxisZeros(OddPart(l), scale) : std::vector<double>();
-  if (!phase_candidates) {
-    result.message = "SisoMargins: the phase crossover eigenvalue problem failed";
-    return result;
-  }
+  if (!phase_candidates) return stopped("the phase crossover eigenvalue problem failed");
   std::vector<double> phase_crossovers;
   for (double w : *phase_candidates) {
     if (w <= dc_threshold) continue;
@@ -279,10 +272,7 @@ LoopMargins SisoMargins(const StateSpace& loop) {
   // Phase and delay margins from the gain crossovers |L(jω)| = 1.
   const std::optional<std::vector<double>> gain_candidates =
       l.A.rows() > 0 ? ImaginaryAxisZeros(UnitGainGap(l), scale) : std::vector<double>();
-  if (!gain_candidates) {
-    result.message = "SisoMargins: the gain crossover eigenvalue problem failed";
-    return result;
-  }
+  if (!gain_candidates) return stopped("the gain crossover eigenvalue problem failed");
   std::vector<double> gain_crossovers;
   for (double w : *gain_candidates) {
     if (const std::optional<double> polished = Polish(l, w, SquaredGainGap)) {
@@ -314,15 +304,10 @@ LoopMargins SisoMargins(const StateSpace& loop) {
   // (A − B C/(1 + D), B/(1 + D), −C/(1 + D), 1/(1 + D) − ½).
   const StateSpace s_half{*closed, l.B / (1 + d), -l.C / (1 + d),
                           Eigen::MatrixXd::Constant(1, 1, 1 / (1 + d) - 0.5)};
-  const NormResult disk = HinfNorm(s_half);
-  if (!disk.ok) {
-    result.message = "SisoMargins: disk margin: " + disk.message;
-    return result;
-  }
-  SetDisk(disk.norm > 0 ? 1 / disk.norm : kInf, &result);
-  result.disk_rad_s = disk.peak_rad_s;
-  result.ok = true;
-  result.message = "ok";
+  const AnalysisResult<NormPeak> disk = HinfNorm(s_half);
+  if (!disk) return stopped("disk margin: " + disk.error().message);
+  SetDisk(disk->norm > 0 ? 1 / disk->norm : kInf, &result);
+  result.disk_rad_s = disk->peak_rad_s;
   return result;
 }
 
@@ -334,42 +319,43 @@ StateSpace InputSensitivity(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
           Eigen::MatrixXd::Identity(K.rows(), K.rows())};
 }
 
-LoopMargins InputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                         const Eigen::MatrixXd& K, int channel) {
-  LoopMargins result;
+AnalysisResult<LoopMargins> InputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                         const Eigen::MatrixXd& K, int channel) {
+  const auto stopped = [](std::string why) {
+    return Failure(AnalysisFailure<LoopMargins>{std::move(why), LoopMargins{}});
+  };
   const Eigen::Index n = A.rows();
   const Eigen::Index m = B.cols();
   if (A.cols() != n || B.rows() != n || K.rows() != m || K.cols() != n) {
-    result.message = "InputMargins: sizes disagree: A " + std::to_string(A.rows()) + "×" +
-                     std::to_string(A.cols()) + ", B " + std::to_string(B.rows()) + "×" +
-                     std::to_string(B.cols()) + ", K " + std::to_string(K.rows()) + "×" +
-                     std::to_string(K.cols()) + " (need n×n, n×m, m×n)";
-    return result;
+    return stopped("InputMargins: sizes disagree: A " + std::to_string(A.rows()) + "×" +
+                   std::to_string(A.cols()) + ", B " + std::to_string(B.rows()) + "×" +
+                   std::to_string(B.cols()) + ", K " + std::to_string(K.rows()) + "×" +
+                   std::to_string(K.cols()) + " (need n×n, n×m, m×n)");
   }
   if (channel < 0 || channel >= m) {
-    result.message = "InputMargins: channel = " + std::to_string(channel) + ", must be in [0, " +
-                     std::to_string(m) + ")";
-    return result;
+    return stopped("InputMargins: channel = " + std::to_string(channel) + ", must be in [0, " +
+                   std::to_string(m) + ")");
   }
   // L_j(s) = K_j (sI − A + Σ_{i≠j} b_i K_i)⁻¹ b_j.
   const Eigen::MatrixXd b_j = B.col(channel);
   const Eigen::MatrixXd k_j = K.row(channel);
-  result = SisoMargins({A - B * K + b_j * k_j, b_j, k_j, Eigen::MatrixXd::Zero(1, 1)});
-  if (!result.ok) {
-    result.message = "input channel " + std::to_string(channel) + ": " + result.message;
+  AnalysisResult<LoopMargins> result =
+      SisoMargins({A - B * K + b_j * k_j, b_j, k_j, Eigen::MatrixXd::Zero(1, 1)});
+  if (!result) {
+    result.error().message =
+        "input channel " + std::to_string(channel) + ": " + result.error().message;
   }
   return result;
 }
 
-LoopMargins WorstOf(const std::vector<LoopMargins>& channels) {
-  LoopMargins worst;
+AnalysisResult<LoopMargins> WorstOf(const std::vector<AnalysisResult<LoopMargins>>& channels) {
   if (channels.empty()) {
-    worst.message = "no input channels";
-    return worst;
+    return Failure(AnalysisFailure<LoopMargins>{"no input channels", LoopMargins{}});
   }
+  LoopMargins worst;
   for (size_t j = 0; j < channels.size(); ++j) {
-    const LoopMargins& c = channels[j];
-    if (!c.ok) return c;
+    if (!channels[j]) return channels[j];
+    const LoopMargins& c = *channels[j];
     if (j == 0) {
       worst = c;
       continue;
@@ -395,18 +381,17 @@ LoopMargins WorstOf(const std::vector<LoopMargins>& channels) {
       worst.disk_rad_s = c.disk_rad_s;
     }
   }
-  worst.message = "worst over " + std::to_string(channels.size()) + " input channels";
   return worst;
 }
 
-LoopMargins WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                              const Eigen::MatrixXd& K) {
-  std::vector<LoopMargins> channels;
+AnalysisResult<LoopMargins> WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                              const Eigen::MatrixXd& K) {
+  std::vector<AnalysisResult<LoopMargins>> channels;
   for (Eigen::Index j = 0; j < B.cols(); ++j) {
     channels.push_back(InputMargins(A, B, K, static_cast<int>(j)));
   }
-  LoopMargins worst = WorstOf(channels);
-  if (B.cols() == 0) worst.message = "WorstInputMargins: B has no columns";
+  AnalysisResult<LoopMargins> worst = WorstOf(channels);
+  if (B.cols() == 0) worst.error().message = "WorstInputMargins: B has no columns";
   return worst;
 }
 
