@@ -75,7 +75,7 @@ Status CheckModelAgainstOptions(const RobotModel& model, const PlantOptions& opt
   return Failure(why.str());
 }
 
-// Absolute value ramp of width `band` around zero: a smoothed sign.
+// A smoothed sign: x / band clamped to [-1, 1], a linear ramp from -1 to 1 across |x| < band.
 double SmoothSign(double x, double band) { return std::clamp(x / band, -1.0, 1.0); }
 
 }  // namespace
