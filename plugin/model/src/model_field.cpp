@@ -59,7 +59,7 @@ Status SetModelField(RobotModel* model, std::string_view element, std::string_vi
     return Failure(std::string(element) + " " + std::string(attribute) +
                    ": must be a finite number");
   }
-  if (auto problem = internal::CheckField(**rule, value)) return Failure(*problem);
+  if (Status kept = internal::CheckField(**rule, value); !kept) return kept;
   *(*rule)->field(draft) = value;
   *model = draft.model;
   return {};

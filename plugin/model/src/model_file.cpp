@@ -96,8 +96,8 @@ void ReadFields(FoundElements& found, ModelDraft& draft, XmlDocument& doc) {
     if (!value) continue;
     given[i] = true;
     *rule.field(draft) = *value;
-    if (std::optional<std::string> problem = internal::CheckField(rule, *value)) {
-      doc.AddError(element->second.line(), *problem);
+    if (Status kept = internal::CheckField(rule, *value); !kept) {
+      doc.AddError(element->second.line(), kept.error());
     }
   }
   // Defaults last, since derived ones depend on fields read above.
@@ -193,15 +193,15 @@ Result<RobotModel, std::vector<FileError>> Load(XmlDocument doc, const ModelLoad
   ReadFields(found, draft, doc);
   if (!doc.HasErrors()) {
     for (const internal::CrossRule& rule : internal::CrossRules()) {
-      if (std::optional<std::string> problem = rule.check(draft.model)) {
-        doc.AddError(LineOf(rule.element, found, root.line()), *problem);
+      if (Status kept = rule.check(draft.model); !kept) {
+        doc.AddError(LineOf(rule.element, found, root.line()), kept.error());
       }
     }
   }
   if (!doc.HasErrors() && options.check_default_step) {
     for (const internal::StepRule& rule : internal::StepRules()) {
-      if (std::optional<std::string> problem = rule.check(draft.model)) {
-        doc.AddError(LineOf(rule.element, found, root.line()), *problem);
+      if (Status kept = rule.check(draft.model); !kept) {
+        doc.AddError(LineOf(rule.element, found, root.line()), kept.error());
       }
     }
   }

@@ -19,11 +19,13 @@ Result<void, std::vector<std::string>> ValidateModel(const RobotModel& model) {
     if (element != nullptr && element->present != nullptr && !*element->present(draft.model)) {
       continue;
     }
-    if (auto problem = internal::CheckField(rule, *rule.field(draft))) problems.push_back(*problem);
+    if (Status kept = internal::CheckField(rule, *rule.field(draft)); !kept) {
+      problems.push_back(kept.error());
+    }
   }
   if (problems.empty()) {
     for (const internal::CrossRule& rule : internal::CrossRules()) {
-      if (auto problem = rule.check(model)) problems.push_back(*problem);
+      if (Status kept = rule.check(model); !kept) problems.push_back(kept.error());
     }
   }
   if (!problems.empty()) return Failure(std::move(problems));
