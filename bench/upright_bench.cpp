@@ -13,6 +13,7 @@
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
+#include <memory>
 #include <string>
 #include <thread>
 #include <vector>
@@ -81,11 +82,11 @@ FloorLaw SameMotionLaw(const Scenario& scenario) {
   const RobotModel& model = scenario.built_model();
   const design::LinearModel linear = design::Linearise(model, design::InputKind::kTorque);
   const design::DesignWeights weights;
-  const design::GainResult gain =
+  const auto gain =
       design::RobotLqr(linear, design::StateWeight(weights),
                        design::InputWeight(weights, model, design::InputKind::kTorque));
   FloorLaw law;
-  if (gain.ok()) law.K = gain.K;
+  if (gain) law.K = *gain;
   law.equilibrium_pitch_rad = linear.equilibrium_pitch_rad;
   law.pushes = scenario.pushes;
   return law;
@@ -138,12 +139,12 @@ double FloorPerStep(const RobotModel& model, const sim::PlantOptions& options, c
 // readout, the sensor record with its noise) under the floor's still law read from the true
 // state, with no timeline, controller, metrics or trace. Returns seconds per step.
 double PlantPerStep(const RobotModel& model, const sim::PlantOptions& options, long steps) {
-  std::string error;
-  auto plant = sim::Plant::Create(model, options, &error);
-  if (!plant) {
-    std::fprintf(stderr, "upright-bench: %s\n", error.c_str());
+  auto created = sim::Plant::Create(model, options);
+  if (!created) {
+    std::fprintf(stderr, "upright-bench: %s\n", created.error().c_str());
     return 0;
   }
+  const std::unique_ptr<sim::Plant> plant = std::move(*created);
   const auto start = Clock::now();
   for (long k = 0; k < steps; ++k) {
     const sim::TrueState& s = plant->truth();
@@ -177,12 +178,17 @@ double Quantile(std::vector<double> values, double q) {
 }
 
 std::shared_ptr<upright::host::Module> Builtin(const std::string& name) {
-  std::string error;
-  const auto path =
-      upright::host::FindBuiltinModule(name, upright::host::DefaultModuleDirs(), &error);
-  auto module = path.empty() ? nullptr : upright::host::Module::Load(path, &error);
-  if (!module) std::fprintf(stderr, "upright-bench: %s\n", error.c_str());
-  return module;
+  const auto path = upright::host::FindBuiltinModule(name, upright::host::DefaultModuleDirs());
+  if (!path) {
+    std::fprintf(stderr, "upright-bench: %s\n", path.error().c_str());
+    return nullptr;
+  }
+  const auto module = upright::host::Module::Load(*path);
+  if (!module) {
+    std::fprintf(stderr, "upright-bench: %s\n", module.error().c_str());
+    return nullptr;
+  }
+  return *module;
 }
 
 // Peak resident memory (MB) of a fresh child process that runs one run.
@@ -305,9 +311,8 @@ int main(int argc, char** argv) {
   {
     sim::PlantOptions options = floor_options;
     const int builds = 50;
-    std::string error;
     const auto start = Clock::now();
-    for (int i = 0; i < builds; ++i) sim::Plant::Create(scenario.built_model(), options, &error);
+    for (int i = 0; i < builds; ++i) (void)sim::Plant::Create(scenario.built_model(), options);
     Print("world_build_teardown_ms", Seconds(start) / builds * 1e3, "ms");
   }
 

@@ -20,8 +20,8 @@ class HinfController {
  public:
   static constexpr const char* kName = "hinf";
 
-  static std::unique_ptr<HinfController> Create(const ModuleContext& context,
-                                                upright_create_result* result) {
+  static Result<std::unique_ptr<HinfController>, ModuleError> Create(
+      const ModuleContext& context, upright_create_result* result) {
     ConfigReader reader(context.config);
     const CommonConfig config =
         ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
@@ -30,51 +30,57 @@ class HinfController {
     reader.Number("gamma", NumberRule::kPositive, &gamma);
     reader.Number("gamma_factor", NumberRule::kAboveOne, &gamma_factor);
     if (reader.Has("gamma") && reader.Has("gamma_factor")) {
-      throw ModuleError(UPRIGHT_BAD_CONFIG, "gamma and gamma_factor: give one of them, not both");
+      reader.Refuse("gamma and gamma_factor: give one of them, not both");
     }
-    reader.Finish();
+    if (auto read = reader.Finish(); !read) return Failure(read.error());
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, config.input);
     const design::StateMatrix Q = design::StateWeight(config.weights);
     const Eigen::Matrix2d R = design::InputWeight(config.weights, context.robot, config.input);
     // The disturbance w = 1 is a push of 10 % of the robot's weight, as in `upright design`.
     const double push_scale_N = 0.1 * TotalMass(context.robot_abi) * kStandardGravity_m_s2;
-    const design::GammaSearch search = design::RobotOptimalGamma(plant, Q, R, push_scale_N);
-    if (!search.ok()) {
-      throw ModuleError(UPRIGHT_UNSUPPORTED, "H-infinity gamma search failed: " + search.message);
+    const Result<design::GammaSearch, design::SolveError> search =
+        design::RobotOptimalGamma(plant, Q, R, push_scale_N);
+    if (!search) {
+      return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
+                                 "H-infinity gamma search failed: " + search.error().message});
     }
     if (gamma == 0) {
-      gamma = gamma_factor * search.gamma_opt;
-    } else if (!(gamma > search.gamma_opt)) {
+      gamma = gamma_factor * search->gamma_opt;
+    } else if (!(gamma > search->gamma_opt)) {
       std::ostringstream why;
-      why << "gamma = " << gamma << ": must be > gamma_opt = " << search.gamma_opt
+      why << "gamma = " << gamma << ": must be > gamma_opt = " << search->gamma_opt
           << " for this robot and these weights";
-      throw ModuleError(UPRIGHT_BAD_CONFIG, why.str());
+      return Failure(ModuleError{UPRIGHT_BAD_CONFIG, why.str()});
     }
     // The continuous-time gain, applied at the module's rate: at the demo robots' control rates
     // (≥ 100 Hz, well above the closed-loop bandwidth) the sampling itself changes it little.
     // Sampling together with the sensors' latency and the encoder rate's averaging does matter
     // on voltage commands: on the courier robot with the estimated state the loop chatters at
     // the Nyquist rate (±10 V at 100 Hz) while it balances.
-    const design::GainResult hinf = design::RobotHinf(plant, Q, R, push_scale_N, gamma);
-    if (!hinf.ok()) {
+    const Result<Eigen::MatrixXd, design::SolveError> hinf =
+        design::RobotHinf(plant, Q, R, push_scale_N, gamma);
+    if (!hinf) {
       std::ostringstream why;
-      why << "H-infinity design at gamma = " << gamma << " failed: " << hinf.message;
-      throw ModuleError(UPRIGHT_UNSUPPORTED, why.str());
+      why << "H-infinity design at gamma = " << gamma << " failed: " << hinf.error().message;
+      return Failure(ModuleError{UPRIGHT_UNSUPPORTED, why.str()});
     }
     std::vector<const char*> diagnostics = StateFeedbackLaw::DiagnosticNames();
     diagnostics.push_back("gamma");
-    Declare(config.input, diagnostics, result);
+    if (auto declared = Declare(config.input, diagnostics, result); !declared) {
+      return Failure(declared.error());
+    }
     std::ostringstream log;
-    log << "hinf: gamma = " << gamma << " (gamma_opt = " << search.gamma_opt << "), K =\n"
-        << hinf.K;
+    log << "hinf: gamma = " << gamma << " (gamma_opt = " << search->gamma_opt << "), K =\n"
+        << *hinf;
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
-    return std::unique_ptr<HinfController>(new HinfController(
-        StateSource(config.state, estimator),
-        StateFeedbackLaw(plant, hinf.K, design::InputLimit(context.robot, config.input),
-                         ReferenceTracker(context.period_s, config.max_accel_m_s2)),
-        gamma));
+    Result<StateFeedbackLaw, ModuleError> law =
+        StateFeedbackLaw::For(plant, *hinf, design::InputLimit(context.robot, config.input),
+                              ReferenceTracker(context.period_s, config.max_accel_m_s2));
+    if (!law) return Failure(law.error());
+    return std::unique_ptr<HinfController>(
+        new HinfController(StateSource(config.state, estimator), std::move(*law), gamma));
   }
 
   void Reset() {

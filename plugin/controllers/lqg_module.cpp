@@ -36,21 +36,23 @@ struct Filter {
   Eigen::Matrix<double, kStates, kMeasurements> L;
 };
 
-Filter DesignFilter(const ModuleContext& context, const design::LinearModel& plant) {
+Result<Filter, ModuleError> DesignFilter(const ModuleContext& context,
+                                         const design::LinearModel& plant) {
   const design::LinearModel torque_plant =
       LinearFromAbi(context.linear_abi, context.robot_abi, design::InputKind::kTorque);
-  const design::LqgFilter designed =
+  const Result<design::LqgFilter, design::SolveError> designed =
       design::DesignLqgFilter(context.robot, plant, torque_plant,
                               design::DefaultFilterNoise(context.robot, plant), context.period_s);
-  if (!designed.ok()) {
-    throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete Kalman design failed: " + designed.message);
+  if (!designed) {
+    return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
+                               "discrete Kalman design failed: " + designed.error().message});
   }
   Filter f;
-  f.Ad = designed.Ad;
-  f.Bd = designed.Bd;
-  f.C = designed.sensors.C;
-  f.D = designed.sensors.D;
-  f.L = designed.L_discrete;
+  f.Ad = designed->Ad;
+  f.Bd = designed->Bd;
+  f.C = designed->sensors.C;
+  f.D = designed->sensors.D;
+  f.L = designed->L_discrete;
   return f;
 }
 
@@ -58,30 +60,36 @@ class LqgController {
  public:
   static constexpr const char* kName = "lqg";
 
-  static std::unique_ptr<LqgController> Create(const ModuleContext& context,
-                                               upright_create_result* result) {
+  static Result<std::unique_ptr<LqgController>, ModuleError> Create(const ModuleContext& context,
+                                                                    upright_create_result* result) {
     ConfigReader reader(context.config);
     const CommonConfig config =
         ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
-    reader.Finish();
+    if (auto read = reader.Finish(); !read) return Failure(read.error());
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, config.input);
-    const design::Gain gain = DiscreteLqrFor(context, config, plant);
-    const Filter filter = DesignFilter(context, plant);
+    const Result<design::Gain, ModuleError> gain = DiscreteLqrFor(context, config, plant);
+    if (!gain) return Failure(gain.error());
+    const Result<Filter, ModuleError> filter = DesignFilter(context, plant);
+    if (!filter) return Failure(filter.error());
     std::vector<const char*> diagnostics = StateFeedbackLaw::DiagnosticNames();
     diagnostics.push_back("accel_innovation");
-    Declare(config.input, diagnostics, result);
+    if (auto declared = Declare(config.input, diagnostics, result); !declared) {
+      return Failure(declared.error());
+    }
     std::ostringstream log;
     log << "lqg: discrete LQR and Kalman filter at " << context.rate_hz << " Hz, K =\n"
-        << gain << "\nL =\n"
-        << filter.L;
+        << *gain << "\nL =\n"
+        << filter->L;
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
-    return std::unique_ptr<LqgController>(new LqgController(
-        config.state, context.robot, plant.equilibrium_pitch_rad, filter,
-        StateSource(config.state, estimator),
-        StateFeedbackLaw(plant, gain, design::InputLimit(context.robot, config.input),
-                         ReferenceTracker(context.period_s, config.max_accel_m_s2))));
+    Result<StateFeedbackLaw, ModuleError> law =
+        StateFeedbackLaw::For(plant, *gain, design::InputLimit(context.robot, config.input),
+                              ReferenceTracker(context.period_s, config.max_accel_m_s2));
+    if (!law) return Failure(law.error());
+    return std::unique_ptr<LqgController>(
+        new LqgController(config.state, context.robot, plant.equilibrium_pitch_rad, *filter,
+                          StateSource(config.state, estimator), std::move(*law)));
   }
 
   void Reset() {

@@ -19,24 +19,30 @@ class LqrController {
  public:
   static constexpr const char* kName = "lqr";
 
-  static std::unique_ptr<LqrController> Create(const ModuleContext& context,
-                                               upright_create_result* result) {
+  static Result<std::unique_ptr<LqrController>, ModuleError> Create(const ModuleContext& context,
+                                                                    upright_create_result* result) {
     ConfigReader reader(context.config);
     const CommonConfig config =
         ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
-    reader.Finish();
+    if (auto read = reader.Finish(); !read) return Failure(read.error());
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, config.input);
-    const design::Gain gain = DiscreteLqrFor(context, config, plant);
-    Declare(config.input, StateFeedbackLaw::DiagnosticNames(), result);
+    const Result<design::Gain, ModuleError> gain = DiscreteLqrFor(context, config, plant);
+    if (!gain) return Failure(gain.error());
+    if (auto declared = Declare(config.input, StateFeedbackLaw::DiagnosticNames(), result);
+        !declared) {
+      return Failure(declared.error());
+    }
     std::ostringstream log;
-    log << "lqr: discrete LQR at " << context.rate_hz << " Hz, K =\n" << gain;
+    log << "lqr: discrete LQR at " << context.rate_hz << " Hz, K =\n" << *gain;
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
-    return std::unique_ptr<LqrController>(new LqrController(
-        StateSource(config.state, estimator),
-        StateFeedbackLaw(plant, gain, design::InputLimit(context.robot, config.input),
-                         ReferenceTracker(context.period_s, config.max_accel_m_s2))));
+    Result<StateFeedbackLaw, ModuleError> law =
+        StateFeedbackLaw::For(plant, *gain, design::InputLimit(context.robot, config.input),
+                              ReferenceTracker(context.period_s, config.max_accel_m_s2));
+    if (!law) return Failure(law.error());
+    return std::unique_ptr<LqrController>(
+        new LqrController(StateSource(config.state, estimator), std::move(*law)));
   }
 
   void Reset() {

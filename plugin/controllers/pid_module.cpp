@@ -22,12 +22,12 @@ class PidController {
  public:
   static constexpr const char* kName = "pid";
 
-  static std::unique_ptr<PidController> Create(const ModuleContext& context,
-                                               upright_create_result* result) {
+  static Result<std::unique_ptr<PidController>, ModuleError> Create(const ModuleContext& context,
+                                                                    upright_create_result* result) {
     ConfigReader reader(context.config);
     const CommonConfig config =
         ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/false);
-    reader.Finish();
+    if (auto read = reader.Finish(); !read) return Failure(read.error());
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, design::InputKind::kTorque);
     const design::PidGains gains = design::TunePid(plant, config.weights.max_tilt_deg);
@@ -36,15 +36,19 @@ class PidController {
                           gains.yaw_kp_Nm_s_per_rad,  gains.yaw_ki_Nm_per_rad};
     for (double g : all) {
       if (!std::isfinite(g)) {
-        throw ModuleError(UPRIGHT_UNSUPPORTED,
-                          "PID tuning gave a non-finite gain (is the robot's upright unstable "
-                          "and its pitch controllable from the wheels?)");
+        return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
+                                   "PID tuning gave a non-finite gain (is the robot's upright "
+                                   "unstable and its pitch controllable from the wheels?)"});
       }
     }
-    Declare(design::InputKind::kTorque,
-            {"pitch_est_rad", "pitch_rate_est_rad_s", "speed_est_m_s", "yaw_rate_est_rad_s",
-             "tilt_ref_rad", "speed_integral_m", "yaw_integral_rad"},
-            result);
+    if (auto declared =
+            Declare(design::InputKind::kTorque,
+                    {"pitch_est_rad", "pitch_rate_est_rad_s", "speed_est_m_s", "yaw_rate_est_rad_s",
+                     "tilt_ref_rad", "speed_integral_m", "yaw_integral_rad"},
+                    result);
+        !declared) {
+      return Failure(declared.error());
+    }
     std::ostringstream log;
     log << "pid: tilt kp " << gains.tilt_kp_Nm_per_rad << " kd " << gains.tilt_kd_Nm_s_per_rad
         << ", speed kp " << gains.speed_kp_rad_per_m_s << " ki " << gains.speed_ki_rad_per_m

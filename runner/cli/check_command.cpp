@@ -122,11 +122,11 @@ int RunCheck(const std::vector<std::string>& args) {
       ++bad;
       continue;
     }
-    const ModelLoadResult result = LoadModelFile(path);
-    if (result.ok()) {
-      Log().Info(path + ": ok (robot model '" + result.model.name + "')");
+    const auto result = LoadModelFile(path);
+    if (result) {
+      Log().Info(path + ": ok (robot model '" + result->name + "')");
     } else {
-      for (const auto& e : result.errors) Log().Error(e.ToString());
+      for (const auto& e : result.error()) Log().Error(e.ToString());
       ++bad;
     }
   }

@@ -351,8 +351,7 @@ Result<design::DesignRequest> ResolveFlags(const DesignOptions& o) {
     }
     request.push_scale_N = *o.push_scale_N;
   }
-  std::string why;  // the request's own check says what is wrong here
-  if (!request.IsValid(&why)) return Failure(InFlagTerms(why));
+  if (const Status valid = request.Validate(); !valid) return Failure(InFlagTerms(valid.error()));
   return request;
 }
 
@@ -366,17 +365,17 @@ int RunDesign(const DesignOptions& options) {
   }
   const design::DesignRequest& request = *resolved;
   // A design never steps the physics, so a robot whose rates suit another step still designs.
-  const ModelLoadResult loaded =
+  const auto loaded =
       LoadModelFile(options.model_path, ModelLoadOptions{.check_default_step = false});
-  if (!loaded.ok()) {
-    for (const auto& e : loaded.errors) Log().Error(e.ToString());
+  if (!loaded) {
+    for (const auto& e : loaded.error()) Log().Error(e.ToString());
     return kExitBadInput;
   }
-  const DesignSet set = design::DesignAll(loaded.model, request);
+  const DesignSet set = design::DesignAll(*loaded, request);
   if (options.json) {
-    std::cout << Json(loaded.model, set);
+    std::cout << Json(*loaded, set);
   } else {
-    PrintText(loaded.model, set);
+    PrintText(*loaded, set);
   }
   std::cout.flush();
   std::fflush(stdout);

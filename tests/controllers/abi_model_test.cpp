@@ -34,12 +34,10 @@ upright_robot ValidRobot() {
 
 std::string CheckError(const upright_robot& robot) {
   const upright_linear_model linear{};  // all zero: finite
-  try {
-    CheckAbiModel(robot, linear);
-  } catch (const ModuleError& e) {
-    return e.what();
-  }
-  return "";
+  const Result<void, ModuleError> usable = CheckAbiModel(robot, linear);
+  if (usable) return "";
+  EXPECT_EQ(usable.error().status, UPRIGHT_UNSUPPORTED) << usable.error().message;
+  return usable.error().message;
 }
 
 TEST(AbiModel, ReadsTheResolutionsWhenTheStructCarriesThem) {

@@ -12,6 +12,7 @@
 #include <utility>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/host/module.hpp"
 #include "upright/model/conventions.hpp"
@@ -25,33 +26,33 @@ inline constexpr double kDeg = kPi / 180;
 // models/<name>.xml, or a test failure.
 inline RobotModel DemoRobot(const std::string& name) {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name + ".xml");
-  EXPECT_TRUE(loaded.ok()) << name;
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded)) << name;
+  return loaded.value_or(RobotModel{});
 }
 
 // The built-in module `name` as the host finds it, or null with a test failure.
 inline std::shared_ptr<Module> Builtin(const std::string& name) {
-  std::string error;
-  const std::string path = FindBuiltinModule(name, DefaultModuleDirs(), &error);
-  EXPECT_FALSE(path.empty()) << error;
-  if (path.empty()) return nullptr;
-  auto module = Module::Load(path, &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
+  const Result<std::string> path = FindBuiltinModule(name, DefaultModuleDirs());
+  EXPECT_TRUE(Succeeded(path));
+  if (!path) return nullptr;
+  auto module = Module::Load(*path);
+  EXPECT_TRUE(Succeeded(module));
+  return module.value_or(nullptr);
 }
 
 using Config = std::vector<std::pair<std::string, std::string>>;
 
-// ControllerHost::Create for a built-in at the robot's control rate; null and *error when the
-// module refuses.
-inline std::unique_ptr<ControllerHost> CreateBuiltin(const std::string& name,
-                                                     const RobotModel& model, const Config& config,
-                                                     bool true_state, std::string* error) {
+// ControllerHost::Create for a built-in at the robot's control rate; a failure when the module
+// refuses.
+inline Result<std::unique_ptr<ControllerHost>> CreateBuiltin(const std::string& name,
+                                                             const RobotModel& model,
+                                                             const Config& config,
+                                                             bool true_state) {
   ControllerSpec spec;
   spec.module = Builtin(name);
   spec.config = config;
   spec.true_state = true_state;
-  return ControllerHost::Create(spec, model, sim::PlantOptions{}.dt_s, error);
+  return ControllerHost::Create(spec, model, sim::PlantOptions{}.dt_s);
 }
 
 struct RunSettings {
@@ -82,14 +83,22 @@ inline RunFigures RunBuiltin(const std::string& name, const std::string& robot,
                              const RunSettings& settings) {
   RunFigures f;
   const RobotModel model = DemoRobot(robot);
-  auto host = CreateBuiltin(name, model, settings.config, settings.true_state, &f.error);
-  if (!host) return f;
+  auto created = CreateBuiltin(name, model, settings.config, settings.true_state);
+  if (!created) {
+    f.error = created.error();
+    return f;
+  }
+  const std::unique_ptr<ControllerHost> host = std::move(*created);
   sim::PlantOptions options;
   options.initial.pitch_rad = settings.initial_pitch_rad;
   options.sensor_noise = true;
   options.drive = host->drive();
-  auto plant = sim::Plant::Create(model, options, &f.error);
-  if (!plant) return f;
+  auto built = sim::Plant::Create(model, options);
+  if (!built) {
+    f.error = built.error();
+    return f;
+  }
+  const std::unique_ptr<sim::Plant> plant = std::move(*built);
   const long steps = std::lround(settings.duration_s / options.dt_s);
   const long late_from = steps / 2;
   const long final_from = steps - std::lround(1.0 / options.dt_s);

@@ -8,6 +8,7 @@
 #include <utility>
 
 #include "builtin_run.hpp"
+#include "succeeded.hpp"
 
 namespace upright::host {
 namespace {
@@ -18,10 +19,9 @@ using testing::DemoRobot;
 
 // The error of a create that must fail.
 std::string Refusal(const std::string& module, const Config& config, bool true_state = false) {
-  std::string error;
-  auto host = CreateBuiltin(module, DemoRobot("courier"), config, true_state, &error);
-  EXPECT_EQ(host, nullptr) << module << " accepted the configuration";
-  return error;
+  const auto host = CreateBuiltin(module, DemoRobot("courier"), config, true_state);
+  EXPECT_FALSE(host.has_value()) << module << " accepted the configuration";
+  return host ? std::string() : host.error();
 }
 
 class EveryBuiltin : public ::testing::TestWithParam<std::string> {};
@@ -59,15 +59,14 @@ TEST_P(EveryBuiltin, RefusesTheTrueStateWhenTheHostDoesNotOfferIt) {
 }
 
 TEST_P(EveryBuiltin, AcceptsTheTrueStateWhenOffered) {
-  std::string error;
-  auto host = CreateBuiltin(GetParam(), DemoRobot("courier"), {{"state", "true"}}, true, &error);
-  EXPECT_NE(host, nullptr) << error;
+  EXPECT_TRUE(
+      Succeeded(CreateBuiltin(GetParam(), DemoRobot("courier"), {{"state", "true"}}, true)));
 }
 
 TEST_P(EveryBuiltin, CommandsTorqueByDefaultAndDeclaresItsEstimate) {
-  std::string error;
-  auto host = CreateBuiltin(GetParam(), DemoRobot("tabletop"), {}, false, &error);
-  ASSERT_NE(host, nullptr) << error;
+  const auto created = CreateBuiltin(GetParam(), DemoRobot("tabletop"), {}, false);
+  ASSERT_TRUE(Succeeded(created));
+  const auto& host = *created;
   EXPECT_EQ(host->drive(), sim::DriveMode::kTorque);
   const auto& names = host->diagnostic_names();
   EXPECT_NE(std::find(names.begin(), names.end(), "pitch_est_rad"), names.end());
@@ -78,10 +77,10 @@ INSTANTIATE_TEST_SUITE_P(Builtins, EveryBuiltin, ::testing::Values("lqr", "hinf"
 class StateFeedbackBuiltin : public ::testing::TestWithParam<std::string> {};
 
 TEST_P(StateFeedbackBuiltin, CommandsVoltageWhenAsked) {
-  std::string error;
-  auto host =
-      CreateBuiltin(GetParam(), DemoRobot("courier"), {{"input", "voltage"}}, false, &error);
-  ASSERT_NE(host, nullptr) << error;
+  const auto created =
+      CreateBuiltin(GetParam(), DemoRobot("courier"), {{"input", "voltage"}}, false);
+  ASSERT_TRUE(Succeeded(created));
+  const auto& host = *created;
   EXPECT_EQ(host->drive(), sim::DriveMode::kVoltage);
   const auto& names = host->diagnostic_names();
   EXPECT_NE(std::find(names.begin(), names.end(), "x_est_m"), names.end());
@@ -114,18 +113,16 @@ TEST(HinfModule, RefusesGammaAndGammaFactorTogether) {
 }
 
 TEST(HinfModule, DeclaresItsGamma) {
-  std::string error;
-  auto host = CreateBuiltin("hinf", DemoRobot("courier"), {{"gamma", "10"}}, false, &error);
-  ASSERT_NE(host, nullptr) << error;
+  const auto created = CreateBuiltin("hinf", DemoRobot("courier"), {{"gamma", "10"}}, false);
+  ASSERT_TRUE(Succeeded(created));
+  const auto& host = *created;
   const auto& names = host->diagnostic_names();
   EXPECT_NE(std::find(names.begin(), names.end(), "gamma"), names.end());
 }
 
 TEST(LqrModule, KeyValuesMayCarrySurroundingSpaces) {
-  std::string error;
-  auto host = CreateBuiltin("lqr", DemoRobot("courier"),
-                            {{"max_tilt_deg", " 4 "}, {"state", " estimated"}}, false, &error);
-  EXPECT_NE(host, nullptr) << error;
+  EXPECT_TRUE(Succeeded(CreateBuiltin("lqr", DemoRobot("courier"),
+                                      {{"max_tilt_deg", " 4 "}, {"state", " estimated"}}, false)));
 }
 
 }  // namespace

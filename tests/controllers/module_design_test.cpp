@@ -11,6 +11,7 @@
 #include <string>
 
 #include "builtin_run.hpp"
+#include "succeeded.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/design/lqg_filter.hpp"
 #include "upright/model/conventions.hpp"
@@ -33,16 +34,17 @@ struct FirstTick {
 FirstTick RunFirstTick(const std::string& module, const RobotModel& model, Config config) {
   FirstTick out;
   config.emplace_back("state", "true");
-  std::string error;
-  out.host = CreateBuiltin(module, model, config, /*true_state=*/true, &error);
-  EXPECT_NE(out.host, nullptr) << error;
-  if (!out.host) return out;
+  auto host = CreateBuiltin(module, model, config, /*true_state=*/true);
+  EXPECT_TRUE(Succeeded(host));
+  if (!host) return out;
+  out.host = std::move(*host);
   sim::PlantOptions options;
   options.initial.pitch_rad = 3 * kDeg;
   options.drive = out.host->drive();
-  auto plant = sim::Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
-  if (!plant) return out;
+  auto built = sim::Plant::Create(model, options);
+  EXPECT_TRUE(Succeeded(built));
+  if (!built) return out;
+  const std::unique_ptr<sim::Plant> plant = std::move(*built);
   const sim::TrueState& s = plant->truth();
   out.truth << 0, s.forward_speed_m_s, s.pitch_rad, s.pitch_rate_rad_s, 0, s.yaw_rate_rad_s;
   EXPECT_TRUE(out.host->Tick(*plant, Reference{})) << out.host->fault();
@@ -100,13 +102,14 @@ TEST_P(DemoRobotDesign, LqgEstimatesWithTheFilterDesignAnalyses) {
   // builds it from the robot as the C ABI carries it, sensor resolutions included.
   ASSERT_TRUE(design_.lqg.ok) << design_.lqg.message;
   const design::LinearModel& plant = design_.plant;
-  const design::LqgFilter filter = design::DesignLqgFilter(
+  const auto designed = design::DesignLqgFilter(
       model_, plant, plant, design::DefaultFilterNoise(model_, plant), 1 / model_.control_rate_hz);
-  ASSERT_TRUE(filter.ok()) << filter.message;
+  ASSERT_TRUE(Succeeded(designed));
+  const design::LqgFilter& filter = *designed;
   EXPECT_LT((filter.L_discrete - design_.lqg.L_discrete).norm(), 1e-12);
-  std::string error;
-  auto host = CreateBuiltin("lqg", model_, {}, /*true_state=*/false, &error);
-  ASSERT_NE(host, nullptr) << error;
+  auto created = CreateBuiltin("lqg", model_, {}, /*true_state=*/false);
+  ASSERT_TRUE(Succeeded(created));
+  const std::unique_ptr<ControllerHost> host = std::move(*created);
   const double g = kStandardGravity_m_s2, r = model_.wheel.radius_m, track = model_.wheel.track_m;
   sim::SensorSample first;
   first.gyro_rad_s = {0, 0.02, 0.004};

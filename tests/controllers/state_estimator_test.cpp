@@ -10,6 +10,7 @@
 #include <random>
 #include <string>
 
+#include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
 #include "upright/sim/plant.hpp"
@@ -172,17 +173,17 @@ TEST(ComplementaryEstimator, ResetStartsAfreshFromTheNextSample) {
 TEST(AccelerometerPitch, ReadsTheForwardLeanOfTheCourierOnTheStand) {
   // The plant's own accelerometer, chassis held at 5° forward: the sign convention end to end.
   auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  ASSERT_TRUE(loaded.ok());
-  RobotModel model = loaded.model;
+  ASSERT_TRUE(Succeeded(loaded));
+  RobotModel model = *loaded;
   model.sensors.accel_bias_x_m_s2 = model.sensors.accel_bias_y_m_s2 = 0;
   model.sensors.accel_bias_z_m_s2 = 0;
   sim::PlantOptions options;
   options.fixed_chassis = true;
   options.sensor_noise = false;
   options.initial.pitch_rad = 5 * kPi / 180;
-  std::string error;
-  auto plant = sim::Plant::Create(model, options, &error);
-  ASSERT_NE(plant, nullptr) << error;
+  auto built = sim::Plant::Create(model, options);
+  ASSERT_TRUE(Succeeded(built));
+  const std::unique_ptr<sim::Plant> plant = std::move(*built);
   for (int k = 0; k < 20; ++k) plant->Step();
   const sim::SensorSample s = plant->Sense();
   // Quantised to 2.39e-3 m/s² a step (courier.xml): about 2.4e-4 rad at most.

@@ -9,6 +9,7 @@
 #include <cmath>
 #include <string>
 
+#include "succeeded.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
@@ -18,8 +19,8 @@ namespace {
 
 RobotModel Courier() {
   auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  return loaded.value_or(RobotModel{});
 }
 
 upright_reference Reference(double speed, double yaw_rate) {
@@ -72,7 +73,7 @@ TEST(SteadyMotion, LeansAndPushesAsTheEquationsOfMotionSayWhileAccelerating) {
   const double a = 0.5;
   double pitch = 0;
   Eigen::Vector2d input;
-  SteadyMotion(plant).For(0.3, a, 0, &pitch, &input);
+  SteadyMotion::Of(plant).value().For(0.3, a, 0, &pitch, &input);
   EXPECT_NEAR(pitch, a / kStandardGravity_m_s2 * (1 + mx * r / (mb * L)), 1e-9);
   EXPECT_NEAR(input(0), mx * r * a / 2, 1e-9);
   EXPECT_NEAR(input(1), mx * r * a / 2, 1e-9);
@@ -82,7 +83,8 @@ TEST(SteadyMotion, NeedsNoTorqueAtConstantSpeedAndTheBackEmfVoltageOnTheVoltageM
   const RobotModel model = Courier();
   double pitch = 1;
   Eigen::Vector2d input;
-  SteadyMotion(design::Linearise(model, design::InputKind::kTorque))
+  SteadyMotion::Of(design::Linearise(model, design::InputKind::kTorque))
+      .value()
       .For(0.5, 0, 0.4, &pitch, &input);
   EXPECT_NEAR(pitch, 0, 1e-12);
   EXPECT_LT(input.norm(), 1e-12);
@@ -96,7 +98,9 @@ TEST(SteadyMotion, NeedsNoTorqueAtConstantSpeedAndTheBackEmfVoltageOnTheVoltageM
                             (m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A)) *
                        v / r;
   ASSERT_NEAR(volts, 3.7806, 1e-4);
-  SteadyMotion(design::Linearise(model, design::InputKind::kVoltage)).For(v, 0, 0, &pitch, &input);
+  SteadyMotion::Of(design::Linearise(model, design::InputKind::kVoltage))
+      .value()
+      .For(v, 0, 0, &pitch, &input);
   EXPECT_NEAR(pitch, 0, 1e-9);
   EXPECT_NEAR(input(0), volts, 1e-9);
   EXPECT_NEAR(input(1), volts, 1e-9);

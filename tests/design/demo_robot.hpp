@@ -5,14 +5,15 @@
 
 #include <string>
 
+#include "succeeded.hpp"
 #include "upright/model/model_file.hpp"
 
 namespace upright::design {
 
 inline RobotModel Demo(const std::string& name) {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  return loaded.value_or(RobotModel{});
 }
 
 }  // namespace upright::design

@@ -10,6 +10,7 @@
 #include <random>
 #include <string>
 
+#include "succeeded.hpp"
 #include "upright/design/analysis.hpp"
 
 namespace upright::design {
@@ -79,24 +80,25 @@ TEST(HinfNorm, PureGainIsTheLargestSingularValue) {
   // [1 2; 2 1] has singular values 3 and 1 (symmetric, eigenvalues 1 ± 2; derived by hand).
   Eigen::MatrixXd d(2, 2);
   d << 1, 2, 2, 1;
-  const NormResult r =
+  const AnalysisResult<NormPeak> r =
       HinfNorm({Eigen::MatrixXd(0, 0), Eigen::MatrixXd(0, 2), Eigen::MatrixXd(2, 0), d});
-  ASSERT_TRUE(r.ok) << r.message;
-  EXPECT_NEAR(r.norm, 3.0, 1e-14);
-  EXPECT_EQ(r.peak_rad_s, 0.0);  // every frequency is a peak; DC is reported
+  ASSERT_TRUE(Succeeded(r));
+  EXPECT_NEAR(r->norm, 3.0, 1e-14);
+  EXPECT_EQ(r->peak_rad_s, 0.0);  // every frequency is a peak; DC is reported
   // B and C may also be left empty.
-  const NormResult empty = HinfNorm({Eigen::MatrixXd(), Eigen::MatrixXd(), Eigen::MatrixXd(), d});
-  ASSERT_TRUE(empty.ok) << empty.message;
-  EXPECT_NEAR(empty.norm, 3.0, 1e-14);
+  const AnalysisResult<NormPeak> empty =
+      HinfNorm({Eigen::MatrixXd(), Eigen::MatrixXd(), Eigen::MatrixXd(), d});
+  ASSERT_TRUE(Succeeded(empty));
+  EXPECT_NEAR(empty->norm, 3.0, 1e-14);
 }
 
 TEST(HinfNorm, FirstOrderLagPeaksAtDc) {
   // |1/(jω + a)| = 1/√(ω² + a²): the norm is 1/a at ω = 0 (derived by hand).
   for (double a : {0.01, 0.5, 2.0, 300.0}) {
-    const NormResult r = HinfNorm(Lag(1, a));
-    ASSERT_TRUE(r.ok) << r.message;
-    EXPECT_NEAR(r.norm, 1 / a, 1e-12 / a) << "a = " << a;
-    EXPECT_EQ(r.peak_rad_s, 0.0) << "a = " << a;
+    const AnalysisResult<NormPeak> r = HinfNorm(Lag(1, a));
+    ASSERT_TRUE(Succeeded(r));
+    EXPECT_NEAR(r->norm, 1 / a, 1e-12 / a) << "a = " << a;
+    EXPECT_EQ(r->peak_rad_s, 0.0) << "a = " << a;
   }
 }
 
@@ -104,12 +106,12 @@ TEST(HinfNorm, LightlyDampedResonanceMatchesTheHandbook) {
   // 1/(s² + 0.2 s + 1): peak 5.02518908 at 0.98994949 rad/s; Mr = 1/(2ζ√(1 − ζ²)) at
   // ω = √(1 − 2ζ²) (handbook, from memory; it is the minimum over ω² of (1 − ω²)² + 4ζ²ω²,
   // derived by hand; checked numerically; tolerance 1e-8 from the printed digits).
-  const NormResult r = HinfNorm(SecondOrder(0.1, 1.0));
-  ASSERT_TRUE(r.ok) << r.message;
-  EXPECT_NEAR(r.norm, 5.02518908, 1e-8);
-  EXPECT_NEAR(r.peak_rad_s, 0.98994949, 1e-8);
-  EXPECT_NEAR(r.norm, 1 / (2 * 0.1 * std::sqrt(1 - 0.01)), 1e-9);
-  EXPECT_NEAR(r.peak_rad_s, std::sqrt(1 - 2 * 0.01), 1e-6);
+  const AnalysisResult<NormPeak> r = HinfNorm(SecondOrder(0.1, 1.0));
+  ASSERT_TRUE(Succeeded(r));
+  EXPECT_NEAR(r->norm, 5.02518908, 1e-8);
+  EXPECT_NEAR(r->peak_rad_s, 0.98994949, 1e-8);
+  EXPECT_NEAR(r->norm, 1 / (2 * 0.1 * std::sqrt(1 - 0.01)), 1e-9);
+  EXPECT_NEAR(r->peak_rad_s, std::sqrt(1 - 2 * 0.01), 1e-6);
 }
 
 TEST(HinfNorm, VerySharpResonanceIsFound) {
@@ -119,19 +121,19 @@ TEST(HinfNorm, VerySharpResonanceIsFound) {
   const double omega0 = std::sqrt(2.0);
   StateSpace g = SecondOrder(c / (2 * omega0), omega0);
   g.C = Eigen::RowVector2d(0, 1);  // output the velocity: numerator s
-  const NormResult r = HinfNorm(g);
-  ASSERT_TRUE(r.ok) << r.message;
-  EXPECT_NEAR(r.norm / (1 / c), 1.0, 1e-9);
-  EXPECT_NEAR(r.peak_rad_s / omega0, 1.0, 1e-9);
+  const AnalysisResult<NormPeak> r = HinfNorm(g);
+  ASSERT_TRUE(Succeeded(r));
+  EXPECT_NEAR(r->norm / (1 / c), 1.0, 1e-9);
+  EXPECT_NEAR(r->peak_rad_s / omega0, 1.0, 1e-9);
 }
 
 TEST(HinfNorm, FeedthroughPeakAtInfinity) {
   // 2 − 1/(s + 1) = (2s + 1)/(s + 1): |G|² = (4ω² + 1)/(ω² + 1) rises from 1 towards 4, so the
   // norm is 2, approached as ω → ∞ (derived by hand).
-  const NormResult r = HinfNorm({Scalar(-1), Scalar(1), Scalar(-1), Scalar(2)});
-  ASSERT_TRUE(r.ok) << r.message;
-  EXPECT_NEAR(r.norm, 2.0, 4e-10);  // within the documented factor 1 + 2e-10
-  EXPECT_EQ(r.peak_rad_s, kInf);
+  const AnalysisResult<NormPeak> r = HinfNorm({Scalar(-1), Scalar(1), Scalar(-1), Scalar(2)});
+  ASSERT_TRUE(Succeeded(r));
+  EXPECT_NEAR(r->norm, 2.0, 4e-10);  // within the documented factor 1 + 2e-10
+  EXPECT_EQ(r->peak_rad_s, kInf);
 }
 
 TEST(HinfNorm, FeedthroughWithAnInteriorPeak) {
@@ -140,13 +142,13 @@ TEST(HinfNorm, FeedthroughWithAnInteriorPeak) {
   // result is checked against direct evaluation on a fine grid around ω = 1.
   StateSpace g = SecondOrder(0.1, 1.0);
   g.D = Scalar(1);
-  const NormResult r = HinfNorm(g);
-  ASSERT_TRUE(r.ok) << r.message;
+  const AnalysisResult<NormPeak> r = HinfNorm(g);
+  ASSERT_TRUE(Succeeded(r));
   double grid = 0;
   for (int i = 0; i <= 200000; ++i) grid = std::max(grid, Gain(g, 0.5 + 1.0 * i / 200000));
-  EXPECT_GE(r.norm, grid * (1 - 1e-12));
-  EXPECT_LE(r.norm, grid * (1 + 1e-6));  // grid step 5e-6 near a peak of width 0.2
-  EXPECT_NEAR(Gain(g, r.peak_rad_s), r.norm, 1e-12 * r.norm);
+  EXPECT_GE(r->norm, grid * (1 - 1e-12));
+  EXPECT_LE(r->norm, grid * (1 + 1e-6));  // grid step 5e-6 near a peak of width 0.2
+  EXPECT_NEAR(Gain(g, r->peak_rad_s), r->norm, 1e-12 * r->norm);
 }
 
 TEST(HinfNorm, MimoDiagonalIsTheLargestChannel) {
@@ -156,14 +158,14 @@ TEST(HinfNorm, MimoDiagonalIsTheLargestChannel) {
   const StateSpace b = SecondOrder(0.5, 1.0);
   const StateSpace c = SecondOrder(0.1, 1.0);
   const double resonance = 1 / (2 * 0.1 * std::sqrt(1 - 0.01));
-  const NormResult abc = HinfNorm(Append(Append(a, b), c));
-  ASSERT_TRUE(abc.ok) << abc.message;
-  EXPECT_NEAR(abc.norm, resonance, 1e-9);
-  EXPECT_NEAR(abc.peak_rad_s, std::sqrt(0.98), 1e-6);
-  const NormResult ab = HinfNorm(Append(b, a));
-  ASSERT_TRUE(ab.ok) << ab.message;
-  EXPECT_NEAR(ab.norm, 2.0, 1e-12);
-  EXPECT_EQ(ab.peak_rad_s, 0.0);
+  const AnalysisResult<NormPeak> abc = HinfNorm(Append(Append(a, b), c));
+  ASSERT_TRUE(Succeeded(abc));
+  EXPECT_NEAR(abc->norm, resonance, 1e-9);
+  EXPECT_NEAR(abc->peak_rad_s, std::sqrt(0.98), 1e-6);
+  const AnalysisResult<NormPeak> ab = HinfNorm(Append(b, a));
+  ASSERT_TRUE(Succeeded(ab));
+  EXPECT_NEAR(ab->norm, 2.0, 1e-12);
+  EXPECT_EQ(ab->peak_rad_s, 0.0);
 }
 
 TEST(HinfNorm, UnstableSystemHasInfiniteNormAndNamesTheEigenvalue) {
@@ -171,49 +173,44 @@ TEST(HinfNorm, UnstableSystemHasInfiniteNormAndNamesTheEigenvalue) {
   g.A = Eigen::Vector2d(-1, 2.5).asDiagonal();
   g.B = Eigen::Vector2d(1, 1);
   g.C = Eigen::RowVector2d(1, 1);
-  const NormResult r = HinfNorm(g);
-  EXPECT_FALSE(r.ok);
-  EXPECT_EQ(r.norm, kInf);
+  const AnalysisFailure<NormPeak> r = FailureOf(HinfNorm(g));
+  EXPECT_EQ(r.found.norm, kInf);
   EXPECT_NE(r.message.find("2.5"), std::string::npos) << r.message;
   // An integrator is on the stability boundary: also infinite.
-  const NormResult integrator = HinfNorm(Lag(1, 0));
-  EXPECT_FALSE(integrator.ok);
-  EXPECT_EQ(integrator.norm, kInf);
+  EXPECT_EQ(FailureOf(HinfNorm(Lag(1, 0))).found.norm, kInf);
 }
 
 TEST(HinfNorm, ZeroTransferFunctionHasZeroNorm) {
   StateSpace g = SecondOrder(0.3, 2.0);
   g.C.setZero();
-  const NormResult r = HinfNorm(g);
-  ASSERT_TRUE(r.ok) << r.message;
-  EXPECT_EQ(r.norm, 0.0);
+  const AnalysisResult<NormPeak> r = HinfNorm(g);
+  ASSERT_TRUE(Succeeded(r));
+  EXPECT_EQ(r->norm, 0.0);
 }
 
 TEST(HinfNorm, RejectsInconsistentSizesAndTolerances) {
   StateSpace g = SecondOrder(0.3, 2.0);
   g.B = Eigen::Vector3d(1, 2, 3);
-  const NormResult r = HinfNorm(g);
-  EXPECT_FALSE(r.ok);
+  const AnalysisFailure<NormPeak> r = FailureOf(HinfNorm(g));
   EXPECT_NE(r.message.find("B is 3×1"), std::string::npos) << r.message;
   StateSpace d_wrong = SecondOrder(0.3, 2.0);
   d_wrong.D = Eigen::MatrixXd::Zero(2, 1);
-  EXPECT_FALSE(HinfNorm(d_wrong).ok);
-  const NormResult t = HinfNorm(SecondOrder(0.3, 2.0), 0.0);
-  EXPECT_FALSE(t.ok);
+  EXPECT_FALSE(HinfNorm(d_wrong).has_value());
+  const AnalysisFailure<NormPeak> t = FailureOf(HinfNorm(SecondOrder(0.3, 2.0), 0.0));
   EXPECT_NE(t.message.find("relative_tolerance = 0"), std::string::npos) << t.message;
   StateSpace nan = SecondOrder(0.3, 2.0);
   nan.A(0, 0) = std::numeric_limits<double>::quiet_NaN();
-  EXPECT_FALSE(HinfNorm(nan).ok);
+  EXPECT_FALSE(HinfNorm(nan).has_value());
 }
 
 TEST(HinfNorm, LooseToleranceStillBracketsTheNorm) {
   // The result is a value of σ̄ (never above the norm) within a factor 1 + 2 tol of it; the norm
   // of the handbook resonance is 1/(2ζ√(1 − ζ²)) (derived by hand).
   const double exact = 1 / (2 * 0.1 * std::sqrt(1 - 0.01));
-  const NormResult r = HinfNorm(SecondOrder(0.1, 1.0), 1e-3);
-  ASSERT_TRUE(r.ok) << r.message;
-  EXPECT_LE(r.norm, exact * (1 + 1e-14));
-  EXPECT_GE(r.norm * (1 + 2e-3), exact);
+  const AnalysisResult<NormPeak> r = HinfNorm(SecondOrder(0.1, 1.0), 1e-3);
+  ASSERT_TRUE(Succeeded(r));
+  EXPECT_LE(r->norm, exact * (1 + 1e-14));
+  EXPECT_GE(r->norm * (1 + 2e-3), exact);
 }
 
 TEST(HinfNorm, RandomSystemsAgreeWithDenseGrids) {
@@ -224,8 +221,8 @@ TEST(HinfNorm, RandomSystemsAgreeWithDenseGrids) {
   for (int trial = 0; trial < 24; ++trial) {
     const Eigen::Index n = 1 + trial % 8;
     const StateSpace g = RandomStable(random, n, 1 + trial % 3, 1 + (trial / 3) % 3);
-    const NormResult r = HinfNorm(g);
-    ASSERT_TRUE(r.ok) << r.message;
+    const AnalysisResult<NormPeak> r = HinfNorm(g);
+    ASSERT_TRUE(Succeeded(r));
     double best = std::max(Gain(g, 0), Eigen::JacobiSVD<Eigen::MatrixXd>(g.D).singularValues()(0));
     double best_log_omega = -4;
     constexpr int kPoints = 8000;
@@ -248,12 +245,12 @@ TEST(HinfNorm, RandomSystemsAgreeWithDenseGrids) {
     }
     best = std::max(best, Gain(g, std::pow(10.0, 0.5 * (low + high))));
     // The documented bound, with 1e-14 for rounding; the refined grid reaches the norm to 1e-6.
-    EXPECT_GE(r.norm * (1 + 2e-10 + 1e-14), best) << "trial " << trial;
-    EXPECT_LE(r.norm, best * (1 + 1e-6)) << "trial " << trial;
-    const double at_peak = std::isinf(r.peak_rad_s)
+    EXPECT_GE(r->norm * (1 + 2e-10 + 1e-14), best) << "trial " << trial;
+    EXPECT_LE(r->norm, best * (1 + 1e-6)) << "trial " << trial;
+    const double at_peak = std::isinf(r->peak_rad_s)
                                ? Eigen::JacobiSVD<Eigen::MatrixXd>(g.D).singularValues()(0)
-                               : Gain(g, r.peak_rad_s);
-    EXPECT_NEAR(at_peak, r.norm, 1e-12 * r.norm) << "trial " << trial;
+                               : Gain(g, r->peak_rad_s);
+    EXPECT_NEAR(at_peak, r->norm, 1e-12 * r->norm) << "trial " << trial;
   }
 }
 
@@ -267,10 +264,11 @@ TEST(HinfNorm, UnchangedByBadlyScaledCoordinates) {
     for (Eigen::Index i = 0; i < n; ++i) t(i) = std::pow(10.0, 4 * random.Uniform());
     const StateSpace scaled{t.asDiagonal() * g.A * t.cwiseInverse().asDiagonal(),
                             t.asDiagonal() * g.B, g.C * t.cwiseInverse().asDiagonal(), g.D};
-    const NormResult a = HinfNorm(g);
-    const NormResult b = HinfNorm(scaled);
-    ASSERT_TRUE(a.ok && b.ok) << a.message << " / " << b.message;
-    EXPECT_NEAR(b.norm / a.norm, 1.0, 1e-9) << "trial " << trial;
+    const AnalysisResult<NormPeak> a = HinfNorm(g);
+    const AnalysisResult<NormPeak> b = HinfNorm(scaled);
+    ASSERT_TRUE(Succeeded(a));
+    ASSERT_TRUE(Succeeded(b));
+    EXPECT_NEAR(b->norm / a->norm, 1.0, 1e-9) << "trial " << trial;
   }
 }
 
@@ -282,13 +280,13 @@ TEST(HinfNorm, NormJustAboveTheFeedthroughIsNotMissed) {
     StateSpace g = RandomStable(random, 3 + trial % 4, 2, 2);
     g.D /= Eigen::JacobiSVD<Eigen::MatrixXd>(g.D).singularValues()(0);
     g.C *= std::pow(10.0, -5 - (trial % 4));  // ε = 1e-5 … 1e-8
-    const NormResult r = HinfNorm(g);
-    ASSERT_TRUE(r.ok) << r.message;
+    const AnalysisResult<NormPeak> r = HinfNorm(g);
+    ASSERT_TRUE(Succeeded(r));
     double grid = 1;
     for (int i = 0; i <= 4000; ++i) {
       grid = std::max(grid, Gain(g, std::pow(10.0, -3 + 6.0 * i / 4000)));
     }
-    EXPECT_GE(r.norm * (1 + 2e-10 + 1e-14), grid) << "trial " << trial;
+    EXPECT_GE(r->norm * (1 + 2e-10 + 1e-14), grid) << "trial " << trial;
   }
 }
 

@@ -1,11 +1,13 @@
 // The linearised robot against its own nonlinear equations (finite differences) and against the
 // Bullet plant (small motions), plus its structure: decoupled yaw, pendulum limit, voltage input.
+#include "upright/design/linear_model.hpp"
+
 #include <gtest/gtest.h>
 
 #include <cmath>
 
 #include "demo_robot.hpp"
-#include "upright/design/linear_model.hpp"
+#include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/sim/plant.hpp"
 
@@ -134,9 +136,9 @@ sim::TrueState PlantAfter(const RobotModel& model, double t_s, double left_Nm, d
   sim::PlantOptions options;
   options.drive = sim::DriveMode::kTorque;
   options.sensor_noise = false;
-  std::string error;
-  auto plant = sim::Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
+  auto built = sim::Plant::Create(model, options);
+  EXPECT_TRUE(Succeeded(built));
+  const std::unique_ptr<sim::Plant> plant = std::move(built.value());
   plant->SetCommand(left_Nm, right_Nm);
   for (long i = 0, n = std::lround(t_s / options.dt_s); i < n; ++i) plant->Step();
   return plant->truth();

@@ -4,12 +4,14 @@
 
 #include <cmath>
 #include <random>
-#include <stdexcept>
 
+#include "succeeded.hpp"
 #include "upright/design/riccati.hpp"
 
 namespace upright::design {
 namespace {
+
+using LyapunovResult = Result<Eigen::MatrixXd, SolveError>;
 
 using Eigen::MatrixXd;
 
@@ -58,8 +60,8 @@ MatrixXd KroneckerSolution(const MatrixXd& A, const MatrixXd& Q, bool discrete) 
 TEST(SolveLyapunov, ScalarMatchesClosedForm) {
   // a x + x a + q = 0 → x = −q/(2a) (closed form, derived by hand); a = −3, q = 2 → 1/3.
   const LyapunovResult result = SolveLyapunov(Scalar(-3), Scalar(2));
-  ASSERT_TRUE(result.ok()) << result.message;
-  EXPECT_NEAR(result.X(0, 0), 1.0 / 3.0, 1e-15);
+  ASSERT_TRUE(Succeeded(result));
+  EXPECT_NEAR((*result)(0, 0), 1.0 / 3.0, 1e-15);
 }
 
 TEST(SolveLyapunov, DiagonalMatchesClosedForm) {
@@ -68,8 +70,8 @@ TEST(SolveLyapunov, DiagonalMatchesClosedForm) {
   const MatrixXd A{{-1, 0}, {0, -2}};
   const MatrixXd expected{{0.5, 1.0 / 3}, {1.0 / 3, 0.25}};
   const LyapunovResult result = SolveLyapunov(A, MatrixXd::Ones(2, 2));
-  ASSERT_TRUE(result.ok()) << result.message;
-  EXPECT_LT((result.X - expected).cwiseAbs().maxCoeff(), 1e-15);
+  ASSERT_TRUE(Succeeded(result));
+  EXPECT_LT(((*result) - expected).cwiseAbs().maxCoeff(), 1e-15);
 }
 
 TEST(SolveLyapunov, OscillatorGramianMatchesClosedForm) {
@@ -80,10 +82,10 @@ TEST(SolveLyapunov, OscillatorGramianMatchesClosedForm) {
   const MatrixXd A{{0, 1}, {-omega * omega, -2 * zeta * omega}};
   const MatrixXd Q{{0, 0}, {0, 1}};
   const LyapunovResult result = SolveLyapunov(A, Q);
-  ASSERT_TRUE(result.ok()) << result.message;
-  EXPECT_NEAR(result.X(0, 0), 1 / (4 * zeta * std::pow(omega, 3)), 1e-14);
-  EXPECT_NEAR(result.X(1, 1), 1 / (4 * zeta * omega), 1e-14);
-  EXPECT_NEAR(result.X(0, 1), 0, 1e-14);
+  ASSERT_TRUE(Succeeded(result));
+  EXPECT_NEAR((*result)(0, 0), 1 / (4 * zeta * std::pow(omega, 3)), 1e-14);
+  EXPECT_NEAR((*result)(1, 1), 1 / (4 * zeta * omega), 1e-14);
+  EXPECT_NEAR((*result)(0, 1), 0, 1e-14);
 }
 
 TEST(SolveLyapunov, MatchesKroneckerSolutionOnRandomSystems) {
@@ -93,11 +95,11 @@ TEST(SolveLyapunov, MatchesKroneckerSolutionOnRandomSystems) {
     const MatrixXd G = RandomMatrix(&rng, n, n);
     const MatrixXd Q = G * G.transpose();
     const LyapunovResult result = SolveLyapunov(A, Q);
-    ASSERT_TRUE(result.ok()) << result.message;
+    ASSERT_TRUE(Succeeded(result));
     const MatrixXd reference = KroneckerSolution(A, Q, false);
-    EXPECT_LT((result.X - reference).norm(), 1e-11 * reference.norm()) << "n " << n;
-    const MatrixXd residual = A * result.X + result.X * A.transpose() + Q;
-    EXPECT_LT(residual.norm(), 1e-13 * (Q.norm() + 2 * A.norm() * result.X.norm())) << "n " << n;
+    EXPECT_LT(((*result) - reference).norm(), 1e-11 * reference.norm()) << "n " << n;
+    const MatrixXd residual = A * (*result) + (*result) * A.transpose() + Q;
+    EXPECT_LT(residual.norm(), 1e-13 * (Q.norm() + 2 * A.norm() * (*result).norm())) << "n " << n;
   }
 }
 
@@ -107,9 +109,9 @@ TEST(SolveLyapunov, SolvesNonSymmetricRightHandSides) {
   const MatrixXd A = RandomStable(&rng, 5, false);
   const MatrixXd Q = RandomMatrix(&rng, 5, 5);
   const LyapunovResult result = SolveLyapunov(A, Q);
-  ASSERT_TRUE(result.ok()) << result.message;
+  ASSERT_TRUE(Succeeded(result));
   const MatrixXd reference = KroneckerSolution(A, Q, false);
-  EXPECT_LT((result.X - reference).norm(), 1e-11 * reference.norm());
+  EXPECT_LT(((*result) - reference).norm(), 1e-11 * reference.norm());
 }
 
 TEST(SolveLyapunov, UnstableButNonsingularAIsSolved) {
@@ -118,31 +120,33 @@ TEST(SolveLyapunov, UnstableButNonsingularAIsSolved) {
   const MatrixXd A{{1, 0}, {0, 2}};
   const MatrixXd expected{{-0.5, -1.0 / 3}, {-1.0 / 3, -0.25}};
   const LyapunovResult result = SolveLyapunov(A, MatrixXd::Ones(2, 2));
-  ASSERT_TRUE(result.ok()) << result.message;
-  EXPECT_LT((result.X - expected).cwiseAbs().maxCoeff(), 1e-15);
+  ASSERT_TRUE(Succeeded(result));
+  EXPECT_LT(((*result) - expected).cwiseAbs().maxCoeff(), 1e-15);
 }
 
 TEST(SolveLyapunov, SingularEquationIsReported) {
   // Eigenvalues 1 and −1 sum to zero: the operator X ↦ AX + XAᵀ is singular.
   const LyapunovResult result = SolveLyapunov(MatrixXd{{1, 0}, {0, -1}}, MatrixXd::Ones(2, 2));
-  EXPECT_EQ(result.failure, SolveFailure::kIllConditioned) << result.message;
-  EXPECT_NE(result.message.find("no unique solution"), std::string::npos) << result.message;
+  const SolveError error = FailureOf(result);
+  EXPECT_EQ(error.reason, SolveFailure::kIllConditioned) << error.message;
+  EXPECT_NE(error.message.find("no unique solution"), std::string::npos) << error.message;
 }
 
 TEST(SolveLyapunov, RejectsInvalidInput) {
-  EXPECT_EQ(SolveLyapunov(MatrixXd::Zero(2, 3), MatrixXd::Zero(2, 2)).failure,
+  EXPECT_EQ(FailureOf(SolveLyapunov(MatrixXd::Zero(2, 3), MatrixXd::Zero(2, 2))).reason,
             SolveFailure::kInvalidInput);
-  EXPECT_EQ(SolveLyapunov(MatrixXd::Identity(2, 2), MatrixXd::Zero(3, 3)).failure,
+  EXPECT_EQ(FailureOf(SolveLyapunov(MatrixXd::Identity(2, 2), MatrixXd::Zero(3, 3))).reason,
             SolveFailure::kInvalidInput);
-  EXPECT_EQ(SolveLyapunov(Scalar(NAN), Scalar(1)).failure, SolveFailure::kInvalidInput);
-  EXPECT_EQ(SolveDiscreteLyapunov(MatrixXd(), MatrixXd()).failure, SolveFailure::kInvalidInput);
+  EXPECT_EQ(FailureOf(SolveLyapunov(Scalar(NAN), Scalar(1))).reason, SolveFailure::kInvalidInput);
+  EXPECT_EQ(FailureOf(SolveDiscreteLyapunov(MatrixXd(), MatrixXd())).reason,
+            SolveFailure::kInvalidInput);
 }
 
 TEST(SolveDiscreteLyapunov, ScalarMatchesClosedForm) {
   // a² x − x + q = 0 → x = q/(1 − a²) (closed form, derived by hand); a = 0.5, q = 1 → 4/3.
   const LyapunovResult result = SolveDiscreteLyapunov(Scalar(0.5), Scalar(1));
-  ASSERT_TRUE(result.ok()) << result.message;
-  EXPECT_NEAR(result.X(0, 0), 4.0 / 3.0, 1e-15);
+  ASSERT_TRUE(Succeeded(result));
+  EXPECT_NEAR((*result)(0, 0), 4.0 / 3.0, 1e-15);
 }
 
 TEST(SolveDiscreteLyapunov, MatchesKroneckerSolutionOnRandomSystems) {
@@ -152,11 +156,11 @@ TEST(SolveDiscreteLyapunov, MatchesKroneckerSolutionOnRandomSystems) {
     const MatrixXd G = RandomMatrix(&rng, n, n);
     const MatrixXd Q = G * G.transpose();
     const LyapunovResult result = SolveDiscreteLyapunov(A, Q);
-    ASSERT_TRUE(result.ok()) << result.message;
+    ASSERT_TRUE(Succeeded(result));
     const MatrixXd reference = KroneckerSolution(A, Q, true);
-    EXPECT_LT((result.X - reference).norm(), 1e-11 * reference.norm()) << "n " << n;
-    const MatrixXd residual = A * result.X * A.transpose() - result.X + Q;
-    EXPECT_LT(residual.norm(), 1e-13 * (Q.norm() + (A.norm() * A.norm() + 1) * result.X.norm()))
+    EXPECT_LT(((*result) - reference).norm(), 1e-11 * reference.norm()) << "n " << n;
+    const MatrixXd residual = A * (*result) * A.transpose() - (*result) + Q;
+    EXPECT_LT(residual.norm(), 1e-13 * (Q.norm() + (A.norm() * A.norm() + 1) * (*result).norm()))
         << "n " << n;
   }
 }
@@ -165,15 +169,16 @@ TEST(SolveDiscreteLyapunov, SingularEquationIsReported) {
   // Eigenvalues 2 and 0.5 multiply to one: X ↦ AXAᵀ − X is singular.
   const LyapunovResult result =
       SolveDiscreteLyapunov(MatrixXd{{2, 0}, {0, 0.5}}, MatrixXd::Identity(2, 2));
-  EXPECT_EQ(result.failure, SolveFailure::kIllConditioned) << result.message;
+  EXPECT_EQ(FailureOf(result).reason, SolveFailure::kIllConditioned);
 }
 
 TEST(DiscretiseZoh, DoubleIntegratorMatchesClosedForm) {
   // A² = 0, so e^{AT} = I + AT = [1 T; 0 1] and Bd = ∫₀ᵀ e^{Aτ} dτ B = [T²/2; T] (closed form,
   // derived by hand; the textbook result, also from memory).
   const double period_s = 0.005;
-  MatrixXd Ad, Bd;
-  DiscretiseZoh(MatrixXd{{0, 1}, {0, 0}}, MatrixXd{{0}, {1}}, period_s, &Ad, &Bd);
+  const auto sampled = DiscretiseZoh(MatrixXd{{0, 1}, {0, 0}}, MatrixXd{{0}, {1}}, period_s);
+  ASSERT_TRUE(Succeeded(sampled));
+  const MatrixXd &Ad = sampled->Ad, &Bd = sampled->Bd;
   const MatrixXd expected_ad{{1, period_s}, {0, 1}};
   const MatrixXd expected_bd{{period_s * period_s / 2}, {period_s}};
   EXPECT_LT((Ad - expected_ad).cwiseAbs().maxCoeff(), 1e-15);
@@ -183,8 +188,9 @@ TEST(DiscretiseZoh, DoubleIntegratorMatchesClosedForm) {
 TEST(DiscretiseZoh, FirstOrderMatchesClosedForm) {
   // ẋ = a x + b u: Ad = e^{aT}, Bd = b (e^{aT} − 1)/a (closed form, derived by hand).
   const double a = -3.0, b = 2.0, period_s = 0.1;
-  MatrixXd Ad, Bd;
-  DiscretiseZoh(Scalar(a), Scalar(b), period_s, &Ad, &Bd);
+  const auto sampled = DiscretiseZoh(Scalar(a), Scalar(b), period_s);
+  ASSERT_TRUE(Succeeded(sampled));
+  const MatrixXd &Ad = sampled->Ad, &Bd = sampled->Bd;
   EXPECT_NEAR(Ad(0, 0), std::exp(a * period_s), 1e-15);
   EXPECT_NEAR(Bd(0, 0), b * (std::exp(a * period_s) - 1) / a, 1e-15);
 }
@@ -193,8 +199,10 @@ TEST(DiscretiseZoh, OscillatorMatchesClosedForm) {
   // A = [0 ω; −ω 0], B = [0; 1]: Ad is the rotation [cos ωT, sin ωT; −sin ωT, cos ωT] and
   // Bd = [(1 − cos ωT)/ω; sin ωT/ω] (closed form, derived by hand).
   const double omega = 3.0, period_s = 0.2;
-  MatrixXd Ad, Bd;
-  DiscretiseZoh(MatrixXd{{0, omega}, {-omega, 0}}, MatrixXd{{0}, {1}}, period_s, &Ad, &Bd);
+  const auto sampled =
+      DiscretiseZoh(MatrixXd{{0, omega}, {-omega, 0}}, MatrixXd{{0}, {1}}, period_s);
+  ASSERT_TRUE(Succeeded(sampled));
+  const MatrixXd &Ad = sampled->Ad, &Bd = sampled->Bd;
   const double c = std::cos(omega * period_s), s = std::sin(omega * period_s);
   const MatrixXd expected_ad{{c, s}, {-s, c}};
   const MatrixXd expected_bd{{(1 - c) / omega}, {s / omega}};
@@ -202,12 +210,17 @@ TEST(DiscretiseZoh, OscillatorMatchesClosedForm) {
   EXPECT_LT((Bd - expected_bd).cwiseAbs().maxCoeff(), 1e-14);
 }
 
-TEST(DiscretiseZoh, RejectsInvalidArguments) {
-  MatrixXd Ad, Bd;
-  EXPECT_THROW(DiscretiseZoh(MatrixXd::Zero(2, 2), MatrixXd::Zero(3, 1), 0.1, &Ad, &Bd),
-               std::invalid_argument);
-  EXPECT_THROW(DiscretiseZoh(Scalar(1), Scalar(1), -0.1, &Ad, &Bd), std::invalid_argument);
-  EXPECT_THROW(DiscretiseZoh(Scalar(1), Scalar(1), 0.1, nullptr, &Bd), std::invalid_argument);
+TEST(DiscretiseZoh, RefusesInvalidArgumentsWithAFailureInsteadOfThrowing) {
+  const SolveError sizes =
+      FailureOf(DiscretiseZoh(MatrixXd::Zero(2, 2), MatrixXd::Zero(3, 1), 0.1));
+  EXPECT_EQ(sizes.reason, SolveFailure::kInvalidInput);
+  EXPECT_EQ(sizes.message,
+            "DiscretiseZoh: A is 2x2 and B is 3x1, expected A square and B with as many rows");
+  const SolveError period = FailureOf(DiscretiseZoh(Scalar(1), Scalar(1), -0.1));
+  EXPECT_EQ(period.reason, SolveFailure::kInvalidInput);
+  EXPECT_NE(period.message.find("period_s = -0.1"), std::string::npos) << period.message;
+  const SolveError finite = FailureOf(DiscretiseZoh(Scalar(NAN), Scalar(1), 0.1));
+  EXPECT_EQ(finite.message, "DiscretiseZoh: A or B has a non-finite entry");
 }
 
 }  // namespace

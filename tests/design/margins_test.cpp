@@ -13,6 +13,7 @@
 #include <string>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/design/analysis.hpp"
 
 namespace upright::design {
@@ -168,8 +169,9 @@ TEST(SisoMargins, ThirdOrderLoopMatchesThePublishedMargins) {
   // 24/((s + 1)(s + 2)(s + 3)) = 24/(s³ + 6s² + 11s + 6): GM 2.5 at √11, PM 35.425° at
   // 2.0638 rad/s ([Octave-control, margin.m]; checked numerically; tolerance 1e-3 from the
   // printed digits).
-  const LoopMargins m = SisoMargins(ThirdOrder(24, 6, 11, 6));
-  ASSERT_TRUE(m.ok) << m.message;
+  const AnalysisResult<LoopMargins> m_result = SisoMargins(ThirdOrder(24, 6, 11, 6));
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   EXPECT_NEAR(m.gain_high, 2.5, 1e-3);
   EXPECT_NEAR(m.gain_high_rad_s, std::sqrt(11.0), 1e-3);
   EXPECT_NEAR(m.phase_deg, 35.425, 1e-3);
@@ -191,8 +193,9 @@ TEST(SisoMargins, ThirdOrderLoopMatchesThePublishedMargins) {
 TEST(SisoMargins, DiskMarginMatchesThePublishedExample) {
   // 25/(s³ + 10s² + 10s + 10): disk margin α = 0.45809, gain 4.0508 dB, phase 25.80° ([SPG2020];
   // [python-control]; checked numerically; tolerances from the printed digits).
-  const LoopMargins m = SisoMargins(ThirdOrder(25, 10, 10, 10));
-  ASSERT_TRUE(m.ok) << m.message;
+  const AnalysisResult<LoopMargins> m_result = SisoMargins(ThirdOrder(25, 10, 10, 10));
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   EXPECT_NEAR(m.disk_alpha, 0.45809, 1e-5);
   EXPECT_NEAR(20 * std::log10(m.disk_gain_high), 4.0508, 1e-4);
   EXPECT_NEAR(20 * std::log10(m.disk_gain_low), -4.0508, 1e-4);
@@ -205,8 +208,10 @@ TEST(SisoMargins, IntegratorHasDelayMarginPiOverTwoK) {
   // L = k/s: |L| = 1 at ω = k with phase −90°, so PM = 90° and the delay margin is π/(2k); the
   // closed loop s + k is stable for every gain factor (derived by hand).
   for (double k : {0.5, 2.0, 40.0}) {
-    const LoopMargins m = SisoMargins({Scalar(0), Scalar(1), Scalar(k), Scalar(0)});
-    ASSERT_TRUE(m.ok) << m.message;
+    const AnalysisResult<LoopMargins> m_result =
+        SisoMargins({Scalar(0), Scalar(1), Scalar(k), Scalar(0)});
+    ASSERT_TRUE(Succeeded(m_result));
+    const LoopMargins& m = *m_result;
     EXPECT_NEAR(m.delay_s, kPi / (2 * k), 1e-12 / k) << "k = " << k;
     EXPECT_NEAR(m.delay_rad_s, k, 1e-12 * k);
     EXPECT_NEAR(m.phase_deg, 90, 1e-10);
@@ -221,8 +226,9 @@ TEST(SisoMargins, FirstOrderLagPhaseMargin) {
   // L = k/(s + 1), k > 1: |L| = 1 at ω = √(k² − 1), PM = 180° − atan √(k² − 1), no phase
   // crossover so gain_high = inf; delay margin (π − atan ω_c)/ω_c (derived by hand).
   for (double k : {1.5, 3.0, 100.0}) {
-    const LoopMargins m = SisoMargins(Lag(k, 1));
-    ASSERT_TRUE(m.ok) << m.message;
+    const AnalysisResult<LoopMargins> m_result = SisoMargins(Lag(k, 1));
+    ASSERT_TRUE(Succeeded(m_result));
+    const LoopMargins& m = *m_result;
     const double wc = std::sqrt(k * k - 1);
     EXPECT_NEAR(m.phase_deg, 180 - std::atan(wc) * kDeg, 1e-9) << "k = " << k;
     EXPECT_NEAR(m.phase_rad_s, wc, 1e-9 * wc);
@@ -237,8 +243,10 @@ TEST(SisoMargins, FeedthroughShiftsTheCrossovers) {
   // L = 0.5 + 2/(s + 1) = (0.5 s + 2.5)/(s + 1): |L|² = (0.25ω² + 6.25)/(ω² + 1) = 1 at ω = √7;
   // PM = 180° − (atan √7 − atan(√7/5)); 1 + kL has the pole −(1 + 2.5k)/(1 + 0.5k) < 0 for all
   // k > 0 (derived by hand).
-  const LoopMargins m = SisoMargins({Scalar(-1), Scalar(1), Scalar(2), Scalar(0.5)});
-  ASSERT_TRUE(m.ok) << m.message;
+  const AnalysisResult<LoopMargins> m_result =
+      SisoMargins({Scalar(-1), Scalar(1), Scalar(2), Scalar(0.5)});
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   const double wc = std::sqrt(7.0);
   EXPECT_NEAR(m.phase_rad_s, wc, 1e-9);
   EXPECT_NEAR(m.phase_deg, 180 - (std::atan(wc) - std::atan(wc / 5)) * kDeg, 1e-9);
@@ -249,8 +257,10 @@ TEST(SisoMargins, FeedthroughShiftsTheCrossovers) {
 TEST(SisoMargins, NegativeFeedthroughLosesAPoleThroughInfinity) {
   // L = −0.5 + 3/(s + 1) = (−0.5 s + 2.5)/(s + 1): 1 + kL ∝ (1 − 0.5k) s + (1 + 2.5k), whose
   // pole leaves through infinity at k = 2 (derived by hand).
-  const LoopMargins m = SisoMargins({Scalar(-1), Scalar(1), Scalar(3), Scalar(-0.5)});
-  ASSERT_TRUE(m.ok) << m.message;
+  const AnalysisResult<LoopMargins> m_result =
+      SisoMargins({Scalar(-1), Scalar(1), Scalar(3), Scalar(-0.5)});
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   EXPECT_NEAR(m.gain_high, 2.0, 1e-12);
   EXPECT_EQ(m.gain_high_rad_s, kInf);
   EXPECT_EQ(m.gain_low, 0.0);
@@ -260,8 +270,9 @@ TEST(InputMargins, UnstablePlantHasAGainReductionMargin) {
   // ẋ = x + u, u = −2x: L = 2/(s − 1). L(0) = −2, so gain_low = 0.5 at DC; no other phase
   // crossover, gain_high = inf. |L| = 1 at ω = √3 with ∠L = −120°: PM = 60°, delay margin
   // (π/3)/√3. S − ½ = (s − 3)/(2(s + 1)) peaks at DC at 3/2: α = 2/3 (derived by hand).
-  const LoopMargins m = InputMargins(Scalar(1), Scalar(1), Scalar(2), 0);
-  ASSERT_TRUE(m.ok) << m.message;
+  const AnalysisResult<LoopMargins> m_result = InputMargins(Scalar(1), Scalar(1), Scalar(2), 0);
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   EXPECT_NEAR(m.gain_low, 0.5, 1e-12);
   EXPECT_EQ(m.gain_low_rad_s, 0.0);
   EXPECT_EQ(m.gain_high, kInf);
@@ -281,16 +292,19 @@ TEST(InputMargins, ScalarLqrHasTheGuaranteedMargins) {
   // |L| = 1 at ω = √(K² − 1) with PM = atan ω; S = (s − 1)/(s + √2) has ‖S‖∞ = 1 at infinity;
   // S − ½ = (s − 2 − √2)/(2(s + √2)) peaks at DC: α = 2√2/(2 + √2) = 2(√2 − 1).
   const double k = 1 + std::sqrt(2.0);
-  const LoopMargins m = InputMargins(Scalar(1), Scalar(1), Scalar(k), 0);
-  ASSERT_TRUE(m.ok) << m.message;
+  const AnalysisResult<LoopMargins> m_result = InputMargins(Scalar(1), Scalar(1), Scalar(k), 0);
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   EXPECT_LE(m.gain_low, 0.5 + 1e-9);
   EXPECT_EQ(m.gain_high, kInf);
   EXPECT_GE(m.phase_deg, 60 - 1e-9);
   EXPECT_NEAR(m.gain_low, std::sqrt(2.0) - 1, 1e-12);
   EXPECT_NEAR(m.phase_deg, std::atan(std::sqrt(k * k - 1)) * kDeg, 1e-9);
   EXPECT_NEAR(m.disk_alpha, 2 * (std::sqrt(2.0) - 1), 1e-9);
-  const NormResult s = HinfNorm(InputSensitivity(Scalar(1), Scalar(1), Scalar(k)));
-  ASSERT_TRUE(s.ok) << s.message;
+  const AnalysisResult<NormPeak> s_result =
+      HinfNorm(InputSensitivity(Scalar(1), Scalar(1), Scalar(k)));
+  ASSERT_TRUE(Succeeded(s_result));
+  const NormPeak& s = *s_result;
   EXPECT_LE(s.norm, 1 + 1e-9);
   EXPECT_NEAR(s.norm, 1, 1e-9);
   EXPECT_EQ(s.peak_rad_s, kInf);
@@ -306,8 +320,9 @@ TEST(InputMargins, DoubleIntegratorLqrHasTheGuaranteedMargins) {
   a << 0, 1, 0, 0;
   const Eigen::MatrixXd b = Eigen::Vector2d(0, 1);
   const Eigen::MatrixXd k = Eigen::RowVector2d(1, std::sqrt(3.0));
-  const LoopMargins m = InputMargins(a, b, k, 0);
-  ASSERT_TRUE(m.ok) << m.message;
+  const AnalysisResult<LoopMargins> m_result = InputMargins(a, b, k, 0);
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   EXPECT_LE(m.gain_low, 0.5 + 1e-9);
   EXPECT_GE(m.phase_deg, 60 - 1e-9);
   EXPECT_EQ(m.gain_low, 0.0);
@@ -315,8 +330,9 @@ TEST(InputMargins, DoubleIntegratorLqrHasTheGuaranteedMargins) {
   const double wc = std::sqrt((3 + std::sqrt(13.0)) / 2);
   EXPECT_NEAR(m.phase_rad_s, wc, 1e-9);
   EXPECT_NEAR(m.phase_deg, std::atan(std::sqrt(3.0) * wc) * kDeg, 1e-9);
-  const NormResult s = HinfNorm(InputSensitivity(a, b, k));
-  ASSERT_TRUE(s.ok) << s.message;
+  const AnalysisResult<NormPeak> s_result = HinfNorm(InputSensitivity(a, b, k));
+  ASSERT_TRUE(Succeeded(s_result));
+  const NormPeak& s = *s_result;
   EXPECT_LE(s.norm, 1 + 1e-9);
   EXPECT_EQ(s.peak_rad_s, kInf);
   ExpectDiskWithinClassical(m);
@@ -356,8 +372,9 @@ TEST(InputMargins, LoopAtATimeMatchesScalingOneInput) {
       return end > 1 ? kInf : 0.0;
     };
     const double high = boundary(1e4), low = boundary(1e-4);
-    const LoopMargins m = InputMargins(a, b, k, j);
-    ASSERT_TRUE(m.ok) << m.message;
+    const AnalysisResult<LoopMargins> m_result = InputMargins(a, b, k, j);
+    ASSERT_TRUE(Succeeded(m_result));
+    const LoopMargins& m = *m_result;
     if (std::isinf(high)) {
       EXPECT_EQ(m.gain_high, kInf) << "channel " << j;
     } else {
@@ -373,9 +390,8 @@ TEST(InputMargins, LoopAtATimeMatchesScalingOneInput) {
 }
 
 TEST(InputSensitivity, LeavesMismatchedSizesForHinfNormToReport) {
-  const NormResult r =
-      HinfNorm(InputSensitivity(Scalar(-1), Eigen::MatrixXd::Ones(2, 1), Scalar(1)));
-  EXPECT_FALSE(r.ok);
+  const AnalysisFailure<NormPeak> r =
+      FailureOf(HinfNorm(InputSensitivity(Scalar(-1), Eigen::MatrixXd::Ones(2, 1), Scalar(1))));
   EXPECT_NE(r.message.find("B is 2×1"), std::string::npos) << r.message;
 }
 
@@ -387,13 +403,15 @@ TEST(WorstInputMargins, TakesTheWorstOfEachFigure) {
   const Eigen::MatrixXd a = Eigen::Vector2d(1, -1).asDiagonal();
   const Eigen::MatrixXd b = Eigen::Matrix2d::Identity();
   const Eigen::MatrixXd k = Eigen::Vector2d(2, 3).asDiagonal();
-  const LoopMargins second = InputMargins(a, b, k, 1);
-  ASSERT_TRUE(second.ok) << second.message;
+  const AnalysisResult<LoopMargins> second_result = InputMargins(a, b, k, 1);
+  ASSERT_TRUE(Succeeded(second_result));
+  const LoopMargins& second = *second_result;
   EXPECT_NEAR(second.phase_deg, 180 - std::atan(std::sqrt(8.0)) * kDeg, 1e-9);
   EXPECT_NEAR(second.delay_s, (kPi - std::atan(std::sqrt(8.0))) / std::sqrt(8.0), 1e-10);
   EXPECT_NEAR(second.disk_alpha, 2, 1e-8);
-  const LoopMargins w = WorstInputMargins(a, b, k);
-  ASSERT_TRUE(w.ok) << w.message;
+  const AnalysisResult<LoopMargins> w_result = WorstInputMargins(a, b, k);
+  ASSERT_TRUE(Succeeded(w_result));
+  const LoopMargins& w = *w_result;
   EXPECT_NEAR(w.gain_low, 0.5, 1e-12);
   EXPECT_EQ(w.gain_high, kInf);
   EXPECT_NEAR(w.phase_deg, 60, 1e-9);
@@ -402,8 +420,10 @@ TEST(WorstInputMargins, TakesTheWorstOfEachFigure) {
   ExpectDiskFieldsFollowAlpha(w);
   // The same with the channels swapped.
   const Eigen::MatrixXd swap = (Eigen::Matrix2d() << 0, 1, 1, 0).finished();
-  const LoopMargins swapped = WorstInputMargins(swap * a * swap, swap * b, k * swap);
-  ASSERT_TRUE(swapped.ok) << swapped.message;
+  const AnalysisResult<LoopMargins> swapped_result =
+      WorstInputMargins(swap * a * swap, swap * b, k * swap);
+  ASSERT_TRUE(Succeeded(swapped_result));
+  const LoopMargins& swapped = *swapped_result;
   EXPECT_NEAR(swapped.gain_low, 0.5, 1e-12);
   EXPECT_NEAR(swapped.phase_deg, 60, 1e-9);
   EXPECT_NEAR(swapped.disk_alpha, 2.0 / 3, 1e-9);
@@ -413,9 +433,10 @@ TEST(SisoMargins, PureGainLoop) {
   // L = 2: 1 + 2k never vanishes for k > 0 and |L| never equals 1, so every classical margin is
   // infinite; S − ½ = 1/3 − 1/2 = −1/6 gives α = 6, beyond 2: disk gains [0, inf) and disk phase
   // 2 atan 3 (derived by hand).
-  const LoopMargins m =
+  const AnalysisResult<LoopMargins> m_result =
       SisoMargins({Eigen::MatrixXd(0, 0), Eigen::MatrixXd(0, 1), Eigen::MatrixXd(1, 0), Scalar(2)});
-  ASSERT_TRUE(m.ok) << m.message;
+  ASSERT_TRUE(Succeeded(m_result));
+  const LoopMargins& m = *m_result;
   EXPECT_EQ(m.gain_low, 0.0);
   EXPECT_EQ(m.gain_high, kInf);
   EXPECT_EQ(m.phase_deg, kInf);
@@ -428,25 +449,26 @@ TEST(SisoMargins, PureGainLoop) {
 
 TEST(SisoMargins, UnstableClosedLoopIsReported) {
   // L = 0.5/(s − 1): 1 + L ∝ s − 0.5, unstable (derived by hand).
-  const LoopMargins m = SisoMargins({Scalar(1), Scalar(1), Scalar(0.5), Scalar(0)});
-  EXPECT_FALSE(m.ok);
+  const AnalysisFailure<LoopMargins> m =
+      FailureOf(SisoMargins({Scalar(1), Scalar(1), Scalar(0.5), Scalar(0)}));
   EXPECT_NE(m.message.find("unstable"), std::string::npos) << m.message;
   EXPECT_NE(m.message.find("0.5"), std::string::npos) << m.message;
-  const LoopMargins in = InputMargins(Scalar(1), Scalar(1), Scalar(0.5), 0);
-  EXPECT_FALSE(in.ok);
+  const AnalysisFailure<LoopMargins> in =
+      FailureOf(InputMargins(Scalar(1), Scalar(1), Scalar(0.5), 0));
   EXPECT_NE(in.message.find("input channel 0"), std::string::npos) << in.message;
-  EXPECT_FALSE(WorstInputMargins(Scalar(1), Scalar(1), Scalar(0.5)).ok);
+  EXPECT_FALSE(WorstInputMargins(Scalar(1), Scalar(1), Scalar(0.5)).has_value());
 }
 
 TEST(SisoMargins, RejectsBadInput) {
-  EXPECT_FALSE(SisoMargins({Scalar(-1), Eigen::MatrixXd::Ones(1, 2), Scalar(1), Scalar(0)}).ok);
-  const LoopMargins ill_posed = SisoMargins({Scalar(-1), Scalar(1), Scalar(1), Scalar(-1)});
-  EXPECT_FALSE(ill_posed.ok);
+  EXPECT_FALSE(
+      SisoMargins({Scalar(-1), Eigen::MatrixXd::Ones(1, 2), Scalar(1), Scalar(0)}).has_value());
+  const AnalysisFailure<LoopMargins> ill_posed =
+      FailureOf(SisoMargins({Scalar(-1), Scalar(1), Scalar(1), Scalar(-1)}));
   EXPECT_NE(ill_posed.message.find("1 + D = 0"), std::string::npos) << ill_posed.message;
-  const LoopMargins channel = InputMargins(Scalar(-1), Scalar(1), Scalar(1), 1);
-  EXPECT_FALSE(channel.ok);
+  const AnalysisFailure<LoopMargins> channel =
+      FailureOf(InputMargins(Scalar(-1), Scalar(1), Scalar(1), 1));
   EXPECT_NE(channel.message.find("channel = 1"), std::string::npos) << channel.message;
-  EXPECT_FALSE(InputMargins(Scalar(-1), Scalar(1), Eigen::MatrixXd::Ones(1, 2), 0).ok);
+  EXPECT_FALSE(InputMargins(Scalar(-1), Scalar(1), Eigen::MatrixXd::Ones(1, 2), 0).has_value());
 }
 
 // Uniform numbers in [−1, 1) from the standard 64-bit Mersenne Twister (its sequence is fixed by
@@ -509,8 +531,9 @@ TEST(SisoMargins, RandomLoopsAgreeWithBruteForce) {
   for (int trial = 0; trial < 24; ++trial) {
     const StateSpace l = RandomLoop(random, 1 + trial % 6);
     ASSERT_TRUE(StableWithGain(l, 1.0));
-    const LoopMargins m = SisoMargins(l);
-    ASSERT_TRUE(m.ok) << m.message;
+    const AnalysisResult<LoopMargins> m_result = SisoMargins(l);
+    ASSERT_TRUE(Succeeded(m_result));
+    const LoopMargins& m = *m_result;
     const double high = ScanGain(l, 1e4), low = ScanGain(l, 1e-4);
     if (std::isinf(high)) {
       EXPECT_TRUE(std::isinf(m.gain_high) || m.gain_high > 1e4) << "trial " << trial;

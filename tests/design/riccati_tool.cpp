@@ -23,7 +23,8 @@ bool ReadMatrix(std::istream& in, Eigen::Index rows, Eigen::Index cols, Eigen::M
 }  // namespace
 
 int main() {
-  using upright::design::RiccatiResult;
+  using RiccatiResult =
+      upright::Result<upright::design::RiccatiSolution, upright::design::SolveError>;
   std::string kind;
   Eigen::Index n = 0, m = 0;
   if (!(std::cin >> kind >> n >> m) || n < 1 || m < 1) {
@@ -37,7 +38,7 @@ int main() {
     std::fprintf(stderr, "input ended before A, B, Q, R and S were complete\n");
     return 2;
   }
-  RiccatiResult result;
+  RiccatiResult result = upright::Failure(upright::design::SolveError{});
   if (kind == "care") {
     result = upright::design::SolveCare(A, B, Q, R, S);
   } else if (kind == "care-sign") {
@@ -48,14 +49,14 @@ int main() {
     std::fprintf(stderr, "unknown kind '%s': expected care, care-sign or dare\n", kind.c_str());
     return 2;
   }
-  if (!result.ok()) {
-    std::printf("failed %s: %s\n", upright::design::ToString(result.failure),
-                result.message.c_str());
+  if (!result) {
+    std::printf("failed %s: %s\n", upright::design::ToString(result.error().reason),
+                result.error().message.c_str());
     return 1;
   }
   std::printf("ok\n");
   for (Eigen::Index i = 0; i < n; ++i) {
-    for (Eigen::Index j = 0; j < n; ++j) std::printf(j == 0 ? "%.17g" : " %.17g", result.X(i, j));
+    for (Eigen::Index j = 0; j < n; ++j) std::printf(j == 0 ? "%.17g" : " %.17g", result->X(i, j));
     std::printf("\n");
   }
   return 0;

@@ -11,6 +11,7 @@
 #include <vector>
 
 #include "demo_robot.hpp"
+#include "succeeded.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/conventions.hpp"
@@ -48,7 +49,10 @@ TEST_P(SampledLoopTest, WithoutFeedbackThePolesAreTheOpenLoopsThroughZEqualsExpS
   // A zero-order hold maps each pole s of A to z = e^{sT} (Franklin, Powell and Workman, Digital
   // Control of Dynamic Systems, 3rd ed., ch. 4; from memory): log z / T gives them back, the
   // falling robot's unstable pole included.
-  const SampledPoles sampled = SampledStateFeedback(plant_, Gain::Zero(), period_s_);
+  const Result<SampledPoles, SolveError> sampled_result =
+      SampledStateFeedback(plant_, Gain::Zero(), period_s_);
+  ASSERT_TRUE(Succeeded(sampled_result));
+  const SampledPoles& sampled = *sampled_result;
   EXPECT_LT(Mismatch(Eigenvalues(plant_.A), sampled.s), 1e-9);
   EXPECT_NEAR(sampled.max_abs_z, std::exp(plant_.fall_rate_1_s * period_s_), 1e-12);
 }
@@ -57,15 +61,15 @@ TEST_P(SampledLoopTest, StateFeedbackApproachesTheContinuousLoopAsTheRateGrows) 
   // The continuous LQR gain held over T: the sampled poles tend to eig(A − B K), the error first
   // order in T (the hold's half-sample lag; common practice).
   const DesignWeights weights;
-  const GainResult lqr = RobotLqr(plant_, StateWeight(weights),
-                                  InputWeight(weights, model_, InputKind::kTorque));
-  ASSERT_TRUE(lqr.ok()) << lqr.message;
-  const Poles continuous = Eigenvalues(plant_.A - plant_.B * lqr.K);
+  const Result<Eigen::MatrixXd, SolveError> lqr =
+      RobotLqr(plant_, StateWeight(weights), InputWeight(weights, model_, InputKind::kTorque));
+  ASSERT_TRUE(Succeeded(lqr));
+  const Poles continuous = Eigenvalues(plant_.A - plant_.B * (*lqr));
   constexpr int kHalvings = 6;
   double error[kHalvings];
   for (int k = 0; k < kHalvings; ++k) {
     const double T = period_s_ / (1 << k);
-    error[k] = Mismatch(continuous, SampledStateFeedback(plant_, lqr.K, T).s);
+    error[k] = Mismatch(continuous, SampledStateFeedback(plant_, (*lqr), T).value().s);
     if (k > 0) {
       EXPECT_LT(error[k], error[k - 1]) << "T = " << T;
     }
@@ -80,9 +84,10 @@ TEST_P(SampledLoopTest, LqgPolesAreTheRegulatorsAndTheFiltersTogether) {
   // the loop's poles are eig(Ad − Bd K) and eig(Ad (I − L C)).
   const DesignSet d = DesignAll(model_, DesignRequest{});
   ASSERT_TRUE(d.lqg.ok) << d.lqg.message;
-  const LqgFilter filter = DesignLqgFilter(model_, plant_, plant_,
-                                           DefaultFilterNoise(model_, plant_), period_s_);
-  ASSERT_TRUE(filter.ok()) << filter.message;
+  const Result<LqgFilter, SolveError> designed =
+      DesignLqgFilter(model_, plant_, plant_, DefaultFilterNoise(model_, plant_), period_s_);
+  ASSERT_TRUE(Succeeded(designed));
+  const LqgFilter& filter = *designed;
   const MatrixXd I = MatrixXd::Identity(kStates, kStates);
   Poles z = Eigenvalues(filter.Ad - filter.Bd * d.lqg.K_discrete);
   const Poles estimator = Eigenvalues(filter.Ad * (I - filter.L_discrete * filter.sensors.C));
@@ -103,9 +108,10 @@ TEST_P(SampledLoopTest, DesignSamplesTheLawsTheModulesRun) {
   ASSERT_TRUE(d.all_ok());
   EXPECT_EQ(d.lqr.sampled.period_s, period_s_);
   EXPECT_LT(d.lqr.sampled.max_abs_z, 1);
-  EXPECT_LT(Mismatch(SampledStateFeedback(plant_, d.lqr.K_discrete, period_s_).s, d.lqr.sampled.s),
+  EXPECT_LT(Mismatch(SampledStateFeedback(plant_, d.lqr.K_discrete, period_s_).value().s,
+                     d.lqr.sampled.s),
             1e-12);
-  EXPECT_LT(Mismatch(SampledStateFeedback(plant_, d.hinf.K, period_s_).s, d.hinf.sampled.s),
+  EXPECT_LT(Mismatch(SampledStateFeedback(plant_, d.hinf.K, period_s_).value().s, d.hinf.sampled.s),
             1e-12);
   EXPECT_FALSE(d.pid.sampled.analysed());
 }

@@ -14,6 +14,7 @@
 #include <random>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/design/analysis.hpp"
 
 // SLICOT ships no header: AB13DD as gfortran passes it (every argument by pointer, one hidden
@@ -149,10 +150,10 @@ TEST(SlicotNorm, CallIsRightOnAFirstOrderLag) {
   ASSERT_EQ(ref.info, 0);
   EXPECT_NEAR(ref.norm, 1.0, 1e-12);
   EXPECT_EQ(ref.peak_rad_s, 0.0);
-  const NormResult ours = HinfNorm(lag);
-  ASSERT_TRUE(ours.ok) << ours.message;
-  EXPECT_NEAR(ours.norm, 1.0, 1e-12);
-  EXPECT_EQ(ours.peak_rad_s, 0.0);
+  const AnalysisResult<NormPeak> ours = HinfNorm(lag);
+  ASSERT_TRUE(Succeeded(ours));
+  EXPECT_NEAR(ours->norm, 1.0, 1e-12);
+  EXPECT_EQ(ours->peak_rad_s, 0.0);
 }
 
 TEST(SlicotNorm, CallIsRightOnAResonance) {
@@ -197,12 +198,12 @@ TEST(SlicotNorm, SixthOrderLightlyDampedSystemAgrees) {
   const StateSpace s{a, b, b.transpose(), Eigen::MatrixXd::Zero(1, 1)};
   const Reference ref = SlicotNorm(s, 1e-10);
   ASSERT_EQ(ref.info, 0);
-  const NormResult ours = HinfNorm(s);
-  ASSERT_TRUE(ours.ok) << ours.message;
-  EXPECT_NEAR(ours.norm / ref.norm, 1, 1e-8);
-  EXPECT_NEAR(ours.peak_rad_s / ref.peak_rad_s, 1, 1e-8);
-  EXPECT_NEAR(ours.norm, 5e5, 10);
-  EXPECT_NEAR(ours.peak_rad_s, std::sqrt(2.0), 1e-5);
+  const AnalysisResult<NormPeak> ours = HinfNorm(s);
+  ASSERT_TRUE(Succeeded(ours));
+  EXPECT_NEAR(ours->norm / ref.norm, 1, 1e-8);
+  EXPECT_NEAR(ours->peak_rad_s / ref.peak_rad_s, 1, 1e-8);
+  EXPECT_NEAR(ours->norm, 5e5, 10);
+  EXPECT_NEAR(ours->peak_rad_s, std::sqrt(2.0), 1e-5);
 }
 
 TEST(SlicotNorm, RandomStableSystemsAgreeWithAb13dd) {
@@ -223,28 +224,28 @@ TEST(SlicotNorm, RandomStableSystemsAgreeWithAb13dd) {
           const StateSpace s = RandomStable(random, n, p, m, with_d);
           const Reference ref = SlicotNorm(s, 1e-10);
           ASSERT_EQ(ref.info, 0) << "n=" << n << " p=" << p << " m=" << m;
-          const NormResult ours = HinfNorm(s);
-          ASSERT_TRUE(ours.ok) << ours.message;
+          const AnalysisResult<NormPeak> ours = HinfNorm(s);
+          ASSERT_TRUE(Succeeded(ours));
           ++systems;
-          const double difference = (ours.norm - ref.norm) / ref.norm;
+          const double difference = (ours->norm - ref.norm) / ref.norm;
           EXPECT_GE(difference, -1e-8) << "n=" << n << " p=" << p << " m=" << m << " D=" << with_d
-                                       << " ours " << ours.norm << " AB13DD " << ref.norm;
+                                       << " ours " << ours->norm << " AB13DD " << ref.norm;
           if (difference > 1e-8) {
             ++reference_missed;
-            EXPECT_NEAR(Gain(s, ours.peak_rad_s), ours.norm, 1e-12 * ours.norm);
+            EXPECT_NEAR(Gain(s, ours->peak_rad_s), ours->norm, 1e-12 * ours->norm);
             continue;
           }
           worst_norm = std::max(worst_norm, std::abs(difference));
           if (!IsSharp(s, ref.peak_rad_s, ref.norm)) continue;
           ++sharp;
           if (std::isinf(ref.peak_rad_s) || ref.peak_rad_s == 0) {
-            EXPECT_EQ(ours.peak_rad_s, ref.peak_rad_s) << "n=" << n << " p=" << p << " m=" << m;
+            EXPECT_EQ(ours->peak_rad_s, ref.peak_rad_s) << "n=" << n << " p=" << p << " m=" << m;
           } else {
             const double peak_difference =
-                std::abs(ours.peak_rad_s - ref.peak_rad_s) / ref.peak_rad_s;
+                std::abs(ours->peak_rad_s - ref.peak_rad_s) / ref.peak_rad_s;
             worst_peak = std::max(worst_peak, peak_difference);
             EXPECT_LE(peak_difference, 1e-4) << "n=" << n << " p=" << p << " m=" << m << " ours "
-                                             << ours.peak_rad_s << " AB13DD " << ref.peak_rad_s;
+                                             << ours->peak_rad_s << " AB13DD " << ref.peak_rad_s;
           }
         }
       }

@@ -9,6 +9,7 @@
 #include <random>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/design/riccati.hpp"
 
 extern "C" {
@@ -134,11 +135,12 @@ Problem RandomProblem(unsigned seed, int n, int m, bool cross_term) {
 }
 
 // One comparison: our X against SLICOT's, both must succeed.
-double Compare(const RiccatiResult& ours, const Reference& reference, const char* what) {
+double Compare(const Result<RiccatiSolution, SolveError>& ours, const Reference& reference,
+               const char* what) {
   EXPECT_EQ(reference.info, 0) << what;
-  EXPECT_TRUE(ours.ok()) << what << ": " << ours.message;
-  if (reference.info != 0 || !ours.ok()) return INFINITY;
-  const double difference = RelativeDifference(ours.X, reference.X);
+  EXPECT_TRUE(Succeeded(ours)) << what;
+  if (reference.info != 0 || !ours) return INFINITY;
+  const double difference = RelativeDifference(ours->X, reference.X);
   EXPECT_LT(difference, kAgreement) << what;
   return difference;
 }
@@ -220,8 +222,9 @@ TEST(SlicotRiccati, IndefiniteHinfFormAgreesWithSb02od) {
       return MatrixXd(0.5 * (R + R.transpose()));
     };
     double feasible = 64;
-    ASSERT_TRUE(SolveCare(A, B, Q, weights(feasible), S).ok()) << "n " << n;
-    while (feasible > 1e-3 && SolveCare(A, B, Q, weights(feasible / 2), S).ok()) feasible /= 2;
+    ASSERT_TRUE(SolveCare(A, B, Q, weights(feasible), S).has_value()) << "n " << n;
+    while (feasible > 1e-3 && SolveCare(A, B, Q, weights(feasible / 2), S).has_value())
+      feasible /= 2;
     const double gamma = 2 * feasible;
     const MatrixXd R = weights(gamma);
     const std::string what = "n " + std::to_string(n) + " γ " + std::to_string(gamma);

@@ -9,6 +9,7 @@
 #include <cmath>
 
 #include "demo_robot.hpp"
+#include "succeeded.hpp"
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
@@ -63,36 +64,36 @@ TEST(Synthesis, CartPoleModelMatchesTheTutorialTable) {
 TEST(Synthesis, LqrGainMatchesTheCartPoleTutorialWithHeavyPositionWeight) {
   // Q = diag(5000, 0, 100, 0), R = 1 → K = [−70.7107 −37.8345 105.5298 20.9238]
   // ([CTMS-pendulum]; checked numerically), to the tutorial's 4 printed decimals.
-  const GainResult k =
+  const Result<Eigen::MatrixXd, SolveError> k =
       LqrGain(CartPoleA(), CartPoleB(),
               M({{5000, 0, 0, 0}, {0, 0, 0, 0}, {0, 0, 100, 0}, {0, 0, 0, 0}}), M({{1}}));
-  ASSERT_TRUE(k.ok()) << k.message;
+  ASSERT_TRUE(Succeeded(k));
   const double expected[] = {-70.7107, -37.8345, 105.5298, 20.9238};
-  for (int j = 0; j < 4; ++j) EXPECT_NEAR(k.K(0, j), expected[j], 1e-4);
+  for (int j = 0; j < 4; ++j) EXPECT_NEAR((*k)(0, j), expected[j], 1e-4);
 }
 
 TEST(Synthesis, LqrGainMatchesTheCartPoleTutorialWithUnitWeights) {
   // Q = diag(1, 0, 1, 0), R = 1 → K = [−1.0000 −1.6567 18.6854 3.4594] ([CTMS-pendulum], from
   // memory; checked numerically), to 4 decimals.
-  const GainResult k =
+  const Result<Eigen::MatrixXd, SolveError> k =
       LqrGain(CartPoleA(), CartPoleB(), M({{1, 0, 0, 0}, {0, 0, 0, 0}, {0, 0, 1, 0}, {0, 0, 0, 0}}),
               M({{1}}));
-  ASSERT_TRUE(k.ok()) << k.message;
+  ASSERT_TRUE(Succeeded(k));
   const double expected[] = {-1.0000, -1.6567, 18.6854, 3.4594};
-  for (int j = 0; j < 4; ++j) EXPECT_NEAR(k.K(0, j), expected[j], 1e-4);
+  for (int j = 0; j < 4; ++j) EXPECT_NEAR((*k)(0, j), expected[j], 1e-4);
 }
 
 TEST(Synthesis, ScalarLqrHasTheClosedFormGain) {
   // ẋ = x + u, q = r = 1: 2x − x² + 1 = 0 → K = x = 1 + √2, closed-loop pole −√2 (closed form,
   // derived by hand).
-  const GainResult k = LqrGain(M({{1}}), M({{1}}), M({{1}}), M({{1}}));
-  ASSERT_TRUE(k.ok());
-  EXPECT_NEAR(k.K(0, 0), 1 + std::sqrt(2.0), 1e-12);
+  const Result<Eigen::MatrixXd, SolveError> k = LqrGain(M({{1}}), M({{1}}), M({{1}}), M({{1}}));
+  ASSERT_TRUE(Succeeded(k));
+  EXPECT_NEAR((*k)(0, 0), 1 + std::sqrt(2.0), 1e-12);
 }
 
 // Closed-loop H-infinity norm of the scalar example: ẋ = (a − K) x + w, z = [x; −K x].
 double ScalarLoopNorm(double a, double k) {
-  return HinfNorm({M({{a - k}}), M({{1}}), M({{1}, {-k}}), M({{0}, {0}})}).norm;
+  return HinfNorm({M({{a - k}}), M({{1}}), M({{1}, {-k}}), M({{0}, {0}})}).value().norm;
 }
 
 TEST(Synthesis, ScalarHinfGainMatchesTheClosedForm) {
@@ -105,10 +106,11 @@ TEST(Synthesis, ScalarHinfGainMatchesTheClosedForm) {
     double a, x, norm;
   };
   for (const Case c : {Case{1, 3.0971675407, 1.5519045913}, Case{-1, 0.4305008740, 0.7610824268}}) {
-    const GainResult k = HinfGain(M({{c.a}}), M({{1}}), M({{1}}), M({{1}}), M({{1}}), 2.0);
-    ASSERT_TRUE(k.ok()) << k.message;
-    EXPECT_NEAR(k.K(0, 0), c.x, 1e-9) << "a = " << c.a;
-    EXPECT_NEAR(ScalarLoopNorm(c.a, k.K(0, 0)), c.norm, 1e-9) << "a = " << c.a;
+    const Result<Eigen::MatrixXd, SolveError> k =
+        HinfGain(M({{c.a}}), M({{1}}), M({{1}}), M({{1}}), M({{1}}), 2.0);
+    ASSERT_TRUE(Succeeded(k));
+    EXPECT_NEAR((*k)(0, 0), c.x, 1e-9) << "a = " << c.a;
+    EXPECT_NEAR(ScalarLoopNorm(c.a, (*k)(0, 0)), c.norm, 1e-9) << "a = " << c.a;
   }
 }
 
@@ -116,24 +118,25 @@ TEST(Synthesis, GammaIterationFindsTheScalarOptimum) {
   // For a < 0, γ_opt = 1/√(1 + a²), where the root above turns complex (a = −1: 0.70710678); for
   // a ≥ 0, X ≥ 0 needs 1 − γ⁻² > 0, so γ_opt = 1, approached but not attained (derived by hand;
   // checked numerically). Bisection to a relative gap of 1e-6.
-  const GammaSearch stable =
+  const Result<GammaSearch, SolveError> stable =
       OptimalGamma(M({{-1}}), M({{1}}), M({{1}}), M({{1}}), M({{1}}), 2.0, 1e-6);
-  ASSERT_TRUE(stable.ok()) << stable.message;
-  EXPECT_NEAR(stable.gamma_opt, 1 / std::sqrt(2.0), 1e-5);
-  const GammaSearch unstable =
+  ASSERT_TRUE(Succeeded(stable));
+  EXPECT_NEAR(stable->gamma_opt, 1 / std::sqrt(2.0), 1e-5);
+  const Result<GammaSearch, SolveError> unstable =
       OptimalGamma(M({{1}}), M({{1}}), M({{1}}), M({{1}}), M({{1}}), 2.0, 1e-6);
-  ASSERT_TRUE(unstable.ok()) << unstable.message;
-  EXPECT_NEAR(unstable.gamma_opt, 1.0, 1e-4);
-  EXPECT_GE(unstable.gamma_opt, 1.0);
+  ASSERT_TRUE(Succeeded(unstable));
+  EXPECT_NEAR(unstable->gamma_opt, 1.0, 1e-4);
+  EXPECT_GE(unstable->gamma_opt, 1.0);
 }
 
 TEST(Synthesis, KalmanBucyGainOfAFirstOrderSystem) {
   // ẋ = −x + w, y = x + v, Q = R = 1: −2P − P² + 1 = 0 → P = L = √2 − 1 (closed form, derived
   // by hand).
   MatrixXd P;
-  const GainResult l = KalmanBucyGain(M({{-1}}), M({{1}}), M({{1}}), M({{1}}), &P);
-  ASSERT_TRUE(l.ok()) << l.message;
-  EXPECT_NEAR(l.K(0, 0), std::sqrt(2.0) - 1, 1e-12);
+  const Result<Eigen::MatrixXd, SolveError> l =
+      KalmanBucyGain(M({{-1}}), M({{1}}), M({{1}}), M({{1}}), &P);
+  ASSERT_TRUE(Succeeded(l));
+  EXPECT_NEAR((*l)(0, 0), std::sqrt(2.0) - 1, 1e-12);
   EXPECT_NEAR(P(0, 0), std::sqrt(2.0) - 1, 1e-12);
 }
 
@@ -141,10 +144,11 @@ TEST(Synthesis, DiscreteKalmanGainOfARandomWalk) {
   // x⁺ = x + w, y = x + v, Q = R = 1: P² − P − 1 = 0 → P⁻ = (1 + √5)/2 = 1.6180340,
   // K = P/(P + 1) = 0.6180340 (closed form, derived by hand).
   MatrixXd P;
-  const GainResult l = DiscreteKalmanGain(M({{1}}), M({{1}}), M({{1}}), M({{1}}), &P);
-  ASSERT_TRUE(l.ok()) << l.message;
+  const Result<Eigen::MatrixXd, SolveError> l =
+      DiscreteKalmanGain(M({{1}}), M({{1}}), M({{1}}), M({{1}}), &P);
+  ASSERT_TRUE(Succeeded(l));
   EXPECT_NEAR(P(0, 0), (1 + std::sqrt(5.0)) / 2, 1e-9);
-  EXPECT_NEAR(l.K(0, 0), (std::sqrt(5.0) - 1) / 2, 1e-9);
+  EXPECT_NEAR((*l)(0, 0), (std::sqrt(5.0) - 1) / 2, 1e-9);
 }
 
 TEST(Synthesis, DiscreteLqrApproachesTheContinuousGainAsTheRateRises) {
@@ -155,14 +159,14 @@ TEST(Synthesis, DiscreteLqrApproachesTheContinuousGainAsTheRateRises) {
   const DesignWeights w;
   const StateMatrix Q = StateWeight(w);
   const Eigen::Matrix2d R = InputWeight(w, model, InputKind::kTorque);
-  const GainResult kc = RobotLqr(plant, Q, R);
-  ASSERT_TRUE(kc.ok());
+  const Result<Eigen::MatrixXd, SolveError> kc = RobotLqr(plant, Q, R);
+  ASSERT_TRUE(Succeeded(kc));
   double error[2];
   for (int k = 0; k < 2; ++k) {
     const double T = 1e-3 / (1 << k);
-    const GainResult kd = RobotDiscreteLqr(plant, Q * T, R * T, T);
-    ASSERT_TRUE(kd.ok());
-    error[k] = (kd.K - kc.K).norm() / kc.K.norm();
+    const Result<Eigen::MatrixXd, SolveError> kd = RobotDiscreteLqr(plant, Q * T, R * T, T);
+    ASSERT_TRUE(Succeeded(kd));
+    error[k] = ((*kd) - (*kc)).norm() / (*kc).norm();
   }
   EXPECT_LT(error[0], 0.02);
   EXPECT_NEAR(error[1] / error[0], 0.5, 0.05);
@@ -233,8 +237,10 @@ TEST(Synthesis, PidCascadePlacesTheClosedLoopPolesItAimedAt) {
   Measurement meas;
   LinearController ctrl;
   PidAsLinearController(g, &meas, &ctrl);
-  const LoopAnalysis loop =
+  const AnalysisResult<LoopAnalysis> analysed =
       AnalyseLoop(plant, meas, ctrl, Performance{StateWeight({}), Eigen::Matrix2d::Identity(), 1});
+  ASSERT_TRUE(Succeeded(analysed));
+  const LoopAnalysis& loop = *analysed;
   const double lambda = plant.fall_rate_1_s;
   auto pair = [](double w, double z) {
     return std::complex<double>(-z * w, w * std::sqrt(1 - z * z));
@@ -264,16 +270,16 @@ PlantRun RunOnPlant(const RobotModel& model, const DesignSet& d, const Measureme
                     const LinearController& ctrl, double seconds) {
   sim::PlantOptions options;
   options.drive = sim::DriveMode::kTorque;
-  std::string error;
-  auto plant = sim::Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
+  auto built = sim::Plant::Create(model, options);
+  EXPECT_TRUE(Succeeded(built));
+  const std::unique_ptr<sim::Plant> plant = std::move(built.value());
   sim::Push push;
   push.shape = sim::PushShape::kHalfSine;
   push.start_s = 0.5;
   push.duration_s = 0.2;
   push.peak_N = d.performance.push_scale_N;
   push.height_m = d.plant.push_height_m;
-  EXPECT_TRUE(plant->AddPush(push, &error)) << error;
+  EXPECT_TRUE(Succeeded(plant->AddPush(push)));
   const long every = std::lround(1 / (model.control_rate_hz * options.dt_s));
   const double period_s = static_cast<double>(every) * options.dt_s;
   Eigen::VectorXd xc = Eigen::VectorXd::Zero(ctrl.states());

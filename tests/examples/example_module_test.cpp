@@ -5,6 +5,7 @@
 
 #include <cmath>
 
+#include "succeeded.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
@@ -13,16 +14,15 @@ namespace upright::host {
 namespace {
 
 std::shared_ptr<Module> Example() {
-  std::string error;
-  auto module = Module::Load(UPRIGHT_EXAMPLE_MODULE, &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
+  auto module = Module::Load(UPRIGHT_EXAMPLE_MODULE);
+  EXPECT_TRUE(Succeeded(module));
+  return module.value_or(nullptr);
 }
 
 RobotModel Demo(const std::string& name) {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  return loaded.value_or(RobotModel{});
 }
 
 TEST(ExampleModule, LoadsAndNamesItself) {
@@ -41,12 +41,13 @@ TEST(ExampleModule, BalancesBothDemoRobotsFromThreeDegreesWithNoisySensors) {
     sim::PlantOptions options;
     options.initial.pitch_rad = 3 * deg;
     options.sensor_noise = true;
-    std::string error;
-    auto host = ControllerHost::Create(spec, model, options.dt_s, &error);
-    ASSERT_NE(host, nullptr) << error;
+    auto created = ControllerHost::Create(spec, model, options.dt_s);
+    ASSERT_TRUE(Succeeded(created));
+    const std::unique_ptr<ControllerHost> host = std::move(*created);
     options.drive = host->drive();
-    auto plant = sim::Plant::Create(model, options, &error);
-    ASSERT_NE(plant, nullptr) << error;
+    auto built = sim::Plant::Create(model, options);
+    ASSERT_TRUE(Succeeded(built));
+    const std::unique_ptr<sim::Plant> plant = std::move(*built);
     double max_tilt = 0;
     for (long step = 0; step < 10000; ++step) {
       ASSERT_TRUE(host->Tick(*plant, Reference{})) << name << ": " << host->fault();
@@ -67,13 +68,15 @@ TEST(ExampleModule, RefusesAnUnknownKeyAndABadValueByName) {
   ControllerSpec spec;
   spec.module = Example();
   ASSERT_NE(spec.module, nullptr);
-  std::string error;
   spec.config = {{"gain", "2"}};
-  EXPECT_EQ(ControllerHost::Create(spec, model, 0.001, &error), nullptr);
-  EXPECT_NE(error.find("unknown key 'gain'"), std::string::npos) << error;
+  const auto unknown = ControllerHost::Create(spec, model, 0.001);
+  ASSERT_FALSE(unknown.has_value());
+  EXPECT_NE(unknown.error().find("unknown key 'gain'"), std::string::npos) << unknown.error();
   spec.config = {{"filter_s", "-1"}};
-  EXPECT_EQ(ControllerHost::Create(spec, model, 0.001, &error), nullptr);
-  EXPECT_NE(error.find("filter_s = -1: must be a number in (0, 10]"), std::string::npos) << error;
+  const auto bad = ControllerHost::Create(spec, model, 0.001);
+  ASSERT_FALSE(bad.has_value());
+  EXPECT_NE(bad.error().find("filter_s = -1: must be a number in (0, 10]"), std::string::npos)
+      << bad.error();
 }
 
 }  // namespace

@@ -11,6 +11,7 @@
 #include <string_view>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/model/model_file.hpp"
 
 namespace upright::host {
@@ -18,15 +19,14 @@ namespace {
 
 RobotModel Courier() {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  return loaded.value_or(RobotModel{});
 }
 
 std::shared_ptr<Module> Load(const std::string& name) {
-  std::string error;
-  auto module = Module::Load(std::string(UPRIGHT_TEST_MODULE_DIR) + "/" + name + ".so", &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
+  auto module = Module::Load(std::string(UPRIGHT_TEST_MODULE_DIR) + "/" + name + ".so");
+  EXPECT_TRUE(Succeeded(module));
+  return module.value_or(nullptr);
 }
 
 struct HostRun {
@@ -42,13 +42,15 @@ HostRun RunModule(const std::string& module, long steps, ControllerSpec spec = {
   const RobotModel model = Courier();
   spec.module = Load(module);
   sim::PlantOptions options;
-  std::string error;
-  run.host = ControllerHost::Create(spec, model, options.dt_s, &error);
-  EXPECT_NE(run.host, nullptr) << error;
-  if (!run.host) return run;
+  auto host = ControllerHost::Create(spec, model, options.dt_s);
+  EXPECT_TRUE(Succeeded(host));
+  if (!host) return run;
+  run.host = std::move(*host);
   options.drive = run.host->drive();
-  run.plant = sim::Plant::Create(model, options, &error);
-  EXPECT_NE(run.plant, nullptr) << error;
+  auto plant = sim::Plant::Create(model, options);
+  EXPECT_TRUE(Succeeded(plant));
+  if (!plant) return run;
+  run.plant = std::move(*plant);
   for (; run.steps_done < steps; ++run.steps_done) {
     if (!run.host->Tick(*run.plant, Reference{})) {
       run.faulted = true;
@@ -127,8 +129,7 @@ TEST(ControllerHost, AModuleThatRefusesCreateStillHasItsMessagesHandedOn) {
   spec.config = {{"refuse", "true"}};
   std::vector<Logged> logged;
   spec.log = Into(&logged);
-  std::string error;
-  EXPECT_EQ(ControllerHost::Create(spec, Courier(), 0.001, &error), nullptr);
+  const std::string error = FailureOf(ControllerHost::Create(spec, Courier(), 0.001));
   EXPECT_NE(error.find("refused as asked"), std::string::npos) << error;
   ASSERT_EQ(logged.size(), 4u);
   EXPECT_EQ(logged[3].text, "create: error");
@@ -146,20 +147,21 @@ TEST(ControllerHost, RejectsARateThatIsNoWholeNumberOfSteps) {
   ControllerSpec spec;
   spec.module = Load("faulty_0");
   spec.rate_hz = 300;
-  std::string error;
-  EXPECT_EQ(ControllerHost::Create(spec, Courier(), 0.001, &error), nullptr);
-  EXPECT_NE(error.find("rate_hz = 300 must give a period of a whole number"), std::string::npos)
-      << error;
+  const auto host = ControllerHost::Create(spec, Courier(), 0.001);
+  ASSERT_FALSE(host.has_value());
+  EXPECT_NE(host.error().find("rate_hz = 300 must give a period of a whole number"),
+            std::string::npos)
+      << host.error();
 }
 
 TEST(ControllerHost, AModuleThatRefusesItsConfigurationIsReportedAtCreate) {
   ControllerSpec spec;
   spec.module = Load("faulty_5");
-  std::string error;
-  EXPECT_EQ(ControllerHost::Create(spec, Courier(), 0.001, &error), nullptr);
-  EXPECT_NE(error.find("create failed (status 2): gain = banana: must be a number"),
+  const auto host = ControllerHost::Create(spec, Courier(), 0.001);
+  ASSERT_FALSE(host.has_value());
+  EXPECT_NE(host.error().find("create failed (status 2): gain = banana: must be a number"),
             std::string::npos)
-      << error;
+      << host.error();
 }
 
 TEST(ControllerHost, AnUnwrittenOutputIsAFault) {
@@ -199,8 +201,7 @@ TEST(ControllerHost, AnExceptionThrownThroughTheAbiIsAFaultAndLaterRunsGoOn) {
 TEST(ControllerHost, ResetClearsAFaultAndRestartsTheModule) {
   HostRun run = RunModule("faulty_2", 100);
   ASSERT_TRUE(run.faulted);
-  std::string error;
-  ASSERT_TRUE(run.host->Reset(&error)) << error;
+  ASSERT_TRUE(Succeeded(run.host->Reset()));
   EXPECT_FALSE(run.host->faulted());
   EXPECT_TRUE(run.host->Tick(*run.plant, Reference{}) || run.plant->step_count() % 5 != 0);
 }

@@ -1,8 +1,14 @@
 // The module loader: a good module loads; each broken one is refused with a message that names
 // the file and what is wrong; built-in lookup says where it looked.
+#include "upright/host/module.hpp"
+
 #include <gtest/gtest.h>
 
-#include "upright/host/module.hpp"
+#include <filesystem>
+#include <fstream>
+#include <string>
+
+#include "succeeded.hpp"
 
 namespace upright::host {
 namespace {
@@ -13,17 +19,16 @@ std::string TestModule(const std::string& name) {
 
 // Loads a module that must be refused; returns the message.
 std::string Refusal(const std::string& path) {
-  std::string error;
-  EXPECT_EQ(Module::Load(path, &error), nullptr) << path;
-  return error;
+  const auto module = Module::Load(path);
+  EXPECT_FALSE(module.has_value()) << path;
+  return module ? std::string() : module.error();
 }
 
 TEST(ModuleLoader, LoadsAWellFormedModule) {
-  std::string error;
-  const auto module = Module::Load(TestModule("faulty_0"), &error);
-  ASSERT_NE(module, nullptr) << error;
-  EXPECT_EQ(module->name(), "faulty");
-  EXPECT_EQ(module->api().abi_version, UPRIGHT_CONTROLLER_ABI_VERSION);
+  const auto module = Module::Load(TestModule("faulty_0"));
+  ASSERT_TRUE(Succeeded(module));
+  EXPECT_EQ((*module)->name(), "faulty");
+  EXPECT_EQ((*module)->api().abi_version, UPRIGHT_CONTROLLER_ABI_VERSION);
 }
 
 TEST(ModuleLoader, RejectsAWrongAbiVersionNamingBothVersions) {
@@ -42,6 +47,12 @@ TEST(ModuleLoader, RejectsAMissingEntrySymbol) {
   EXPECT_EQ(error.rfind(path + ": no 'upright_controller_entry' symbol", 0), 0u) << error;
 }
 
+TEST(ModuleLoader, RefusesAModuleWhoseEntryThrowsInsteadOfEnding) {
+  const std::string path = TestModule("throwing_entry");
+  EXPECT_EQ(Refusal(path),
+            path + ": upright_controller_entry threw an exception: no table for this build");
+}
+
 TEST(ModuleLoader, RejectsATableWithAMissingFunction) {
   const std::string path = TestModule("faulty_4");
   EXPECT_EQ(Refusal(path), path + ": its function table has no 'step'");
@@ -55,13 +66,24 @@ TEST(ModuleLoader, RejectsAMissingFileAndAFileThatIsNoSharedObject) {
 }
 
 TEST(ModuleLoader, BuiltinLookupNamesTheFoldersItSearched) {
-  std::string error;
-  EXPECT_EQ(FindBuiltinModule("lqr", {"/nowhere/a", "/nowhere/b"}, &error), "");
-  EXPECT_EQ(error, "built-in controller 'lqr' (upright_lqr.so) not found in: /nowhere/a, /nowhere/b");
-  EXPECT_EQ(FindBuiltinModule("fuzzy", {"/nowhere"}, &error), "");
-  EXPECT_EQ(error, "no built-in controller named 'fuzzy' (built-ins: lqr, hinf, lqg, pid)");
-  // A folder that holds the file is found.
-  EXPECT_EQ(FindBuiltinModule("lqr", {UPRIGHT_TEST_MODULE_DIR}, &error), "");
+  const Result<std::string> missing = FindBuiltinModule("lqr", {"/nowhere/a", "/nowhere/b"});
+  ASSERT_FALSE(missing.has_value());
+  EXPECT_EQ(missing.error(),
+            "built-in controller 'lqr' (upright_lqr.so) not found in: /nowhere/a, /nowhere/b");
+  const Result<std::string> unknown = FindBuiltinModule("fuzzy", {"/nowhere"});
+  ASSERT_FALSE(unknown.has_value());
+  EXPECT_EQ(unknown.error(),
+            "no built-in controller named 'fuzzy' (built-ins: lqr, hinf, lqg, pid)");
+  // The first folder that holds the file is the one found.
+  const std::filesystem::path holder =
+      std::filesystem::path(::testing::TempDir()) / "builtin_lookup_holder";
+  std::filesystem::create_directories(holder);
+  std::ofstream(holder / "upright_lqr.so") << "";
+  const Result<std::string> found =
+      FindBuiltinModule("lqr", {"/nowhere/a", holder.string(), UPRIGHT_TEST_MODULE_DIR});
+  ASSERT_TRUE(Succeeded(found));
+  EXPECT_EQ(*found, holder.string() + "/upright_lqr.so");
+  std::filesystem::remove_all(holder);
 }
 
 }  // namespace

@@ -14,63 +14,67 @@ namespace {
 
 RobotModel Courier() {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(loaded.has_value());
+  return loaded.value_or(RobotModel{});
 }
 
 TEST(ModelField, ReadsWhatTheFileSays) {
   const RobotModel model = Courier();
-  double value = 0;
-  std::string error;
-  ASSERT_TRUE(GetModelField(model, "chassis", "mass_kg", &value, &error)) << error;
-  EXPECT_EQ(value, model.chassis.mass_kg);
-  ASSERT_TRUE(GetModelField(model, "sensors/gyro", "bias_y_rad_s", &value, &error)) << error;
-  EXPECT_EQ(value, model.sensors.gyro_bias_y_rad_s);
-  ASSERT_TRUE(GetModelField(model, "wheels", "friction", &value, &error)) << error;
-  EXPECT_EQ(value, model.wheel.friction);
+  const Result<double> mass = GetModelField(model, "chassis", "mass_kg");
+  ASSERT_TRUE(mass.has_value()) << mass.error();
+  EXPECT_EQ(*mass, model.chassis.mass_kg);
+  const Result<double> bias = GetModelField(model, "sensors/gyro", "bias_y_rad_s");
+  ASSERT_TRUE(bias.has_value()) << bias.error();
+  EXPECT_EQ(*bias, model.sensors.gyro_bias_y_rad_s);
+  const Result<double> friction = GetModelField(model, "wheels", "friction");
+  ASSERT_TRUE(friction.has_value()) << friction.error();
+  EXPECT_EQ(*friction, model.wheel.friction);
 }
 
 TEST(ModelField, SetsOnlyThatField) {
   RobotModel model = Courier();
   const RobotModel before = model;
-  std::string error;
-  ASSERT_TRUE(SetModelField(&model, "motor", "torque_constant_Nm_per_A", 0.05, &error)) << error;
+  const Status set = SetModelField(&model, "motor", "torque_constant_Nm_per_A", 0.05);
+  ASSERT_TRUE(set.has_value()) << set.error();
   EXPECT_EQ(model.motor.torque_constant_Nm_per_A, 0.05);
   EXPECT_EQ(model.motor.back_emf_V_s_per_rad, before.motor.back_emf_V_s_per_rad);
   EXPECT_EQ(model.chassis.mass_kg, before.chassis.mass_kg);
-  EXPECT_TRUE(ValidateModel(model).empty());
+  EXPECT_TRUE(ValidateModel(model).has_value());
 }
 
 TEST(ModelField, RefusesAValueOutsideTheFieldsRangeAndLeavesTheModel) {
   RobotModel model = Courier();
-  std::string error;
-  EXPECT_FALSE(SetModelField(&model, "chassis", "mass_kg", -3, &error));
-  EXPECT_EQ(error, "chassis mass_kg = -3: must be in (0, 1000]");
+  const Status negative = SetModelField(&model, "chassis", "mass_kg", -3);
+  ASSERT_FALSE(negative.has_value());
+  EXPECT_EQ(negative.error(), "chassis mass_kg = -3: must be in (0, 1000]");
   EXPECT_EQ(model.chassis.mass_kg, Courier().chassis.mass_kg);
-  EXPECT_FALSE(SetModelField(&model, "sensors/encoder", "counts_per_rev", 100.5, &error));
-  EXPECT_FALSE(SetModelField(&model, "chassis", "mass_kg", std::nan(""), &error));
+  EXPECT_FALSE(SetModelField(&model, "sensors/encoder", "counts_per_rev", 100.5).has_value());
+  EXPECT_FALSE(SetModelField(&model, "chassis", "mass_kg", std::nan("")).has_value());
 }
 
 TEST(ModelField, NamesTheKnownFieldsForAnUnknownOne) {
   RobotModel model = Courier();
-  std::string error;
-  EXPECT_FALSE(SetModelField(&model, "chassis", "mass_kilograms", 3, &error));
-  EXPECT_EQ(
-      error.rfind("no robot model field chassis.mass_kilograms (fields: chassis.mass_kg, ", 0), 0u)
-      << error;
-  double value = 0;
-  EXPECT_FALSE(GetModelField(model, "chassis/uniform_block", "length_m", &value, &error));
-  EXPECT_NE(error.find("only shapes other fields"), std::string::npos) << error;
+  const Status unknown = SetModelField(&model, "chassis", "mass_kilograms", 3);
+  ASSERT_FALSE(unknown.has_value());
+  EXPECT_EQ(unknown.error().rfind(
+                "no robot model field chassis.mass_kilograms (fields: chassis.mass_kg, ", 0),
+            0u)
+      << unknown.error();
+  const Result<double> file_only = GetModelField(model, "chassis/uniform_block", "length_m");
+  ASSERT_FALSE(file_only.has_value());
+  EXPECT_NE(file_only.error().find("only shapes other fields"), std::string::npos)
+      << file_only.error();
 }
 
 TEST(ModelField, RefusesAFieldOfAnElementTheRobotLacks) {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/tabletop.xml");
-  ASSERT_TRUE(loaded.ok());
-  RobotModel model = loaded.model;
+  ASSERT_TRUE(loaded.has_value());
+  RobotModel model = *loaded;
   ASSERT_FALSE(model.payload.present);
-  std::string error;
-  EXPECT_FALSE(SetModelField(&model, "payload", "mass_kg", 1, &error));
-  EXPECT_EQ(error, "robot 'tabletop' has no <payload> element, so payload.mass_kg cannot be set");
+  const Status lacking = SetModelField(&model, "payload", "mass_kg", 1);
+  ASSERT_FALSE(lacking.has_value());
+  EXPECT_EQ(lacking.error(),
+            "robot 'tabletop' has no <payload> element, so payload.mass_kg cannot be set");
 }
 
 }  // namespace

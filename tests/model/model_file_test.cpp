@@ -49,9 +49,9 @@ std::string WithPayload(std::string_view payload = kPayload) {
 
 std::vector<std::string> Errors(const std::string& text) {
   std::vector<std::string> texts;
-  for (const FileError& error : ParseModelText(text, "mini.xml").errors) {
-    texts.push_back(error.ToString());
-  }
+  const auto loaded = ParseModelText(text, "mini.xml");
+  if (loaded) return texts;
+  for (const FileError& error : loaded.error()) texts.push_back(error.ToString());
   return texts;
 }
 
@@ -62,21 +62,21 @@ std::string ModelPath(const char* file) {
 using Lines = std::vector<std::string>;
 
 TEST(ModelFile, LoadsMinimalModel) {
-  const ModelLoadResult result = ParseModelText(kMinimal, "mini.xml");
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_EQ(result.model.name, "mini");
-  EXPECT_EQ(result.model.chassis.mass_kg, 10);
-  EXPECT_EQ(result.model.chassis.pitch_inertia_kgm2, 0.5);
-  EXPECT_EQ(result.model.chassis.outline_rear_m, -0.2);
-  EXPECT_EQ(result.model.motor.gear_ratio, 10);
-  EXPECT_EQ(result.model.sensors.imu_rate_hz, 500);
-  EXPECT_EQ(result.model.sensors.encoder_counts_per_rev, 1024);
-  EXPECT_EQ(result.model.control_rate_hz, 200);
-  EXPECT_FALSE(result.model.payload.present);
+  const auto result = ParseModelText(kMinimal, "mini.xml");
+  ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
+  EXPECT_EQ(result->name, "mini");
+  EXPECT_EQ(result->chassis.mass_kg, 10);
+  EXPECT_EQ(result->chassis.pitch_inertia_kgm2, 0.5);
+  EXPECT_EQ(result->chassis.outline_rear_m, -0.2);
+  EXPECT_EQ(result->motor.gear_ratio, 10);
+  EXPECT_EQ(result->sensors.imu_rate_hz, 500);
+  EXPECT_EQ(result->sensors.encoder_counts_per_rev, 1024);
+  EXPECT_EQ(result->control_rate_hz, 200);
+  EXPECT_FALSE(result->payload.present);
 }
 
 TEST(ModelFile, AppliesFixedDefaultsWhenOmitted) {
-  const RobotModel model = ParseModelText(kMinimal, "mini.xml").model;
+  const RobotModel model = ParseModelText(kMinimal, "mini.xml").value();
   EXPECT_EQ(model.chassis.com_forward_m, 0);
   EXPECT_EQ(model.wheel.rolling_resistance, 0);
   EXPECT_EQ(model.motor.gear_efficiency, 1);
@@ -90,7 +90,7 @@ TEST(ModelFile, AppliesFixedDefaultsWhenOmitted) {
 }
 
 TEST(ModelFile, DerivesWheelInertiaWhenOmitted) {
-  const RobotModel model = ParseModelText(kMinimal, "mini.xml").model;
+  const RobotModel model = ParseModelText(kMinimal, "mini.xml").value();
   // Uniform disc about its axis ½ m r² (handbook, from memory): ½ × 1 × 0.1² = 0.005.
   EXPECT_DOUBLE_EQ(model.wheel.spin_inertia_kgm2, 0.005);
   // Uniform cylinder about a diameter m(3r² + w²)/12 (handbook, from memory):
@@ -99,22 +99,22 @@ TEST(ModelFile, DerivesWheelInertiaWhenOmitted) {
 }
 
 TEST(ModelFile, DerivesChassisInertiaFromUniformBlock) {
-  const ModelLoadResult result =
+  const auto result =
       ParseModelText(Edit(R"(<principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
                           R"(<uniform_block length_m="0.3" width_m="0.2" height_m="0.5"/>)"),
                      "mini.xml");
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
+  ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
   // Uniform solid block about its centre, m(a² + b²)/12 over the two sides across the axis
   // (handbook, from memory); m = 10 kg.
-  EXPECT_DOUBLE_EQ(result.model.chassis.pitch_inertia_kgm2, 10 * (0.09 + 0.25) / 12);
-  EXPECT_DOUBLE_EQ(result.model.chassis.roll_inertia_kgm2, 10 * (0.04 + 0.25) / 12);
-  EXPECT_DOUBLE_EQ(result.model.chassis.yaw_inertia_kgm2, 10 * (0.09 + 0.04) / 12);
+  EXPECT_DOUBLE_EQ(result->chassis.pitch_inertia_kgm2, 10 * (0.09 + 0.25) / 12);
+  EXPECT_DOUBLE_EQ(result->chassis.roll_inertia_kgm2, 10 * (0.04 + 0.25) / 12);
+  EXPECT_DOUBLE_EQ(result->chassis.yaw_inertia_kgm2, 10 * (0.09 + 0.04) / 12);
 }
 
 TEST(ModelFile, LoadsCourierDemo) {
-  const ModelLoadResult result = LoadModelFile(ModelPath("courier.xml"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  const RobotModel& m = result.model;
+  const auto result = LoadModelFile(ModelPath("courier.xml"));
+  ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
+  const RobotModel& m = *result;
   EXPECT_EQ(m.name, "courier");
   EXPECT_EQ(m.chassis.mass_kg, 24);
   EXPECT_EQ(m.chassis.pitch_inertia_kgm2, 1.2);
@@ -134,7 +134,7 @@ TEST(ModelFile, LoadsCourierDemo) {
 }
 
 TEST(ModelFile, CourierDemoMotorsHoldATenDegreeTilt) {
-  const RobotModel m = LoadModelFile(ModelPath("courier.xml")).model;
+  const RobotModel m = LoadModelFile(ModelPath("courier.xml")).value();
   const double current_A =
       std::min(m.motor.supply_V / m.motor.resistance_ohm, m.motor.current_limit_A);
   const double stall_both_Nm = 2 * m.motor.gear_ratio * m.motor.gear_efficiency *
@@ -151,9 +151,9 @@ TEST(ModelFile, CourierDemoMotorsHoldATenDegreeTilt) {
 }
 
 TEST(ModelFile, LoadsTabletopDemo) {
-  const ModelLoadResult result = LoadModelFile(ModelPath("tabletop.xml"));
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  const RobotModel& m = result.model;
+  const auto result = LoadModelFile(ModelPath("tabletop.xml"));
+  ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
+  const RobotModel& m = *result;
   EXPECT_EQ(m.name, "tabletop");
   // From the 0.10 × 0.12 × 0.16 m block, uniform solid block m(a² + b²)/12 (handbook, from
   // memory).
@@ -175,7 +175,7 @@ TEST(ModelFile, LoadsTabletopDemo) {
 // cylinder about a diameter m(3r² + w²)/12, uniform solid block m(a² + b²)/12 (handbook, from
 // memory).
 TEST(ModelFile, DemoModelsLoadToEveryFieldTheyState) {
-  const RobotModel courier = LoadModelFile(ModelPath("courier.xml")).model;
+  const RobotModel courier = LoadModelFile(ModelPath("courier.xml")).value();
   EXPECT_EQ(courier.name, "courier");
   EXPECT_EQ(courier.chassis, (ChassisModel{.mass_kg = 24,
                                            .pitch_inertia_kgm2 = 1.20,
@@ -233,7 +233,7 @@ TEST(ModelFile, DemoModelsLoadToEveryFieldTheyState) {
                                            .min_x_m = -0.15,
                                            .max_x_m = 0.15}));
 
-  const RobotModel tabletop = LoadModelFile(ModelPath("tabletop.xml")).model;
+  const RobotModel tabletop = LoadModelFile(ModelPath("tabletop.xml")).value();
   EXPECT_EQ(tabletop.name, "tabletop");
   EXPECT_EQ(tabletop.chassis,
             (ChassisModel{.mass_kg = 1.2,
@@ -286,7 +286,7 @@ TEST(ModelFile, DemoModelsLoadToEveryFieldTheyState) {
 }
 
 TEST(ModelFile, TabletopDemoMotorsHoldATenDegreeTilt) {
-  const RobotModel m = LoadModelFile(ModelPath("tabletop.xml")).model;
+  const RobotModel m = LoadModelFile(ModelPath("tabletop.xml")).value();
   const double current_A =
       std::min(m.motor.supply_V / m.motor.resistance_ohm, m.motor.current_limit_A);
   const double stall_both_Nm = 2 * m.motor.gear_ratio * m.motor.gear_efficiency *
@@ -300,16 +300,17 @@ TEST(ModelFile, TabletopDemoMotorsHoldATenDegreeTilt) {
 }
 
 TEST(ModelFile, LoadsPayloadAndMarksItPresent) {
-  const ModelLoadResult result = ParseModelText(WithPayload(), "mini.xml");
-  ASSERT_TRUE(result.ok()) << result.errors[0].ToString();
-  EXPECT_TRUE(result.model.payload.present);
-  EXPECT_EQ(result.model.payload.z_m, 0.7);
+  const auto result = ParseModelText(WithPayload(), "mini.xml");
+  ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
+  EXPECT_TRUE(result->payload.present);
+  EXPECT_EQ(result->payload.z_m, 0.7);
 }
 
 TEST(ModelFile, ReportsMissingFile) {
-  const ModelLoadResult result = LoadModelFile("models/no_such_robot.xml");
-  ASSERT_EQ(result.errors.size(), 1u);
-  EXPECT_EQ(result.errors[0].ToString(),
+  const auto result = LoadModelFile("models/no_such_robot.xml");
+  ASSERT_FALSE(result.has_value());
+  ASSERT_EQ(result.error().size(), 1u);
+  EXPECT_EQ(result.error()[0].ToString(),
             "models/no_such_robot.xml: cannot open file: No such file or directory");
 }
 
@@ -503,10 +504,10 @@ TEST(ModelFile, HintsThatALatencyTooLargeIsInSeconds) {
 }
 
 TEST(ModelFile, AcceptsValuesAtClosedBounds) {
-  const ModelLoadResult result = ParseModelText(
+  const auto result = ParseModelText(
       Edit(R"(gear_ratio="10")", R"(gear_ratio="1" gear_efficiency="1" coulomb_friction_Nm="0")"),
       "mini.xml");
-  EXPECT_TRUE(result.ok()) << result.errors[0].ToString();
+  EXPECT_TRUE(result.has_value()) << result.error()[0].ToString();
 }
 
 TEST(ModelFile, RejectsNegativeNoiseDensity) {
@@ -679,10 +680,9 @@ TEST(ModelFile, ImuPeriodMustFitTheDefaultPhysicsStep) {
   EXPECT_EQ(Errors(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="1500")")), Lines{});
   EXPECT_EQ(Errors(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="250")")), Lines{});
   // A scenario checks the robot against its own step instead.
-  const ModelLoadResult own_step =
-      ParseModelText(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="400")"), "mini.xml",
-                     ModelLoadOptions{.check_default_step = false});
-  EXPECT_TRUE(own_step.ok()) << own_step.errors[0].ToString();
+  const auto own_step = ParseModelText(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="400")"),
+                                       "mini.xml", ModelLoadOptions{.check_default_step = false});
+  EXPECT_TRUE(own_step.has_value()) << own_step.error()[0].ToString();
 }
 
 TEST(ModelFile, ControlPeriodMustFitTheDefaultPhysicsStep) {

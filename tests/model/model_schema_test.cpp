@@ -22,20 +22,26 @@ std::string ReadText(const std::string& path) {
 }
 
 RobotModel LoadedDemo(const char* file) {
-  const ModelLoadResult result = LoadModelFile(SourcePath(std::string("models/") + file));
-  EXPECT_TRUE(result.ok()) << file;
-  return result.model;
+  const auto result = LoadModelFile(SourcePath(std::string("models/") + file));
+  EXPECT_TRUE(result.has_value()) << file;
+  return result.value_or(RobotModel{});
+}
+
+// ValidateModel's messages, none for a valid model.
+std::vector<std::string> Problems(const RobotModel& model) {
+  const auto valid = ValidateModel(model);
+  return valid ? std::vector<std::string>{} : valid.error();
 }
 
 TEST(ModelSchema, ValidateModelAcceptsLoadedDemoModels) {
-  EXPECT_EQ(ValidateModel(LoadedDemo("courier.xml")), std::vector<std::string>{});
-  EXPECT_EQ(ValidateModel(LoadedDemo("tabletop.xml")), std::vector<std::string>{});
+  EXPECT_EQ(Problems(LoadedDemo("courier.xml")), std::vector<std::string>{});
+  EXPECT_EQ(Problems(LoadedDemo("tabletop.xml")), std::vector<std::string>{});
 }
 
 TEST(ModelSchema, ValidateModelFlagsOutOfRangeField) {
   RobotModel model = LoadedDemo("courier.xml");
   model.chassis.mass_kg = -1;
-  EXPECT_EQ(ValidateModel(model),
+  EXPECT_EQ(Problems(model),
             std::vector<std::string>{"chassis mass_kg = -1: must be in (0, 1000]"});
 }
 
@@ -44,7 +50,7 @@ TEST(ModelSchema, ValidateModelFlagsEveryBrokenField) {
   model.motor.gear_efficiency = 0;
   model.sensors.encoder_counts_per_rev = 700.5;
   EXPECT_EQ(
-      ValidateModel(model),
+      Problems(model),
       (std::vector<std::string>{"motor gear_efficiency = 0: must be in (0, 1]",
                                 "sensors/encoder counts_per_rev = 700.5: must be a whole number"}));
 }
@@ -52,23 +58,22 @@ TEST(ModelSchema, ValidateModelFlagsEveryBrokenField) {
 TEST(ModelSchema, ValidateModelFlagsCrossFieldRule) {
   RobotModel model = LoadedDemo("tabletop.xml");
   model.control_rate_hz = 1000;
-  EXPECT_EQ(
-      ValidateModel(model),
-      std::vector<std::string>{"sensors/imu rate_hz = 500: must be >= control rate_hz = 1000"});
+  EXPECT_EQ(Problems(model), std::vector<std::string>{
+                                 "sensors/imu rate_hz = 500: must be >= control rate_hz = 1000"});
 }
 
 TEST(ModelSchema, ValidateModelChecksPayloadOnlyWhenPresent) {
   RobotModel model = LoadedDemo("tabletop.xml");
   model.payload = PayloadModel{};
-  EXPECT_EQ(ValidateModel(model), std::vector<std::string>{});
+  EXPECT_EQ(Problems(model), std::vector<std::string>{});
   model.payload.present = true;
-  const std::vector<std::string> problems = ValidateModel(model);
+  const std::vector<std::string> problems = Problems(model);
   ASSERT_EQ(problems.size(), 4u);
   EXPECT_EQ(problems[0], "payload mass_kg = 0: must be in (0, 1000]");
 }
 
 TEST(ModelSchema, ValidateModelRejectsDefaultConstructedModel) {
-  const std::vector<std::string> problems = ValidateModel(RobotModel{});
+  const std::vector<std::string> problems = Problems(RobotModel{});
   ASSERT_FALSE(problems.empty());
   EXPECT_EQ(problems[0], "balancer name = '': must not be empty");
   EXPECT_EQ(problems[1], "chassis mass_kg = 0: must be in (0, 1000]");
@@ -105,8 +110,8 @@ TEST(ModelSchema, ReadmeMinimalExampleLoads) {
   const std::size_t end = readme.find("```", start + fence.size());
   ASSERT_NE(end, std::string::npos);
   const std::string example = readme.substr(start + fence.size(), end - start - fence.size());
-  const ModelLoadResult result = ParseModelText(example, "README example");
-  EXPECT_TRUE(result.ok()) << result.errors[0].ToString();
+  const auto result = ParseModelText(example, "README example");
+  EXPECT_TRUE(result.has_value()) << result.error()[0].ToString();
 }
 
 }  // namespace

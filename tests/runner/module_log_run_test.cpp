@@ -21,10 +21,9 @@ using testing::ScenarioFromText;
 std::string LoggingModulePath() { return std::string(UPRIGHT_TEST_MODULE_DIR) + "/logging.so"; }
 
 std::shared_ptr<host::Module> LoggingModule() {
-  std::string error;
-  auto module = host::Module::Load(LoggingModulePath(), &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
+  auto module = host::Module::Load(LoggingModulePath());
+  EXPECT_TRUE(module) << module.error();
+  return module.value_or(nullptr);
 }
 
 // The parked courier for `duration_s` under the logging test module with `settings` (whole

@@ -9,6 +9,7 @@
 #include <vector>
 
 #include "run_test_support.hpp"
+#include "succeeded.hpp"
 #include "upright/runner/metric_columns.hpp"
 #include "upright/runner/results_writer.hpp"
 
@@ -47,10 +48,9 @@ std::filesystem::path Written(const std::vector<RunResult>& runs, const std::str
 
 // The module of the host tests that faults on its first tick (it leaves a command unwritten).
 std::shared_ptr<host::Module> FirstTickFaultModule() {
-  std::string error;
-  auto module = host::Module::Load(std::string(UPRIGHT_TEST_MODULE_DIR) + "/faulty_1.so", &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
+  auto module = host::Module::Load(std::string(UPRIGHT_TEST_MODULE_DIR) + "/faulty_1.so");
+  EXPECT_TRUE(Succeeded(module));
+  return module.value_or(nullptr);
 }
 
 // A parked courier shoved by a half-sine push of `peak_N` at 0.5 s, for 3 s, then the timeline

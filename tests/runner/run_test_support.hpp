@@ -15,6 +15,7 @@
 #include <string>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/host/module.hpp"
 #include "upright/runner/batch.hpp"
 #include "upright/runner/results_writer.hpp"
@@ -39,12 +40,12 @@ inline Scenario ScenarioFromText(const std::string& xml, const std::string& name
 // The built-in module `name` ("lqr", "hinf", "lqg", "pid") from the default module folders; a test
 // failure, and null, when it will not load.
 inline std::shared_ptr<host::Module> BuiltinModule(const std::string& name) {
-  std::string error;
-  const std::string path = host::FindBuiltinModule(name, host::DefaultModuleDirs(), &error);
-  EXPECT_FALSE(path.empty()) << error;
-  auto module = host::Module::Load(path, &error);
-  EXPECT_NE(module, nullptr) << error;
-  return module;
+  const Result<std::string> path = host::FindBuiltinModule(name, host::DefaultModuleDirs());
+  EXPECT_TRUE(Succeeded(path));
+  if (!path) return nullptr;
+  auto module = host::Module::Load(*path);
+  EXPECT_TRUE(Succeeded(module));
+  return module.value_or(nullptr);
 }
 
 // Scenario "two": the courier for 1.5 s under lqr and pid (the baseline), seeds 1 and 2, a 40 N

@@ -6,6 +6,7 @@
 
 #include <cmath>
 
+#include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
 
@@ -15,8 +16,8 @@ namespace {
 Scenario CourierScenario() {
   Scenario s;
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  EXPECT_TRUE(loaded.ok());
-  s.model = loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  s.model = loaded.value_or(RobotModel{});
   s.dt_s = 0.001;
   s.duration_s = 10;
   return s;

@@ -7,6 +7,7 @@
 #include <Eigen/Eigenvalues>
 #include <cmath>
 
+#include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
 
@@ -17,8 +18,8 @@ using design::kPitch, design::kPitchRate, design::kX, design::kXDot;
 
 RobotModel Courier() {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  return loaded.value_or(RobotModel{});
 }
 
 // The unstable eigenvalue of A: its largest real part.

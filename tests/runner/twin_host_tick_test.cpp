@@ -6,6 +6,7 @@
 #include <cmath>
 
 #include "run_test_support.hpp"
+#include "succeeded.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/model/model_file.hpp"
 
@@ -16,19 +17,22 @@ namespace {
 // module, fed the plant's samples through the plant-free tick, must command the same bits.
 void ExpectSameCommands(const std::string& module_name, bool true_state) {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  ASSERT_TRUE(loaded.ok());
+  ASSERT_TRUE(Succeeded(loaded));
   ControllerSpec spec;
   spec.module = runner::testing::BuiltinModule(module_name);
   spec.true_state = true_state;
   sim::PlantOptions options;
   options.initial.pitch_rad = 2 * 3.141592653589793 / 180;
-  std::string error;
-  auto driving = ControllerHost::Create(spec, loaded.model, options.dt_s, &error);
-  auto shadow = ControllerHost::Create(spec, loaded.model, options.dt_s, &error);
-  ASSERT_TRUE(driving && shadow) << error;
+  auto driving_host = ControllerHost::Create(spec, *loaded, options.dt_s);
+  auto shadow_host = ControllerHost::Create(spec, *loaded, options.dt_s);
+  ASSERT_TRUE(Succeeded(driving_host));
+  ASSERT_TRUE(Succeeded(shadow_host));
+  const std::unique_ptr<ControllerHost> driving = std::move(*driving_host);
+  const std::unique_ptr<ControllerHost> shadow = std::move(*shadow_host);
   options.drive = driving->drive();
-  auto plant = sim::Plant::Create(loaded.model, options, &error);
-  ASSERT_NE(plant, nullptr) << error;
+  auto built = sim::Plant::Create(*loaded, options);
+  ASSERT_TRUE(Succeeded(built));
+  const std::unique_ptr<sim::Plant> plant = std::move(*built);
   Reference reference;
   int ticks = 0;
   double largest_command = 0;

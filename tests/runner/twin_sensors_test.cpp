@@ -6,6 +6,7 @@
 
 #include <cmath>
 
+#include "succeeded.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
@@ -17,8 +18,8 @@ using design::kPitch, design::kPitchRate, design::kX, design::kXDot, design::kYa
 
 RobotModel Courier() {
   const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  EXPECT_TRUE(loaded.ok());
-  return loaded.model;
+  EXPECT_TRUE(Succeeded(loaded));
+  return loaded.value_or(RobotModel{});
 }
 
 TEST(TwinSensors, ReadTheSignsOfTheConventions) {

@@ -10,6 +10,7 @@
 #include <utility>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "test_robot.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/robot_model.hpp"
@@ -69,21 +70,20 @@ double Friction(const MotorModel& m, double rel_speed_rad_s, double band_rad_s) 
 // --- Validation and names ---
 
 TEST(Fault, DefaultAndTypicalFaultsAreValid) {
-  std::string error = "untouched";
-  EXPECT_TRUE(MotorFault().IsValid(&error));
-  EXPECT_TRUE(MakeMotorFault(2.5, MotorSide::kBoth, 1.0).IsValid(&error));
-  EXPECT_TRUE(SensorFault().IsValid(&error));
-  EXPECT_TRUE(
-      MakeSensorFault(1, 0.2, SensorChannel::kAccelZ, SensorFaultKind::kBias, -3).IsValid(&error));
+  EXPECT_TRUE(Succeeded(MotorFault().Validate()));
+  EXPECT_TRUE(Succeeded(MakeMotorFault(2.5, MotorSide::kBoth, 1.0).Validate()));
+  EXPECT_TRUE(Succeeded(SensorFault().Validate()));
+  EXPECT_TRUE(Succeeded(
+      MakeSensorFault(1, 0.2, SensorChannel::kAccelZ, SensorFaultKind::kBias, -3).Validate()));
   // Only a bias uses its value: the other kinds ignore even a NaN there.
-  EXPECT_TRUE(MakeSensorFault(0, kInf, SensorChannel::kEncoderLeft, SensorFaultKind::kDropout, kNan)
-                  .IsValid(&error));
-  EXPECT_TRUE(
-      MakeSensorFault(0, 1, SensorChannel::kGyroZ, SensorFaultKind::kStuck, kInf).IsValid(&error));
-  EXPECT_EQ(error, "untouched");
+  EXPECT_TRUE(Succeeded(
+      MakeSensorFault(0, kInf, SensorChannel::kEncoderLeft, SensorFaultKind::kDropout, kNan)
+          .Validate()));
+  EXPECT_TRUE(Succeeded(
+      MakeSensorFault(0, 1, SensorChannel::kGyroZ, SensorFaultKind::kStuck, kInf).Validate()));
 }
 
-TEST(Fault, MotorFaultIsValidNamesTheBrokenFieldAndItsValue) {
+TEST(Fault, MotorFaultValidateNamesTheBrokenFieldAndItsValue) {
   struct Bad {
     MotorFault fault;
     const char* expected_text;
@@ -99,14 +99,15 @@ TEST(Fault, MotorFaultIsValidNamesTheBrokenFieldAndItsValue) {
       {MakeMotorFault(0, static_cast<MotorSide>(7), 0), "MotorFault::side = 7"},
   };
   for (const Bad& c : cases) {
-    std::string error;
-    EXPECT_FALSE(c.fault.IsValid(&error)) << c.expected_text;
+    const Status valid = c.fault.Validate();
+    ASSERT_FALSE(valid.has_value()) << c.expected_text;
+    const std::string& error = valid.error();
     EXPECT_NE(error.find(c.expected_text), std::string::npos)
         << "message '" << error << "' lacks '" << c.expected_text << "'";
   }
 }
 
-TEST(Fault, SensorFaultIsValidNamesTheBrokenFieldAndItsValue) {
+TEST(Fault, SensorFaultValidateNamesTheBrokenFieldAndItsValue) {
   struct Bad {
     SensorFault fault;
     const char* expected_text;
@@ -125,8 +126,9 @@ TEST(Fault, SensorFaultIsValidNamesTheBrokenFieldAndItsValue) {
       {MakeSensorFault(0, 1, gyro, static_cast<SensorFaultKind>(5)), "SensorFault::kind = 5"},
   };
   for (const Bad& c : cases) {
-    std::string error;
-    EXPECT_FALSE(c.fault.IsValid(&error)) << c.expected_text;
+    const Status valid = c.fault.Validate();
+    ASSERT_FALSE(valid.has_value()) << c.expected_text;
+    const std::string& error = valid.error();
     EXPECT_NE(error.find(c.expected_text), std::string::npos)
         << "message '" << error << "' lacks '" << c.expected_text << "'";
   }
@@ -135,12 +137,14 @@ TEST(Fault, SensorFaultIsValidNamesTheBrokenFieldAndItsValue) {
 TEST(Fault, PlantRefusesAnInvalidFaultWithItsMessageAndIgnoresIt) {
   auto plant = MakePlant(MakeTestRobot(), OnTheStand());
   ASSERT_NE(plant, nullptr);
-  std::string error;
-  EXPECT_FALSE(plant->AddMotorFault(MakeMotorFault(0, MotorSide::kBoth, 2), &error));
-  EXPECT_NE(error.find("MotorFault::torque_scale = 2"), std::string::npos) << error;
-  EXPECT_FALSE(plant->AddSensorFault(
-      MakeSensorFault(0, -2, SensorChannel::kGyroX, SensorFaultKind::kDropout), &error));
-  EXPECT_NE(error.find("SensorFault::duration_s = -2"), std::string::npos) << error;
+  const Status motor = plant->AddMotorFault(MakeMotorFault(0, MotorSide::kBoth, 2));
+  ASSERT_FALSE(motor.has_value());
+  EXPECT_NE(motor.error().find("MotorFault::torque_scale = 2"), std::string::npos) << motor.error();
+  const Status sensor = plant->AddSensorFault(
+      MakeSensorFault(0, -2, SensorChannel::kGyroX, SensorFaultKind::kDropout));
+  ASSERT_FALSE(sensor.has_value());
+  EXPECT_NE(sensor.error().find("SensorFault::duration_s = -2"), std::string::npos)
+      << sensor.error();
   // Neither was stored: the motor delivers its healthy stall current V / R = 2.4 A.
   plant->SetCommand(6, 6);
   plant->Step();
@@ -221,8 +225,7 @@ std::vector<long> DeadSteps(double start_s, double dt_s) {
   auto plant = MakePlant(MakeTestRobot(), options);
   std::vector<long> dead;
   if (!plant) return dead;
-  std::string error;
-  EXPECT_TRUE(plant->AddMotorFault(MakeMotorFault(start_s, MotorSide::kLeft, 0), &error)) << error;
+  EXPECT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(start_s, MotorSide::kLeft, 0))));
   plant->SetCommand(6, 6);
   for (long k = 0; k < 30; ++k) {
     EXPECT_EQ(plant->step_count(), k);
@@ -283,8 +286,7 @@ TEST(Fault, DeadMotorOnTheStandCoastsDownUnderFrictionAlone) {
   const double band = MotorCoulombBand(m, inertia, dt);
   auto plant = MakePlant(model, OnTheStand());
   ASSERT_NE(plant, nullptr);
-  std::string error;
-  ASSERT_TRUE(plant->AddMotorFault(MakeMotorFault(0.5, MotorSide::kLeft, 0), &error)) << error;
+  ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0.5, MotorSide::kLeft, 0))));
   plant->SetCommand(6, 6);
   for (int k = 0; k < 500; ++k) plant->Step();
   const double omega0 = plant->truth().wheel_rate_rad_s[kLeft];
@@ -317,8 +319,7 @@ TEST(Fault, HalfDeratedMotorGivesHalfTheStallTorqueAtTheHealthyCurrent) {
   for (double volts : {6.0, 12.0}) {
     auto plant = MakePlant(model, OnTheStand());
     ASSERT_NE(plant, nullptr);
-    std::string error;
-    ASSERT_TRUE(plant->AddMotorFault(MakeMotorFault(0, MotorSide::kLeft, 0.5), &error)) << error;
+    ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0, MotorSide::kLeft, 0.5))));
     plant->SetCommand(volts, volts);
     plant->Step();
     // At stall i = V / R: 2.4 A at 6 V; 4.8 A at 12 V, cut to the 4 A limit (the drive lowering
@@ -356,8 +357,7 @@ TEST(Fault, HalfDeratedWheelOnTheStandSettlesAtTheDeratedSteadyStateSpeed) {
   const RobotModel model = MakeTestRobot();
   auto plant = MakePlant(model, OnTheStand());
   ASSERT_NE(plant, nullptr);
-  std::string error;
-  ASSERT_TRUE(plant->AddMotorFault(MakeMotorFault(0, MotorSide::kRight, 0.5), &error)) << error;
+  ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0, MotorSide::kRight, 0.5))));
   plant->SetCommand(6, 6);
   for (int k = 0; k < 1500; ++k) plant->Step();
   // I ω' = s n η K_t (V − K_e n ω) / R − b ω − c = 0 (motor equations above) gives
@@ -372,11 +372,10 @@ TEST(Fault, LatestStartedMotorFaultActsAndBothMeansBothMotors) {
   const double band = MotorCoulombBand(model.motor, model.wheel.spin_inertia_kgm2, 0.001);
   auto plant = MakePlant(model, OnTheStand());
   ASSERT_NE(plant, nullptr);
-  std::string error;
   // Added out of order: repaired at 0.02 s, both dead at 0.01 s, left half-derated at 0.015 s.
-  ASSERT_TRUE(plant->AddMotorFault(MakeMotorFault(0.02, MotorSide::kLeft, 1.0), &error));
-  ASSERT_TRUE(plant->AddMotorFault(MakeMotorFault(0.01, MotorSide::kBoth, 0.0), &error));
-  ASSERT_TRUE(plant->AddMotorFault(MakeMotorFault(0.015, MotorSide::kLeft, 0.5), &error));
+  ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0.02, MotorSide::kLeft, 1.0))));
+  ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0.01, MotorSide::kBoth, 0.0))));
+  ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0.015, MotorSide::kLeft, 0.5))));
   plant->SetCommand(6, 6);
   for (long k = 0; k < 30; ++k) {
     const TrueState before = plant->truth();
@@ -410,8 +409,7 @@ Twin RunTwin(const RobotModel& model, const PlantOptions& options,
   auto faulted = MakePlant(model, options);
   if (!healthy || !faulted) return twin;
   for (const SensorFault& f : faults) {
-    std::string error;
-    EXPECT_TRUE(faulted->AddSensorFault(f, &error)) << error;
+    EXPECT_TRUE(Succeeded(faulted->AddSensorFault(f)));
   }
   healthy->SetCommand(left_V, right_V);
   faulted->SetCommand(left_V, right_V);
@@ -474,9 +472,8 @@ TEST(Fault, BiasFromTimeZeroShowsInTheInitialSample) {
   ASSERT_NE(plant, nullptr);
   // Held on the stand the chassis does not turn: the gyro reads 0 (to round-off), then the bias.
   EXPECT_NEAR(plant->Sense().gyro_rad_s[2], 0, 1e-12);
-  std::string error;
-  ASSERT_TRUE(plant->AddSensorFault(
-      MakeSensorFault(0, kInf, SensorChannel::kGyroZ, SensorFaultKind::kBias, 0.1), &error));
+  ASSERT_TRUE(Succeeded(plant->AddSensorFault(
+      MakeSensorFault(0, kInf, SensorChannel::kGyroZ, SensorFaultKind::kBias, 0.1))));
   EXPECT_NEAR(plant->Sense().gyro_rad_s[2], 0.1, 1e-12);
   plant->Step();
   EXPECT_NEAR(plant->Sense().gyro_rad_s[2], 0.1, 1e-12);

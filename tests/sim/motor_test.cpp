@@ -16,6 +16,7 @@ namespace upright::sim {
 namespace {
 
 using testing::MakeFrictionlessTestRobot;
+using testing::MakePlant;
 using testing::MakeTestRobot;
 
 // Expected values below come from the DC motor equations with armature inductance neglected
@@ -238,9 +239,7 @@ std::vector<double> SpinUp(const RobotModel& model, double volts, double dt_s, d
   options.dt_s = dt_s;
   options.fixed_chassis = true;
   options.sensor_noise = false;
-  std::string error;
-  auto plant = Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
+  auto plant = MakePlant(model, options);
   if (!plant) return {};
   plant->SetCommand(volts, volts);
   std::vector<double> speeds{plant->truth().wheel_rate_rad_s[0]};
@@ -284,9 +283,8 @@ TEST(Motor, FrictionlessWheelOnTheStandReachesTheNoLoadSpeed) {
   // τ = I R / (n² η K_t K_e) = 0.125 s; 2 s is 16 τ.
   PlantOptions options;
   options.fixed_chassis = true;
-  std::string error;
-  auto plant = Plant::Create(model, options, &error);
-  ASSERT_NE(plant, nullptr) << error;
+  auto plant = MakePlant(model, options);
+  ASSERT_NE(plant, nullptr);
   plant->SetCommand(6.0, 6.0);
   for (int k = 0; k < 2000; ++k) plant->Step();
   EXPECT_NEAR(plant->truth().wheel_rate_rad_s[0], no_load, 0.005 * no_load);
@@ -340,9 +338,8 @@ TEST(Motor, PlantReportsTheMotorStateOfEachWheel) {
   const RobotModel model = MakeTestRobot();
   PlantOptions options;
   options.fixed_chassis = true;
-  std::string error;
-  auto plant = Plant::Create(model, options, &error);
-  ASSERT_NE(plant, nullptr) << error;
+  auto plant = MakePlant(model, options);
+  ASSERT_NE(plant, nullptr);
   plant->SetCommand(6.0, -3.0);
   plant->Step();
   // The readout belongs to the step just taken, from rest: stall values of each command.

@@ -16,6 +16,7 @@
 #include <ios>
 #include <string>
 
+#include "succeeded.hpp"
 #include "test_robot.hpp"
 #include "upright/sim/plant.hpp"
 #include "upright/sim/push.hpp"
@@ -47,8 +48,7 @@ Pinned RunPinnedScenario() {
   push.duration_s = 0.05;
   push.peak_N = 40;
   push.direction_deg = 60;
-  std::string error;
-  EXPECT_TRUE(plant->AddPush(push, &error)) << error;
+  EXPECT_TRUE(Succeeded(plant->AddPush(push)));
   plant->SetCommand(3.0, 1.5);
   testing::TraceHash physics, sensors;
   for (int k = 0; k < 1500; ++k) {

@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "test_robot.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
@@ -36,24 +37,21 @@ double MomentumX(const RobotModel& m, const TrueState& s) {
 }
 
 std::string CreateError(const RobotModel& model, const PlantOptions& options) {
-  std::string error;
-  auto plant = Plant::Create(model, options, &error);
-  EXPECT_EQ(plant, nullptr) << "accepted; expected an error";
-  return error;
+  const auto plant = Plant::Create(model, options);
+  EXPECT_FALSE(plant.has_value()) << "accepted; expected an error";
+  return plant ? std::string() : plant.error();
 }
 
 // --- Create ---
 
 TEST(Plant, CreatesFromTheTestRobotAndTheDemoModel) {
-  std::string error;
-  EXPECT_NE(Plant::Create(MakeTestRobot(), PlantOptions(), &error), nullptr) << error;
-  const ModelLoadResult demo =
-      LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
-  ASSERT_TRUE(demo.ok());
-  auto plant = Plant::Create(demo.model, PlantOptions(), &error);
-  ASSERT_NE(plant, nullptr) << error;
-  for (int k = 0; k < 100; ++k) plant->Step();
-  EXPECT_FALSE(plant->diverged());
+  EXPECT_TRUE(Succeeded(Plant::Create(MakeTestRobot(), PlantOptions())));
+  const auto demo = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  ASSERT_TRUE(Succeeded(demo));
+  auto plant = Plant::Create(*demo, PlantOptions());
+  ASSERT_TRUE(Succeeded(plant));
+  for (int k = 0; k < 100; ++k) (*plant)->Step();
+  EXPECT_FALSE((*plant)->diverged());
 }
 
 struct BadOptions {
@@ -93,8 +91,7 @@ TEST(Plant, CreateRejectsInvalidOptionsNamingFieldAndValue) {
   o.terrain.friction_regions = {{2, 1, 0.3}};
   cases.push_back({"friction region", o, "Terrain::friction_regions[0].end_x_m = 1"});
   for (const BadOptions& c : cases) {
-    std::string direct;
-    EXPECT_FALSE(c.options.IsValid(&direct)) << c.what;
+    EXPECT_FALSE(c.options.Validate().has_value()) << c.what;
     const std::string error = CreateError(MakeTestRobot(), c.options);
     EXPECT_NE(error.find(c.expected_text), std::string::npos)
         << c.what << ": message '" << error << "' lacks '" << c.expected_text << "'";
@@ -120,8 +117,7 @@ TEST(Plant, CreateRejectsAnImuPeriodThatIsNotWholeSteps) {
 TEST(Plant, CreateAcceptsAnImuFasterThanThePhysics) {
   RobotModel model = MakeTestRobot();
   model.sensors.imu_rate_hz = 3000;
-  std::string error;
-  EXPECT_NE(Plant::Create(model, PlantOptions(), &error), nullptr) << error;
+  EXPECT_TRUE(Succeeded(Plant::Create(model, PlantOptions())));
 }
 
 TEST(Plant, CreateRejectsAnInvalidModelNamingFieldAndValue) {
@@ -142,8 +138,7 @@ TEST(Plant, CreateRejectsMotorDampingTooStiffForTheStep) {
   const std::string error = CreateError(model, options);
   EXPECT_NE(error.find("dt_s = 0.002"), std::string::npos) << error;
   options.dt_s = 0.001;
-  std::string accepted;
-  EXPECT_NE(Plant::Create(model, options, &accepted), nullptr) << accepted;
+  EXPECT_TRUE(Succeeded(Plant::Create(model, options)));
 }
 
 TEST(Plant, AddPushRejectsAnInvalidPush) {
@@ -151,9 +146,9 @@ TEST(Plant, AddPushRejectsAnInvalidPush) {
   ASSERT_NE(plant, nullptr);
   Push push;
   push.duration_s = -1;
-  std::string error;
-  EXPECT_FALSE(plant->AddPush(push, &error));
-  EXPECT_NE(error.find("Push::duration_s = -1"), std::string::npos) << error;
+  const Status added = plant->AddPush(push);
+  ASSERT_FALSE(added.has_value());
+  EXPECT_NE(added.error().find("Push::duration_s = -1"), std::string::npos) << added.error();
 }
 
 // --- Stepping ---
@@ -204,9 +199,7 @@ RunHashes RunKnockedOver(std::uint64_t seed) {
   PlantOptions options;
   options.seed = seed;
   options.initial.pitch_rad = 0.01;
-  std::string error;
-  auto plant = Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
+  auto plant = MakePlant(model, options);
   RunHashes out;
   if (!plant) return out;
   Push push;
@@ -215,7 +208,7 @@ RunHashes RunKnockedOver(std::uint64_t seed) {
   push.duration_s = 0.1;
   push.peak_N = 300;
   push.direction_deg = 20;
-  EXPECT_TRUE(plant->AddPush(push, &error)) << error;
+  EXPECT_TRUE(Succeeded(plant->AddPush(push)));
   TraceHash truth, sensors;
   for (int k = 0; k < 2000; ++k) {
     // Commands computed from the sensors, so that they depend on the noise and its seed.
@@ -399,8 +392,7 @@ TEST(Plant, PushChangesMomentumByItsImpulseOnFrictionlessGround) {
   push.duration_s = 0.1;
   push.peak_N = 40;
   push.height_m = 0.3;  // above the COM: it also tips the robot
-  std::string error;
-  ASSERT_TRUE(plant->AddPush(push, &error)) << error;
+  ASSERT_TRUE(Succeeded(plant->AddPush(push)));
   for (int k = 0; k < 40; ++k) plant->Step();
   const double p0 = MomentumX(model, plant->truth());
   for (int k = 0; k < 140; ++k) plant->Step();  // to t = 0.18 s, after the push ends
@@ -423,8 +415,7 @@ TEST(Plant, PushAtNinetyDegreesMovesTheRobotLeft) {
   push.peak_N = 50;
   push.direction_deg = 90;  // toward +y, the robot's left (conventions.hpp)
   push.height_m = 0.2;
-  std::string error;
-  ASSERT_TRUE(plant->AddPush(push, &error)) << error;
+  ASSERT_TRUE(Succeeded(plant->AddPush(push)));
   for (int k = 0; k < 100; ++k) plant->Step();
   // Δv = J / m = 2.5 N·s / 14 kg = 0.18 m/s: about 1 cm in 0.1 s.
   EXPECT_GT(plant->truth().y_m, 0.005);

@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
 
 namespace upright::sim {
@@ -70,8 +71,7 @@ TEST(Push, FiniteStepIsFlatForItsDuration) {
 
 TEST(Push, EndlessStepNeverEnds) {
   const Push p = MakePush(PushShape::kStep, 0.5, std::numeric_limits<double>::infinity(), 20);
-  std::string error;
-  EXPECT_TRUE(p.IsValid(&error)) << error;
+  EXPECT_TRUE(Succeeded(p.Validate()));
   EXPECT_EQ(p.ForceAt(0.4), 0);
   EXPECT_EQ(p.ForceAt(0.5), 20);
   EXPECT_EQ(p.ForceAt(1e6), 20);
@@ -122,9 +122,7 @@ TEST(Push, FiniteStepDeliversPeakTimesDurationOnAnyStepGrid) {
 }
 
 TEST(Push, ValidPushPasses) {
-  std::string error = "untouched";
-  EXPECT_TRUE(MakePush(PushShape::kHalfSine, 0, 0.1, 10).IsValid(&error));
-  EXPECT_EQ(error, "untouched");
+  EXPECT_TRUE(Succeeded(MakePush(PushShape::kHalfSine, 0, 0.1, 10).Validate()));
 }
 
 struct BadPush {
@@ -133,7 +131,7 @@ struct BadPush {
   const char* expected_text;  // the field and its value as the message must show them
 };
 
-TEST(Push, IsValidNamesTheBrokenFieldAndItsValue) {
+TEST(Push, ValidateNamesTheBrokenFieldAndItsValue) {
   const double inf = std::numeric_limits<double>::infinity();
   const double nan = std::numeric_limits<double>::quiet_NaN();
   std::vector<BadPush> cases;
@@ -156,8 +154,9 @@ TEST(Push, IsValidNamesTheBrokenFieldAndItsValue) {
   p.height_m = nan;
   cases.push_back({"height_m", p, "Push::height_m = nan"});
   for (const BadPush& c : cases) {
-    std::string error;
-    EXPECT_FALSE(c.push.IsValid(&error)) << c.field;
+    const Status valid = c.push.Validate();
+    ASSERT_FALSE(valid.has_value()) << c.field;
+    const std::string& error = valid.error();
     EXPECT_NE(error.find(c.expected_text), std::string::npos)
         << c.field << ": message '" << error << "' lacks '" << c.expected_text << "'";
   }

@@ -70,9 +70,7 @@ double PlantPitchAt(double dt, double t_end, double theta0, double torque_per_wh
   options.drive = DriveMode::kTorque;
   options.sensor_noise = false;
   options.initial.pitch_rad = theta0;
-  std::string error;
-  auto plant = Plant::Create(PendulumRobot(), options, &error);
-  EXPECT_NE(plant, nullptr) << error;
+  auto plant = testing::MakePlant(PendulumRobot(), options);
   if (!plant) return NAN;
   plant->SetCommand(torque_per_wheel_Nm, torque_per_wheel_Nm);
   for (long i = 0, n = std::lround(t_end / dt); i < n; ++i) plant->Step();

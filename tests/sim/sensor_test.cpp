@@ -9,6 +9,7 @@
 #include <string>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "test_robot.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/robot_model.hpp"
@@ -169,8 +170,7 @@ TEST(Sensor, AccelerometerReadsForwardAccelerationWhenPushedForward) {
   push.duration_s = 0.1;
   push.peak_N = 50;
   push.height_m = model.chassis.com_height_m;  // through the chassis COM
-  std::string error;
-  ASSERT_TRUE(plant->AddPush(push, &error)) << error;
+  ASSERT_TRUE(Succeeded(plant->AddPush(push)));
   const double dt = plant->options().dt_s;
   // IMU point velocity in the world (x, z) from the true state: the body point (xi, zi) pitched
   // by θ sits at (xi cosθ + zi sinθ, −xi sinθ + zi cosθ) from the axle, so it moves at the axle
@@ -216,8 +216,7 @@ TEST(Sensor, AccelerometerYAndGyroXReadTheRobotTippingToItsLeft) {
   push.peak_N = 200;
   push.direction_deg = 90;
   push.height_m = 0.5;
-  std::string error;
-  ASSERT_TRUE(plant->AddPush(push, &error)) << error;
+  ASSERT_TRUE(Succeeded(plant->AddPush(push)));
   for (int k = 1; k <= 30; ++k) {
     plant->Step();
     const SensorSample s = plant->Sense();

@@ -8,6 +8,7 @@
 #include <utility>
 #include <vector>
 
+#include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
 
 namespace upright::sim {
@@ -185,14 +186,12 @@ TEST(Terrain, PolylinePiecesOfASteepRampAreNoLongerThanAsked) {
 }
 
 TEST(Terrain, ValidTerrainsPass) {
-  std::string error = "untouched";
-  EXPECT_TRUE(Terrain().IsValid(&error));
-  EXPECT_TRUE(MakeProfile().IsValid(&error));
+  EXPECT_TRUE(Succeeded(Terrain().Validate()));
+  EXPECT_TRUE(Succeeded(MakeProfile().Validate()));
   Terrain slope;
   slope.kind = TerrainKind::kSlope;
   slope.slope_deg = -44.9;
-  EXPECT_TRUE(slope.IsValid(&error));
-  EXPECT_EQ(error, "untouched");
+  EXPECT_TRUE(Succeeded(slope.Validate()));
 }
 
 struct BadTerrain {
@@ -201,7 +200,7 @@ struct BadTerrain {
   const char* expected_text;  // the field and its value as the message must show them
 };
 
-TEST(Terrain, IsValidNamesTheBrokenFieldAndItsValue) {
+TEST(Terrain, ValidateNamesTheBrokenFieldAndItsValue) {
   const double nan = std::numeric_limits<double>::quiet_NaN();
   std::vector<BadTerrain> cases;
   Terrain t;
@@ -249,8 +248,9 @@ TEST(Terrain, IsValidNamesTheBrokenFieldAndItsValue) {
   t.friction_regions = {{0, 1, nan}};
   cases.push_back({"friction nan", t, "Terrain::friction_regions[0].friction = nan"});
   for (const BadTerrain& c : cases) {
-    std::string error;
-    EXPECT_FALSE(c.terrain.IsValid(&error)) << c.what;
+    const Status valid = c.terrain.Validate();
+    ASSERT_FALSE(valid.has_value()) << c.what;
+    const std::string& error = valid.error();
     EXPECT_NE(error.find(c.expected_text), std::string::npos)
         << c.what << ": message '" << error << "' lacks '" << c.expected_text << "'";
   }
@@ -259,8 +259,7 @@ TEST(Terrain, IsValidNamesTheBrokenFieldAndItsValue) {
 TEST(Terrain, FrictionRegionOfZeroFrictionIsValid) {
   Terrain t;
   t.friction_regions = {{-1, 1, 0.0}, {1, 2, 3.0}};
-  std::string error;
-  EXPECT_TRUE(t.IsValid(&error)) << error;
+  EXPECT_TRUE(Succeeded(t.Validate()));
 }
 
 TEST(Terrain, KindNamesRoundTrip) {

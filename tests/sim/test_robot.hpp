@@ -10,6 +10,7 @@
 #include <memory>
 #include <string>
 
+#include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/robot_model.hpp"
 #include "upright/sim/plant.hpp"
@@ -76,10 +77,9 @@ inline RobotModel MakeFrictionlessTestRobot() {
 
 // A plant for the test, or a test failure naming why it could not be built.
 inline std::unique_ptr<Plant> MakePlant(const RobotModel& model, const PlantOptions& options) {
-  std::string error;
-  auto plant = Plant::Create(model, options, &error);
-  EXPECT_NE(plant, nullptr) << error;
-  return plant;
+  auto plant = Plant::Create(model, options);
+  EXPECT_TRUE(Succeeded(plant));
+  return plant ? std::move(*plant) : nullptr;
 }
 
 // Unpowered: a torque drive commanded to zero lets the wheels turn freely (no back-EMF braking).

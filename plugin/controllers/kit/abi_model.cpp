@@ -35,7 +35,7 @@ bool AllFinite(const double (&values)[N]) {
 
 }  // namespace
 
-void CheckAbiModel(const upright_robot& r, const upright_linear_model& l) {
+Result<void, ModuleError> CheckAbiModel(const upright_robot& r, const upright_linear_model& l) {
   const std::pair<const char*, double> positive[] = {
       {"chassis_mass_kg", r.chassis_mass_kg},
       {"wheel_radius_m", r.wheel_radius_m},
@@ -52,7 +52,7 @@ void CheckAbiModel(const upright_robot& r, const upright_linear_model& l) {
     if (!(value > 0) || !std::isfinite(value)) {
       std::ostringstream why;
       why << "robot " << name << " = " << value << ": must be > 0";
-      throw ModuleError(UPRIGHT_UNSUPPORTED, why.str());
+      return Failure(ModuleError{UPRIGHT_UNSUPPORTED, why.str()});
     }
   }
   const std::pair<const char*, double> finite[] = {
@@ -70,7 +70,7 @@ void CheckAbiModel(const upright_robot& r, const upright_linear_model& l) {
     if (!std::isfinite(value)) {
       std::ostringstream why;
       why << name << " = " << value << ": must be finite";
-      throw ModuleError(UPRIGHT_UNSUPPORTED, why.str());
+      return Failure(ModuleError{UPRIGHT_UNSUPPORTED, why.str()});
     }
   }
   if (HasResolutions(r)) {
@@ -79,14 +79,15 @@ void CheckAbiModel(const upright_robot& r, const upright_linear_model& l) {
       if (!(value >= 0) || !std::isfinite(value)) {
         std::ostringstream why;
         why << "robot " << name << " = " << value << ": must be >= 0 and finite";
-        throw ModuleError(UPRIGHT_UNSUPPORTED, why.str());
+        return Failure(ModuleError{UPRIGHT_UNSUPPORTED, why.str()});
       }
     }
   }
   if (!AllFinite(l.A_torque) || !AllFinite(l.B_torque) || !AllFinite(l.A_voltage) ||
       !AllFinite(l.B_voltage) || !AllFinite(l.E)) {
-    throw ModuleError(UPRIGHT_UNSUPPORTED, "the linear model has a non-finite entry");
+    return Failure(ModuleError{UPRIGHT_UNSUPPORTED, "the linear model has a non-finite entry"});
   }
+  return {};
 }
 
 RobotModel RobotFromAbi(const upright_robot& r, double control_rate_hz) {

@@ -3,16 +3,17 @@
 // (weights, LQR, H-infinity, Kalman, PID tuning) work on out.
 #pragma once
 
+#include "kit/module_context.hpp"
 #include "upright/controller_abi.h"
 #include "upright/design/linear_model.hpp"
 #include "upright/model/robot_model.hpp"
 
 namespace upright::controllers {
 
-// Throws ModuleError(UPRIGHT_UNSUPPORTED) naming the first field the designs cannot use: a
-// non-finite number anywhere, a non-positive size, rate or motor constant, or a negative
-// resolution.
-void CheckAbiModel(const upright_robot& robot, const upright_linear_model& linear);
+// UPRIGHT_UNSUPPORTED naming the first field the designs cannot use: a non-finite number
+// anywhere, a non-positive size, rate or motor constant, or a negative resolution.
+Result<void, ModuleError> CheckAbiModel(const upright_robot& robot,
+                                        const upright_linear_model& linear);
 
 // The robot as the design functions read it. Fields the ABI does not carry stay at their
 // defaults (zero): the chassis outline, wheel width, diameter inertia and rolling resistance,

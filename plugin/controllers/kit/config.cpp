@@ -4,15 +4,12 @@
 #include <cctype>
 #include <charconv>
 #include <cmath>
+#include <utility>
 
 #include "upright/model/conventions.hpp"
 
 namespace upright::controllers {
 namespace {
-
-[[noreturn]] void Bad(const std::string& message) {
-  throw ModuleError(UPRIGHT_BAD_CONFIG, message);
-}
 
 std::string Trimmed(const std::string& text) {
   const auto first =
@@ -58,8 +55,8 @@ ConfigReader::ConfigReader(const ConfigEntries& entries) : entries_(entries) {
   for (std::size_t i = 0; i < entries_.size(); ++i) {
     for (std::size_t j = 0; j < i; ++j) {
       if (entries_[i].first == entries_[j].first) {
-        Bad(entries_[i].first + " = " + entries_[i].second + ": given twice (first as " +
-            entries_[j].second + ")");
+        Refuse(entries_[i].first + " = " + entries_[i].second + ": given twice (first as " +
+               entries_[j].second + ")");
       }
     }
   }
@@ -85,10 +82,12 @@ void ConfigReader::Number(const std::string& key, NumberRule rule, double* value
   double v = 0;
   const auto [end, ec] = std::from_chars(t.data(), t.data() + t.size(), v);
   if (t.empty() || ec != std::errc() || end != t.data() + t.size() || !std::isfinite(v)) {
-    Bad(key + " = " + *text + ": must be a finite decimal number");
+    Refuse(key + " = " + *text + ": must be a finite decimal number");
+  } else if (!Keeps(rule, v)) {
+    Refuse(key + " = " + *text + ": " + RuleText(rule));
+  } else {
+    *value = v;
   }
-  if (!Keeps(rule, v)) Bad(key + " = " + *text + ": " + RuleText(rule));
-  *value = v;
 }
 
 void ConfigReader::Choice(const std::string& key, const std::vector<std::string>& choices,
@@ -97,16 +96,26 @@ void ConfigReader::Choice(const std::string& key, const std::vector<std::string>
   if (!text) return;
   const std::string t = Trimmed(*text);
   const auto it = std::find(choices.begin(), choices.end(), t);
-  if (it == choices.end()) Bad(key + " = " + *text + ": must be one of " + Joined(choices, ", "));
+  if (it == choices.end()) {
+    Refuse(key + " = " + *text + ": must be one of " + Joined(choices, ", "));
+    return;
+  }
   *index = static_cast<int>(it - choices.begin());
 }
 
-void ConfigReader::Finish() const {
+void ConfigReader::Refuse(std::string message) {
+  if (problem_.empty()) problem_ = std::move(message);
+}
+
+Result<void, ModuleError> ConfigReader::Finish() const {
+  if (!problem_.empty()) return Failure(ModuleError{UPRIGHT_BAD_CONFIG, problem_});
   for (const auto& [key, value] : entries_) {
     if (std::find(known_.begin(), known_.end(), key) == known_.end()) {
-      Bad("unknown key " + key + " (= " + value + "); known keys: " + Joined(known_, ", "));
+      return Failure(ModuleError{UPRIGHT_BAD_CONFIG, "unknown key " + key + " (= " + value +
+                                                         "); known keys: " + Joined(known_, ", ")});
     }
   }
+  return {};
 }
 
 CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
@@ -116,14 +125,15 @@ CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
   reader->Choice("state", {"estimated", "true"}, &state);
   c.state = state == 1 ? StateChoice::kTrue : StateChoice::kEstimated;
   if (c.state == StateChoice::kTrue && !true_state_available) {
-    Bad("state = true: the host offers no true state (allow it in the scenario, or use "
+    reader->Refuse(
+        "state = true: the host offers no true state (allow it in the scenario, or use "
         "state = estimated)");
   }
   int input = 0;
   reader->Choice("input", {"torque", "voltage"}, &input);
   c.input = input == 1 ? design::InputKind::kVoltage : design::InputKind::kTorque;
   if (c.input == design::InputKind::kVoltage && !voltage_allowed) {
-    Bad("input = voltage: this controller commands torque only");
+    reader->Refuse("input = voltage: this controller commands torque only");
   }
   design::DesignWeights& w = c.weights;
   reader->Number("max_drift_m", NumberRule::kPositive, &w.max_drift_m);

@@ -20,23 +20,28 @@ enum class NumberRule {
 };
 
 // Reads a module's entries by key (`entries` must outlive the reader). Each read marks its key as
-// known; Finish() then rejects any entry no read asked for. Every failure throws
-// ModuleError(UPRIGHT_BAD_CONFIG).
+// known. Reading goes on after a problem, so reads need no checks of their own: the first problem
+// (a repeated key, a bad value, a rule the module refuses) is kept, and Finish() reports it, or
+// else any entry no read asked for. Values a read could not take are left as they were.
 class ConfigReader {
  public:
-  explicit ConfigReader(const ConfigEntries& entries);  // throws on a repeated key
+  explicit ConfigReader(const ConfigEntries& entries);  // notes a repeated key
   bool Has(const std::string& key) const;
   // Sets *value from `key` when present: a finite decimal number keeping `rule`.
   void Number(const std::string& key, NumberRule rule, double* value);
   // Sets *index to the position of `key`'s value in `choices` when present.
   void Choice(const std::string& key, const std::vector<std::string>& choices, int* index);
-  // Throws for the first entry none of the reads above asked for, listing the known keys.
-  void Finish() const;
+  // Notes a rule across keys that the configuration breaks ("gamma and gamma_factor: ...").
+  void Refuse(std::string message);
+  // UPRIGHT_BAD_CONFIG with the first problem noted, else with the first entry none of the reads
+  // asked for (listing the known keys); success otherwise.
+  Result<void, ModuleError> Finish() const;
 
  private:
   const std::string* Find(const std::string& key);
   const ConfigEntries& entries_;
   std::vector<std::string> known_;
+  std::string problem_;  // the first problem noted; empty while there is none
 };
 
 // Where a state-feedback module takes the robot's state from.
@@ -59,7 +64,8 @@ struct CommonConfig {
 };
 
 // Reads the common keys. `true_state_available` comes from the host: `state = true` without it
-// is a bad configuration. `voltage_allowed` false: `input = voltage` is one too.
+// is a bad configuration. `voltage_allowed` false: `input = voltage` is one too. Problems go to
+// the reader, for its Finish().
 CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
                               bool voltage_allowed);
 

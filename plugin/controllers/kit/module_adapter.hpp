@@ -1,12 +1,13 @@
 // Module adapter (internal to the built-in modules): a C++ controller class in, the C function
 // table of upright/controller_abi.h out. Create arguments, step inputs and outputs flow through
-// it unchanged; every exception is caught here and becomes a status code and a message, so none
-// ever crosses the C boundary.
+// it unchanged; a refusal (ModuleError) becomes its status code and message, and any exception
+// (out of memory, say) is caught here and becomes UPRIGHT_ERROR, so none ever crosses the C
+// boundary.
 //
 // A controller class provides:
 //   static constexpr const char* kName;  // the table's short name
-//   static std::unique_ptr<C> Create(const ModuleContext& context, upright_create_result* result);
-//       // may throw (ModuleError for a status other than UPRIGHT_ERROR)
+//   static Result<std::unique_ptr<C>, ModuleError> Create(const ModuleContext& context,
+//                                                         upright_create_result* result);
 //   void Reset();
 //   const char* Step(const upright_step_input& input, upright_step_output* output);
 //       // nullptr when all is well, else a message in static storage: no allocation per tick
@@ -48,14 +49,11 @@ class ModuleAdapter {
   }
 
  private:
-  // Runs `call`, returning its status; an exception becomes a status and a message.
+  // Runs `call`, returning its status; an exception becomes UPRIGHT_ERROR and a message.
   template <typename Call>
   static int Guard(Call call, char* error, std::size_t error_size) noexcept {
     try {
       return call();
-    } catch (const ModuleError& e) {
-      WriteMessage(e.what(), error, error_size);
-      return e.status();
     } catch (const std::bad_alloc&) {
       WriteMessage("out of memory", error, error_size);
     } catch (const std::exception& e) {
@@ -66,20 +64,32 @@ class ModuleAdapter {
     return UPRIGHT_ERROR;
   }
 
+  // A refusal as the host sees it: its status, and its message in the error buffer.
+  static int Refuse(const ModuleError& refusal, char* error, std::size_t error_size) {
+    WriteMessage(refusal.message.c_str(), error, error_size);
+    return refusal.status;
+  }
+
   static int Create(const upright_create_args* args, upright_create_result* result, void** instance,
                     char* error, std::size_t error_size) noexcept {
     if (instance) *instance = nullptr;
     return Guard(
         [&] {
-          if (!instance) throw ModuleError(UPRIGHT_ERROR, "create: instance is NULL");
-          if (!result || result->struct_size < sizeof(upright_create_result)) {
-            throw ModuleError(UPRIGHT_ERROR,
-                              "create: result is NULL or shorter than version 1's "
-                              "upright_create_result");
+          if (!instance) {
+            return Refuse({UPRIGHT_ERROR, "create: instance is NULL"}, error, error_size);
           }
-          const ModuleContext context = ContextFromArgs(args);
-          std::unique_ptr<Controller> controller = Controller::Create(context, result);
-          *instance = controller.release();
+          if (!result || result->struct_size < sizeof(upright_create_result)) {
+            return Refuse({UPRIGHT_ERROR,
+                           "create: result is NULL or shorter than version 1's "
+                           "upright_create_result"},
+                          error, error_size);
+          }
+          const Result<ModuleContext, ModuleError> context = ContextFromArgs(args);
+          if (!context) return Refuse(context.error(), error, error_size);
+          Result<std::unique_ptr<Controller>, ModuleError> controller =
+              Controller::Create(*context, result);
+          if (!controller) return Refuse(controller.error(), error, error_size);
+          *instance = controller->release();
           return UPRIGHT_OK;
         },
         error, error_size);
@@ -88,7 +98,9 @@ class ModuleAdapter {
   static int Reset(void* instance, char* error, std::size_t error_size) noexcept {
     return Guard(
         [&] {
-          if (!instance) throw ModuleError(UPRIGHT_ERROR, "reset: instance is NULL");
+          if (!instance) {
+            return Refuse({UPRIGHT_ERROR, "reset: instance is NULL"}, error, error_size);
+          }
           static_cast<Controller*>(instance)->Reset();
           return UPRIGHT_OK;
         },

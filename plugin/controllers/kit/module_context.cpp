@@ -4,6 +4,7 @@
 #include <cstddef>
 #include <cstring>
 #include <sstream>
+#include <utility>
 
 #include "kit/abi_model.hpp"
 
@@ -17,7 +18,10 @@ constexpr std::size_t kFirstRobotSize =
 constexpr std::size_t kMinimumArgsSize =
     offsetof(upright_create_args, log_host) + sizeof(upright_create_args::log_host);
 
-void Malformed(const std::string& what) { throw ModuleError(UPRIGHT_ERROR, what); }
+// A malformed call: UPRIGHT_ERROR.
+tl::unexpected<ModuleError> Malformed(std::string what) {
+  return Failure(ModuleError{UPRIGHT_ERROR, std::move(what)});
+}
 
 }  // namespace
 
@@ -25,33 +29,34 @@ void ModuleContext::Log(upright_log_level level, const std::string& message) con
   if (log) log(log_host, level, message.c_str());
 }
 
-ModuleContext ContextFromArgs(const upright_create_args* args) {
-  if (!args) Malformed("create called without arguments (args is NULL)");
+Result<ModuleContext, ModuleError> ContextFromArgs(const upright_create_args* args) {
+  if (!args) return Malformed("create called without arguments (args is NULL)");
   if (args->struct_size < kMinimumArgsSize) {
-    Malformed("upright_create_args::struct_size = " + std::to_string(args->struct_size) +
-              ": must be >= " + std::to_string(kMinimumArgsSize));
+    return Malformed("upright_create_args::struct_size = " + std::to_string(args->struct_size) +
+                     ": must be >= " + std::to_string(kMinimumArgsSize));
   }
   if (args->abi_version != UPRIGHT_CONTROLLER_ABI_VERSION) {
-    throw ModuleError(UPRIGHT_UNSUPPORTED, "the host speaks controller ABI version " +
-                                               std::to_string(args->abi_version) +
-                                               ", this module version " +
-                                               std::to_string(UPRIGHT_CONTROLLER_ABI_VERSION));
+    return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
+                               "the host speaks controller ABI version " +
+                                   std::to_string(args->abi_version) + ", this module version " +
+                                   std::to_string(UPRIGHT_CONTROLLER_ABI_VERSION)});
   }
   if (!args->robot || args->robot->struct_size < kFirstRobotSize) {
-    Malformed("upright_create_args::robot is NULL or shorter than version 1's upright_robot");
+    return Malformed(
+        "upright_create_args::robot is NULL or shorter than version 1's upright_robot");
   }
   if (!args->linear || args->linear->struct_size < sizeof(upright_linear_model)) {
-    Malformed(
+    return Malformed(
         "upright_create_args::linear is NULL or shorter than version 1's upright_linear_model");
   }
   if (!(args->rate_hz > 0) || !std::isfinite(args->rate_hz)) {
     std::ostringstream why;
     why << "upright_create_args::rate_hz = " << args->rate_hz << ": must be > 0";
-    Malformed(why.str());
+    return Malformed(why.str());
   }
   if (args->config_count > 0 && !args->config) {
-    Malformed("upright_create_args::config is NULL with config_count = " +
-              std::to_string(args->config_count));
+    return Malformed("upright_create_args::config is NULL with config_count = " +
+                     std::to_string(args->config_count));
   }
   ModuleContext context;
   std::memcpy(&context.robot_abi, args->robot, sizeof(upright_robot));
@@ -64,21 +69,24 @@ ModuleContext ContextFromArgs(const upright_create_args* args) {
   for (uint32_t i = 0; i < args->config_count; ++i) {
     const upright_config_entry& e = args->config[i];
     if (!e.key || !e.value) {
-      Malformed("config entry " + std::to_string(i) + " has a NULL key or value");
+      return Malformed("config entry " + std::to_string(i) + " has a NULL key or value");
     }
     context.config.emplace_back(e.key, e.value);
   }
   context.log = args->log;
   context.log_host = args->log_host;
-  CheckAbiModel(context.robot_abi, context.linear_abi);
+  if (auto usable = CheckAbiModel(context.robot_abi, context.linear_abi); !usable) {
+    return Failure(usable.error());
+  }
   context.robot = RobotFromAbi(context.robot_abi, context.rate_hz);
   return context;
 }
 
-void Declare(design::InputKind input, const std::vector<const char*>& diagnostics,
-             upright_create_result* result) {
+Result<void, ModuleError> Declare(design::InputKind input,
+                                  const std::vector<const char*>& diagnostics,
+                                  upright_create_result* result) {
   if (diagnostics.size() > UPRIGHT_MAX_DIAGNOSTICS) {
-    throw ModuleError(UPRIGHT_ERROR, "more than UPRIGHT_MAX_DIAGNOSTICS diagnostics declared");
+    return Malformed("more than UPRIGHT_MAX_DIAGNOSTICS diagnostics declared");
   }
   result->command_kind =
       input == design::InputKind::kVoltage ? UPRIGHT_COMMAND_VOLTAGE : UPRIGHT_COMMAND_TORQUE;
@@ -86,13 +94,13 @@ void Declare(design::InputKind input, const std::vector<const char*>& diagnostic
   for (const char* name : diagnostics) {
     const std::size_t length = std::strlen(name);
     if (length == 0 || length >= UPRIGHT_NAME_SIZE) {
-      throw ModuleError(UPRIGHT_ERROR, std::string("diagnostic name '") + name +
-                                           "' must have 1 to " +
-                                           std::to_string(UPRIGHT_NAME_SIZE - 1) + " characters");
+      return Malformed(std::string("diagnostic name '") + name + "' must have 1 to " +
+                       std::to_string(UPRIGHT_NAME_SIZE - 1) + " characters");
     }
     std::memcpy(result->diagnostic_names[result->diagnostic_count], name, length + 1);
     ++result->diagnostic_count;
   }
+  return {};
 }
 
 }  // namespace upright::controllers

@@ -3,27 +3,23 @@
 // into C++ values; and what the module declares back (command kind, diagnostic names).
 #pragma once
 
-#include <stdexcept>
 #include <string>
 #include <utility>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/controller_abi.h"
 #include "upright/design/linear_model.hpp"
 #include "upright/model/robot_model.hpp"
 
 namespace upright::controllers {
 
-// An error at create or reset, with the status the host is to see (UPRIGHT_BAD_CONFIG,
-// UPRIGHT_UNSUPPORTED or UPRIGHT_ERROR). The adapter turns it into that status and message.
-class ModuleError : public std::runtime_error {
- public:
-  ModuleError(int status, const std::string& message)
-      : std::runtime_error(message), status_(status) {}
-  int status() const { return status_; }
-
- private:
-  int status_;
+// Why create refused, with the status the host is to see (UPRIGHT_BAD_CONFIG, UPRIGHT_UNSUPPORTED
+// or UPRIGHT_ERROR): the failing side of every fallible function of the kit and the modules. The
+// adapter turns it into that status and message.
+struct ModuleError {
+  int status = UPRIGHT_ERROR;
+  std::string message;
 };
 
 using ConfigEntries = std::vector<std::pair<std::string, std::string>>;
@@ -44,14 +40,15 @@ struct ModuleContext {
   void Log(upright_log_level level, const std::string& message) const;
 };
 
-// Checks create's arguments (sizes, version, pointers, rate, robot) and copies them. Throws
-// ModuleError: UPRIGHT_ERROR for a malformed call, UPRIGHT_UNSUPPORTED for a robot or linear
-// model the built-ins cannot design for.
-ModuleContext ContextFromArgs(const upright_create_args* args);
+// Checks create's arguments (sizes, version, pointers, rate, robot) and copies them. Fails with
+// UPRIGHT_ERROR for a malformed call, UPRIGHT_UNSUPPORTED for a robot or linear model the
+// built-ins cannot design for.
+Result<ModuleContext, ModuleError> ContextFromArgs(const upright_create_args* args);
 
 // Fills the create result: the command kind of `input` and the diagnostic names, in order (at
-// most UPRIGHT_MAX_DIAGNOSTICS, each shorter than UPRIGHT_NAME_SIZE; checked).
-void Declare(design::InputKind input, const std::vector<const char*>& diagnostics,
-             upright_create_result* result);
+// most UPRIGHT_MAX_DIAGNOSTICS, each shorter than UPRIGHT_NAME_SIZE; UPRIGHT_ERROR otherwise).
+Result<void, ModuleError> Declare(design::InputKind input,
+                                  const std::vector<const char*>& diagnostics,
+                                  upright_create_result* result);
 
 }  // namespace upright::controllers

@@ -1,18 +1,22 @@
 #include "kit/state_feedback.hpp"
 
+#include <utility>
+
 #include "upright/design/weights.hpp"
 
 namespace upright::controllers {
 
-design::Gain DiscreteLqrFor(const ModuleContext& context, const CommonConfig& config,
-                            const design::LinearModel& plant) {
-  const design::GainResult lqr = design::RobotDiscreteLqr(
+Result<design::Gain, ModuleError> DiscreteLqrFor(const ModuleContext& context,
+                                                 const CommonConfig& config,
+                                                 const design::LinearModel& plant) {
+  const Result<Eigen::MatrixXd, design::SolveError> lqr = design::RobotDiscreteLqr(
       plant, design::StateWeight(config.weights),
       design::InputWeight(config.weights, context.robot, config.input), context.period_s);
-  if (!lqr.ok()) {
-    throw ModuleError(UPRIGHT_UNSUPPORTED, "discrete LQR design failed: " + lqr.message);
+  if (!lqr) {
+    return Failure(
+        ModuleError{UPRIGHT_UNSUPPORTED, "discrete LQR design failed: " + lqr.error().message});
   }
-  return lqr.K;
+  return design::Gain(*lqr);
 }
 
 const std::vector<const char*>& StateFeedbackLaw::DiagnosticNames() {
@@ -22,10 +26,20 @@ const std::vector<const char*>& StateFeedbackLaw::DiagnosticNames() {
   return kNames;
 }
 
+Result<StateFeedbackLaw, ModuleError> StateFeedbackLaw::For(const design::LinearModel& plant,
+                                                            const design::Gain& gain,
+                                                            double input_limit,
+                                                            const ReferenceTracker& tracker) {
+  Result<SteadyMotion, ModuleError> steady = SteadyMotion::Of(plant);
+  if (!steady) return Failure(std::move(steady.error()));
+  return StateFeedbackLaw(plant, gain, *steady, input_limit, tracker);
+}
+
 StateFeedbackLaw::StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain,
-                                   double input_limit, const ReferenceTracker& tracker)
+                                   const SteadyMotion& steady, double input_limit,
+                                   const ReferenceTracker& tracker)
     : gain_(gain),
-      steady_(plant),
+      steady_(steady),
       input_limit_(input_limit),
       equilibrium_pitch_rad_(plant.equilibrium_pitch_rad),
       tracker_(tracker) {}

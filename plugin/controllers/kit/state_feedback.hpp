@@ -17,9 +17,10 @@
 namespace upright::controllers {
 
 // The discrete LQR gain at the module's rate (zero-order hold) from the configured weights, for
-// `plant`'s input kind; throws ModuleError (UPRIGHT_UNSUPPORTED) when the design fails.
-design::Gain DiscreteLqrFor(const ModuleContext& context, const CommonConfig& config,
-                            const design::LinearModel& plant);
+// `plant`'s input kind; UPRIGHT_UNSUPPORTED when the design fails.
+Result<design::Gain, ModuleError> DiscreteLqrFor(const ModuleContext& context,
+                                                 const CommonConfig& config,
+                                                 const design::LinearModel& plant);
 
 class StateFeedbackLaw {
  public:
@@ -27,9 +28,11 @@ class StateFeedbackLaw {
   static const std::vector<const char*>& DiagnosticNames();
 
   // `gain`: u = −K e, for `plant`'s input kind; `input_limit` per wheel, V or N·m; `tracker`
-  // as configured, at its reset state.
-  StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain, double input_limit,
-                   const ReferenceTracker& tracker);
+  // as configured, at its reset state. UPRIGHT_UNSUPPORTED when `plant` cannot hold a steady
+  // motion (SteadyMotion::Of).
+  static Result<StateFeedbackLaw, ModuleError> For(const design::LinearModel& plant,
+                                                   const design::Gain& gain, double input_limit,
+                                                   const ReferenceTracker& tracker);
   void Reset();
   // Writes the commands and the diagnostics; nullptr, or a message in static storage.
   const char* Step(const upright_reference& reference, const design::StateVector& state,
@@ -38,6 +41,9 @@ class StateFeedbackLaw {
   const Eigen::Vector2d& command() const { return command_; }
 
  private:
+  StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain,
+                   const SteadyMotion& steady, double input_limit, const ReferenceTracker& tracker);
+
   design::Gain gain_;
   SteadyMotion steady_;
   double input_limit_;

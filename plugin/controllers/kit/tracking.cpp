@@ -34,21 +34,24 @@ void ReferenceTracker::Error(const design::StateVector& state, design::StateVect
   (*error)(design::kYawRate) -= yaw_rate_rad_s_;
 }
 
-SteadyMotion::SteadyMotion(const design::LinearModel& plant) {
+Result<SteadyMotion, ModuleError> SteadyMotion::Of(const design::LinearModel& plant) {
   using design::kPitch;
+  SteadyMotion steady;
   const int rows[3] = {design::kXDot, design::kPitchRate, design::kYawRate};
   Eigen::Matrix3d n;
   for (int i = 0; i < 3; ++i) {
     n.row(i) << plant.A(rows[i], kPitch), plant.B(rows[i], 0), plant.B(rows[i], 1);
-    speed_terms_.row(i) << plant.A(rows[i], design::kXDot), plant.A(rows[i], design::kYawRate);
+    steady.speed_terms_.row(i) << plant.A(rows[i], design::kXDot),
+        plant.A(rows[i], design::kYawRate);
   }
   const Eigen::FullPivLU<Eigen::Matrix3d> lu(n);
   if (!lu.isInvertible()) {
-    throw ModuleError(UPRIGHT_UNSUPPORTED,
-                      "the linear model cannot hold the robot in a steady lean (its pitch, "
-                      "speed and yaw rows are dependent)");
+    return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
+                               "the linear model cannot hold the robot in a steady lean (its "
+                               "pitch, speed and yaw rows are dependent)"});
   }
-  solve_ = lu.inverse();
+  steady.solve_ = lu.inverse();
+  return steady;
 }
 
 void SteadyMotion::For(double speed_m_s, double accel_m_s2, double yaw_rate_rad_s,

@@ -6,6 +6,7 @@
 
 #include <Eigen/Dense>
 
+#include "kit/module_context.hpp"
 #include "upright/controller_abi.h"
 #include "upright/design/linear_model.hpp"
 
@@ -43,13 +44,15 @@ class ReferenceTracker {
 // model adds the back-EMF voltage of the speed.
 class SteadyMotion {
  public:
-  // Throws ModuleError(UPRIGHT_UNSUPPORTED) when the equations have no unique solution (the
-  // wheels cannot hold the robot at a lean).
-  explicit SteadyMotion(const design::LinearModel& plant);
+  // The steady motions of `plant`; UPRIGHT_UNSUPPORTED when the equations have no unique solution
+  // (the wheels cannot hold the robot at a lean).
+  static Result<SteadyMotion, ModuleError> Of(const design::LinearModel& plant);
   void For(double speed_m_s, double accel_m_s2, double yaw_rate_rad_s, double* pitch_rad,
            Eigen::Vector2d* input) const;
 
  private:
+  SteadyMotion() = default;
+
   Eigen::Matrix3d solve_;  // [θ_ss, u_L, u_R] = solve_ ([a, 0, 0] − speed_terms_ [v, r])
   Eigen::Matrix<double, 3, 2> speed_terms_;
 };

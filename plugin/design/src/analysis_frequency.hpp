@@ -32,30 +32,30 @@ inline constexpr double kSingularRcond = 1e-14;
 inline constexpr double kStabilityTolerance = 1e-12;
 
 // Checks the sizes of a system and fills in an empty D with zeros: A n×n, B n×m, C p×n, D p×m.
-// With n = 0, B and C may be empty and D gives p and m. Returns an error message, empty if valid.
-inline std::string CheckAndNormalise(StateSpace* s) {
+// With n = 0, B and C may be empty and D gives p and m. A failure names the matrix at fault.
+inline Status CheckAndNormalise(StateSpace* s) {
   const auto size = [](const Eigen::MatrixXd& m) {
     return std::to_string(m.rows()) + "×" + std::to_string(m.cols());
   };
-  if (s->A.rows() != s->A.cols()) return "A is " + size(s->A) + ", must be square";
+  if (s->A.rows() != s->A.cols()) return Failure("A is " + size(s->A) + ", must be square");
   const Eigen::Index n = s->A.rows();
   if (n == 0 && s->B.size() == 0 && s->C.size() == 0) {
     s->B.resize(0, s->D.cols());
     s->C.resize(s->D.rows(), 0);
   }
   if (s->B.rows() != n) {
-    return "B is " + size(s->B) + ", must have the " + std::to_string(n) + " rows of A";
+    return Failure("B is " + size(s->B) + ", must have the " + std::to_string(n) + " rows of A");
   }
   if (s->C.cols() != n) {
-    return "C is " + size(s->C) + ", must have the " + std::to_string(n) + " columns of A";
+    return Failure("C is " + size(s->C) + ", must have the " + std::to_string(n) + " columns of A");
   }
   if (s->D.size() == 0) s->D = Eigen::MatrixXd::Zero(s->C.rows(), s->B.cols());
   if (s->D.rows() != s->C.rows() || s->D.cols() != s->B.cols()) {
-    return "D is " + size(s->D) + ", must be " + std::to_string(s->C.rows()) + "×" +
-           std::to_string(s->B.cols()) + " (rows of C × columns of B)";
+    return Failure("D is " + size(s->D) + ", must be " + std::to_string(s->C.rows()) + "×" +
+                   std::to_string(s->B.cols()) + " (rows of C × columns of B)");
   }
   if (!s->A.allFinite() || !s->B.allFinite() || !s->C.allFinite() || !s->D.allFinite()) {
-    return "the system matrices contain a non-finite entry";
+    return Failure("the system matrices contain a non-finite entry");
   }
   return {};
 }

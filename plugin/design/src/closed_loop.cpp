@@ -120,12 +120,15 @@ LinearController StateFeedback(const Eigen::Matrix<double, kInputs, kStates>& K)
   return c;
 }
 
-LoopAnalysis AnalyseLoop(const LinearModel& plant, const Measurement& meas,
-                         const LinearController& ctrl, const Performance& performance) {
+AnalysisResult<LoopAnalysis> AnalyseLoop(const LinearModel& plant, const Measurement& meas,
+                                         const LinearController& ctrl,
+                                         const Performance& performance) {
   LoopAnalysis out;
+  const auto stopped = [&out](std::string why) {
+    return Failure(AnalysisFailure<LoopAnalysis>{std::move(why), std::move(out)});
+  };
   if (ctrl.Dc.size() > 0 && meas.Dy.size() > 0 && (ctrl.Dc * meas.Dy).norm() > 0) {
-    out.message = "controller feedthrough on a sensor that feels the input (an algebraic loop)";
-    return out;
+    return stopped("controller feedthrough on a sensor that feels the input (an algebraic loop)");
   }
   const LoopPlant reduced = Reduce(plant, meas, performance.Q);
   const Interconnection closed = Connect(reduced, ctrl, &performance, -1);
@@ -137,18 +140,21 @@ LoopAnalysis AnalyseLoop(const LinearModel& plant, const Measurement& meas,
   const double worst = out.poles.empty() ? -1 : out.poles.back().real();
   if (!(worst < 0)) {
     out.push_norm = std::numeric_limits<double>::infinity();
-    out.message = "closed loop unstable: pole at " + ComplexText(out.poles.back(), 6);
-    return out;
+    return stopped("closed loop unstable: pole at " + ComplexText(out.poles.back(), 6));
   }
-  const NormResult norm = HinfNorm({closed.A, closed.B, closed.C, closed.D});
-  out.push_norm = norm.norm;
+  const AnalysisResult<NormPeak> norm = HinfNorm({closed.A, closed.B, closed.C, closed.D});
+  out.push_norm = norm ? norm->norm : norm.error().found.norm;
+  std::vector<AnalysisResult<LoopMargins>> channels;
   for (int j = 0; j < kInputs; ++j) {
     const Interconnection loop = Connect(reduced, ctrl, nullptr, j);
-    out.channel_margins.push_back(SisoMargins({loop.A, loop.B, loop.C, loop.D}));
+    channels.push_back(SisoMargins({loop.A, loop.B, loop.C, loop.D}));
+    out.channel_margins.push_back(channels.back() ? *channels.back()
+                                                  : channels.back().error().found);
   }
-  out.margins = WorstOf(out.channel_margins);
-  out.ok = out.margins.ok && norm.ok;
-  out.message = !out.margins.ok ? out.margins.message : norm.ok ? "ok" : norm.message;
+  const AnalysisResult<LoopMargins> margins = WorstOf(channels);
+  out.margins = margins ? *margins : margins.error().found;
+  if (!margins) return stopped(margins.error().message);
+  if (!norm) return stopped(norm.error().message);
   return out;
 }
 

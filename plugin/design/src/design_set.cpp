@@ -8,11 +8,25 @@
 namespace upright::design {
 namespace {
 
+// The loop's analysis into the report: its figures, even when it stopped short, and whether it
+// did and why.
 void Finish(ControllerReport* report, const LinearModel& plant, const Measurement& meas,
             const LinearController& ctrl, const Performance& perf) {
-  report->loop = AnalyseLoop(plant, meas, ctrl, perf);
-  report->ok = report->loop.ok;
-  report->message = report->loop.message;
+  const AnalysisResult<LoopAnalysis> analysis = AnalyseLoop(plant, meas, ctrl, perf);
+  report->loop = analysis ? *analysis : analysis.error().found;
+  report->ok = analysis.has_value();
+  report->message = analysis ? "ok" : analysis.error().message;
+}
+
+// The loop as the module samples it into the report; a plant that cannot be sampled fails the
+// design.
+void NoteSampled(ControllerReport* report, const Result<SampledPoles, SolveError>& sampled) {
+  if (sampled) {
+    report->sampled = *sampled;
+    return;
+  }
+  report->ok = false;
+  report->message = sampled.error().message;
 }
 
 // The delay the report's figures leave out (see ControllerReport::unanalysed_delay_s). A
@@ -44,7 +58,7 @@ DesignStatus ControllerReport::status() const {
   return DesignStatus::kOk;
 }
 
-bool DesignRequest::IsValid(std::string* error) const {
+Status DesignRequest::Validate() const {
   std::ostringstream why;
   if (!(rate_hz >= 0) || !std::isfinite(rate_hz)) {
     why << "DesignRequest::rate_hz = " << rate_hz << ", must be > 0 (or 0 for the model's)";
@@ -57,13 +71,11 @@ bool DesignRequest::IsValid(std::string* error) const {
     why << "DesignRequest::push_scale_N = " << push_scale_N << ", must be >= 0";
   } else if (!std::isfinite(push_height_m)) {
     why << "DesignRequest::push_height_m = " << push_height_m << ", must be finite";
-  } else {
-    std::string weights_error;
-    if (!weights.IsValid(&weights_error)) why << weights_error;
+  } else if (Status valid_weights = weights.Validate(); !valid_weights) {
+    why << valid_weights.error();
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
 DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
@@ -83,31 +95,34 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
   perf.push_scale_N = req.push_scale_N;
 
   // LQR.
-  const GainResult lqr = RobotLqr(plant, perf.Q, perf.R);
-  const GainResult lqr_d = RobotDiscreteLqr(plant, perf.Q, perf.R, period_s);
-  if (lqr.ok() && lqr_d.ok()) {
-    set.lqr.K = lqr.K;
-    set.lqr.K_discrete = lqr_d.K;
-    Finish(&set.lqr, plant, FullState(), StateFeedback(lqr.K), perf);
-    set.lqr.sampled = SampledStateFeedback(plant, lqr_d.K, period_s);
+  const Result<Eigen::MatrixXd, SolveError> lqr = RobotLqr(plant, perf.Q, perf.R);
+  const Result<Eigen::MatrixXd, SolveError> lqr_d =
+      RobotDiscreteLqr(plant, perf.Q, perf.R, period_s);
+  if (lqr && lqr_d) {
+    set.lqr.K = *lqr;
+    set.lqr.K_discrete = *lqr_d;
+    Finish(&set.lqr, plant, FullState(), StateFeedback(*lqr), perf);
+    NoteSampled(&set.lqr, SampledStateFeedback(plant, *lqr_d, period_s));
   } else {
-    set.lqr.message = lqr.ok() ? lqr_d.message : lqr.message;
+    set.lqr.message = lqr ? lqr_d.error().message : lqr.error().message;
   }
 
   // H-infinity state feedback at γ = factor × γ_opt, or the γ asked for.
-  const GammaSearch search = RobotOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N);
-  set.hinf.gamma_opt = search.gamma_opt;
-  if (!search.ok()) {
-    set.hinf.message = search.message;
+  const Result<GammaSearch, SolveError> search =
+      RobotOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N);
+  if (!search) {
+    set.hinf.message = search.error().message;
   } else {
-    if (req.gamma == 0) req.gamma = req.gamma_factor * search.gamma_opt;
+    set.hinf.gamma_opt = search->gamma_opt;
+    if (req.gamma == 0) req.gamma = req.gamma_factor * search->gamma_opt;
     set.hinf.gamma = req.gamma;
-    const GainResult hinf = RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, req.gamma);
-    if (hinf.ok()) {
-      set.hinf.K = hinf.K;
-      Finish(&set.hinf, plant, FullState(), StateFeedback(hinf.K), perf);
+    const Result<Eigen::MatrixXd, SolveError> hinf =
+        RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, req.gamma);
+    if (hinf) {
+      set.hinf.K = *hinf;
+      Finish(&set.hinf, plant, FullState(), StateFeedback(*hinf), perf);
       // The hinf module applies the continuous gain at the sample rate.
-      set.hinf.sampled = SampledStateFeedback(plant, hinf.K, period_s);
+      NoteSampled(&set.hinf, SampledStateFeedback(plant, *hinf, period_s));
       if (set.hinf.ok && !(set.hinf.loop.push_norm < req.gamma)) {
         set.hinf.ok = false;
         std::ostringstream why;
@@ -117,7 +132,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
       }
     } else {
       std::ostringstream why;
-      why << hinf.message << " (gamma_opt = " << search.gamma_opt << ")";
+      why << hinf.error().message << " (gamma_opt = " << search->gamma_opt << ")";
       set.hinf.message = why.str();
     }
   }
@@ -126,27 +141,30 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
   const LinearModel torque_plant = req.input == InputKind::kTorque
                                        ? plant
                                        : Linearise(model, InputKind::kTorque, req.push_height_m);
-  const LqgFilter filter = DesignLqgFilter(model, plant, torque_plant,
-                                           DefaultFilterNoise(model, plant), period_s);
-  set.lqg.sensors = filter.sensors;
-  if (!lqr.ok() || !lqr_d.ok()) {
+  const FilterNoise noise = DefaultFilterNoise(model, plant);
+  const Result<LqgFilter, SolveError> designed =
+      DesignLqgFilter(model, plant, torque_plant, noise, period_s);
+  set.lqg.sensors = FilterSensors(model, plant, noise);
+  if (!lqr || !lqr_d) {
     set.lqg.message = "LQG needs the LQR regulator: " + set.lqr.message;
-  } else if (!filter.ok()) {
-    set.lqg.message = filter.message;
+  } else if (!designed) {
+    set.lqg.message = designed.error().message;
   } else {
-    set.lqg.K = lqr.K;
-    set.lqg.K_discrete = lqr_d.K;
+    const LqgFilter& filter = *designed;
+    set.lqg.K = *lqr;
+    set.lqg.K_discrete = *lqr_d;
     set.lqg.L = filter.L;
     set.lqg.L_discrete = filter.L_discrete;
-    set.lqg.sampled = SampledLqg(lqr_d.K, filter, period_s);
+    set.lqg.sampled = SampledLqg(*lqr_d, filter, period_s);
     set.lqg.estimator_fastest_1_s =
         (plant.A - filter.L * filter.sensors.C).eigenvalues().cwiseAbs().maxCoeff();
     // x̂̇ = A x̂ + B u + L (y − C x̂ − D u), u = −K x̂.
     const SensorLinearisation& s = set.lqg.sensors;
+    const Eigen::MatrixXd& K = *lqr;
     LinearController ctrl;
-    ctrl.Ac = plant.A - plant.B * lqr.K - filter.L * s.C + filter.L * s.D * lqr.K;
+    ctrl.Ac = plant.A - plant.B * K - filter.L * s.C + filter.L * s.D * K;
     ctrl.Bc = filter.L;
-    ctrl.Cc = -lqr.K;
+    ctrl.Cc = -K;
     ctrl.Dc = Eigen::MatrixXd::Zero(kInputs, s.C.rows());
     Finish(&set.lqg, plant, Measurement{s.C, s.D}, ctrl, perf);
   }

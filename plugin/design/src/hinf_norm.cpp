@@ -5,10 +5,11 @@
 #include <cmath>
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
-#include "analysis_frequency.hpp"
 #include "upright/base/number_text.hpp"
+#include "analysis_frequency.hpp"
 #include "upright/design/analysis.hpp"
 
 namespace upright::design {
@@ -80,30 +81,31 @@ std::vector<double> TestFrequencies(const std::vector<double>& crossings) {
   return tests;
 }
 
-}  // namespace
+// A failure with the largest gain found so far (a lower bound on the norm) and where, or none.
+tl::unexpected<AnalysisFailure<NormPeak>> Stopped(std::string why, double norm = 0,
+                                                  double peak_rad_s = kNaN) {
+  return Failure(AnalysisFailure<NormPeak>{std::move(why), {norm, peak_rad_s}});
+}
 
-NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
-  NormResult result;
-  result.peak_rad_s = kNaN;
-  if (!(relative_tolerance > 0 && relative_tolerance < 1)) {
-    result.message = "HinfNorm: relative_tolerance = " + SignificantText(relative_tolerance, 6) +
-                     ", must be in (0, 1)";
-    return result;
+// The Bruinsma–Steinbuch test frequency: the pole with the largest |Im λ / (Re λ |λ|)|, or the
+// smallest |λ| when all poles are real. `poles` is not empty.
+double PoleTestFrequency(const Eigen::VectorXcd& poles) {
+  double best_ratio = -1;
+  double test_omega = poles.cwiseAbs().minCoeff();
+  for (const internal::Complex& lambda : poles) {
+    if (lambda.imag() == 0) continue;
+    const double ratio = std::abs(lambda.imag() / (lambda.real() * std::abs(lambda)));
+    if (ratio > best_ratio) {
+      best_ratio = ratio;
+      test_omega = std::abs(lambda);
+    }
   }
-  StateSpace s = system;
-  if (const std::string error = internal::CheckAndNormalise(&s); !error.empty()) {
-    result.message = "HinfNorm: " + error;
-    return result;
-  }
-  internal::BalanceStates(&s);
-  if (const std::optional<internal::Complex> lambda = internal::UnstableEigenvalue(s.A)) {
-    result.norm = kInf;
-    result.message = "HinfNorm: A has the eigenvalue " + ComplexText(*lambda, 6) +
-                     ", not in the open left half-plane: the H-infinity norm is infinite";
-    return result;
-  }
+  return test_omega;
+}
 
-  // Lower bound: DC (preferred on a tie), infinity, and frequencies taken from the poles.
+// The lower bound the level-set iteration starts from: DC (preferred on a tie), infinity, and
+// frequencies taken from the poles of the (stable, balanced) system.
+LowerBound InitialLowerBound(const StateSpace& s) {
   LowerBound bound;
   bound.Consider(s, 0.0);
   if (const double at_infinity = internal::MaxSingularValue(s.D.cast<internal::Complex>());
@@ -111,55 +113,40 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
     bound = {at_infinity, kInf};
   }
   const Eigen::VectorXcd poles = internal::Eigenvalues(s.A).value_or(Eigen::VectorXcd());
-  if (poles.size() > 0) {
-    // Bruinsma–Steinbuch test frequency: the pole with the largest |Im λ / (Re λ |λ|)|, or the
-    // smallest |λ| when all poles are real.
-    double best_ratio = -1;
-    double test_omega = poles.cwiseAbs().minCoeff();
-    for (const internal::Complex& lambda : poles) {
-      if (lambda.imag() == 0) continue;
-      const double ratio = std::abs(lambda.imag() / (lambda.real() * std::abs(lambda)));
-      if (ratio > best_ratio) {
-        best_ratio = ratio;
-        test_omega = std::abs(lambda);
-      }
-    }
-    bound.Consider(s, test_omega);
-    // Every pole's magnitude and damped frequency: cheap, and a resonance is rarely missed.
-    for (const internal::Complex& lambda : poles) {
-      bound.Consider(s, std::abs(lambda));
-      if (lambda.imag() > 0) bound.Consider(s, lambda.imag());
-    }
-    // A coarse geometric grid from a hundredth of the slowest pole to a hundred times the fastest:
-    // a lower bound close to the norm keeps γ away from σ̄(D), where the level-set problem is
-    // ill-conditioned, and shows whether G vanishes (a non-zero G of order n vanishes at no more
-    // than n − 1 frequencies).
-    const double low = 0.01 * std::max(poles.cwiseAbs().minCoeff(), 1e-300);
-    const double high = 100 * poles.cwiseAbs().maxCoeff();
-    const double decades = std::log10(high / low);
-    const int count = std::clamp(static_cast<int>(std::ceil(kGridPerDecade * decades)),
-                                 static_cast<int>(2 * poles.size() + 2), kMaxGridPoints);
-    for (int i = 0; i < count; ++i) {
-      bound.Consider(s, low * std::pow(high / low, static_cast<double>(i) / (count - 1)));
-    }
+  if (poles.size() == 0) return bound;
+  bound.Consider(s, PoleTestFrequency(poles));
+  // Every pole's magnitude and damped frequency: cheap, and a resonance is rarely missed.
+  for (const internal::Complex& lambda : poles) {
+    bound.Consider(s, std::abs(lambda));
+    if (lambda.imag() > 0) bound.Consider(s, lambda.imag());
   }
-  if (bound.gain == 0) {
-    result.norm = 0;
-    result.peak_rad_s = 0;
-    result.ok = true;
-    result.message = "the transfer function is zero";
-    return result;
+  // A coarse geometric grid from a hundredth of the slowest pole to a hundred times the fastest:
+  // a lower bound close to the norm keeps γ away from σ̄(D), where the level-set problem is
+  // ill-conditioned, and shows whether G vanishes (a non-zero G of order n vanishes at no more
+  // than n − 1 frequencies).
+  const double low = 0.01 * std::max(poles.cwiseAbs().minCoeff(), 1e-300);
+  const double high = 100 * poles.cwiseAbs().maxCoeff();
+  const double decades = std::log10(high / low);
+  const int count = std::clamp(static_cast<int>(std::ceil(kGridPerDecade * decades)),
+                               static_cast<int>(2 * poles.size() + 2), kMaxGridPoints);
+  for (int i = 0; i < count; ++i) {
+    bound.Consider(s, low * std::pow(high / low, static_cast<double>(i) / (count - 1)));
   }
+  return bound;
+}
 
+// The level-set iteration (Bruinsma–Steinbuch): from a non-zero lower bound, the frequencies
+// where σ̄(G(jω)) crosses (1 + 2 tolerance) times it, and the gains between them, raise the bound
+// until no crossing beats the level; the bound is then the norm to the tolerance.
+AnalysisResult<NormPeak> RaiseToTheNorm(const StateSpace& s, LowerBound bound,
+                                        double relative_tolerance) {
   for (int iteration = 1; iteration <= kMaxIterations; ++iteration) {
     const double gamma = (1 + 2 * relative_tolerance) * bound.gain;
     const std::optional<std::vector<double>> crossings = CrossingFrequencies(s, gamma);
     if (!crossings) {
-      result.norm = bound.gain;
-      result.peak_rad_s = bound.omega;
-      result.message = "HinfNorm: the Hamiltonian eigenvalues could not be computed at γ = " +
-                       SignificantText(gamma, 6) + "; the norm is only a lower bound";
-      return result;
+      return Stopped("HinfNorm: the Hamiltonian eigenvalues could not be computed at γ = " +
+                         SignificantText(gamma, 6) + "; the norm is only a lower bound",
+                     bound.gain, bound.omega);
     }
     double best = 0;
     if (!crossings->empty()) {
@@ -170,19 +157,33 @@ NormResult HinfNorm(const StateSpace& system, double relative_tolerance) {
     }
     // True crossings at γ bracket an interval where σ̄ > γ, so its midpoint beats γ; when no test
     // point does, the candidates were not true crossings and the norm is below γ.
-    if (best <= gamma) {
-      result.norm = bound.gain;
-      result.peak_rad_s = bound.omega;
-      result.ok = true;
-      result.message = "converged in " + std::to_string(iteration) + " iterations";
-      return result;
-    }
+    if (best <= gamma) return NormPeak{bound.gain, bound.omega};
   }
-  result.norm = bound.gain;
-  result.peak_rad_s = bound.omega;
-  result.message = "HinfNorm: no convergence in " + std::to_string(kMaxIterations) +
-                   " iterations; the norm is only a lower bound";
-  return result;
+  return Stopped("HinfNorm: no convergence in " + std::to_string(kMaxIterations) +
+                     " iterations; the norm is only a lower bound",
+                 bound.gain, bound.omega);
+}
+
+}  // namespace
+
+AnalysisResult<NormPeak> HinfNorm(const StateSpace& system, double relative_tolerance) {
+  if (!(relative_tolerance > 0 && relative_tolerance < 1)) {
+    return Stopped("HinfNorm: relative_tolerance = " + SignificantText(relative_tolerance, 6) +
+                   ", must be in (0, 1)");
+  }
+  StateSpace s = system;
+  if (const Status valid = internal::CheckAndNormalise(&s); !valid) {
+    return Stopped("HinfNorm: " + valid.error());
+  }
+  internal::BalanceStates(&s);
+  if (const std::optional<internal::Complex> lambda = internal::UnstableEigenvalue(s.A)) {
+    return Stopped("HinfNorm: A has the eigenvalue " + ComplexText(*lambda, 6) +
+                       ", not in the open left half-plane: the H-infinity norm is infinite",
+                   kInf);
+  }
+  const LowerBound bound = InitialLowerBound(s);
+  if (bound.gain == 0) return NormPeak{0, 0};  // the transfer function is zero
+  return RaiseToTheNorm(s, bound, relative_tolerance);
 }
 
 }  // namespace upright::design

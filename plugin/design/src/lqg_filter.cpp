@@ -13,10 +13,8 @@ FilterNoise DefaultFilterNoise(const RobotModel& model, const LinearModel& plant
   return noise;
 }
 
-LqgFilter DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
-                          const LinearModel& torque_plant, const FilterNoise& noise,
-                          double period_s) {
-  LqgFilter f;
+SensorLinearisation FilterSensors(const RobotModel& model, const LinearModel& plant,
+                                  const FilterNoise& noise) {
   // The sensors, with the accelerometer's variance widened by the disturbances it feels
   // directly. f_x / g holds (ẍ + h θ̈) / g, into which this sample's push and pitch torque w enter
   // at once, y = C x + D u + F w; a filter for y = C x + D u + v does not see that term, so its
@@ -24,14 +22,22 @@ LqgFilter DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
   // Without it the filter trusts the model's acceleration, and any force the model lacks (rolling
   // resistance, wheel friction) pulls its pitch estimate into a friction limit cycle at about
   // 1 Hz: RMS pitch 0.81° on the courier robot without this, 0.46° with it.
-  f.sensors = LineariseSensors(model, plant);
+  SensorLinearisation sensors = LineariseSensors(model, plant);
   const double h = model.sensors.imu_z_m;
   const Eigen::RowVector2d F =
       (plant.E.row(kXDot) + h * plant.E.row(kPitchRate)) / kStandardGravity_m_s2;
   const Eigen::Vector2d w_variance(noise.push_sigma_N * noise.push_sigma_N,
                                    noise.torque_sigma_Nm * noise.torque_sigma_Nm);
   constexpr int kAccelRow = SensorLinearisation::kAccelRow;
-  f.sensors.Rv(kAccelRow, kAccelRow) += F * w_variance.asDiagonal() * F.transpose();
+  sensors.Rv(kAccelRow, kAccelRow) += F * w_variance.asDiagonal() * F.transpose();
+  return sensors;
+}
+
+Result<LqgFilter, SolveError> DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
+                                              const LinearModel& torque_plant,
+                                              const FilterNoise& noise, double period_s) {
+  LqgFilter f;
+  f.sensors = FilterSensors(model, plant, noise);
 
   // Process noise: the push and pitch torque of E, a yaw torque, and the floor on every state.
   // ψ̈ = τ / J_yaw, 1 / J_yaw read off the torque model as B(ψ̇, right) r / (track / 2). The yaw
@@ -43,8 +49,10 @@ LqgFilter DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
       torque_plant.B(kYawRate, kRight) * model.wheel.radius_m / (model.wheel.track_m / 2);
   Eigen::MatrixXd inputs(kStates, kInputs + kDisturbances + 1);
   inputs << plant.B, plant.E, yaw_torque;
-  Eigen::MatrixXd Gd;
-  DiscretiseZoh(plant.A, inputs, period_s, &f.Ad, &Gd);
+  const Result<ZohSystem, SolveError> sampled = DiscretiseZoh(plant.A, inputs, period_s);
+  if (!sampled) return Failure(sampled.error());
+  f.Ad = sampled->Ad;
+  const Eigen::MatrixXd& Gd = sampled->Bd;
   f.Bd = Gd.leftCols<kInputs>();
   const Eigen::MatrixXd Gw = Gd.rightCols(kDisturbances + 1);
   const Eigen::Vector3d variance(noise.push_sigma_N * noise.push_sigma_N,
@@ -53,18 +61,15 @@ LqgFilter DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
   f.Qd = Gw * variance.asDiagonal() * Gw.transpose() +
          noise.floor * Eigen::MatrixXd::Identity(kStates, kStates);
 
-  const GainResult discrete =
+  const Result<Eigen::MatrixXd, SolveError> discrete =
       DiscreteKalmanGain(f.Ad, f.sensors.C, f.Qd, f.sensors.Rv, &f.P_discrete);
   // Per-sample variances σ² over a period T are white-noise intensities σ² T.
-  const GainResult continuous =
+  const Result<Eigen::MatrixXd, SolveError> continuous =
       KalmanBucyGain(plant.A, f.sensors.C, f.Qd / period_s, f.sensors.Rv * period_s);
-  const GainResult& failed = discrete.ok() ? continuous : discrete;
-  f.failure = failed.failure;
-  f.message = failed.message;
-  if (f.ok()) {
-    f.L_discrete = discrete.K;
-    f.L = continuous.K;
-  }
+  if (!discrete) return Failure(discrete.error());
+  if (!continuous) return Failure(continuous.error());
+  f.L_discrete = *discrete;
+  f.L = *continuous;
   return f;
 }
 

@@ -7,8 +7,8 @@
 #include <limits>
 #include <string>
 
-#include "riccati_common.hpp"
 #include "upright/base/number_text.hpp"
+#include "riccati_common.hpp"
 #include "upright/design/riccati.hpp"
 
 namespace upright::design {
@@ -22,8 +22,9 @@ constexpr double kSingularTolerance = 1e3 * std::numeric_limits<double>::epsilon
 // Q counts as symmetric (and X is then symmetrised) below this relative asymmetry.
 constexpr double kSymmetryTolerance = 1e-12;
 
-bool PrepareLyapunov(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q, const char* equation,
-                     LyapunovResult* result) {
+// kInvalidInput, starting with `equation`, for sizes that disagree or non-finite entries.
+Result<void, SolveError> CheckLyapunovInput(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q,
+                                            const char* equation) {
   const Eigen::Index n = A.rows();
   std::string problem;
   if (n == 0 || A.cols() != n) {
@@ -35,33 +36,28 @@ bool PrepareLyapunov(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q, const c
   } else if (!A.allFinite() || !Q.allFinite()) {
     problem = "A or Q has a non-finite entry";
   }
-  if (problem.empty()) return true;
-  result->failure = SolveFailure::kInvalidInput;
-  result->message = std::string(equation) + ": " + problem;
-  return false;
+  if (problem.empty()) return {};
+  return internal::Fail(SolveFailure::kInvalidInput, std::string(equation) + ": " + problem);
 }
 
-// Fails when the pair (λ_i, λ_j) makes the triangular equation singular.
-bool Singular(Complex pivot, double scale, Complex lambda_i, Complex lambda_j, const char* rule,
-              LyapunovResult* result) {
-  if (std::abs(pivot) > kSingularTolerance * scale) return false;
-  result->failure = SolveFailure::kIllConditioned;
-  result->message = "A has eigenvalues " + ComplexText(lambda_i, 6) + " and " +
-                    ComplexText(lambda_j, 6) + " with " + rule +
-                    ": the Lyapunov equation has no unique solution";
-  return true;
+// kIllConditioned when the pair (λ_i, λ_j) makes the triangular equation singular.
+Result<void, SolveError> CheckPivot(Complex pivot, double scale, Complex lambda_i, Complex lambda_j,
+                                    const char* rule) {
+  if (std::abs(pivot) > kSingularTolerance * scale) return {};
+  return internal::Fail(SolveFailure::kIllConditioned,
+                        "A has eigenvalues " + ComplexText(lambda_i, 6) + " and " +
+                            ComplexText(lambda_j, 6) + " with " + rule +
+                            ": the Lyapunov equation has no unique solution");
 }
 
-LyapunovResult Finish(const Eigen::MatrixXcd& U, const Eigen::MatrixXcd& Y,
-                      const Eigen::MatrixXd& Q) {
-  LyapunovResult result;
-  result.X = (U * Y * U.adjoint()).real();
+// X = U Y Uᴴ, symmetrised when Q is symmetric.
+Eigen::MatrixXd Finish(const Eigen::MatrixXcd& U, const Eigen::MatrixXcd& Y,
+                       const Eigen::MatrixXd& Q) {
+  Eigen::MatrixXd X = (U * Y * U.adjoint()).real();
   if ((Q - Q.transpose()).norm() <= kSymmetryTolerance * Q.norm()) {
-    result.X = 0.5 * (result.X + result.X.transpose()).eval();
+    X = 0.5 * (X + X.transpose()).eval();
   }
-  result.failure = SolveFailure::kNone;
-  result.message = "ok";
-  return result;
+  return X;
 }
 
 // A = U T Uᴴ (complex Schur form) and F = Uᴴ Q U, the equation's right side in that basis.
@@ -69,40 +65,42 @@ struct SchurForm {
   Eigen::MatrixXcd T, U, F;
 };
 
-bool SchurOf(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q, SchurForm* form,
-             LyapunovResult* result) {
+Result<SchurForm, SolveError> SchurOf(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q) {
   const Eigen::ComplexSchur<Eigen::MatrixXcd> schur(A.cast<Complex>());
   if (schur.info() != Eigen::Success) {
-    result->failure = SolveFailure::kIllConditioned;
-    result->message = "the Schur decomposition of A did not converge";
-    return false;
+    return internal::Fail(SolveFailure::kIllConditioned,
+                          "the Schur decomposition of A did not converge");
   }
-  form->T = schur.matrixT();
-  form->U = schur.matrixU();
-  form->F = form->U.adjoint() * Q.cast<Complex>() * form->U;
-  return true;
+  SchurForm form;
+  form.T = schur.matrixT();
+  form.U = schur.matrixU();
+  form.F = form.U.adjoint() * Q.cast<Complex>() * form.U;
+  return form;
 }
 
 }  // namespace
 
-LyapunovResult SolveLyapunov(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q) {
-  LyapunovResult result;
-  if (!PrepareLyapunov(A, Q, "Lyapunov equation", &result)) return result;
+Result<Eigen::MatrixXd, SolveError> SolveLyapunov(const Eigen::MatrixXd& A,
+                                                  const Eigen::MatrixXd& Q) {
+  if (auto input = CheckLyapunovInput(A, Q, "Lyapunov equation"); !input) {
+    return Failure(input.error());
+  }
   const Eigen::Index n = A.rows();
-  SchurForm form;
-  if (!SchurOf(A, Q, &form, &result)) return result;
-  const Eigen::MatrixXcd& T = form.T;
-  const Eigen::MatrixXcd& U = form.U;
-  const Eigen::MatrixXcd& F = form.F;
+  const Result<SchurForm, SolveError> form = SchurOf(A, Q);
+  if (!form) return Failure(form.error());
+  const Eigen::MatrixXcd& T = form->T;
+  const Eigen::MatrixXcd& U = form->U;
+  const Eigen::MatrixXcd& F = form->F;
   const double scale = std::max(T.norm(), std::numeric_limits<double>::min());
 
   // Column j of T Y + Y Tᴴ = −F: (T + conj(t_jj) I) y_j = −f_j − Σ_{k>j} y_k conj(t_jk).
   Eigen::MatrixXcd Y = Eigen::MatrixXcd::Zero(n, n);
   for (Eigen::Index j = n - 1; j >= 0; --j) {
     for (Eigen::Index i = 0; i < n; ++i) {
-      if (Singular(T(i, i) + std::conj(T(j, j)), scale, T(i, i), T(j, j), "λ_i + conj(λ_j) = 0",
-                   &result)) {
-        return result;
+      if (auto pivot = CheckPivot(T(i, i) + std::conj(T(j, j)), scale, T(i, i), T(j, j),
+                                  "λ_i + conj(λ_j) = 0");
+          !pivot) {
+        return Failure(pivot.error());
       }
     }
     const Eigen::Index later = n - 1 - j;
@@ -115,15 +113,17 @@ LyapunovResult SolveLyapunov(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q)
   return Finish(U, Y, Q);
 }
 
-LyapunovResult SolveDiscreteLyapunov(const Eigen::MatrixXd& A, const Eigen::MatrixXd& Q) {
-  LyapunovResult result;
-  if (!PrepareLyapunov(A, Q, "discrete Lyapunov equation", &result)) return result;
+Result<Eigen::MatrixXd, SolveError> SolveDiscreteLyapunov(const Eigen::MatrixXd& A,
+                                                          const Eigen::MatrixXd& Q) {
+  if (auto input = CheckLyapunovInput(A, Q, "discrete Lyapunov equation"); !input) {
+    return Failure(input.error());
+  }
   const Eigen::Index n = A.rows();
-  SchurForm form;
-  if (!SchurOf(A, Q, &form, &result)) return result;
-  const Eigen::MatrixXcd& T = form.T;
-  const Eigen::MatrixXcd& U = form.U;
-  const Eigen::MatrixXcd& F = form.F;
+  const Result<SchurForm, SolveError> form = SchurOf(A, Q);
+  if (!form) return Failure(form.error());
+  const Eigen::MatrixXcd& T = form->T;
+  const Eigen::MatrixXcd& U = form->U;
+  const Eigen::MatrixXcd& F = form->F;
   const double scale = std::max(1.0, T.squaredNorm());
 
   // Column j of T Y Tᴴ − Y = −F. With p = Σ_{k>j} y_k conj(t_jk) (known columns), column j of
@@ -131,9 +131,10 @@ LyapunovResult SolveDiscreteLyapunov(const Eigen::MatrixXd& A, const Eigen::Matr
   Eigen::MatrixXcd Y = Eigen::MatrixXcd::Zero(n, n);
   for (Eigen::Index j = n - 1; j >= 0; --j) {
     for (Eigen::Index i = 0; i < n; ++i) {
-      if (Singular(T(i, i) * std::conj(T(j, j)) - 1.0, scale, T(i, i), T(j, j), "λ_i conj(λ_j) = 1",
-                   &result)) {
-        return result;
+      if (auto pivot = CheckPivot(T(i, i) * std::conj(T(j, j)) - 1.0, scale, T(i, i), T(j, j),
+                                  "λ_i conj(λ_j) = 1");
+          !pivot) {
+        return Failure(pivot.error());
       }
     }
     const Eigen::Index later = n - 1 - j;

@@ -10,8 +10,8 @@
 #include <utility>
 #include <vector>
 
-#include "analysis_frequency.hpp"
 #include "upright/base/number_text.hpp"
+#include "analysis_frequency.hpp"
 #include "upright/design/analysis.hpp"
 
 namespace upright::design {
@@ -208,41 +208,48 @@ void SetDisk(double alpha, LoopMargins* m) {
   m->disk_phase_deg = 2 * std::atan(alpha / 2) * kRadToDeg;
 }
 
-}  // namespace
+// A SISO loop as the margin phases read it: its states balanced, closed under unit negative
+// feedback (and stable), and the frequency scale of its open and closed poles.
+struct ClosedSisoLoop {
+  StateSpace l;
+  Eigen::MatrixXd closed;  // A − B C / (1 + D)
+  double scale = 0;        // a frequency scale for the imaginary-axis tests
+  // Crossovers at or below this frequency count as DC.
+  double dc_threshold() const { return 1e-10 * scale; }
+};
 
-LoopMargins SisoMargins(const StateSpace& loop) {
-  LoopMargins result;
-  StateSpace l = loop;
-  if (const std::string error = internal::CheckAndNormalise(&l); !error.empty()) {
-    result.message = "SisoMargins: " + error;
-    return result;
-  }
+// The loop checked (consistent sizes, one input and one output, 1 + D ≠ 0) and closed; a failure
+// when it is not, or when the closed loop is unstable.
+Result<ClosedSisoLoop> CloseSisoLoop(const StateSpace& loop) {
+  ClosedSisoLoop c;
+  c.l = loop;
+  StateSpace& l = c.l;
+  if (const Status valid = internal::CheckAndNormalise(&l); !valid) return Failure(valid.error());
   if (l.D.rows() != 1 || l.D.cols() != 1) {
-    result.message = "SisoMargins: the loop must have one input and one output, D is " +
-                     std::to_string(l.D.rows()) + "×" + std::to_string(l.D.cols());
-    return result;
+    return Failure("the loop must have one input and one output, D is " +
+                   std::to_string(l.D.rows()) + "×" + std::to_string(l.D.cols()));
   }
   internal::BalanceStates(&l);
-  const double d = l.D(0, 0);
   const std::optional<Eigen::MatrixXd> closed = ClosedLoop(l, 1.0);
-  if (!closed) {
-    result.message = "SisoMargins: 1 + D = 0, the feedback loop is not well posed";
-    return result;
-  }
+  if (!closed) return Failure("1 + D = 0, the feedback loop is not well posed");
   if (const std::optional<Complex> lambda = internal::UnstableEigenvalue(*closed)) {
-    result.message = "SisoMargins: the closed loop is unstable, it has the eigenvalue " +
-                     ComplexText(*lambda, 6);
-    return result;
+    return Failure("the closed loop is unstable, it has the eigenvalue " +
+                   ComplexText(*lambda, 6));
   }
+  c.closed = *closed;
   const Eigen::VectorXcd open_poles = internal::Eigenvalues(l.A).value_or(Eigen::VectorXcd());
   const Eigen::VectorXcd closed_poles = internal::Eigenvalues(*closed).value_or(Eigen::VectorXcd());
-  double scale = 0;  // a frequency scale for the imaginary-axis tests
-  if (open_poles.size() > 0) scale = std::max(scale, open_poles.cwiseAbs().maxCoeff());
-  if (closed_poles.size() > 0) scale = std::max(scale, closed_poles.cwiseAbs().maxCoeff());
-  const double dc_threshold = 1e-10 * scale;
+  if (open_poles.size() > 0) c.scale = std::max(c.scale, open_poles.cwiseAbs().maxCoeff());
+  if (closed_poles.size() > 0) c.scale = std::max(c.scale, closed_poles.cwiseAbs().maxCoeff());
+  return c;
+}
 
-  // Gain margins: critical gains from the phase crossovers, DC and infinity, then the first one
-  // in each direction past which the closed loop is actually unstable.
+// The gain factors at which the loop may gain a closed-loop pole on the imaginary axis: at DC, at
+// infinity (1 + k D = 0) and at each phase crossover (L(jω) real and negative), the crossovers
+// found as imaginary-axis zeros of L(s) − L(−s) and polished by Newton's method.
+Result<std::vector<CriticalGain>> CriticalGains(const ClosedSisoLoop& c) {
+  const StateSpace& l = c.l;
+  const double d = l.D(0, 0);
   std::vector<CriticalGain> critical;
   if (const std::optional<std::pair<Complex, Complex>> at_dc = internal::ResponseAndSlope(l, 0.0);
       at_dc && at_dc->first.real() < 0) {
@@ -250,14 +257,11 @@ LoopMargins SisoMargins(const StateSpace& loop) {
   }
   if (d < 0) critical.push_back({-1 / d, kInf});
   const std::optional<std::vector<double>> phase_candidates =
-      l.A.rows() > 0 ? ImaginaryAxisZeros(OddPart(l), scale) : std::vector<double>();
-  if (!phase_candidates) {
-    result.message = "SisoMargins: the phase crossover eigenvalue problem failed";
-    return result;
-  }
+      l.A.rows() > 0 ? ImaginaryAxisZeros(OddPart(l), c.scale) : std::vector<double>();
+  if (!phase_candidates) return Failure("the phase crossover eigenvalue problem failed");
   std::vector<double> phase_crossovers;
   for (double w : *phase_candidates) {
-    if (w <= dc_threshold) continue;
+    if (w <= c.dc_threshold()) continue;
     if (const std::optional<double> polished = Polish(l, w, ImaginaryPart)) {
       phase_crossovers.push_back(*polished);
     }
@@ -266,64 +270,99 @@ LoopMargins SisoMargins(const StateSpace& loop) {
     const Complex value = internal::ResponseAndSlope(l, w)->first;
     if (value.real() < 0) critical.push_back({-1 / value.real(), w});
   }
+  return critical;
+}
+
+// Gain margins: of the critical gains, the first one in each direction past which the closed
+// loop is actually unstable.
+Status AddGainMargins(const ClosedSisoLoop& c, LoopMargins* result) {
+  const Result<std::vector<CriticalGain>> critical = CriticalGains(c);
+  if (!critical) return Failure(critical.error());
   std::vector<CriticalGain> above, below;
-  for (const CriticalGain& c : critical) (c.k > 1 ? above : below).push_back(c);
+  for (const CriticalGain& g : *critical) (g.k > 1 ? above : below).push_back(g);
   std::sort(above.begin(), above.end(), [](auto a, auto b) { return a.k < b.k; });
   std::sort(below.begin(), below.end(), [](auto a, auto b) { return a.k > b.k; });
-  const std::optional<CriticalGain> high = FirstUnstable(l, above, 2.0);
-  const std::optional<CriticalGain> low = FirstUnstable(l, below, 0.5);
-  result.gain_high = high ? high->k : kInf;
-  result.gain_high_rad_s = high ? high->omega : kNaN;
-  result.gain_low = low ? low->k : 0.0;
-  result.gain_low_rad_s = low ? low->omega : kNaN;
+  const std::optional<CriticalGain> high = FirstUnstable(c.l, above, 2.0);
+  const std::optional<CriticalGain> low = FirstUnstable(c.l, below, 0.5);
+  result->gain_high = high ? high->k : kInf;
+  result->gain_high_rad_s = high ? high->omega : kNaN;
+  result->gain_low = low ? low->k : 0.0;
+  result->gain_low_rad_s = low ? low->omega : kNaN;
+  return {};
+}
 
-  // Phase and delay margins from the gain crossovers |L(jω)| = 1.
+// The gain crossovers |L(jω)| = 1, as imaginary-axis zeros of L(s) L(−s) − 1 polished by
+// Newton's method, those at or below the DC threshold at 0; sorted, without duplicates.
+Result<std::vector<double>> GainCrossovers(const ClosedSisoLoop& c) {
+  const StateSpace& l = c.l;
   const std::optional<std::vector<double>> gain_candidates =
-      l.A.rows() > 0 ? ImaginaryAxisZeros(UnitGainGap(l), scale) : std::vector<double>();
-  if (!gain_candidates) {
-    result.message = "SisoMargins: the gain crossover eigenvalue problem failed";
-    return result;
-  }
+      l.A.rows() > 0 ? ImaginaryAxisZeros(UnitGainGap(l), c.scale) : std::vector<double>();
+  if (!gain_candidates) return Failure("the gain crossover eigenvalue problem failed");
   std::vector<double> gain_crossovers;
   for (double w : *gain_candidates) {
     if (const std::optional<double> polished = Polish(l, w, SquaredGainGap)) {
-      gain_crossovers.push_back(*polished <= dc_threshold ? 0.0 : *polished);
+      gain_crossovers.push_back(*polished <= c.dc_threshold() ? 0.0 : *polished);
     }
   }
-  result.phase_deg = kInf;
-  result.phase_rad_s = kNaN;
-  result.delay_s = kInf;
-  result.delay_rad_s = kNaN;
-  for (double w : Unique(gain_crossovers)) {
-    const double phase = std::arg(internal::ResponseAndSlope(l, w)->first);  // (−π, π]
+  return Unique(gain_crossovers);
+}
+
+// Phase and delay margins from the gain crossovers.
+Status AddPhaseAndDelayMargins(const ClosedSisoLoop& c, LoopMargins* result) {
+  const Result<std::vector<double>> crossovers = GainCrossovers(c);
+  if (!crossovers) return Failure(crossovers.error());
+  result->phase_deg = kInf;
+  result->phase_rad_s = kNaN;
+  result->delay_s = kInf;
+  result->delay_rad_s = kNaN;
+  for (double w : *crossovers) {
+    const double phase = std::arg(internal::ResponseAndSlope(c.l, w)->first);  // (−π, π]
     const double margin_deg = 180 - std::abs(phase) * kRadToDeg;
-    if (margin_deg < result.phase_deg) {
-      result.phase_deg = margin_deg;
-      result.phase_rad_s = w;
+    if (margin_deg < result->phase_deg) {
+      result->phase_deg = margin_deg;
+      result->phase_rad_s = w;
     }
     // A delay τ lags the phase by ωτ: it reaches −π after (φ + π) / ω. A delay does nothing at DC.
     if (w > 0) {
       const double delay = (phase + std::numbers::pi) / w;
-      if (delay < result.delay_s) {
-        result.delay_s = delay;
-        result.delay_rad_s = w;
+      if (delay < result->delay_s) {
+        result->delay_s = delay;
+        result->delay_rad_s = w;
       }
     }
   }
+  return {};
+}
 
-  // Disk margin (σ = 0): α = 1 / ‖S − ½‖∞, S − ½ = (1 − L) / (2 (1 + L)), realised as
-  // (A − B C/(1 + D), B/(1 + D), −C/(1 + D), 1/(1 + D) − ½).
-  const StateSpace s_half{*closed, l.B / (1 + d), -l.C / (1 + d),
+// Disk margin (σ = 0): α = 1 / ‖S − ½‖∞, S − ½ = (1 − L) / (2 (1 + L)), realised as
+// (A − B C/(1 + D), B/(1 + D), −C/(1 + D), 1/(1 + D) − ½).
+Status AddDiskMargin(const ClosedSisoLoop& c, LoopMargins* result) {
+  const StateSpace& l = c.l;
+  const double d = l.D(0, 0);
+  const StateSpace s_half{c.closed, l.B / (1 + d), -l.C / (1 + d),
                           Eigen::MatrixXd::Constant(1, 1, 1 / (1 + d) - 0.5)};
-  const NormResult disk = HinfNorm(s_half);
-  if (!disk.ok) {
-    result.message = "SisoMargins: disk margin: " + disk.message;
-    return result;
+  const AnalysisResult<NormPeak> disk = HinfNorm(s_half);
+  if (!disk) return Failure("disk margin: " + disk.error().message);
+  SetDisk(disk->norm > 0 ? 1 / disk->norm : kInf, result);
+  result->disk_rad_s = disk->peak_rad_s;
+  return {};
+}
+
+}  // namespace
+
+AnalysisResult<LoopMargins> SisoMargins(const StateSpace& loop) {
+  LoopMargins result;
+  // A failure keeping the margins found so far.
+  const auto stopped = [&result](const std::string& why) {
+    return Failure(AnalysisFailure<LoopMargins>{"SisoMargins: " + why, result});
+  };
+  const Result<ClosedSisoLoop> closed = CloseSisoLoop(loop);
+  if (!closed) return stopped(closed.error());
+  if (const Status gain = AddGainMargins(*closed, &result); !gain) return stopped(gain.error());
+  if (const Status phase = AddPhaseAndDelayMargins(*closed, &result); !phase) {
+    return stopped(phase.error());
   }
-  SetDisk(disk.norm > 0 ? 1 / disk.norm : kInf, &result);
-  result.disk_rad_s = disk.peak_rad_s;
-  result.ok = true;
-  result.message = "ok";
+  if (const Status disk = AddDiskMargin(*closed, &result); !disk) return stopped(disk.error());
   return result;
 }
 
@@ -335,42 +374,43 @@ StateSpace InputSensitivity(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
           Eigen::MatrixXd::Identity(K.rows(), K.rows())};
 }
 
-LoopMargins InputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                         const Eigen::MatrixXd& K, int channel) {
-  LoopMargins result;
+AnalysisResult<LoopMargins> InputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                         const Eigen::MatrixXd& K, int channel) {
+  const auto stopped = [](std::string why) {
+    return Failure(AnalysisFailure<LoopMargins>{std::move(why), LoopMargins{}});
+  };
   const Eigen::Index n = A.rows();
   const Eigen::Index m = B.cols();
   if (A.cols() != n || B.rows() != n || K.rows() != m || K.cols() != n) {
-    result.message = "InputMargins: sizes disagree: A " + std::to_string(A.rows()) + "×" +
-                     std::to_string(A.cols()) + ", B " + std::to_string(B.rows()) + "×" +
-                     std::to_string(B.cols()) + ", K " + std::to_string(K.rows()) + "×" +
-                     std::to_string(K.cols()) + " (need n×n, n×m, m×n)";
-    return result;
+    return stopped("InputMargins: sizes disagree: A " + std::to_string(A.rows()) + "×" +
+                   std::to_string(A.cols()) + ", B " + std::to_string(B.rows()) + "×" +
+                   std::to_string(B.cols()) + ", K " + std::to_string(K.rows()) + "×" +
+                   std::to_string(K.cols()) + " (need n×n, n×m, m×n)");
   }
   if (channel < 0 || channel >= m) {
-    result.message = "InputMargins: channel = " + std::to_string(channel) + ", must be in [0, " +
-                     std::to_string(m) + ")";
-    return result;
+    return stopped("InputMargins: channel = " + std::to_string(channel) + ", must be in [0, " +
+                   std::to_string(m) + ")");
   }
   // L_j(s) = K_j (sI − A + Σ_{i≠j} b_i K_i)⁻¹ b_j.
   const Eigen::MatrixXd b_j = B.col(channel);
   const Eigen::MatrixXd k_j = K.row(channel);
-  result = SisoMargins({A - B * K + b_j * k_j, b_j, k_j, Eigen::MatrixXd::Zero(1, 1)});
-  if (!result.ok) {
-    result.message = "input channel " + std::to_string(channel) + ": " + result.message;
+  AnalysisResult<LoopMargins> result =
+      SisoMargins({A - B * K + b_j * k_j, b_j, k_j, Eigen::MatrixXd::Zero(1, 1)});
+  if (!result) {
+    result.error().message =
+        "input channel " + std::to_string(channel) + ": " + result.error().message;
   }
   return result;
 }
 
-LoopMargins WorstOf(const std::vector<LoopMargins>& channels) {
-  LoopMargins worst;
+AnalysisResult<LoopMargins> WorstOf(const std::vector<AnalysisResult<LoopMargins>>& channels) {
   if (channels.empty()) {
-    worst.message = "no input channels";
-    return worst;
+    return Failure(AnalysisFailure<LoopMargins>{"no input channels", LoopMargins{}});
   }
+  LoopMargins worst;
   for (size_t j = 0; j < channels.size(); ++j) {
-    const LoopMargins& c = channels[j];
-    if (!c.ok) return c;
+    if (!channels[j]) return channels[j];
+    const LoopMargins& c = *channels[j];
     if (j == 0) {
       worst = c;
       continue;
@@ -396,18 +436,17 @@ LoopMargins WorstOf(const std::vector<LoopMargins>& channels) {
       worst.disk_rad_s = c.disk_rad_s;
     }
   }
-  worst.message = "worst over " + std::to_string(channels.size()) + " input channels";
   return worst;
 }
 
-LoopMargins WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                              const Eigen::MatrixXd& K) {
-  std::vector<LoopMargins> channels;
+AnalysisResult<LoopMargins> WorstInputMargins(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                              const Eigen::MatrixXd& K) {
+  std::vector<AnalysisResult<LoopMargins>> channels;
   for (Eigen::Index j = 0; j < B.cols(); ++j) {
     channels.push_back(InputMargins(A, B, K, static_cast<int>(j)));
   }
-  LoopMargins worst = WorstOf(channels);
-  if (B.cols() == 0) worst.message = "WorstInputMargins: B has no columns";
+  AnalysisResult<LoopMargins> worst = WorstOf(channels);
+  if (B.cols() == 0) worst.error().message = "WorstInputMargins: B has no columns";
   return worst;
 }
 

@@ -7,9 +7,9 @@
 #include <limits>
 #include <string>
 
+#include "upright/base/number_text.hpp"
 #include "riccati_common.hpp"
 #include "schur_reorder.hpp"
-#include "upright/base/number_text.hpp"
 #include "upright/design/riccati.hpp"
 
 namespace upright::design {
@@ -50,34 +50,32 @@ ScaledHamiltonian BuildHamiltonian(const RiccatiProblem& problem) {
   return result;
 }
 
-// True, with a message, when an eigenvalue of the Hamiltonian lies within kBoundaryTolerance·‖H‖_F
-// of the imaginary axis: then no stabilising solution exists.
-bool OnImaginaryAxis(const Eigen::VectorXcd& eigenvalues, double h_norm, std::string* message) {
+// kNoStabilisingSolution when an eigenvalue of the Hamiltonian lies within
+// kBoundaryTolerance·‖H‖_F of the imaginary axis: then no stabilising solution exists.
+Result<void, SolveError> CheckOffImaginaryAxis(const Eigen::VectorXcd& eigenvalues, double h_norm) {
   Eigen::Index index = 0;
   const double closest = eigenvalues.real().cwiseAbs().minCoeff(&index);
-  if (closest > internal::kBoundaryTolerance * h_norm) return false;
-  *message = "Hamiltonian eigenvalue " + ComplexText(eigenvalues(index), 6) +
-             " lies on the imaginary axis (|Re λ| ≤ " +
-             SignificantText(internal::kBoundaryTolerance, 6) +
-             "·‖H‖_F = " + SignificantText(internal::kBoundaryTolerance * h_norm, 6) +
-             "): no stabilising solution";
-  return true;
+  if (closest > internal::kBoundaryTolerance * h_norm) return {};
+  return internal::Fail(SolveFailure::kNoStabilisingSolution,
+                        "Hamiltonian eigenvalue " + ComplexText(eigenvalues(index), 6) +
+                            " lies on the imaginary axis (|Re λ| ≤ " +
+                            SignificantText(internal::kBoundaryTolerance, 6) +
+                            "·‖H‖_F = " + SignificantText(internal::kBoundaryTolerance * h_norm, 6) +
+                            "): no stabilising solution");
 }
 
 // Checks every CARE solver runs before it starts: valid input and a stabilisable pair.
-bool PrepareCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, const Eigen::MatrixXd& Q,
-                 const Eigen::MatrixXd& R, const Eigen::MatrixXd& S, RiccatiProblem* problem,
-                 RiccatiResult* result) {
-  std::string message;
-  if (!internal::PrepareRiccatiProblem(A, B, Q, R, S, "CARE", problem, &message)) {
-    *result = internal::Fail(*result, SolveFailure::kInvalidInput, message);
-    return false;
+Result<RiccatiProblem, SolveError> PrepareCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                               const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
+                                               const Eigen::MatrixXd& S) {
+  Result<RiccatiProblem, SolveError> problem =
+      internal::PrepareRiccatiProblem(A, B, Q, R, S, "CARE");
+  if (!problem) return problem;
+  if (auto stabilisable = internal::CheckStabilisable(problem->A, problem->B, false);
+      !stabilisable) {
+    return Failure(stabilisable.error());
   }
-  if (internal::FindUnstabilisableMode(problem->A, problem->B, false, &message)) {
-    *result = internal::Fail(*result, SolveFailure::kNotStabilisable, message);
-    return false;
-  }
-  return true;
+  return problem;
 }
 
 // Newton–Kleinman: with A_c = A − B K(X), the correction Δ solves A_cᵀΔ + ΔA_c + res(X) = 0.
@@ -87,9 +85,10 @@ Eigen::MatrixXd RefineCare(const RiccatiProblem& problem, Eigen::MatrixXd X) {
   double relative = internal::CareResidual(problem, X, &residual);
   for (int step = 0; step < kRefinementSteps; ++step) {
     const Eigen::MatrixXd closed_loop = problem.A - problem.B * internal::CareGain(problem, X);
-    const LyapunovResult correction = SolveLyapunov(closed_loop.transpose(), residual);
-    if (!correction.ok()) break;
-    Eigen::MatrixXd candidate = X + correction.X;
+    const Result<Eigen::MatrixXd, SolveError> correction =
+        SolveLyapunov(closed_loop.transpose(), residual);
+    if (!correction) break;
+    Eigen::MatrixXd candidate = X + *correction;
     candidate = 0.5 * (candidate + candidate.transpose()).eval();
     Eigen::MatrixXd candidate_residual;
     const double candidate_relative =
@@ -106,41 +105,40 @@ Eigen::MatrixXd RefineCare(const RiccatiProblem& problem, Eigen::MatrixXd X) {
 // Hurwitz closed loop, and X ≥ 0 when required.
 enum class Refinement { kNone, kNewton };
 
-RiccatiResult ValidateCare(const RiccatiProblem& problem, Eigen::MatrixXd X, Refinement refinement,
-                           const RiccatiOptions& options, RiccatiResult result) {
+Result<RiccatiSolution, SolveError> ValidateCare(const RiccatiProblem& problem, Eigen::MatrixXd X,
+                                                 Refinement refinement,
+                                                 const RiccatiOptions& options) {
   const double asymmetry = (X - X.transpose()).norm();
   if (!(asymmetry <= kAsymmetryTolerance * X.norm())) {
-    return internal::Fail(
-        result, SolveFailure::kIllConditioned,
-        "the candidate X is not symmetric (‖X − Xᵀ‖_F = " + SignificantText(asymmetry, 6) +
-            ", ‖X‖_F = " + SignificantText(X.norm(), 6) +
-            "): the stable subspace was not computed reliably");
+    return internal::Fail(SolveFailure::kIllConditioned,
+                          "the candidate X is not symmetric (‖X − Xᵀ‖_F = " +
+                              SignificantText(asymmetry, 6) + ", ‖X‖_F = " + SignificantText(X.norm(), 6) +
+                              "): the stable subspace was not computed reliably");
   }
   X = 0.5 * (X + X.transpose()).eval();
   if (refinement == Refinement::kNewton) X = RefineCare(problem, X);
-  result.X = X;
+  RiccatiSolution solution;
+  solution.X = X;
   Eigen::MatrixXd residual;
-  result.relative_residual = internal::CareResidual(problem, X, &residual);
-  if (!(result.relative_residual <= options.residual_tolerance)) {
-    return internal::Fail(result, SolveFailure::kResidualTooLarge,
-                          "relative residual " + SignificantText(result.relative_residual, 6) +
-                              " exceeds the tolerance " +
-                              SignificantText(options.residual_tolerance, 6));
+  solution.relative_residual = internal::CareResidual(problem, X, &residual);
+  if (!(solution.relative_residual <= options.residual_tolerance)) {
+    return internal::Fail(SolveFailure::kResidualTooLarge,
+                          "relative residual " + SignificantText(solution.relative_residual, 6) +
+                              " exceeds the tolerance " + SignificantText(options.residual_tolerance, 6));
   }
   const Eigen::MatrixXd closed_loop = problem.A - problem.B * internal::CareGain(problem, X);
   const std::complex<double> rightmost = internal::RightmostEigenvalue(closed_loop);
   if (!(rightmost.real() < 0)) {
-    return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
+    return internal::Fail(SolveFailure::kNoStabilisingSolution,
                           "closed loop A − BK has the eigenvalue " + ComplexText(rightmost, 6) +
                               ", not in the open left half-plane: X is not stabilising");
   }
-  std::string message;
-  if (options.require_psd && internal::IsClearlyIndefinite(X, &message)) {
-    return internal::Fail(result, SolveFailure::kNotPositiveSemidefinite, message);
+  if (options.require_psd) {
+    if (auto semidefinite = internal::CheckSemidefinite(X); !semidefinite) {
+      return Failure(semidefinite.error());
+    }
   }
-  result.failure = SolveFailure::kNone;
-  result.message = "ok";
-  return result;
+  return solution;
 }
 
 // σ_min/σ_max of a (non-empty) basis matrix; 0 when the matrix vanishes.
@@ -151,30 +149,30 @@ double ReciprocalCondition(const Eigen::MatrixXcd& matrix) {
 
 }  // namespace
 
-RiccatiResult SolveCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                        const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
-                        const Eigen::MatrixXd& S, const RiccatiOptions& options) {
-  RiccatiResult result;
-  RiccatiProblem problem;
-  if (!PrepareCare(A, B, Q, R, S, &problem, &result)) return result;
+Result<RiccatiSolution, SolveError> SolveCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                              const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
+                                              const Eigen::MatrixXd& S,
+                                              const RiccatiOptions& options) {
+  const Result<RiccatiProblem, SolveError> prepared = PrepareCare(A, B, Q, R, S);
+  if (!prepared) return Failure(prepared.error());
+  const RiccatiProblem& problem = *prepared;
   const Eigen::Index n = problem.A.rows();
 
   const ScaledHamiltonian hamiltonian = BuildHamiltonian(problem);
   Eigen::ComplexSchur<Eigen::MatrixXcd> schur(hamiltonian.H.cast<std::complex<double>>());
   if (schur.info() != Eigen::Success) {
-    return internal::Fail(result, SolveFailure::kIllConditioned,
+    return internal::Fail(SolveFailure::kIllConditioned,
                           "the Schur decomposition of the Hamiltonian did not converge");
   }
   Eigen::MatrixXcd T = schur.matrixT();
   Eigen::MatrixXcd U = schur.matrixU();
-  std::string message;
-  if (OnImaginaryAxis(T.diagonal(), hamiltonian.H.norm(), &message)) {
-    return internal::Fail(result, SolveFailure::kNoStabilisingSolution, message);
+  if (auto off_axis = CheckOffImaginaryAxis(T.diagonal(), hamiltonian.H.norm()); !off_axis) {
+    return Failure(off_axis.error());
   }
   const Eigen::Index stable =
       internal::ReorderSchur(&T, &U, [](std::complex<double> z) { return z.real() < 0; });
   if (stable != n) {
-    return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
+    return internal::Fail(SolveFailure::kNoStabilisingSolution,
                           "the Hamiltonian has " + std::to_string(stable) +
                               " eigenvalues in the open left half-plane, expected " +
                               std::to_string(n));
@@ -185,28 +183,28 @@ RiccatiResult SolveCare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   const Eigen::MatrixXcd u21 = U.bottomLeftCorner(n, n);
   const double rcond = ReciprocalCondition(u11);
   if (!(rcond > internal::kRcondTolerance)) {
-    return internal::Fail(result, SolveFailure::kIllConditioned,
+    return internal::Fail(SolveFailure::kIllConditioned,
                           "the stable-subspace basis U11 has rcond " + SignificantText(rcond, 6) +
                               ", singular to working precision: X would be unbounded");
   }
   const Eigen::MatrixXcd y_transpose = u11.transpose().partialPivLu().solve(u21.transpose());
   const Eigen::MatrixXd X = hamiltonian.alpha * y_transpose.transpose().real();
-  return ValidateCare(problem, X, Refinement::kNewton, options, result);
+  return ValidateCare(problem, X, Refinement::kNewton, options);
 }
 
-RiccatiResult SolveCareBySign(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                              const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
-                              const Eigen::MatrixXd& S, const RiccatiOptions& options) {
-  RiccatiResult result;
-  RiccatiProblem problem;
-  if (!PrepareCare(A, B, Q, R, S, &problem, &result)) return result;
+Result<RiccatiSolution, SolveError> SolveCareBySign(
+    const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, const Eigen::MatrixXd& Q,
+    const Eigen::MatrixXd& R, const Eigen::MatrixXd& S, const RiccatiOptions& options) {
+  const Result<RiccatiProblem, SolveError> prepared = PrepareCare(A, B, Q, R, S);
+  if (!prepared) return Failure(prepared.error());
+  const RiccatiProblem& problem = *prepared;
   const Eigen::Index n = problem.A.rows();
   const Eigen::Index size = 2 * n;
 
   const ScaledHamiltonian hamiltonian = BuildHamiltonian(problem);
-  std::string message;
-  if (OnImaginaryAxis(hamiltonian.H.eigenvalues(), hamiltonian.H.norm(), &message)) {
-    return internal::Fail(result, SolveFailure::kNoStabilisingSolution, message);
+  if (auto off_axis = CheckOffImaginaryAxis(hamiltonian.H.eigenvalues(), hamiltonian.H.norm());
+      !off_axis) {
+    return Failure(off_axis.error());
   }
 
   // Z ← ½(cZ + (cZ)⁻¹) with c = |det Z|^(−1/2n) until the step stops changing Z.
@@ -222,9 +220,9 @@ RiccatiResult SolveCareBySign(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B
       c = std::exp(-log_det / static_cast<double>(size));
     }
     if (!std::isfinite(c) || !(lu.rcond() > kEpsilon)) {
-      return internal::Fail(result, SolveFailure::kIllConditioned,
-                            "the sign iteration met a singular iterate (rcond " +
-                                SignificantText(lu.rcond(), 6) + ")");
+      return internal::Fail(
+          SolveFailure::kIllConditioned,
+          "the sign iteration met a singular iterate (rcond " + SignificantText(lu.rcond(), 6) + ")");
     }
     const Eigen::MatrixXd next = 0.5 * (c * Z + lu.inverse() / c);
     const double change = (next - Z).lpNorm<1>() / next.lpNorm<1>();
@@ -235,7 +233,7 @@ RiccatiResult SolveCareBySign(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B
   }
   if (!converged) {
     return internal::Fail(
-        result, SolveFailure::kIllConditioned,
+        SolveFailure::kIllConditioned,
         "the sign iteration did not converge in " + std::to_string(kSignMaxIterations) + " steps");
   }
 
@@ -245,12 +243,12 @@ RiccatiResult SolveCareBySign(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B
   rhs << Z.topLeftCorner(n, n) + Eigen::MatrixXd::Identity(n, n), Z.bottomLeftCorner(n, n);
   const double rcond = ReciprocalCondition(lhs.cast<std::complex<double>>());
   if (!(rcond > internal::kRcondTolerance)) {
-    return internal::Fail(result, SolveFailure::kIllConditioned,
+    return internal::Fail(SolveFailure::kIllConditioned,
                           "[W12; W22 + I] from the sign function is rank deficient (rcond " +
                               SignificantText(rcond, 6) + "): X would be unbounded");
   }
   const Eigen::MatrixXd X = hamiltonian.alpha * lhs.colPivHouseholderQr().solve(-rhs);
-  return ValidateCare(problem, X, Refinement::kNone, options, result);
+  return ValidateCare(problem, X, Refinement::kNone, options);
 }
 
 }  // namespace upright::design

@@ -10,8 +10,6 @@ namespace upright::design {
 
 const char* ToString(SolveFailure failure) {
   switch (failure) {
-    case SolveFailure::kNone:
-      return "none";
     case SolveFailure::kInvalidInput:
       return "invalid_input";
     case SolveFailure::kNotStabilisable:
@@ -39,62 +37,62 @@ std::string SizeText(const Eigen::MatrixXd& matrix) {
   return std::to_string(matrix.rows()) + "x" + std::to_string(matrix.cols());
 }
 
-bool CheckSize(const Eigen::MatrixXd& matrix, const char* name, Eigen::Index rows,
-               Eigen::Index cols, const char* equation, std::string* message) {
-  if (matrix.rows() == rows && matrix.cols() == cols) return true;
-  *message = std::string(equation) + ": " + name + " is " + SizeText(matrix) + ", expected " +
-             std::to_string(rows) + "x" + std::to_string(cols);
-  return false;
+// Each check below: the problem with one input matrix, naming it, or success.
+Status CheckSize(const Eigen::MatrixXd& matrix, const char* name, Eigen::Index rows,
+                 Eigen::Index cols) {
+  if (matrix.rows() == rows && matrix.cols() == cols) return {};
+  return Failure(std::string(name) + " is " + SizeText(matrix) + ", expected " +
+                 std::to_string(rows) + "x" + std::to_string(cols));
 }
 
-bool CheckFinite(const Eigen::MatrixXd& matrix, const char* name, const char* equation,
-                 std::string* message) {
-  if (matrix.allFinite()) return true;
-  *message = std::string(equation) + ": " + name + " has a non-finite entry";
-  return false;
+Status CheckFinite(const Eigen::MatrixXd& matrix, const char* name) {
+  if (matrix.allFinite()) return {};
+  return Failure(std::string(name) + " has a non-finite entry");
 }
 
-bool CheckSymmetric(const Eigen::MatrixXd& matrix, const char* name, const char* equation,
-                    std::string* message) {
+Status CheckSymmetric(const Eigen::MatrixXd& matrix, const char* name) {
   const double asymmetry = (matrix - matrix.transpose()).norm();
-  if (asymmetry <= kSymmetryTolerance * matrix.norm()) return true;
-  *message = std::string(equation) + ": " + name + " is not symmetric: ‖" + name + " − " + name +
-             "ᵀ‖_F = " + SignificantText(asymmetry, 6) + " > " +
-             SignificantText(kSymmetryTolerance, 6) + "·‖" + name +
-             "‖_F = " + SignificantText(kSymmetryTolerance * matrix.norm(), 6);
-  return false;
+  if (asymmetry <= kSymmetryTolerance * matrix.norm()) return {};
+  return Failure(std::string(name) + " is not symmetric: ‖" + name + " − " + name +
+                 "ᵀ‖_F = " + SignificantText(asymmetry, 6) + " > " + SignificantText(kSymmetryTolerance, 6) +
+                 "·‖" + name + "‖_F = " + SignificantText(kSymmetryTolerance * matrix.norm(), 6));
+}
+
+// The input's first problem, in the order sizes, finiteness, symmetry.
+Status CheckInput(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, const Eigen::MatrixXd& Q,
+                  const Eigen::MatrixXd& R, const Eigen::MatrixXd& S) {
+  const Eigen::Index n = A.rows();
+  const Eigen::Index m = B.cols();
+  for (const Status& check :
+       {CheckSize(B, "B", n, m), CheckSize(Q, "Q", n, n), CheckSize(R, "R", m, m),
+        S.size() != 0 ? CheckSize(S, "S", n, m) : Status()}) {
+    if (!check) return check;
+  }
+  for (const Status& check :
+       {CheckFinite(A, "A"), CheckFinite(B, "B"), CheckFinite(Q, "Q"), CheckFinite(R, "R"),
+        CheckFinite(S, "S"), CheckSymmetric(Q, "Q"), CheckSymmetric(R, "R")}) {
+    if (!check) return check;
+  }
+  return {};
 }
 
 }  // namespace
 
-bool PrepareRiccatiProblem(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                           const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
-                           const Eigen::MatrixXd& S, const char* equation, RiccatiProblem* problem,
-                           std::string* message) {
+Result<RiccatiProblem, SolveError> PrepareRiccatiProblem(
+    const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, const Eigen::MatrixXd& Q,
+    const Eigen::MatrixXd& R, const Eigen::MatrixXd& S, const char* equation) {
   const Eigen::Index n = A.rows();
   const Eigen::Index m = B.cols();
-  if (n == 0 || A.cols() != n) {
-    *message = std::string(equation) + ": A is " + SizeText(A) + ", expected a non-empty square";
-    return false;
-  }
-  if (m == 0) {
-    *message = std::string(equation) + ": B has no columns (pass a zero column for no input)";
-    return false;
-  }
-  if (!CheckSize(B, "B", n, m, equation, message) || !CheckSize(Q, "Q", n, n, equation, message) ||
-      !CheckSize(R, "R", m, m, equation, message)) {
-    return false;
-  }
-  if (S.size() != 0 && !CheckSize(S, "S", n, m, equation, message)) return false;
-  if (!CheckFinite(A, "A", equation, message) || !CheckFinite(B, "B", equation, message) ||
-      !CheckFinite(Q, "Q", equation, message) || !CheckFinite(R, "R", equation, message) ||
-      !CheckFinite(S, "S", equation, message)) {
-    return false;
-  }
-  if (!CheckSymmetric(Q, "Q", equation, message) || !CheckSymmetric(R, "R", equation, message)) {
-    return false;
-  }
+  const auto invalid = [equation](const std::string& why) {
+    return Fail(SolveFailure::kInvalidInput, std::string(equation) + ": " + why);
+  };
+  if (n == 0 || A.cols() != n)
+    return invalid("A is " + SizeText(A) + ", expected a non-empty square");
+  if (m == 0) return invalid("B has no columns (pass a zero column for no input)");
+  if (Status input = CheckInput(A, B, Q, R, S); !input) return invalid(input.error());
 
+  RiccatiProblem result;
+  RiccatiProblem* problem = &result;
   problem->A = A;
   problem->B = B;
   problem->Q = 0.5 * (Q + Q.transpose());
@@ -107,9 +105,8 @@ bool PrepareRiccatiProblem(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   const double r_largest = r_eigenvalues.cwiseAbs().maxCoeff();
   const double r_smallest = r_eigenvalues.cwiseAbs().minCoeff();
   if (!(r_smallest > kRcondTolerance * r_largest)) {
-    *message = std::string(equation) + ": R is singular or nearly so (eigenvalue moduli from " +
-               SignificantText(r_smallest, 6) + " to " + SignificantText(r_largest, 6) + ")";
-    return false;
+    return invalid("R is singular or nearly so (eigenvalue moduli from " +
+                   SignificantText(r_smallest, 6) + " to " + SignificantText(r_largest, 6) + ")");
   }
   problem->R_lu.compute(problem->R);
   const Eigen::MatrixXd r_inv_st = problem->R_lu.solve(problem->S.transpose());
@@ -119,11 +116,11 @@ bool PrepareRiccatiProblem(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   problem->G = 0.5 * (problem->G + problem->G.transpose()).eval();
   problem->Q_bar = problem->Q - problem->S * r_inv_st;
   problem->Q_bar = 0.5 * (problem->Q_bar + problem->Q_bar.transpose()).eval();
-  return true;
+  return result;
 }
 
-bool FindUnstabilisableMode(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, bool discrete,
-                            std::string* message) {
+Result<void, SolveError> CheckStabilisable(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                           bool discrete) {
   const Eigen::Index n = A.rows();
   const Eigen::Index m = B.cols();
   const double scale = std::max(1.0, A.norm());
@@ -139,15 +136,16 @@ bool FindUnstabilisableMode(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, 
     pbh.rightCols(m) = B.cast<std::complex<double>>();
     const double sigma_min = Eigen::JacobiSVD<Eigen::MatrixXcd>(pbh).singularValues()(n - 1);
     if (sigma_min <= 1e-10 * rank_scale) {
-      *message = std::string("(A, B) is not stabilisable: the mode λ = ") + ComplexText(lambda, 6) +
-                 " of A is " +
-                 (discrete ? "not inside the unit circle" : "not in the open left half-plane") +
-                 " and cannot be moved by B (PBH: smallest singular value of [A − λI, B] is " +
-                 SignificantText(sigma_min, 6) + ")";
-      return true;
+      return Fail(
+          SolveFailure::kNotStabilisable,
+          std::string("(A, B) is not stabilisable: the mode λ = ") + ComplexText(lambda, 6) +
+              " of A is " +
+              (discrete ? "not inside the unit circle" : "not in the open left half-plane") +
+              " and cannot be moved by B (PBH: smallest singular value of [A − λI, B] is " +
+              SignificantText(sigma_min, 6) + ")");
     }
   }
-  return false;
+  return {};
 }
 
 double CareResidual(const RiccatiProblem& problem, const Eigen::MatrixXd& X,
@@ -186,22 +184,20 @@ Eigen::MatrixXd DareGain(const RiccatiProblem& problem, const Eigen::MatrixXd& X
   return middle.fullPivLu().solve(problem.B.transpose() * X * problem.A + problem.S.transpose());
 }
 
-RiccatiResult Fail(RiccatiResult result, SolveFailure failure, std::string message) {
-  result.failure = failure;
-  result.message = std::move(message);
-  return result;
+tl::unexpected<SolveError> Fail(SolveFailure reason, std::string message) {
+  return Failure(SolveError{reason, std::move(message)});
 }
 
-bool IsClearlyIndefinite(const Eigen::MatrixXd& X, std::string* message) {
+Result<void, SolveError> CheckSemidefinite(const Eigen::MatrixXd& X) {
   const Eigen::VectorXd eigenvalues =
       Eigen::SelfAdjointEigenSolver<Eigen::MatrixXd>(X, Eigen::EigenvaluesOnly).eigenvalues();
   const double largest = eigenvalues.cwiseAbs().maxCoeff();
   const double smallest = eigenvalues.minCoeff();
-  if (smallest >= -kPsdTolerance * largest) return false;
-  *message = "X is not positive semidefinite: smallest eigenvalue " + SignificantText(smallest, 6) +
-             " < −" + SignificantText(kPsdTolerance, 6) +
-             "·‖X‖₂ = " + SignificantText(-kPsdTolerance * largest, 6);
-  return true;
+  if (smallest >= -kPsdTolerance * largest) return {};
+  return Fail(SolveFailure::kNotPositiveSemidefinite,
+              "X is not positive semidefinite: smallest eigenvalue " + SignificantText(smallest, 6) +
+                  " < −" + SignificantText(kPsdTolerance, 6) +
+                  "·‖X‖₂ = " + SignificantText(-kPsdTolerance * largest, 6));
 }
 
 std::complex<double> RightmostEigenvalue(const Eigen::MatrixXd& matrix) {

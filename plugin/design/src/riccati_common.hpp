@@ -28,18 +28,17 @@ struct RiccatiProblem {
   Eigen::PartialPivLU<Eigen::MatrixXd> R_lu;  // R may be indefinite (H-infinity form)
 };
 
-// Checks sizes, finiteness, the symmetry of Q and R and the invertibility of R, then fills
-// *problem. `equation` ("CARE", "DARE") starts the message.
-bool PrepareRiccatiProblem(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                           const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
-                           const Eigen::MatrixXd& S, const char* equation, RiccatiProblem* problem,
-                           std::string* message);
+// Checks sizes, finiteness, the symmetry of Q and R and the invertibility of R, then builds the
+// problem; kInvalidInput with a message starting with `equation` ("CARE", "DARE") otherwise.
+Result<RiccatiProblem, SolveError> PrepareRiccatiProblem(
+    const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, const Eigen::MatrixXd& Q,
+    const Eigen::MatrixXd& R, const Eigen::MatrixXd& S, const char* equation);
 
 // PBH test on every eigenvalue of A outside the open stability region (Re λ < 0 when continuous,
-// |λ| < 1 when discrete, both with kBoundaryTolerance): true with a message naming the mode when
-// rank [A − λI, B] < n for one of them.
-bool FindUnstabilisableMode(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B, bool discrete,
-                            std::string* message);
+// |λ| < 1 when discrete, both with kBoundaryTolerance): kNotStabilisable with a message naming
+// the mode when rank [A − λI, B] < n for one of them.
+Result<void, SolveError> CheckStabilisable(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                           bool discrete);
 
 // Residual of the continuous equation AᵀX + XA − (XB + S) R⁻¹ (XB + S)ᵀ + Q and its size relative
 // to the terms: ‖res‖_F / (‖Q‖_F + ‖AᵀX‖_F + ‖XA‖_F + ‖(XB + S) R⁻¹ (XB + S)ᵀ‖_F).
@@ -56,11 +55,12 @@ double DareResidual(const RiccatiProblem& problem, const Eigen::MatrixXd& X,
 Eigen::MatrixXd CareGain(const RiccatiProblem& problem, const Eigen::MatrixXd& X);
 Eigen::MatrixXd DareGain(const RiccatiProblem& problem, const Eigen::MatrixXd& X);
 
-// Fills *result as a failure (keeping the relative residual already set) and returns it.
-RiccatiResult Fail(RiccatiResult result, SolveFailure failure, std::string message);
+// The failing side of a solver: `return Fail(SolveFailure::kIllConditioned, "...")`.
+tl::unexpected<SolveError> Fail(SolveFailure reason, std::string message);
 
-// True when λ_min(X) < −kPsdTolerance·‖X‖₂, with a message giving both numbers.
-bool IsClearlyIndefinite(const Eigen::MatrixXd& X, std::string* message);
+// kNotPositiveSemidefinite when λ_min(X) < −kPsdTolerance·‖X‖₂, with a message giving both
+// numbers.
+Result<void, SolveError> CheckSemidefinite(const Eigen::MatrixXd& X);
 
 // The eigenvalue of `matrix` with the largest real part (continuous) or modulus (discrete).
 std::complex<double> RightmostEigenvalue(const Eigen::MatrixXd& matrix);

@@ -6,8 +6,8 @@
 #include <limits>
 #include <string>
 
-#include "riccati_common.hpp"
 #include "upright/base/number_text.hpp"
+#include "riccati_common.hpp"
 #include "upright/design/riccati.hpp"
 
 namespace upright::design {
@@ -30,9 +30,10 @@ Eigen::MatrixXd RefineDare(const RiccatiProblem& problem, Eigen::MatrixXd X) {
   double relative = internal::DareResidual(problem, X, &residual);
   for (int step = 0; step < kRefinementSteps && std::isfinite(relative); ++step) {
     const Eigen::MatrixXd closed_loop = problem.A - problem.B * internal::DareGain(problem, X);
-    const LyapunovResult correction = SolveDiscreteLyapunov(closed_loop.transpose(), residual);
-    if (!correction.ok()) break;
-    Eigen::MatrixXd candidate = X + correction.X;
+    const Result<Eigen::MatrixXd, SolveError> correction =
+        SolveDiscreteLyapunov(closed_loop.transpose(), residual);
+    if (!correction) break;
+    Eigen::MatrixXd candidate = X + *correction;
     candidate = 0.5 * (candidate + candidate.transpose()).eval();
     Eigen::MatrixXd candidate_residual;
     const double candidate_relative =
@@ -47,17 +48,16 @@ Eigen::MatrixXd RefineDare(const RiccatiProblem& problem, Eigen::MatrixXd X) {
 
 }  // namespace
 
-RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
-                        const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
-                        const Eigen::MatrixXd& S, const RiccatiOptions& options) {
-  RiccatiResult result;
-  RiccatiProblem problem;
-  std::string message;
-  if (!internal::PrepareRiccatiProblem(A, B, Q, R, S, "DARE", &problem, &message)) {
-    return internal::Fail(result, SolveFailure::kInvalidInput, message);
-  }
-  if (internal::FindUnstabilisableMode(problem.A, problem.B, true, &message)) {
-    return internal::Fail(result, SolveFailure::kNotStabilisable, message);
+Result<RiccatiSolution, SolveError> SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
+                                              const Eigen::MatrixXd& Q, const Eigen::MatrixXd& R,
+                                              const Eigen::MatrixXd& S,
+                                              const RiccatiOptions& options) {
+  const Result<RiccatiProblem, SolveError> prepared =
+      internal::PrepareRiccatiProblem(A, B, Q, R, S, "DARE");
+  if (!prepared) return Failure(prepared.error());
+  const RiccatiProblem& problem = *prepared;
+  if (auto stabilisable = internal::CheckStabilisable(problem.A, problem.B, true); !stabilisable) {
+    return Failure(stabilisable.error());
   }
   const Eigen::Index n = problem.A.rows();
   const Eigen::MatrixXd identity = Eigen::MatrixXd::Identity(n, n);
@@ -74,7 +74,7 @@ RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   for (; iteration < kDoublingMaxIterations && !converged; ++iteration) {
     const Eigen::PartialPivLU<Eigen::MatrixXd> lu(identity + g_k * h_k);
     if (!(lu.rcond() > internal::kRcondTolerance)) {
-      return internal::Fail(result, SolveFailure::kIllConditioned,
+      return internal::Fail(SolveFailure::kIllConditioned,
                             "doubling step " + std::to_string(iteration) +
                                 ": I + G_k H_k is singular to working precision (rcond " +
                                 SignificantText(lu.rcond(), 6) + ")");
@@ -87,7 +87,7 @@ RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
     g_next = 0.5 * (g_next + g_next.transpose()).eval();
     a_k = a_k * solved_a;
     if (!h_next.allFinite() || !g_next.allFinite() || !a_k.allFinite()) {
-      return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
+      return internal::Fail(SolveFailure::kNoStabilisingSolution,
                             "doubling diverged at step " + std::to_string(iteration) +
                                 ": the symplectic pencil has no stable deflating subspace");
     }
@@ -101,33 +101,33 @@ RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
   }
 
   Eigen::MatrixXd X = RefineDare(problem, h_k);
-  result.X = X;
+  RiccatiSolution solution;
+  solution.X = X;
   Eigen::MatrixXd residual;
-  result.relative_residual = internal::DareResidual(problem, X, &residual);
+  solution.relative_residual = internal::DareResidual(problem, X, &residual);
   const Eigen::MatrixXd closed_loop = problem.A - problem.B * internal::DareGain(problem, X);
   const std::complex<double> largest = internal::LargestEigenvalue(closed_loop);
   if (!converged && !(std::abs(largest) < 1)) {
-    return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
+    return internal::Fail(SolveFailure::kNoStabilisingSolution,
                           "doubling did not converge in " + std::to_string(iteration) +
                               " steps and the closed loop has the eigenvalue " +
                               ComplexText(largest, 6) +
                               ": the symplectic pencil has eigenvalues on the unit circle");
   }
-  if (!(result.relative_residual <= options.residual_tolerance)) {
-    return internal::Fail(result, SolveFailure::kResidualTooLarge,
-                          "relative residual " + SignificantText(result.relative_residual, 6) +
-                              " exceeds the tolerance " +
-                              SignificantText(options.residual_tolerance, 6));
+  if (!(solution.relative_residual <= options.residual_tolerance)) {
+    return internal::Fail(SolveFailure::kResidualTooLarge,
+                          "relative residual " + SignificantText(solution.relative_residual, 6) +
+                              " exceeds the tolerance " + SignificantText(options.residual_tolerance, 6));
   }
   if (!(std::abs(largest) < 1)) {
-    return internal::Fail(result, SolveFailure::kNoStabilisingSolution,
+    return internal::Fail(SolveFailure::kNoStabilisingSolution,
                           "closed loop A − BK has the eigenvalue " + ComplexText(largest, 6) +
                               " (|λ| = " + SignificantText(std::abs(largest), 6) +
                               "), not inside the unit circle: X is not stabilising");
   }
   if (options.require_psd) {
-    if (internal::IsClearlyIndefinite(X, &message)) {
-      return internal::Fail(result, SolveFailure::kNotPositiveSemidefinite, message);
+    if (auto semidefinite = internal::CheckSemidefinite(X); !semidefinite) {
+      return Failure(semidefinite.error());
     }
     const Eigen::MatrixXd middle = problem.R + problem.B.transpose() * X * problem.B;
     const double smallest =
@@ -135,14 +135,12 @@ RiccatiResult SolveDare(const Eigen::MatrixXd& A, const Eigen::MatrixXd& B,
             .eigenvalues()
             .minCoeff();
     if (!(smallest > 0)) {
-      return internal::Fail(result, SolveFailure::kNotPositiveSemidefinite,
-                            "R + BᵀXB is not positive definite (smallest eigenvalue " +
-                                SignificantText(smallest, 6) + ")");
+      return internal::Fail(
+          SolveFailure::kNotPositiveSemidefinite,
+          "R + BᵀXB is not positive definite (smallest eigenvalue " + SignificantText(smallest, 6) + ")");
     }
   }
-  result.failure = SolveFailure::kNone;
-  result.message = "ok";
-  return result;
+  return solution;
 }
 
 }  // namespace upright::design

@@ -28,10 +28,11 @@ SampledPoles FromTransition(const MatrixXd& phi, double period_s) {
 
 }  // namespace
 
-SampledPoles SampledStateFeedback(const LinearModel& plant, const Gain& K, double period_s) {
-  MatrixXd Ad, Bd;
-  DiscretiseZoh(plant.A, plant.B, period_s, &Ad, &Bd);
-  return FromTransition(Ad - Bd * K, period_s);
+Result<SampledPoles, SolveError> SampledStateFeedback(const LinearModel& plant, const Gain& K,
+                                                      double period_s) {
+  const Result<ZohSystem, SolveError> sampled = DiscretiseZoh(plant.A, plant.B, period_s);
+  if (!sampled) return Failure(sampled.error());
+  return FromTransition(sampled->Ad - sampled->Bd * K, period_s);
 }
 
 SampledPoles SampledLqg(const Gain& K, const LqgFilter& filter, double period_s) {

@@ -8,7 +8,7 @@
 
 namespace upright::design {
 
-bool DesignWeights::IsValid(std::string* error) const {
+Status DesignWeights::Validate() const {
   const std::pair<const char*, double> positive[] = {
       {"max_drift_m", max_drift_m},         {"max_speed_m_s", max_speed_m_s},
       {"max_tilt_deg", max_tilt_deg},       {"max_tilt_rate_deg_s", max_tilt_rate_deg_s},
@@ -23,9 +23,8 @@ bool DesignWeights::IsValid(std::string* error) const {
   if (why.tellp() == 0 && !(max_input_fraction > 0 && max_input_fraction <= 1)) {
     why << "DesignWeights::max_input_fraction = " << max_input_fraction << ", must be in (0, 1]";
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
 double InputLimit(const RobotModel& model, InputKind input) {

@@ -3,11 +3,11 @@
 #include <cmath>
 #include <cstdio>
 #include <cstring>
-#include <exception>
 #include <limits>
 #include <sstream>
 
 #include "abi_fill.hpp"
+#include "guarded_call.hpp"
 #include "upright/model/check.hpp"
 
 namespace upright::host {
@@ -19,31 +19,12 @@ std::string Message(const char* buffer) {
   return buffer[0] ? std::string(buffer) : std::string("(no message)");
 }
 
-// Runs a call into the module; an exception escaping it (a C++ module that throws through the C
-// boundary) becomes a message instead of ending the program.
-template <typename Call>
-bool Guarded(Call call, int* status, std::string* thrown) {
-  try {
-    *status = call();
-    return true;
-  } catch (const std::exception& e) {
-    *thrown = std::string("threw an exception: ") + e.what();
-  } catch (...) {
-    *thrown = "threw an exception of unknown type";
-  }
-  return false;
-}
-
 }  // namespace
 
-std::unique_ptr<ControllerHost> ControllerHost::Create(const ControllerSpec& spec,
-                                                       const RobotModel& model, double dt_s,
-                                                       std::string* error) {
-  auto fail = [&](const std::string& why) -> std::unique_ptr<ControllerHost> {
-    if (error) *error = why;
-    return nullptr;
-  };
-  if (!spec.module) return fail("ControllerSpec::module is null");
+Result<std::unique_ptr<ControllerHost>> ControllerHost::Create(const ControllerSpec& spec,
+                                                               const RobotModel& model,
+                                                               double dt_s) {
+  if (!spec.module) return Failure("ControllerSpec::module is null");
   const std::string who = "controller '" + spec.module->name() + "' (" + spec.module->path() + ")";
   const double rate_hz = spec.rate_hz > 0 ? spec.rate_hz : model.control_rate_hz;
   const double steps = 1 / (rate_hz * dt_s);
@@ -52,7 +33,7 @@ std::unique_ptr<ControllerHost> ControllerHost::Create(const ControllerSpec& spe
     std::ostringstream why;
     why << who << ": rate_hz = " << rate_hz << " must give a period of a whole number (>= 1) of "
         << "physics steps of " << dt_s << " s";
-    return fail(why.str());
+    return Failure(why.str());
   }
   std::unique_ptr<ControllerHost> host(new ControllerHost());
   host->module_ = spec.module;
@@ -82,28 +63,25 @@ std::unique_ptr<ControllerHost> ControllerHost::Create(const ControllerSpec& spe
   // An out-of-range kind, so a module that declares none is caught below.
   std::memset(&result.command_kind, 0xff, sizeof result.command_kind);
   char message[kErrorSize] = "";
-  int status = UPRIGHT_ERROR;
-  std::string thrown;
   const upright_controller_api& api = spec.module->api();
-  if (!Guarded([&] { return api.create(&args, &result, &host->instance_, message, kErrorSize); },
-               &status, &thrown)) {
-    return fail(who + ": create " + thrown);
-  }
+  const Result<int> status = internal::GuardedCall(
+      [&] { return api.create(&args, &result, &host->instance_, message, kErrorSize); });
+  if (!status) return Failure(who + ": create " + status.error());
   message[kErrorSize - 1] = '\0';
-  if (status != UPRIGHT_OK) {
-    return fail(who + ": create failed (status " + std::to_string(status) + "): " +
-                Message(message));
+  if (*status != UPRIGHT_OK) {
+    return Failure(who + ": create failed (status " + std::to_string(*status) +
+                   "): " + Message(message));
   }
   if (result.command_kind == UPRIGHT_COMMAND_VOLTAGE) {
     host->drive_ = sim::DriveMode::kVoltage;
   } else if (result.command_kind == UPRIGHT_COMMAND_TORQUE) {
     host->drive_ = sim::DriveMode::kTorque;
   } else {
-    return fail(who + ": create declared no valid command kind (voltage or torque)");
+    return Failure(who + ": create declared no valid command kind (voltage or torque)");
   }
   if (result.diagnostic_count > UPRIGHT_MAX_DIAGNOSTICS) {
-    return fail(who + ": declared " + std::to_string(result.diagnostic_count) +
-                " diagnostics, at most " + std::to_string(UPRIGHT_MAX_DIAGNOSTICS));
+    return Failure(who + ": declared " + std::to_string(result.diagnostic_count) +
+                   " diagnostics, at most " + std::to_string(UPRIGHT_MAX_DIAGNOSTICS));
   }
   for (uint32_t i = 0; i < result.diagnostic_count; ++i) {
     result.diagnostic_names[i][UPRIGHT_NAME_SIZE - 1] = '\0';
@@ -195,16 +173,13 @@ bool ControllerHost::Tick(long step, const sim::SensorSample& s, const sim::True
   for (double& d : output_.diagnostics) d = kNaN;
   log_time_s_ = t;
   char message[kErrorSize] = "";
-  int status = UPRIGHT_ERROR;
-  std::string thrown;
-  const bool returned = Guarded(
-      [&] { return module_->api().step(instance_, &input_, &output_, message, kErrorSize); },
-      &status, &thrown);
+  const Result<int> status = internal::GuardedCall(
+      [&] { return module_->api().step(instance_, &input_, &output_, message, kErrorSize); });
   message[kErrorSize - 1] = '\0';
-  if (!returned) {
-    Fail(t, Who() + " " + thrown);
-  } else if (status != UPRIGHT_OK) {
-    Fail(t, Who() + " step failed (status " + std::to_string(status) + "): " + Message(message));
+  if (!status) {
+    Fail(t, Who() + " " + status.error());
+  } else if (*status != UPRIGHT_OK) {
+    Fail(t, Who() + " step failed (status " + std::to_string(*status) + "): " + Message(message));
   } else {
     for (int i = 0; i < 2 && !faulted(); ++i) {
       if (!std::isfinite(output_.command[i])) {
@@ -221,24 +196,17 @@ bool ControllerHost::Tick(long step, const sim::SensorSample& s, const sim::True
   return !faulted();
 }
 
-bool ControllerHost::Reset(std::string* error) {
+Status ControllerHost::Reset() {
   log_time_s_ = std::numeric_limits<double>::quiet_NaN();  // back before the first tick
   char message[kErrorSize] = "";
-  int status = UPRIGHT_ERROR;
-  std::string thrown;
-  if (!Guarded([&] { return module_->api().reset(instance_, message, kErrorSize); }, &status,
-               &thrown)) {
-    if (error) *error = Who() + " reset " + thrown;
-    return false;
-  }
+  const Result<int> status =
+      internal::GuardedCall([&] { return module_->api().reset(instance_, message, kErrorSize); });
+  if (!status) return Failure(Who() + " reset " + status.error());
   message[kErrorSize - 1] = '\0';
-  if (status != UPRIGHT_OK) {
-    if (error) *error = Who() + " reset failed: " + Message(message);
-    return false;
-  }
+  if (*status != UPRIGHT_OK) return Failure(Who() + " reset failed: " + Message(message));
   fault_.clear();
   fault_time_s_ = 0;
-  return true;
+  return {};
 }
 
 }  // namespace upright::host

@@ -8,6 +8,8 @@
 #include <cstdlib>
 #include <filesystem>
 
+#include "guarded_call.hpp"
+
 namespace upright::host {
 namespace {
 
@@ -30,11 +32,10 @@ Module::~Module() {
   if (handle_) dlclose(handle_);
 }
 
-std::shared_ptr<Module> Module::Load(const std::string& path, std::string* error) {
-  auto fail = [&](const std::string& why, void* handle) -> std::shared_ptr<Module> {
+Result<std::shared_ptr<Module>> Module::Load(const std::string& path) {
+  auto fail = [&](const std::string& why, void* handle) -> Result<std::shared_ptr<Module>> {
     if (handle) dlclose(handle);
-    if (error) *error = path + ": " + why;
-    return nullptr;
+    return Failure(path + ": " + why);
   };
   if (!std::filesystem::exists(path)) return fail("no such controller module file", nullptr);
   // A path without a slash would make dlopen search the library path instead of this file.
@@ -53,7 +54,11 @@ std::shared_ptr<Module> Module::Load(const std::string& path, std::string* error
                 handle);
   }
   const auto entry = reinterpret_cast<upright_controller_entry_fn>(symbol);
-  const upright_controller_api* api = entry();
+  const Result<const upright_controller_api*> table = internal::GuardedCall(entry);
+  if (!table) {
+    return fail(std::string(UPRIGHT_CONTROLLER_ENTRY_SYMBOL) + " " + table.error(), handle);
+  }
+  const upright_controller_api* api = *table;
   if (!api) return fail(std::string(UPRIGHT_CONTROLLER_ENTRY_SYMBOL) + " returned NULL", handle);
   if (api->abi_version != UPRIGHT_CONTROLLER_ABI_VERSION) {
     return fail("built for controller ABI version " + std::to_string(api->abi_version) +
@@ -99,12 +104,11 @@ std::vector<std::string> DefaultModuleDirs() {
   return dirs;
 }
 
-std::string FindBuiltinModule(const std::string& name, const std::vector<std::string>& dirs,
-                              std::string* error) {
+Result<std::string> FindBuiltinModule(const std::string& name,
+                                      const std::vector<std::string>& dirs) {
   const auto& names = BuiltinModuleNames();
   if (std::find(names.begin(), names.end(), name) == names.end()) {
-    if (error) *error = "no built-in controller named '" + name + "' (built-ins: lqr, hinf, lqg, pid)";
-    return "";
+    return Failure("no built-in controller named '" + name + "' (built-ins: lqr, hinf, lqg, pid)");
   }
   const std::string file = "upright_" + name + ".so";
   std::string looked;
@@ -113,8 +117,7 @@ std::string FindBuiltinModule(const std::string& name, const std::vector<std::st
     if (std::filesystem::exists(candidate)) return candidate;
     looked += (looked.empty() ? "" : ", ") + dir;
   }
-  if (error) *error = "built-in controller '" + name + "' (" + file + ") not found in: " + looked;
-  return "";
+  return Failure("built-in controller '" + name + "' (" + file + ") not found in: " + looked);
 }
 
 }  // namespace upright::host

@@ -7,15 +7,13 @@
 namespace upright {
 namespace {
 
-// The schema row for element.attribute that a RobotModel holds, or nullptr and *error.
-const internal::FieldRule* FindField(std::string_view element, std::string_view attribute,
-                                     std::string* error) {
+// The schema row for element.attribute that a RobotModel holds, or why there is none.
+Result<const internal::FieldRule*> FindField(std::string_view element, std::string_view attribute) {
   for (const internal::FieldRule& rule : internal::FieldRules()) {
     if (rule.element != element || rule.attribute != attribute) continue;
     if (rule.file_only) {
-      *error = std::string(element) + "." + std::string(attribute) +
-               " only shapes other fields when a file is read; vary those fields instead";
-      return nullptr;
+      return Failure(std::string(element) + "." + std::string(attribute) +
+                     " only shapes other fields when a file is read; vary those fields instead");
     }
     return &rule;
   }
@@ -25,49 +23,46 @@ const internal::FieldRule* FindField(std::string_view element, std::string_view 
     known +=
         (known.empty() ? "" : ", ") + std::string(rule.element) + "." + std::string(rule.attribute);
   }
-  *error = "no robot model field " + std::string(element) + "." + std::string(attribute) +
-           " (fields: " + known + ")";
-  return nullptr;
+  return Failure("no robot model field " + std::string(element) + "." + std::string(attribute) +
+                 " (fields: " + known + ")");
 }
 
-// False and *error when the field's element is optional and absent from this model.
-bool ElementPresent(const internal::FieldRule& rule, RobotModel& model, std::string* error) {
+// A failure when the field's element is optional and absent from this model.
+Status ElementPresent(const internal::FieldRule& rule, RobotModel& model) {
   const internal::ElementRule* element = internal::FindElementRule(rule.element);
-  if (element == nullptr || element->present == nullptr || *element->present(model)) return true;
-  *error = "robot '" + model.name + "' has no <" + std::string(rule.element) + "> element, so " +
-           std::string(rule.element) + "." + std::string(rule.attribute) + " cannot be set";
-  return false;
+  if (element == nullptr || element->present == nullptr || *element->present(model)) return {};
+  return Failure("robot '" + model.name + "' has no <" + std::string(rule.element) +
+                 "> element, so " + std::string(rule.element) + "." + std::string(rule.attribute) +
+                 " cannot be set");
 }
 
 }  // namespace
 
-bool GetModelField(const RobotModel& model, std::string_view element, std::string_view attribute,
-                   double* value, std::string* error) {
-  const internal::FieldRule* rule = FindField(element, attribute, error);
-  if (rule == nullptr) return false;
+Result<double> GetModelField(const RobotModel& model, std::string_view element,
+                             std::string_view attribute) {
+  const Result<const internal::FieldRule*> rule = FindField(element, attribute);
+  if (!rule) return Failure(rule.error());
   internal::ModelDraft draft{.model = model};
-  if (!ElementPresent(*rule, draft.model, error)) return false;
-  *value = *rule->field(draft);
-  return true;
+  if (Status present = ElementPresent(**rule, draft.model); !present) {
+    return Failure(present.error());
+  }
+  return *(*rule)->field(draft);
 }
 
-bool SetModelField(RobotModel* model, std::string_view element, std::string_view attribute,
-                   double value, std::string* error) {
-  const internal::FieldRule* rule = FindField(element, attribute, error);
-  if (rule == nullptr) return false;
+Status SetModelField(RobotModel* model, std::string_view element, std::string_view attribute,
+                     double value) {
+  const Result<const internal::FieldRule*> rule = FindField(element, attribute);
+  if (!rule) return Failure(rule.error());
   internal::ModelDraft draft{.model = *model};
-  if (!ElementPresent(*rule, draft.model, error)) return false;
+  if (Status present = ElementPresent(**rule, draft.model); !present) return present;
   if (!std::isfinite(value)) {
-    *error = std::string(element) + " " + std::string(attribute) + ": must be a finite number";
-    return false;
+    return Failure(std::string(element) + " " + std::string(attribute) +
+                   ": must be a finite number");
   }
-  if (auto problem = internal::CheckField(*rule, value)) {
-    *error = *problem;
-    return false;
-  }
-  *rule->field(draft) = value;
+  if (Status kept = internal::CheckField(**rule, value); !kept) return kept;
+  *(*rule)->field(draft) = value;
   *model = draft.model;
-  return true;
+  return {};
 }
 
 }  // namespace upright

@@ -96,8 +96,8 @@ void ReadFields(FoundElements& found, ModelDraft& draft, XmlDocument& doc) {
     if (!value) continue;
     given[i] = true;
     *rule.field(draft) = *value;
-    if (std::optional<std::string> problem = internal::CheckField(rule, *value)) {
-      doc.AddError(element->second.line(), *problem);
+    if (Status kept = internal::CheckField(rule, *value); !kept) {
+      doc.AddError(element->second.line(), kept.error());
     }
   }
   // Defaults last, since derived ones depend on fields read above.
@@ -163,12 +163,8 @@ int LineOf(std::string_view path, const FoundElements& found, int root_line) {
   return root_line;
 }
 
-ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
-  ModelLoadResult result;
-  if (!doc.parsed()) {
-    result.errors = doc.errors();
-    return result;
-  }
+Result<RobotModel, std::vector<FileError>> Load(XmlDocument doc, const ModelLoadOptions& options) {
+  if (!doc.parsed()) return Failure(doc.errors());
   XmlElement root = doc.Root();
   const std::string root_name(internal::kModelRootElement);
   // A <robot> root is a model file of schema 1 only when it states a schema, as every one did;
@@ -177,20 +173,15 @@ ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
   if (root.name() != root_name && !former_root) {
     doc.AddError(root.line(),
                  "root element is <" + root.name() + ">, expected <" + root_name + ">");
-    result.errors = doc.errors();
-    return result;
+    return Failure(doc.errors());
   }
-  if (ReportFormerNames(root, doc)) {
-    result.errors = doc.errors();
-    return result;
-  }
+  if (ReportFormerNames(root, doc)) return Failure(doc.errors());
   const std::optional<long long> schema = root.Integer("schema", Presence::kRequired);
   if (schema && *schema != internal::kModelSchemaVersion) {
     doc.AddError(root.line(), root_name + " schema = " + std::to_string(*schema) +
                                   ": unsupported schema version (expected " +
                                   std::to_string(internal::kModelSchemaVersion) + ")");
-    result.errors = doc.errors();
-    return result;
+    return Failure(doc.errors());
   }
   ModelDraft draft;
   if (std::optional<std::string> name = root.String("name", Presence::kRequired)) {
@@ -202,32 +193,33 @@ ModelLoadResult Load(XmlDocument doc, const ModelLoadOptions& options) {
   ReadFields(found, draft, doc);
   if (!doc.HasErrors()) {
     for (const internal::CrossRule& rule : internal::CrossRules()) {
-      if (std::optional<std::string> problem = rule.check(draft.model)) {
-        doc.AddError(LineOf(rule.element, found, root.line()), *problem);
+      if (Status kept = rule.check(draft.model); !kept) {
+        doc.AddError(LineOf(rule.element, found, root.line()), kept.error());
       }
     }
   }
   if (!doc.HasErrors() && options.check_default_step) {
     for (const internal::StepRule& rule : internal::StepRules()) {
-      if (std::optional<std::string> problem = rule.check(draft.model)) {
-        doc.AddError(LineOf(rule.element, found, root.line()), *problem);
+      if (Status kept = rule.check(draft.model); !kept) {
+        doc.AddError(LineOf(rule.element, found, root.line()), kept.error());
       }
     }
   }
   doc.ReportUnread();
-  result.errors = doc.errors();
-  if (result.ok()) result.model = draft.model;
-  return result;
+  if (doc.HasErrors()) return Failure(doc.errors());
+  return draft.model;
 }
 
 }  // namespace
 
-ModelLoadResult LoadModelFile(const std::string& path, const ModelLoadOptions& options) {
+Result<RobotModel, std::vector<FileError>> LoadModelFile(const std::string& path,
+                                                         const ModelLoadOptions& options) {
   return Load(XmlDocument::Open(path), options);
 }
 
-ModelLoadResult ParseModelText(std::string_view xml_text, const std::string& path,
-                               const ModelLoadOptions& options) {
+Result<RobotModel, std::vector<FileError>> ParseModelText(std::string_view xml_text,
+                                                          const std::string& path,
+                                                          const ModelLoadOptions& options) {
   return Load(XmlDocument::Parse(xml_text, path), options);
 }
 

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <charconv>
 #include <cmath>
+#include <utility>
 
 #include "upright/base/number_text.hpp"
 #include "upright/model/edge_compare.hpp"
@@ -502,8 +503,6 @@ constexpr FieldRule kFieldRules[] = {
      .meaning = "front travel limit of the box centre"},
 };
 
-using Message = std::optional<std::string>;
-
 std::string F(double value) { return WholeOrShortestText(value); }
 
 // Geometric comparisons of file values (edge_compare.hpp): the scale is the sum of the magnitudes
@@ -525,110 +524,112 @@ bool OutlineIsBox(const ChassisModel& c) {
 
 constexpr CrossRule kCrossRules[] = {
     {"chassis/outline", "`front_m` > `rear_m`",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const ChassisModel& c = m.chassis;
-       if (Under(c.outline_rear_m, c.outline_front_m)) return std::nullopt;
-       return "chassis/outline front_m = " + F(c.outline_front_m) +
-              ", rear_m = " + F(c.outline_rear_m) + ": front_m must be > rear_m";
+       if (Under(c.outline_rear_m, c.outline_front_m)) return {};
+       return Failure("chassis/outline front_m = " + F(c.outline_front_m) +
+                      ", rear_m = " + F(c.outline_rear_m) + ": front_m must be > rear_m");
      }},
     {"chassis/outline", "`top_m` > `bottom_m`",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const ChassisModel& c = m.chassis;
-       if (Under(c.outline_bottom_m, c.outline_top_m)) return std::nullopt;
-       return "chassis/outline top_m = " + F(c.outline_top_m) +
-              ", bottom_m = " + F(c.outline_bottom_m) + ": top_m must be > bottom_m";
+       if (Under(c.outline_bottom_m, c.outline_top_m)) return {};
+       return Failure("chassis/outline top_m = " + F(c.outline_top_m) +
+                      ", bottom_m = " + F(c.outline_bottom_m) + ": top_m must be > bottom_m");
      }},
     {"chassis/outline", "`bottom_m` > −`wheels radius_m`: the chassis clears the ground upright",
-     [](const RobotModel& m) -> Message {
-       if (Under(-m.wheel.radius_m, m.chassis.outline_bottom_m)) return std::nullopt;
-       return "chassis/outline bottom_m = " + F(m.chassis.outline_bottom_m) +
-              ": must be > -(wheels radius_m) = " + F(-m.wheel.radius_m) +
-              " so the chassis clears the ground when upright";
+     [](const RobotModel& m) -> Status {
+       if (Under(-m.wheel.radius_m, m.chassis.outline_bottom_m)) return {};
+       return Failure("chassis/outline bottom_m = " + F(m.chassis.outline_bottom_m) +
+                      ": must be > -(wheels radius_m) = " + F(-m.wheel.radius_m) +
+                      " so the chassis clears the ground when upright");
      }},
     {"chassis", "the COM (`com_forward_m`, `com_height_m`) lies inside the outline",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const ChassisModel& c = m.chassis;
-       if (!OutlineIsBox(c)) return std::nullopt;
+       if (!OutlineIsBox(c)) return {};
        if (Within(c.outline_rear_m, c.com_forward_m, c.outline_front_m) &&
            Within(c.outline_bottom_m, c.com_height_m, c.outline_top_m)) {
-         return std::nullopt;
+         return {};
        }
-       return "chassis com_forward_m = " + F(c.com_forward_m) +
-              ", com_height_m = " + F(c.com_height_m) +
-              ": the centre of mass must lie inside chassis/outline (x in [" + F(c.outline_rear_m) +
-              ", " + F(c.outline_front_m) + "], z in [" + F(c.outline_bottom_m) + ", " +
-              F(c.outline_top_m) + "])";
+       return Failure("chassis com_forward_m = " + F(c.com_forward_m) +
+                      ", com_height_m = " + F(c.com_height_m) +
+                      ": the centre of mass must lie inside chassis/outline (x in [" +
+                      F(c.outline_rear_m) + ", " + F(c.outline_front_m) + "], z in [" +
+                      F(c.outline_bottom_m) + ", " + F(c.outline_top_m) + "])");
      }},
     {"chassis/principal_moments",
      "each principal moment ≤ the sum of the other two (true of every rigid body)",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const double p = m.chassis.pitch_inertia_kgm2;
        const double r = m.chassis.roll_inertia_kgm2;
        const double y = m.chassis.yaw_inertia_kgm2;
        const double sum = p + r + y;  // the scale of each comparison
        if (NoMoreThan(p, r + y, sum) && NoMoreThan(r, p + y, sum) && NoMoreThan(y, p + r, sum)) {
-         return std::nullopt;
+         return {};
        }
-       return "chassis/principal_moments pitch_kgm2 = " + F(p) + ", roll_kgm2 = " + F(r) +
-              ", yaw_kgm2 = " + F(y) +
-              ": each moment must be <= the sum of the other two (no rigid body has these)";
+       return Failure(
+           "chassis/principal_moments pitch_kgm2 = " + F(p) + ", roll_kgm2 = " + F(r) +
+           ", yaw_kgm2 = " + F(y) +
+           ": each moment must be <= the sum of the other two (no rigid body has these)");
      }},
     {"wheels", "`width_m` < `track_m`",
-     [](const RobotModel& m) -> Message {
-       if (Under(m.wheel.width_m, m.wheel.track_m)) return std::nullopt;
-       return "wheels width_m = " + F(m.wheel.width_m) + ", track_m = " + F(m.wheel.track_m) +
-              ": width_m must be < track_m";
+     [](const RobotModel& m) -> Status {
+       if (Under(m.wheel.width_m, m.wheel.track_m)) return {};
+       return Failure("wheels width_m = " + F(m.wheel.width_m) +
+                      ", track_m = " + F(m.wheel.track_m) + ": width_m must be < track_m");
      }},
     {"wheels", "`spin_inertia_kgm2` ≤ 2 × `diameter_inertia_kgm2` (principal moments of a wheel)",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const double spin = m.wheel.spin_inertia_kgm2;
        const double diameter = m.wheel.diameter_inertia_kgm2;
-       if (AtMost(spin, 2 * diameter)) return std::nullopt;
-       return "wheels spin_inertia_kgm2 = " + F(spin) + ", diameter_inertia_kgm2 = " + F(diameter) +
-              ": spin_inertia_kgm2 must be <= 2 * diameter_inertia_kgm2 (no rigid wheel has "
-              "these)";
+       if (AtMost(spin, 2 * diameter)) return {};
+       return Failure(
+           "wheels spin_inertia_kgm2 = " + F(spin) + ", diameter_inertia_kgm2 = " + F(diameter) +
+           ": spin_inertia_kgm2 must be <= 2 * diameter_inertia_kgm2 (no rigid wheel has "
+           "these)");
      }},
     {"sensors", "`latency_s` < 50 control periods (50 / `control rate_hz`)",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const double bound_s = kMaxLatencyControlPeriods / m.control_rate_hz;
-       if (Under(m.sensors.latency_s, bound_s)) return std::nullopt;
-       return "sensors latency_s = " + F(m.sensors.latency_s) + ": must be < " +
-              F(kMaxLatencyControlPeriods) + " control periods = " + F(bound_s) + " s; " +
-              SecondsHint(m.sensors.latency_s);
+       if (Under(m.sensors.latency_s, bound_s)) return {};
+       return Failure("sensors latency_s = " + F(m.sensors.latency_s) + ": must be < " +
+                      F(kMaxLatencyControlPeriods) + " control periods = " + F(bound_s) + " s; " +
+                      SecondsHint(m.sensors.latency_s));
      }},
     {"sensors/imu", "the IMU position lies inside the outline",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const ChassisModel& c = m.chassis;
        const SensorModel& s = m.sensors;
-       if (!OutlineIsBox(c)) return std::nullopt;
+       if (!OutlineIsBox(c)) return {};
        if (Within(c.outline_rear_m, s.imu_x_m, c.outline_front_m) &&
            AtMost(std::abs(s.imu_y_m), 0.5 * c.outline_width_m) &&
            Within(c.outline_bottom_m, s.imu_z_m, c.outline_top_m)) {
-         return std::nullopt;
+         return {};
        }
-       return "sensors/imu x_m = " + F(s.imu_x_m) + ", y_m = " + F(s.imu_y_m) +
-              ", z_m = " + F(s.imu_z_m) + ": the IMU must lie inside chassis/outline (x in [" +
-              F(c.outline_rear_m) + ", " + F(c.outline_front_m) +
-              "], |y| <= " + F(0.5 * c.outline_width_m) + ", z in [" + F(c.outline_bottom_m) +
-              ", " + F(c.outline_top_m) + "])";
+       return Failure("sensors/imu x_m = " + F(s.imu_x_m) + ", y_m = " + F(s.imu_y_m) +
+                      ", z_m = " + F(s.imu_z_m) +
+                      ": the IMU must lie inside chassis/outline (x in [" + F(c.outline_rear_m) +
+                      ", " + F(c.outline_front_m) + "], |y| <= " + F(0.5 * c.outline_width_m) +
+                      ", z in [" + F(c.outline_bottom_m) + ", " + F(c.outline_top_m) + "])");
      }},
     {"sensors/imu", "`rate_hz` ≥ `control rate_hz`",
-     [](const RobotModel& m) -> Message {
-       if (m.sensors.imu_rate_hz >= m.control_rate_hz) return std::nullopt;
-       return "sensors/imu rate_hz = " + F(m.sensors.imu_rate_hz) +
-              ": must be >= control rate_hz = " + F(m.control_rate_hz);
+     [](const RobotModel& m) -> Status {
+       if (m.sensors.imu_rate_hz >= m.control_rate_hz) return {};
+       return Failure("sensors/imu rate_hz = " + F(m.sensors.imu_rate_hz) +
+                      ": must be >= control rate_hz = " + F(m.control_rate_hz));
      }},
     {"payload", "`min_x_m` ≤ `x_m` ≤ `max_x_m`",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const PayloadModel& p = m.payload;
-       if (!p.present || Within(p.min_x_m, p.x_m, p.max_x_m)) return std::nullopt;
-       return "payload min_x_m = " + F(p.min_x_m) + ", x_m = " + F(p.x_m) +
-              ", max_x_m = " + F(p.max_x_m) + ": must be min_x_m <= x_m <= max_x_m";
+       if (!p.present || Within(p.min_x_m, p.x_m, p.max_x_m)) return {};
+       return Failure("payload min_x_m = " + F(p.min_x_m) + ", x_m = " + F(p.x_m) +
+                      ", max_x_m = " + F(p.max_x_m) + ": must be min_x_m <= x_m <= max_x_m");
      }},
     {"payload",
      "the box stays within the outline's length at both travel limits: "
      "`min_x_m` − `length_m`/2 ≥ `rear_m`, `max_x_m` + `length_m`/2 ≤ `front_m`",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const PayloadModel& p = m.payload;
        const double rear_end_m = p.min_x_m - 0.5 * p.length_m;
        const double front_end_m = p.max_x_m + 0.5 * p.length_m;
@@ -637,26 +638,27 @@ constexpr CrossRule kCrossRules[] = {
        if (!p.present || !OutlineIsBox(m.chassis) ||
            (NoMoreThan(rear_m, rear_end_m, std::abs(p.min_x_m) + half_m + std::abs(rear_m)) &&
             NoMoreThan(front_end_m, front_m, std::abs(p.max_x_m) + half_m + std::abs(front_m)))) {
-         return std::nullopt;
+         return {};
        }
-       return "payload min_x_m = " + F(p.min_x_m) + ", max_x_m = " + F(p.max_x_m) +
-              ", length_m = " + F(p.length_m) + ": the box spans x in [" + F(rear_end_m) + ", " +
-              F(front_end_m) + "] over its travel; must stay within chassis/outline [" +
-              F(m.chassis.outline_rear_m) + ", " + F(m.chassis.outline_front_m) + "]";
+       return Failure("payload min_x_m = " + F(p.min_x_m) + ", max_x_m = " + F(p.max_x_m) +
+                      ", length_m = " + F(p.length_m) + ": the box spans x in [" + F(rear_end_m) +
+                      ", " + F(front_end_m) +
+                      "] over its travel; must stay within chassis/outline [" +
+                      F(m.chassis.outline_rear_m) + ", " + F(m.chassis.outline_front_m) + "]");
      }},
     {"payload", "the box lies above the outline's bottom: `z_m` − `height_m`/2 ≥ `bottom_m`",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const PayloadModel& p = m.payload;
        const double underside_m = p.z_m - 0.5 * p.height_m;
        const double bottom_m = m.chassis.outline_bottom_m;
        if (!p.present || !OutlineIsBox(m.chassis) ||
            NoMoreThan(bottom_m, underside_m,
                       std::abs(p.z_m) + 0.5 * p.height_m + std::abs(bottom_m))) {
-         return std::nullopt;
+         return {};
        }
-       return "payload z_m = " + F(p.z_m) + ", height_m = " + F(p.height_m) +
-              ": the box underside at z = " + F(underside_m) +
-              " must be >= chassis/outline bottom_m = " + F(m.chassis.outline_bottom_m);
+       return Failure("payload z_m = " + F(p.z_m) + ", height_m = " + F(p.height_m) +
+                      ": the box underside at z = " + F(underside_m) +
+                      " must be >= chassis/outline bottom_m = " + F(m.chassis.outline_bottom_m));
      }},
 };
 
@@ -679,27 +681,28 @@ constexpr StepRule kStepRules[] = {
     {"sensors/imu",
      "the IMU period is a whole number of default physics steps (`rate_hz` = 1000 / n: 1000, "
      "500, 250, 200, …), or the IMU samples at least once a step (`rate_hz` ≥ 1000)",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const double rate_hz = m.sensors.imu_rate_hz;
        const double steps = StepsAtDefault(rate_hz);
-       if (rate_hz * kDefaultPhysicsStep_s >= 1 || IsWholeSteps(steps)) return std::nullopt;
+       if (rate_hz * kDefaultPhysicsStep_s >= 1 || IsWholeSteps(steps)) return {};
        // The nearest faster rate keeps the IMU at least as fast as the controller.
-       return "sensors/imu rate_hz = " + F(rate_hz) + ": " + PeriodText(steps) +
-              "; it must be a whole number of them, or the IMU at least as fast as the physics "
-              "(rate_hz >= " +
-              F(1 / kDefaultPhysicsStep_s) + "); " + RateOfSteps(std::floor(steps));
+       return Failure(
+           "sensors/imu rate_hz = " + F(rate_hz) + ": " + PeriodText(steps) +
+           "; it must be a whole number of them, or the IMU at least as fast as the physics "
+           "(rate_hz >= " +
+           F(1 / kDefaultPhysicsStep_s) + "); " + RateOfSteps(std::floor(steps)));
      }},
     {"control",
      "the control period is a whole number (≥ 1) of default physics steps (`rate_hz` = 1000 / n: "
      "1000, 500, 250, 200, …)",
-     [](const RobotModel& m) -> Message {
+     [](const RobotModel& m) -> Status {
        const double rate_hz = m.control_rate_hz;
        const double steps = StepsAtDefault(rate_hz);
-       if (steps >= 1 && IsWholeSteps(steps)) return std::nullopt;
+       if (steps >= 1 && IsWholeSteps(steps)) return {};
        // The nearest faster rate: an IMU that keeps this rule keeps up with it too.
-       return "control rate_hz = " + F(rate_hz) + ": " + PeriodText(steps) +
-              "; it must be a whole number (>= 1) of them; " +
-              RateOfSteps(std::max(1.0, std::floor(steps)));
+       return Failure("control rate_hz = " + F(rate_hz) + ": " + PeriodText(steps) +
+                      "; it must be a whole number (>= 1) of them; " +
+                      RateOfSteps(std::max(1.0, std::floor(steps))));
      }},
 };
 
@@ -752,7 +755,7 @@ const ElementRule* FindElementRule(std::string_view path) {
   return nullptr;
 }
 
-std::optional<std::string> CheckField(const FieldRule& rule, double value) {
+Status CheckField(const FieldRule& rule, double value) {
   const std::string lead = std::string(rule.element) + " " + std::string(rule.attribute) + " = " +
                            WholeOrShortestText(value) + ": ";
   const bool in_bounds = Keeps(rule.min, value, true) && Keeps(rule.max, value, false);
@@ -761,10 +764,10 @@ std::optional<std::string> CheckField(const FieldRule& rule, double value) {
     std::string message = lead + "must be " + (two_sided ? "in " : "") + BoundsText(rule);
     // Too many seconds is most often milliseconds written where seconds belong.
     if (rule.unit == "s" && !Keeps(rule.max, value, false)) message += "; " + SecondsHint(value);
-    return message;
+    return Failure(std::move(message));
   }
-  if (rule.whole && value != std::floor(value)) return lead + "must be a whole number";
-  return std::nullopt;
+  if (rule.whole && value != std::floor(value)) return Failure(lead + "must be a whole number");
+  return {};
 }
 
 std::string RangeText(const FieldRule& rule) {

@@ -3,11 +3,11 @@
 // built in code (model_validate.cpp) and the documentation (model_schema_markdown.cpp).
 #pragma once
 
-#include <optional>
 #include <span>
 #include <string>
 #include <string_view>
 
+#include "upright/base/result.hpp"
 #include "upright/model/robot_model.hpp"
 
 namespace upright::internal {
@@ -69,22 +69,22 @@ struct FieldRule {
   std::string_view meaning = {};
 };
 
-// A rule relating several fields. `check` returns the message when the rule is broken; it is run
-// only once every field keeps its own rule.
+// A rule relating several fields. `check` fails with the message when the rule is broken; it is
+// run only once every field keeps its own rule.
 struct CrossRule {
   std::string_view element;  // whose line a file message carries
   std::string_view rule;     // for the documentation
-  std::optional<std::string> (*check)(const RobotModel&);
+  Status (*check)(const RobotModel&);
 };
 
 // A rule between the model and the default physics step (kDefaultPhysicsStep_s), which every
 // scenario without its own dt_s runs at. Model files are checked against it; a scenario checks the
-// robot it names against its own step instead. `check` returns the message when the rule is
+// robot it names against its own step instead. `check` fails with the message when the rule is
 // broken; it is run only once the field and cross rules hold.
 struct StepRule {
   std::string_view element;  // whose line a file message carries
   std::string_view rule;     // for the documentation
-  std::optional<std::string> (*check)(const RobotModel&);
+  Status (*check)(const RobotModel&);
 };
 
 std::span<const ElementRule> ElementRules();
@@ -95,8 +95,8 @@ std::span<const StepRule> StepRules();
 // The rule of an element for `path`, or nullptr.
 const ElementRule* FindElementRule(std::string_view path);
 
-// "chassis mass_kg = -3: must be > 0", or nullopt when `value` keeps the field's rule.
-std::optional<std::string> CheckField(const FieldRule& rule, double value);
+// Fails with "chassis mass_kg = -3: must be > 0" when `value` breaks the field's rule.
+Status CheckField(const FieldRule& rule, double value);
 
 // The allowed values as the documentation shows them: "> 0", "(0, 1]", "whole, >= 1", "any".
 std::string RangeText(const FieldRule& rule);

@@ -1,4 +1,5 @@
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "model_schema.hpp"
@@ -6,7 +7,7 @@
 
 namespace upright {
 
-std::vector<std::string> ValidateModel(const RobotModel& model) {
+Result<void, std::vector<std::string>> ValidateModel(const RobotModel& model) {
   internal::ModelDraft draft{.model = model};
   std::vector<std::string> problems;
   if (model.name.empty()) {
@@ -18,13 +19,17 @@ std::vector<std::string> ValidateModel(const RobotModel& model) {
     if (element != nullptr && element->present != nullptr && !*element->present(draft.model)) {
       continue;
     }
-    if (auto problem = internal::CheckField(rule, *rule.field(draft))) problems.push_back(*problem);
+    if (Status kept = internal::CheckField(rule, *rule.field(draft)); !kept) {
+      problems.push_back(kept.error());
+    }
   }
-  if (!problems.empty()) return problems;
-  for (const internal::CrossRule& rule : internal::CrossRules()) {
-    if (auto problem = rule.check(model)) problems.push_back(*problem);
+  if (problems.empty()) {
+    for (const internal::CrossRule& rule : internal::CrossRules()) {
+      if (Status kept = rule.check(model); !kept) problems.push_back(kept.error());
+    }
   }
-  return problems;
+  if (!problems.empty()) return Failure(std::move(problems));
+  return {};
 }
 
 }  // namespace upright

@@ -41,7 +41,7 @@ long FirstStepAtOrAfter(double t_s, double dt_s) {
   return static_cast<long>(k);
 }
 
-bool MotorFault::IsValid(std::string* error) const {
+Status MotorFault::Validate() const {
   std::ostringstream why;
   if (!std::isfinite(start_s) || start_s < 0) {
     why << "MotorFault::start_s = " << start_s << ", must be finite and >= 0";
@@ -50,12 +50,11 @@ bool MotorFault::IsValid(std::string* error) const {
   } else if (!(torque_scale >= 0 && torque_scale <= 1)) {
     why << "MotorFault::torque_scale = " << torque_scale << ", must be in [0, 1]";
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
-bool SensorFault::IsValid(std::string* error) const {
+Status SensorFault::Validate() const {
   std::ostringstream why;
   if (!std::isfinite(start_s) || start_s < 0) {
     why << "SensorFault::start_s = " << start_s << ", must be finite and >= 0";
@@ -68,9 +67,8 @@ bool SensorFault::IsValid(std::string* error) const {
   } else if (kind == SensorFaultKind::kBias && !std::isfinite(value)) {
     why << "SensorFault::value = " << value << ", must be finite for a bias";
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
 const char* ToString(MotorSide side) { return Name(side, kSideNames); }

@@ -18,7 +18,7 @@
 
 namespace upright::sim {
 
-bool PlantOptions::IsValid(std::string* error) const {
+Status PlantOptions::Validate() const {
   std::ostringstream why;
   if (!(dt_s > 0) || !(dt_s <= 0.01)) {
     why << "PlantOptions::dt_s = " << dt_s << ", must be in (0, 0.01]";
@@ -33,21 +33,19 @@ bool PlantOptions::IsValid(std::string* error) const {
     why << "PlantOptions::fixed_height_m = " << fixed_height_m << ", must be > 0";
   } else if (!(chassis_friction >= 0 && chassis_friction <= 3)) {
     why << "PlantOptions::chassis_friction = " << chassis_friction << ", must be in [0, 3]";
-  } else {
-    std::string terrain_error;
-    if (!terrain.IsValid(&terrain_error)) why << "PlantOptions::" << terrain_error;
+  } else if (Status valid_terrain = terrain.Validate(); !valid_terrain) {
+    why << "PlantOptions::" << valid_terrain.error();
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
 namespace internal {
 namespace {
 
 // Rules that tie the model to the options: sample periods that are whole numbers of physics
-// steps, and damping terms the explicit step can integrate stably.
-std::string CheckModelAgainstOptions(const RobotModel& model, const PlantOptions& options) {
+// steps, and damping terms the explicit step can integrate stably. The first broken one, if any.
+Status CheckModelAgainstOptions(const RobotModel& model, const PlantOptions& options) {
   std::ostringstream why;
   const double dt = options.dt_s;
   auto whole_steps = [dt](double rate_hz) {
@@ -73,10 +71,11 @@ std::string CheckModelAgainstOptions(const RobotModel& model, const PlantOptions
           << model.wheel.spin_inertia_kgm2 / damping << " (dt_s = " << dt << ")";
     }
   }
-  return why.str();
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
-// Absolute value ramp of width `band` around zero: a smoothed sign.
+// A smoothed sign: x / band clamped to [-1, 1], a linear ramp from -1 to 1 across |x| < band.
 double SmoothSign(double x, double band) { return std::clamp(x / band, -1.0, 1.0); }
 
 }  // namespace
@@ -138,22 +137,22 @@ class PlantImpl {
     UpdateReadouts();
   }
 
-  bool AddPush(const Push& push, std::string* error) {
-    if (!push.IsValid(error)) return false;
+  Status AddPush(const Push& push) {
+    if (Status valid = push.Validate(); !valid) return valid;
     pushes_.push_back(push);
-    return true;
+    return {};
   }
 
-  bool AddMotorFault(const MotorFault& fault, std::string* error) {
-    if (!fault.IsValid(error)) return false;
+  Status AddMotorFault(const MotorFault& fault) {
+    if (Status valid = fault.Validate(); !valid) return valid;
     motor_faults_.push_back({fault, FirstStepAtOrAfter(fault.start_s, options_.dt_s)});
-    return true;
+    return {};
   }
 
-  bool AddSensorFault(const SensorFault& fault, std::string* error) {
-    if (!fault.IsValid(error)) return false;
+  Status AddSensorFault(const SensorFault& fault) {
+    if (Status valid = fault.Validate(); !valid) return valid;
     sensors_.AddFault(fault);
-    return true;
+    return {};
   }
 
   void SetCommand(double left, double right) { command_ = {left, right}; }
@@ -292,18 +291,14 @@ class PlantImpl {
 
 }  // namespace internal
 
-std::unique_ptr<Plant> Plant::Create(const RobotModel& model, const PlantOptions& options,
-                                     std::string* error) {
-  auto fail = [error](const std::string& why) {
-    if (error) *error = why;
-    return nullptr;
-  };
-  const auto model_errors = ValidateModel(model);
-  if (!model_errors.empty()) return fail("robot model: " + model_errors.front());
-  std::string why;
-  if (!options.IsValid(&why)) return fail(why);
-  why = internal::CheckModelAgainstOptions(model, options);
-  if (!why.empty()) return fail(why);
+Result<std::unique_ptr<Plant>> Plant::Create(const RobotModel& model, const PlantOptions& options) {
+  if (const auto valid_model = ValidateModel(model); !valid_model) {
+    return Failure("robot model: " + valid_model.error().front());
+  }
+  if (Status valid = options.Validate(); !valid) return Failure(valid.error());
+  if (Status fits = internal::CheckModelAgainstOptions(model, options); !fits) {
+    return Failure(fits.error());
+  }
   return std::unique_ptr<Plant>(new Plant(std::make_unique<internal::PlantImpl>(model, options)));
 }
 
@@ -311,13 +306,9 @@ Plant::Plant(std::unique_ptr<internal::PlantImpl> impl) : impl_(std::move(impl))
 Plant::~Plant() = default;
 
 void Plant::SetCommand(double left, double right) { impl_->SetCommand(left, right); }
-bool Plant::AddPush(const Push& push, std::string* error) { return impl_->AddPush(push, error); }
-bool Plant::AddMotorFault(const MotorFault& fault, std::string* error) {
-  return impl_->AddMotorFault(fault, error);
-}
-bool Plant::AddSensorFault(const SensorFault& fault, std::string* error) {
-  return impl_->AddSensorFault(fault, error);
-}
+Status Plant::AddPush(const Push& push) { return impl_->AddPush(push); }
+Status Plant::AddMotorFault(const MotorFault& fault) { return impl_->AddMotorFault(fault); }
+Status Plant::AddSensorFault(const SensorFault& fault) { return impl_->AddSensorFault(fault); }
 void Plant::SetPayloadTarget(double x_m) { impl_->SetPayloadTarget(x_m); }
 void Plant::Step() { impl_->Step(); }
 double Plant::time_s() const { return impl_->truth_.time_s; }

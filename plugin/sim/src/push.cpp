@@ -38,7 +38,7 @@ double Push::MeanForce(double t0_s, double t1_s) const {
   return peak_N * impulse / (t1_s - t0_s);
 }
 
-bool Push::IsValid(std::string* error) const {
+Status Push::Validate() const {
   std::ostringstream why;
   if (!std::isfinite(start_s) || start_s < 0) {
     why << "Push::start_s = " << start_s << ", must be finite and >= 0";
@@ -53,9 +53,8 @@ bool Push::IsValid(std::string* error) const {
   } else if (!std::isfinite(height_m)) {
     why << "Push::height_m = " << height_m << ", must be finite";
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
 const char* ToString(PushShape shape) {

@@ -68,7 +68,7 @@ double Terrain::SlopeAt(double x_m) const {
   return 0;
 }
 
-bool Terrain::IsValid(std::string* error) const {
+Status Terrain::Validate() const {
   std::ostringstream why;
   if (kind == TerrainKind::kSlope && !(std::abs(slope_deg) < 45.0)) {
     why << "Terrain::slope_deg = " << slope_deg << ", must be in (-45, 45)";
@@ -102,9 +102,8 @@ bool Terrain::IsValid(std::string* error) const {
       why << name << ".friction = " << r.friction << ", must be in [0, 3]";
     }
   }
-  if (why.tellp() == 0) return true;
-  if (error) *error = why.str();
-  return false;
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
 }
 
 std::vector<std::pair<double, double>> ProfilePolyline(const Terrain& t, double max_piece_m) {

@@ -1,20 +1,22 @@
 #include "upright/runner/modules.hpp"
 
+#include <memory>
+#include <string>
+#include <utility>
+
 #include "upright/model/check.hpp"
 
 namespace upright::runner {
 namespace {
 
 LoadedModule Load(const ControllerEntry& entry, const std::vector<std::string>& dirs) {
-  std::string error;  // the host's lookup and loader say what is wrong here
   std::string path = entry.module;
   if (entry.builtin) {
-    path = host::FindBuiltinModule(entry.module, dirs, &error);
-    if (path.empty()) return Failure(error);
+    Result<std::string> found = host::FindBuiltinModule(entry.module, dirs);
+    if (!found) return Failure(std::move(found.error()));
+    path = std::move(*found);
   }
-  std::shared_ptr<host::Module> module = host::Module::Load(path, &error);
-  if (!module) return Failure(error);
-  return module;
+  return host::Module::Load(path);
 }
 
 }  // namespace

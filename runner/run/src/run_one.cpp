@@ -145,7 +145,6 @@ std::function<void(int, double, std::string_view)> LogInto(ModuleLogRecorder* re
 Result<RunStart> StartRun(const Scenario& scenario, std::size_t controller, std::uint64_t seed,
                           const std::shared_ptr<host::Module>& module, ModuleLogRecorder* log) {
   const ControllerEntry& entry = scenario.controllers.at(controller);
-  std::string error;  // the host and the plant say what is wrong here
   RunStart start;
   // The controller first: the plant's drive mode is the module's.
   host::ControllerSpec spec;
@@ -154,8 +153,10 @@ Result<RunStart> StartRun(const Scenario& scenario, std::size_t controller, std:
   spec.rate_hz = entry.rate_hz;
   spec.true_state = entry.true_state;
   spec.log = LogInto(log);
-  start.host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
-  if (!start.host) return Failure(error);
+  Result<std::unique_ptr<host::ControllerHost>> created =
+      host::ControllerHost::Create(spec, scenario.model, scenario.dt_s);
+  if (!created) return Failure(created.error());
+  start.host = std::move(*created);
 
   sim::PlantOptions plant_options;
   plant_options.dt_s = scenario.dt_s;
@@ -165,16 +166,18 @@ Result<RunStart> StartRun(const Scenario& scenario, std::size_t controller, std:
   plant_options.drive = start.host->drive();
   plant_options.seed = seed;
   plant_options.sensor_noise = scenario.sensor_noise;
-  start.plant = sim::Plant::Create(scenario.built_model(), plant_options, &error);
-  if (!start.plant) return Failure(error);
+  Result<std::unique_ptr<sim::Plant>> plant =
+      sim::Plant::Create(scenario.built_model(), plant_options);
+  if (!plant) return Failure(plant.error());
+  start.plant = std::move(*plant);
   for (const auto& p : scenario.pushes) {
-    if (!start.plant->AddPush(p, &error)) return Failure(error);
+    if (Status added = start.plant->AddPush(p); !added) return Failure(added.error());
   }
   for (const auto& f : scenario.motor_faults) {
-    if (!start.plant->AddMotorFault(f, &error)) return Failure(error);
+    if (Status added = start.plant->AddMotorFault(f); !added) return Failure(added.error());
   }
   for (const auto& f : scenario.sensor_faults) {
-    if (!start.plant->AddSensorFault(f, &error)) return Failure(error);
+    if (Status added = start.plant->AddSensorFault(f); !added) return Failure(added.error());
   }
   return start;
 }

@@ -106,17 +106,16 @@ bool ReadRobot(XmlElement& root, ReadContext& context, Scenario* scenario,
   }
   // The robot's rates are checked against this scenario's own step (CheckRobotRates), not the
   // default one.
-  ModelLoadResult loaded =
-      LoadModelFile(scenario->model_path, ModelLoadOptions{.check_default_step = false});
-  if (!loaded.ok()) {
+  auto loaded = LoadModelFile(scenario->model_path, ModelLoadOptions{.check_default_step = false});
+  if (!loaded) {
     context.FieldError(*robot, "file", Quote(*file),
-                       "the robot model has " + std::to_string(loaded.errors.size()) +
-                           (loaded.errors.size() == 1 ? " problem" : " problems") +
+                       "the robot model has " + std::to_string(loaded.error().size()) +
+                           (loaded.error().size() == 1 ? " problem" : " problems") +
                            " (listed after this file's)");
-    *model_errors = std::move(loaded.errors);
+    *model_errors = std::move(loaded.error());
     return false;
   }
-  scenario->model = std::move(loaded.model);
+  scenario->model = std::move(*loaded);
   return true;
 }
 

@@ -58,13 +58,12 @@ void CheckTerrain(const Terrain& terrain, XmlElement& ground,
                   const std::vector<ReadSegment>& segments,
                   const std::vector<std::pair<XmlElement, bool>>& regions,
                   const ReadContext& context) {
-  std::string error;
   bool all_valid = true;
   Terrain probe = terrain;
   probe.segments.clear();
   probe.friction_regions.clear();
-  if (!probe.IsValid(&error)) {
-    context.Error(ground, error);
+  if (Status valid = probe.Validate(); !valid) {
+    context.Error(ground, valid.error());
     all_valid = false;
   }
   probe = Terrain();
@@ -75,8 +74,8 @@ void CheckTerrain(const Terrain& terrain, XmlElement& ground,
     }
     probe.segments.assign(i, ProfileSegment{SegmentKind::kPlateau, 1, 0});
     probe.segments.push_back(segments[i].segment);
-    if (!probe.IsValid(&error)) {
-      context.Error(segments[i].element, error);
+    if (Status valid = probe.Validate(); !valid) {
+      context.Error(segments[i].element, valid.error());
       all_valid = false;
     }
   }
@@ -88,12 +87,13 @@ void CheckTerrain(const Terrain& terrain, XmlElement& ground,
     }
     probe.friction_regions.assign(i, FrictionRegion{0, 1, 0.5});
     probe.friction_regions.push_back(terrain.friction_regions[i]);
-    if (!probe.IsValid(&error)) {
-      context.Error(regions[i].first, error);
+    if (Status valid = probe.Validate(); !valid) {
+      context.Error(regions[i].first, valid.error());
       all_valid = false;
     }
   }
-  if (all_valid && !terrain.IsValid(&error)) context.Error(ground, error);
+  if (!all_valid) return;
+  if (Status valid = terrain.Validate(); !valid) context.Error(ground, valid.error());
 }
 
 }  // namespace

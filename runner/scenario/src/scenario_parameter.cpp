@@ -200,10 +200,9 @@ Status InRun(double start_s, double duration_s, const char* what) {
 
 // The timeline's events: each one's own rules and its start within the run.
 Status CheckEvents(const Scenario& s) {
-  std::string why;  // the events' own checks say what is wrong here
   const ChassisModel& chassis = s.built_model().chassis;
   for (const auto& p : s.pushes) {
-    if (!p.IsValid(&why)) return Failure(why);
+    if (Status valid = p.Validate(); !valid) return valid;
     if (Status in_run = InRun(p.start_s, s.duration_s, "push"); !in_run) return in_run;
     const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
     if (!NoMoreThan(chassis.outline_bottom_m, p.height_m, scale_m) ||
@@ -222,11 +221,11 @@ Status CheckEvents(const Scenario& s) {
     if (!(d.ramp_s >= 0)) return Failure("drive change ramp_s must be >= 0");
   }
   for (const auto& f : s.motor_faults) {
-    if (!f.IsValid(&why)) return Failure(why);
+    if (Status valid = f.Validate(); !valid) return valid;
     if (Status in_run = InRun(f.start_s, s.duration_s, "motor fault"); !in_run) return in_run;
   }
   for (const auto& f : s.sensor_faults) {
-    if (!f.IsValid(&why)) return Failure(why);
+    if (Status valid = f.Validate(); !valid) return valid;
     if (Status in_run = InRun(f.start_s, s.duration_s, "sensor fault"); !in_run) return in_run;
   }
   return {};
@@ -234,15 +233,14 @@ Status CheckEvents(const Scenario& s) {
 
 // What a changed scenario must still keep; its timeline lists sorted by start time again.
 Status Check(Scenario& s) {
-  std::string why;  // the terrain's own check says what is wrong here
-  if (!s.terrain.IsValid(&why)) return Failure(why);
+  if (Status valid = s.terrain.Validate(); !valid) return valid;
   if (Status events = CheckEvents(s); !events) return events;
   if (!(std::abs(s.initial.pitch_rad) < kPi / 2)) {
     return Failure("start pitch_deg must be in (-90, 90)");
   }
   if (s.plant_model) {
-    const auto problems = ValidateModel(*s.plant_model);
-    if (!problems.empty()) return Failure("robot: " + problems.front());
+    const auto valid_model = ValidateModel(*s.plant_model);
+    if (!valid_model) return Failure("robot: " + valid_model.error().front());
   }
   if (Status travel = PayloadWithinTravel(s); !travel) return travel;
   // Keep every timeline list in start-time order, as the timeline expects.
@@ -286,12 +284,7 @@ Result<double> GetScenarioParameter(const Scenario& scenario, const std::string&
   if (!p) return Failure(p.error());
   std::string element;
   if (RobotElement(*p, &element)) {
-    double value = 0;
-    std::string why;  // the robot model's field lookup says what is wrong here
-    if (!GetModelField(scenario.built_model(), element, p->attribute, &value, &why)) {
-      return Failure(why);
-    }
-    return value;
+    return GetModelField(scenario.built_model(), element, p->attribute);
   }
   Scenario copy = scenario;  // FindSlot hands out pointers into a scenario it may change
   const Result<Slot> slot = FindSlot(copy, *p);
@@ -308,9 +301,8 @@ Status SetScenarioParameter(Scenario* scenario, const std::string& path, double 
   std::string element;
   if (RobotElement(*p, &element)) {
     RobotModel robot = changed.built_model();
-    std::string why;  // the robot model's field setter says what is wrong here
-    if (!SetModelField(&robot, element, p->attribute, value, &why)) {
-      return Failure(path + " = " + Num(value) + ": " + why);
+    if (Status set = SetModelField(&robot, element, p->attribute, value); !set) {
+      return Failure(path + " = " + Num(value) + ": " + set.error());
     }
     changed.plant_model = robot;
   } else {

@@ -64,8 +64,9 @@ void ReadPush(XmlElement element, const ReadContext& context, std::vector<sim::P
   const double default_height_m =
       context.model != nullptr ? context.model->chassis.com_height_m : push.height_m;
   push.height_m = OptionalNumber(element, "height_m", default_height_m, &ok);
-  std::string error;
-  if (ok && !push.IsValid(&error)) context.Error(element, error);
+  if (ok) {
+    if (Status valid = push.Validate(); !valid) context.Error(element, valid.error());
+  }
   if (ok && context.model != nullptr) {
     const ChassisModel& chassis = context.model->chassis;
     const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
@@ -190,8 +191,9 @@ void ReadMotorFault(XmlElement element, const ReadContext& context,
                        "must be in [0, 1] (1 healthy, 0 dead)");
   }
   ok = ok && scale_read && fault.torque_scale >= 0 && fault.torque_scale <= 1;
-  std::string error;
-  if (ok && !fault.IsValid(&error)) context.Error(element, error);
+  if (ok) {
+    if (Status valid = fault.Validate(); !valid) context.Error(element, valid.error());
+  }
   faults->push_back(fault);
 }
 
@@ -229,8 +231,9 @@ void ReadSensorFault(XmlElement element, const ReadContext& context,
                        "must be > 0 (leave it out for a fault that lasts to the end)");
     ok = false;
   }
-  std::string error;
-  if (ok && !fault.IsValid(&error)) context.Error(element, error);
+  if (ok) {
+    if (Status valid = fault.Validate(); !valid) context.Error(element, valid.error());
+  }
   faults->push_back(fault);
 }
 

@@ -133,9 +133,10 @@ Result<TwinRun> RunLinearTwin(const Scenario& scenario, std::size_t controller,
       module_log->Add(level, time_s, text);
     };
   }
-  std::string error;  // the host says what is wrong here
-  const auto host = host::ControllerHost::Create(spec, scenario.model, scenario.dt_s, &error);
-  if (!host) return Failure(error);
+  Result<std::unique_ptr<host::ControllerHost>> created =
+      host::ControllerHost::Create(spec, scenario.model, scenario.dt_s);
+  if (!created) return Failure(created.error());
+  const std::unique_ptr<host::ControllerHost> host = std::move(*created);
 
   const design::InputKind input = host->drive() == sim::DriveMode::kTorque
                                       ? design::InputKind::kTorque

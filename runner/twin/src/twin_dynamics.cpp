@@ -24,9 +24,11 @@ TwinDynamics::TwinDynamics(const RobotModel& model, design::InputKind input, dou
     x_part_.push_back(std::cos(p.direction_deg * kPi / 180));
     inputs.col(design::kInputs + static_cast<int>(e_.size()) - 1) = e_.back();
   }
-  Eigen::MatrixXd Ad, inputs_d;
-  design::DiscretiseZoh(linear_.A, inputs, dt_s, &Ad, &inputs_d);
-  Ad_ = Ad;
+  // A model the plant accepted linearises to finite matrices, and dt_s is checked above.
+  const auto sampled = design::DiscretiseZoh(linear_.A, inputs, dt_s);
+  UPRIGHT_CHECK(sampled.has_value(), "%s", sampled.error().message.c_str());
+  Ad_ = sampled->Ad;
+  const Eigen::MatrixXd& inputs_d = sampled->Bd;
   Bd_ = inputs_d.leftCols(design::kInputs);
   for (int j = 0; j < n; ++j) ed_.push_back(inputs_d.col(design::kInputs + j));
 }

@@ -40,8 +40,6 @@ struct Performance {
 };
 
 struct LoopAnalysis {
-  bool ok = false;
-  std::string message = "not analysed";
   std::vector<std::complex<double>> poles;  // closed loop, s-plane, sorted by real part
   double push_norm = 0;                     // ‖T_zw‖∞ (inf when unstable)
   LoopMargins margins;                      // worst over the two input channels
@@ -50,8 +48,10 @@ struct LoopAnalysis {
 
 // States the controller never reads and that act on nothing else (position and heading, for a
 // controller of speed and yaw rate) are left out of the analysis and of the push norm's weights:
-// they only integrate other states.
-LoopAnalysis AnalyseLoop(const LinearModel& plant, const Measurement& measurement,
-                         const LinearController& controller, const Performance& performance);
+// they only integrate other states. A failure (an algebraic loop, an unstable loop, margins or
+// norm not computed) keeps what was found: an unstable loop's poles, with an infinite push norm.
+AnalysisResult<LoopAnalysis> AnalyseLoop(const LinearModel& plant, const Measurement& measurement,
+                                         const LinearController& controller,
+                                         const Performance& performance);
 
 }  // namespace upright::design

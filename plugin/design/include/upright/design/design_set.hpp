@@ -24,8 +24,9 @@ struct DesignRequest {
   double push_height_m = -1;    // < 0: at the lumped COM height
   double push_scale_N = 0;      // w = 1 means this push; 0 = 10 % of the robot's weight
   DesignWeights weights;
-  // True when valid; otherwise false and the first broken rule in *error.
-  bool IsValid(std::string* error) const;
+  // The first broken rule ("DesignRequest::gamma_factor = 1, must be > 1"); success when there is
+  // none.
+  Status Validate() const;
 };
 
 // What a controller's design came to: made with its sampled loop stable (or not analysed, PID);

@@ -32,15 +32,18 @@ struct LqgFilter {
   Eigen::MatrixXd L_discrete;   // measurement update x̂ ← x̂⁻ + L (y − C x̂⁻ − D u)
   Eigen::MatrixXd P_discrete;   // its a-priori error covariance
   Eigen::MatrixXd L;            // continuous Kalman–Bucy gain for the same noise (the analysis)
-  SolveFailure failure = SolveFailure::kInvalidInput;
-  std::string message = "not designed";
-  bool ok() const { return failure == SolveFailure::kNone; }
 };
 
-// The filter at period_s on `plant` (torque or voltage input). `torque_plant` is the same robot
-// with torque input: its yaw row turns the yaw torque into yaw acceleration.
-LqgFilter DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
-                          const LinearModel& torque_plant, const FilterNoise& noise,
-                          double period_s);
+// The filter's sensors: LineariseSensors with the accelerometer's variance widened by the
+// disturbances it feels directly (see lqg_filter.cpp).
+SensorLinearisation FilterSensors(const RobotModel& model, const LinearModel& plant,
+                                  const FilterNoise& noise);
+
+// The filter at period_s on `plant` (torque or voltage input), or why the Kalman designs failed.
+// `torque_plant` is the same robot with torque input: its yaw row turns the yaw torque into yaw
+// acceleration.
+Result<LqgFilter, SolveError> DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
+                                              const LinearModel& torque_plant,
+                                              const FilterNoise& noise, double period_s);
 
 }  // namespace upright::design

@@ -9,6 +9,7 @@
 
 #include "upright/design/linear_model.hpp"
 #include "upright/design/lqg_filter.hpp"
+#include "upright/design/riccati.hpp"
 #include "upright/design/synthesis.hpp"
 
 namespace upright::design {
@@ -20,8 +21,10 @@ struct SampledPoles {
   bool analysed() const { return period_s > 0; }
 };
 
-// u_k = −K x_k held over [kT, (k+1)T): the poles of Ad − Bd K.
-SampledPoles SampledStateFeedback(const LinearModel& plant, const Gain& K, double period_s);
+// u_k = −K x_k held over [kT, (k+1)T): the poles of Ad − Bd K, or why the plant could not be
+// sampled at period_s.
+Result<SampledPoles, SolveError> SampledStateFeedback(const LinearModel& plant, const Gain& K,
+                                                      double period_s);
 
 // u_k = −K x̂_k with the lqg module's filter (a-priori form): p_k = Ad x̂_{k−1} + Bd u_{k−1},
 // x̂_k = p_k + L (y_k − C p_k − D u_{k−1}), y_k = C x_k + D u_{k−1}; `filter` designed at

@@ -7,6 +7,7 @@
 
 #include <string>
 
+#include "upright/base/result.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/model/robot_model.hpp"
 
@@ -20,9 +21,8 @@ struct DesignWeights {
   double max_yaw_deg = 20;            // heading error
   double max_yaw_rate_deg_s = 45;     // yaw-rate error
   double max_input_fraction = 0.3;    // of the per-wheel input limit (InputLimit), in (0, 1]
-  // True when valid; otherwise false and the broken rule in *error
-  // ("DesignWeights::max_tilt_deg = 0, must be > 0").
-  bool IsValid(std::string* error) const;
+  // The broken rule ("DesignWeights::max_tilt_deg = 0, must be > 0"); success when there is none.
+  Status Validate() const;
 };
 
 // The largest per-wheel input: the stall torque at the wheel, n η K_t min(V_supply / R, I_max),

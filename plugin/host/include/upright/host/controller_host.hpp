@@ -11,6 +11,7 @@
 #include <utility>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/host/module.hpp"
 #include "upright/model/robot_model.hpp"
 #include "upright/sim/motor.hpp"
@@ -38,11 +39,10 @@ struct Reference {
 class ControllerHost {
  public:
   // Creates the module instance for `model` (its parameters and linear model go in). `dt_s` is
-  // the plant's physics step; the controller period must be a whole number of them. Returns null
-  // and sets *error (naming the module) when the spec is invalid or the module refuses.
-  static std::unique_ptr<ControllerHost> Create(const ControllerSpec& spec,
-                                                const RobotModel& model, double dt_s,
-                                                std::string* error);
+  // the plant's physics step; the controller period must be a whole number of them. A failure
+  // naming the module when the spec is invalid or the module refuses.
+  static Result<std::unique_ptr<ControllerHost>> Create(const ControllerSpec& spec,
+                                                        const RobotModel& model, double dt_s);
   ~ControllerHost();
   ControllerHost(const ControllerHost&) = delete;
   ControllerHost& operator=(const ControllerHost&) = delete;
@@ -59,8 +59,9 @@ class ControllerHost {
   // command() until the next tick. False once the module has faulted (hold zero then).
   bool Tick(long step, const sim::SensorSample& sensed, const sim::TrueState* truth,
             const Reference& reference);
-  // Back to the state just after creation, for a new run.
-  bool Reset(std::string* error);
+  // Back to the state just after creation, for a new run; a failure naming the module when it
+  // refuses.
+  Status Reset();
 
   bool faulted() const { return !fault_.empty(); }
   const std::string& fault() const { return fault_; }

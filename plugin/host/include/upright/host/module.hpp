@@ -7,15 +7,17 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/controller_abi.h"
 
 namespace upright::host {
 
 class Module {
  public:
-  // Loads `path` (dlopen) and checks the entry symbol, the ABI version, the table's size and every
-  // function. Returns null and a message naming the file and what is wrong.
-  static std::shared_ptr<Module> Load(const std::string& path, std::string* error);
+  // Loads `path` (dlopen), calls its entry function (an exception escaping it is refused too) and
+  // checks the ABI version, the table's size and every function. A failure names the file and
+  // what is wrong.
+  static Result<std::shared_ptr<Module>> Load(const std::string& path);
   ~Module();
   Module(const Module&) = delete;
   Module& operator=(const Module&) = delete;
@@ -37,8 +39,8 @@ class Module {
 // default), and the build tree's module folder.
 const std::vector<std::string>& BuiltinModuleNames();
 std::vector<std::string> DefaultModuleDirs();
-// The path of built-in `name`, or "" with *error listing where it looked.
-std::string FindBuiltinModule(const std::string& name, const std::vector<std::string>& search_dirs,
-                              std::string* error);
+// The path of built-in `name`, or a failure listing where it looked.
+Result<std::string> FindBuiltinModule(const std::string& name,
+                                      const std::vector<std::string>& search_dirs);
 
 }  // namespace upright::host

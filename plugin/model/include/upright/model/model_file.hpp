@@ -7,6 +7,7 @@
 #include <string_view>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/model/file_error.hpp"
 #include "upright/model/robot_model.hpp"
 
@@ -21,23 +22,19 @@ struct ModelLoadOptions {
   bool check_default_step = true;
 };
 
-struct ModelLoadResult {
-  RobotModel model;               // meaningful only when ok()
-  std::vector<FileError> errors;  // every problem found, in file order
-  bool ok() const { return errors.empty(); }
-};
-
-// Reads and validates a model file.
-ModelLoadResult LoadModelFile(const std::string& path, const ModelLoadOptions& options = {});
+// Reads and validates a model file: the model, or every problem found, in file order.
+Result<RobotModel, std::vector<FileError>> LoadModelFile(const std::string& path,
+                                                         const ModelLoadOptions& options = {});
 
 // Same, from text already in memory; `path` is used only in messages.
-ModelLoadResult ParseModelText(std::string_view xml_text, const std::string& path,
-                               const ModelLoadOptions& options = {});
+Result<RobotModel, std::vector<FileError>> ParseModelText(std::string_view xml_text,
+                                                          const std::string& path,
+                                                          const ModelLoadOptions& options = {});
 
 // Checks a model built in code against the same rules as the file loader, but for the default
-// step's (a plant checks the rates against its own step). Returns one message per broken rule
-// ("chassis mass_kg = -1: must be > 0"); empty when valid.
-std::vector<std::string> ValidateModel(const RobotModel& model);
+// step's (a plant checks the rates against its own step). Fails with one message per broken rule
+// ("chassis mass_kg = -1: must be > 0").
+Result<void, std::vector<std::string>> ValidateModel(const RobotModel& model);
 
 // The schema as a Markdown table (element, attribute, unit, default, allowed range, meaning),
 // generated from the same table the loader uses; models/README.md embeds it.

@@ -6,6 +6,8 @@
 #include <limits>
 #include <string>
 
+#include "upright/base/result.hpp"
+
 namespace upright::sim {
 
 // Faults are on or off for whole physics steps (pushes, by contrast, act with their exact mean
@@ -27,8 +29,8 @@ struct MotorFault {
   double start_s = 0;
   MotorSide side = MotorSide::kLeft;
   double torque_scale = 0;  // in [0, 1]
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
-  bool IsValid(std::string* error) const;
+  // The broken rule, naming the field and value; success when there is none.
+  Status Validate() const;
 };
 
 enum class SensorChannel {
@@ -56,8 +58,8 @@ struct SensorFault {
   SensorChannel channel = SensorChannel::kGyroY;
   SensorFaultKind kind = SensorFaultKind::kBias;
   double value = 0;  // kBias only (must be finite then); other kinds ignore it
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
-  bool IsValid(std::string* error) const;
+  // The broken rule, naming the field and value; success when there is none.
+  Status Validate() const;
 };
 
 // Names as written in files and tables: "left", "right", "both"; "gyro_x" … "accel_z",

@@ -10,6 +10,7 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
 #include "upright/model/robot_model.hpp"
 #include "upright/sim/faults.hpp"
 #include "upright/sim/motor.hpp"
@@ -36,9 +37,9 @@ struct PlantOptions {
   bool fixed_chassis = false;     // test stand: chassis held in the air, wheels spin freely
   double fixed_height_m = 1.0;    // fixed_chassis: axle height above the ground
   double chassis_friction = 0.5;  // chassis and payload against the ground (after a fall)
-  // True when valid; otherwise false and the first broken rule in *error
-  // ("PlantOptions::dt_s = -0.001, must be > 0").
-  bool IsValid(std::string* error) const;
+  // The first broken rule ("PlantOptions::dt_s = -0.001, must be in (0, 0.01]"); success when
+  // there is none.
+  Status Validate() const;
 };
 
 // The exact state of the robot (the "perfect sensing" view), world frame unless stated.
@@ -87,9 +88,9 @@ class PlantImpl;
 
 class Plant {
  public:
-  // Builds the world. Returns null and sets *error when the model or options are invalid.
-  static std::unique_ptr<Plant> Create(const RobotModel& model, const PlantOptions& options,
-                                       std::string* error);
+  // Builds the world; a failure naming the broken rule when the model or options are invalid.
+  static Result<std::unique_ptr<Plant>> Create(const RobotModel& model,
+                                               const PlantOptions& options);
   ~Plant();
   Plant(const Plant&) = delete;
   Plant& operator=(const Plant&) = delete;
@@ -97,15 +98,15 @@ class Plant {
   // Wheel commands, [left, right], in volts or newton-metres (PlantOptions::drive); held until
   // changed (zero-order hold).
   void SetCommand(double left, double right);
-  // A push, evaluated at every step it overlaps. False (and *error) when the push is invalid.
-  bool AddPush(const Push& push, std::string* error);
+  // A push, evaluated at every step it overlaps. A failure when the push is invalid.
+  Status AddPush(const Push& push);
   // A motor fault, acting on every step from FirstStepAtOrAfter(start_s, dt_s) on; motors()
-  // reports the faulted current, torque and power. False (and *error) when it is invalid.
-  bool AddMotorFault(const MotorFault& fault, std::string* error);
+  // reports the faulted current, torque and power. A failure when it is invalid.
+  Status AddMotorFault(const MotorFault& fault);
   // A sensor fault on the samples of the states in its window (faults.hpp), seen through Sense()
   // after the latency; one starting at 0 added before the first Step() covers the initial sample
-  // too. False (and *error) when it is invalid.
-  bool AddSensorFault(const SensorFault& fault, std::string* error);
+  // too. A failure when it is invalid.
+  Status AddSensorFault(const SensorFault& fault);
   // Payload carriage target along the deck, body x (m); clamped to the travel limits.
   void SetPayloadTarget(double x_m);
   // Advances one physics step of PlantOptions::dt_s.

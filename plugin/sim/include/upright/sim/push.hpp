@@ -4,6 +4,8 @@
 
 #include <string>
 
+#include "upright/base/result.hpp"
+
 namespace upright::sim {
 
 enum class PushShape {
@@ -26,8 +28,8 @@ struct Push {
   // pulse delivers the same impulse whatever its alignment with the physics steps.
   double MeanForce(double t0_s, double t1_s) const;
   double end_s() const { return start_s + duration_s; }
-  // True when valid; otherwise false and the broken rule in *error, naming the field and value.
-  bool IsValid(std::string* error) const;
+  // The broken rule, naming the field and value; success when there is none.
+  Status Validate() const;
 };
 
 const char* ToString(PushShape shape);

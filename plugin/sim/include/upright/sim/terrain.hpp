@@ -5,6 +5,8 @@
 #include <string>
 #include <vector>
 
+#include "upright/base/result.hpp"
+
 namespace upright::sim {
 
 enum class TerrainKind {
@@ -47,9 +49,9 @@ struct Terrain {
   double HeightAt(double x_m) const;
   // Ground slope dz/dx at x (0 at a curb's vertical face).
   double SlopeAt(double x_m) const;
-  // True when valid; otherwise false and the first broken rule in *error, naming the field and
-  // value ("Terrain::slope_deg = 50, must be in (-45, 45)").
-  bool IsValid(std::string* error) const;
+  // The first broken rule, naming the field and value ("Terrain::slope_deg = 50, must be in
+  // (-45, 45)"); success when there is none.
+  Status Validate() const;
 };
 
 // The (x, z) polyline of a profile terrain, from -extent/4 to its end + extent; bumps are
