@@ -1,8 +1,9 @@
 # Runs end to end: the timeline's event timing, one run's statuses and trace, what its module
-# logged, and a batch whose tables do not depend on the number of jobs. Reaches the internal
-# Timeline on purpose; counts allocations (allocation_count.cpp).
+# logged, ParallelFor, and a batch whose tables do not depend on the number of jobs. Reaches the
+# internal Timeline on purpose; counts allocations (allocation_count.cpp).
 upright_test(upright_runner_run_test
   SOURCES timeline_test.cpp run_one_test.cpp batch_test.cpp module_log_run_test.cpp
+          parallel_for_test.cpp
           allocation_count.cpp
   LIBS upright::runner)
 target_include_directories(upright_runner_run_test PRIVATE ${PROJECT_SOURCE_DIR}/runner/run/src)
