@@ -124,7 +124,7 @@ bool StableAt(const LinearModel& plant, const SampledLaw& law, double period_s,
 // the delay).
 double ExactDelayMargin(const LinearModel& plant, const SampledLaw& law, double period_s,
                         double latency_s, const std::vector<int>& inputs, double estimate) {
-  constexpr double kMaxPeriods = 100;
+  constexpr double kMaxPeriods = 20;
   if (!std::isfinite(estimate) || estimate > kMaxPeriods * period_s) return estimate;
   const auto stable = [&](double extra_s) {
     std::vector<double> delays(kInputs, latency_s);
@@ -188,6 +188,12 @@ AnalysisResult<SampledMargins> AnalyseSampledMargins(const LinearModel& plant,
   const auto stopped = [&out](const std::string& why) {
     return Failure(AnalysisFailure<SampledMargins>{"sampled margins: " + why, out});
   };
+  // The scans grow with the cube of the loop's states, which grow with the latency.
+  constexpr int kMaxLatencyPeriods = 10;
+  if (latency_s > kMaxLatencyPeriods * period_s) {
+    return stopped("not analysed beyond a latency of " + std::to_string(kMaxLatencyPeriods) +
+                   " periods");
+  }
   const std::vector<double> nominal(kInputs, latency_s);
   const Result<DelayedLoop, SolveError> loop = SampledDelayedLoop(plant, law, period_s, nominal);
   if (!loop) return stopped(loop.error().message);

@@ -18,21 +18,46 @@ void Finish(ControllerReport* report, const LinearModel& plant, const Measuremen
   report->message = analysis ? "ok" : analysis.error().message;
 }
 
-// The loop as the module samples it into the report; a plant that cannot be sampled fails the
-// design.
-void NoteSampled(ControllerReport* report, const Result<SampledPoles, SolveError>& sampled) {
-  if (sampled) {
-    report->sampled = *sampled;
-    return;
-  }
-  report->ok = false;
-  report->message = sampled.error().message;
-}
-
 // The delay the report's figures leave out (see ControllerReport::unanalysed_delay_s). A
 // zero-order hold lags like a delay of half its period (common practice).
 void NoteUnanalysedDelay(ControllerReport* report, double latency_s, double period_s) {
-  report->unanalysed_delay_s = latency_s + (report->sampled.analysed() ? 0 : period_s / 2);
+  report->unanalysed_delay_s = report->sampled.analysed() ? 0 : latency_s + period_s / 2;
+}
+
+// The loop as the module samples it, with the sensors' latency, into the report: its poles and
+// margins. A plant that cannot be sampled fails the design; margins that stop short keep what
+// they found.
+template <class Report>
+void NoteSampledWithLatency(Report* report, const LinearModel& plant, const SampledLaw& law,
+                            double period_s, double latency_s) {
+  const Result<DelayedLoop, SolveError> loop =
+      SampledDelayedLoop(plant, law, period_s, std::vector<double>(kInputs, latency_s));
+  if (!loop) {
+    report->ok = false;
+    report->message = loop.error().message;
+    return;
+  }
+  report->sampled = loop->poles;
+  if (!(loop->poles.max_abs_z < 1)) return;  // no margins for an unstable loop
+  const AnalysisResult<SampledMargins> margins =
+      AnalyseSampledMargins(plant, law, period_s, latency_s);
+  report->sampled_margins = margins ? *margins : margins.error().found;
+}
+
+// The discrete LQR on the delay-augmented model and its sampled loop with the latency.
+void DesignDelayAwareLqr(DelayAwareLqrReport* report, const LinearModel& plant,
+                         const Performance& perf, double period_s, double latency_s) {
+  const Result<Eigen::MatrixXd, SolveError> gain =
+      RobotDelayedLqr(plant, perf.Q, perf.R, period_s, latency_s);
+  if (!gain) {
+    report->message = gain.error().message;
+    return;
+  }
+  report->K = *gain;
+  report->memory = static_cast<int>((gain->cols() - kStates) / kInputs);
+  report->ok = true;
+  report->message = "ok";
+  NoteSampledWithLatency(report, plant, SampledLaw{*gain, report->memory}, period_s, latency_s);
 }
 
 }  // namespace
@@ -89,6 +114,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     req.push_scale_N = 0.1 * model.total_mass_kg() * kStandardGravity_m_s2;
   }
   const double period_s = 1 / req.rate_hz;
+  const double latency_s = model.sensors.latency_s;
   Performance& perf = set.performance;
   perf.Q = StateWeight(req.weights);
   perf.R = InputWeight(req.weights, model, req.input);
@@ -102,7 +128,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     set.lqr.K = *lqr;
     set.lqr.K_discrete = *lqr_d;
     Finish(&set.lqr, plant, FullState(), StateFeedback(*lqr), perf);
-    NoteSampled(&set.lqr, SampledStateFeedback(plant, *lqr_d, period_s));
+    NoteSampledWithLatency(&set.lqr, plant, SampledLaw{*lqr_d}, period_s, latency_s);
   } else {
     set.lqr.message = lqr ? lqr_d.error().message : lqr.error().message;
   }
@@ -122,7 +148,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
       set.hinf.K = *hinf;
       Finish(&set.hinf, plant, FullState(), StateFeedback(*hinf), perf);
       // The hinf module applies the continuous gain at the sample rate.
-      NoteSampled(&set.hinf, SampledStateFeedback(plant, *hinf, period_s));
+      NoteSampledWithLatency(&set.hinf, plant, SampledLaw{*hinf}, period_s, latency_s);
       if (set.hinf.ok && !(set.hinf.loop.push_norm < req.gamma)) {
         set.hinf.ok = false;
         std::ostringstream why;
@@ -155,7 +181,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     set.lqg.K_discrete = *lqr_d;
     set.lqg.L = filter.L;
     set.lqg.L_discrete = filter.L_discrete;
-    set.lqg.sampled = SampledLqg(*lqr_d, filter, period_s);
+    NoteSampledWithLatency(&set.lqg, plant, SampledLaw{*lqr_d, 0, &filter}, period_s, latency_s);
     set.lqg.estimator_fastest_1_s =
         (plant.A - filter.L * filter.sensors.C).eigenvalues().cwiseAbs().maxCoeff();
     // x̂̇ = A x̂ + B u + L (y − C x̂ − D u), u = −K x̂.
@@ -180,10 +206,11 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     PidAsLinearController(set.pid.gains, &meas, &ctrl);
     Finish(&set.pid, plant, meas, ctrl, perf);
   }
+  DesignDelayAwareLqr(&set.lqr_delay_aware, plant, perf, period_s, latency_s);
   for (ControllerReport* report :
        {&set.lqr, static_cast<ControllerReport*>(&set.hinf),
         static_cast<ControllerReport*>(&set.lqg), static_cast<ControllerReport*>(&set.pid)}) {
-    NoteUnanalysedDelay(report, model.sensors.latency_s, period_s);
+    NoteUnanalysedDelay(report, latency_s, period_s);
   }
   return set;
 }

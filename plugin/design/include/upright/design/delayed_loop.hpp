@@ -37,7 +37,8 @@ Result<DelayedLoop, SolveError> SampledDelayedLoop(const LinearModel& plant, con
 // beyond the latency that destabilises the loop: found on the z^{−τ/T} phase crossings (exact at
 // whole periods), then made exact for the held input by stepping the delay-augmented loop by T/8
 // over the period on either side of it and bisecting the first unstable step (left at the
-// phase figure beyond 100 periods).
+// phase figure beyond 20 periods). Not analysed (a failure, period_s 0) for a latency of more than
+// 10 periods: the scans grow with the cube of the loop's states.
 struct SampledMargins {
   double period_s = 0;  // 0: not analysed
   double latency_s = 0;
