@@ -3,22 +3,18 @@
 // compiled program as a hexadecimal float (C99 %a, exact), equals the `--json` figure bit for bit.
 // Refusals of an unusable path happen before anything is designed or written.
 #include <gtest/gtest.h>
-#include <sys/wait.h>
-#include <unistd.h>
 
-#include <array>
-#include <cstdio>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <map>
+#include <nlohmann/json.hpp>
 #include <regex>
 #include <sstream>
 #include <string>
 #include <vector>
 
-#include <nlohmann/json.hpp>
-
+#include "program_output.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/model_file.hpp"
 #include "upright/runner/common/sha256.hpp"
@@ -28,36 +24,11 @@ namespace {
 namespace fs = std::filesystem;
 using Json = nlohmann::json;
 
-struct Ran {
-  int exit_code = -1;
-  std::string output;  // stdout (stderr too when the command sends it there)
-};
-
-Ran Shell(const std::string& command) {
-  Ran r;
-  FILE* pipe = popen(command.c_str(), "r");
-  if (pipe == nullptr) return r;
-  std::array<char, 4096> buffer;
-  size_t n;
-  while ((n = fread(buffer.data(), 1, buffer.size(), pipe)) > 0) r.output.append(buffer.data(), n);
-  const int status = pclose(pipe);
-  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return r;
-}
+using Ran = upright::test::ProgramOutput;
+using upright::test::RunShell;
 
 fs::path Scratch(const std::string& name) {
-  const fs::path dir =
-      fs::temp_directory_path() / ("upright_export_c_" + std::to_string(getpid())) / name;
-  fs::remove_all(dir);
-  fs::create_directories(dir);
-  return dir;
-}
-
-std::string Read(const fs::path& path) {
-  std::ifstream in(path, std::ios::binary);
-  std::ostringstream text;
-  text << in.rdbuf();
-  return text.str();
+  return upright::test::ScratchFolder("upright_export_c", name);
 }
 
 std::string Model(const std::string& name) {
@@ -144,8 +115,8 @@ const std::map<std::string, std::vector<std::string>>& JsonPaths() {
   return paths;
 }
 
-const std::string kCompile = std::string(UPRIGHT_C_COMPILER) +
-                             " -std=c99 -pedantic -Wall -Wextra -Werror ";
+const std::string kCompile =
+    std::string(UPRIGHT_C_COMPILER) + " -std=c99 -pedantic -Wall -Wextra -Werror ";
 
 // Exports the gains of `model` (with `flags`), compiles and runs the printer, and compares every
 // value with --json. Returns the header's text.
@@ -154,20 +125,19 @@ std::string ExportAndCompare(const std::string& model, const std::string& prefix
   const fs::path dir = Scratch(prefix + (flags.empty() ? "" : "flags"));
   const fs::path header = dir / "gains.h";
   const std::string program = std::string(UPRIGHT_EXE) + " design " + flags + " " + model;
-  const Ran exported = Shell(program + " --export-c " + header.string() + " 2>&1 >/dev/null");
+  const Ran exported = RunShell(program + " --export-c " + header.string() + " 2>&1 >/dev/null");
   EXPECT_TRUE(exported.exit_code == 0 || exported.exit_code == 3) << exported.output;
-  const Ran json_run = Shell(program + " --json 2>/dev/null");
+  const Ran json_run = RunShell(program + " --json 2>/dev/null");
   const Json json = Json::parse(json_run.output, nullptr, /*allow_exceptions=*/false);
   EXPECT_TRUE(json.is_object()) << json_run.output;
-  const std::string text = Read(header);
+  const std::string text = upright::test::ReadBytes(header);
   const std::vector<Declared> declared = Declarations(text);
   EXPECT_EQ(declared.size(), expected_values) << text;
 
   std::ofstream(dir / "print.c") << Printer("gains.h", declared);
-  const Ran compiled = Shell("cd " + dir.string() + " && " + kCompile +
-                             "print.c -o print 2>&1");
+  const Ran compiled = RunShell("cd " + dir.string() + " && " + kCompile + "print.c -o print 2>&1");
   EXPECT_EQ(compiled.exit_code, 0) << compiled.output;
-  const Ran printed = Shell((dir / "print").string());
+  const Ran printed = RunShell((dir / "print").string());
   EXPECT_EQ(printed.exit_code, 0);
   const auto values = Printed(printed.output);
 
@@ -206,8 +176,7 @@ TEST(ExportC, EveryValueCompilesAndEqualsTheJsonBitForBit) {
   // The input limit is the stall torque at the wheel, as the design library states it.
   const auto model = upright::model::LoadModelFile(Model("courier.xml"));
   ASSERT_TRUE(model.has_value());
-  const double limit =
-      upright::design::InputLimit(*model, upright::design::InputKind::kTorque);
+  const double limit = upright::design::InputLimit(*model, upright::design::InputKind::kTorque);
   const std::string declaration = "courier_input_limit COURIER_GAINS_UNUSED = ";
   const std::size_t at = text.find(declaration);
   ASSERT_NE(at, std::string::npos) << text;
@@ -225,24 +194,25 @@ TEST(ExportC, AnotherRateAndVoltageInputLeaveOutWhatIsNotOffered) {
 
 TEST(ExportC, TheHeaderCompilesWithNoGainUsed) {
   const fs::path dir = Scratch("unused");
-  const Ran exported = Shell(std::string(UPRIGHT_EXE) + " design " + Model("courier.xml") +
-                             " --export-c " + (dir / "gains.h").string() + " >/dev/null 2>&1");
+  const Ran exported = RunShell(std::string(UPRIGHT_EXE) + " design " + Model("courier.xml") +
+                                " --export-c " + (dir / "gains.h").string() + " >/dev/null 2>&1");
   ASSERT_EQ(exported.exit_code, 0);
   std::ofstream(dir / "none.c") << "#include \"gains.h\"\n#include \"gains.h\"\n"
                                    "int main(void) { return 0; }\n";
   const Ran compiled =
-      Shell("cd " + dir.string() + " && " + kCompile + "-c none.c -o none.o 2>&1");
+      RunShell("cd " + dir.string() + " && " + kCompile + "-c none.c -o none.o 2>&1");
   EXPECT_EQ(compiled.exit_code, 0) << compiled.output;
 }
 
 TEST(ExportC, APathThatCannotBeWrittenIsRefusedBeforeDesigning) {
   const fs::path dir = Scratch("refused");
   const std::string design = std::string(UPRIGHT_EXE) + " design " + Model("courier.xml");
-  const Ran missing = Shell(design + " --export-c " + (dir / "no/such/gains.h").string() + " 2>&1");
+  const Ran missing =
+      RunShell(design + " --export-c " + (dir / "no/such/gains.h").string() + " 2>&1");
   EXPECT_EQ(missing.exit_code, 2);
   EXPECT_NE(missing.output.find("does not exist"), std::string::npos) << missing.output;
   EXPECT_EQ(missing.output.find("LQR"), std::string::npos) << "designed anyway";
-  const Ran folder = Shell(design + " --export-c " + dir.string() + " 2>&1");
+  const Ran folder = RunShell(design + " --export-c " + dir.string() + " 2>&1");
   EXPECT_EQ(folder.exit_code, 2);
   EXPECT_NE(folder.output.find("is a folder"), std::string::npos) << folder.output;
   EXPECT_TRUE(fs::is_empty(dir));
