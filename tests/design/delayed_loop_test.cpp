@@ -101,7 +101,7 @@ TEST(DelayInputs, KeepsWholePeriodsAndRefusesBadDelays) {
 
 class DelayedLoopTest : public ::testing::TestWithParam<const char*> {
  protected:
-  RobotModel model_ = Demo(GetParam());
+  model::RobotModel model_ = Demo(GetParam());
   LinearModel plant_ = Linearise(model_, InputKind::kTorque);
   double period_s_ = 1 / model_.control_rate_hz;
   StateMatrix Q_ = StateWeight(DesignWeights{});

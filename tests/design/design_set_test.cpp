@@ -52,7 +52,7 @@ TEST(DesignSet, PidWithVoltageInputIsNotOfferedRatherThanFailed) {
 }
 
 TEST(DesignSet, UnanalysedDelayIsTheLatencyPlusHalfAPeriodWhereTheHoldIsNotAnalysed) {
-  RobotModel model = Demo("courier.xml");
+  model::RobotModel model = Demo("courier.xml");
   model.sensors.latency_s = 0.004;
   DesignRequest request;
   request.rate_hz = 50;
@@ -72,7 +72,7 @@ TEST(DesignSet, DelayMarginIsShortJustPastTheLatency) {
   // hold its continuous figures leave out) is the edge: a latency there leaves the loop on the
   // edge (not short), a latency past it is.
   // At 50 Hz the sampled loops analysed beside it hold few past inputs.
-  RobotModel model = Demo("courier.xml");
+  model::RobotModel model = Demo("courier.xml");
   model.sensors.latency_s = 0;
   DesignRequest request;
   request.rate_hz = 50;
@@ -102,7 +102,7 @@ TEST(DesignSet, LatencyPastTheSampledDelayMarginMakesTheDesignUnstableSampled) {
   // The latency is the same delay on both wheels, so the sampled both-wheels delay margin is the
   // latency the loop can still take: the H-infinity design (which does not depend on the latency)
   // stays ok just below latency + margin and is unstable as sampled just above.
-  RobotModel model = Demo("tabletop.xml");
+  model::RobotModel model = Demo("tabletop.xml");
   const DesignSet nominal = DesignAll(model, DesignRequest{});
   ASSERT_EQ(nominal.hinf.status(), DesignStatus::kOk) << nominal.hinf.message;
   const double total_s = model.sensors.latency_s + nominal.hinf.sampled_margins.both_wheels.delay_s;

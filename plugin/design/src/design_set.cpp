@@ -103,7 +103,7 @@ Status DesignRequest::Validate() const {
   return Failure(why.str());
 }
 
-DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
+DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request) {
   DesignSet set;
   set.request = request;
   DesignRequest& req = set.request;
@@ -111,7 +111,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
   set.plant = Linearise(model, req.input, req.push_height_m);
   const LinearModel& plant = set.plant;
   if (req.push_scale_N == 0) {
-    req.push_scale_N = 0.1 * model.total_mass_kg() * kStandardGravity_m_s2;
+    req.push_scale_N = 0.1 * model.total_mass_kg() * model::kStandardGravity_m_s2;
   }
   const double period_s = 1 / req.rate_hz;
   const double latency_s = model.sensors.latency_s;
@@ -181,6 +181,8 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     set.lqg.K_discrete = *lqr_d;
     set.lqg.L = filter.L;
     set.lqg.L_discrete = filter.L_discrete;
+    set.lqg.Ad = filter.Ad;
+    set.lqg.Bd = filter.Bd;
     NoteSampledWithLatency(&set.lqg, plant, SampledLaw{*lqr_d, 0, &filter}, period_s, latency_s);
     set.lqg.estimator_fastest_1_s =
         (plant.A - filter.L * filter.sensors.C).eigenvalues().cwiseAbs().maxCoeff();

@@ -68,6 +68,7 @@ struct LqgReport : ControllerReport {
   SensorLinearisation sensors;  // the filter's (DesignLqgFilter: accelerometer row widened)
   Eigen::MatrixXd L;            // continuous Kalman–Bucy gain (for the analysis)
   Eigen::MatrixXd L_discrete;   // discrete measurement-update gain: the lqg module's
+  Eigen::MatrixXd Ad, Bd;       // the plant the filter predicts with, at the sample period (ZOH)
   // The fastest continuous estimator pole, max |eig(A − L C)|. Beyond the Nyquist rate
   // π · rate_hz the module's sampled filter cannot follow the continuous one the figures analyse.
   double estimator_fastest_1_s = 0;
@@ -101,6 +102,6 @@ struct DesignSet {
   bool all_ok() const { return lqr.ok && hinf.ok && lqg.ok && pid.ok; }
 };
 
-DesignSet DesignAll(const RobotModel& model, const DesignRequest& request);
+DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request);
 
 }  // namespace upright::design
