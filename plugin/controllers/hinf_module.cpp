@@ -55,9 +55,6 @@ class HinfController {
     }
     // The continuous-time gain, applied at the module's rate: at the demo robots' control rates
     // (≥ 100 Hz, well above the closed-loop bandwidth) the sampling itself changes it little.
-    // Sampling together with the sensors' latency and the encoder rate's averaging does matter
-    // on voltage commands: on the courier robot with the estimated state the loop chatters at
-    // the Nyquist rate (±10 V at 100 Hz) while it balances.
     const Result<Eigen::MatrixXd, design::SolveError> hinf =
         design::RobotHinf(plant, Q, R, push_scale_N, gamma);
     if (!hinf) {
