@@ -15,8 +15,8 @@ namespace {
 // A motor of round numbers (not a demo robot's): stall torque at the current limit
 // n η K_t I = 20 × 0.85 × 0.06 × 20 = 20.4 N·m; the supply's headroom V_s − R I = 14 V of
 // back-EMF, K_e n ω = 1.2 V·s/rad × ω, is used up at ω = 11.67 rad/s.
-MotorModel Motor() {
-  MotorModel m;
+model::MotorModel Motor() {
+  model::MotorModel m;
   m.torque_constant_Nm_per_A = 0.06;
   m.back_emf_V_s_per_rad = 0.06;
   m.resistance_ohm = 0.5;
@@ -49,7 +49,7 @@ TEST(DriveLimits, TorqueIsTheStallTorqueAtRestAndTheSupplysHeadroomAtSpeed) {
 TEST(DriveLimits, AreWhereThePlantsDriveSaturates) {
   // At each speed, the plant's motor (friction left out) given a command at the range's end
   // delivers it, and given more delivers no more.
-  MotorModel m = Motor();
+  model::MotorModel m = Motor();
   const double band = 1e-3;
   for (design::InputKind kind : {design::InputKind::kTorque, design::InputKind::kVoltage}) {
     const DriveLimits limits(m, kind);

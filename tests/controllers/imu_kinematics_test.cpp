@@ -13,7 +13,7 @@
 namespace upright::controllers {
 namespace {
 
-constexpr double kG = kStandardGravity_m_s2;
+constexpr double kG = model::kStandardGravity_m_s2;
 
 // Pitch θ about body y (conventions.hpp: body x = (cos θ, 0, −sin θ) in the world).
 Eigen::Matrix3d Pitch(double theta) {

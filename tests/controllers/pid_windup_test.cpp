@@ -43,7 +43,7 @@ class PidWindup : public ::testing::Test {
 
   double Diagnostic(int slot) const { return host_->diagnostics()[slot]; }
 
-  RobotModel model_ = DemoRobot("courier");
+  model::RobotModel model_ = DemoRobot("courier");
   design::LinearModel plant_ = design::Linearise(model_, design::InputKind::kTorque);
   design::PidGains gains_ = design::TunePid(plant_, design::DesignWeights{}.max_tilt_deg);
   double stall_Nm_ = design::InputLimit(model_, design::InputKind::kTorque);

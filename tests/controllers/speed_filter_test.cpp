@@ -8,6 +8,7 @@
 
 #include <Eigen/Dense>
 #include <cmath>
+#include <numbers>
 
 #include "upright/model/conventions.hpp"
 
@@ -94,10 +95,10 @@ TEST(SpeedFilter, TakesTheQuantisationNoiseOfCoarseEncodersOutOfTheSpeed) {
   // Bennett, Bell System Technical Journal 27, 1948; from memory): σ = Δ / (T √6) = 12.8 mm/s.
   // The filter at the tracking index of that robot's accelerometer, λ = 0.0723: σ² = ratio ·
   // (Δ²/12) / T², the ratio from SpeedNoiseRatio (checked above), σ = 0.75 mm/s.
-  const double T = 0.01, count = 2 * kPi * 0.035 / 700;
+  const double T = 0.01, count = 2 * std::numbers::pi * 0.035 / 700;
   const SpeedGains gains = SpeedGains::ForTrackingIndex(0.0723);
   SpeedFilter filter(T, gains);
-  const double w = 2 * kPi * 0.7, swing = 0.05;
+  const double w = 2 * std::numbers::pi * 0.7, swing = 0.05;
   const auto travel = [&](double t) { return 0.3 * t + swing * std::sin(w * t); };
   const auto speed = [&](double t) { return 0.3 + swing * w * std::cos(w * t); };
   const auto accel = [&](double t) { return -swing * w * w * std::sin(w * t); };

@@ -12,11 +12,11 @@ int CutDirection(double wanted, double limited) {
 
 }  // namespace
 
-DriveLimits::DriveLimits(const MotorModel& motor, design::InputKind input)
+DriveLimits::DriveLimits(const model::MotorModel& motor, design::InputKind input)
     : motor_(motor), input_(input) {}
 
 CommandRange DriveLimits::At(double wheel_speed_rad_s) const {
-  const MotorModel& m = motor_;
+  const model::MotorModel& m = motor_;
   const double back_emf_V = m.back_emf_V_s_per_rad * m.gear_ratio * wheel_speed_rad_s;
   const double limit_A = m.current_limit_A, supply_V = m.supply_V, R = m.resistance_ohm;
   if (input_ == design::InputKind::kVoltage) {

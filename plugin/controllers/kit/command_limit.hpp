@@ -23,11 +23,11 @@ struct CommandRange {
 // The motor equations are those of the plant's drive (sim/motor.hpp), friction left out.
 class DriveLimits {
  public:
-  DriveLimits(const MotorModel& motor, design::InputKind input);
+  DriveLimits(const model::MotorModel& motor, design::InputKind input);
   CommandRange At(double wheel_speed_rad_s) const;
 
  private:
-  MotorModel motor_;
+  model::MotorModel motor_;
   design::InputKind input_;
 };
 

@@ -15,7 +15,7 @@ Eigen::Vector3d SpecificForceAtAxle(const Eigen::Vector3d& imu_specific_force_m_
 }
 
 double AccelerometerPitch(double f_x_m_s2, double f_z_m_s2, double horizontal_accel_m_s2) {
-  const double a = horizontal_accel_m_s2, g = kStandardGravity_m_s2;
+  const double a = horizontal_accel_m_s2, g = model::kStandardGravity_m_s2;
   return std::atan2(a * f_z_m_s2 - g * f_x_m_s2, a * f_x_m_s2 + g * f_z_m_s2);
 }
 

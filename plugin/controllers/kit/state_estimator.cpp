@@ -2,8 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
-#include <cstdlib>
+#include <numbers>
 
 #include "kit/imu_kinematics.hpp"
 #include "upright/model/conventions.hpp"
@@ -17,11 +16,11 @@ using design::kXDot;
 using design::kYaw;
 using design::kYawRate;
 
-SpeedGains SpeedGainsFor(const RobotModel& robot, double period_s) {
-  const SensorModel& s = robot.sensors;
-  const double count_m = 2 * kPi * robot.wheel.radius_m / s.encoder_counts_per_rev;
+SpeedGains SpeedGainsFor(const model::RobotModel& robot, double period_s) {
+  const model::SensorModel& s = robot.sensors;
+  const double count_m = 2 * std::numbers::pi * robot.wheel.radius_m / s.encoder_counts_per_rev;
   const double travel_sigma_m = count_m / std::sqrt(12.0);
-  const double tilt_allowance_m_s2 = kStandardGravity_m_s2 * 1e-3;
+  const double tilt_allowance_m_s2 = model::kStandardGravity_m_s2 * 1e-3;
   const double accel_sigma_m_s2 =
       std::sqrt(s.accel_noise_m_s2_rthz * s.accel_noise_m_s2_rthz * s.imu_rate_hz +
                 s.accel_resolution_m_s2 * s.accel_resolution_m_s2 / 12 +
@@ -36,7 +35,7 @@ EstimatorSettings SettingsFor(const ModuleContext& context, const CommonConfig& 
   s.period_s = context.period_s;
   s.wheel_radius_m = context.robot.wheel.radius_m;
   s.track_m = context.robot.wheel.track_m;
-  const SensorModel& sensors = context.robot.sensors;
+  const model::SensorModel& sensors = context.robot.sensors;
   s.imu_m = Eigen::Vector3d(sensors.imu_x_m, sensors.imu_y_m, sensors.imu_z_m);
   s.tilt_filter_s = config.tilt_filter_s;
   s.bias_filter_s = config.bias_filter_s;
@@ -68,9 +67,11 @@ const design::StateVector& ComplementaryEstimator::Update(const upright_sensor_s
   const double r = settings_.wheel_radius_m, T = settings_.period_s;
   const Eigen::Vector3d gyro(s.gyro_rad_s[0], s.gyro_rad_s[1], s.gyro_rad_s[2]);
   const Eigen::Vector3d imu_force(s.accel_m_s2[0], s.accel_m_s2[1], s.accel_m_s2[2]);
-  const double mean_angle = (s.encoder_angle_rad[kLeft] + s.encoder_angle_rad[kRight]) / 2;
-  const double heading =
-      r * (s.encoder_angle_rad[kRight] - s.encoder_angle_rad[kLeft]) / settings_.track_m;
+  const double mean_angle =
+      (s.encoder_angle_rad[model::kLeft] + s.encoder_angle_rad[model::kRight]) / 2;
+  const double heading = r *
+                         (s.encoder_angle_rad[model::kRight] - s.encoder_angle_rad[model::kLeft]) /
+                         settings_.track_m;
   // The body's rates, the pitch gyro's bias as estimated so far taken off, and their change over
   // the tick (a constant bias cancels in it).
   const Eigen::Vector3d rate = gyro - Eigen::Vector3d(0, tilt_.bias_rad_s(), 0);
@@ -85,7 +86,8 @@ const design::StateVector& ComplementaryEstimator::Update(const upright_sensor_s
     gyro_pitch_rad_ = tilt_.pitch_rad();
     x_origin_m_ = r * (mean_angle + gyro_pitch_rad_);
     yaw_origin_rad_ = heading;
-    const double wheel_rate = (s.encoder_rate_rad_s[kLeft] + s.encoder_rate_rad_s[kRight]) / 2;
+    const double wheel_rate =
+        (s.encoder_rate_rad_s[model::kLeft] + s.encoder_rate_rad_s[model::kRight]) / 2;
     speed_.Start(x_origin_m_, r * (wheel_rate + rate(1)),
                  HorizontalAcceleration(force(0), force(2), gyro_pitch_rad_));
   } else {
@@ -126,7 +128,7 @@ const design::StateVector& TrueStateReader::Update(const upright_true_state& t) 
     yaw_rad_ = 0;
   } else {
     // The yaw change since the last tick, taken the short way round.
-    yaw_rad_ += std::remainder(t.yaw_rad - last_yaw_rad_, 2 * kPi);
+    yaw_rad_ += std::remainder(t.yaw_rad - last_yaw_rad_, 2 * std::numbers::pi);
     const double yaw = t.yaw_rad;
     travelled_m_ += std::cos(yaw) * (t.x_m - last_x_m_) + std::sin(yaw) * (t.y_m - last_y_m_);
   }
@@ -166,9 +168,11 @@ const char* StateSource::Update(const upright_step_input& input,
 Eigen::Vector2d StateSource::WheelSpeeds(const upright_step_input& input) const {
   if (choice_ == StateChoice::kTrue && input.truth &&
       input.truth->struct_size >= sizeof(upright_true_state)) {
-    return {input.truth->wheel_rate_rad_s[kLeft], input.truth->wheel_rate_rad_s[kRight]};
+    return {input.truth->wheel_rate_rad_s[model::kLeft],
+            input.truth->wheel_rate_rad_s[model::kRight]};
   }
-  return {input.sensors.encoder_rate_rad_s[kLeft], input.sensors.encoder_rate_rad_s[kRight]};
+  return {input.sensors.encoder_rate_rad_s[model::kLeft],
+          input.sensors.encoder_rate_rad_s[model::kRight]};
 }
 
 }  // namespace upright::controllers

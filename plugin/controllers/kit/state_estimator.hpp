@@ -38,7 +38,7 @@ struct EstimatorSettings {
 // quantisation (step²/12) + (g · 1 mrad)², an allowance for the tilt estimate's error. The
 // tracking index is capped at 1 (α = 0.75, β = 0.5): toward its limit (α = 1, β = 2) the filter
 // would follow each count and its error dynamics reach a pole at −1.
-SpeedGains SpeedGainsFor(const RobotModel& robot, double period_s);
+SpeedGains SpeedGainsFor(const model::RobotModel& robot, double period_s);
 
 // The settings for a module's robot, configuration and linear model.
 EstimatorSettings SettingsFor(const ModuleContext& context, const CommonConfig& config,

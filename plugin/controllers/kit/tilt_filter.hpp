@@ -1,6 +1,6 @@
 // Tilt filter (internal to the built-in modules): each tick's pitch rate from the gyro and the
-// pitch the accelerometer reads in; the pitch and the gyro's bias out. A complementary filter with an
-// integral term (the planar case of the explicit complementary filter of R. Mahony, T. Hamel and
+// pitch the accelerometer reads in; the pitch and the gyro's bias out. A complementary filter with
+// an integral term (the planar case of the explicit complementary filter of R. Mahony, T. Hamel and
 // J.-M. Pflimlin, "Nonlinear complementary filters on the special orthogonal group", IEEE
 // Transactions on Automatic Control 53(5), 2008; from memory), discrete at the module's rate.
 #pragma once
