@@ -55,9 +55,6 @@ class HinfController {
     }
     // The continuous-time gain, applied at the module's rate: at the demo robots' control rates
     // (≥ 100 Hz, well above the closed-loop bandwidth) the sampling itself changes it little.
-    // Sampling together with the sensors' latency and the encoder rate's averaging does matter
-    // on voltage commands: on the courier robot with the estimated state the loop chatters at
-    // the Nyquist rate (±10 V at 100 Hz) while it balances.
     const Result<Eigen::MatrixXd, design::SolveError> hinf =
         design::RobotHinf(plant, Q, R, push_scale_N, gamma);
     if (!hinf) {
@@ -76,7 +73,7 @@ class HinfController {
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     Result<StateFeedbackLaw, ModuleError> law =
-        StateFeedbackLaw::For(plant, *hinf, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw::For(plant, *hinf, DriveLimits(context.robot.motor, config.input),
                               ReferenceTracker(context.period_s, config.max_accel_m_s2));
     if (!law) return Failure(law.error());
     return std::unique_ptr<HinfController>(
@@ -91,7 +88,8 @@ class HinfController {
   const char* Step(const upright_step_input& input, upright_step_output* output) {
     const design::StateVector* state = nullptr;
     if (const char* why = source_.Update(input, &state)) return why;
-    if (const char* why = law_.Step(input.reference, *state, output)) return why;
+    const Eigen::Vector2d wheel_speeds = source_.WheelSpeeds(input);
+    if (const char* why = law_.Step(input.reference, *state, wheel_speeds, output)) return why;
     output->diagnostics[gamma_slot_] = gamma_;
     return nullptr;
   }

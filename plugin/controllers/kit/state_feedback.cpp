@@ -44,7 +44,7 @@ const std::vector<const char*>& StateFeedbackLaw::DiagnosticNames() {
 
 Result<StateFeedbackLaw, ModuleError> StateFeedbackLaw::For(const design::LinearModel& plant,
                                                             const design::Gain& gain,
-                                                            double input_limit,
+                                                            const DriveLimits& limits,
                                                             const ReferenceTracker& tracker,
                                                             const Eigen::MatrixXd& past_gain) {
   Result<SteadyMotion, ModuleError> steady = SteadyMotion::Of(plant);
@@ -53,16 +53,16 @@ Result<StateFeedbackLaw, ModuleError> StateFeedbackLaw::For(const design::Linear
                                           past_gain.cols() % design::kInputs == 0),
                 "past-command gain is %dx%d", static_cast<int>(past_gain.rows()),
                 static_cast<int>(past_gain.cols()));
-  return StateFeedbackLaw(plant, gain, *steady, input_limit, tracker, past_gain);
+  return StateFeedbackLaw(plant, gain, *steady, limits, tracker, past_gain);
 }
 
 StateFeedbackLaw::StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain,
-                                   const SteadyMotion& steady, double input_limit,
+                                   const SteadyMotion& steady, const DriveLimits& limits,
                                    const ReferenceTracker& tracker,
                                    const Eigen::MatrixXd& past_gain)
     : gain_(gain),
       steady_(steady),
-      input_limit_(input_limit),
+      limits_(limits),
       equilibrium_pitch_rad_(plant.equilibrium_pitch_rad),
       tracker_(tracker),
       past_gain_(past_gain.size() > 0 ? past_gain : Eigen::MatrixXd::Zero(design::kInputs, 0)),
@@ -97,7 +97,9 @@ void StateFeedbackLaw::Remember(const Eigen::Vector2d& command) {
 }
 
 const char* StateFeedbackLaw::Step(const upright_reference& reference,
-                                   const design::StateVector& state, upright_step_output* output) {
+                                   const design::StateVector& state,
+                                   const Eigen::Vector2d& wheel_speeds_rad_s,
+                                   upright_step_output* output) {
   if (const char* why = tracker_.Follow(reference)) return why;
   double lean_rad = 0;
   Eigen::Vector2d steady_input;
@@ -105,7 +107,10 @@ const char* StateFeedbackLaw::Step(const upright_reference& reference,
               &steady_input);
   tracker_.Error(state, &error_);
   error_(design::kPitch) -= lean_rad;
-  command_ = Clamped(steady_input - gain_ * error_ + PastCorrection(steady_input), input_limit_);
+  command_ = LimitWithPitchPriority(steady_input - gain_ * error_ + PastCorrection(steady_input),
+                                    limits_.At(wheel_speeds_rad_s(0)),
+                                    limits_.At(wheel_speeds_rad_s(1)))
+                 .command;
   Remember(command_);
   output->command[0] = command_(0);
   output->command[1] = command_(1);
