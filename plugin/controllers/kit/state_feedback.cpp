@@ -107,8 +107,9 @@ const char* StateFeedbackLaw::Step(const upright_reference& reference,
               &steady_input);
   tracker_.Error(state, &error_);
   error_(design::kPitch) -= lean_rad;
-  command_ = LimitWithPitchPriority(steady_input - gain_ * error_ + PastCorrection(steady_input),
-                                    limits_.At(wheel_speeds_rad_s(0)),
+  Eigen::Vector2d wanted = steady_input - gain_ * error_;
+  if (memory_ > 0) wanted += PastCorrection(steady_input);
+  command_ = LimitWithPitchPriority(wanted, limits_.At(wheel_speeds_rad_s(0)),
                                     limits_.At(wheel_speeds_rad_s(1)))
                  .command;
   Remember(command_);
