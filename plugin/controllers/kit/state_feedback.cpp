@@ -84,8 +84,8 @@ Eigen::Vector2d StateFeedbackLaw::PastCorrection(const Eigen::Vector2d& steady_i
     past_error_.segment(j * memory_, memory_) =
         past_.segment(j * memory_, memory_).array() - steady_input(j);
   }
-  correction.noalias() = -past_gain_ * past_error_;
-  return correction;
+  correction.noalias() = past_gain_ * past_error_;  // into the fixed-size vector: no temporary
+  return -correction;
 }
 
 void StateFeedbackLaw::Remember(const Eigen::Vector2d& command) {
