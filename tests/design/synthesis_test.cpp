@@ -231,6 +231,13 @@ TEST(Synthesis, DemoRobotsGetEveryDesignWithHinfBelowGamma) {
     EXPECT_LE(d.hinf.gamma_opt, d.lqr.loop.push_norm * (1 + 1e-4)) << name;
     EXPECT_NEAR(d.hinf.gamma / d.hinf.gamma_opt, 1.1, 1e-12) << name;
     EXPECT_LT(d.hinf.loop.push_norm, d.hinf.gamma) << name;
+    // The same of the discrete design the hinf module runs: its γ from its own γ_opt, its
+    // sampled loop's norm below it and not below γ_opt (no gain does better).
+    EXPECT_NEAR(d.hinf.gamma_discrete / d.hinf.gamma_opt_discrete, DesignRequest{}.gamma_factor,
+                1e-12)
+        << name;
+    EXPECT_LT(d.hinf.norm_discrete, d.hinf.gamma_discrete) << name;
+    EXPECT_GT(d.hinf.norm_discrete, d.hinf.gamma_opt_discrete / (1 + 1e-4)) << name;
     for (const auto& p : d.pid.loop.poles) EXPECT_LT(p.real(), 0) << name << " pid pole " << p;
   }
 }
