@@ -16,7 +16,9 @@
 
 #include "demo_robot.hpp"
 #include "succeeded.hpp"
+#include "upright/design/design_set.hpp"
 #include "upright/design/discrete_norm.hpp"
+#include "upright/design/sampled_loop.hpp"
 #include "upright/design/weights.hpp"
 
 namespace upright::design {
@@ -285,6 +287,82 @@ TEST_P(RobotDiscreteHinfTest, SampledLoopNormIsBelowGammaAndReachesTheOptimum) {
   }
   EXPECT_LE(swept, norm->norm * (1 + 1e-9));
   EXPECT_GE(swept, norm->norm * (1 - 1e-3));
+}
+
+// The largest |z| of u_k = −K x_k held over each period and applied `delay_s` late: with
+// delay_s = d T + f (0 ≤ f < T), x_{k+1} = Ad x_k + Γ1 u_{k−d−1} + Γ0 u_{k−d}, Γ0 = ∫₀^{T−f} e^{As}
+// ds B and Γ1 = e^{A(T−f)} ∫₀^f e^{As} ds B, the past inputs as extra states (Franklin, Powell and
+// Workman, Digital Control of Dynamic Systems, 3rd ed., "systems with time delay"; from memory).
+double DelayedLoopRadius(const LinearModel& plant, const MatrixXd& K, double T, double delay_s) {
+  const int d = static_cast<int>(std::floor(delay_s / T + 1e-12));
+  const double f = delay_s - d * T;
+  const ZohSystem late = DiscretiseZoh(plant.A, plant.B, T - f).value();
+  const ZohSystem early = DiscretiseZoh(plant.A, plant.B, f).value();
+  const MatrixXd gamma0 = late.Bd, gamma1 = late.Ad * early.Bd;
+  const int n = kStates, m = kInputs, blocks = d + 1, size = n + m * blocks;
+  // State [x_k; u_{k−d−1}; u_{k−d}; …; u_{k−1}].
+  MatrixXd phi = MatrixXd::Zero(size, size);
+  phi.topLeftCorner(n, n) = late.Ad * early.Ad;
+  phi.block(0, n, n, m) = gamma1;
+  if (d == 0) {
+    phi.topLeftCorner(n, n) -= gamma0 * K;
+  } else {
+    phi.block(0, n + m, n, m) = gamma0;
+  }
+  for (int b = 0; b + 1 < blocks; ++b) {
+    phi.block(n + b * m, n + (b + 1) * m, m, m) = MatrixXd::Identity(m, m);
+  }
+  phi.block(n + (blocks - 1) * m, 0, m, n) = -K;
+  return phi.eigenvalues().cwiseAbs().maxCoeff();
+}
+
+// The smallest delay that leaves the sampled loop unstable, to 1 µs (bisection from 0, stable,
+// to 0.2 s).
+double CriticalDelay(const LinearModel& plant, const MatrixXd& K, double T) {
+  double stable = 0, unstable = 0.2;
+  if (DelayedLoopRadius(plant, K, T, unstable) < 1) return unstable;
+  while (unstable - stable > 1e-6) {
+    const double mid = 0.5 * (stable + unstable);
+    (DelayedLoopRadius(plant, K, T, mid) < 1 ? stable : unstable) = mid;
+  }
+  return unstable;
+}
+
+TEST_P(RobotDiscreteHinfTest, ToleratesMoreDelayThanTheContinuousGainSampled) {
+  // The continuous gain applied once a period (what the hinf module ran before) against the
+  // discrete design at the same factor of each problem's γ_opt: the discrete one keeps its
+  // fastest pole near the continuous loop's, and its sampled loop tolerates more delay between
+  // measurement and command, and more than the model's sensor latency.
+  const double factor = DesignRequest{}.gamma_factor;
+  const Result<GammaSearch, SolveError> continuous_search =
+      RobotOptimalGamma(plant_, Q_, R_, push_N_);
+  const Result<GammaSearch, SolveError> discrete_search =
+      RobotDiscreteOptimalGamma(plant_, Q_, R_, push_N_, period_s_);
+  ASSERT_TRUE(Succeeded(continuous_search));
+  ASSERT_TRUE(Succeeded(discrete_search));
+  const Result<MatrixXd, SolveError> kc =
+      RobotHinf(plant_, Q_, R_, push_N_, factor * continuous_search->gamma_opt);
+  const Result<MatrixXd, SolveError> kd =
+      RobotDiscreteHinf(plant_, Q_, R_, push_N_, factor * discrete_search->gamma_opt, period_s_);
+  ASSERT_TRUE(Succeeded(kc));
+  ASSERT_TRUE(Succeeded(kd));
+  EXPECT_LT(DelayedLoopRadius(plant_, *kd, period_s_, 0), 1);
+  EXPECT_NEAR(DelayedLoopRadius(plant_, *kd, period_s_, 0),
+              SampledStateFeedback(plant_, *kd, period_s_).value().max_abs_z, 1e-12);
+  const double continuous_delay = CriticalDelay(plant_, *kc, period_s_);
+  const double discrete_delay = CriticalDelay(plant_, *kd, period_s_);
+  const auto fastest = [&](const MatrixXd& K) {
+    return SampledStateFeedback(plant_, K, period_s_).value().s.front().real();
+  };
+  const double continuous_fastest = (plant_.A - plant_.B * *kc).eigenvalues().real().minCoeff();
+  std::printf(
+      "%s at %g Hz: fastest pole continuous %.4g, sampled continuous gain %.4g, discrete design "
+      "%.4g 1/s; unstable from a delay of %.4g ms (continuous gain) and %.4g ms (discrete)\n",
+      GetParam(), 1 / period_s_, continuous_fastest, fastest(*kc), fastest(*kd),
+      1e3 * continuous_delay, 1e3 * discrete_delay);
+  EXPECT_GT(discrete_delay, continuous_delay);
+  EXPECT_GT(discrete_delay, model_.sensors.latency_s);
+  EXPECT_LT(std::abs(fastest(*kd) / continuous_fastest - 1), 0.05);
 }
 
 INSTANTIATE_TEST_SUITE_P(Robots, RobotDiscreteHinfTest,
