@@ -42,7 +42,7 @@ class HinfController {
     const design::StateMatrix Q = design::StateWeight(config.weights);
     const Eigen::Matrix2d R = design::InputWeight(config.weights, context.robot, config.input);
     // The disturbance w = 1 is a push of 10 % of the robot's weight, as in `upright design`.
-    const double push_scale_N = 0.1 * TotalMass(context.robot_abi) * kStandardGravity_m_s2;
+    const double push_scale_N = 0.1 * TotalMass(context.robot_abi) * model::kStandardGravity_m_s2;
     const Result<design::GammaSearch, design::SolveError> search =
         design::RobotDiscreteOptimalGamma(plant, Q, R, push_scale_N, context.period_s);
     if (!search) {

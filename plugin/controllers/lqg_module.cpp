@@ -113,8 +113,9 @@ class LqgController {
   }
 
  private:
-  LqgController(StateChoice state_choice, const RobotModel& robot, double equilibrium_pitch_rad,
-                const Filter& filter, StateSource truth, StateFeedbackLaw law)
+  LqgController(StateChoice state_choice, const model::RobotModel& robot,
+                double equilibrium_pitch_rad, const Filter& filter, StateSource truth,
+                StateFeedbackLaw law)
       : state_choice_(state_choice),
         wheel_radius_m_(robot.wheel.radius_m),
         track_m_(robot.wheel.track_m),
@@ -127,15 +128,18 @@ class LqgController {
   // sample), gyro y, the encoder heading (likewise), gyro z, and f_x / g about the equilibrium
   // pitch (f_x = −g sin θ standing still).
   MeasurementVector Measure(const upright_sensor_sample& s) const {
-    const double mean_angle = (s.encoder_angle_rad[kLeft] + s.encoder_angle_rad[kRight]) / 2;
+    const double mean_angle =
+        (s.encoder_angle_rad[model::kLeft] + s.encoder_angle_rad[model::kRight]) / 2;
     MeasurementVector y;
     y << mean_angle - angle_origin_rad_, s.gyro_rad_s[1], Heading(s) - heading_origin_rad_,
-        s.gyro_rad_s[2], s.accel_m_s2[0] / kStandardGravity_m_s2 + std::sin(equilibrium_pitch_rad_);
+        s.gyro_rad_s[2],
+        s.accel_m_s2[0] / model::kStandardGravity_m_s2 + std::sin(equilibrium_pitch_rad_);
     return y;
   }
 
   double Heading(const upright_sensor_sample& s) const {
-    return wheel_radius_m_ * (s.encoder_angle_rad[kRight] - s.encoder_angle_rad[kLeft]) / track_m_;
+    return wheel_radius_m_ *
+           (s.encoder_angle_rad[model::kRight] - s.encoder_angle_rad[model::kLeft]) / track_m_;
   }
 
   // The first sample starts the estimate (pitch from the accelerometer, rates from the gyro and
@@ -146,9 +150,11 @@ class LqgController {
     if (!started_) {
       started_ = true;
       const double pitch = AccelerometerPitch(s.accel_m_s2) - equilibrium_pitch_rad_;
-      angle_origin_rad_ = (s.encoder_angle_rad[kLeft] + s.encoder_angle_rad[kRight]) / 2 + pitch;
+      angle_origin_rad_ =
+          (s.encoder_angle_rad[model::kLeft] + s.encoder_angle_rad[model::kRight]) / 2 + pitch;
       heading_origin_rad_ = Heading(s);
-      const double mean_rate = (s.encoder_rate_rad_s[kLeft] + s.encoder_rate_rad_s[kRight]) / 2;
+      const double mean_rate =
+          (s.encoder_rate_rad_s[model::kLeft] + s.encoder_rate_rad_s[model::kRight]) / 2;
       estimate_ << 0, wheel_radius_m_ * (mean_rate + s.gyro_rad_s[1]), pitch, s.gyro_rad_s[1], 0,
           s.gyro_rad_s[2];
       innovation_.setZero();

@@ -7,7 +7,7 @@
 #include <vector>
 
 #include "upright/design/design_set.hpp"
-#include "upright/runner/batch.hpp"
+#include "upright/runner/run/batch.hpp"
 
 namespace upright::cli {
 

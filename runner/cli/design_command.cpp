@@ -7,6 +7,7 @@
 #include <complex>
 #include <cstdio>
 #include <iostream>
+#include <numbers>
 #include <string>
 #include <string_view>
 #include <utility>
@@ -18,7 +19,7 @@
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
-#include "upright/runner/json_text.hpp"
+#include "upright/runner/common/json_text.hpp"
 
 namespace upright::cli {
 namespace {
@@ -130,7 +131,7 @@ void WriteController(JsonText& j, const ControllerReport& c) {
   j.Bool("delay_margin_short", c.delay_margin_short());
 }
 
-std::string Json(const RobotModel& model, const DesignSet& d) {
+std::string Json(const model::RobotModel& model, const DesignSet& d) {
   JsonText j;
   j.BeginObject();
   j.String("robot", model.name);
@@ -244,7 +245,7 @@ void PrintController(const char* title, const ControllerReport& c, double latenc
   }
 }
 
-void PrintText(const RobotModel& model, const DesignSet& d) {
+void PrintText(const model::RobotModel& model, const DesignSet& d) {
   const design::LinearModel& p = d.plant;
   std::printf("robot '%s': linearised about upright (%s input, controllers at %s Hz)\n",
               model.name.c_str(),
@@ -280,7 +281,7 @@ void PrintText(const RobotModel& model, const DesignSet& d) {
         Figure(d.hinf.norm_discrete).c_str());
   }
   PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
-  const double nyquist_1_s = kPi * d.request.rate_hz;
+  const double nyquist_1_s = std::numbers::pi * d.request.rate_hz;
   if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {
     std::printf(
         "note: the continuous estimator reaches %s 1/s, beyond the %s 1/s Nyquist rate "
@@ -378,8 +379,8 @@ int RunDesign(const DesignOptions& options) {
   }
   const design::DesignRequest& request = *resolved;
   // A design never steps the physics, so a robot whose rates suit another step still designs.
-  const auto loaded =
-      LoadModelFile(options.model_path, ModelLoadOptions{.check_default_step = false});
+  const auto loaded = model::LoadModelFile(options.model_path,
+                                           model::ModelLoadOptions{.check_default_step = false});
   if (!loaded) {
     for (const auto& e : loaded.error()) Log().Error(e.ToString());
     return kExitBadInput;

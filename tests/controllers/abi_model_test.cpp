@@ -41,7 +41,7 @@ std::string CheckError(const upright_robot& robot) {
 }
 
 TEST(AbiModel, ReadsTheResolutionsWhenTheStructCarriesThem) {
-  const RobotModel m = RobotFromAbi(ValidRobot(), 200);
+  const model::RobotModel m = RobotFromAbi(ValidRobot(), 200);
   EXPECT_EQ(m.sensors.gyro_resolution_rad_s, 1e-3);
   EXPECT_EQ(m.sensors.accel_resolution_m_s2, 2e-3);
   EXPECT_EQ(CheckError(ValidRobot()), "");
@@ -53,7 +53,7 @@ TEST(AbiModel, AStructFromBeforeTheResolutionsLeavesThemZeroAndUnchecked) {
   upright_robot r = ValidRobot();
   r.struct_size = offsetof(upright_robot, payload_z_m) + sizeof r.payload_z_m;
   r.gyro_resolution_rad_s = -1;
-  const RobotModel m = RobotFromAbi(r, 200);
+  const model::RobotModel m = RobotFromAbi(r, 200);
   EXPECT_EQ(m.sensors.gyro_resolution_rad_s, 0);
   EXPECT_EQ(m.sensors.accel_resolution_m_s2, 0);
   EXPECT_EQ(CheckError(r), "");

@@ -8,6 +8,7 @@
 #include <cmath>
 #include <cstdio>
 #include <memory>
+#include <numbers>
 #include <string>
 #include <utility>
 #include <vector>
@@ -21,13 +22,14 @@
 
 namespace upright::host::testing {
 
-inline constexpr double kDeg = kPi / 180;
+inline constexpr double kDeg = std::numbers::pi / 180;
 
 // models/<name>.xml, or a test failure.
-inline RobotModel DemoRobot(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name + ".xml");
+inline model::RobotModel DemoRobot(const std::string& name) {
+  const auto loaded =
+      model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name + ".xml");
   EXPECT_TRUE(Succeeded(loaded)) << name;
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 // The built-in module `name` as the host finds it, or null with a test failure.
@@ -45,7 +47,7 @@ using Config = std::vector<std::pair<std::string, std::string>>;
 // ControllerHost::Create for a built-in at the robot's control rate; a failure when the module
 // refuses.
 inline Result<std::unique_ptr<ControllerHost>> CreateBuiltin(const std::string& name,
-                                                             const RobotModel& model,
+                                                             const model::RobotModel& model,
                                                              const Config& config,
                                                              bool true_state) {
   ControllerSpec spec;
@@ -82,7 +84,7 @@ struct RunFigures {
 inline RunFigures RunBuiltin(const std::string& name, const std::string& robot,
                              const RunSettings& settings) {
   RunFigures f;
-  const RobotModel model = DemoRobot(robot);
+  const model::RobotModel model = DemoRobot(robot);
   auto created = CreateBuiltin(name, model, settings.config, settings.true_state);
   if (!created) {
     f.error = created.error();

@@ -7,6 +7,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <random>
 #include <string>
 
@@ -18,7 +19,7 @@
 namespace upright::controllers {
 namespace {
 
-constexpr double kG = kStandardGravity_m_s2;
+constexpr double kG = model::kStandardGravity_m_s2;
 constexpr double kPeriod = 0.005;  // 200 Hz
 
 EstimatorSettings Settings() {
@@ -43,10 +44,10 @@ upright_sensor_sample Sample(double pitch, double pitch_rate, double accel, doub
   // Specific force in the body frame: f = Rᵀ(a − g), body x = (cos θ, 0, −sin θ) in the world.
   s.accel_m_s2[0] = accel * std::cos(pitch) - kG * std::sin(pitch);
   s.accel_m_s2[2] = accel * std::sin(pitch) + kG * std::cos(pitch);
-  s.encoder_angle_rad[kLeft] = left_rad;
-  s.encoder_angle_rad[kRight] = right_rad;
-  s.encoder_rate_rad_s[kLeft] = left_rate;
-  s.encoder_rate_rad_s[kRight] = right_rate;
+  s.encoder_angle_rad[model::kLeft] = left_rad;
+  s.encoder_angle_rad[model::kRight] = right_rad;
+  s.encoder_rate_rad_s[model::kLeft] = left_rate;
+  s.encoder_rate_rad_s[model::kRight] = right_rate;
   return s;
 }
 
@@ -172,15 +173,15 @@ TEST(ComplementaryEstimator, ResetStartsAfreshFromTheNextSample) {
 
 TEST(AccelerometerPitch, ReadsTheForwardLeanOfTheCourierOnTheStand) {
   // The plant's own accelerometer, chassis held at 5° forward: the sign convention end to end.
-  auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   ASSERT_TRUE(Succeeded(loaded));
-  RobotModel model = *loaded;
+  model::RobotModel model = *loaded;
   model.sensors.accel_bias_x_m_s2 = model.sensors.accel_bias_y_m_s2 = 0;
   model.sensors.accel_bias_z_m_s2 = 0;
   sim::PlantOptions options;
   options.fixed_chassis = true;
   options.sensor_noise = false;
-  options.initial.pitch_rad = 5 * kPi / 180;
+  options.initial.pitch_rad = 5 * std::numbers::pi / 180;
   auto built = sim::Plant::Create(model, options);
   ASSERT_TRUE(Succeeded(built));
   const std::unique_ptr<sim::Plant> plant = std::move(*built);
@@ -215,7 +216,7 @@ TEST(TrueStateReader, KeepsTheYawContinuousAcrossPlusMinusPi) {
   TrueStateReader reader(0);
   reader.Update(Truth(0, 0, 3.1));
   const design::StateVector& x = reader.Update(Truth(0, 0, -3.1));  // 3.1832 unwrapped
-  EXPECT_NEAR(x(design::kYaw), 2 * kPi - 6.2, 1e-12);
+  EXPECT_NEAR(x(design::kYaw), 2 * std::numbers::pi - 6.2, 1e-12);
 }
 
 }  // namespace

@@ -175,7 +175,7 @@ TEST(DiscreteHinf, GammaSearchChecksItsLowerBound) {
 // The demo robots' designs, as `upright design` weighs them.
 class RobotDiscreteHinfTest : public ::testing::TestWithParam<const char*> {
  protected:
-  RobotModel model_ = Demo(GetParam());
+  model::RobotModel model_ = Demo(GetParam());
   LinearModel plant_ = Linearise(model_, InputKind::kTorque);
   DesignWeights weights_;
   StateMatrix Q_ = StateWeight(weights_);

@@ -6,11 +6,11 @@
 #include <cmath>
 
 #include "run_test_support.hpp"
-#include "upright/runner/batch.hpp"
-#include "upright/runner/linear_twin.hpp"
-#include "upright/runner/results_writer.hpp"
-#include "upright/runner/run_one.hpp"
-#include "upright/runner/twin_gap.hpp"
+#include "upright/runner/run/batch.hpp"
+#include "upright/runner/run/run_one.hpp"
+#include "upright/runner/tables/results_writer.hpp"
+#include "upright/runner/twin/linear_twin.hpp"
+#include "upright/runner/twin/twin_gap.hpp"
 
 namespace upright::runner {
 namespace {
@@ -42,7 +42,7 @@ Scenario Knock(double peak_N, bool zero_biases,
   <seeds list="1"/>
 </scenario>)");
   if (zero_biases) {
-    SensorModel& m = s.model.sensors;
+    model::SensorModel& m = s.model.sensors;
     m.gyro_bias_x_rad_s = m.gyro_bias_y_rad_s = m.gyro_bias_z_rad_s = 0;
     m.accel_bias_x_m_s2 = m.accel_bias_y_m_s2 = m.accel_bias_z_m_s2 = 0;
   }

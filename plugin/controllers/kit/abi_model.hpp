@@ -20,7 +20,7 @@ Result<void, ModuleError> CheckAbiModel(const upright_robot& robot,
 // motor friction, sensor biases, payload size and travel; none of the designs used here reads
 // them. The IMU resolutions come when the host's struct carries them (else zero: readings
 // without quantisation, which only LineariseSensors would have used).
-RobotModel RobotFromAbi(const upright_robot& robot, double control_rate_hz);
+model::RobotModel RobotFromAbi(const upright_robot& robot, double control_rate_hz);
 
 // The linear model for `input` (A_torque, B_torque or A_voltage, B_voltage), with E, the push
 // height and the equilibrium pitch as given. The fall rate comes from A (θ̈ = λ² θ: λ =

@@ -1,6 +1,7 @@
 #include "kit/state_estimator.hpp"
 
 #include <cmath>
+#include <numbers>
 
 #include "upright/model/conventions.hpp"
 
@@ -43,10 +44,13 @@ void ComplementaryEstimator::Reset() {
 const design::StateVector& ComplementaryEstimator::Update(const upright_sensor_sample& s) {
   const double r = settings_.wheel_radius_m;
   const double pitch_rate = s.gyro_rad_s[1];
-  const double mean_angle = (s.encoder_angle_rad[kLeft] + s.encoder_angle_rad[kRight]) / 2;
-  const double mean_rate = (s.encoder_rate_rad_s[kLeft] + s.encoder_rate_rad_s[kRight]) / 2;
-  const double heading =
-      r * (s.encoder_angle_rad[kRight] - s.encoder_angle_rad[kLeft]) / settings_.track_m;
+  const double mean_angle =
+      (s.encoder_angle_rad[model::kLeft] + s.encoder_angle_rad[model::kRight]) / 2;
+  const double mean_rate =
+      (s.encoder_rate_rad_s[model::kLeft] + s.encoder_rate_rad_s[model::kRight]) / 2;
+  const double heading = r *
+                         (s.encoder_angle_rad[model::kRight] - s.encoder_angle_rad[model::kLeft]) /
+                         settings_.track_m;
   const double speed = r * (mean_rate + pitch_rate);
   const double imu_speed = speed + settings_.imu_height_m * pitch_rate;
   const double imu_accel = started_ ? (imu_speed - imu_speed_m_s_) / settings_.period_s : 0.0;
@@ -86,7 +90,7 @@ const design::StateVector& TrueStateReader::Update(const upright_true_state& t) 
     yaw_rad_ = 0;
   } else {
     // The yaw change since the last tick, taken the short way round.
-    yaw_rad_ += std::remainder(t.yaw_rad - last_yaw_rad_, 2 * kPi);
+    yaw_rad_ += std::remainder(t.yaw_rad - last_yaw_rad_, 2 * std::numbers::pi);
     const double yaw = t.yaw_rad;
     travelled_m_ += std::cos(yaw) * (t.x_m - last_x_m_) + std::sin(yaw) * (t.y_m - last_y_m_);
   }

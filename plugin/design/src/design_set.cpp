@@ -78,7 +78,7 @@ Status DesignRequest::Validate() const {
   return Failure(why.str());
 }
 
-DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
+DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request) {
   DesignSet set;
   set.request = request;
   DesignRequest& req = set.request;
@@ -86,7 +86,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
   set.plant = Linearise(model, req.input, req.push_height_m);
   const LinearModel& plant = set.plant;
   if (req.push_scale_N == 0) {
-    req.push_scale_N = 0.1 * model.total_mass_kg() * kStandardGravity_m_s2;
+    req.push_scale_N = 0.1 * model.total_mass_kg() * model::kStandardGravity_m_s2;
   }
   const double period_s = 1 / req.rate_hz;
   Performance& perf = set.performance;

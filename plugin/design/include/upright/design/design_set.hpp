@@ -93,6 +93,6 @@ struct DesignSet {
   bool all_ok() const { return lqr.ok && hinf.ok && lqg.ok && pid.ok; }
 };
 
-DesignSet DesignAll(const RobotModel& model, const DesignRequest& request);
+DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request);
 
 }  // namespace upright::design
