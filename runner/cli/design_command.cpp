@@ -5,6 +5,7 @@
 #include <array>
 #include <cmath>
 #include <complex>
+#include <filesystem>
 #include <cstdio>
 #include <iostream>
 #include <numbers>
@@ -14,12 +15,16 @@
 #include <vector>
 
 #include "commands.hpp"
+#include "gains_header.hpp"
 #include "log.hpp"
 #include "upright/base/number_text.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
+#include "upright/runner/common/atomic_file.hpp"
 #include "upright/runner/common/json_text.hpp"
+#include "upright/runner/common/sha256.hpp"
+#include "upright_version.hpp"
 
 namespace upright::cli {
 namespace {
@@ -173,6 +178,8 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   WriteMatrix(j, "C", d.lqg.sensors.C);
   WriteMatrix(j, "D", d.lqg.sensors.D);
   WriteMatrix(j, "L_discrete", d.lqg.L_discrete);
+  WriteMatrix(j, "Ad", d.lqg.Ad);
+  WriteMatrix(j, "Bd", d.lqg.Bd);
   j.Number("estimator_fastest_1_s", d.lqg.estimator_fastest_1_s);
   j.EndObject();
 
@@ -369,6 +376,30 @@ Result<design::DesignRequest> ResolveFlags(const DesignOptions& o) {
   return request;
 }
 
+// --export-c names a file in a folder that exists (checked before anything is designed).
+Status CheckExportPath(const std::string& path) {
+  namespace fs = std::filesystem;
+  std::error_code error;
+  if (fs::is_directory(path, error)) return Failure("--export-c " + path + ": is a folder");
+  const fs::path parent = fs::path(path).parent_path();
+  if (!parent.empty() && !fs::is_directory(parent, error)) {
+    return Failure("--export-c " + path + ": folder " + parent.string() + " does not exist");
+  }
+  return {};
+}
+
+// Writes the usable gains as a C header; the reason when it cannot.
+Status ExportGains(const DesignOptions& options, const model::RobotModel& model,
+                   const DesignSet& set) {
+  const Result<std::string> sha = runner::Sha256OfFile(options.model_path);
+  if (!sha) return Failure(sha.error());
+  const Result<std::string> header = GainsHeader(
+      {.model = &model, .set = &set, .model_path = options.model_path, .model_sha256 = *sha,
+       .version = UPRIGHT_VERSION});
+  if (!header) return Failure("--export-c " + options.export_c_path + ": " + header.error());
+  return runner::WriteFileAtomically(options.export_c_path, *header);
+}
+
 }  // namespace
 
 int RunDesign(const DesignOptions& options) {
@@ -378,6 +409,12 @@ int RunDesign(const DesignOptions& options) {
     return kExitBadInput;
   }
   const design::DesignRequest& request = *resolved;
+  if (!options.export_c_path.empty()) {
+    if (const Status path = CheckExportPath(options.export_c_path); !path) {
+      Log().Error(path.error());
+      return kExitBadInput;
+    }
+  }
   // A design never steps the physics, so a robot whose rates suit another step still designs.
   const auto loaded = model::LoadModelFile(options.model_path,
                                            model::ModelLoadOptions{.check_default_step = false});
@@ -393,6 +430,13 @@ int RunDesign(const DesignOptions& options) {
   }
   std::cout.flush();
   std::fflush(stdout);
+  if (!options.export_c_path.empty()) {
+    if (const Status exported = ExportGains(options, *loaded, set); !exported) {
+      Log().Error(exported.error());
+      return kExitFailed;
+    }
+    Log().Info("gains for firmware: " + options.export_c_path);
+  }
 
   // Each unusable design once more on stderr, then the count a script can act on.
   int offered = 0, usable = 0;

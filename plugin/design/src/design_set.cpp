@@ -179,6 +179,8 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
     set.lqg.K_discrete = *lqr_d;
     set.lqg.L = filter.L;
     set.lqg.L_discrete = filter.L_discrete;
+    set.lqg.Ad = filter.Ad;
+    set.lqg.Bd = filter.Bd;
     set.lqg.sampled = SampledLqg(*lqr_d, filter, period_s);
     set.lqg.estimator_fastest_1_s =
         (plant.A - filter.L * filter.sensors.C).eigenvalues().cwiseAbs().maxCoeff();

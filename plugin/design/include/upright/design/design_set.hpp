@@ -73,6 +73,7 @@ struct LqgReport : ControllerReport {
   SensorLinearisation sensors;  // the filter's (DesignLqgFilter: accelerometer row widened)
   Eigen::MatrixXd L;            // continuous Kalman–Bucy gain (for the analysis)
   Eigen::MatrixXd L_discrete;   // discrete measurement-update gain: the lqg module's
+  Eigen::MatrixXd Ad, Bd;       // the plant the filter predicts with, at the sample period (ZOH)
   // The fastest continuous estimator pole, max |eig(A − L C)|. Beyond the Nyquist rate
   // π · rate_hz the module's sampled filter cannot follow the continuous one the figures analyse.
   double estimator_fastest_1_s = 0;
