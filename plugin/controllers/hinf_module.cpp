@@ -78,7 +78,7 @@ class HinfController {
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     Result<StateFeedbackLaw, ModuleError> law =
-        StateFeedbackLaw::For(plant, *hinf, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw::For(plant, *hinf, DriveLimits(context.robot.motor, config.input),
                               ReferenceTracker(context.period_s, config.max_accel_m_s2));
     if (!law) return Failure(law.error());
     return std::unique_ptr<HinfController>(
@@ -93,7 +93,8 @@ class HinfController {
   const char* Step(const upright_step_input& input, upright_step_output* output) {
     const design::StateVector* state = nullptr;
     if (const char* why = source_.Update(input, &state)) return why;
-    if (const char* why = law_.Step(input.reference, *state, output)) return why;
+    const Eigen::Vector2d wheel_speeds = source_.WheelSpeeds(input);
+    if (const char* why = law_.Step(input.reference, *state, wheel_speeds, output)) return why;
     output->diagnostics[gamma_slot_] = gamma_;
     return nullptr;
   }

@@ -84,7 +84,7 @@ class LqgController {
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     Result<StateFeedbackLaw, ModuleError> law =
-        StateFeedbackLaw::For(plant, *gain, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw::For(plant, *gain, DriveLimits(context.robot.motor, config.input),
                               ReferenceTracker(context.period_s, config.max_accel_m_s2));
     if (!law) return Failure(law.error());
     return std::unique_ptr<LqgController>(
@@ -107,7 +107,8 @@ class LqgController {
     } else {
       Estimate(input.sensors);
     }
-    if (const char* why = law_.Step(input.reference, *state, output)) return why;
+    const Eigen::Vector2d wheel_speeds = truth_.WheelSpeeds(input);
+    if (const char* why = law_.Step(input.reference, *state, wheel_speeds, output)) return why;
     output->diagnostics[diagnostic_slot_] = innovation_(kAccelRow);
     return nullptr;
   }
@@ -168,7 +169,7 @@ class LqgController {
   StateChoice state_choice_;
   double wheel_radius_m_, track_m_, equilibrium_pitch_rad_;
   Filter filter_;
-  StateSource truth_;  // used with state = true only
+  StateSource truth_;  // the true state with state = true; the wheels' speeds either way
   StateFeedbackLaw law_;
   // The accelerometer innovation follows the state-feedback diagnostics.
   const std::size_t diagnostic_slot_ = StateFeedbackLaw::DiagnosticNames().size();

@@ -106,11 +106,5 @@ TEST(SteadyMotion, NeedsNoTorqueAtConstantSpeedAndTheBackEmfVoltageOnTheVoltageM
   EXPECT_NEAR(input(1), volts, 1e-9);
 }
 
-TEST(Clamped, LimitsEachCommand) {
-  const Eigen::Vector2d c = Clamped(Eigen::Vector2d(25, -30), 20.4);
-  EXPECT_EQ(c(0), 20.4);
-  EXPECT_EQ(c(1), -20.4);
-}
-
 }  // namespace
 }  // namespace upright::controllers

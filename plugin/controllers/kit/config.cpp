@@ -145,6 +145,7 @@ CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
   reader->Number("max_yaw_rate_deg_s", NumberRule::kPositive, &w.max_yaw_rate_deg_s);
   reader->Number("max_input_fraction", NumberRule::kFraction, &w.max_input_fraction);
   reader->Number("tilt_filter_s", NumberRule::kPositive, &c.tilt_filter_s);
+  reader->Number("bias_filter_s", NumberRule::kPositive, &c.bias_filter_s);
   c.max_accel_m_s2 = model::kStandardGravity_m_s2 *
                      std::tan(std::min(w.max_tilt_deg, 45.0) * std::numbers::pi / 180);
   reader->Number("max_accel_m_s2", NumberRule::kPositive, &c.max_accel_m_s2);

@@ -207,7 +207,8 @@ struct RunLoop {
   double equilibrium_pitch_rad;
   // The limit on the module's command, of its kind: the supply voltage, or the stall torque at
   // the wheel — on the robot the module is given (its nominal one, not one a sweep or envelope
-  // changed), the limit the built-in controllers clamp at (design::InputLimit).
+  // changed), the most the built-in controllers command (design::InputLimit; at speed they clamp
+  // lower, where the back-EMF leaves less headroom).
   double command_limit;
   double fall_tilt_rad;
   bool drives_payload;
