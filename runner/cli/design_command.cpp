@@ -179,6 +179,10 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   j.Number("gamma", d.hinf.gamma);
   j.Number("gamma_opt", d.hinf.gamma_opt);
   j.Number("norm", d.hinf.loop.push_norm);
+  WriteMatrix(j, "K_discrete", d.hinf.K_discrete);
+  j.Number("gamma_discrete", d.hinf.gamma_discrete);
+  j.Number("gamma_opt_discrete", d.hinf.gamma_opt_discrete);
+  j.Number("norm_discrete", d.hinf.norm_discrete);
   j.EndObject();
 
   j.BeginObject("lqg");
@@ -354,6 +358,15 @@ void PrintText(const model::RobotModel& model, const DesignSet& d) {
     std::printf("gamma %s = %s x gamma_opt %s\n", SignificantText(d.hinf.gamma, 5).c_str(),
                 SignificantText(d.hinf.gamma / d.hinf.gamma_opt, 3).c_str(),
                 SignificantText(d.hinf.gamma_opt, 5).c_str());
+  }
+  if (d.hinf.gamma_opt_discrete > 0) {
+    std::printf(
+        "the hinf module's design, discrete at %s Hz: gamma %s = %s x its gamma_opt %s, "
+        "sampled push norm %s\n",
+        SignificantText(rate_hz, 6).c_str(), SignificantText(d.hinf.gamma_discrete, 5).c_str(),
+        SignificantText(d.hinf.gamma_discrete / d.hinf.gamma_opt_discrete, 3).c_str(),
+        SignificantText(d.hinf.gamma_opt_discrete, 5).c_str(),
+        Figure(d.hinf.norm_discrete).c_str());
   }
   PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
   const double nyquist_1_s = std::numbers::pi * d.request.rate_hz;

@@ -133,33 +133,58 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
     set.lqr.message = lqr ? lqr_d.error().message : lqr.error().message;
   }
 
-  // H-infinity state feedback at γ = factor × γ_opt, or the γ asked for.
+  // H-infinity state feedback at γ = factor × γ_opt, or the γ asked for: the continuous design,
+  // and the discrete one at the sample rate that the hinf module runs, each with its own γ_opt.
   const Result<GammaSearch, SolveError> search =
       RobotOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N);
+  const Result<GammaSearch, SolveError> search_discrete =
+      RobotDiscreteOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N, period_s);
   if (!search) {
     set.hinf.message = search.error().message;
+  } else if (!search_discrete) {
+    set.hinf.message = search_discrete.error().message;
   } else {
     set.hinf.gamma_opt = search->gamma_opt;
+    set.hinf.gamma_opt_discrete = search_discrete->gamma_opt;
     if (req.gamma == 0) req.gamma = req.gamma_factor * search->gamma_opt;
     set.hinf.gamma = req.gamma;
+    set.hinf.gamma_discrete =
+        request.gamma == 0 ? req.gamma_factor * search_discrete->gamma_opt : request.gamma;
     const Result<Eigen::MatrixXd, SolveError> hinf =
         RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, req.gamma);
-    if (hinf) {
+    const Result<Eigen::MatrixXd, SolveError> hinf_d = RobotDiscreteHinf(
+        plant, perf.Q, perf.R, perf.push_scale_N, set.hinf.gamma_discrete, period_s);
+    if (!hinf) {
+      std::ostringstream why;
+      why << hinf.error().message << " (gamma_opt = " << search->gamma_opt << ")";
+      set.hinf.message = why.str();
+    } else if (!hinf_d) {
+      std::ostringstream why;
+      why << hinf_d.error().message << " (discrete gamma_opt = " << search_discrete->gamma_opt
+          << ")";
+      set.hinf.message = why.str();
+    } else {
       set.hinf.K = *hinf;
+      set.hinf.K_discrete = *hinf_d;
       Finish(&set.hinf, plant, FullState(), StateFeedback(*hinf), perf);
-      // The hinf module applies the continuous gain at the sample rate.
-      NoteSampledWithLatency(&set.hinf, plant, SampledLaw{*hinf}, period_s, latency_s);
+      // The hinf module runs the discrete gain, with the sensors' latency.
+      NoteSampledWithLatency(&set.hinf, plant, SampledLaw{*hinf_d}, period_s, latency_s);
+      const AnalysisResult<NormPeak> sampled_norm = SampledPushNorm(plant, *hinf_d, perf, period_s);
+      set.hinf.norm_discrete = sampled_norm ? sampled_norm->norm : sampled_norm.error().found.norm;
       if (set.hinf.ok && !(set.hinf.loop.push_norm < req.gamma)) {
         set.hinf.ok = false;
         std::ostringstream why;
         why << "H-infinity: closed-loop norm " << set.hinf.loop.push_norm
             << " is not below gamma = " << req.gamma;
         set.hinf.message = why.str();
+      } else if (set.hinf.ok && !(set.hinf.norm_discrete < set.hinf.gamma_discrete)) {
+        set.hinf.ok = false;
+        std::ostringstream why;
+        why << "discrete H-infinity: the sampled loop's norm " << set.hinf.norm_discrete
+            << " is not below gamma = " << set.hinf.gamma_discrete;
+        if (!sampled_norm) why << " (" << sampled_norm.error().message << ")";
+        set.hinf.message = why.str();
       }
-    } else {
-      std::ostringstream why;
-      why << hinf.error().message << " (gamma_opt = " << search->gamma_opt << ")";
-      set.hinf.message = why.str();
     }
   }
 

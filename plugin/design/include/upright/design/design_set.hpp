@@ -7,10 +7,11 @@
 
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/delayed_loop.hpp"
+#include "upright/design/discrete_hinf.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/lqg_filter.hpp"
-#include "upright/design/sampled_loop.hpp"
 #include "upright/design/pid.hpp"
+#include "upright/design/sampled_loop.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/robot_model.hpp"
@@ -43,7 +44,7 @@ struct ControllerReport {
   bool supported = true;  // false: this controller is not offered for the requested input
   std::string message = "not designed";
   Gain K = Gain::Zero();          // continuous state feedback (LQG: its regulator)
-  Gain K_discrete = Gain::Zero(); // at the sample rate, zero-order hold (LQR, LQG)
+  Gain K_discrete = Gain::Zero();  // at the sample rate, zero-order hold (LQR, H-infinity, LQG)
   LoopAnalysis loop;
   // The loop as the module samples it, with the sensors' latency (LQR and H-infinity with the
   // true state, LQG with its filter); not analysed for PID.
@@ -59,9 +60,16 @@ struct ControllerReport {
   bool delay_margin_short() const { return ok && loop.margins.delay_s < unanalysed_delay_s; }
 };
 
+// K and the loop figures are the continuous design's, at gamma; K_discrete, the sampled loop and
+// the *_discrete figures are the hinf module's design at the sample rate (discrete_hinf.hpp).
 struct HinfReport : ControllerReport {
-  double gamma = 0;
-  double gamma_opt = 0;
+  double gamma = 0;      // the continuous design's: gamma_factor × gamma_opt, or the γ asked for
+  double gamma_opt = 0;  // the continuous problem's γ_opt
+  // The discrete design's γ (gamma_factor × gamma_opt_discrete, or the γ asked for), the discrete
+  // problem's γ_opt at the sample rate, and the sampled loop's push norm (< gamma_discrete).
+  double gamma_discrete = 0;
+  double gamma_opt_discrete = 0;
+  double norm_discrete = 0;
 };
 
 struct LqgReport : ControllerReport {
