@@ -350,10 +350,12 @@ TEST(Cli, DesignWithVoltageInputSaysPidIsNotOfferedAndExitsZero) {
 }
 
 TEST(Cli, DesignDoesNotCallALoopUnstableWhenSampledOk) {
-  // At 5 Hz every law a module samples is designed for that rate (H-infinity's too), so each
-  // sampled loop is stable: the status follows the largest |z| (stable below 1), in the JSON and
-  // in the text.
-  const std::string args = "--rate 5 " + Models() + "courier.xml";
+  // At 5 Hz every law a module samples is designed for that rate (H-infinity's too), so without
+  // latency each sampled loop is stable: the status follows the largest |z| (stable below 1), in
+  // the JSON and in the text. (With the courier's 2 ms the lqg loop at 5 Hz is not, max |z|
+  // 1.018: the latency's own checks are in DesignWarnsWhenADelayMarginIsBelowTheSensorLatency.)
+  const std::string args =
+      "--rate 5 " + BrokenCopy("courier.xml", "latency_s=\"0.002\"", "latency_s=\"0\"");
   const Json json = DesignJson(args);
   const Result text = RunUpright("design " + args);
   for (const char* key : kControllerKeys) {

@@ -160,7 +160,7 @@ TEST_P(DelayedLoopTest, SampledMarginsAreAtTheEdgeOfStability) {
   const SampledMargins& m = d.hinf.sampled_margins;
   ASSERT_TRUE(m.analysed());
   const double latency = model_.sensors.latency_s;
-  const SampledLaw law{d.hinf.K};
+  const SampledLaw law{d.hinf.K_discrete};  // the hinf module's gain
   const auto max_abs_z = [&](double extra_s, const std::vector<int>& wheels, double gain) {
     std::vector<double> delays(kInputs, latency);
     for (int j : wheels) delays[static_cast<size_t>(j)] += extra_s;
