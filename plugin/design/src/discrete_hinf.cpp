@@ -18,9 +18,7 @@ namespace {
 using Eigen::MatrixXd;
 using Gained = Result<MatrixXd, SolveError>;
 
-tl::unexpected<SolveError> Failed(const SolveError& error, const std::string& design) {
-  return Failure(SolveError{error.reason, design + error.message});
-}
+using internal::Failed;
 
 // The robot's input and push, sampled together.
 struct SampledRobot {

@@ -57,6 +57,10 @@ Eigen::MatrixXd DareGain(const RiccatiProblem& problem, const Eigen::MatrixXd& X
 
 // The failing side of a solver: `return Fail(SolveFailure::kIllConditioned, "...")`.
 tl::unexpected<SolveError> Fail(SolveFailure reason, std::string message);
+// A solver's failure passed on by a design, its message prefixed with the design that met it.
+inline tl::unexpected<SolveError> Failed(const SolveError& error, const std::string& design) {
+  return Fail(error.reason, design + error.message);
+}
 
 // kNotPositiveSemidefinite when λ_min(X) < −kPsdTolerance·‖X‖₂, with a message giving both
 // numbers.

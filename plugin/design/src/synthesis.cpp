@@ -4,6 +4,7 @@
 #include <sstream>
 
 #include "gamma_bisection.hpp"
+#include "riccati_common.hpp"
 #include "upright/design/closed_loop.hpp"
 
 namespace upright::design {
@@ -12,10 +13,7 @@ namespace {
 using Eigen::MatrixXd;
 using Gained = Result<MatrixXd, SolveError>;
 
-// The solver's failure, its message prefixed with the design that met it.
-tl::unexpected<SolveError> Failed(const SolveError& error, const std::string& design) {
-  return Failure(SolveError{error.reason, design + error.message});
-}
+using internal::Failed;
 
 MatrixXd PushColumn(const LinearModel& plant, double push_scale_N) {
   return plant.E.col(0) * push_scale_N;
