@@ -35,6 +35,25 @@ void NoteUnanalysedDelay(ControllerReport* report, double latency_s, double peri
   report->unanalysed_delay_s = latency_s + (report->sampled.analysed() ? 0 : period_s / 2);
 }
 
+// The γ the H-infinity design sits at: the one asked for, factor × γ_opt, or the rule's
+// (ChooseGamma); the report notes which, and the rule's choice.
+Result<double> PickGamma(const DesignRequest& req, const LinearModel& plant,
+                         const Performance& perf, const RobotModel& model, HinfReport* report) {
+  if (req.gamma > 0) {
+    report->source = GammaSource::kGiven;
+    return req.gamma;
+  }
+  if (req.gamma_factor > 0) {
+    report->source = GammaSource::kFactor;
+    return req.gamma_factor * report->gamma_opt;
+  }
+  report->source = GammaSource::kRule;
+  const Result<GammaChoice> choice = ChooseGamma(plant, perf, report->gamma_opt, model);
+  if (!choice) return Failure(choice.error());
+  report->choice = *choice;
+  return choice->gamma;
+}
+
 }  // namespace
 
 const char* ToString(DesignStatus status) {
@@ -63,10 +82,11 @@ Status DesignRequest::Validate() const {
   if (!(rate_hz >= 0) || !std::isfinite(rate_hz)) {
     why << "DesignRequest::rate_hz = " << rate_hz << ", must be > 0 (or 0 for the model's)";
   } else if (!(gamma >= 0) || !std::isfinite(gamma)) {
-    why << "DesignRequest::gamma = " << gamma << ", must be > 0 (or 0 for " << gamma_factor
-        << " x gamma_opt)";
-  } else if (!(gamma_factor > 1) || !std::isfinite(gamma_factor)) {
-    why << "DesignRequest::gamma_factor = " << gamma_factor << ", must be > 1";
+    why << "DesignRequest::gamma = " << gamma << ", must be > 0 (or 0 for gamma_factor x "
+        << "gamma_opt)";
+  } else if (!(gamma_factor == 0 || gamma_factor > 1) || !std::isfinite(gamma_factor)) {
+    why << "DesignRequest::gamma_factor = " << gamma_factor
+        << ", must be > 1 (or 0 for the rule of the design push)";
   } else if (!(push_scale_N >= 0) || !std::isfinite(push_scale_N)) {
     why << "DesignRequest::push_scale_N = " << push_scale_N << ", must be >= 0";
   } else if (!std::isfinite(push_height_m)) {
@@ -88,6 +108,21 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
   if (req.push_scale_N == 0) {
     req.push_scale_N = 0.1 * model.total_mass_kg() * kStandardGravity_m_s2;
   }
+  set.limits = RobotLimits{GroundContact(model, plant.equilibrium_pitch_rad),
+                           InputLimit(model, req.input), model.motor.current_limit_A};
+  set.design_push = DesignPushFor(plant, req.push_scale_N);
+  if (Result<DesignWeights> resolved =
+          WeightsForRobot(req.weights, model, plant.equilibrium_pitch_rad);
+      resolved) {
+    req.weights = *resolved;
+  } else {
+    for (ControllerReport* report :
+         {&set.lqr, static_cast<ControllerReport*>(&set.hinf),
+          static_cast<ControllerReport*>(&set.lqg), static_cast<ControllerReport*>(&set.pid)}) {
+      report->message = resolved.error();
+    }
+    return set;
+  }
   const double period_s = 1 / req.rate_hz;
   Performance& perf = set.performance;
   perf.Q = StateWeight(req.weights);
@@ -107,15 +142,19 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     set.lqr.message = lqr ? lqr_d.error().message : lqr.error().message;
   }
 
-  // H-infinity state feedback at γ = factor × γ_opt, or the γ asked for.
+  // H-infinity state feedback at the γ asked for, factor × γ_opt, or by the rule.
   const Result<GammaSearch, SolveError> search =
       RobotOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N);
   if (!search) {
     set.hinf.message = search.error().message;
   } else {
     set.hinf.gamma_opt = search->gamma_opt;
-    if (req.gamma == 0) req.gamma = req.gamma_factor * search->gamma_opt;
-    set.hinf.gamma = req.gamma;
+    set.hinf.trade_off = GammaTradeOff(plant, perf, search->gamma_opt, model);
+    const Result<double> gamma = PickGamma(req, plant, perf, model, &set.hinf);
+    if (!gamma) set.hinf.message = "H-infinity: " + gamma.error();
+    if (gamma) req.gamma = set.hinf.gamma = *gamma;
+  }
+  if (set.hinf.gamma > 0) {
     const Result<Eigen::MatrixXd, SolveError> hinf =
         RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, req.gamma);
     if (hinf) {

@@ -4,12 +4,16 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
 #include "upright/design/closed_loop.hpp"
+#include "upright/design/design_push.hpp"
+#include "upright/design/gamma_choice.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/lqg_filter.hpp"
-#include "upright/design/sampled_loop.hpp"
 #include "upright/design/pid.hpp"
+#include "upright/design/robot_limits.hpp"
+#include "upright/design/sampled_loop.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/robot_model.hpp"
@@ -20,12 +24,12 @@ struct DesignRequest {
   InputKind input = InputKind::kTorque;
   double rate_hz = 0;           // controller sample rate; 0 = the model's control rate
   double gamma = 0;             // H-infinity γ; 0 = gamma_factor × γ_opt
-  double gamma_factor = 1.1;    // > 1
+  double gamma_factor = 0;      // > 1; 0 = by the rule of ChooseGamma (gamma_choice.hpp)
   double push_height_m = -1;    // < 0: at the lumped COM height
   double push_scale_N = 0;      // w = 1 means this push; 0 = 10 % of the robot's weight
-  DesignWeights weights;
-  // The first broken rule ("DesignRequest::gamma_factor = 1, must be > 1"); success when there is
-  // none.
+  DesignWeights weights;        // fields left to the robot resolved by WeightsForRobot
+  // The first broken rule ("DesignRequest::gamma_factor = 1, must be > 1 (or 0 ...)"); success
+  // when there is none.
   Status Validate() const;
 };
 
@@ -56,9 +60,20 @@ struct ControllerReport {
   bool delay_margin_short() const { return ok && loop.margins.delay_s < unanalysed_delay_s; }
 };
 
+// Where the H-infinity design's γ came from.
+enum class GammaSource {
+  kRule,    // ChooseGamma: the smallest keeping the design push within the robot's limits
+  kFactor,  // DesignRequest::gamma_factor × γ_opt
+  kGiven,   // DesignRequest::gamma
+};
+
 struct HinfReport : ControllerReport {
   double gamma = 0;
   double gamma_opt = 0;
+  GammaSource source = GammaSource::kRule;
+  GammaChoice choice;  // the rule's, when source is kRule
+  // The trade-off over γ (GammaTradeOff), empty when γ_opt was not found.
+  std::vector<GammaPoint> trade_off;
 };
 
 struct LqgReport : ControllerReport {
@@ -74,9 +89,18 @@ struct PidReport : ControllerReport {
   PidGains gains;
 };
 
+// The robot's limits the defaults and the γ rule draw on.
+struct RobotLimits {
+  GroundContactTilt ground_contact;  // GroundContact at the plant's equilibrium pitch
+  double input_limit = 0;            // InputLimit for the request's input: N·m or V per wheel
+  double current_limit_A = 0;        // the drive's
+};
+
 struct DesignSet {
   LinearModel plant;
-  DesignRequest request;  // with defaults resolved (rate, push scale, γ)
+  DesignRequest request;  // with defaults resolved (rate, push scale, weights, γ)
+  RobotLimits limits;
+  DesignPush design_push;  // DesignPushFor(plant, push scale)
   Performance performance;
   ControllerReport lqr;
   HinfReport hinf;
@@ -85,6 +109,8 @@ struct DesignSet {
   bool all_ok() const { return lqr.ok && hinf.ok && lqg.ok && pid.ok; }
 };
 
+// Every design for `model`. Weights the robot cannot resolve (WeightsForRobot) fail every
+// design with that reason.
 DesignSet DesignAll(const RobotModel& model, const DesignRequest& request);
 
 }  // namespace upright::design

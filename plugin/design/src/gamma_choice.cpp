@@ -1,0 +1,109 @@
+#include "upright/design/gamma_choice.hpp"
+
+#include <cmath>
+#include <limits>
+#include <sstream>
+
+namespace upright::design {
+namespace {
+
+// The design push on the central H-infinity loop at γ, within the limits or not; a failure when
+// the design or the push response could not be made.
+struct Tried {
+  Gain K = Gain::Zero();
+  PushPeaks peaks;
+  bool within = false;
+};
+
+bool Within(const PushPeaks& peaks, const PushLimits& limits) {
+  return peaks.tilt_rad <= limits.tilt_rad && peaks.current_A <= limits.current_A;
+}
+
+Result<Tried> Try(const LinearModel& plant, const Performance& perf, const CurrentMap& current,
+                  const DesignPush& push, const PushLimits& limits, double gamma) {
+  const Result<Eigen::MatrixXd, SolveError> K =
+      RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, gamma);
+  if (!K) return Failure(K.error().message);
+  const Result<PushPeaks> peaks = LinearPushPeaks(plant, *K, current, push);
+  if (!peaks) return Failure(peaks.error());
+  return Tried{*K, *peaks, Within(*peaks, limits)};
+}
+
+}  // namespace
+
+PushLimits PushLimitsOf(const RobotModel& model, double equilibrium_pitch_rad) {
+  return PushLimits{GroundContact(model, equilibrium_pitch_rad).smallest_rad(),
+                    model.motor.current_limit_A};
+}
+
+Result<GammaChoice> ChooseGamma(const LinearModel& plant, const Performance& perf, double gamma_opt,
+                                const RobotModel& model) {
+  if (!(gamma_opt > 0) || !std::isfinite(gamma_opt)) {
+    std::ostringstream why;
+    why << "gamma rule: gamma_opt = " << gamma_opt << ", must be > 0 and finite";
+    return Failure(why.str());
+  }
+  const CurrentMap current = MotorCurrent(model, plant.input);
+  const DesignPush push = DesignPushFor(plant, perf.push_scale_N);
+  const PushLimits limits = PushLimitsOf(model, plant.equilibrium_pitch_rad);
+  const auto tried = [&](double factor) {
+    return Try(plant, perf, current, push, limits, factor * gamma_opt);
+  };
+  const auto choice = [&](double factor, const Tried& t) {
+    return GammaChoice{factor, factor * gamma_opt, t.peaks, t.within};
+  };
+  const Result<Tried> lowest = tried(kGammaFactorLowest);
+  if (lowest && lowest->within) return choice(kGammaFactorLowest, *lowest);
+  Result<Tried> highest = tried(kGammaFactorHighest);
+  if (!highest) return Failure("gamma rule: " + highest.error());
+  if (!highest->within) return choice(kGammaFactorHighest, *highest);
+  // Bisection of the factor on a log scale, keeping `hi` within the limits and `lo` outside them
+  // (or not designable).
+  double lo = kGammaFactorLowest, hi = kGammaFactorHighest;
+  Tried at_hi = *highest;
+  while (hi / lo > 1.01) {
+    const double mid = std::sqrt(lo * hi);
+    const Result<Tried> t = tried(mid);
+    if (t && t->within) {
+      hi = mid;
+      at_hi = *t;
+    } else {
+      lo = mid;
+    }
+  }
+  return choice(hi, at_hi);
+}
+
+std::vector<GammaPoint> GammaTradeOff(const LinearModel& plant, const Performance& perf,
+                                      double gamma_opt, const RobotModel& model) {
+  const CurrentMap current = MotorCurrent(model, plant.input);
+  const DesignPush push = DesignPushFor(plant, perf.push_scale_N);
+  const PushLimits limits = PushLimitsOf(model, plant.equilibrium_pitch_rad);
+  const auto row = [&](double factor, const Result<Eigen::MatrixXd, SolveError>& K) {
+    GammaPoint p;
+    p.factor = factor;
+    p.gamma = factor * gamma_opt;
+    if (!K) return p;
+    const Gain gain = *K;
+    const AnalysisResult<LoopAnalysis> loop =
+        AnalyseLoop(plant, FullState(), StateFeedback(gain), perf);
+    const Result<PushPeaks> peaks = LinearPushPeaks(plant, gain, current, push);
+    if (!loop || !peaks) return p;
+    Eigen::JacobiSVD<Eigen::MatrixXd> svd(gain);
+    p.gain_norm = svd.singularValues()(0);
+    p.push_norm = loop->push_norm;
+    p.peaks = *peaks;
+    p.within_limits = Within(*peaks, limits);
+    p.ok = true;
+    return p;
+  };
+  std::vector<GammaPoint> rows;
+  for (const double factor : kTradeOffFactors) {
+    rows.push_back(
+        row(factor, RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, factor * gamma_opt)));
+  }
+  rows.push_back(row(std::numeric_limits<double>::infinity(), RobotLqr(plant, perf.Q, perf.R)));
+  return rows;
+}
+
+}  // namespace upright::design
