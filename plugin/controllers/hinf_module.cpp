@@ -1,6 +1,7 @@
 // Built-in module `hinf`: H-infinity state feedback against a push. The state (estimated from the
 // sensors, or true) and the reference in each tick; wheel commands u = u_ss − K e out, K the
-// central H-infinity gain at γ = gamma_factor × γ_opt (or the `gamma` given), designed at create.
+// central H-infinity gain at γ by the rule of the design push (design::ChooseGamma, as
+// `upright design`), or gamma_factor × γ_opt, or the `gamma` given; designed at create.
 #include <memory>
 #include <sstream>
 
@@ -9,6 +10,7 @@
 #include "kit/module_adapter.hpp"
 #include "kit/state_estimator.hpp"
 #include "kit/state_feedback.hpp"
+#include "upright/design/gamma_choice.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/conventions.hpp"
@@ -23,10 +25,9 @@ class HinfController {
   static Result<std::unique_ptr<HinfController>, ModuleError> Create(
       const ModuleContext& context, upright_create_result* result) {
     ConfigReader reader(context.config);
-    const CommonConfig config =
-        ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
+    const CommonConfig config = ReadCommonConfig(&reader, context, /*voltage_allowed=*/true);
     double gamma = 0;
-    double gamma_factor = 1.1;  // γ just above the optimum, as `upright design` reports
+    double gamma_factor = 0;  // 0: γ by the rule, as `upright design` chooses it
     reader.Number("gamma", NumberRule::kPositive, &gamma);
     reader.Number("gamma_factor", NumberRule::kAboveOne, &gamma_factor);
     if (reader.Has("gamma") && reader.Has("gamma_factor")) {
@@ -45,8 +46,15 @@ class HinfController {
       return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
                                  "H-infinity gamma search failed: " + search.error().message});
     }
-    if (gamma == 0) {
+    if (gamma == 0 && gamma_factor > 0) {
       gamma = gamma_factor * search->gamma_opt;
+    } else if (gamma == 0) {
+      const Result<design::GammaChoice> choice = design::ChooseGamma(
+          plant, design::Performance{Q, R, push_scale_N}, search->gamma_opt, context.robot);
+      if (!choice) {
+        return Failure(ModuleError{UPRIGHT_UNSUPPORTED, "H-infinity " + choice.error()});
+      }
+      gamma = choice->gamma;
     } else if (!(gamma > search->gamma_opt)) {
       std::ostringstream why;
       why << "gamma = " << gamma << ": must be > gamma_opt = " << search->gamma_opt
