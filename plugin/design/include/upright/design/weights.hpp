@@ -24,7 +24,7 @@ struct DesignWeights {
   double max_yaw_rate_deg_s = 45;     // yaw-rate error
   // Of the per-wheel input limit (InputLimit: the stall torque, or the supply voltage), in (0, 1].
   // Not the whole limit: with the full stall torque as Bryson's maximum the loops' fastest poles
-  // run three to four times faster, which the demo robots' control rates and latencies do not
+  // run 2.7–4.3 times faster, which the demo robots' control rates and latencies do not
   // carry (the tabletop's H-infinity loop becomes unstable sampled at 100 Hz, its LQR keeps a
   // 6.9 ms delay margin against 5 ms of latency); the rest of the limit is the headroom that
   // peaks draw on.
