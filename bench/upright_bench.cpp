@@ -14,6 +14,7 @@
 #include <cstdio>
 #include <cstdlib>
 #include <memory>
+#include <numbers>
 #include <string>
 #include <thread>
 #include <vector>
@@ -26,17 +27,17 @@
 #include "upright/design/weights.hpp"
 #include "upright/host/module.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/runner/batch.hpp"
-#include "upright/runner/run_one.hpp"
-#include "upright/runner/scenario_file.hpp"
+#include "upright/runner/run/batch.hpp"
+#include "upright/runner/run/run_one.hpp"
+#include "upright/runner/scenario/scenario_file.hpp"
 #include "upright/sim/plant.hpp"
 #include "world.hpp"
 
 namespace {
 
 using upright::FixedText;
-using upright::RobotModel;
 using upright::SignificantText;
+using upright::model::RobotModel;
 using namespace upright::runner;
 namespace sim = upright::sim;
 using Clock = std::chrono::steady_clock;
@@ -97,8 +98,8 @@ FloorLaw SameMotionLaw(const Scenario& scenario) {
 
 // The floor: the plant's world and robot (same bodies, colliders, step, solver iterations),
 // stepped `steps` times under `law`, nothing else. Returns seconds per step.
-double FloorPerStep(const RobotModel& model, const sim::PlantOptions& options, const FloorLaw& law,
-                    long steps) {
+double FloorPerStep(const RobotModel& model, const sim::PlantOptions& options,
+                    const FloorLaw& law, long steps) {
   namespace internal = upright::sim::internal;
   internal::World world(options.dt_s, options.solver_iterations);
   world.AddGround(options.terrain, std::clamp(4 * model.wheel.radius_m, 0.2, 1.0));
@@ -119,7 +120,7 @@ double FloorPerStep(const RobotModel& model, const sim::PlantOptions& options, c
     const double t0 = static_cast<double>(k) * options.dt_s, t1 = t0 + options.dt_s;
     for (const sim::Push& p : law.pushes) {
       if (t1 <= p.start_s || t0 >= p.end_s()) continue;
-      const double azimuth = p.direction_deg * upright::kPi / 180;
+      const double azimuth = p.direction_deg * std::numbers::pi / 180;
       const btVector3 f = p.MeanForce(t0, t1) * btVector3(std::cos(azimuth), std::sin(azimuth), 0);
       body->addBaseForce(f);
       body->addBaseTorque((r * (robot.com_to_axle + btVector3(0, 0, p.height_m))).cross(f));

@@ -39,7 +39,7 @@ class HinfController {
     const design::StateMatrix Q = design::StateWeight(config.weights);
     const Eigen::Matrix2d R = design::InputWeight(config.weights, context.robot, config.input);
     // The disturbance w = 1 is a push of 10 % of the robot's weight, as in `upright design`.
-    const double push_scale_N = 0.1 * TotalMass(context.robot_abi) * kStandardGravity_m_s2;
+    const double push_scale_N = 0.1 * TotalMass(context.robot_abi) * model::kStandardGravity_m_s2;
     const Result<design::GammaSearch, design::SolveError> search =
         design::RobotOptimalGamma(plant, Q, R, push_scale_N);
     if (!search) {
@@ -63,9 +63,6 @@ class HinfController {
     }
     // The continuous-time gain, applied at the module's rate: at the demo robots' control rates
     // (≥ 100 Hz, well above the closed-loop bandwidth) the sampling itself changes it little.
-    // Sampling together with the sensors' latency and the encoder rate's averaging does matter
-    // on voltage commands: on the courier robot with the estimated state the loop chatters at
-    // the Nyquist rate (±10 V at 100 Hz) while it balances.
     const Result<Eigen::MatrixXd, design::SolveError> hinf =
         design::RobotHinf(plant, Q, R, push_scale_N, gamma);
     if (!hinf) {
@@ -84,7 +81,7 @@ class HinfController {
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     Result<StateFeedbackLaw, ModuleError> law =
-        StateFeedbackLaw::For(plant, *hinf, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw::For(plant, *hinf, DriveLimits(context.robot.motor, config.input),
                               ReferenceTracker(context.period_s, config.max_accel_m_s2));
     if (!law) return Failure(law.error());
     return std::unique_ptr<HinfController>(
@@ -99,7 +96,8 @@ class HinfController {
   const char* Step(const upright_step_input& input, upright_step_output* output) {
     const design::StateVector* state = nullptr;
     if (const char* why = source_.Update(input, &state)) return why;
-    if (const char* why = law_.Step(input.reference, *state, output)) return why;
+    const Eigen::Vector2d wheel_speeds = source_.WheelSpeeds(input);
+    if (const char* why = law_.Step(input.reference, *state, wheel_speeds, output)) return why;
     output->diagnostics[gamma_slot_] = gamma_;
     return nullptr;
   }

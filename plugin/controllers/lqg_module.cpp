@@ -83,7 +83,7 @@ class LqgController {
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     Result<StateFeedbackLaw, ModuleError> law =
-        StateFeedbackLaw::For(plant, *gain, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw::For(plant, *gain, DriveLimits(context.robot.motor, config.input),
                               ReferenceTracker(context.period_s, config.max_accel_m_s2));
     if (!law) return Failure(law.error());
     return std::unique_ptr<LqgController>(
@@ -106,14 +106,16 @@ class LqgController {
     } else {
       Estimate(input.sensors);
     }
-    if (const char* why = law_.Step(input.reference, *state, output)) return why;
+    const Eigen::Vector2d wheel_speeds = truth_.WheelSpeeds(input);
+    if (const char* why = law_.Step(input.reference, *state, wheel_speeds, output)) return why;
     output->diagnostics[diagnostic_slot_] = innovation_(kAccelRow);
     return nullptr;
   }
 
  private:
-  LqgController(StateChoice state_choice, const RobotModel& robot, double equilibrium_pitch_rad,
-                const Filter& filter, StateSource truth, StateFeedbackLaw law)
+  LqgController(StateChoice state_choice, const model::RobotModel& robot,
+                double equilibrium_pitch_rad, const Filter& filter, StateSource truth,
+                StateFeedbackLaw law)
       : state_choice_(state_choice),
         wheel_radius_m_(robot.wheel.radius_m),
         track_m_(robot.wheel.track_m),
@@ -126,15 +128,18 @@ class LqgController {
   // sample), gyro y, the encoder heading (likewise), gyro z, and f_x / g about the equilibrium
   // pitch (f_x = −g sin θ standing still).
   MeasurementVector Measure(const upright_sensor_sample& s) const {
-    const double mean_angle = (s.encoder_angle_rad[kLeft] + s.encoder_angle_rad[kRight]) / 2;
+    const double mean_angle =
+        (s.encoder_angle_rad[model::kLeft] + s.encoder_angle_rad[model::kRight]) / 2;
     MeasurementVector y;
     y << mean_angle - angle_origin_rad_, s.gyro_rad_s[1], Heading(s) - heading_origin_rad_,
-        s.gyro_rad_s[2], s.accel_m_s2[0] / kStandardGravity_m_s2 + std::sin(equilibrium_pitch_rad_);
+        s.gyro_rad_s[2],
+        s.accel_m_s2[0] / model::kStandardGravity_m_s2 + std::sin(equilibrium_pitch_rad_);
     return y;
   }
 
   double Heading(const upright_sensor_sample& s) const {
-    return wheel_radius_m_ * (s.encoder_angle_rad[kRight] - s.encoder_angle_rad[kLeft]) / track_m_;
+    return wheel_radius_m_ *
+           (s.encoder_angle_rad[model::kRight] - s.encoder_angle_rad[model::kLeft]) / track_m_;
   }
 
   // The first sample starts the estimate (pitch from the accelerometer, rates from the gyro and
@@ -145,9 +150,11 @@ class LqgController {
     if (!started_) {
       started_ = true;
       const double pitch = AccelerometerPitch(s.accel_m_s2) - equilibrium_pitch_rad_;
-      angle_origin_rad_ = (s.encoder_angle_rad[kLeft] + s.encoder_angle_rad[kRight]) / 2 + pitch;
+      angle_origin_rad_ =
+          (s.encoder_angle_rad[model::kLeft] + s.encoder_angle_rad[model::kRight]) / 2 + pitch;
       heading_origin_rad_ = Heading(s);
-      const double mean_rate = (s.encoder_rate_rad_s[kLeft] + s.encoder_rate_rad_s[kRight]) / 2;
+      const double mean_rate =
+          (s.encoder_rate_rad_s[model::kLeft] + s.encoder_rate_rad_s[model::kRight]) / 2;
       estimate_ << 0, wheel_radius_m_ * (mean_rate + s.gyro_rad_s[1]), pitch, s.gyro_rad_s[1], 0,
           s.gyro_rad_s[2];
       innovation_.setZero();
@@ -161,7 +168,7 @@ class LqgController {
   StateChoice state_choice_;
   double wheel_radius_m_, track_m_, equilibrium_pitch_rad_;
   Filter filter_;
-  StateSource truth_;  // used with state = true only
+  StateSource truth_;  // the true state with state = true; the wheels' speeds either way
   StateFeedbackLaw law_;
   // The accelerometer innovation follows the state-feedback diagnostics.
   const std::size_t diagnostic_slot_ = StateFeedbackLaw::DiagnosticNames().size();

@@ -37,7 +37,7 @@ class LqrController {
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);
     Result<StateFeedbackLaw, ModuleError> law =
-        StateFeedbackLaw::For(plant, *gain, design::InputLimit(context.robot, config.input),
+        StateFeedbackLaw::For(plant, *gain, DriveLimits(context.robot.motor, config.input),
                               ReferenceTracker(context.period_s, config.max_accel_m_s2));
     if (!law) return Failure(law.error());
     return std::unique_ptr<LqrController>(
@@ -52,7 +52,7 @@ class LqrController {
   const char* Step(const upright_step_input& input, upright_step_output* output) {
     const design::StateVector* state = nullptr;
     if (const char* why = source_.Update(input, &state)) return why;
-    return law_.Step(input.reference, *state, output);
+    return law_.Step(input.reference, *state, source_.WheelSpeeds(input), output);
   }
 
  private:

@@ -10,9 +10,9 @@
 #include "log.hpp"
 #include "module_messages.hpp"
 #include "upright/model/model_file.hpp"
-#include "upright/runner/modules.hpp"
-#include "upright/runner/run_one.hpp"
-#include "upright/runner/scenario_file.hpp"
+#include "upright/runner/run/modules.hpp"
+#include "upright/runner/run/run_one.hpp"
+#include "upright/runner/scenario/scenario_file.hpp"
 
 namespace upright::cli {
 namespace {
@@ -57,8 +57,8 @@ std::vector<std::string> ExpandFolders(const std::vector<std::string>& args,
 // What a run of each controller of `scenario` would refuse at set-up, at the controller's line:
 // its module not loading, its create refusing the robot, settings or rate, or the plant refusing.
 // What each module logged while it was created is logged as it would be after a run.
-std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
-  std::vector<FileError> problems;
+std::vector<model::FileError> ControllerProblems(const runner::Scenario& scenario) {
+  std::vector<model::FileError> problems;
   const runner::ModuleSet modules({&scenario, 1}, {});
   const LogLevel level = Log().Shows(LogLevel::kDebug) ? LogLevel::kDebug : LogLevel::kInfo;
   for (std::size_t i = 0; i < scenario.controllers.size(); ++i) {
@@ -69,14 +69,15 @@ std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
       problem = loaded.error();
     } else {
       const host::Module& module = **loaded;
-      Log().Debug(FileError{scenario.path, entry.line,
-                            "controller '" + entry.name + "': module '" + module.name() +
-                                "' from " + module.path()}
+      Log().Debug(model::FileError{
+          scenario.path, entry.line,
+          "controller '" + entry.name + "': module '" + module.name() + "' from " + module.path()}
                       .ToString());
       runner::ModuleLog module_log;
       const Status start = runner::CheckRunStart(scenario, i, *loaded, &module_log, level);
       LogModuleMessages(
-          Log(), FileError{scenario.path, entry.line, "controller '" + entry.name + "'"}.ToString(),
+          Log(),
+          model::FileError{scenario.path, entry.line, "controller '" + entry.name + "'"}.ToString(),
           module_log);
       if (start) continue;
       problem = start.error();
@@ -85,7 +86,7 @@ std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
       if (problem.rfind(host_lead, 0) == 0) problem.erase(0, host_lead.size());
     }
     problems.push_back(
-        FileError{scenario.path, entry.line, "controller '" + entry.name + "': " + problem});
+        model::FileError{scenario.path, entry.line, "controller '" + entry.name + "': " + problem});
   }
   return problems;
 }
@@ -93,7 +94,8 @@ std::vector<FileError> ControllerProblems(const runner::Scenario& scenario) {
 // Checks one scenario file; true when it is valid and every controller of it can start.
 bool CheckScenario(const std::string& path) {
   const runner::ScenarioLoadResult loaded = runner::LoadScenarioFile(path);
-  const std::vector<FileError> problems = loaded ? ControllerProblems(*loaded) : loaded.error();
+  const std::vector<model::FileError> problems =
+      loaded ? ControllerProblems(*loaded) : loaded.error();
   if (problems.empty()) {
     Log().Info(path + ": ok (scenario '" + loaded->name + "', robot '" + loaded->model.name +
                "', " + std::to_string(loaded->controllers.size()) + " controller(s))");
@@ -122,7 +124,7 @@ int RunCheck(const std::vector<std::string>& args) {
       ++bad;
       continue;
     }
-    const auto result = LoadModelFile(path);
+    const auto result = model::LoadModelFile(path);
     if (result) {
       Log().Info(path + ": ok (robot model '" + result->name + "')");
     } else {

@@ -7,7 +7,7 @@
 #include <vector>
 
 #include "upright/design/design_set.hpp"
-#include "upright/runner/batch.hpp"
+#include "upright/runner/run/batch.hpp"
 
 namespace upright::cli {
 
@@ -40,12 +40,14 @@ struct DesignOptions {
   std::optional<double> push_scale_N;   // --push-scale-N
   std::optional<double> max_tilt_deg;   // --max-tilt-deg
   design::DesignRequest request;        // the other flags (the other weights)
+  std::string export_c_path;            // --export-c: also write the usable gains as a C header
 };
 
 // `upright design MODEL`: linear model, controller gains, poles, norms and margins, a status per
 // controller. Exit 0 when every design offered for the input is usable (made, and stable as the
 // module samples it), 3 when some are and some are not (each says why in place), 1 when none is,
-// 2 on bad input (the message names the flag).
+// 2 on bad input (the message names the flag). With --export-c the usable designs' gains are
+// written as a C header too (gains_header.hpp); when that fails, exit 1.
 int RunDesign(const DesignOptions& options);
 
 struct RunCommandOptions {

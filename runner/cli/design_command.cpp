@@ -5,20 +5,26 @@
 #include <array>
 #include <cmath>
 #include <complex>
+#include <filesystem>
 #include <cstdio>
 #include <iostream>
+#include <numbers>
 #include <string>
 #include <string_view>
 #include <utility>
 #include <vector>
 
 #include "commands.hpp"
+#include "gains_header.hpp"
 #include "log.hpp"
 #include "upright/base/number_text.hpp"
 #include "upright/design/design_set.hpp"
 #include "upright/model/conventions.hpp"
 #include "upright/model/model_file.hpp"
-#include "upright/runner/json_text.hpp"
+#include "upright/runner/common/atomic_file.hpp"
+#include "upright/runner/common/json_text.hpp"
+#include "upright/runner/common/sha256.hpp"
+#include "upright_version.hpp"
 
 namespace upright::cli {
 namespace {
@@ -132,7 +138,7 @@ void WriteController(JsonText& j, const ControllerReport& c) {
 
 // The robot's limits, the weights' maxima drawn from them and the design push.
 void WriteLimits(JsonText& j, const DesignSet& d) {
-  const double deg = 180 / kPi;
+  const double deg = 180 / std::numbers::pi;
   j.BeginObject("limits");
   j.Number("ground_contact_tilt_deg", d.limits.ground_contact.smallest_rad() * deg);
   j.Number("ground_contact_forward_deg", d.limits.ground_contact.forward_rad * deg);
@@ -167,7 +173,7 @@ const char* SourceName(design::GammaSource source) {
 
 // Where γ came from and the trade-off over γ (the LQR row's factor and γ are null: infinite).
 void WriteGammaChoice(JsonText& j, const design::HinfReport& h) {
-  const double deg = 180 / kPi;
+  const double deg = 180 / std::numbers::pi;
   j.Number("gamma_factor", h.gamma_opt > 0 ? h.gamma / h.gamma_opt : NAN);
   j.String("gamma_source", SourceName(h.source));
   if (h.source == design::GammaSource::kRule) j.Bool("gamma_limits_met", h.choice.limits_met);
@@ -188,7 +194,7 @@ void WriteGammaChoice(JsonText& j, const design::HinfReport& h) {
   j.EndArray();
 }
 
-std::string Json(const RobotModel& model, const DesignSet& d) {
+std::string Json(const model::RobotModel& model, const DesignSet& d) {
   JsonText j;
   j.BeginObject();
   j.String("robot", model.name);
@@ -228,6 +234,8 @@ std::string Json(const RobotModel& model, const DesignSet& d) {
   WriteMatrix(j, "C", d.lqg.sensors.C);
   WriteMatrix(j, "D", d.lqg.sensors.D);
   WriteMatrix(j, "L_discrete", d.lqg.L_discrete);
+  WriteMatrix(j, "Ad", d.lqg.Ad);
+  WriteMatrix(j, "Bd", d.lqg.Bd);
   j.Number("estimator_fastest_1_s", d.lqg.estimator_fastest_1_s);
   j.EndObject();
 
@@ -302,7 +310,7 @@ void PrintController(const char* title, const ControllerReport& c, double latenc
 
 // The robot's limits, the weights' maxima drawn from them, and the design push.
 void PrintLimits(const DesignSet& d, bool tilt_given) {
-  const double deg = 180 / kPi;
+  const double deg = 180 / std::numbers::pi;
   const design::GroundContactTilt& contact = d.limits.ground_contact;
   const bool torque = d.plant.input == design::InputKind::kTorque;
   const char* unit = torque ? "N·m" : "V";
@@ -329,7 +337,7 @@ void PrintLimits(const DesignSet& d, bool tilt_given) {
 void PrintGamma(const DesignSet& d) {
   const design::HinfReport& h = d.hinf;
   if (!(h.gamma_opt > 0)) return;
-  const double deg = 180 / kPi;
+  const double deg = 180 / std::numbers::pi;
   std::string why;
   switch (h.source) {
     case design::GammaSource::kGiven:
@@ -368,7 +376,7 @@ void PrintGamma(const DesignSet& d) {
   }
 }
 
-void PrintText(const RobotModel& model, const DesignSet& d, bool tilt_given) {
+void PrintText(const model::RobotModel& model, const DesignSet& d, bool tilt_given) {
   const design::LinearModel& p = d.plant;
   std::printf("robot '%s': linearised about upright (%s input, controllers at %s Hz)\n",
               model.name.c_str(),
@@ -392,7 +400,7 @@ void PrintText(const RobotModel& model, const DesignSet& d, bool tilt_given) {
   PrintController(controllers[1].title, d.hinf, latency_s, rate_hz);
   PrintGamma(d);
   PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
-  const double nyquist_1_s = kPi * d.request.rate_hz;
+  const double nyquist_1_s = std::numbers::pi * d.request.rate_hz;
   if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {
     std::printf(
         "note: the continuous estimator reaches %s 1/s, beyond the %s 1/s Nyquist rate "
@@ -494,6 +502,30 @@ Result<design::DesignRequest> ResolveFlags(const DesignOptions& o) {
   return request;
 }
 
+// --export-c names a file in a folder that exists (checked before anything is designed).
+Status CheckExportPath(const std::string& path) {
+  namespace fs = std::filesystem;
+  std::error_code error;
+  if (fs::is_directory(path, error)) return Failure("--export-c " + path + ": is a folder");
+  const fs::path parent = fs::path(path).parent_path();
+  if (!parent.empty() && !fs::is_directory(parent, error)) {
+    return Failure("--export-c " + path + ": folder " + parent.string() + " does not exist");
+  }
+  return {};
+}
+
+// Writes the usable gains as a C header; the reason when it cannot.
+Status ExportGains(const DesignOptions& options, const model::RobotModel& model,
+                   const DesignSet& set) {
+  const Result<std::string> sha = runner::Sha256OfFile(options.model_path);
+  if (!sha) return Failure(sha.error());
+  const Result<std::string> header = GainsHeader(
+      {.model = &model, .set = &set, .model_path = options.model_path, .model_sha256 = *sha,
+       .version = UPRIGHT_VERSION});
+  if (!header) return Failure("--export-c " + options.export_c_path + ": " + header.error());
+  return runner::WriteFileAtomically(options.export_c_path, *header);
+}
+
 }  // namespace
 
 int RunDesign(const DesignOptions& options) {
@@ -503,9 +535,15 @@ int RunDesign(const DesignOptions& options) {
     return kExitBadInput;
   }
   const design::DesignRequest& request = *resolved;
+  if (!options.export_c_path.empty()) {
+    if (const Status path = CheckExportPath(options.export_c_path); !path) {
+      Log().Error(path.error());
+      return kExitBadInput;
+    }
+  }
   // A design never steps the physics, so a robot whose rates suit another step still designs.
-  const auto loaded =
-      LoadModelFile(options.model_path, ModelLoadOptions{.check_default_step = false});
+  const auto loaded = model::LoadModelFile(options.model_path,
+                                           model::ModelLoadOptions{.check_default_step = false});
   if (!loaded) {
     for (const auto& e : loaded.error()) Log().Error(e.ToString());
     return kExitBadInput;
@@ -518,6 +556,13 @@ int RunDesign(const DesignOptions& options) {
   }
   std::cout.flush();
   std::fflush(stdout);
+  if (!options.export_c_path.empty()) {
+    if (const Status exported = ExportGains(options, *loaded, set); !exported) {
+      Log().Error(exported.error());
+      return kExitFailed;
+    }
+    Log().Info("gains for firmware: " + options.export_c_path);
+  }
 
   // Each unusable design once more on stderr, then the count a script can act on.
   int offered = 0, usable = 0;

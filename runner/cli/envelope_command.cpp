@@ -11,9 +11,9 @@
 #include "log.hpp"
 #include "progress.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/envelope.hpp"
-#include "upright/runner/envelope_writer.hpp"
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/envelope/envelope.hpp"
+#include "upright/runner/envelope/envelope_writer.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 #include "upright_version.hpp"
 
 namespace upright::cli {

@@ -2,7 +2,7 @@
 
 #include <utility>
 
-#include "upright/runner/scenario_file.hpp"
+#include "upright/runner/scenario/scenario_file.hpp"
 
 namespace upright::cli {
 

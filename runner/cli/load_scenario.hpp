@@ -5,7 +5,7 @@
 #include <string>
 
 #include "upright/base/result.hpp"
-#include "upright/runner/scenario.hpp"
+#include "upright/runner/scenario/scenario.hpp"
 
 namespace upright::cli {
 

@@ -9,7 +9,7 @@
 #include <string>
 #include <string_view>
 
-#include "upright/runner/module_log.hpp"
+#include "upright/runner/metrics/module_log.hpp"
 
 namespace upright::cli {
 

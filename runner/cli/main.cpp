@@ -49,6 +49,9 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   auto& w = r.weights;
   cmd->add_option("MODEL", o->model_path, "Robot model file (.xml)")->required();
   cmd->add_flag("--json", o->json, "Print one JSON object instead of text");
+  cmd->add_option("--export-c", o->export_c_path,
+                  "Also write the usable designs' gains at the rate as a C header (FILE.h) for "
+                  "firmware, with the model file's SHA-256, state order, units and signs");
   AddOptionalNumber(cmd, "--rate", &o->rate_hz,
                     "Controller sample rate, Hz, > 0 (default: the model's control rate_hz)");
   AddOptionalNumber(cmd, "--gamma", &o->gamma,

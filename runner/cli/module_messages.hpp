@@ -7,8 +7,8 @@
 #include <string_view>
 
 #include "log.hpp"
-#include "upright/runner/module_log.hpp"
-#include "upright/runner/run_result.hpp"
+#include "upright/runner/metrics/module_log.hpp"
+#include "upright/runner/metrics/run_result.hpp"
 
 namespace upright::cli {
 

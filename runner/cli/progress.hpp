@@ -9,7 +9,7 @@
 #include <cstdio>
 #include <string>
 
-#include "upright/runner/batch.hpp"
+#include "upright/runner/run/batch.hpp"
 
 namespace upright::cli {
 

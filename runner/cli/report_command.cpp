@@ -4,7 +4,7 @@
 #include "commands.hpp"
 #include "log.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/report.hpp"
+#include "upright/runner/report/report.hpp"
 
 namespace upright::cli {
 

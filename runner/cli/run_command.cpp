@@ -17,10 +17,10 @@
 #include "progress.hpp"
 #include "sweep_command.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/batch.hpp"
-#include "upright/runner/report.hpp"
-#include "upright/runner/results_writer.hpp"
-#include "upright/runner/scenario_file.hpp"
+#include "upright/runner/report/report.hpp"
+#include "upright/runner/run/batch.hpp"
+#include "upright/runner/scenario/scenario_file.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 #include "upright_version.hpp"
 
 namespace upright::cli {

@@ -8,8 +8,8 @@
 #include "log.hpp"
 #include "progress.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/sweep.hpp"
-#include "upright/runner/sweep_writer.hpp"
+#include "upright/runner/sweep/sweep.hpp"
+#include "upright/runner/sweep/sweep_writer.hpp"
 #include "upright_version.hpp"
 
 namespace upright::cli {

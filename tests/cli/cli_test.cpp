@@ -13,6 +13,8 @@
 #include <string>
 #include <utility>
 
+#include "program_output.hpp"
+
 namespace {
 
 using Json = nlohmann::json;
@@ -26,17 +28,10 @@ struct Result {
 // goes where `redirect` sends it (by default into the output too).
 Result RunUpright(const std::string& args, const std::string& cwd = "",
                   const std::string& redirect = "2>&1") {
-  Result r;
-  const std::string command = (cwd.empty() ? "" : "cd " + cwd + " && ") + std::string(UPRIGHT_EXE) +
-                              " " + args + " " + redirect;
-  FILE* pipe = popen(command.c_str(), "r");
-  if (pipe == nullptr) return r;
-  std::array<char, 4096> buffer;
-  size_t n;
-  while ((n = fread(buffer.data(), 1, buffer.size(), pipe)) > 0) r.output.append(buffer.data(), n);
-  const int status = pclose(pipe);
-  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return r;
+  const upright::test::ProgramOutput ran =
+      upright::test::RunShell((cwd.empty() ? "" : "cd " + cwd + " && ") + std::string(UPRIGHT_EXE) +
+                              " " + args + " " + redirect);
+  return {ran.exit_code, ran.output};
 }
 
 std::string Models() { return std::string(UPRIGHT_SOURCE_DIR) + "/models/"; }

@@ -9,10 +9,11 @@
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <nlohmann/json.hpp>
 #include <sstream>
 #include <string>
 
-#include <nlohmann/json.hpp>
+#include "program_output.hpp"
 
 namespace {
 
@@ -20,19 +21,10 @@ namespace fs = std::filesystem;
 using Json = nlohmann::json;
 
 fs::path Scratch(const std::string& name) {
-  const fs::path dir =
-      fs::temp_directory_path() / ("upright_cli_log_" + std::to_string(getpid())) / name;
-  fs::remove_all(dir);
-  fs::create_directories(dir);
-  return dir;
+  return upright::test::ScratchFolder("upright_cli_log", name);
 }
 
-std::string Read(const fs::path& path) {
-  std::ifstream in(path, std::ios::binary);
-  std::ostringstream text;
-  text << in.rdbuf();
-  return text.str();
-}
+std::string Read(const fs::path& path) { return upright::test::ReadBytes(path); }
 
 struct Outcome {
   int exit_code = -1;
@@ -42,19 +34,10 @@ struct Outcome {
 
 // Runs `upright ARGS` with stdout and stderr apart (stderr through a file in `dir`).
 Outcome Upright(const std::string& args, const fs::path& dir) {
-  Outcome o;
   const fs::path err = dir / "stderr.txt";
-  const std::string command = std::string(UPRIGHT_EXE) + " " + args + " 2>" + err.string();
-  FILE* pipe = popen(command.c_str(), "r");
-  if (pipe == nullptr) return o;
-  std::array<char, 4096> buffer;
-  for (std::size_t n; (n = fread(buffer.data(), 1, buffer.size(), pipe)) > 0;) {
-    o.out.append(buffer.data(), n);
-  }
-  const int status = pclose(pipe);
-  o.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  o.err = Read(err);
-  return o;
+  const upright::test::ProgramOutput ran =
+      upright::test::RunShell(std::string(UPRIGHT_EXE) + " " + args + " 2>" + err.string());
+  return {ran.exit_code, ran.output, Read(err)};
 }
 
 bool Has(const std::string& text, const std::string& part) {

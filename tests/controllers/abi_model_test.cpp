@@ -48,7 +48,7 @@ std::string CheckError(const upright_robot& robot) {
 }
 
 TEST(AbiModel, ReadsTheResolutionsWhenTheStructCarriesThem) {
-  const RobotModel m = RobotFromAbi(ValidRobot(), 200);
+  const model::RobotModel m = RobotFromAbi(ValidRobot(), 200);
   EXPECT_EQ(m.sensors.gyro_resolution_rad_s, 1e-3);
   EXPECT_EQ(m.sensors.accel_resolution_m_s2, 2e-3);
   EXPECT_EQ(CheckError(ValidRobot()), "");
@@ -60,14 +60,14 @@ TEST(AbiModel, AStructFromBeforeTheResolutionsLeavesThemZeroAndUnchecked) {
   upright_robot r = ValidRobot();
   r.struct_size = offsetof(upright_robot, payload_z_m) + sizeof r.payload_z_m;
   r.gyro_resolution_rad_s = -1;
-  const RobotModel m = RobotFromAbi(r, 200);
+  const model::RobotModel m = RobotFromAbi(r, 200);
   EXPECT_EQ(m.sensors.gyro_resolution_rad_s, 0);
   EXPECT_EQ(m.sensors.accel_resolution_m_s2, 0);
   EXPECT_EQ(CheckError(r), "");
 }
 
 TEST(AbiModel, ReadsTheOutlineWhenTheStructCarriesIt) {
-  const RobotModel m = RobotFromAbi(ValidRobot(), 200);
+  const model::RobotModel m = RobotFromAbi(ValidRobot(), 200);
   EXPECT_EQ(m.chassis.outline_front_m, 0.2);
   EXPECT_EQ(m.chassis.outline_rear_m, -0.1);
   EXPECT_EQ(m.chassis.outline_bottom_m, -0.05);
@@ -82,7 +82,7 @@ TEST(AbiModel, AStructFromBeforeTheOutlineLeavesItUnknownAndUnchecked) {
   upright_robot r = ValidRobot();
   r.struct_size = offsetof(upright_robot, accel_resolution_m_s2) + sizeof(double);
   r.outline_front_m = -1;
-  const RobotModel m = RobotFromAbi(r, 200);
+  const model::RobotModel m = RobotFromAbi(r, 200);
   EXPECT_FALSE(HasOutline(m));
   EXPECT_EQ(m.sensors.accel_resolution_m_s2, 2e-3);
   EXPECT_EQ(CheckError(r), "");

@@ -8,6 +8,7 @@
 #include <cmath>
 #include <cstdio>
 #include <memory>
+#include <numbers>
 #include <string>
 #include <utility>
 #include <vector>
@@ -21,13 +22,14 @@
 
 namespace upright::host::testing {
 
-inline constexpr double kDeg = kPi / 180;
+inline constexpr double kDeg = std::numbers::pi / 180;
 
 // models/<name>.xml, or a test failure.
-inline RobotModel DemoRobot(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name + ".xml");
+inline model::RobotModel DemoRobot(const std::string& name) {
+  const auto loaded =
+      model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name + ".xml");
   EXPECT_TRUE(Succeeded(loaded)) << name;
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 // The built-in module `name` as the host finds it, or null with a test failure.
@@ -45,7 +47,7 @@ using Config = std::vector<std::pair<std::string, std::string>>;
 // ControllerHost::Create for a built-in at the robot's control rate; a failure when the module
 // refuses.
 inline Result<std::unique_ptr<ControllerHost>> CreateBuiltin(const std::string& name,
-                                                             const RobotModel& model,
+                                                             const model::RobotModel& model,
                                                              const Config& config,
                                                              bool true_state) {
   ControllerSpec spec;
@@ -75,6 +77,10 @@ struct RunFigures {
   double max_abs_x_m = 0;          // largest |x|
   double final_yaw_rad = 0;
   double mean_final_speed_m_s = 0;  // forward speed over the last 0.5 s
+  // √(mean square) of the left command's change from one control tick to the next over the
+  // second half of the run, in the command's unit: a loop chattering at the Nyquist rate shows
+  // it at twice the chatter's amplitude.
+  double rms_command_step = 0;
 };
 
 // Host first, plant after with the host's drive mode; each physics step: Tick, then Step. Sensor
@@ -82,7 +88,7 @@ struct RunFigures {
 inline RunFigures RunBuiltin(const std::string& name, const std::string& robot,
                              const RunSettings& settings) {
   RunFigures f;
-  const RobotModel model = DemoRobot(robot);
+  const model::RobotModel model = DemoRobot(robot);
   auto created = CreateBuiltin(name, model, settings.config, settings.true_state);
   if (!created) {
     f.error = created.error();
@@ -103,11 +109,20 @@ inline RunFigures RunBuiltin(const std::string& name, const std::string& robot,
   const long late_from = steps / 2;
   const long final_from = steps - std::lround(1.0 / options.dt_s);
   const long speed_from = steps - std::lround(0.5 / options.dt_s);
-  double late_sum = 0, final_sum = 0, speed_sum = 0;
+  double late_sum = 0, final_sum = 0, speed_sum = 0, step_sum = 0, last_command = 0;
+  long step_count = 0;
   for (long k = 0; k < steps; ++k) {
     if (!host->Tick(*plant, settings.reference)) {
       f.error = host->fault();
       return f;
+    }
+    if (k % host->period_steps() == 0) {
+      const double command = host->command()[0];
+      if (k >= late_from && k > 0) {
+        step_sum += (command - last_command) * (command - last_command);
+        ++step_count;
+      }
+      last_command = command;
     }
     plant->Step();
     const sim::TrueState& s = plant->truth();
@@ -126,6 +141,7 @@ inline RunFigures RunBuiltin(const std::string& name, const std::string& robot,
   f.rms_pitch_late_rad = std::sqrt(late_sum / static_cast<double>(steps - late_from));
   f.rms_pitch_final_rad = std::sqrt(final_sum / static_cast<double>(steps - final_from));
   f.mean_final_speed_m_s = speed_sum / static_cast<double>(steps - speed_from);
+  f.rms_command_step = std::sqrt(step_sum / static_cast<double>(std::max(1L, step_count)));
   f.ran = !plant->diverged();
   if (!f.ran) f.error = "the plant diverged";
   return f;
@@ -136,10 +152,10 @@ inline void PrintFigures(const std::string& what, const RunFigures& f) {
   std::printf(
       "[ figures  ] %-26s max tilt %.3f deg, final pitch %+.3f deg, RMS pitch last 5 s %.3f deg, "
       "last 1 s %.3f deg, final x %+.3f m, max |x| %.3f m, final yaw %+.2f deg, final speed "
-      "%+.3f m/s\n",
+      "%+.3f m/s, RMS command step %.3g\n",
       what.c_str(), f.max_tilt_rad / kDeg, f.final_pitch_rad / kDeg, f.rms_pitch_late_rad / kDeg,
       f.rms_pitch_final_rad / kDeg, f.final_x_m, f.max_abs_x_m, f.final_yaw_rad / kDeg,
-      f.mean_final_speed_m_s);
+      f.mean_final_speed_m_s, f.rms_command_step);
 }
 
 }  // namespace upright::host::testing

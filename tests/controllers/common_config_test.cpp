@@ -4,6 +4,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 #include <string>
 
 #include "kit/config.hpp"
@@ -17,9 +18,9 @@ namespace {
 
 ModuleContext CourierContext(const ConfigEntries& config) {
   ModuleContext context;
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   EXPECT_TRUE(Succeeded(loaded));
-  context.robot = loaded.value_or(RobotModel{});
+  context.robot = loaded.value_or(model::RobotModel{});
   context.config = config;
   return context;
 }
@@ -35,12 +36,13 @@ TEST(CommonConfig, LeavesTheTiltAndTheAccelerationToTheRobot) {
   const ModuleContext context = CourierContext({});
   const auto config = Read(context);
   ASSERT_TRUE(Succeeded(config));
-  const double tilt_deg = 0.2 * design::GroundContact(context.robot, 0).smallest_rad() * 180 / kPi;
+  const double tilt_deg =
+      0.2 * design::GroundContact(context.robot, 0).smallest_rad() * 180 / std::numbers::pi;
   EXPECT_NEAR(config->weights.max_tilt_deg, tilt_deg, 1e-12);
   // The steady lean of an acceleration a is atan(a / g) (statics, derived by hand): the
   // reference accelerates at most at the lean the weights accept.
-  EXPECT_NEAR(config->max_accel_m_s2, kStandardGravity_m_s2 * std::tan(tilt_deg * kPi / 180),
-              1e-12);
+  EXPECT_NEAR(config->max_accel_m_s2,
+              model::kStandardGravity_m_s2 * std::tan(tilt_deg * std::numbers::pi / 180), 1e-12);
 }
 
 TEST(CommonConfig, AGivenTiltWins) {

@@ -31,7 +31,7 @@ struct FirstTick {
 };
 
 // Creates the module with the true state, the plant at a 3° tilt, and runs one tick.
-FirstTick RunFirstTick(const std::string& module, const RobotModel& model, Config config) {
+FirstTick RunFirstTick(const std::string& module, const model::RobotModel& model, Config config) {
   FirstTick out;
   config.emplace_back("state", "true");
   auto host = CreateBuiltin(module, model, config, /*true_state=*/true);
@@ -60,7 +60,7 @@ void ExpectCommand(const FirstTick& tick, const Eigen::Vector2d& expected) {
 
 class DemoRobotDesign : public ::testing::TestWithParam<std::string> {
  protected:
-  RobotModel model_ = DemoRobot(GetParam());
+  model::RobotModel model_ = DemoRobot(GetParam());
   design::DesignSet design_ = design::DesignAll(model_, design::DesignRequest{});
 };
 
@@ -110,7 +110,8 @@ TEST_P(DemoRobotDesign, LqgEstimatesWithTheFilterDesignAnalyses) {
   auto created = CreateBuiltin("lqg", model_, {}, /*true_state=*/false);
   ASSERT_TRUE(Succeeded(created));
   const std::unique_ptr<ControllerHost> host = std::move(*created);
-  const double g = kStandardGravity_m_s2, r = model_.wheel.radius_m, track = model_.wheel.track_m;
+  const double g = model::kStandardGravity_m_s2, r = model_.wheel.radius_m,
+               track = model_.wheel.track_m;
   sim::SensorSample first;
   first.gyro_rad_s = {0, 0.02, 0.004};
   first.accel_m_s2 = {-0.3, 0, 9.8};
@@ -132,7 +133,7 @@ TEST_P(DemoRobotDesign, LqgEstimatesWithTheFilterDesignAnalyses) {
   const double pitch0 = std::atan2(-first.accel_m_s2[0], first.accel_m_s2[2]) - eq;
   const auto mean = [](const std::array<double, 2>& a) { return (a[0] + a[1]) / 2; };
   const auto heading = [&](const sim::SensorSample& s) {
-    return r * (s.encoder_angle_rad[kRight] - s.encoder_angle_rad[kLeft]) / track;
+    return r * (s.encoder_angle_rad[model::kRight] - s.encoder_angle_rad[model::kLeft]) / track;
   };
   design::StateVector x0;
   x0 << 0, r * (mean(first.encoder_rate_rad_s) + first.gyro_rad_s[1]), pitch0,

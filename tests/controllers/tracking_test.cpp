@@ -17,10 +17,10 @@
 namespace upright::controllers {
 namespace {
 
-RobotModel Courier() {
-  auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+model::RobotModel Courier() {
+  auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   EXPECT_TRUE(Succeeded(loaded));
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 upright_reference Reference(double speed, double yaw_rate) {
@@ -62,7 +62,7 @@ TEST(SteadyMotion, LeansAndPushesAsTheEquationsOfMotionSayWhileAccelerating) {
   // Planar robot, θ̈ = 0 and ẍ = a (linear_model.hpp's equations, by hand):
   //   M_x a = u / r and m_b L a = m_b g L θ − u, so u = M_x r a, θ = a / g (1 + M_x r / (m_b L)),
   // with M_x = m_b + 2 m_w + 2 I_w / r² and m_b, L the lumped chassis and parcel.
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   const design::LinearModel plant = design::Linearise(model, design::InputKind::kTorque);
   const double mb = model.chassis.mass_kg + model.payload.mass_kg;
   const double L = (model.chassis.mass_kg * model.chassis.com_height_m +
@@ -74,13 +74,13 @@ TEST(SteadyMotion, LeansAndPushesAsTheEquationsOfMotionSayWhileAccelerating) {
   double pitch = 0;
   Eigen::Vector2d input;
   SteadyMotion::Of(plant).value().For(0.3, a, 0, &pitch, &input);
-  EXPECT_NEAR(pitch, a / kStandardGravity_m_s2 * (1 + mx * r / (mb * L)), 1e-9);
+  EXPECT_NEAR(pitch, a / model::kStandardGravity_m_s2 * (1 + mx * r / (mb * L)), 1e-9);
   EXPECT_NEAR(input(0), mx * r * a / 2, 1e-9);
   EXPECT_NEAR(input(1), mx * r * a / 2, 1e-9);
 }
 
 TEST(SteadyMotion, NeedsNoTorqueAtConstantSpeedAndTheBackEmfVoltageOnTheVoltageModel) {
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   double pitch = 1;
   Eigen::Vector2d input;
   SteadyMotion::Of(design::Linearise(model, design::InputKind::kTorque))
@@ -91,7 +91,7 @@ TEST(SteadyMotion, NeedsNoTorqueAtConstantSpeedAndTheBackEmfVoltageOnTheVoltageM
   // Rolling at v, each motor turns at n v / r: zero torque needs V = (n K_e + b R / (n η K_t))
   // v / r (DC motor equations of motor.hpp, b the viscous friction at the wheel) = 3.7806 V
   // for the courier at 0.5 m/s.
-  const MotorModel& m = model.motor;
+  const model::MotorModel& m = model.motor;
   const double v = 0.5, r = model.wheel.radius_m;
   const double volts = (m.gear_ratio * m.back_emf_V_s_per_rad +
                         m.viscous_friction_Nm_s_per_rad * m.resistance_ohm /
@@ -104,12 +104,6 @@ TEST(SteadyMotion, NeedsNoTorqueAtConstantSpeedAndTheBackEmfVoltageOnTheVoltageM
   EXPECT_NEAR(pitch, 0, 1e-9);
   EXPECT_NEAR(input(0), volts, 1e-9);
   EXPECT_NEAR(input(1), volts, 1e-9);
-}
-
-TEST(Clamped, LimitsEachCommand) {
-  const Eigen::Vector2d c = Clamped(Eigen::Vector2d(25, -30), 20.4);
-  EXPECT_EQ(c(0), 20.4);
-  EXPECT_EQ(c(1), -20.4);
 }
 
 }  // namespace

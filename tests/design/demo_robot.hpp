@@ -10,10 +10,10 @@
 
 namespace upright::design {
 
-inline RobotModel Demo(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
+inline model::RobotModel Demo(const std::string& name) {
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
   EXPECT_TRUE(Succeeded(loaded));
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 }  // namespace upright::design

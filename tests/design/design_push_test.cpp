@@ -6,6 +6,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 #include <string>
 
 #include "demo_robot.hpp"
@@ -23,7 +24,7 @@ TEST(DesignPush, CarriesThePushScaleForOneSecondOverTwoFallTimeConstants) {
   const DesignPush push = DesignPushFor(plant, 31.4);
   EXPECT_NEAR(push.impulse_Ns, 31.4, 1e-12);
   EXPECT_NEAR(push.duration_s, 2 / plant.fall_rate_1_s, 1e-12);
-  EXPECT_NEAR(push.peak_N() * 2 * push.duration_s / kPi, 31.4, 1e-12);
+  EXPECT_NEAR(push.peak_N() * 2 * push.duration_s / std::numbers::pi, 31.4, 1e-12);
 }
 
 // A loop of decoupled first-order states ẋ_i = −a_i x_i (B = 0, so K only reads the state),
@@ -46,7 +47,7 @@ TEST(LinearPushPeaks, FollowTheClosedFormOfAFirstOrderLoop) {
   const double a = 3, e = 0.02, gain = 40;
   const LinearModel plant = FirstOrderLoop(a, e);
   const DesignPush push{12, 0.4};
-  const double F = push.peak_N(), w = kPi / push.duration_s;
+  const double F = push.peak_N(), w = std::numbers::pi / push.duration_s;
   const auto theta = [&](double t) {
     return e * F * (a * std::sin(w * t) - w * std::cos(w * t) + w * std::exp(-a * t)) /
            (a * a + w * w);
@@ -59,7 +60,7 @@ TEST(LinearPushPeaks, FollowTheClosedFormOfAFirstOrderLoop) {
   const double peak = theta(lo);
 
   Gain K = Gain::Zero();
-  K(kLeft, kPitch) = gain;  // u_left = −40 θ; with B = 0 it reaches nothing
+  K(model::kLeft, kPitch) = gain;  // u_left = −40 θ; with B = 0 it reaches nothing
   CurrentMap current;
   current.per_input = 0.5;
   const Result<PushPeaks> peaks = LinearPushPeaks(plant, K, current, push);
@@ -83,7 +84,7 @@ TEST(LinearPushPeaks, AgreeWithARungeKuttaIntegrationOfTheRobotsLoop) {
   // 20 µs (Press et al., Numerical Recipes, from memory): its largest |θ| and current over 4 s
   // match the exact solution's to the sampling of the peak.
   for (const char* name : {"courier.xml", "tabletop.xml"}) {
-    const RobotModel model = Demo(name);
+    const model::RobotModel model = Demo(name);
     const DesignSet d = DesignAll(model, DesignRequest{});
     ASSERT_TRUE(d.lqr.ok) << d.lqr.message;
     const LinearModel& plant = d.plant;
@@ -92,8 +93,9 @@ TEST(LinearPushPeaks, AgreeWithARungeKuttaIntegrationOfTheRobotsLoop) {
     const CurrentMap current = MotorCurrent(model, InputKind::kTorque);
     const StateMatrix closed = plant.A - plant.B * K;
     const auto f = [&](double t, const StateVector& x) -> StateVector {
-      const double force =
-          t < push.duration_s ? push.peak_N() * std::sin(kPi * t / push.duration_s) : 0;
+      const double force = t < push.duration_s
+                               ? push.peak_N() * std::sin(std::numbers::pi * t / push.duration_s)
+                               : 0;
       return closed * x + plant.E.col(0) * force;
     };
     StateVector x = StateVector::Zero();

@@ -52,7 +52,7 @@ TEST(DesignSet, PidWithVoltageInputIsNotOfferedRatherThanFailed) {
 }
 
 TEST(DesignSet, UnanalysedDelayIsTheLatencyPlusHalfAPeriodWhereTheHoldIsNotAnalysed) {
-  RobotModel model = Demo("courier.xml");
+  model::RobotModel model = Demo("courier.xml");
   model.sensors.latency_s = 0.004;
   DesignRequest request;
   request.rate_hz = 50;
@@ -69,7 +69,7 @@ TEST(DesignSet, UnanalysedDelayIsTheLatencyPlusHalfAPeriodWhereTheHoldIsNotAnaly
 TEST(DesignSet, DelayMarginIsShortJustPastTheLatency) {
   // The designs do not depend on the latency, so the LQR's delay margin at zero latency is the
   // edge: a latency at the margin leaves the loop on the edge (not short), a latency past it is.
-  RobotModel model = Demo("courier.xml");
+  model::RobotModel model = Demo("courier.xml");
   model.sensors.latency_s = 0;
   const DesignSet at_zero = DesignAll(model, DesignRequest{});
   ASSERT_TRUE(at_zero.lqr.ok) << at_zero.lqr.message;

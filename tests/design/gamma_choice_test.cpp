@@ -6,6 +6,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 #include <string>
 
 #include "demo_robot.hpp"
@@ -17,7 +18,7 @@ namespace upright::design {
 namespace {
 
 // The design push on the central H-infinity loop at γ = factor × γ_opt of `d`.
-PushPeaks PeaksAt(const RobotModel& model, const DesignSet& d, double factor) {
+PushPeaks PeaksAt(const model::RobotModel& model, const DesignSet& d, double factor) {
   const Result<Eigen::MatrixXd, SolveError> K =
       RobotHinf(d.plant, d.performance.Q, d.performance.R, d.performance.push_scale_N,
                 factor * d.hinf.gamma_opt);
@@ -35,7 +36,7 @@ bool Within(const PushPeaks& p, const PushLimits& limits) {
 
 class GammaRule : public ::testing::TestWithParam<std::string> {
  protected:
-  RobotModel model_ = Demo(GetParam());
+  model::RobotModel model_ = Demo(GetParam());
   DesignSet design_ = DesignAll(model_, DesignRequest{});
 };
 
@@ -102,7 +103,7 @@ INSTANTIATE_TEST_SUITE_P(Robots, GammaRule, ::testing::Values("courier.xml", "ta
 TEST(GammaRule, TakesTheLowestFactorWhenEvenItStaysWithinTheLimits) {
   // A robot whose chassis never reaches the ground (outline inside the wheels: 90°) and whose
   // drive allows a thousand times the current: nothing binds.
-  RobotModel model = Demo("courier.xml");
+  model::RobotModel model = Demo("courier.xml");
   model.chassis.outline_bottom_m = -0.01;
   model.chassis.outline_top_m = 0.01;
   model.chassis.outline_front_m = 0.01;
@@ -118,7 +119,7 @@ TEST(GammaRule, TakesTheLowestFactorWhenEvenItStaysWithinTheLimits) {
 
 TEST(GammaRule, TakesTheHighestFactorAndSaysSoWhenNoneStaysWithinTheLimits) {
   // A drive limited to a hundredth of an ampere: no design carries the push.
-  RobotModel model = Demo("courier.xml");
+  model::RobotModel model = Demo("courier.xml");
   model.motor.current_limit_A = 0.01;
   const DesignSet d = DesignAll(model, DesignRequest{});
   EXPECT_EQ(d.hinf.source, GammaSource::kRule);
@@ -128,7 +129,7 @@ TEST(GammaRule, TakesTheHighestFactorAndSaysSoWhenNoneStaysWithinTheLimits) {
 }
 
 TEST(GammaRule, AGivenGammaOrFactorWinsOverTheRule) {
-  const RobotModel model = Demo("courier.xml");
+  const model::RobotModel model = Demo("courier.xml");
   DesignRequest request;
   request.gamma_factor = 1.5;
   const DesignSet by_factor = DesignAll(model, request);
@@ -142,17 +143,17 @@ TEST(GammaRule, AGivenGammaOrFactorWinsOverTheRule) {
 }
 
 TEST(GammaRule, ADefaultTiltIsAFifthOfTheGroundContactTiltAndAGivenOneStays) {
-  const RobotModel model = Demo("courier.xml");
+  const model::RobotModel model = Demo("courier.xml");
   const DesignSet d = DesignAll(model, DesignRequest{});
   EXPECT_NEAR(d.request.weights.max_tilt_deg,
-              0.2 * d.limits.ground_contact.smallest_rad() * 180 / kPi, 1e-12);
+              0.2 * d.limits.ground_contact.smallest_rad() * 180 / std::numbers::pi, 1e-12);
   DesignRequest request;
   request.weights.max_tilt_deg = 4;
   EXPECT_EQ(DesignAll(model, request).request.weights.max_tilt_deg, 4);
 }
 
 TEST(GammaRule, RefusesAGammaOptThatIsNoNumber) {
-  const RobotModel model = Demo("courier.xml");
+  const model::RobotModel model = Demo("courier.xml");
   const DesignSet d = DesignAll(model, DesignRequest{});
   for (const double bad : {0.0, -1.0, double{NAN}, double{INFINITY}}) {
     EXPECT_FALSE(ChooseGamma(d.plant, d.performance, bad, model)) << bad;

@@ -16,7 +16,7 @@ namespace {
 
 // The demo robot without the losses the linear model leaves out (motor friction, rolling
 // resistance), for comparisons with the plant.
-RobotModel Lossless(RobotModel m) {
+model::RobotModel Lossless(model::RobotModel m) {
   m.motor.coulomb_friction_Nm = 0;
   m.motor.viscous_friction_Nm_s_per_rad = 0;
   m.wheel.rolling_resistance = 0;
@@ -24,8 +24,8 @@ RobotModel Lossless(RobotModel m) {
 }
 
 // A robot with round numbers and a forward COM offset, so the equilibrium is tilted.
-RobotModel OffsetRobot() {
-  RobotModel m = Demo("tabletop.xml");
+model::RobotModel OffsetRobot() {
+  model::RobotModel m = Demo("tabletop.xml");
   m.chassis.com_forward_m = 0.01;
   return m;
 }
@@ -33,7 +33,7 @@ RobotModel OffsetRobot() {
 TEST(LinearModel, MatchesFiniteDifferencesOfTheNonlinearEquations) {
   // Central differences of f(x, u, w) about the equilibrium (h = 1e-6) against (A, B, E): the
   // analytic linearisation must agree to the differencing error, ~1e-8 relative.
-  for (const RobotModel& model : {Demo("courier.xml"), OffsetRobot()}) {
+  for (const model::RobotModel& model : {Demo("courier.xml"), OffsetRobot()}) {
     const LinearModel lm = Linearise(model, InputKind::kTorque, 0.2);
     StateVector x0 = StateVector::Zero();
     x0(kPitch) = lm.equilibrium_pitch_rad;
@@ -86,10 +86,10 @@ TEST(LinearModel, OpenLoopPolesAreZeroZeroAndPlusMinusTheFallRate) {
 TEST(LinearModel, YawIsDecoupledFromPitchAndDrive) {
   // Equal torques do not turn the robot; opposite torques do not drive or pitch it.
   const LinearModel lm = Linearise(Demo("courier.xml"), InputKind::kTorque);
-  EXPECT_NEAR(lm.B(kYawRate, kLeft) + lm.B(kYawRate, kRight), 0, 1e-12);
-  EXPECT_NEAR(lm.B(kXDot, kLeft) - lm.B(kXDot, kRight), 0, 1e-12);
-  EXPECT_NEAR(lm.B(kPitchRate, kLeft) - lm.B(kPitchRate, kRight), 0, 1e-12);
-  EXPECT_GT(lm.B(kYawRate, kRight), 0);  // right wheel forward turns left (conventions.hpp)
+  EXPECT_NEAR(lm.B(kYawRate, model::kLeft) + lm.B(kYawRate, model::kRight), 0, 1e-12);
+  EXPECT_NEAR(lm.B(kXDot, model::kLeft) - lm.B(kXDot, model::kRight), 0, 1e-12);
+  EXPECT_NEAR(lm.B(kPitchRate, model::kLeft) - lm.B(kPitchRate, model::kRight), 0, 1e-12);
+  EXPECT_GT(lm.B(kYawRate, model::kRight), 0);  // right wheel forward turns left (conventions.hpp)
   for (int i : {kX, kXDot, kPitch, kPitchRate}) {
     EXPECT_EQ(lm.A(i, kYaw), 0);
     EXPECT_EQ(lm.A(i, kYawRate), 0);
@@ -101,13 +101,13 @@ TEST(LinearModel, HeavyWheelsLeaveAPendulumOnAFixedAxle) {
   // As M_x → ∞ the axle stops moving and the pitch equation becomes a pendulum on a fixed pivot:
   // λ² → m_b g l / (I_b + m_b l²) (compound pendulum on a fixed pivot, mechanics handbook, from
   // memory).
-  RobotModel m = Demo("tabletop.xml");
+  model::RobotModel m = Demo("tabletop.xml");
   m.wheel.mass_kg = 1e9;
   m.wheel.spin_inertia_kgm2 = 0.5 * 1e9 * m.wheel.radius_m * m.wheel.radius_m;
   m.wheel.diameter_inertia_kgm2 = 1e9;
   const LinearModel lm = Linearise(m, InputKind::kTorque);
   const LumpedBody& b = lm.body;
-  const double pendulum = b.mass_kg * kStandardGravity_m_s2 * b.com_height_m /
+  const double pendulum = b.mass_kg * model::kStandardGravity_m_s2 * b.com_height_m /
                           (b.pitch_inertia_kgm2 + b.mass_kg * b.com_height_m * b.com_height_m);
   EXPECT_NEAR(lm.fall_rate_1_s * lm.fall_rate_1_s / pendulum, 1.0, 1e-6);
 }
@@ -116,23 +116,24 @@ TEST(LinearModel, VoltageInputAddsBackEmfDampingOnTheRelativeWheelSpeed) {
   // τ = (n η K_t / R) V − (n² η K_t K_e / R + b) ω_rel, ω_rel = ẋ/r − θ̇ for both wheels in
   // straight motion (DC motor equations, handbook, from memory). A state that moves the wheel
   // relative to the chassis must brake it; tilting the chassis with the axle still must also.
-  const RobotModel model = Demo("courier.xml");
+  const model::RobotModel model = Demo("courier.xml");
   const LinearModel torque = Linearise(model, InputKind::kTorque);
   const LinearModel voltage = Linearise(model, InputKind::kVoltage);
-  const MotorModel& m = model.motor;
+  const model::MotorModel& m = model.motor;
   const double k_v = m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A / m.resistance_ohm;
   const double c_m = m.gear_ratio * m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A *
                          m.back_emf_V_s_per_rad / m.resistance_ohm + m.viscous_friction_Nm_s_per_rad;
-  EXPECT_NEAR(voltage.B(kXDot, kLeft) / torque.B(kXDot, kLeft), k_v, 1e-12 * k_v);
+  EXPECT_NEAR(voltage.B(kXDot, model::kLeft) / torque.B(kXDot, model::kLeft), k_v, 1e-12 * k_v);
   const double r = model.wheel.radius_m;
   // d(ẍ)/d(ẋ) = −2 c_m / r · B_τ(ẍ); d(ẍ)/d(θ̇) = +2 c_m · B_τ(ẍ).
-  EXPECT_NEAR(voltage.A(kXDot, kXDot), -2 * c_m / r * torque.B(kXDot, kLeft), 1e-12);
-  EXPECT_NEAR(voltage.A(kXDot, kPitchRate), 2 * c_m * torque.B(kXDot, kLeft), 1e-12);
+  EXPECT_NEAR(voltage.A(kXDot, kXDot), -2 * c_m / r * torque.B(kXDot, model::kLeft), 1e-12);
+  EXPECT_NEAR(voltage.A(kXDot, kPitchRate), 2 * c_m * torque.B(kXDot, model::kLeft), 1e-12);
   EXPECT_LT(voltage.A(kYawRate, kYawRate), 0);
 }
 
 // Runs the plant from rest with constant wheel torques and returns the true state after t_s.
-sim::TrueState PlantAfter(const RobotModel& model, double t_s, double left_Nm, double right_Nm) {
+sim::TrueState PlantAfter(const model::RobotModel& model, double t_s, double left_Nm,
+                          double right_Nm) {
   sim::PlantOptions options;
   options.drive = sim::DriveMode::kTorque;
   options.sensor_noise = false;
@@ -148,10 +149,10 @@ TEST(LinearModel, PredictsThePlantsYawResponseToOppositeTorques) {
   // Opposite torques ±τ turn the robot at ψ̈ = 2 d τ / (r J_ψ); after t, ψ = ½ ψ̈ t². The plant
   // (rolling wheels with friction, rigid bodies) must agree within 2 % (common practice: the
   // margin the torque-step check in robot_physics_test.cpp allows).
-  const RobotModel model = Lossless(Demo("tabletop.xml"));
+  const model::RobotModel model = Lossless(Demo("tabletop.xml"));
   const LinearModel lm = Linearise(model, InputKind::kTorque);
   const double tau = 0.005, t = 0.2;
-  const double predicted = 0.5 * 2 * lm.B(kYawRate, kRight) * tau * t * t;
+  const double predicted = 0.5 * 2 * lm.B(kYawRate, model::kRight) * tau * t * t;
   const sim::TrueState s = PlantAfter(model, t, -tau, tau);
   EXPECT_GT(s.yaw_rad, 0);
   EXPECT_NEAR(s.yaw_rad / predicted, 1.0, 0.02);
@@ -161,10 +162,10 @@ TEST(LinearModel, PredictsThePlantsPitchResponseToATorqueStep) {
   // θ(t) = b_θ u / λ² (cosh λt − 1) from rest (linear model); tolerance 2 % at 0.1 s (common
   // practice, as in robot_physics_test.cpp). The demo courier's parcel rides on its carriage, as
   // the lumped body assumes.
-  const RobotModel model = Lossless(Demo("courier.xml"));
+  const model::RobotModel model = Lossless(Demo("courier.xml"));
   const LinearModel lm = Linearise(model, InputKind::kTorque);
   const double tau = 1.0, t = 0.1, lambda = lm.fall_rate_1_s;
-  const double b_theta = lm.B(kPitchRate, kLeft) + lm.B(kPitchRate, kRight);
+  const double b_theta = lm.B(kPitchRate, model::kLeft) + lm.B(kPitchRate, model::kRight);
   const double predicted = b_theta * tau / (lambda * lambda) * (std::cosh(lambda * t) - 1);
   const sim::TrueState s = PlantAfter(model, t, tau, tau);
   EXPECT_NEAR(s.pitch_rad / predicted, 1.0, 0.02);

@@ -33,7 +33,7 @@ class LqgFilterTest : public ::testing::TestWithParam<Case> {
     EXPECT_TRUE(Succeeded(filter));
     return filter.value();
   }
-  RobotModel model_ = Demo(std::string(GetParam().robot) + ".xml");
+  model::RobotModel model_ = Demo(std::string(GetParam().robot) + ".xml");
   LinearModel plant_ = Linearise(model_, GetParam().input);
   LinearModel torque_plant_ = Linearise(model_, InputKind::kTorque);
 };
@@ -99,7 +99,7 @@ TEST_P(LqgFilterTest, AccelerometerVarianceCarriesTheDisturbancesItFeels) {
   const LqgFilter f = Design(1 / model_.control_rate_hz);
   const SensorLinearisation plain = LineariseSensors(model_, plant_);
   const FilterNoise noise = DefaultFilterNoise(model_, plant_);
-  const double h = model_.sensors.imu_z_m, g = kStandardGravity_m_s2;
+  const double h = model_.sensors.imu_z_m, g = model::kStandardGravity_m_s2;
   const double per_push = (plant_.E(kXDot, 0) + h * plant_.E(kPitchRate, 0)) / g;
   const double per_torque = (plant_.E(kXDot, 1) + h * plant_.E(kPitchRate, 1)) / g;
   const double added = per_push * per_push * noise.push_sigma_N * noise.push_sigma_N +

@@ -21,8 +21,7 @@ namespace {
 
 using Cd = std::complex<double>;
 constexpr double kInf = std::numeric_limits<double>::infinity();
-constexpr double kPi = std::numbers::pi;
-constexpr double kDeg = 180 / kPi;
+constexpr double kDeg = 180 / std::numbers::pi;
 
 Eigen::MatrixXd Scalar(double x) { return Eigen::MatrixXd::Constant(1, 1, x); }
 
@@ -82,7 +81,7 @@ double ScanPhase(const StateSpace& l) {
   constexpr int kSteps = 720;
   double previous = 0;
   for (int i = 1; i <= kSteps; ++i) {
-    const double theta = kPi * i / kSteps;
+    const double theta = std::numbers::pi * i / kSteps;
     if (StableWithGain(l, std::polar(1.0, -theta))) {
       previous = theta;
       continue;
@@ -212,7 +211,7 @@ TEST(SisoMargins, IntegratorHasDelayMarginPiOverTwoK) {
         SisoMargins({Scalar(0), Scalar(1), Scalar(k), Scalar(0)});
     ASSERT_TRUE(Succeeded(m_result));
     const LoopMargins& m = *m_result;
-    EXPECT_NEAR(m.delay_s, kPi / (2 * k), 1e-12 / k) << "k = " << k;
+    EXPECT_NEAR(m.delay_s, std::numbers::pi / (2 * k), 1e-12 / k) << "k = " << k;
     EXPECT_NEAR(m.delay_rad_s, k, 1e-12 * k);
     EXPECT_NEAR(m.phase_deg, 90, 1e-10);
     EXPECT_EQ(m.gain_high, kInf);
@@ -232,7 +231,7 @@ TEST(SisoMargins, FirstOrderLagPhaseMargin) {
     const double wc = std::sqrt(k * k - 1);
     EXPECT_NEAR(m.phase_deg, 180 - std::atan(wc) * kDeg, 1e-9) << "k = " << k;
     EXPECT_NEAR(m.phase_rad_s, wc, 1e-9 * wc);
-    EXPECT_NEAR(m.delay_s, (kPi - std::atan(wc)) / wc, 1e-9 / wc);
+    EXPECT_NEAR(m.delay_s, (std::numbers::pi - std::atan(wc)) / wc, 1e-9 / wc);
     EXPECT_EQ(m.gain_high, kInf);
     EXPECT_EQ(m.gain_low, 0.0);
     ExpectDiskWithinClassical(m);
@@ -279,7 +278,7 @@ TEST(InputMargins, UnstablePlantHasAGainReductionMargin) {
   EXPECT_TRUE(std::isnan(m.gain_high_rad_s));
   EXPECT_NEAR(m.phase_deg, 60, 1e-9);
   EXPECT_NEAR(m.phase_rad_s, std::sqrt(3.0), 1e-9);
-  EXPECT_NEAR(m.delay_s, kPi / 3 / std::sqrt(3.0), 1e-10);
+  EXPECT_NEAR(m.delay_s, std::numbers::pi / 3 / std::sqrt(3.0), 1e-10);
   EXPECT_NEAR(m.disk_alpha, 2.0 / 3, 1e-9);
   EXPECT_EQ(m.disk_rad_s, 0.0);
   ExpectDiskWithinClassical(m);
@@ -407,7 +406,8 @@ TEST(WorstInputMargins, TakesTheWorstOfEachFigure) {
   ASSERT_TRUE(Succeeded(second_result));
   const LoopMargins& second = *second_result;
   EXPECT_NEAR(second.phase_deg, 180 - std::atan(std::sqrt(8.0)) * kDeg, 1e-9);
-  EXPECT_NEAR(second.delay_s, (kPi - std::atan(std::sqrt(8.0))) / std::sqrt(8.0), 1e-10);
+  EXPECT_NEAR(second.delay_s, (std::numbers::pi - std::atan(std::sqrt(8.0))) / std::sqrt(8.0),
+              1e-10);
   EXPECT_NEAR(second.disk_alpha, 2, 1e-8);
   const AnalysisResult<LoopMargins> w_result = WorstInputMargins(a, b, k);
   ASSERT_TRUE(Succeeded(w_result));
@@ -415,7 +415,7 @@ TEST(WorstInputMargins, TakesTheWorstOfEachFigure) {
   EXPECT_NEAR(w.gain_low, 0.5, 1e-12);
   EXPECT_EQ(w.gain_high, kInf);
   EXPECT_NEAR(w.phase_deg, 60, 1e-9);
-  EXPECT_NEAR(w.delay_s, kPi / 3 / std::sqrt(3.0), 1e-10);
+  EXPECT_NEAR(w.delay_s, std::numbers::pi / 3 / std::sqrt(3.0), 1e-10);
   EXPECT_NEAR(w.disk_alpha, 2.0 / 3, 1e-9);
   ExpectDiskFieldsFollowAlpha(w);
   // The same with the channels swapped.

@@ -6,6 +6,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 #include <string>
 
 #include "demo_robot.hpp"
@@ -17,8 +18,8 @@ namespace upright::design {
 namespace {
 
 // A demo robot with the outline and wheel radius of the test instead of its own.
-RobotModel WithOutline(double front, double rear, double bottom, double top, double radius) {
-  RobotModel m = Demo("tabletop.xml");
+model::RobotModel WithOutline(double front, double rear, double bottom, double top, double radius) {
+  model::RobotModel m = Demo("tabletop.xml");
   m.chassis.outline_front_m = front;
   m.chassis.outline_rear_m = rear;
   m.chassis.outline_bottom_m = bottom;
@@ -53,7 +54,7 @@ TEST(GroundContact, AWayNoCornerReachesCountsAsLyingFlat) {
   const GroundContactTilt tilt = GroundContact(WithOutline(0.05, -0.4, -0.02, 0.3, r), 0);
   EXPECT_NEAR(tilt.backward_rad, std::asin(r / std::hypot(0.4, 0.02)) - std::atan(0.02 / 0.4),
               1e-12);
-  EXPECT_NEAR(tilt.forward_rad, kPi / 2, 1e-12);
+  EXPECT_NEAR(tilt.forward_rad, std::numbers::pi / 2, 1e-12);
   EXPECT_NEAR(tilt.smallest_rad(), tilt.backward_rad, 0);
 }
 
@@ -70,7 +71,7 @@ TEST(GroundContact, IsMeasuredFromTheEquilibriumPitch) {
 TEST(GroundContact, ACornerOnTheGroundAtTheEquilibriumLeavesNoTiltAndNoDefaultWeight) {
   // At ε = −0.5 rad the rear-bottom corner is 0.16 − 0.32 sin 0.5 − 0.10 cos 0.5 = −0.081 m
   // above the ground: below it.
-  const RobotModel m = WithOutline(0.32, -0.32, -0.10, 0.65, 0.16);
+  const model::RobotModel m = WithOutline(0.32, -0.32, -0.10, 0.65, 0.16);
   const GroundContactTilt tilt = GroundContact(m, -0.5);
   EXPECT_EQ(tilt.forward_rad, 0);
   EXPECT_EQ(tilt.backward_rad, 0);
@@ -86,12 +87,12 @@ TEST(GroundContact, ACornerOnTheGroundAtTheEquilibriumLeavesNoTiltAndNoDefaultWe
 TEST(WeightsForRobot, TakesAFifthOfTheGroundContactTiltUnlessTheTiltIsGiven) {
   const double a = 0.32, b = 0.10, r = 0.16;
   const double phi = std::asin(r / std::hypot(a, b)) - std::atan(b / a);
-  const RobotModel m = WithOutline(a, -a, -b, 0.65, r);
+  const model::RobotModel m = WithOutline(a, -a, -b, 0.65, r);
   DesignWeights asked;
   asked.max_drift_m = 0.7;
   const Result<DesignWeights> resolved = WeightsForRobot(asked, m, 0);
   ASSERT_TRUE(Succeeded(resolved));
-  EXPECT_NEAR(resolved->max_tilt_deg, 0.2 * phi * 180 / kPi, 1e-12);
+  EXPECT_NEAR(resolved->max_tilt_deg, 0.2 * phi * 180 / std::numbers::pi, 1e-12);
   EXPECT_EQ(resolved->max_drift_m, 0.7);  // the other fields untouched
   EXPECT_EQ(resolved->max_input_fraction, asked.max_input_fraction);
   asked.max_tilt_deg = 4;
@@ -102,8 +103,8 @@ TEST(MotorCurrent, TorqueInputDrawsTheCurrentOfTheTorqueAndVoltageInputOhmsLaw) 
   // Torque drive: i = τ / (n η K_t); voltage: i = (V − n K_e ω_rel) / R, ω_rel the wheel's speed
   // relative to the chassis (DC motor equations, handbook, from memory) — the plant's motor
   // gives the same current for the same command and relative speed.
-  const RobotModel m = Demo("courier.xml");
-  const MotorModel& mo = m.motor;
+  const model::RobotModel m = Demo("courier.xml");
+  const model::MotorModel& mo = m.motor;
   const CurrentMap torque = MotorCurrent(m, InputKind::kTorque);
   EXPECT_NEAR(torque.per_input,
               1 / (mo.gear_ratio * mo.gear_efficiency * mo.torque_constant_Nm_per_A), 1e-15);
@@ -115,7 +116,7 @@ TEST(MotorCurrent, TorqueInputDrawsTheCurrentOfTheTorqueAndVoltageInputOhmsLaw) 
   const double r = m.wheel.radius_m, d = m.wheel.track_m / 2;
   const double rel[2] = {(0.4 - d * 0.5) / r - 0.3, (0.4 + d * 0.5) / r - 0.3};
   const double volts = 3;
-  for (int wheel : {kLeft, kRight}) {
+  for (int wheel : {model::kLeft, model::kRight}) {
     const double i = voltage.per_input * volts + voltage.per_state.row(wheel).dot(x);
     EXPECT_NEAR(i,
                 (volts - mo.gear_ratio * mo.back_emf_V_s_per_rad * rel[wheel]) / mo.resistance_ohm,

@@ -40,7 +40,7 @@ double Mismatch(const Poles& a, const Poles& b) {
 
 class SampledLoopTest : public ::testing::TestWithParam<const char*> {
  protected:
-  RobotModel model_ = Demo(GetParam());
+  model::RobotModel model_ = Demo(GetParam());
   LinearModel plant_ = Linearise(model_, InputKind::kTorque);
   double period_s_ = 1 / model_.control_rate_hz;
 };

@@ -7,6 +7,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 
 #include "demo_robot.hpp"
 #include "succeeded.hpp"
@@ -154,7 +155,7 @@ TEST(Synthesis, DiscreteKalmanGainOfARandomWalk) {
 TEST(Synthesis, DiscreteLqrApproachesTheContinuousGainAsTheRateRises) {
   // Sampling faster, the ZOH discrete LQR with weights scaled by the period tends to the
   // continuous LQR (the discrete cost T Σ ≈ ∫; derived), with an error of first order in T.
-  const RobotModel model = Demo("courier.xml");
+  const model::RobotModel model = Demo("courier.xml");
   const LinearModel plant = Linearise(model, InputKind::kTorque);
   const DesignWeights w =
       WeightsForRobot(DesignWeights{}, model, plant.equilibrium_pitch_rad).value();
@@ -270,7 +271,7 @@ struct PlantRun {
   bool survived = false;
   double max_tilt_rad = 0, final_tilt_rad = 0, final_x_m = 0;
 };
-PlantRun RunOnPlant(const RobotModel& model, const DesignSet& d, const Measurement& meas,
+PlantRun RunOnPlant(const model::RobotModel& model, const DesignSet& d, const Measurement& meas,
                     const LinearController& ctrl, double seconds) {
   sim::PlantOptions options;
   options.drive = sim::DriveMode::kTorque;
@@ -315,7 +316,7 @@ TEST(Synthesis, LqrAndPidDesignsBalanceThePhysicsPlantThroughAPush) {
   // upright: an end-to-end check of every sign between the linear model and the plant. Motor
   // friction and rolling resistance are left out: without integral action on position they leave
   // a slow creep that would blur the check.
-  RobotModel model = Demo("courier.xml");
+  model::RobotModel model = Demo("courier.xml");
   model.motor.coulomb_friction_Nm = 0;
   model.motor.viscous_friction_Nm_s_per_rad = 0;
   model.wheel.rolling_resistance = 0;
@@ -324,7 +325,7 @@ TEST(Synthesis, LqrAndPidDesignsBalanceThePhysicsPlantThroughAPush) {
   Measurement pid_meas;
   LinearController pid;
   PidAsLinearController(d.pid.gains, &pid_meas, &pid);
-  const double deg = kPi / 180;
+  const double deg = std::numbers::pi / 180;
   const PlantRun lqr = RunOnPlant(model, d, FullState(), StateFeedback(d.lqr.K), 8);
   const PlantRun cascade = RunOnPlant(model, d, pid_meas, pid, 8);
   for (const PlantRun& run : {lqr, cascade}) {

@@ -4,6 +4,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 
 #include "succeeded.hpp"
 #include "upright/host/controller_host.hpp"
@@ -19,10 +20,10 @@ std::shared_ptr<Module> Example() {
   return module.value_or(nullptr);
 }
 
-RobotModel Demo(const std::string& name) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
+model::RobotModel Demo(const std::string& name) {
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/" + name);
   EXPECT_TRUE(Succeeded(loaded));
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 TEST(ExampleModule, LoadsAndNamesItself) {
@@ -32,9 +33,9 @@ TEST(ExampleModule, LoadsAndNamesItself) {
 }
 
 TEST(ExampleModule, BalancesBothDemoRobotsFromThreeDegreesWithNoisySensors) {
-  const double deg = kPi / 180;
+  const double deg = std::numbers::pi / 180;
   for (const char* name : {"courier.xml", "tabletop.xml"}) {
-    const RobotModel model = Demo(name);
+    const model::RobotModel model = Demo(name);
     ControllerSpec spec;
     spec.module = Example();
     ASSERT_NE(spec.module, nullptr);
@@ -64,7 +65,7 @@ TEST(ExampleModule, BalancesBothDemoRobotsFromThreeDegreesWithNoisySensors) {
 }
 
 TEST(ExampleModule, RefusesAnUnknownKeyAndABadValueByName) {
-  const RobotModel model = Demo("courier.xml");
+  const model::RobotModel model = Demo("courier.xml");
   ControllerSpec spec;
   spec.module = Example();
   ASSERT_NE(spec.module, nullptr);

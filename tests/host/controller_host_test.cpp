@@ -17,10 +17,10 @@
 namespace upright::host {
 namespace {
 
-RobotModel Courier() {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+model::RobotModel Courier() {
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   EXPECT_TRUE(Succeeded(loaded));
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 std::shared_ptr<Module> Load(const std::string& name) {
@@ -39,7 +39,7 @@ struct HostRun {
 // Creates host and plant for `module` and runs up to `steps` physics steps, stopping at a fault.
 HostRun RunModule(const std::string& module, long steps, ControllerSpec spec = {}) {
   HostRun run;
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   spec.module = Load(module);
   sim::PlantOptions options;
   auto host = ControllerHost::Create(spec, model, options.dt_s);

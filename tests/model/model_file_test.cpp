@@ -49,9 +49,9 @@ std::string WithPayload(std::string_view payload = kPayload) {
 
 std::vector<std::string> Errors(const std::string& text) {
   std::vector<std::string> texts;
-  const auto loaded = ParseModelText(text, "mini.xml");
+  const auto loaded = model::ParseModelText(text, "mini.xml");
   if (loaded) return texts;
-  for (const FileError& error : loaded.error()) texts.push_back(error.ToString());
+  for (const model::FileError& error : loaded.error()) texts.push_back(error.ToString());
   return texts;
 }
 
@@ -62,7 +62,7 @@ std::string ModelPath(const char* file) {
 using Lines = std::vector<std::string>;
 
 TEST(ModelFile, LoadsMinimalModel) {
-  const auto result = ParseModelText(kMinimal, "mini.xml");
+  const auto result = model::ParseModelText(kMinimal, "mini.xml");
   ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
   EXPECT_EQ(result->name, "mini");
   EXPECT_EQ(result->chassis.mass_kg, 10);
@@ -76,7 +76,7 @@ TEST(ModelFile, LoadsMinimalModel) {
 }
 
 TEST(ModelFile, AppliesFixedDefaultsWhenOmitted) {
-  const RobotModel model = ParseModelText(kMinimal, "mini.xml").value();
+  const model::RobotModel model = model::ParseModelText(kMinimal, "mini.xml").value();
   EXPECT_EQ(model.chassis.com_forward_m, 0);
   EXPECT_EQ(model.wheel.rolling_resistance, 0);
   EXPECT_EQ(model.motor.gear_efficiency, 1);
@@ -90,7 +90,7 @@ TEST(ModelFile, AppliesFixedDefaultsWhenOmitted) {
 }
 
 TEST(ModelFile, DerivesWheelInertiaWhenOmitted) {
-  const RobotModel model = ParseModelText(kMinimal, "mini.xml").value();
+  const model::RobotModel model = model::ParseModelText(kMinimal, "mini.xml").value();
   // Uniform disc about its axis ½ m r² (handbook, from memory): ½ × 1 × 0.1² = 0.005.
   EXPECT_DOUBLE_EQ(model.wheel.spin_inertia_kgm2, 0.005);
   // Uniform cylinder about a diameter m(3r² + w²)/12 (handbook, from memory):
@@ -99,10 +99,10 @@ TEST(ModelFile, DerivesWheelInertiaWhenOmitted) {
 }
 
 TEST(ModelFile, DerivesChassisInertiaFromUniformBlock) {
-  const auto result =
-      ParseModelText(Edit(R"(<principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
-                          R"(<uniform_block length_m="0.3" width_m="0.2" height_m="0.5"/>)"),
-                     "mini.xml");
+  const auto result = model::ParseModelText(
+      Edit(R"(<principal_moments pitch_kgm2="0.5" roll_kgm2="0.4" yaw_kgm2="0.3"/>)",
+           R"(<uniform_block length_m="0.3" width_m="0.2" height_m="0.5"/>)"),
+      "mini.xml");
   ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
   // Uniform solid block about its centre, m(a² + b²)/12 over the two sides across the axis
   // (handbook, from memory); m = 10 kg.
@@ -112,9 +112,9 @@ TEST(ModelFile, DerivesChassisInertiaFromUniformBlock) {
 }
 
 TEST(ModelFile, LoadsCourierDemo) {
-  const auto result = LoadModelFile(ModelPath("courier.xml"));
+  const auto result = model::LoadModelFile(ModelPath("courier.xml"));
   ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
-  const RobotModel& m = *result;
+  const model::RobotModel& m = *result;
   EXPECT_EQ(m.name, "courier");
   EXPECT_EQ(m.chassis.mass_kg, 24);
   EXPECT_EQ(m.chassis.pitch_inertia_kgm2, 1.2);
@@ -134,7 +134,7 @@ TEST(ModelFile, LoadsCourierDemo) {
 }
 
 TEST(ModelFile, CourierDemoMotorsHoldATenDegreeTilt) {
-  const RobotModel m = LoadModelFile(ModelPath("courier.xml")).value();
+  const model::RobotModel m = model::LoadModelFile(ModelPath("courier.xml")).value();
   const double current_A =
       std::min(m.motor.supply_V / m.motor.resistance_ohm, m.motor.current_limit_A);
   const double stall_both_Nm = 2 * m.motor.gear_ratio * m.motor.gear_efficiency *
@@ -151,9 +151,9 @@ TEST(ModelFile, CourierDemoMotorsHoldATenDegreeTilt) {
 }
 
 TEST(ModelFile, LoadsTabletopDemo) {
-  const auto result = LoadModelFile(ModelPath("tabletop.xml"));
+  const auto result = model::LoadModelFile(ModelPath("tabletop.xml"));
   ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
-  const RobotModel& m = *result;
+  const model::RobotModel& m = *result;
   EXPECT_EQ(m.name, "tabletop");
   // From the 0.10 × 0.12 × 0.16 m block, uniform solid block m(a² + b²)/12 (handbook, from
   // memory).
@@ -175,118 +175,119 @@ TEST(ModelFile, LoadsTabletopDemo) {
 // cylinder about a diameter m(3r² + w²)/12, uniform solid block m(a² + b²)/12 (handbook, from
 // memory).
 TEST(ModelFile, DemoModelsLoadToEveryFieldTheyState) {
-  const RobotModel courier = LoadModelFile(ModelPath("courier.xml")).value();
+  const model::RobotModel courier = model::LoadModelFile(ModelPath("courier.xml")).value();
   EXPECT_EQ(courier.name, "courier");
-  EXPECT_EQ(courier.chassis, (ChassisModel{.mass_kg = 24,
-                                           .pitch_inertia_kgm2 = 1.20,
-                                           .roll_inertia_kgm2 = 1.05,
-                                           .yaw_inertia_kgm2 = 0.85,
-                                           .com_height_m = 0.30,
-                                           .com_forward_m = 0,
-                                           .outline_front_m = 0.32,
-                                           .outline_rear_m = -0.32,
-                                           .outline_bottom_m = -0.10,
-                                           .outline_top_m = 0.65,
-                                           .outline_width_m = 0.42}));
-  EXPECT_EQ(courier.wheel,
-            (WheelModel{.radius_m = 0.16,
-                        .width_m = 0.06,
-                        .mass_kg = 1.5,
-                        .spin_inertia_kgm2 = 0.5 * 1.5 * 0.16 * 0.16,
-                        .diameter_inertia_kgm2 = 1.5 * (3 * 0.16 * 0.16 + 0.06 * 0.06) / 12.0,
-                        .track_m = 0.50,
-                        .friction = 0.8,
-                        .rolling_resistance = 0.015}));
-  EXPECT_EQ(courier.motor, (MotorModel{.torque_constant_Nm_per_A = 0.06,
-                                       .back_emf_V_s_per_rad = 0.06,
-                                       .resistance_ohm = 0.5,
-                                       .gear_ratio = 20,
-                                       .gear_efficiency = 0.85,
-                                       .supply_V = 24,
-                                       .current_limit_A = 20,
-                                       .viscous_friction_Nm_s_per_rad = 0.02,
-                                       .coulomb_friction_Nm = 0.15}));
-  EXPECT_EQ(courier.sensors, (SensorModel{.imu_rate_hz = 1000,
-                                          .imu_x_m = 0.05,
-                                          .imu_y_m = 0,
-                                          .imu_z_m = 0.25,
-                                          .gyro_noise_rad_s_rthz = 8.7e-5,
-                                          .gyro_bias_x_rad_s = 0.002,
-                                          .gyro_bias_y_rad_s = -0.001,
-                                          .gyro_bias_z_rad_s = 0.0015,
-                                          .gyro_resolution_rad_s = 2.66e-4,
-                                          .accel_noise_m_s2_rthz = 1.47e-3,
-                                          .accel_bias_x_m_s2 = 0.05,
-                                          .accel_bias_y_m_s2 = -0.03,
-                                          .accel_bias_z_m_s2 = 0.08,
-                                          .accel_resolution_m_s2 = 2.39e-3,
-                                          .encoder_counts_per_rev = 81920,
-                                          .latency_s = 0.002}));
+  EXPECT_EQ(courier.chassis, (model::ChassisModel{.mass_kg = 24,
+                                                  .pitch_inertia_kgm2 = 1.20,
+                                                  .roll_inertia_kgm2 = 1.05,
+                                                  .yaw_inertia_kgm2 = 0.85,
+                                                  .com_height_m = 0.30,
+                                                  .com_forward_m = 0,
+                                                  .outline_front_m = 0.32,
+                                                  .outline_rear_m = -0.32,
+                                                  .outline_bottom_m = -0.10,
+                                                  .outline_top_m = 0.65,
+                                                  .outline_width_m = 0.42}));
+  EXPECT_EQ(courier.wheel, (model::WheelModel{.radius_m = 0.16,
+                                              .width_m = 0.06,
+                                              .mass_kg = 1.5,
+                                              .spin_inertia_kgm2 = 0.5 * 1.5 * 0.16 * 0.16,
+                                              .diameter_inertia_kgm2 =
+                                                  1.5 * (3 * 0.16 * 0.16 + 0.06 * 0.06) / 12.0,
+                                              .track_m = 0.50,
+                                              .friction = 0.8,
+                                              .rolling_resistance = 0.015}));
+  EXPECT_EQ(courier.motor, (model::MotorModel{.torque_constant_Nm_per_A = 0.06,
+                                              .back_emf_V_s_per_rad = 0.06,
+                                              .resistance_ohm = 0.5,
+                                              .gear_ratio = 20,
+                                              .gear_efficiency = 0.85,
+                                              .supply_V = 24,
+                                              .current_limit_A = 20,
+                                              .viscous_friction_Nm_s_per_rad = 0.02,
+                                              .coulomb_friction_Nm = 0.15}));
+  EXPECT_EQ(courier.sensors, (model::SensorModel{.imu_rate_hz = 1000,
+                                                 .imu_x_m = 0.05,
+                                                 .imu_y_m = 0,
+                                                 .imu_z_m = 0.25,
+                                                 .gyro_noise_rad_s_rthz = 8.7e-5,
+                                                 .gyro_bias_x_rad_s = 0.002,
+                                                 .gyro_bias_y_rad_s = -0.001,
+                                                 .gyro_bias_z_rad_s = 0.0015,
+                                                 .gyro_resolution_rad_s = 2.66e-4,
+                                                 .accel_noise_m_s2_rthz = 1.47e-3,
+                                                 .accel_bias_x_m_s2 = 0.05,
+                                                 .accel_bias_y_m_s2 = -0.03,
+                                                 .accel_bias_z_m_s2 = 0.08,
+                                                 .accel_resolution_m_s2 = 2.39e-3,
+                                                 .encoder_counts_per_rev = 81920,
+                                                 .latency_s = 0.002}));
   EXPECT_EQ(courier.control_rate_hz, 200);
-  EXPECT_EQ(courier.payload, (PayloadModel{.present = true,
-                                           .mass_kg = 5,
-                                           .length_m = 0.30,
-                                           .width_m = 0.30,
-                                           .height_m = 0.25,
-                                           .x_m = 0,
-                                           .z_m = 0.775,
-                                           .min_x_m = -0.15,
-                                           .max_x_m = 0.15}));
+  EXPECT_EQ(courier.payload, (model::PayloadModel{.present = true,
+                                                  .mass_kg = 5,
+                                                  .length_m = 0.30,
+                                                  .width_m = 0.30,
+                                                  .height_m = 0.25,
+                                                  .x_m = 0,
+                                                  .z_m = 0.775,
+                                                  .min_x_m = -0.15,
+                                                  .max_x_m = 0.15}));
 
-  const RobotModel tabletop = LoadModelFile(ModelPath("tabletop.xml")).value();
+  const model::RobotModel tabletop = model::LoadModelFile(ModelPath("tabletop.xml")).value();
   EXPECT_EQ(tabletop.name, "tabletop");
   EXPECT_EQ(tabletop.chassis,
-            (ChassisModel{.mass_kg = 1.2,
-                          .pitch_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.16 * 0.16) / 12.0,
-                          .roll_inertia_kgm2 = 1.2 * (0.12 * 0.12 + 0.16 * 0.16) / 12.0,
-                          .yaw_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.12 * 0.12) / 12.0,
-                          .com_height_m = 0.07,
-                          .com_forward_m = 0,
-                          .outline_front_m = 0.05,
-                          .outline_rear_m = -0.05,
-                          .outline_bottom_m = -0.02,
-                          .outline_top_m = 0.14,
-                          .outline_width_m = 0.12}));
-  EXPECT_EQ(tabletop.wheel,
-            (WheelModel{.radius_m = 0.035,
-                        .width_m = 0.025,
-                        .mass_kg = 0.05,
-                        .spin_inertia_kgm2 = 2.8e-5,
-                        .diameter_inertia_kgm2 = 0.05 * (3 * 0.035 * 0.035 + 0.025 * 0.025) / 12.0,
-                        .track_m = 0.16,
-                        .friction = 0.9,
-                        .rolling_resistance = 0.01}));
-  EXPECT_EQ(tabletop.motor, (MotorModel{.torque_constant_Nm_per_A = 0.0057,
-                                        .back_emf_V_s_per_rad = 0.0057,
-                                        .resistance_ohm = 3.0,
-                                        .gear_ratio = 25,
-                                        .gear_efficiency = 0.7,
-                                        .supply_V = 7.4,
-                                        .current_limit_A = 1.5,
-                                        .viscous_friction_Nm_s_per_rad = 2e-4,
-                                        .coulomb_friction_Nm = 0.005}));
-  EXPECT_EQ(tabletop.sensors, (SensorModel{.imu_rate_hz = 500,
-                                           .imu_x_m = 0,
-                                           .imu_y_m = 0,
-                                           .imu_z_m = 0.04,
-                                           .gyro_noise_rad_s_rthz = 2.6e-4,
-                                           .gyro_bias_x_rad_s = 0.01,
-                                           .gyro_bias_y_rad_s = -0.008,
-                                           .gyro_bias_z_rad_s = 0.012,
-                                           .gyro_resolution_rad_s = 1.07e-3,
-                                           .accel_noise_m_s2_rthz = 2.9e-3,
-                                           .accel_bias_x_m_s2 = 0.15,
-                                           .accel_bias_y_m_s2 = -0.1,
-                                           .accel_bias_z_m_s2 = 0.2,
-                                           .accel_resolution_m_s2 = 1.2e-3,
-                                           .encoder_counts_per_rev = 700,
-                                           .latency_s = 0.005}));
+            (model::ChassisModel{.mass_kg = 1.2,
+                                 .pitch_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.16 * 0.16) / 12.0,
+                                 .roll_inertia_kgm2 = 1.2 * (0.12 * 0.12 + 0.16 * 0.16) / 12.0,
+                                 .yaw_inertia_kgm2 = 1.2 * (0.10 * 0.10 + 0.12 * 0.12) / 12.0,
+                                 .com_height_m = 0.07,
+                                 .com_forward_m = 0,
+                                 .outline_front_m = 0.05,
+                                 .outline_rear_m = -0.05,
+                                 .outline_bottom_m = -0.02,
+                                 .outline_top_m = 0.14,
+                                 .outline_width_m = 0.12}));
+  EXPECT_EQ(
+      tabletop.wheel,
+      (model::WheelModel{.radius_m = 0.035,
+                         .width_m = 0.025,
+                         .mass_kg = 0.05,
+                         .spin_inertia_kgm2 = 2.8e-5,
+                         .diameter_inertia_kgm2 = 0.05 * (3 * 0.035 * 0.035 + 0.025 * 0.025) / 12.0,
+                         .track_m = 0.16,
+                         .friction = 0.9,
+                         .rolling_resistance = 0.01}));
+  EXPECT_EQ(tabletop.motor, (model::MotorModel{.torque_constant_Nm_per_A = 0.0057,
+                                               .back_emf_V_s_per_rad = 0.0057,
+                                               .resistance_ohm = 3.0,
+                                               .gear_ratio = 25,
+                                               .gear_efficiency = 0.7,
+                                               .supply_V = 7.4,
+                                               .current_limit_A = 1.5,
+                                               .viscous_friction_Nm_s_per_rad = 2e-4,
+                                               .coulomb_friction_Nm = 0.005}));
+  EXPECT_EQ(tabletop.sensors, (model::SensorModel{.imu_rate_hz = 500,
+                                                  .imu_x_m = 0,
+                                                  .imu_y_m = 0,
+                                                  .imu_z_m = 0.04,
+                                                  .gyro_noise_rad_s_rthz = 2.6e-4,
+                                                  .gyro_bias_x_rad_s = 0.01,
+                                                  .gyro_bias_y_rad_s = -0.008,
+                                                  .gyro_bias_z_rad_s = 0.012,
+                                                  .gyro_resolution_rad_s = 1.07e-3,
+                                                  .accel_noise_m_s2_rthz = 2.9e-3,
+                                                  .accel_bias_x_m_s2 = 0.15,
+                                                  .accel_bias_y_m_s2 = -0.1,
+                                                  .accel_bias_z_m_s2 = 0.2,
+                                                  .accel_resolution_m_s2 = 1.2e-3,
+                                                  .encoder_counts_per_rev = 700,
+                                                  .latency_s = 0.005}));
   EXPECT_EQ(tabletop.control_rate_hz, 100);
-  EXPECT_EQ(tabletop.payload, PayloadModel{});
+  EXPECT_EQ(tabletop.payload, model::PayloadModel{});
 }
 
 TEST(ModelFile, TabletopDemoMotorsHoldATenDegreeTilt) {
-  const RobotModel m = LoadModelFile(ModelPath("tabletop.xml")).value();
+  const model::RobotModel m = model::LoadModelFile(ModelPath("tabletop.xml")).value();
   const double current_A =
       std::min(m.motor.supply_V / m.motor.resistance_ohm, m.motor.current_limit_A);
   const double stall_both_Nm = 2 * m.motor.gear_ratio * m.motor.gear_efficiency *
@@ -300,14 +301,14 @@ TEST(ModelFile, TabletopDemoMotorsHoldATenDegreeTilt) {
 }
 
 TEST(ModelFile, LoadsPayloadAndMarksItPresent) {
-  const auto result = ParseModelText(WithPayload(), "mini.xml");
+  const auto result = model::ParseModelText(WithPayload(), "mini.xml");
   ASSERT_TRUE(result.has_value()) << result.error()[0].ToString();
   EXPECT_TRUE(result->payload.present);
   EXPECT_EQ(result->payload.z_m, 0.7);
 }
 
 TEST(ModelFile, ReportsMissingFile) {
-  const auto result = LoadModelFile("models/no_such_robot.xml");
+  const auto result = model::LoadModelFile("models/no_such_robot.xml");
   ASSERT_FALSE(result.has_value());
   ASSERT_EQ(result.error().size(), 1u);
   EXPECT_EQ(result.error()[0].ToString(),
@@ -504,7 +505,7 @@ TEST(ModelFile, HintsThatALatencyTooLargeIsInSeconds) {
 }
 
 TEST(ModelFile, AcceptsValuesAtClosedBounds) {
-  const auto result = ParseModelText(
+  const auto result = model::ParseModelText(
       Edit(R"(gear_ratio="10")", R"(gear_ratio="1" gear_efficiency="1" coulomb_friction_Nm="0")"),
       "mini.xml");
   EXPECT_TRUE(result.has_value()) << result.error()[0].ToString();
@@ -680,8 +681,9 @@ TEST(ModelFile, ImuPeriodMustFitTheDefaultPhysicsStep) {
   EXPECT_EQ(Errors(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="1500")")), Lines{});
   EXPECT_EQ(Errors(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="250")")), Lines{});
   // A scenario checks the robot against its own step instead.
-  const auto own_step = ParseModelText(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="400")"),
-                                       "mini.xml", ModelLoadOptions{.check_default_step = false});
+  const auto own_step =
+      model::ParseModelText(Edit(R"(<imu rate_hz="500")", R"(<imu rate_hz="400")"), "mini.xml",
+                            model::ModelLoadOptions{.check_default_step = false});
   EXPECT_TRUE(own_step.has_value()) << own_step.error()[0].ToString();
 }
 

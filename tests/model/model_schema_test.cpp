@@ -21,15 +21,15 @@ std::string ReadText(const std::string& path) {
   return text.str();
 }
 
-RobotModel LoadedDemo(const char* file) {
-  const auto result = LoadModelFile(SourcePath(std::string("models/") + file));
+model::RobotModel LoadedDemo(const char* file) {
+  const auto result = model::LoadModelFile(SourcePath(std::string("models/") + file));
   EXPECT_TRUE(result.has_value()) << file;
-  return result.value_or(RobotModel{});
+  return result.value_or(model::RobotModel{});
 }
 
 // ValidateModel's messages, none for a valid model.
-std::vector<std::string> Problems(const RobotModel& model) {
-  const auto valid = ValidateModel(model);
+std::vector<std::string> Problems(const model::RobotModel& model) {
+  const auto valid = model::ValidateModel(model);
   return valid ? std::vector<std::string>{} : valid.error();
 }
 
@@ -39,14 +39,14 @@ TEST(ModelSchema, ValidateModelAcceptsLoadedDemoModels) {
 }
 
 TEST(ModelSchema, ValidateModelFlagsOutOfRangeField) {
-  RobotModel model = LoadedDemo("courier.xml");
+  model::RobotModel model = LoadedDemo("courier.xml");
   model.chassis.mass_kg = -1;
   EXPECT_EQ(Problems(model),
             std::vector<std::string>{"chassis mass_kg = -1: must be in (0, 1000]"});
 }
 
 TEST(ModelSchema, ValidateModelFlagsEveryBrokenField) {
-  RobotModel model = LoadedDemo("tabletop.xml");
+  model::RobotModel model = LoadedDemo("tabletop.xml");
   model.motor.gear_efficiency = 0;
   model.sensors.encoder_counts_per_rev = 700.5;
   EXPECT_EQ(
@@ -56,15 +56,15 @@ TEST(ModelSchema, ValidateModelFlagsEveryBrokenField) {
 }
 
 TEST(ModelSchema, ValidateModelFlagsCrossFieldRule) {
-  RobotModel model = LoadedDemo("tabletop.xml");
+  model::RobotModel model = LoadedDemo("tabletop.xml");
   model.control_rate_hz = 1000;
   EXPECT_EQ(Problems(model), std::vector<std::string>{
                                  "sensors/imu rate_hz = 500: must be >= control rate_hz = 1000"});
 }
 
 TEST(ModelSchema, ValidateModelChecksPayloadOnlyWhenPresent) {
-  RobotModel model = LoadedDemo("tabletop.xml");
-  model.payload = PayloadModel{};
+  model::RobotModel model = LoadedDemo("tabletop.xml");
+  model.payload = model::PayloadModel{};
   EXPECT_EQ(Problems(model), std::vector<std::string>{});
   model.payload.present = true;
   const std::vector<std::string> problems = Problems(model);
@@ -73,14 +73,14 @@ TEST(ModelSchema, ValidateModelChecksPayloadOnlyWhenPresent) {
 }
 
 TEST(ModelSchema, ValidateModelRejectsDefaultConstructedModel) {
-  const std::vector<std::string> problems = Problems(RobotModel{});
+  const std::vector<std::string> problems = Problems(model::RobotModel{});
   ASSERT_FALSE(problems.empty());
   EXPECT_EQ(problems[0], "balancer name = '': must not be empty");
   EXPECT_EQ(problems[1], "chassis mass_kg = 0: must be in (0, 1000]");
 }
 
 TEST(ModelSchema, MarkdownStatesDerivedDefaultsAndRanges) {
-  const std::string markdown = ModelSchemaMarkdown();
+  const std::string markdown = model::ModelSchemaMarkdown();
   EXPECT_NE(markdown.find("| `wheels` | `spin_inertia_kgm2` | kg·m² | ½ m r² (uniform disc) | > 0 "
                           "| one wheel about the axle |"),
             std::string::npos)
@@ -97,9 +97,9 @@ TEST(ModelSchema, MarkdownStatesDerivedDefaultsAndRanges) {
 TEST(ModelSchema, ReadmeEmbedsTheGeneratedSchema) {
   const std::string readme = ReadText(SourcePath("models/README.md"));
   ASSERT_FALSE(readme.empty()) << "cannot read models/README.md";
-  EXPECT_NE(readme.find(ModelSchemaMarkdown()), std::string::npos)
+  EXPECT_NE(readme.find(model::ModelSchemaMarkdown()), std::string::npos)
       << "models/README.md is out of date; replace its generated section with:\n"
-      << ModelSchemaMarkdown();
+      << model::ModelSchemaMarkdown();
 }
 
 TEST(ModelSchema, ReadmeMinimalExampleLoads) {
@@ -110,7 +110,7 @@ TEST(ModelSchema, ReadmeMinimalExampleLoads) {
   const std::size_t end = readme.find("```", start + fence.size());
   ASSERT_NE(end, std::string::npos);
   const std::string example = readme.substr(start + fence.size(), end - start - fence.size());
-  const auto result = ParseModelText(example, "README example");
+  const auto result = model::ParseModelText(example, "README example");
   EXPECT_TRUE(result.has_value()) << result.error()[0].ToString();
 }
 

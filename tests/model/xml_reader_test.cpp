@@ -10,36 +10,36 @@
 namespace upright {
 namespace {
 
-std::vector<std::string> Texts(const XmlDocument& doc) {
+std::vector<std::string> Texts(const model::XmlDocument& doc) {
   std::vector<std::string> texts;
-  for (const FileError& error : doc.errors()) texts.push_back(error.ToString());
+  for (const model::FileError& error : doc.errors()) texts.push_back(error.ToString());
   return texts;
 }
 
 TEST(XmlReader, ReadsTypedAttributes) {
-  XmlDocument doc = XmlDocument::Parse(
+  model::XmlDocument doc = model::XmlDocument::Parse(
       R"(<thing label="left wheel" gain="-2.5e-3" count="-42" mode="fast"/>)", "t.xml");
   ASSERT_TRUE(doc.parsed());
-  XmlElement root = doc.Root();
+  model::XmlElement root = doc.Root();
   EXPECT_EQ(root.name(), "thing");
   EXPECT_EQ(root.label(), "thing");
   EXPECT_EQ(root.line(), 1);
-  EXPECT_EQ(root.String("label", Presence::kRequired), "left wheel");
-  EXPECT_EQ(root.Double("gain", Presence::kRequired), -2.5e-3);
-  EXPECT_EQ(root.Integer("count", Presence::kRequired), -42);
+  EXPECT_EQ(root.String("label", model::Presence::kRequired), "left wheel");
+  EXPECT_EQ(root.Double("gain", model::Presence::kRequired), -2.5e-3);
+  EXPECT_EQ(root.Integer("count", model::Presence::kRequired), -42);
   constexpr std::array<std::string_view, 2> kModes = {"slow", "fast"};
-  EXPECT_EQ(root.Choice("mode", kModes, Presence::kRequired), 1u);
-  EXPECT_FALSE(root.Double("absent", Presence::kOptional).has_value());
+  EXPECT_EQ(root.Choice("mode", kModes, model::Presence::kRequired), 1u);
+  EXPECT_FALSE(root.Double("absent", model::Presence::kOptional).has_value());
   doc.ReportUnread();
   EXPECT_FALSE(doc.HasErrors());
 }
 
 TEST(XmlReader, RejectsNumbersThatAreNotWholeAttributes) {
-  XmlDocument doc = XmlDocument::Parse(
+  model::XmlDocument doc = model::XmlDocument::Parse(
       R"(<t a="1.5x" b="" c="nan" d="inf" e=" 1" f="1e999" g="-inf"/>)", "t.xml");
-  XmlElement root = doc.Root();
+  model::XmlElement root = doc.Root();
   for (const char* name : {"a", "b", "c", "d", "e", "f", "g"}) {
-    EXPECT_FALSE(root.Double(name, Presence::kRequired).has_value()) << name;
+    EXPECT_FALSE(root.Double(name, model::Presence::kRequired).has_value()) << name;
   }
   EXPECT_EQ(Texts(doc),
             (std::vector<std::string>{
@@ -56,43 +56,43 @@ TEST(XmlReader, RejectsNumbersThatAreNotWholeAttributes) {
 }
 
 TEST(XmlReader, RejectsFractionInWholeNumber) {
-  XmlDocument doc = XmlDocument::Parse(R"(<t n="4.5"/>)", "t.xml");
-  EXPECT_FALSE(doc.Root().Integer("n", Presence::kRequired).has_value());
+  model::XmlDocument doc = model::XmlDocument::Parse(R"(<t n="4.5"/>)", "t.xml");
+  EXPECT_FALSE(doc.Root().Integer("n", model::Presence::kRequired).has_value());
   EXPECT_EQ(Texts(doc),
             (std::vector<std::string>{
                 "t.xml:1: t n = '4.5': not a whole number (expected digits such as 42)"}));
 }
 
 TEST(XmlReader, RejectsValueOutsideChoices) {
-  XmlDocument doc = XmlDocument::Parse(R"(<t mode="medium"/>)", "t.xml");
+  model::XmlDocument doc = model::XmlDocument::Parse(R"(<t mode="medium"/>)", "t.xml");
   constexpr std::array<std::string_view, 2> kModes = {"slow", "fast"};
-  EXPECT_FALSE(doc.Root().Choice("mode", kModes, Presence::kRequired).has_value());
+  EXPECT_FALSE(doc.Root().Choice("mode", kModes, model::Presence::kRequired).has_value());
   EXPECT_EQ(Texts(doc), (std::vector<std::string>{"t.xml:1: t mode = 'medium': not a known value "
                                                   "(expected one of: slow, fast)"}));
 }
 
 TEST(XmlReader, ReportsMissingRequiredAttributeAndChild) {
-  XmlDocument doc = XmlDocument::Parse("<t>\n</t>", "t.xml");
-  XmlElement root = doc.Root();
-  EXPECT_FALSE(root.Double("mass_kg", Presence::kRequired).has_value());
-  EXPECT_FALSE(root.Child("part", Presence::kRequired).has_value());
-  EXPECT_FALSE(root.Child("extra", Presence::kOptional).has_value());
+  model::XmlDocument doc = model::XmlDocument::Parse("<t>\n</t>", "t.xml");
+  model::XmlElement root = doc.Root();
+  EXPECT_FALSE(root.Double("mass_kg", model::Presence::kRequired).has_value());
+  EXPECT_FALSE(root.Child("part", model::Presence::kRequired).has_value());
+  EXPECT_FALSE(root.Child("extra", model::Presence::kOptional).has_value());
   EXPECT_EQ(Texts(doc),
             (std::vector<std::string>{"t.xml:1: t: missing required attribute 'mass_kg'",
                                       "t.xml:1: t: missing required element <part>"}));
 }
 
 TEST(XmlReader, LabelsNestedElementsByPathBelowRoot) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <a>\n    <b/>\n  </a>\n</r>", "t.xml");
-  XmlElement a = *doc.Root().Child("a", Presence::kRequired);
-  XmlElement b = *a.Child("b", Presence::kRequired);
+  model::XmlDocument doc = model::XmlDocument::Parse("<r>\n  <a>\n    <b/>\n  </a>\n</r>", "t.xml");
+  model::XmlElement a = *doc.Root().Child("a", model::Presence::kRequired);
+  model::XmlElement b = *a.Child("b", model::Presence::kRequired);
   EXPECT_EQ(a.label(), "a");
   EXPECT_EQ(b.label(), "a/b");
   EXPECT_EQ(b.line(), 3);
 }
 
 TEST(XmlReader, ReportsUnreadAttributesAndElementsOfReachedElementsOnly) {
-  XmlDocument doc = XmlDocument::Parse(
+  model::XmlDocument doc = model::XmlDocument::Parse(
       "<r known=\"1\" stray=\"2\">\n"
       "  <a x=\"1\" y=\"2\"/>\n"
       "  <other>\n"
@@ -100,10 +100,10 @@ TEST(XmlReader, ReportsUnreadAttributesAndElementsOfReachedElementsOnly) {
       "  </other>\n"
       "</r>",
       "t.xml");
-  XmlElement root = doc.Root();
-  root.Double("known", Presence::kRequired);
-  root.Double("also", Presence::kOptional);
-  root.Child("a", Presence::kRequired)->Double("x", Presence::kRequired);
+  model::XmlElement root = doc.Root();
+  root.Double("known", model::Presence::kRequired);
+  root.Double("also", model::Presence::kOptional);
+  root.Child("a", model::Presence::kRequired)->Double("x", model::Presence::kRequired);
   doc.ReportUnread();
   EXPECT_EQ(Texts(doc), (std::vector<std::string>{
                             "t.xml:1: r: unknown attribute 'stray' (expected one of: known, also)",
@@ -113,8 +113,8 @@ TEST(XmlReader, ReportsUnreadAttributesAndElementsOfReachedElementsOnly) {
 }
 
 TEST(XmlReader, ReportsAttributesOnElementThatTakesNone) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <flag on=\"1\"/>\n</r>", "t.xml");
-  doc.Root().Child("flag", Presence::kRequired);
+  model::XmlDocument doc = model::XmlDocument::Parse("<r>\n  <flag on=\"1\"/>\n</r>", "t.xml");
+  doc.Root().Child("flag", model::Presence::kRequired);
   doc.ReportUnread();
   EXPECT_EQ(Texts(doc), (std::vector<std::string>{
                             "t.xml:2: flag: unknown attribute 'on' (this element takes no "
@@ -122,7 +122,7 @@ TEST(XmlReader, ReportsAttributesOnElementThatTakesNone) {
 }
 
 TEST(XmlReader, ReportsTextInsideElement) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  stray words\n</r>", "t.xml");
+  model::XmlDocument doc = model::XmlDocument::Parse("<r>\n  stray words\n</r>", "t.xml");
   doc.Root();
   doc.ReportUnread();
   EXPECT_EQ(Texts(doc),
@@ -130,18 +130,19 @@ TEST(XmlReader, ReportsTextInsideElement) {
 }
 
 TEST(XmlReader, TextCollapsesWhiteSpaceAndIsNotUnexpectedOnceRead) {
-  XmlDocument doc = XmlDocument::Parse(
+  model::XmlDocument doc = model::XmlDocument::Parse(
       "<r>\n  <note>\n    Two\tlines\r\n    of   text &amp; more.\n  </note>\n</r>", "t.xml");
-  XmlElement note = *doc.Root().Child("note", Presence::kRequired);
-  EXPECT_EQ(note.Text(Presence::kRequired), "Two lines of text & more.");
+  model::XmlElement note = *doc.Root().Child("note", model::Presence::kRequired);
+  EXPECT_EQ(note.Text(model::Presence::kRequired), "Two lines of text & more.");
   doc.ReportUnread();
   EXPECT_FALSE(doc.HasErrors()) << Texts(doc)[0];
 }
 
 TEST(XmlReader, TextIsOwnTextOnlyAndLeavesChildElementsToBeAskedFor) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <note>A <b>bold</b> claim.</note>\n</r>", "t.xml");
-  XmlElement note = *doc.Root().Child("note", Presence::kRequired);
-  EXPECT_EQ(note.Text(Presence::kRequired), "A claim.");
+  model::XmlDocument doc =
+      model::XmlDocument::Parse("<r>\n  <note>A <b>bold</b> claim.</note>\n</r>", "t.xml");
+  model::XmlElement note = *doc.Root().Child("note", model::Presence::kRequired);
+  EXPECT_EQ(note.Text(model::Presence::kRequired), "A claim.");
   doc.ReportUnread();
   EXPECT_EQ(Texts(doc), (std::vector<std::string>{
                             "t.xml:2: note: unknown element <b> (this element takes no child "
@@ -149,11 +150,15 @@ TEST(XmlReader, TextIsOwnTextOnlyAndLeavesChildElementsToBeAskedFor) {
 }
 
 TEST(XmlReader, ReportsRequiredEmptyTextAtElementLine) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <a>  \n  </a>\n  <b/>\n  <c></c>\n</r>", "t.xml");
-  XmlElement root = doc.Root();
-  EXPECT_FALSE(root.Child("a", Presence::kRequired)->Text(Presence::kRequired).has_value());
-  EXPECT_FALSE(root.Child("b", Presence::kRequired)->Text(Presence::kRequired).has_value());
-  EXPECT_FALSE(root.Child("c", Presence::kRequired)->Text(Presence::kOptional).has_value());
+  model::XmlDocument doc =
+      model::XmlDocument::Parse("<r>\n  <a>  \n  </a>\n  <b/>\n  <c></c>\n</r>", "t.xml");
+  model::XmlElement root = doc.Root();
+  EXPECT_FALSE(
+      root.Child("a", model::Presence::kRequired)->Text(model::Presence::kRequired).has_value());
+  EXPECT_FALSE(
+      root.Child("b", model::Presence::kRequired)->Text(model::Presence::kRequired).has_value());
+  EXPECT_FALSE(
+      root.Child("c", model::Presence::kRequired)->Text(model::Presence::kOptional).has_value());
   doc.ReportUnread();
   EXPECT_EQ(Texts(doc),
             (std::vector<std::string>{"t.xml:2: a: missing required text inside the element",
@@ -161,20 +166,22 @@ TEST(XmlReader, ReportsRequiredEmptyTextAtElementLine) {
 }
 
 TEST(XmlReader, ReportsTextOfElementWhoseTextWasNotRead) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <a>read</a>\n  <b>not read</b>\n</r>", "t.xml");
-  XmlElement root = doc.Root();
-  EXPECT_EQ(root.Child("a", Presence::kRequired)->Text(Presence::kOptional), "read");
-  root.Child("b", Presence::kRequired);
+  model::XmlDocument doc =
+      model::XmlDocument::Parse("<r>\n  <a>read</a>\n  <b>not read</b>\n</r>", "t.xml");
+  model::XmlElement root = doc.Root();
+  EXPECT_EQ(root.Child("a", model::Presence::kRequired)->Text(model::Presence::kOptional), "read");
+  root.Child("b", model::Presence::kRequired);
   doc.ReportUnread();
   EXPECT_EQ(Texts(doc),
             (std::vector<std::string>{"t.xml:3: b: unexpected text inside the element"}));
 }
 
 TEST(XmlReader, ReportsDuplicateChildAtItsLine) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <a/>\n  <b/>\n  <a q=\"1\"/>\n</r>", "t.xml");
-  XmlElement root = doc.Root();
-  EXPECT_EQ(root.Child("a", Presence::kRequired)->line(), 2);
-  root.Child("b", Presence::kRequired);
+  model::XmlDocument doc =
+      model::XmlDocument::Parse("<r>\n  <a/>\n  <b/>\n  <a q=\"1\"/>\n</r>", "t.xml");
+  model::XmlElement root = doc.Root();
+  EXPECT_EQ(root.Child("a", model::Presence::kRequired)->line(), 2);
+  root.Child("b", model::Presence::kRequired);
   doc.ReportUnread();
   // The duplicate's own attributes are not reported: the duplicate itself is the problem.
   EXPECT_EQ(Texts(doc),
@@ -182,13 +189,13 @@ TEST(XmlReader, ReportsDuplicateChildAtItsLine) {
 }
 
 TEST(XmlReader, ChildrenReturnsRepeatedElementsInFileOrder) {
-  XmlDocument doc =
-      XmlDocument::Parse("<r>\n  <e t=\"1\"/>\n  <f/>\n  <e t=\"2\"/>\n</r>", "t.xml");
-  XmlElement root = doc.Root();
-  std::vector<XmlElement> events = root.Children("e");
+  model::XmlDocument doc =
+      model::XmlDocument::Parse("<r>\n  <e t=\"1\"/>\n  <f/>\n  <e t=\"2\"/>\n</r>", "t.xml");
+  model::XmlElement root = doc.Root();
+  std::vector<model::XmlElement> events = root.Children("e");
   ASSERT_EQ(events.size(), 2u);
-  EXPECT_EQ(events[0].Double("t", Presence::kRequired), 1.0);
-  EXPECT_EQ(events[1].Double("t", Presence::kRequired), 2.0);
+  EXPECT_EQ(events[0].Double("t", model::Presence::kRequired), 1.0);
+  EXPECT_EQ(events[1].Double("t", model::Presence::kRequired), 2.0);
   EXPECT_EQ(events[1].line(), 4);
   root.Children("f");
   doc.ReportUnread();
@@ -196,7 +203,7 @@ TEST(XmlReader, ChildrenReturnsRepeatedElementsInFileOrder) {
 }
 
 TEST(XmlReader, ChildrenOfSeveralNamesKeepFileOrderOnOneLineAndAcrossLines) {
-  XmlDocument doc = XmlDocument::Parse(
+  model::XmlDocument doc = model::XmlDocument::Parse(
       "<r>\n"
       "  <up n=\"1\"/> <flat n=\"2\"/><up n=\"3\"/>\n"
       "  <other/>\n"
@@ -204,9 +211,9 @@ TEST(XmlReader, ChildrenOfSeveralNamesKeepFileOrderOnOneLineAndAcrossLines) {
       "  <up n=\"5\"/>\n"
       "</r>",
       "t.xml");
-  XmlElement root = doc.Root();
+  model::XmlElement root = doc.Root();
   constexpr std::array<std::string_view, 2> kKinds = {"up", "flat"};
-  std::vector<XmlElement> parts = root.Children(kKinds);
+  std::vector<model::XmlElement> parts = root.Children(kKinds);
   ASSERT_EQ(parts.size(), 5u);
   const std::vector<std::string> names = {parts[0].name(), parts[1].name(), parts[2].name(),
                                           parts[3].name(), parts[4].name()};
@@ -215,7 +222,7 @@ TEST(XmlReader, ChildrenOfSeveralNamesKeepFileOrderOnOneLineAndAcrossLines) {
                                   parts[3].line(), parts[4].line()};
   EXPECT_EQ(lines, (std::vector<int>{2, 2, 2, 4, 5}));
   for (std::size_t i = 0; i < parts.size(); ++i) {
-    EXPECT_EQ(parts[i].Integer("n", Presence::kRequired), static_cast<long long>(i + 1));
+    EXPECT_EQ(parts[i].Integer("n", model::Presence::kRequired), static_cast<long long>(i + 1));
   }
   doc.ReportUnread();
   EXPECT_EQ(Texts(doc), (std::vector<std::string>{
@@ -223,8 +230,8 @@ TEST(XmlReader, ChildrenOfSeveralNamesKeepFileOrderOnOneLineAndAcrossLines) {
 }
 
 TEST(XmlReader, ChildrenOfSeveralNamesCountEveryNameAsAskedEvenWhenAbsent) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <down/>\n  <x/>\n</r>", "t.xml");
-  XmlElement root = doc.Root();
+  model::XmlDocument doc = model::XmlDocument::Parse("<r>\n  <down/>\n  <x/>\n</r>", "t.xml");
+  model::XmlElement root = doc.Root();
   constexpr std::array<std::string_view, 3> kKinds = {"up", "flat", "down"};
   EXPECT_EQ(root.Children(kKinds).size(), 1u);
   EXPECT_TRUE(root.Children("friction").empty());
@@ -235,7 +242,7 @@ TEST(XmlReader, ChildrenOfSeveralNamesCountEveryNameAsAskedEvenWhenAbsent) {
 
 // The one problem of a text that is not well-formed XML, as path:line: message.
 std::vector<std::string> Malformed(std::string_view text) {
-  const XmlDocument doc = XmlDocument::Parse(text, "t.xml");
+  const model::XmlDocument doc = model::XmlDocument::Parse(text, "t.xml");
   EXPECT_FALSE(doc.parsed()) << text;
   return Texts(doc);
 }
@@ -316,14 +323,14 @@ TEST(XmlReader, ReportsElementsNestedTooDeep) {
 }
 
 TEST(XmlReader, ReportsSecondTopLevelElement) {
-  XmlDocument doc = XmlDocument::Parse("<r/>\n<s/>", "t.xml");
+  model::XmlDocument doc = model::XmlDocument::Parse("<r/>\n<s/>", "t.xml");
   EXPECT_EQ(Texts(doc),
             (std::vector<std::string>{
                 "t.xml:2: second top-level element <s> (a file holds one root element)"}));
 }
 
 TEST(XmlReader, ReportsMissingFileWithoutLine) {
-  XmlDocument doc = XmlDocument::Open("no/such/file.xml");
+  model::XmlDocument doc = model::XmlDocument::Open("no/such/file.xml");
   EXPECT_FALSE(doc.parsed());
   EXPECT_EQ(
       Texts(doc),
@@ -331,14 +338,15 @@ TEST(XmlReader, ReportsMissingFileWithoutLine) {
 }
 
 TEST(XmlReader, ReturnsErrorsInLineOrder) {
-  XmlDocument doc = XmlDocument::Parse("<r>\n  <a v=\"x\"/>\n  <b v=\"y\"/>\n</r>", "t.xml");
-  XmlElement root = doc.Root();
-  XmlElement b = *root.Child("b", Presence::kRequired);
-  XmlElement a = *root.Child("a", Presence::kRequired);
-  b.Double("v", Presence::kRequired);
-  a.Double("v", Presence::kRequired);
+  model::XmlDocument doc =
+      model::XmlDocument::Parse("<r>\n  <a v=\"x\"/>\n  <b v=\"y\"/>\n</r>", "t.xml");
+  model::XmlElement root = doc.Root();
+  model::XmlElement b = *root.Child("b", model::Presence::kRequired);
+  model::XmlElement a = *root.Child("a", model::Presence::kRequired);
+  b.Double("v", model::Presence::kRequired);
+  a.Double("v", model::Presence::kRequired);
   doc.AddError(1, "first");
-  const std::vector<FileError> errors = doc.errors();
+  const std::vector<model::FileError> errors = doc.errors();
   ASSERT_EQ(errors.size(), 3u);
   EXPECT_EQ(errors[0].line, 1);
   EXPECT_EQ(errors[1].line, 2);

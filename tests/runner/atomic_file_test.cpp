@@ -1,4 +1,4 @@
-#include "upright/runner/atomic_file.hpp"
+#include "upright/runner/common/atomic_file.hpp"
 
 #include <gtest/gtest.h>
 #include <unistd.h>

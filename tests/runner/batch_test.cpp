@@ -1,11 +1,11 @@
 // A batch: the same tables whatever the number of jobs, runs in a fixed order, a missing module
 // turned into failed rows rather than a crashed batch.
-#include "upright/runner/batch.hpp"
+#include "upright/runner/run/batch.hpp"
 
 #include <gtest/gtest.h>
 
 #include "run_test_support.hpp"
-#include "upright/runner/results_writer.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 
 namespace upright::runner {
 namespace {

@@ -9,7 +9,7 @@
 #include <vector>
 
 #include "tables_test_support.hpp"
-#include "upright/runner/metric_floors.hpp"
+#include "upright/runner/tables/metric_floors.hpp"
 
 namespace upright::runner {
 namespace {

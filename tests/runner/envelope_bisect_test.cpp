@@ -5,7 +5,7 @@
 #include <cmath>
 #include <vector>
 
-#include "upright/runner/bisect.hpp"
+#include "upright/runner/envelope/bisect.hpp"
 
 namespace upright::runner {
 namespace {

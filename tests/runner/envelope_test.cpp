@@ -1,7 +1,7 @@
 // Envelopes end to end on the courier demo robot: the defaults and refusals of a plan, a push
 // envelope whose survived value really survives, the same files whatever the number of jobs, a
 // survival map with its easy and hard corners, and a controller that cannot be run.
-#include "upright/runner/envelope.hpp"
+#include "upright/runner/envelope/envelope.hpp"
 
 #include <gtest/gtest.h>
 
@@ -10,9 +10,9 @@
 
 #include "parameter_unit.hpp"
 #include "run_test_support.hpp"
-#include "upright/runner/envelope_writer.hpp"
-#include "upright/runner/run_one.hpp"
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/envelope/envelope_writer.hpp"
+#include "upright/runner/run/run_one.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 
 namespace upright::runner {
 namespace {

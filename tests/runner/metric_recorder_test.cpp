@@ -1,10 +1,11 @@
-#include "upright/runner/metric_recorder.hpp"
+#include "upright/runner/metrics/metric_recorder.hpp"
 
 #include <gtest/gtest.h>
 
 #include <cmath>
 #include <cstddef>
 #include <functional>
+#include <numbers>
 #include <vector>
 
 #include "allocation_count.hpp"
@@ -12,8 +13,7 @@
 namespace upright::runner {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
-constexpr double kDeg = 180 / kPi;
+constexpr double kDeg = 180 / std::numbers::pi;
 constexpr double kDt = 0.001;
 
 // Sample i of a run is taken after physics step i + 1, at t = (i + 1) dt, as the runner does.
@@ -92,7 +92,7 @@ TEST(MetricRecorder, SinusoidalTiltRmsIsAmplitudeOverRootTwo) {
   MetricRecorder recorder(MetricSettings{}, kDt, 3.0, {});
   Feed(&recorder, steps, [&](long, double t) {
     StepSample s;
-    s.tilt_rad = a_rad * std::sin(2 * kPi * f_hz * t);
+    s.tilt_rad = a_rad * std::sin(2 * std::numbers::pi * f_hz * t);
     return s;
   });
   const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
@@ -103,9 +103,9 @@ TEST(MetricRecorder, SinusoidalTiltRmsIsAmplitudeOverRootTwo) {
   // Σ|sin(2πk/N)| over a period = 2 Σ_{k=0}^{N/2} sin(2πk/N) = 2 cot(π/N) (the sum-of-sines
   // identity Σ_{k=1}^{M} sin kx = sin(Mx/2) sin((M+1)x/2) / sin(x/2) with M = N/2, x = 2π/N);
   // the continuous ∫|A sin| dt = 2AT/π differs from it by the factor ≈ 1 − (π/N)²/3.
-  const double iae_rad_s = a_rad * kDt * 6 * 2 / std::tan(kPi / per_period);
+  const double iae_rad_s = a_rad * kDt * 6 * 2 / std::tan(std::numbers::pi / per_period);
   EXPECT_NEAR(m.iae_tilt_deg_s, iae_rad_s * kDeg, 1e-9 * iae_rad_s * kDeg);
-  EXPECT_NEAR(m.iae_tilt_deg_s, 2 * a_rad * 3.0 / kPi * kDeg, 2e-5 * m.iae_tilt_deg_s);
+  EXPECT_NEAR(m.iae_tilt_deg_s, 2 * a_rad * 3.0 / std::numbers::pi * kDeg, 2e-5 * m.iae_tilt_deg_s);
 }
 
 TEST(MetricRecorder, EnergyCountsOnlyPowerDrawn) {
@@ -229,7 +229,7 @@ TEST(MetricRecorder, SettlingAfterADecayMatchesTheExactTime) {
 
 // Tilt A e^{−a s} sin ωs after the disturbance at t_d, s = t − t_d, with ω = 2π·1.3 rad/s.
 struct DampedSwing {
-  double start_s = 1.0, a_rad = 0.3, a = 1.5, w = 2 * kPi * 1.3;
+  double start_s = 1.0, a_rad = 0.3, a = 1.5, w = 2 * std::numbers::pi * 1.3;
   double operator()(double t) const {
     const double s = t - start_s;
     return s < 0 ? 0 : a_rad * std::exp(-a * s) * std::sin(w * s);
@@ -240,7 +240,7 @@ struct DampedSwing {
     const double t1 = std::atan(w / a) / w;
     return a_rad * std::exp(-a * t1) * std::sin(w * t1);
   }
-  double SecondPeak() const { return FirstPeak() * std::exp(-a * kPi / w); }
+  double SecondPeak() const { return FirstPeak() * std::exp(-a * std::numbers::pi / w); }
   // Sampling lowers each peak by at most ½|y''| dt², relative 0.5 (ω+a)² dt² √(a²+ω²)/ω each;
   // twice that bounds the relative error of a ratio of two peaks.
   double RatioTolerance() const {
@@ -347,7 +347,7 @@ TEST(MetricRecorder, SignalThatNeverSettlesIsNaN) {
   MetricRecorder recorder(MetricSettings{}, kDt, 10.0, {start_s, 6.0});
   Feed(&recorder, 10000, [&](long, double t) {
     StepSample s;
-    s.tilt_rad = t < start_s || t > 5.5 ? 0 : 0.1 * std::cos(2 * kPi * (t - start_s));
+    s.tilt_rad = t < start_s || t > 5.5 ? 0 : 0.1 * std::cos(2 * std::numbers::pi * (t - start_s));
     return s;
   });
   const RunMetrics m = recorder.Finish(RunStatus::kOk, "survived");
@@ -401,7 +401,7 @@ TEST(MetricRecorder, ATinyFirstExcursionDoesNotInflateTheRebound) {
   const auto tilt = [&](double t) {
     const double s = t - 1.0;
     if (s < 0) return 0.0;
-    if (s < dip_s) return -dip_rad * std::sin(kPi * s / dip_s);
+    if (s < dip_s) return -dip_rad * std::sin(std::numbers::pi * s / dip_s);
     return swing(t - dip_s);
   };
   const RunMetrics m = TiltOnlyRun(tilt, 1.0);

@@ -1,4 +1,4 @@
-#include "upright/runner/metric_settings.hpp"
+#include "upright/runner/metrics/metric_settings.hpp"
 
 #include <gtest/gtest.h>
 
@@ -7,7 +7,7 @@
 #include <string>
 #include <utility>
 
-#include "upright/runner/run_metrics.hpp"
+#include "upright/runner/metrics/run_metrics.hpp"
 
 namespace upright::runner {
 namespace {

@@ -10,8 +10,8 @@
 
 #include "allocation_count.hpp"
 #include "run_test_support.hpp"
-#include "upright/runner/batch.hpp"
-#include "upright/runner/run_one.hpp"
+#include "upright/runner/run/batch.hpp"
+#include "upright/runner/run/run_one.hpp"
 
 namespace upright::runner {
 namespace {

@@ -1,7 +1,7 @@
 // The record of a module's messages: levels filtered, times kept, the first messages kept and the
 // rest counted, long messages cut at a character boundary, bytes that are no UTF-8 replaced, and
 // no allocation once the recorder is built.
-#include "upright/runner/module_log.hpp"
+#include "upright/runner/metrics/module_log.hpp"
 
 #include <gtest/gtest.h>
 

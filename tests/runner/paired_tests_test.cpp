@@ -1,7 +1,7 @@
 // The paired tests behind the comparisons: Student's t and the regularised incomplete beta
 // function against SciPy, the paired t-test against SciPy's ttest_rel and at its edges (no spread,
 // one pair, none), and the exact McNemar p-value against SciPy.
-#include "upright/runner/paired_tests.hpp"
+#include "upright/runner/tables/paired_tests.hpp"
 
 #include <gtest/gtest.h>
 
@@ -9,7 +9,7 @@
 #include <limits>
 #include <vector>
 
-#include "upright/runner/student_t.hpp"
+#include "upright/runner/tables/student_t.hpp"
 
 namespace upright::runner {
 namespace {

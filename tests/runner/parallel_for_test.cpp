@@ -1,6 +1,6 @@
 // ParallelFor: every index handed out exactly once whatever the number of threads, the callback
 // after each task serialised, and JobsWanted's default. Also the ThreadSanitizer build's target.
-#include "upright/runner/parallel_for.hpp"
+#include "upright/runner/run/parallel_for.hpp"
 
 #include <gtest/gtest.h>
 

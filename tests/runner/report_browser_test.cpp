@@ -16,7 +16,7 @@
 #include <sstream>
 
 #include "report_test_support.hpp"
-#include "upright/runner/report.hpp"
+#include "upright/runner/report/report.hpp"
 
 namespace upright::runner {
 namespace {

@@ -9,7 +9,7 @@
 #include "html_text.hpp"
 #include "svg_axis.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 TEST(MinMaxDecimate, KeepsEverySampleWhenFewEnough) {
@@ -87,4 +87,4 @@ TEST(SvgText, CoordinatesInTenthsOfAPixel) {
 }
 
 }  // namespace
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -5,7 +5,7 @@
 
 #include <cmath>
 
-#include "upright/runner/csv_reader.hpp"
+#include "upright/runner/report/csv_reader.hpp"
 
 namespace upright::runner {
 namespace {

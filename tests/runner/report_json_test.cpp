@@ -14,9 +14,9 @@
 #include "json_reader.hpp"
 #include "manifest_info.hpp"
 #include "run_test_support.hpp"
-#include "upright/runner/json_text.hpp"
+#include "upright/runner/common/json_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 using Json = nlohmann::ordered_json;
@@ -243,4 +243,4 @@ TEST(Manifest, AbsentIsNotAnError) {
 }
 
 }  // namespace
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -1,7 +1,7 @@
 // The report of a small real run: well-formed (parsed as XML), one plot per scenario and signal
 // with the parts each must show, nothing external, a bounded size and the same bytes twice; the
 // refusals; and `upright report` over a folder of envelope and sweep folders.
-#include "upright/runner/report.hpp"
+#include "upright/runner/report/report.hpp"
 
 #include <gtest/gtest.h>
 #include <sys/wait.h>
@@ -21,10 +21,10 @@
 #include "report_page.hpp"
 #include "report_test_support.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/csv_reader.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/sha256.hpp"
-#include "upright/runner/verdict.hpp"
+#include "upright/runner/common/sha256.hpp"
+#include "upright/runner/report/csv_reader.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/verdict.hpp"
 
 namespace upright::runner {
 namespace {
@@ -161,13 +161,13 @@ TEST(Report, TiltPlotShowsLinesTwinsEventsTheFallAxesAndLegend) {
   int lines = 0, twins = 0;
   for (const XMLElement* path : Elements(tilt, "path")) {
     if (Attribute(path, "stroke-width") == "1.6") ++lines;
-    if (Attribute(path, "stroke-dasharray") == report::kTwinDash) ++twins;
+    if (Attribute(path, "stroke-dasharray") == internal::kTwinDash) ++twins;
   }
   EXPECT_EQ(lines, 2);
   EXPECT_EQ(twins, 2);
   // The drift plot has no twin.
   for (const XMLElement* path : Elements(PlotOf(report.doc.RootElement(), "drift"), "path")) {
-    EXPECT_NE(Attribute(path, "stroke-dasharray"), report::kTwinDash);
+    EXPECT_NE(Attribute(path, "stroke-dasharray"), internal::kTwinDash);
   }
 
   // The events, once each, from the run that went on: the push and the drive (whose label holds
@@ -209,7 +209,7 @@ TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
   Report report;
   MakeAndParse(run.dir, {}, &report);
   const std::string& html = report.html;
-  EXPECT_NE(html.find(report::kCaution), std::string::npos);
+  EXPECT_NE(html.find(internal::kCaution), std::string::npos);
   EXPECT_NE(html.find("upright test"), std::string::npos);  // the batch's tool version
   // The robot file's digest as the manifest recorded it, and as the file has it.
   const Result<std::string> model_sha =
@@ -219,7 +219,8 @@ TEST(Report, CarriesTheTablesTheInputsTheVersionAndTheCaution) {
   EXPECT_NE(html.find(*model_sha), std::string::npos);
 
   // Every verdict of compare.csv shows with the mark compare.md gives it (one convention,
-  // upright/runner/verdict.hpp): a symbol and a word, not colour alone, and not the old arrows.
+  // upright/runner/tables/verdict.hpp): a symbol and a word, not colour alone, and not the old
+  // arrows.
   const Result<CsvTable> read = ReadCsvFile((run.dir / "compare.csv").string());
   ASSERT_TRUE(read) << read.error();
   const CsvTable& compare = *read;

@@ -9,8 +9,8 @@
 #include <string>
 
 #include "run_test_support.hpp"
-#include "upright/runner/batch.hpp"
-#include "upright/runner/results_writer.hpp"
+#include "upright/runner/run/batch.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 
 namespace upright::runner::testing {
 

@@ -1,4 +1,4 @@
-#include "upright/runner/results_writer.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 
 #include <gtest/gtest.h>
 #include <unistd.h>
@@ -14,7 +14,7 @@
 #include <vector>
 
 #include "tables_test_support.hpp"
-#include "upright/runner/metric_columns.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
 
 namespace upright::runner {
 namespace {

@@ -1,6 +1,6 @@
 // One run end to end on the courier demo robot: a survived run with its trace and marks, a fall
 // that ends the run at once, a controller that cannot be built, a module file that is missing.
-#include "upright/runner/run_one.hpp"
+#include "upright/runner/run/run_one.hpp"
 
 #include <gtest/gtest.h>
 
@@ -10,8 +10,8 @@
 
 #include "run_test_support.hpp"
 #include "succeeded.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/results_writer.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 
 namespace upright::runner {
 namespace {

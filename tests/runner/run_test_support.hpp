@@ -17,9 +17,9 @@
 
 #include "succeeded.hpp"
 #include "upright/host/module.hpp"
-#include "upright/runner/batch.hpp"
-#include "upright/runner/results_writer.hpp"
-#include "upright/runner/scenario_file.hpp"
+#include "upright/runner/run/batch.hpp"
+#include "upright/runner/scenario/scenario_file.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 
 namespace upright::runner::testing {
 

@@ -7,8 +7,8 @@
 #include <utility>
 #include <vector>
 
-#include "upright/runner/scenario_file.hpp"
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/scenario/scenario_file.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 
 namespace upright::runner {
 namespace {
@@ -44,7 +44,7 @@ Lines Errors(const std::string& text) {
   Lines lines;
   const ScenarioLoadResult result = Parse(text);
   if (result) return lines;
-  for (const FileError& error : result.error()) lines.push_back(error.ToString());
+  for (const model::FileError& error : result.error()) lines.push_back(error.ToString());
   return lines;
 }
 

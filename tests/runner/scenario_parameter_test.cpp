@@ -1,11 +1,12 @@
 // Scenario parameters by path: each kind of path reads and sets the number the file means, in the
 // file's units; robot fields change only the robot as built; bad paths and values are refused
 // with the reason, leaving the scenario as it was.
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 
 #include "run_test_support.hpp"
 #include "upright/model/conventions.hpp"
@@ -72,9 +73,9 @@ TEST(ScenarioParameter, ReadsEveryKindInTheFilesUnits) {
 TEST(ScenarioParameter, SetsInTheFilesUnitsAndKeepsTheTimelineInOrder) {
   Scenario s = ScenarioFromText(kScenario);
   ASSERT_NO_FATAL_FAILURE(Set(&s, "start.pitch_deg", 4));
-  EXPECT_NEAR(s.initial.pitch_rad, 4 * kPi / 180, 1e-15);
+  EXPECT_NEAR(s.initial.pitch_rad, 4 * std::numbers::pi / 180, 1e-15);
   ASSERT_NO_FATAL_FAILURE(Set(&s, "timeline/drive[1].yaw_rate_deg_s", 45));
-  EXPECT_NEAR(s.drives[0].yaw_rate_rad_s, kPi / 4, 1e-15);
+  EXPECT_NEAR(s.drives[0].yaw_rate_rad_s, std::numbers::pi / 4, 1e-15);
   // Moving the first push after the second re-sorts them.
   ASSERT_NO_FATAL_FAILURE(Set(&s, "timeline/push[1].at_s", 5));
   EXPECT_EQ(s.pushes[0].start_s, 3);

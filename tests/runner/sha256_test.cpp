@@ -1,4 +1,4 @@
-#include "upright/runner/sha256.hpp"
+#include "upright/runner/common/sha256.hpp"
 
 #include <gtest/gtest.h>
 #include <unistd.h>

@@ -1,15 +1,15 @@
-#include "upright/runner/step_response.hpp"
+#include "upright/runner/metrics/step_response.hpp"
 
 #include <gtest/gtest.h>
 
 #include <cmath>
 #include <cstddef>
+#include <numbers>
 #include <vector>
 
 namespace upright::runner {
 namespace {
 
-constexpr double kPi = 3.14159265358979323846;
 constexpr double kDt = 0.001;  // 1 kHz sampling
 
 // Unit step response of the standard underdamped second-order system ωn² / (s² + 2ζωn s + ωn²):
@@ -28,14 +28,14 @@ struct SecondOrder {
   // |y − 1| on the decaying side of lobe k. y − 1 = −e^{−σt} sin(ωd t + φ) / √(1−ζ²) with
   // φ = acos ζ, so y' ∝ sin(ωd t): the extrema are at t_k = kπ/ωd, where |y − 1| = e^{−σ t_k},
   // and |y − 1| falls monotonically from t_k to the zero at ((k+1)π − φ)/ωd.
-  double PeakDeviation(int k) const { return std::exp(-sigma() * k * kPi / wd()); }
+  double PeakDeviation(int k) const { return std::exp(-sigma() * k * std::numbers::pi / wd()); }
   // The exact settling time into ±band: the last time |y − 1| = band, on the falling side of the
   // last lobe whose peak exceeds the band, found by bisection to 1e-13 s.
   double ExactSettlingTime(double band) const {
     int k = 0;
     while (PeakDeviation(k + 1) > band) ++k;
-    double lo = k * kPi / wd();
-    double hi = ((k + 1) * kPi - std::acos(zeta)) / wd();
+    double lo = k * std::numbers::pi / wd();
+    double hi = ((k + 1) * std::numbers::pi - std::acos(zeta)) / wd();
     while (hi - lo > 1e-13) {
       const double mid = 0.5 * (lo + hi);
       (std::abs(Y(mid) - 1) > band ? lo : hi) = mid;
@@ -57,12 +57,13 @@ TEST_P(SecondOrderStep, ReboundIsThePercentOvershoot) {
   // The step from 0 to 1 starts 1 from its final value: that is its peak excursion, and the
   // rebound past 1 after it is the overshoot, so R / P · 100 = Mp = 100 exp(−ζπ / √(1−ζ²)) %
   // (Ogata, Modern Control Engineering, §5-3).
-  const SecondOrder sys{GetParam(), 2 * kPi};
+  const SecondOrder sys{GetParam(), 2 * std::numbers::pi};
   const std::vector<double> y = sys.Sampled(10);
   const Rebound r = PeakAndRebound(y, kDt, 1);
   EXPECT_EQ(r.peak, 1);
   EXPECT_EQ(r.peak_time_s, 0);
-  const double expected = 100 * std::exp(-sys.zeta * kPi / std::sqrt(1 - sys.zeta * sys.zeta));
+  const double expected =
+      100 * std::exp(-sys.zeta * std::numbers::pi / std::sqrt(1 - sys.zeta * sys.zeta));
   // As for the overshoot above: the sampled maximum is low by at most ½ ωn² dt².
   const double tolerance_pct = 100 * 0.5 * sys.wn * sys.wn * kDt * kDt;
   EXPECT_LE(r.rebound_pct, expected + 1e-9);
@@ -70,7 +71,7 @@ TEST_P(SecondOrderStep, ReboundIsThePercentOvershoot) {
 }
 
 TEST_P(SecondOrderStep, SettlingTimeMatchesTheExactLastBandCrossing) {
-  const SecondOrder sys{GetParam(), 2 * kPi};
+  const SecondOrder sys{GetParam(), 2 * std::numbers::pi};
   const std::vector<double> y = sys.Sampled(10);
   const double band = 0.02;  // the 2 % criterion
   const double exact = sys.ExactSettlingTime(band);
@@ -93,7 +94,7 @@ INSTANTIATE_TEST_SUITE_P(Damping, SecondOrderStep, ::testing::Values(0.2, 0.5, 0
 class SecondOrderImpulse : public ::testing::TestWithParam<double> {};
 
 TEST_P(SecondOrderImpulse, ReboundRatioIsTheDecayBetweenOppositePeaks) {
-  const SecondOrder sys{GetParam(), 2 * kPi};
+  const SecondOrder sys{GetParam(), 2 * std::numbers::pi};
   const double a = sys.sigma(), w = sys.wd();
   std::vector<double> y;
   for (long i = 0; static_cast<double>(i) * kDt <= 10; ++i) {
@@ -105,7 +106,8 @@ TEST_P(SecondOrderImpulse, ReboundRatioIsTheDecayBetweenOppositePeaks) {
   // t₁ = atan(ωd/σ)/ωd, and half a period later the opposite peak, e^{−σπ/ωd} of it: the
   // logarithmic decrement, e^{−σπ/ωd} = exp(−ζπ/√(1−ζ²)), the step's Mp / 100 again.
   EXPECT_NEAR(r.peak_time_s, std::atan(w / a) / w, kDt);
-  const double expected = 100 * std::exp(-sys.zeta * kPi / std::sqrt(1 - sys.zeta * sys.zeta));
+  const double expected =
+      100 * std::exp(-sys.zeta * std::numbers::pi / std::sqrt(1 - sys.zeta * sys.zeta));
   // Each sampled peak is low by at most ½|y''| dt² with |y''| ≤ e^{−σt}(ωd + σ)² / ωd, relative
   // to a peak of e^{−σt} / √(σ² + ωd²); the ratio's relative error is at most twice that.
   const double peak_rel = 0.5 * (w + a) * (w + a) * kDt * kDt * std::sqrt(a * a + w * w) / w;

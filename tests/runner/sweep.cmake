@@ -1,8 +1,8 @@
-# Monte Carlo sweeps: <dispersions> in scenario files (every rule with its path:line message), the
-# statistics against published values, SciPy and NumPy, sampling that depends only on the seed and
-# the sample index, and small sweeps end to end, through the library and through `upright sweep`.
+# Monte Carlo sweeps: <dispersions> in scenario files (every rule with its path:line message),
+# sampling that depends only on the seed and the sample index, and small sweeps end to end, through
+# the library and through `upright sweep`.
 upright_test(upright_runner_sweep_test
-  SOURCES scenario_dispersions_test.cpp sweep_statistics_test.cpp sweep_sampling_test.cpp
+  SOURCES scenario_dispersions_test.cpp sweep_sampling_test.cpp
           sweep_run_test.cpp sweep_cli_test.cpp
   LIBS upright::runner)
 target_compile_definitions(upright_runner_sweep_test PRIVATE UPRIGHT_EXE="$<TARGET_FILE:upright>")

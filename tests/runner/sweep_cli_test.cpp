@@ -7,7 +7,7 @@
 #include <string>
 
 #include "run_test_support.hpp"
-#include "upright/runner/sweep_writer.hpp"
+#include "upright/runner/sweep/sweep_writer.hpp"
 
 namespace upright::runner {
 namespace {

@@ -9,9 +9,9 @@
 #include <vector>
 
 #include "run_test_support.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/sweep.hpp"
-#include "upright/runner/sweep_writer.hpp"
+#include "upright/runner/sweep/sweep.hpp"
+#include "upright/runner/sweep/sweep_writer.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
 
 namespace upright::runner {
 namespace {

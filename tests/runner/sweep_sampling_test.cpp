@@ -1,6 +1,6 @@
 // Sweep sampling: each draw set where the path says (robot fields on the robot as built only),
 // draws that follow their spread, rejected draws redrawn, and each dispersion on its own stream.
-#include "upright/runner/sweep_sampling.hpp"
+#include "upright/runner/sweep/sweep_sampling.hpp"
 
 #include <gtest/gtest.h>
 

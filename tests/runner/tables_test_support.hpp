@@ -15,8 +15,8 @@
 #include <utility>
 #include <vector>
 
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/results_writer.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 
 namespace upright::runner::testing {
 

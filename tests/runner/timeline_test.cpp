@@ -5,6 +5,7 @@
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 
 #include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
@@ -15,9 +16,9 @@ namespace {
 
 Scenario CourierScenario() {
   Scenario s;
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   EXPECT_TRUE(Succeeded(loaded));
-  s.model = loaded.value_or(RobotModel{});
+  s.model = loaded.value_or(model::RobotModel{});
   s.dt_s = 0.001;
   s.duration_s = 10;
   return s;
@@ -75,7 +76,7 @@ TEST(Timeline, CommandedPathIntegratesTheReference) {
   const double v = 0.5, r = 0.5, radius = v / r;
   turn.drives.push_back({0.0, 0.0, v, r});
   Timeline c(turn);
-  const long quarter = std::lround(kPi / (2 * r) / turn.dt_s);
+  const long quarter = std::lround(std::numbers::pi / (2 * r) / turn.dt_s);
   for (long k = 0; k < quarter; ++k) {
     c.Advance(k);
     c.Integrate(turn.dt_s);

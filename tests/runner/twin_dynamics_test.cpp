@@ -1,11 +1,12 @@
 // The twin's linear robot stepped by an exact zero-order hold: the open-loop fall from a tilt
 // against the inverted pendulum's cosh law, and a push's impulse against the momentum it must add.
-#include "upright/runner/twin_dynamics.hpp"
+#include "upright/runner/twin/twin_dynamics.hpp"
 
 #include <gtest/gtest.h>
 
 #include <Eigen/Eigenvalues>
 #include <cmath>
+#include <numbers>
 
 #include "succeeded.hpp"
 #include "upright/model/conventions.hpp"
@@ -16,10 +17,10 @@ namespace {
 
 using design::kPitch, design::kPitchRate, design::kX, design::kXDot;
 
-RobotModel Courier() {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+model::RobotModel Courier() {
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   EXPECT_TRUE(Succeeded(loaded));
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 // The unstable eigenvalue of A: its largest real part.
@@ -32,7 +33,7 @@ double UnstablePole(const design::StateMatrix& A) {
 }
 
 TEST(TwinDynamics, AnUncontrolledTiltGrowsAsCoshOfTheUnstablePole) {
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   const double dt_s = 0.001;
   const TwinDynamics twin(model, design::InputKind::kTorque, dt_s, {});
   const double lambda = UnstablePole(twin.linear().A);
@@ -59,9 +60,9 @@ TEST(TwinDynamics, AnUncontrolledTiltGrowsAsCoshOfTheUnstablePole) {
 // M_x ẋ + m_b L θ̇: the generalised momentum of the position coordinate. x is cyclic in the
 // robot's Lagrangian, so with no wheel torque it changes only by the pushes' impulse along x
 // (Lagrange's equations, d/dt ∂T/∂ẋ = Q_x; mechanics handbook, from memory).
-double Momentum(const RobotModel& model, const design::StateVector& x) {
+double Momentum(const model::RobotModel& model, const design::StateVector& x) {
   const design::LumpedBody body = design::LumpBody(model);
-  const WheelModel& w = model.wheel;
+  const model::WheelModel& w = model.wheel;
   const double mx =
       body.mass_kg + 2 * w.mass_kg + 2 * w.spin_inertia_kgm2 / (w.radius_m * w.radius_m);
   const double mbl = body.mass_kg * std::hypot(body.com_height_m, body.com_forward_m);
@@ -69,7 +70,7 @@ double Momentum(const RobotModel& model, const design::StateVector& x) {
 }
 
 TEST(TwinDynamics, APushAddsItsImpulseAlongXWhateverItsTimingAndHeight) {
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   sim::Push shove;
   shove.shape = sim::PushShape::kHalfSine;
   shove.start_s = 0.0123;  // between physics steps
@@ -82,7 +83,7 @@ TEST(TwinDynamics, APushAddsItsImpulseAlongXWhateverItsTimingAndHeight) {
   slanted.height_m = -0.05;    // below the axle
   const TwinDynamics twin(model, design::InputKind::kTorque, 0.001, {shove, slanted});
   // A half-sine of peak F over T delivers 2 F T / π (∫ sin).
-  const double impulse_Ns = 2 * 100 * 0.1 / kPi;
+  const double impulse_Ns = 2 * 100 * 0.1 / std::numbers::pi;
   design::StateVector x = design::StateVector::Zero();
   for (long step = 0; step < 150; ++step) twin.Step(step, Eigen::Vector2d::Zero(), &x);
   EXPECT_NEAR(Momentum(model, x), impulse_Ns, 1e-9 * impulse_Ns);
@@ -91,7 +92,7 @@ TEST(TwinDynamics, APushAddsItsImpulseAlongXWhateverItsTimingAndHeight) {
 }
 
 TEST(TwinDynamics, EachPushEntersThroughTheLinearModelAtItsOwnHeight) {
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   for (const auto input : {design::InputKind::kTorque, design::InputKind::kVoltage}) {
     sim::Push step_push;
     step_push.shape = sim::PushShape::kStep;

@@ -1,10 +1,11 @@
 // The gap between the twin and the plant: peaks, the bands and the first time past them, worked
 // by hand on short series; the events the linear model leaves out.
-#include "upright/runner/twin_gap.hpp"
+#include "upright/runner/twin/twin_gap.hpp"
 
 #include <gtest/gtest.h>
 
 #include <cmath>
+#include <numbers>
 
 #include "run_test_support.hpp"
 #include "upright/model/conventions.hpp"
@@ -12,7 +13,7 @@
 namespace upright::runner {
 namespace {
 
-constexpr double kRad = kPi / 180;
+constexpr double kRad = std::numbers::pi / 180;
 
 TiltDriftSeries Series(std::vector<double> tilt_deg, std::vector<double> drift_m) {
   TiltDriftSeries s;

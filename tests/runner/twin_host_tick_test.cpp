@@ -16,7 +16,7 @@ namespace {
 // Drives a plant from 2° with one host through the plant path while a second instance of the same
 // module, fed the plant's samples through the plant-free tick, must command the same bits.
 void ExpectSameCommands(const std::string& module_name, bool true_state) {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   ASSERT_TRUE(Succeeded(loaded));
   ControllerSpec spec;
   spec.module = runner::testing::BuiltinModule(module_name);

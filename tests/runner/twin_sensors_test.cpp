@@ -1,6 +1,6 @@
 // Ideal sensors on the linear robot: the signs of conventions.hpp, and agreement with the
 // sensor linearisation the estimators are designed with.
-#include "upright/runner/twin_sensors.hpp"
+#include "upright/runner/twin/twin_sensors.hpp"
 
 #include <gtest/gtest.h>
 
@@ -16,16 +16,16 @@ namespace {
 
 using design::kPitch, design::kPitchRate, design::kX, design::kXDot, design::kYaw, design::kYawRate;
 
-RobotModel Courier() {
-  const auto loaded = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+model::RobotModel Courier() {
+  const auto loaded = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   EXPECT_TRUE(Succeeded(loaded));
-  return loaded.value_or(RobotModel{});
+  return loaded.value_or(model::RobotModel{});
 }
 
 TEST(TwinSensors, ReadTheSignsOfTheConventions) {
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   const TwinSensorGeometry geometry = SensorGeometry(model, 0, 0);
-  const double g = kStandardGravity_m_s2;
+  const double g = model::kStandardGravity_m_s2;
   // Standing still, tilted forward by 0.1 rad: −g sin θ on x, g cos θ on z (conventions.hpp).
   design::StateVector x = design::StateVector::Zero();
   x(kPitch) = 0.1;
@@ -34,8 +34,8 @@ TEST(TwinSensors, ReadTheSignsOfTheConventions) {
   EXPECT_NEAR(tilted.accel_m_s2[0], -g * std::sin(0.1), 1e-12);
   EXPECT_NEAR(tilted.accel_m_s2[2], g * std::cos(0.1), 1e-12);
   // The chassis tilted forward in place: each wheel turned back by as much relative to it.
-  EXPECT_NEAR(tilted.encoder_angle_rad[kLeft], -0.1, 1e-15);
-  EXPECT_NEAR(tilted.encoder_angle_rad[kRight], -0.1, 1e-15);
+  EXPECT_NEAR(tilted.encoder_angle_rad[model::kLeft], -0.1, 1e-15);
+  EXPECT_NEAR(tilted.encoder_angle_rad[model::kRight], -0.1, 1e-15);
 
   // Rolling forward 0.16 m upright: both wheels +1 rad. Leaning forward: the gyro reads +y.
   // Turning left: the right wheel runs ahead, the gyro reads +z.
@@ -46,15 +46,15 @@ TEST(TwinSensors, ReadTheSignsOfTheConventions) {
   x(kYawRate) = 0.4;
   const sim::SensorSample moving = IdealSensors(geometry, 0, x, design::StateVector::Zero());
   const double turn = model.wheel.track_m / 2 * 0.2 / model.wheel.radius_m;
-  EXPECT_NEAR(moving.encoder_angle_rad[kLeft], 1 - turn, 1e-12);
-  EXPECT_NEAR(moving.encoder_angle_rad[kRight], 1 + turn, 1e-12);
+  EXPECT_NEAR(moving.encoder_angle_rad[model::kLeft], 1 - turn, 1e-12);
+  EXPECT_NEAR(moving.encoder_angle_rad[model::kRight], 1 + turn, 1e-12);
   EXPECT_EQ(moving.gyro_rad_s[1], 0.3);
   EXPECT_EQ(moving.gyro_rad_s[2], 0.4);
-  EXPECT_LT(moving.encoder_rate_rad_s[kLeft], moving.encoder_rate_rad_s[kRight]);
+  EXPECT_LT(moving.encoder_rate_rad_s[model::kLeft], moving.encoder_rate_rad_s[model::kRight]);
 }
 
 TEST(TwinSensors, AgreeWithTheSensorLinearisationTheEstimatorsUse) {
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   ASSERT_EQ(model.sensors.imu_y_m, 0);  // LineariseSensors' accelerometer row assumes it
   const design::LinearModel linear = design::Linearise(model, design::InputKind::kTorque);
   ASSERT_EQ(linear.equilibrium_pitch_rad, 0);
@@ -66,10 +66,12 @@ TEST(TwinSensors, AgreeWithTheSensorLinearisationTheEstimatorsUse) {
   const design::StateVector dx = linear.A * x + linear.B * u;
   const sim::SensorSample s = IdealSensors(geometry, 0, x, dx);
   const Eigen::VectorXd y = lin.C * x + lin.D * u;
-  const double g = kStandardGravity_m_s2;
-  EXPECT_NEAR((s.encoder_angle_rad[kLeft] + s.encoder_angle_rad[kRight]) / 2, y(0), 1e-12);
+  const double g = model::kStandardGravity_m_s2;
+  EXPECT_NEAR((s.encoder_angle_rad[model::kLeft] + s.encoder_angle_rad[model::kRight]) / 2, y(0),
+              1e-12);
   EXPECT_NEAR(s.gyro_rad_s[1], y(1), 1e-15);
-  EXPECT_NEAR(model.wheel.radius_m * (s.encoder_angle_rad[kRight] - s.encoder_angle_rad[kLeft]) /
+  EXPECT_NEAR(model.wheel.radius_m *
+                  (s.encoder_angle_rad[model::kRight] - s.encoder_angle_rad[model::kLeft]) /
                   model.wheel.track_m,
               y(2), 1e-12);
   EXPECT_NEAR(s.gyro_rad_s[2], y(3), 1e-15);
@@ -77,19 +79,19 @@ TEST(TwinSensors, AgreeWithTheSensorLinearisationTheEstimatorsUse) {
 }
 
 TEST(TwinSensors, EncodersReadZeroAtTheStartOfATiltedRun) {
-  const RobotModel model = Courier();
+  const model::RobotModel model = Courier();
   const TwinSensorGeometry geometry = SensorGeometry(model, 0, 0.05);
   design::StateVector x = design::StateVector::Zero();
   x(kPitch) = 0.05;
   const sim::SensorSample start = IdealSensors(geometry, 0, x, design::StateVector::Zero());
-  EXPECT_EQ(start.encoder_angle_rad[kLeft], 0);
-  EXPECT_EQ(start.encoder_angle_rad[kRight], 0);
+  EXPECT_EQ(start.encoder_angle_rad[model::kLeft], 0);
+  EXPECT_EQ(start.encoder_angle_rad[model::kRight], 0);
   // Rolling r·0.1 forward while straightening to upright: 0.1 rad of roll plus 0.05 rad of the
   // chassis turning back relative to the wheels.
   x(kPitch) = 0;
   x(kX) = 0.1 * model.wheel.radius_m;
   const sim::SensorSample later = IdealSensors(geometry, 1, x, design::StateVector::Zero());
-  EXPECT_NEAR(later.encoder_angle_rad[kLeft], 0.15, 1e-12);
+  EXPECT_NEAR(later.encoder_angle_rad[model::kLeft], 0.15, 1e-12);
 }
 
 }  // namespace

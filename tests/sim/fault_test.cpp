@@ -6,6 +6,7 @@
 #include <cmath>
 #include <limits>
 #include <memory>
+#include <numbers>
 #include <string>
 #include <utility>
 #include <vector>
@@ -27,7 +28,7 @@ using testing::Unpowered;
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr double kNan = std::numeric_limits<double>::quiet_NaN();
-constexpr double kG = kStandardGravity_m_s2;
+constexpr double kG = model::kStandardGravity_m_s2;
 
 // The test motor (test_robot.hpp): n η K_t = 10 × 0.8 × 0.05 = 0.4 N·m/A, R = 2.5 Ω, K_e n =
 // 0.5 V·s/rad, current limit 4 A, b = 0.02 N·m·s/rad, c = 0.01 N·m; wheel spin inertia 0.01 kg·m².
@@ -62,7 +63,7 @@ PlantOptions OnTheStand() {
 }
 
 // Friction of the test motor at wheel speed ω, as motor.hpp writes it: b ω + c sat(ω / band).
-double Friction(const MotorModel& m, double rel_speed_rad_s, double band_rad_s) {
+double Friction(const model::MotorModel& m, double rel_speed_rad_s, double band_rad_s) {
   return m.viscous_friction_Nm_s_per_rad * rel_speed_rad_s +
          m.coulomb_friction_Nm * std::clamp(rel_speed_rad_s / band_rad_s, -1.0, 1.0);
 }
@@ -148,7 +149,7 @@ TEST(Fault, PlantRefusesAnInvalidFaultWithItsMessageAndIgnoresIt) {
   // Neither was stored: the motor delivers its healthy stall current V / R = 2.4 A.
   plant->SetCommand(6, 6);
   plant->Step();
-  EXPECT_NEAR(plant->motors()[kLeft].current_A, 2.4, 1e-12);
+  EXPECT_NEAR(plant->motors()[model::kLeft].current_A, 2.4, 1e-12);
 }
 
 TEST(Fault, NamesRoundTripAndUnknownNamesAreRefused) {
@@ -231,8 +232,8 @@ std::vector<long> DeadSteps(double start_s, double dt_s) {
     EXPECT_EQ(plant->step_count(), k);
     plant->Step();
     // Healthy at 6 V the current is (6 − 0.5 ω) / 2.5 > 1 A for ω < 7 rad/s, well within 30 ms.
-    if (plant->motors()[kLeft].current_A == 0) dead.push_back(k);
-    EXPECT_GT(plant->motors()[kRight].current_A, 1.0);
+    if (plant->motors()[model::kLeft].current_A == 0) dead.push_back(k);
+    EXPECT_GT(plant->motors()[model::kRight].current_A, 1.0);
   }
   return dead;
 }
@@ -253,7 +254,7 @@ TEST(Fault, MotorFaultActsFromTheStepThatBeginsAtOrAfterItsStart) {
 // --- A dead motor ---
 
 TEST(Fault, DeadMotorDrawsNoCurrentAndDeliversOnlyFriction) {
-  const MotorModel m = MakeTestRobot().motor;
+  const model::MotorModel m = MakeTestRobot().motor;
   const double band = 1e-3;
   for (double speed : {5.0, -3.0, 0.0005, 0.0}) {
     for (DriveMode mode : {DriveMode::kVoltage, DriveMode::kTorque}) {
@@ -280,8 +281,8 @@ TEST(Fault, DeadMotorDrawsNoCurrentAndDeliversOnlyFriction) {
 }
 
 TEST(Fault, DeadMotorOnTheStandCoastsDownUnderFrictionAlone) {
-  const RobotModel model = MakeTestRobot();
-  const MotorModel& m = model.motor;
+  const model::RobotModel model = MakeTestRobot();
+  const model::MotorModel& m = model.motor;
   const double inertia = model.wheel.spin_inertia_kgm2, dt = 0.001;
   const double band = MotorCoulombBand(m, inertia, dt);
   auto plant = MakePlant(model, OnTheStand());
@@ -289,32 +290,32 @@ TEST(Fault, DeadMotorOnTheStandCoastsDownUnderFrictionAlone) {
   ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0.5, MotorSide::kLeft, 0))));
   plant->SetCommand(6, 6);
   for (int k = 0; k < 500; ++k) plant->Step();
-  const double omega0 = plant->truth().wheel_rate_rad_s[kLeft];
+  const double omega0 = plant->truth().wheel_rate_rad_s[model::kLeft];
   EXPECT_GT(omega0, 9);  // spun up: 9.5 (1 − e^−5) = 9.44 rad/s (motor_test.cpp)
   for (int k = 0; k < 500; ++k) {
-    const double before = plant->truth().wheel_rate_rad_s[kLeft];
+    const double before = plant->truth().wheel_rate_rad_s[model::kLeft];
     plant->Step();
-    const MotorOutput& left = plant->motors()[kLeft];
+    const MotorOutput& left = plant->motors()[model::kLeft];
     ASSERT_EQ(left.current_A, 0) << "step " << k;
     ASSERT_EQ(left.power_W(), 0) << "step " << k;
     // The readout is the torque applied over the step, at the speed it began with.
     ASSERT_NEAR(left.wheel_torque_Nm, -Friction(m, before, band), 1e-12) << "step " << k;
-    ASSERT_GT(plant->motors()[kRight].current_A, 0) << "step " << k;
+    ASSERT_GT(plant->motors()[model::kRight].current_A, 0) << "step " << k;
   }
   // I ω' = −b ω − c: ω(t) = (ω0 + c/b) e^(−b t / I) − c/b (first-order ODE); 0.5 s is one time
   // constant I / b. The explicit step's error is about dt / 2τ = 0.1 %; allow 1 %.
   const double cb = m.coulomb_friction_Nm / m.viscous_friction_Nm_s_per_rad;
   const double expected =
       (omega0 + cb) * std::exp(-m.viscous_friction_Nm_s_per_rad * 0.5 / inertia) - cb;
-  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[kLeft], expected, 0.01 * expected);
+  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[model::kLeft], expected, 0.01 * expected);
   // The healthy right wheel kept its speed.
-  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[kRight], 9.5, 0.005 * 9.5);
+  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[model::kRight], 9.5, 0.005 * 9.5);
 }
 
 // --- A derated motor ---
 
 TEST(Fault, HalfDeratedMotorGivesHalfTheStallTorqueAtTheHealthyCurrent) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   const double inertia = model.wheel.spin_inertia_kgm2, dt = 0.001;
   for (double volts : {6.0, 12.0}) {
     auto plant = MakePlant(model, OnTheStand());
@@ -325,8 +326,8 @@ TEST(Fault, HalfDeratedMotorGivesHalfTheStallTorqueAtTheHealthyCurrent) {
     // At stall i = V / R: 2.4 A at 6 V; 4.8 A at 12 V, cut to the 4 A limit (the drive lowering
     // its voltage to R i = 10 V). The derated left motor draws the same current as the right.
     const double current = std::min(volts / 2.5, 4.0);
-    const MotorOutput& left = plant->motors()[kLeft];
-    const MotorOutput& right = plant->motors()[kRight];
+    const MotorOutput& left = plant->motors()[model::kLeft];
+    const MotorOutput& right = plant->motors()[model::kRight];
     EXPECT_NEAR(left.current_A, current, 1e-12) << volts << " V";
     EXPECT_NEAR(right.current_A, current, 1e-12) << volts << " V";
     EXPECT_NEAR(left.voltage_V, std::min(volts, 10.0), 1e-12) << volts << " V";
@@ -337,15 +338,15 @@ TEST(Fault, HalfDeratedMotorGivesHalfTheStallTorqueAtTheHealthyCurrent) {
     EXPECT_NEAR(right.wheel_torque_Nm, kTorquePerAmp * current, 1e-12) << volts << " V";
     // And the wheels accelerate at τ / I (Newton's second law for rotation), 1 % as in
     // motor_test.cpp.
-    const double left_accel = plant->truth().wheel_rate_rad_s[kLeft] / dt;
-    const double right_accel = plant->truth().wheel_rate_rad_s[kRight] / dt;
+    const double left_accel = plant->truth().wheel_rate_rad_s[model::kLeft] / dt;
+    const double right_accel = plant->truth().wheel_rate_rad_s[model::kRight] / dt;
     EXPECT_NEAR(left_accel, 0.5 * kTorquePerAmp * current / inertia, 0.01 * left_accel);
     EXPECT_NEAR(right_accel, kTorquePerAmp * current / inertia, 0.01 * right_accel);
   }
 }
 
 TEST(Fault, HalfDeratedTorqueDriveDeliversHalfItsCommand) {
-  const MotorModel m = MakeTestRobot().motor;
+  const model::MotorModel m = MakeTestRobot().motor;
   // 0.5 N·m asked at stall: the drive sets i = 0.5 / 0.4 = 1.25 A as for a healthy motor.
   const MotorOutput out = EvaluateMotor(m, DriveMode::kTorque, 0.5, 0, 1e-3, 0.5);
   EXPECT_NEAR(out.current_A, 1.25, 1e-12);
@@ -354,7 +355,7 @@ TEST(Fault, HalfDeratedTorqueDriveDeliversHalfItsCommand) {
 }
 
 TEST(Fault, HalfDeratedWheelOnTheStandSettlesAtTheDeratedSteadyStateSpeed) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   auto plant = MakePlant(model, OnTheStand());
   ASSERT_NE(plant, nullptr);
   ASSERT_TRUE(Succeeded(plant->AddMotorFault(MakeMotorFault(0, MotorSide::kRight, 0.5))));
@@ -363,12 +364,12 @@ TEST(Fault, HalfDeratedWheelOnTheStandSettlesAtTheDeratedSteadyStateSpeed) {
   // I ω' = s n η K_t (V − K_e n ω) / R − b ω − c = 0 (motor equations above) gives
   // ω = (s 0.16 V − c) / (s 0.08 + b) = (0.48 − 0.01) / 0.06 = 7.833 rad/s, reached with time
   // constant I / 0.06 = 0.167 s, 9 of them in 1.5 s; the healthy left wheel: 9.5 rad/s.
-  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[kRight], 0.47 / 0.06, 0.005 * 0.47 / 0.06);
-  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[kLeft], 9.5, 0.005 * 9.5);
+  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[model::kRight], 0.47 / 0.06, 0.005 * 0.47 / 0.06);
+  EXPECT_NEAR(plant->truth().wheel_rate_rad_s[model::kLeft], 9.5, 0.005 * 9.5);
 }
 
 TEST(Fault, LatestStartedMotorFaultActsAndBothMeansBothMotors) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   const double band = MotorCoulombBand(model.motor, model.wheel.spin_inertia_kgm2, 0.001);
   auto plant = MakePlant(model, OnTheStand());
   ASSERT_NE(plant, nullptr);
@@ -383,7 +384,7 @@ TEST(Fault, LatestStartedMotorFaultActsAndBothMeansBothMotors) {
     const double left_scale = k < 10 ? 1.0 : k < 15 ? 0.0 : k < 20 ? 0.5 : 1.0;
     const double right_scale = k < 10 ? 1.0 : 0.0;
     const double scales[2] = {left_scale, right_scale};
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       const MotorOutput expected = EvaluateMotor(model.motor, DriveMode::kVoltage, 6,
                                                  before.wheel_rate_rad_s[side], band, scales[side]);
       ASSERT_EQ(plant->motors()[side].current_A, expected.current_A) << "step " << k;
@@ -401,7 +402,7 @@ struct Twin {
   std::vector<TrueState> truth;
 };
 
-Twin RunTwin(const RobotModel& model, const PlantOptions& options,
+Twin RunTwin(const model::RobotModel& model, const PlantOptions& options,
              const std::vector<SensorFault>& faults, int steps, double left_V = 0,
              double right_V = 0) {
   Twin twin;
@@ -428,7 +429,7 @@ Twin RunTwin(const RobotModel& model, const PlantOptions& options,
 }
 
 TEST(Fault, GyroBiasStepJumpsByTheBiasAtTheFirstSampleOfAStateAfterItsStart) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.imu_rate_hz = 500;  // a sample every 2 steps
   model.sensors.latency_s = 0.003;  // seen 3 steps later
   PlantOptions options = Unpowered();
@@ -450,7 +451,7 @@ TEST(Fault, GyroBiasStepJumpsByTheBiasAtTheFirstSampleOfAStateAfterItsStart) {
 }
 
 TEST(Fault, QuantisedGyroBiasIsWithinOneResolutionStepOfTheBias) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.gyro_resolution_rad_s = 0.01;
   PlantOptions options = Unpowered();
   options.initial.pitch_rad = 0.05;
@@ -497,7 +498,7 @@ TEST(Fault, AccelDropoutReadsZeroForItsDurationThenRecovers) {
 }
 
 TEST(Fault, DropoutLeavesTheNoiseOfEveryOtherSampleUntouched) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.gyro_noise_rad_s_rthz = 0.01;
   model.sensors.accel_noise_m_s2_rthz = 0.02;
   PlantOptions options = OnTheStand();
@@ -517,7 +518,7 @@ TEST(Fault, DropoutLeavesTheNoiseOfEveryOtherSampleUntouched) {
 }
 
 TEST(Fault, StuckGyroHoldsItsLastSampleBeforeTheFaultThenRecovers) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.imu_rate_hz = 250;  // a sample every 4 steps: k = 0, 4, …, 100, 104, …
   PlantOptions options = Unpowered();
   options.initial.pitch_rad = 0.05;
@@ -535,79 +536,87 @@ TEST(Fault, StuckGyroHoldsItsLastSampleBeforeTheFaultThenRecovers) {
 }
 
 TEST(Fault, StuckEncoderHoldsItsAngleAndReadsZeroRate) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.latency_s = 0.002;  // 2 steps; control period 10 steps
   // From 0.1 s: states after >= 100 steps; the last reading before is the state after 99 steps,
   // which the controller sees at k = 101.
   const auto fault =
       MakeSensorFault(0.1, kInf, SensorChannel::kEncoderLeft, SensorFaultKind::kStuck);
   const Twin twin = RunTwin(model, OnTheStand(), {fault}, 300, 6, -6);
-  const double held = twin.healthy[101].encoder_angle_rad[kLeft];
+  const double held = twin.healthy[101].encoder_angle_rad[model::kLeft];
   EXPECT_GT(held, 0.3);  // the wheel had turned
   for (size_t k = 0; k < twin.faulted.size(); ++k) {
     const SensorSample& f = twin.faulted[k];
     const SensorSample& h = twin.healthy[k];
-    ASSERT_EQ(f.encoder_angle_rad[kRight], h.encoder_angle_rad[kRight]) << "step " << k;
-    ASSERT_EQ(f.encoder_rate_rad_s[kRight], h.encoder_rate_rad_s[kRight]) << "step " << k;
+    ASSERT_EQ(f.encoder_angle_rad[model::kRight], h.encoder_angle_rad[model::kRight])
+        << "step " << k;
+    ASSERT_EQ(f.encoder_rate_rad_s[model::kRight], h.encoder_rate_rad_s[model::kRight])
+        << "step " << k;
     if (k <= 101) {
-      ASSERT_EQ(f.encoder_angle_rad[kLeft], h.encoder_angle_rad[kLeft]) << "step " << k;
-      ASSERT_EQ(f.encoder_rate_rad_s[kLeft], h.encoder_rate_rad_s[kLeft]) << "step " << k;
+      ASSERT_EQ(f.encoder_angle_rad[model::kLeft], h.encoder_angle_rad[model::kLeft])
+          << "step " << k;
+      ASSERT_EQ(f.encoder_rate_rad_s[model::kLeft], h.encoder_rate_rad_s[model::kLeft])
+          << "step " << k;
       continue;
     }
-    ASSERT_EQ(f.encoder_angle_rad[kLeft], held) << "step " << k;
+    ASSERT_EQ(f.encoder_angle_rad[model::kLeft], held) << "step " << k;
     if (k >= 112) {
       // A whole control period inside the fault: no change of angle, rate 0.
-      ASSERT_EQ(f.encoder_rate_rad_s[kLeft], 0) << "step " << k;
+      ASSERT_EQ(f.encoder_rate_rad_s[model::kLeft], 0) << "step " << k;
     } else {
       // The rate follows the faulted angle: from the healthy one 10 steps back to the held one.
-      const double before = twin.healthy[k - 10].encoder_angle_rad[kLeft];
-      ASSERT_NEAR(f.encoder_rate_rad_s[kLeft], (held - before) / 0.01, 1e-9) << "step " << k;
+      const double before = twin.healthy[k - 10].encoder_angle_rad[model::kLeft];
+      ASSERT_NEAR(f.encoder_rate_rad_s[model::kLeft], (held - before) / 0.01, 1e-9) << "step " << k;
     }
   }
-  EXPECT_GT(twin.healthy.back().encoder_rate_rad_s[kLeft], 5);  // the healthy one keeps turning
+  EXPECT_GT(twin.healthy.back().encoder_rate_rad_s[model::kLeft],
+            5);  // the healthy one keeps turning
 }
 
 TEST(Fault, EncoderBiasShiftsTheAngleByTheBiasWithinOneCount) {
-  RobotModel model = MakeTestRobot();
-  const double count = 2 * kPi / model.sensors.encoder_counts_per_rev;
+  model::RobotModel model = MakeTestRobot();
+  const double count = 2 * std::numbers::pi / model.sensors.encoder_counts_per_rev;
   const auto fault =
       MakeSensorFault(0.05, kInf, SensorChannel::kEncoderRight, SensorFaultKind::kBias, 0.5);
   const Twin twin = RunTwin(model, OnTheStand(), {fault}, 200, 6, 6);
   for (size_t k = 0; k < twin.faulted.size(); ++k) {
     const SensorSample& f = twin.faulted[k];
     const SensorSample& h = twin.healthy[k];
-    const double shift = f.encoder_angle_rad[kRight] - h.encoder_angle_rad[kRight];
+    const double shift = f.encoder_angle_rad[model::kRight] - h.encoder_angle_rad[model::kRight];
     if (k < 50) {
       ASSERT_EQ(shift, 0) << "step " << k;
       continue;
     }
     // Added before flooring to whole counts: a whole number of counts within one count of it.
     ASSERT_NEAR(shift, 0.5, count) << "step " << k;
-    ASSERT_NEAR(f.encoder_angle_rad[kRight] / count,
-                std::round(f.encoder_angle_rad[kRight] / count), 1e-6);
+    ASSERT_NEAR(f.encoder_angle_rad[model::kRight] / count,
+                std::round(f.encoder_angle_rad[model::kRight] / count), 1e-6);
     // Once both ends of the rate's period are biased the bias cancels, within one count.
     if (k >= 60) {
-      ASSERT_NEAR(f.encoder_rate_rad_s[kRight], h.encoder_rate_rad_s[kRight], count / 0.01 + 1e-9);
+      ASSERT_NEAR(f.encoder_rate_rad_s[model::kRight], h.encoder_rate_rad_s[model::kRight],
+                  count / 0.01 + 1e-9);
     }
-    ASSERT_EQ(f.encoder_angle_rad[kLeft], h.encoder_angle_rad[kLeft]);
+    ASSERT_EQ(f.encoder_angle_rad[model::kLeft], h.encoder_angle_rad[model::kLeft]);
   }
 }
 
 TEST(Fault, EncoderDropoutReadsZeroAndItsRateFollows) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   const auto fault =
       MakeSensorFault(0.05, 0.03, SensorChannel::kEncoderLeft, SensorFaultKind::kDropout);
   const Twin twin = RunTwin(model, OnTheStand(), {fault}, 200, 6, 6);
   for (size_t k = 40; k < twin.faulted.size(); ++k) {
     const SensorSample& f = twin.faulted[k];
     const bool now_out = k >= 50 && k < 80, before_out = k - 10 >= 50 && k - 10 < 80;
-    const double angle_now = now_out ? 0.0 : twin.healthy[k].encoder_angle_rad[kLeft];
-    const double angle_before = before_out ? 0.0 : twin.healthy[k - 10].encoder_angle_rad[kLeft];
-    ASSERT_EQ(f.encoder_angle_rad[kLeft], angle_now) << "step " << k;
-    ASSERT_NEAR(f.encoder_rate_rad_s[kLeft], (angle_now - angle_before) / 0.01, 1e-9)
+    const double angle_now = now_out ? 0.0 : twin.healthy[k].encoder_angle_rad[model::kLeft];
+    const double angle_before =
+        before_out ? 0.0 : twin.healthy[k - 10].encoder_angle_rad[model::kLeft];
+    ASSERT_EQ(f.encoder_angle_rad[model::kLeft], angle_now) << "step " << k;
+    ASSERT_NEAR(f.encoder_rate_rad_s[model::kLeft], (angle_now - angle_before) / 0.01, 1e-9)
         << "step " << k;
   }
-  EXPECT_EQ(twin.faulted[90].encoder_rate_rad_s[kLeft], twin.healthy[90].encoder_rate_rad_s[kLeft]);
+  EXPECT_EQ(twin.faulted[90].encoder_rate_rad_s[model::kLeft],
+            twin.healthy[90].encoder_rate_rad_s[model::kLeft]);
 }
 
 TEST(Fault, LatestStartedSensorFaultActsOnAChannel) {

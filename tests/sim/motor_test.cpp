@@ -26,12 +26,12 @@ using testing::MakeTestRobot;
 // b = 0.02 N·m·s/rad, c = 0.01 N·m; so n η K_t = 0.4 N·m/A.
 constexpr double kBand = 1e-3;  // Coulomb smoothing band for the unit evaluations, rad/s
 
-double TorquePerAmp(const MotorModel& m) {
+double TorquePerAmp(const model::MotorModel& m) {
   return m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A;
 }
 
 TEST(Motor, StallTorqueBelowTheCurrentLimitIsNEtaKtVOverR) {
-  const MotorModel m = MakeTestRobot().motor;
+  const model::MotorModel m = MakeTestRobot().motor;
   const MotorOutput out = EvaluateMotor(m, DriveMode::kVoltage, 6.0, 0.0, kBand);
   // i = V / R = 2.4 A < 4 A; τ = n η K_t V / R = 0.96 N·m.
   EXPECT_NEAR(out.current_A, 6.0 / m.resistance_ohm, 1e-12);
@@ -44,7 +44,7 @@ TEST(Motor, StallTorqueBelowTheCurrentLimitIsNEtaKtVOverR) {
 }
 
 TEST(Motor, CurrentLimitCapsTheStallTorque) {
-  const MotorModel m = MakeTestRobot().motor;
+  const model::MotorModel m = MakeTestRobot().motor;
   const MotorOutput out = EvaluateMotor(m, DriveMode::kVoltage, 12.0, 0.0, kBand);
   // V / R = 4.8 A exceeds the 4 A limit: τ = n η K_t I_max = 1.6 N·m, and the drive lowers the
   // terminal voltage to R I_max = 10 V.
@@ -57,7 +57,7 @@ TEST(Motor, CurrentLimitCapsTheStallTorque) {
 }
 
 TEST(Motor, CurrentLimitHoldsWhenDrivingAgainstTheRotation) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   // Back-EMF at −10 rad/s is −5 V, so 12 V would drive (12 + 5) / 2.5 = 6.8 A: capped at 4 A.
   const MotorOutput out = EvaluateMotor(m, DriveMode::kVoltage, 12.0, -10.0, kBand);
   EXPECT_TRUE(out.current_saturated);
@@ -66,7 +66,7 @@ TEST(Motor, CurrentLimitHoldsWhenDrivingAgainstTheRotation) {
 }
 
 TEST(Motor, NoLoadSpeedIsVOverNKeWithZeroCurrent) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   const double no_load = 6.0 / (m.gear_ratio * m.back_emf_V_s_per_rad);  // 12 rad/s
   const MotorOutput out = EvaluateMotor(m, DriveMode::kVoltage, 6.0, no_load, kBand);
   EXPECT_NEAR(out.current_A, 0.0, 1e-12);
@@ -77,7 +77,7 @@ TEST(Motor, NoLoadSpeedIsVOverNKeWithZeroCurrent) {
 }
 
 TEST(Motor, VoltageCommandIsClippedToTheSupply) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   // −20 V asked, −12 V applied; at −24 rad/s the back-EMF is −12 V, so no current flows.
   const MotorOutput out = EvaluateMotor(m, DriveMode::kVoltage, -20.0, -24.0, kBand);
   EXPECT_TRUE(out.voltage_saturated);
@@ -87,7 +87,7 @@ TEST(Motor, VoltageCommandIsClippedToTheSupply) {
 }
 
 TEST(Motor, TorqueModeGivesTheCommandedTorqueBelowTheLimits) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   const MotorOutput out = EvaluateMotor(m, DriveMode::kTorque, 0.5, 5.0, kBand);
   // i = τ / (n η K_t) = 1.25 A; V = R i + K_e n ω = 3.125 + 2.5 = 5.625 V < 12 V.
   EXPECT_NEAR(out.wheel_torque_Nm, 0.5, 1e-12);
@@ -99,7 +99,7 @@ TEST(Motor, TorqueModeGivesTheCommandedTorqueBelowTheLimits) {
 }
 
 TEST(Motor, TorqueModeIsCappedByTheCurrentLimit) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   // 2 N·m needs 5 A: capped at 4 A → 1.6 N·m.
   const MotorOutput out = EvaluateMotor(m, DriveMode::kTorque, 2.0, 0.0, kBand);
   EXPECT_TRUE(out.current_saturated);
@@ -109,7 +109,7 @@ TEST(Motor, TorqueModeIsCappedByTheCurrentLimit) {
 }
 
 TEST(Motor, TorqueModeSaturatesAgainstTheSupplyAtSpeed) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   // 1 N·m needs 2.5 A, i.e. 6.25 + 10 = 16.25 V at 20 rad/s: more than 12 V. With 12 V applied,
   // i = (12 − 10) / 2.5 = 0.8 A → τ = 0.32 N·m.
   const MotorOutput out = EvaluateMotor(m, DriveMode::kTorque, 1.0, 20.0, kBand);
@@ -126,7 +126,7 @@ TEST(Motor, TorqueModeSaturatesAgainstTheSupplyAtSpeed) {
 // the stall torque or the supply, and that command must count. "At the limit" is within
 // kLimitTolerance (1e-6) of it; a command 2e-6 below is not.
 TEST(Motor, ATorqueCommandAtTheStallTorqueSaturatesTheCurrent) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   // The stall torque at the wheel, n η K_t min(V / R, I_max) = 0.4 × min(4.8, 4) = 1.6 N·m.
   const double stall_Nm =
       TorquePerAmp(m) * std::min(m.supply_V / m.resistance_ohm, m.current_limit_A);
@@ -146,7 +146,7 @@ TEST(Motor, ATorqueCommandAtTheStallTorqueSaturatesTheCurrent) {
 }
 
 TEST(Motor, ATorqueCommandNeedingExactlyTheSupplySaturatesTheVoltage) {
-  MotorModel m = MakeFrictionlessTestRobot().motor;
+  model::MotorModel m = MakeFrictionlessTestRobot().motor;
   m.current_limit_A = 10;  // the supply binds: V / R = 4.8 A
   // Stall torque 0.4 × 4.8 = 1.92 N·m; at rest the drive needs R i = 12 V, all of the supply.
   const double stall_Nm = TorquePerAmp(m) * m.supply_V / m.resistance_ohm;
@@ -163,7 +163,7 @@ TEST(Motor, ATorqueCommandNeedingExactlyTheSupplySaturatesTheVoltage) {
 }
 
 TEST(Motor, AVoltageCommandAtTheSupplySaturates) {
-  const MotorModel m = MakeFrictionlessTestRobot().motor;
+  const model::MotorModel m = MakeFrictionlessTestRobot().motor;
   // At 10 rad/s the back-EMF is 5 V, so the full 12 V drives (12 − 5) / 2.5 = 2.8 A: the supply
   // is the only limit reached.
   for (double sign : {1.0, -1.0}) {
@@ -180,7 +180,7 @@ TEST(Motor, AVoltageCommandAtTheSupplySaturates) {
 }
 
 TEST(Motor, ViscousAndCoulombFrictionOpposeTheRotation) {
-  const MotorModel m = MakeTestRobot().motor;  // b = 0.02 N·m·s/rad, c = 0.01 N·m
+  const model::MotorModel m = MakeTestRobot().motor;  // b = 0.02 N·m·s/rad, c = 0.01 N·m
   // Zero torque command: no current, so only friction acts: −b ω − c sign(ω).
   EXPECT_NEAR(EvaluateMotor(m, DriveMode::kTorque, 0.0, 5.0, kBand).wheel_torque_Nm,
               -0.02 * 5 - 0.01, 1e-12);
@@ -194,7 +194,7 @@ TEST(Motor, ViscousAndCoulombFrictionOpposeTheRotation) {
 }
 
 TEST(Motor, CoulombFrictionRampsLinearlyInsideItsBand) {
-  const MotorModel m = MakeTestRobot().motor;
+  const model::MotorModel m = MakeTestRobot().motor;
   const double band = 0.01;
   // Half-way into the band: half the Coulomb torque, plus viscous.
   EXPECT_NEAR(EvaluateMotor(m, DriveMode::kTorque, 0.0, 0.005, band).wheel_torque_Nm,
@@ -206,7 +206,7 @@ TEST(Motor, CoulombFrictionRampsLinearlyInsideItsBand) {
 TEST(Motor, CoulombBandIsNarrowYetStableForTheExplicitStep) {
   const double inertia = 0.01, dt = 0.001;
   for (double c : {0.0, 0.001, 0.01, 0.5, 5.0}) {
-    MotorModel m = MakeTestRobot().motor;
+    model::MotorModel m = MakeTestRobot().motor;
     m.coulomb_friction_Nm = c;
     const double band = MotorCoulombBand(m, inertia, dt);
     EXPECT_GE(band, 1e-3) << "c = " << c;  // header contract: at least 1e-3 rad/s
@@ -214,7 +214,7 @@ TEST(Motor, CoulombBandIsNarrowYetStableForTheExplicitStep) {
     // is stable for k dt / I < 2 (numerical-methods handbook, from memory); ask for ≤ 0.5.
     EXPECT_LE(c / band * dt / inertia, 0.5 + 1e-12) << "c = " << c;
   }
-  MotorModel m = MakeTestRobot().motor;
+  model::MotorModel m = MakeTestRobot().motor;
   m.coulomb_friction_Nm = 0;
   EXPECT_EQ(MotorCoulombBand(m, inertia, dt), 1e-3);
 }
@@ -234,7 +234,8 @@ TEST(Motor, DriveModeNamesRoundTrip) {
 
 // Left-wheel speeds relative to the chassis after each step (index 0 = the initial state) for
 // a constant voltage on both motors.
-std::vector<double> SpinUp(const RobotModel& model, double volts, double dt_s, double duration_s) {
+std::vector<double> SpinUp(const model::RobotModel& model, double volts, double dt_s,
+                           double duration_s) {
   PlantOptions options;
   options.dt_s = dt_s;
   options.fixed_chassis = true;
@@ -259,8 +260,8 @@ struct FirstOrder {
   double tau_s;
 };
 
-FirstOrder ExpectedSpinUp(const RobotModel& model, double volts) {
-  const MotorModel& m = model.motor;
+FirstOrder ExpectedSpinUp(const model::RobotModel& model, double volts) {
+  const model::MotorModel& m = model.motor;
   const double k_drive = m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A;
   const double damping = k_drive * m.gear_ratio * m.back_emf_V_s_per_rad / m.resistance_ohm +
                          m.viscous_friction_Nm_s_per_rad;
@@ -269,7 +270,7 @@ FirstOrder ExpectedSpinUp(const RobotModel& model, double volts) {
 }
 
 TEST(Motor, WheelOnTheStandReachesTheSteadyStateSpeed) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   const FirstOrder expected = ExpectedSpinUp(model, 6.0);  // 9.5 rad/s, τ = 0.1 s
   ASSERT_NEAR(expected.final_rad_s, 9.5, 1e-9);
   const auto speeds = SpinUp(model, 6.0, 0.001, 1.5);  // 15 τ: within 3e-7 of the end
@@ -278,7 +279,7 @@ TEST(Motor, WheelOnTheStandReachesTheSteadyStateSpeed) {
 }
 
 TEST(Motor, FrictionlessWheelOnTheStandReachesTheNoLoadSpeed) {
-  const RobotModel model = MakeFrictionlessTestRobot();
+  const model::RobotModel model = MakeFrictionlessTestRobot();
   const double no_load = 6.0 / (model.motor.gear_ratio * model.motor.back_emf_V_s_per_rad);
   // τ = I R / (n² η K_t K_e) = 0.125 s; 2 s is 16 τ.
   PlantOptions options;
@@ -292,7 +293,7 @@ TEST(Motor, FrictionlessWheelOnTheStandReachesTheNoLoadSpeed) {
 }
 
 TEST(Motor, WheelOnTheStandStartsAtStallTorqueOverSpinInertia) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   const auto speeds = SpinUp(model, 6.0, 0.001, 0.001);
   ASSERT_EQ(speeds.size(), 2u);
   // α = n η K_t V / (R I) = 0.96 / 0.01 = 96 rad/s² (Newton's second law for rotation).
@@ -301,7 +302,7 @@ TEST(Motor, WheelOnTheStandStartsAtStallTorqueOverSpinInertia) {
 }
 
 TEST(Motor, WheelOnTheStandStartsAtTheCurrentLimitWhenStallCurrentExceedsIt) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   const auto speeds = SpinUp(model, 12.0, 0.001, 0.001);  // 4.8 A wanted, 4 A allowed
   ASSERT_EQ(speeds.size(), 2u);
   const double expected = 0.4 * 4.0 / model.wheel.spin_inertia_kgm2;  // n η K_t I_max / I
@@ -309,7 +310,7 @@ TEST(Motor, WheelOnTheStandStartsAtTheCurrentLimitWhenStallCurrentExceedsIt) {
 }
 
 TEST(Motor, WheelOnTheStandFollowsTheFirstOrderTimeConstant) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   const FirstOrder expected = ExpectedSpinUp(model, 6.0);
   ASSERT_NEAR(expected.tau_s, 0.1, 1e-12);
   // ω(t) = ω_ss (1 − e^(−t/τ)): 63.2 % of the final speed at t = τ (first-order response).
@@ -335,7 +336,7 @@ TEST(Motor, WheelOnTheStandFollowsTheFirstOrderTimeConstant) {
 }
 
 TEST(Motor, PlantReportsTheMotorStateOfEachWheel) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   PlantOptions options;
   options.fixed_chassis = true;
   auto plant = MakePlant(model, options);

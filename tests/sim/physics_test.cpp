@@ -3,15 +3,15 @@
 // Each tolerance is stated beside its check: a margin over the error this configuration showed
 // (common practice), or tighter where the engine reproduces the law to round-off; where the error
 // comes from the time step, the test also shows it shrinking when the step is halved.
-#include <btBulletDynamicsCommon.h>
-
 #include <BulletDynamics/Featherstone/btMultiBody.h>
 #include <BulletDynamics/Featherstone/btMultiBodyDynamicsWorld.h>
 #include <BulletDynamics/Featherstone/btMultiBodyLinkCollider.h>
+#include <btBulletDynamicsCommon.h>
 #include <gtest/gtest.h>
 
 #include <cmath>
 #include <memory>
+#include <numbers>
 
 #include "upright/model/conventions.hpp"
 #include "world.hpp"
@@ -19,8 +19,8 @@
 namespace upright::sim::internal {
 namespace {
 
-constexpr double kG = kStandardGravity_m_s2;
-constexpr double kDeg = kPi / 180;
+constexpr double kG = model::kStandardGravity_m_s2;
+constexpr double kDeg = std::numbers::pi / 180;
 
 // A free ball (a floating multibody with no links) with a sphere collider and the given inertia.
 // A huge inertia makes it a sliding point contact; the inertia of a disc makes it a rolling wheel.
@@ -209,8 +209,8 @@ TEST(Physics, PendulumPeriodMatchesTheCompoundPendulumLaw) {
   // correction; mechanics handbook, from memory). Tolerance 1e-4 (common practice; the series'
   // next term is of order θ0⁴ ≈ 6e-6).
   const double theta0 = 0.05, l = 0.5, m = 1.0, i_ball = 0.004;
-  const double expected =
-      2 * kPi * std::sqrt((i_ball + m * l * l) / (m * kG * l)) * (1 + theta0 * theta0 / 16);
+  const double expected = 2 * std::numbers::pi * std::sqrt((i_ball + m * l * l) / (m * kG * l)) *
+                          (1 + theta0 * theta0 / 16);
   double error[2];
   for (int k = 0; k < 2; ++k) {
     const double dt = 0.001 / (1 << k);

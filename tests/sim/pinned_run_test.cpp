@@ -33,7 +33,7 @@ struct Pinned {
 // 1.5 s at 1 kHz: voltage drive with fixed, unequal wheel commands (the robot drives, turns and
 // falls), noisy sensors from seed 3, a sideways half-sine push at 0.2 s.
 Pinned RunPinnedScenario() {
-  RobotModel model = testing::MakeTestRobot();
+  model::RobotModel model = testing::MakeTestRobot();
   model.sensors.gyro_noise_rad_s_rthz = 0.01;
   model.sensors.accel_noise_m_s2_rthz = 0.02;
   PlantOptions options;

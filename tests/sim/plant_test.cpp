@@ -7,6 +7,7 @@
 #include <cstdint>
 #include <limits>
 #include <memory>
+#include <numbers>
 #include <string>
 #include <vector>
 
@@ -25,18 +26,17 @@ using testing::Unpowered;
 using testing::RollingMass;
 using testing::TraceHash;
 
-constexpr double kG = kStandardGravity_m_s2;
-
+constexpr double kG = model::kStandardGravity_m_s2;
 
 // Linear momentum along world x of chassis and wheels (no payload), from the true state: the
 // wheel centres move with the axle, the chassis COM is l above it, so
 // p = (M + 2 m_w) v + M l cosθ θ' (rigid-body kinematics).
-double MomentumX(const RobotModel& m, const TrueState& s) {
+double MomentumX(const model::RobotModel& m, const TrueState& s) {
   return RollingMass(m) * s.forward_speed_m_s +
          m.chassis.mass_kg * m.chassis.com_height_m * std::cos(s.pitch_rad) * s.pitch_rate_rad_s;
 }
 
-std::string CreateError(const RobotModel& model, const PlantOptions& options) {
+std::string CreateError(const model::RobotModel& model, const PlantOptions& options) {
   const auto plant = Plant::Create(model, options);
   EXPECT_FALSE(plant.has_value()) << "accepted; expected an error";
   return plant ? std::string() : plant.error();
@@ -46,7 +46,7 @@ std::string CreateError(const RobotModel& model, const PlantOptions& options) {
 
 TEST(Plant, CreatesFromTheTestRobotAndTheDemoModel) {
   EXPECT_TRUE(Succeeded(Plant::Create(MakeTestRobot(), PlantOptions())));
-  const auto demo = LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
+  const auto demo = model::LoadModelFile(std::string(UPRIGHT_SOURCE_DIR) + "/models/courier.xml");
   ASSERT_TRUE(Succeeded(demo));
   auto plant = Plant::Create(*demo, PlantOptions());
   ASSERT_TRUE(Succeeded(plant));
@@ -107,7 +107,7 @@ TEST(Plant, CreateRejectsAControlPeriodThatIsNotWholeSteps) {
 }
 
 TEST(Plant, CreateRejectsAnImuPeriodThatIsNotWholeSteps) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.imu_rate_hz = 300;  // 3.33 steps of 1 ms
   const std::string error = CreateError(model, PlantOptions());
   EXPECT_NE(error.find("imu rate_hz = 300"), std::string::npos) << error;
@@ -115,13 +115,13 @@ TEST(Plant, CreateRejectsAnImuPeriodThatIsNotWholeSteps) {
 }
 
 TEST(Plant, CreateAcceptsAnImuFasterThanThePhysics) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.imu_rate_hz = 3000;
   EXPECT_TRUE(Succeeded(Plant::Create(model, PlantOptions())));
 }
 
 TEST(Plant, CreateRejectsAnInvalidModelNamingFieldAndValue) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.chassis.mass_kg = -1;
   const std::string error = CreateError(model, PlantOptions());
   EXPECT_NE(error.find("mass_kg"), std::string::npos) << error;
@@ -129,7 +129,7 @@ TEST(Plant, CreateRejectsAnInvalidModelNamingFieldAndValue) {
 }
 
 TEST(Plant, CreateRejectsMotorDampingTooStiffForTheStep) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.motor.gear_ratio = 100;
   // Damping b + n² η K_t K_e / R = 0.02 + 8 = 8.02 N·m·s/rad on 0.01 kg·m²: an explicit step
   // of 2 ms moves 1.6 times the speed it damps (k dt / I), so it would overshoot; 1 ms is 0.8.
@@ -179,11 +179,11 @@ TEST(Plant, StartsOnASlopeWithTheAxleOneRadiusAboveTheGround) {
   ASSERT_NE(plant, nullptr);
   // The wheel touches the plane z = x tanθ, so its centre is r / cosθ above the plane at the
   // same x (plane geometry).
-  const double slope = 10 * kPi / 180;
+  const double slope = 10 * std::numbers::pi / 180;
   EXPECT_NEAR(plant->truth().z_m, std::tan(slope) + 0.1 / std::cos(slope), 1e-9);
   plant->Step();
-  EXPECT_TRUE(plant->contact().wheels[kLeft].touching);
-  EXPECT_TRUE(plant->contact().wheels[kRight].touching);
+  EXPECT_TRUE(plant->contact().wheels[model::kLeft].touching);
+  EXPECT_TRUE(plant->contact().wheels[model::kRight].touching);
 }
 
 // Hashes of everything a run reports: the true state, the sensor samples, motors, contacts.
@@ -193,7 +193,7 @@ struct RunHashes {
 };
 
 RunHashes RunKnockedOver(std::uint64_t seed) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.gyro_noise_rad_s_rthz = 0.01;
   model.sensors.accel_noise_m_s2_rthz = 0.02;
   PlantOptions options;
@@ -239,7 +239,7 @@ TEST(Plant, DifferentSeedGivesDifferentSensorTrace) {
 }
 
 TEST(Plant, ChassisTouchesTheGroundOnlyAtTheGeometricTippingAngle) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   PlantOptions options = Unpowered();
   options.initial.pitch_rad = 0.05;
   auto plant = MakePlant(model, options);
@@ -264,9 +264,9 @@ TEST(Plant, ChassisTouchesTheGroundOnlyAtTheGeometricTippingAngle) {
   EXPECT_LT(pitch_at_touch, tipping + 0.008);
 }
 
-RobotModel WithPayload() {
-  RobotModel model = MakeTestRobot();
-  PayloadModel& p = model.payload;
+model::RobotModel WithPayload() {
+  model::RobotModel model = MakeTestRobot();
+  model::PayloadModel& p = model.payload;
   p.present = true;
   p.mass_kg = 2;
   p.length_m = p.width_m = p.height_m = 0.1;
@@ -309,7 +309,8 @@ TEST(Plant, PayloadEndStopHoldsTheBoxAgainstGravity) {
 }
 
 TEST(Plant, WheelsEachCarryHalfTheWeightStandingStill) {
-  const RobotModel model = MakeTestRobot();  // COM above the axle, zero pitch: an equilibrium
+  const model::RobotModel model =
+      MakeTestRobot();  // COM above the axle, zero pitch: an equilibrium
   auto plant = MakePlant(model, Unpowered());
   ASSERT_NE(plant, nullptr);
   // (M + 2 m_w) g / 2 per wheel (statics, derived by hand; tolerance 0.1 %, common practice).
@@ -317,7 +318,7 @@ TEST(Plant, WheelsEachCarryHalfTheWeightStandingStill) {
   for (int k = 1; k <= 200; ++k) {
     plant->Step();
     if (k < 20) continue;  // let the first contact settle
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       const WheelContact& c = plant->contact().wheels[side];
       ASSERT_TRUE(c.touching);
       ASSERT_NEAR(c.normal_N, expected, 0.001 * expected) << "step " << k << " side " << side;
@@ -329,7 +330,7 @@ TEST(Plant, WheelsEachCarryHalfTheWeightStandingStill) {
 }
 
 TEST(Plant, WheelsCarryHalfTheWeightFromTheFirstStepOnProfileTerrain) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   PlantOptions options = Unpowered();
   // A profile terrain is a triangle mesh; the robot starts on its level lead-in, 2 m before a
   // ramp, so the ground under it is flat as in the test above.
@@ -342,11 +343,12 @@ TEST(Plant, WheelsCarryHalfTheWeightFromTheFirstStepOnProfileTerrain) {
   // (M + 2 m_w) g / 2 per wheel (statics; 0.1 %) and +g on the accelerometer (0.2 %).
   const double expected = RollingMass(model) * kG / 2;
   plant->Step();
-  EXPECT_TRUE(plant->contact().wheels[kLeft].touching) << "no wheel contact in the first step";
+  EXPECT_TRUE(plant->contact().wheels[model::kLeft].touching)
+      << "no wheel contact in the first step";
   double worst_load = 0, worst_accel = 0;  // the largest relative errors over the first 50 ms
   for (int k = 1; k <= 50; ++k) {
     if (k > 1) plant->Step();
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       const double load = plant->contact().wheels[side].normal_N;
       worst_load = std::max(worst_load, std::abs(load - expected) / expected);
     }
@@ -357,7 +359,7 @@ TEST(Plant, WheelsCarryHalfTheWeightFromTheFirstStepOnProfileTerrain) {
 }
 
 TEST(Plant, ForwardWheelTorqueGivesPositiveTractionAndPitchesTheChassisBack) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   auto plant = MakePlant(model, Unpowered());
   ASSERT_NE(plant, nullptr);
   plant->SetCommand(1.0, 1.0);  // N·m at each wheel, forward (conventions.hpp)
@@ -366,7 +368,7 @@ TEST(Plant, ForwardWheelTorqueGivesPositiveTractionAndPitchesTheChassisBack) {
   double traction_impulse = 0;
   for (int k = 1; k <= 100; ++k) {
     plant->Step();
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       ASSERT_GT(plant->contact().wheels[side].traction_N, 0) << "step " << k;
       traction_impulse += plant->contact().wheels[side].traction_N * dt;
     }
@@ -381,7 +383,7 @@ TEST(Plant, ForwardWheelTorqueGivesPositiveTractionAndPitchesTheChassisBack) {
 }
 
 TEST(Plant, PushChangesMomentumByItsImpulseOnFrictionlessGround) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   PlantOptions options = Unpowered();
   options.terrain.friction_regions = {{-5, 5, 0.0}};  // ice: no horizontal ground force
   auto plant = MakePlant(model, options);
@@ -398,9 +400,9 @@ TEST(Plant, PushChangesMomentumByItsImpulseOnFrictionlessGround) {
   for (int k = 0; k < 140; ++k) plant->Step();  // to t = 0.18 s, after the push ends
   // J = 2 F T / π for a half-sine (calculus, from memory) = 2.546 N·s; Δp = J (conservation of
   // momentum: only the push acts horizontally); 1 %.
-  const double impulse = 2 * 40 * 0.1 / kPi;
+  const double impulse = 2 * 40 * 0.1 / std::numbers::pi;
   EXPECT_NEAR(MomentumX(model, plant->truth()) - p0, impulse, 0.01 * impulse);
-  EXPECT_EQ(plant->contact().wheels[kLeft].friction, 0);
+  EXPECT_EQ(plant->contact().wheels[model::kLeft].friction, 0);
   EXPECT_NEAR(plant->truth().y_m, 0, 1e-6);
 }
 
@@ -424,7 +426,7 @@ TEST(Plant, PushAtNinetyDegreesMovesTheRobotLeft) {
 
 TEST(Plant, RollingResistanceSlowsACoastingRobotAsTheRigidBodyEquationsSay) {
   // Frictionless motors, so the wheels turn freely relative to the chassis.
-  RobotModel model = testing::MakeFrictionlessTestRobot();
+  model::RobotModel model = testing::MakeFrictionlessTestRobot();
   for (double c_rr : {0.0, 0.05}) {
     model.wheel.rolling_resistance = c_rr;
     PlantOptions options = Unpowered();
@@ -457,7 +459,7 @@ TEST(Plant, WheelSpinningOnIceHasSlipRatioNearOneAndNoTraction) {
   plant->SetCommand(0.5, 0.5);
   for (int k = 1; k <= 100; ++k) {
     plant->Step();
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       const WheelContact& c = plant->contact().wheels[side];
       // s = (ω r − v) / max(|ω r|, |v|): the rim runs, the hub barely moves (momentum stays
       // zero with no ground force); the chassis's counter-rotation moves the hub slightly.
@@ -481,7 +483,7 @@ TEST(Plant, SpinningWheelPullsWithTheCoulombLimit) {
   for (int k = 1; k <= 100; ++k) {
     plant->Step();
     if (k < 5) continue;
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       const WheelContact& c = plant->contact().wheels[side];
       ASSERT_NEAR(c.friction, 0.1, 1e-12);
       ASSERT_NEAR(c.traction_N, 0.1 * c.normal_N, 0.001 * c.normal_N) << "step " << k;
@@ -492,7 +494,7 @@ TEST(Plant, SpinningWheelPullsWithTheCoulombLimit) {
 }
 
 TEST(Plant, WheelContactReportsTheFrictionOfTheRegionItRollsInto) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   PlantOptions options = Unpowered();
   options.initial.speed_m_s = 0.5;
   options.terrain.friction_regions = {{0.05, 5, 0.3}};
@@ -503,8 +505,8 @@ TEST(Plant, WheelContactReportsTheFrictionOfTheRegionItRollsInto) {
     const double x = plant->truth().x_m;
     if (std::abs(x - 0.05) < 0.002) continue;  // the contact point is within a step of the edge
     const double expected = x < 0.05 ? model.wheel.friction : 0.3;
-    ASSERT_NEAR(plant->contact().wheels[kLeft].friction, expected, 1e-12) << "x " << x;
-    ASSERT_NEAR(plant->contact().wheels[kRight].friction, expected, 1e-12) << "x " << x;
+    ASSERT_NEAR(plant->contact().wheels[model::kLeft].friction, expected, 1e-12) << "x " << x;
+    ASSERT_NEAR(plant->contact().wheels[model::kRight].friction, expected, 1e-12) << "x " << x;
   }
   EXPECT_GT(plant->truth().x_m, 0.09);
 }

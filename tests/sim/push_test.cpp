@@ -4,6 +4,7 @@
 
 #include <cmath>
 #include <limits>
+#include <numbers>
 #include <string>
 #include <vector>
 
@@ -55,9 +56,9 @@ TEST(Push, HalfSineFollowsTheSineProfile) {
   // F(t) = F sin(π (t − start) / T) (the profile's definition).
   EXPECT_EQ(p.ForceAt(1.9), 0);
   EXPECT_NEAR(p.ForceAt(2.0), 0, 1e-12);
-  EXPECT_NEAR(p.ForceAt(2.1), 100 * std::sin(kPi / 4), 1e-9);
+  EXPECT_NEAR(p.ForceAt(2.1), 100 * std::sin(std::numbers::pi / 4), 1e-9);
   EXPECT_NEAR(p.ForceAt(2.2), 100, 1e-9);
-  EXPECT_NEAR(p.ForceAt(2.3), 100 * std::sin(3 * kPi / 4), 1e-9);
+  EXPECT_NEAR(p.ForceAt(2.3), 100 * std::sin(3 * std::numbers::pi / 4), 1e-9);
   EXPECT_EQ(p.ForceAt(2.41), 0);
 }
 
@@ -95,7 +96,7 @@ TEST(Push, RectangleDeliversPeakTimesDurationOnAnyStepGrid) {
 TEST(Push, HalfSineDeliversTwoPeakDurationOverPiOnAnyStepGrid) {
   const Push p = MakePush(PushShape::kHalfSine, 0.2001, 0.0333, 150);
   // ∫ F sin(π t / T) dt over [0, T] = 2 F T / π (calculus, from memory).
-  const double expected = 2 * 150 * 0.0333 / kPi;
+  const double expected = 2 * 150 * 0.0333 / std::numbers::pi;
   for (double step : {0.001, 0.0005, 0.0007, 0.003, 0.02, 0.1}) {
     for (double offset : {0.0, 0.00013, 0.00049, 0.000999}) {
       SCOPED_TRACE("step " + std::to_string(step) + " offset " + std::to_string(offset));
@@ -107,7 +108,8 @@ TEST(Push, HalfSineDeliversTwoPeakDurationOverPiOnAnyStepGrid) {
 TEST(Push, MeanForceOfAStepInsideTheHalfSineIsItsExactAverage) {
   const Push p = MakePush(PushShape::kHalfSine, 0, 1.0, 10);
   // (1/Δ) ∫ F sin(π t) dt over [0.25, 0.5] = F (cos(π/4) − cos(π/2)) / (π Δ) (calculus).
-  const double expected = 10 * (std::cos(kPi / 4) - std::cos(kPi / 2)) / (kPi * 0.25);
+  const double expected = 10 * (std::cos(std::numbers::pi / 4) - std::cos(std::numbers::pi / 2)) /
+                          (std::numbers::pi * 0.25);
   EXPECT_NEAR(p.MeanForce(0.25, 0.5), expected, 1e-12);
 }
 

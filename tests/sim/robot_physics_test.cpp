@@ -16,11 +16,11 @@
 namespace upright::sim {
 namespace {
 
-constexpr double kG = kStandardGravity_m_s2;
+constexpr double kG = model::kStandardGravity_m_s2;
 
 // The plain test robot without motor friction (rolling resistance is already zero), so the
 // plant obeys the same frictionless equations as the reference.
-RobotModel PendulumRobot() { return testing::MakeFrictionlessTestRobot(); }
+model::RobotModel PendulumRobot() { return testing::MakeFrictionlessTestRobot(); }
 
 // Planar wheeled inverted pendulum, wheels rolling without slip, states [x, ẋ, θ, θ̇], total wheel
 // torque u (derived by hand from Lagrange's equations, motor torque +τ on the wheel and −τ on the
@@ -29,11 +29,12 @@ RobotModel PendulumRobot() { return testing::MakeFrictionlessTestRobot(); }
 //   m_b l cosθ ẍ + J_θ θ̈ − m_b g l sinθ = −u
 struct Pendulum {
   double mb, l, jt, mx, r;
-  explicit Pendulum(const RobotModel& m)
+  explicit Pendulum(const model::RobotModel& m)
       : mb(m.chassis.mass_kg),
         l(m.chassis.com_height_m),
         jt(m.chassis.pitch_inertia_kgm2 + mb * l * l),
-        mx(mb + 2 * m.wheel.mass_kg + 2 * m.wheel.spin_inertia_kgm2 / (m.wheel.radius_m * m.wheel.radius_m)),
+        mx(mb + 2 * m.wheel.mass_kg +
+           2 * m.wheel.spin_inertia_kgm2 / (m.wheel.radius_m * m.wheel.radius_m)),
         r(m.wheel.radius_m) {}
   double delta() const { return mx * jt - mb * mb * l * l; }
   double lambda() const { return std::sqrt(mx * mb * kG * l / delta()); }  // falling rate, 1/s

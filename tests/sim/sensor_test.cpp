@@ -6,6 +6,7 @@
 #include <cmath>
 #include <cstdint>
 #include <memory>
+#include <numbers>
 #include <string>
 #include <vector>
 
@@ -23,8 +24,7 @@ using testing::MakeTestRobot;
 using testing::Unpowered;
 using testing::TraceHash;
 
-constexpr double kG = kStandardGravity_m_s2;
-
+constexpr double kG = model::kStandardGravity_m_s2;
 
 PlantOptions OnTheStand(bool noise) {
   PlantOptions options;
@@ -48,12 +48,12 @@ double StdDev(const std::vector<double>& v) {
 
 // Encoder quantisation: the last whole count at or below the angle, one count = 2π / counts.
 double FloorToCount(double angle_rad, double counts_per_rev) {
-  const double count = 2 * kPi / counts_per_rev;
+  const double count = 2 * std::numbers::pi / counts_per_rev;
   return count * std::floor(angle_rad / count);
 }
 
 TEST(Sensor, AccelerometerReadsPlusGStandingStillOnFlatGround) {
-  const RobotModel model = MakeTestRobot();  // COM exactly above the axle: an equilibrium
+  const model::RobotModel model = MakeTestRobot();  // COM exactly above the axle: an equilibrium
   auto plant = MakePlant(model, Unpowered());
   ASSERT_NE(plant, nullptr);
   std::vector<double> ax, ay, az;
@@ -120,9 +120,9 @@ TEST(Sensor, GyroReadsNegativeYWhileFallingBackward) {
 }
 
 TEST(Sensor, EncodersCountUpRollingForwardAndDownRollingBackward) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   const double r = model.wheel.radius_m;
-  const double count = 2 * kPi / model.sensors.encoder_counts_per_rev;
+  const double count = 2 * std::numbers::pi / model.sensors.encoder_counts_per_rev;
   for (double speed : {0.5, -0.5}) {
     PlantOptions options = Unpowered();
     options.initial.speed_m_s = speed;
@@ -145,7 +145,7 @@ TEST(Sensor, EncodersCountUpRollingForwardAndDownRollingBackward) {
     for (size_t k = relative_rate.size() - 10; k < relative_rate.size(); ++k) {
       mean_rate += relative_rate[k] / 10;
     }
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       EXPECT_GT(s.encoder_angle_rad[side] * (speed > 0 ? 1 : -1), 0.9) << "speed " << speed;
       EXPECT_NEAR(s.encoder_angle_rad[side], expected, count + 0.005 * std::abs(expected))
           << "speed " << speed;
@@ -158,7 +158,7 @@ TEST(Sensor, EncodersCountUpRollingForwardAndDownRollingBackward) {
 }
 
 TEST(Sensor, AccelerometerReadsForwardAccelerationWhenPushedForward) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   // IMU off the chassis COM (0, 0.2), so rotation adds lever-arm terms to what it feels.
   const double xi = 0.05, zi = 0.4;
   model.sensors.imu_x_m = xi;
@@ -204,7 +204,7 @@ TEST(Sensor, AccelerometerReadsForwardAccelerationWhenPushedForward) {
 }
 
 TEST(Sensor, AccelerometerYAndGyroXReadTheRobotTippingToItsLeft) {
-  const RobotModel model = MakeTestRobot();
+  const model::RobotModel model = MakeTestRobot();
   auto plant = MakePlant(model, Unpowered());
   ASSERT_NE(plant, nullptr);
   // 200 N toward +y (the robot's left) at 0.5 m, above the COM: it accelerates left and, its
@@ -227,7 +227,8 @@ TEST(Sensor, AccelerometerYAndGyroXReadTheRobotTippingToItsLeft) {
   }
   EXPECT_LT(plant->truth().roll_rad, 0);
   EXPECT_GT(plant->truth().y_m, 0);
-  EXPECT_GT(plant->contact().wheels[kLeft].normal_N, plant->contact().wheels[kRight].normal_N);
+  EXPECT_GT(plant->contact().wheels[model::kLeft].normal_N,
+            plant->contact().wheels[model::kRight].normal_N);
 }
 
 TEST(Sensor, GyroZReadsPositiveWhileTurningLeft) {
@@ -244,8 +245,8 @@ TEST(Sensor, GyroZReadsPositiveWhileTurningLeft) {
 }
 
 TEST(Sensor, NoiseHasTheDensityTimesRootSampleRateStandardDeviation) {
-  RobotModel model = MakeTestRobot();
-  SensorModel& sm = model.sensors;
+  model::RobotModel model = MakeTestRobot();
+  model::SensorModel& sm = model.sensors;
   sm.imu_rate_hz = 500;  // every second physics step
   sm.gyro_noise_rad_s_rthz = 0.01;
   sm.accel_noise_m_s2_rthz = 0.02;
@@ -293,7 +294,7 @@ TEST(Sensor, NoiseHasTheDensityTimesRootSampleRateStandardDeviation) {
 }
 
 TEST(Sensor, NoiseFollowsTheImuRateWhenTheImuIsFasterThanThePhysics) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.imu_rate_hz = 4000;  // 4 samples per 1 ms physics step; the plant accepts it
   model.sensors.gyro_noise_rad_s_rthz = 0.01;
   auto plant = MakePlant(model, OnTheStand(true));
@@ -311,8 +312,8 @@ TEST(Sensor, NoiseFollowsTheImuRateWhenTheImuIsFasterThanThePhysics) {
 }
 
 TEST(Sensor, ExactSensorsGiveTheBiasedTruth) {
-  RobotModel model = MakeTestRobot();
-  SensorModel& sm = model.sensors;
+  model::RobotModel model = MakeTestRobot();
+  model::SensorModel& sm = model.sensors;
   sm.gyro_noise_rad_s_rthz = 0.01;  // ignored: sensor_noise is off
   sm.accel_noise_m_s2_rthz = 0.02;
   sm.gyro_bias_x_rad_s = 0.1;
@@ -338,8 +339,8 @@ TEST(Sensor, ExactSensorsGiveTheBiasedTruth) {
 }
 
 TEST(Sensor, QuantisationStepsReadingsToWholeResolutions) {
-  RobotModel model = MakeTestRobot();
-  SensorModel& sm = model.sensors;
+  model::RobotModel model = MakeTestRobot();
+  model::SensorModel& sm = model.sensors;
   sm.gyro_noise_rad_s_rthz = 0.01;
   sm.accel_noise_m_s2_rthz = 0.02;
   sm.gyro_resolution_rad_s = 0.05;
@@ -364,8 +365,8 @@ TEST(Sensor, QuantisationStepsReadingsToWholeResolutions) {
 }
 
 TEST(Sensor, QuantisationRoundsExactReadingsToTheNearestStep) {
-  RobotModel model = MakeTestRobot();
-  SensorModel& sm = model.sensors;
+  model::RobotModel model = MakeTestRobot();
+  model::SensorModel& sm = model.sensors;
   sm.gyro_bias_y_rad_s = 0.0123;
   sm.gyro_bias_z_rad_s = -0.0178;
   sm.gyro_resolution_rad_s = 0.01;
@@ -398,7 +399,7 @@ Recorded Record(Plant& plant, int steps) {
 }
 
 TEST(Sensor, GyroShowsTheStateLatencyEarlier) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.latency_s = 0.005;  // 5 physics steps
   PlantOptions options = Unpowered();
   options.initial.pitch_rad = 0.05;
@@ -415,15 +416,15 @@ TEST(Sensor, GyroShowsTheStateLatencyEarlier) {
 }
 
 TEST(Sensor, EncodersShowTheWheelAnglesLatencyEarlierFlooredToWholeCounts) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.latency_s = 0.005;  // 5 physics steps
-  const double count = 2 * kPi / model.sensors.encoder_counts_per_rev;
+  const double count = 2 * std::numbers::pi / model.sensors.encoder_counts_per_rev;
   auto plant = MakePlant(model, OnTheStand(false));
   ASSERT_NE(plant, nullptr);
   plant->SetCommand(6.0, -6.0);  // left forward, right backward
   const Recorded r = Record(*plant, 300);
   for (size_t k = 5; k < r.samples.size(); ++k) {
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       const double seen = r.samples[k].encoder_angle_rad[side];
       const double then = r.truth[k - 5].wheel_angle_rad[side];
       // Floor quantisation: at or below the angle, less than one count below it, whole counts.
@@ -433,14 +434,14 @@ TEST(Sensor, EncodersShowTheWheelAnglesLatencyEarlierFlooredToWholeCounts) {
     }
   }
   // The latency is visible: the wheels turn ~8 rad/s, 5 ms is ~26 counts.
-  EXPECT_LT(r.samples.back().encoder_angle_rad[kLeft],
-            r.truth.back().wheel_angle_rad[kLeft] - 10 * count);
-  EXPECT_GT(r.samples.back().encoder_angle_rad[kRight],
-            r.truth.back().wheel_angle_rad[kRight] + 10 * count);
+  EXPECT_LT(r.samples.back().encoder_angle_rad[model::kLeft],
+            r.truth.back().wheel_angle_rad[model::kLeft] - 10 * count);
+  EXPECT_GT(r.samples.back().encoder_angle_rad[model::kRight],
+            r.truth.back().wheel_angle_rad[model::kRight] + 10 * count);
 }
 
 TEST(Sensor, EncoderRateIsTheCountDifferenceOverOneControlPeriod) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.latency_s = 0.002;
   const double counts = model.sensors.encoder_counts_per_rev;
   const long latency = 2, period = 10;  // steps: 2 ms latency, 100 Hz control at 1 kHz physics
@@ -449,7 +450,7 @@ TEST(Sensor, EncoderRateIsTheCountDifferenceOverOneControlPeriod) {
   plant->SetCommand(6.0, -3.0);
   const Recorded r = Record(*plant, 300);
   for (size_t k = static_cast<size_t>(latency + period); k < r.samples.size(); ++k) {
-    for (int side : {kLeft, kRight}) {
+    for (int side : {model::kLeft, model::kRight}) {
       const double now = FloorToCount(r.truth[k - latency].wheel_angle_rad[side], counts);
       const double before =
           FloorToCount(r.truth[k - latency - period].wheel_angle_rad[side], counts);
@@ -458,14 +459,14 @@ TEST(Sensor, EncoderRateIsTheCountDifferenceOverOneControlPeriod) {
     }
   }
   // Near the true rate: within one count per period plus the change of rate over the period.
-  const double true_rate = r.truth[r.truth.size() - 1 - latency].wheel_rate_rad_s[kLeft];
-  EXPECT_NEAR(r.samples.back().encoder_rate_rad_s[kLeft], true_rate,
-              2 * kPi / counts / 0.01 + 0.05 * std::abs(true_rate));
+  const double true_rate = r.truth[r.truth.size() - 1 - latency].wheel_rate_rad_s[model::kLeft];
+  EXPECT_NEAR(r.samples.back().encoder_rate_rad_s[model::kLeft], true_rate,
+              2 * std::numbers::pi / counts / 0.01 + 0.05 * std::abs(true_rate));
 }
 
 // Hash of the first `steps` sensor samples of a noisy robot on the stand.
 std::uint64_t SampleHash(std::uint64_t seed, int steps) {
-  RobotModel model = MakeTestRobot();
+  model::RobotModel model = MakeTestRobot();
   model.sensors.gyro_noise_rad_s_rthz = 0.01;
   model.sensors.accel_noise_m_s2_rthz = 0.02;
   PlantOptions options = OnTheStand(true);

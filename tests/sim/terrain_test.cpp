@@ -4,6 +4,7 @@
 
 #include <cmath>
 #include <limits>
+#include <numbers>
 #include <string>
 #include <utility>
 #include <vector>
@@ -14,7 +15,7 @@
 namespace upright::sim {
 namespace {
 
-double Tan(double deg) { return std::tan(deg * kPi / 180.0); }
+double Tan(double deg) { return std::tan(deg * std::numbers::pi / 180.0); }
 
 // Profile from x = 1: ramp up 0.2 over 2 m (to x = 3), plateau 1 m (to 4), bump of 0.1 over 1 m
 // (to 5), curb down 0.05 (at 5), plateau 1 m (to 6). Final level 0.2 − 0.05 = 0.15.
@@ -84,9 +85,9 @@ TEST(Terrain, BumpIsARaisedCosineWithItsPeakAtMidLength) {
   EXPECT_NEAR(t.HeightAt(4.25), 0.2 + 0.05, 1e-12);
   EXPECT_NEAR(t.HeightAt(4.5), 0.3, 1e-12);
   EXPECT_NEAR(t.HeightAt(4.75), 0.25, 1e-12);
-  EXPECT_NEAR(t.SlopeAt(4.25), 0.1 * kPi, 1e-12);
+  EXPECT_NEAR(t.SlopeAt(4.25), 0.1 * std::numbers::pi, 1e-12);
   EXPECT_NEAR(t.SlopeAt(4.5), 0, 1e-12);
-  EXPECT_NEAR(t.SlopeAt(4.75), -0.1 * kPi, 1e-12);
+  EXPECT_NEAR(t.SlopeAt(4.75), -0.1 * std::numbers::pi, 1e-12);
   for (double x = 4.0; x < 5.0; x += 0.01) {
     EXPECT_LE(t.HeightAt(x), 0.3 + 1e-12);
     EXPECT_GE(t.HeightAt(x), 0.2 - 1e-12);

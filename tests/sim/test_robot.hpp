@@ -21,10 +21,10 @@ namespace upright::sim::testing {
 // (spin inertia ½ m r² = 0.01 kg·m²); motors with n η K_t / R = 10 × 0.8 × 0.05 / 2.5 =
 // 0.16 N·m/V at the wheel and electrical damping n² η K_t K_e / R = 0.08 N·m·s/rad; ideal
 // sensors at 1 kHz; controller at 100 Hz; no payload.
-inline RobotModel MakeTestRobot() {
-  RobotModel m;
+inline model::RobotModel MakeTestRobot() {
+  model::RobotModel m;
   m.name = "test-robot";
-  ChassisModel& c = m.chassis;
+  model::ChassisModel& c = m.chassis;
   c.mass_kg = 10;
   c.pitch_inertia_kgm2 = 0.4;
   c.roll_inertia_kgm2 = 0.4;
@@ -36,7 +36,7 @@ inline RobotModel MakeTestRobot() {
   c.outline_bottom_m = -0.05;
   c.outline_top_m = 0.5;
   c.outline_width_m = 0.3;
-  WheelModel& w = m.wheel;
+  model::WheelModel& w = m.wheel;
   w.radius_m = 0.1;
   w.width_m = 0.04;
   w.mass_kg = 2;
@@ -46,7 +46,7 @@ inline RobotModel MakeTestRobot() {
   w.track_m = 0.4;
   w.friction = 1.0;
   w.rolling_resistance = 0;
-  MotorModel& mo = m.motor;
+  model::MotorModel& mo = m.motor;
   mo.torque_constant_Nm_per_A = 0.05;
   mo.back_emf_V_s_per_rad = 0.05;
   mo.resistance_ohm = 2.5;
@@ -56,7 +56,7 @@ inline RobotModel MakeTestRobot() {
   mo.current_limit_A = 4;
   mo.viscous_friction_Nm_s_per_rad = 0.02;
   mo.coulomb_friction_Nm = 0.01;
-  SensorModel& s = m.sensors;
+  model::SensorModel& s = m.sensors;
   s.imu_rate_hz = 1000;
   s.imu_x_m = 0;
   s.imu_y_m = 0;
@@ -68,15 +68,16 @@ inline RobotModel MakeTestRobot() {
 }
 
 // The test robot with the motor's mechanical friction removed (pure electrical motor).
-inline RobotModel MakeFrictionlessTestRobot() {
-  RobotModel m = MakeTestRobot();
+inline model::RobotModel MakeFrictionlessTestRobot() {
+  model::RobotModel m = MakeTestRobot();
   m.motor.viscous_friction_Nm_s_per_rad = 0;
   m.motor.coulomb_friction_Nm = 0;
   return m;
 }
 
 // A plant for the test, or a test failure naming why it could not be built.
-inline std::unique_ptr<Plant> MakePlant(const RobotModel& model, const PlantOptions& options) {
+inline std::unique_ptr<Plant> MakePlant(const model::RobotModel& model,
+                                        const PlantOptions& options) {
   auto plant = Plant::Create(model, options);
   EXPECT_TRUE(Succeeded(plant));
   return plant ? std::move(*plant) : nullptr;
@@ -91,7 +92,9 @@ inline PlantOptions Unpowered() {
 }
 
 // Total mass that rolls on the wheels: chassis plus both wheels (kg).
-inline double RollingMass(const RobotModel& m) { return m.chassis.mass_kg + 2 * m.wheel.mass_kg; }
+inline double RollingMass(const model::RobotModel& m) {
+  return m.chassis.mass_kg + 2 * m.wheel.mass_kg;
+}
 
 // FNV-1a over the bit patterns of doubles: equal hashes mean bit-identical sequences
 // (FNV-1a 64-bit offset basis and prime, from memory).
@@ -119,7 +122,7 @@ inline void AddPhysics(const Plant& plant, TraceHash* hash) {
                    t.vertical_speed_m_s, t.payload_x_m}) {
     hash->Add(v);
   }
-  for (int i : {kLeft, kRight}) {
+  for (int i : {model::kLeft, model::kRight}) {
     hash->Add(t.wheel_angle_rad[i]);
     hash->Add(t.wheel_rate_rad_s[i]);
     const WheelContact& c = plant.contact().wheels[i];

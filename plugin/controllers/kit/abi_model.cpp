@@ -108,8 +108,8 @@ Result<void, ModuleError> CheckAbiModel(const upright_robot& r, const upright_li
   return {};
 }
 
-RobotModel RobotFromAbi(const upright_robot& r, double control_rate_hz) {
-  RobotModel m;
+model::RobotModel RobotFromAbi(const upright_robot& r, double control_rate_hz) {
+  model::RobotModel m;
   m.name = "module";
   m.chassis.mass_kg = r.chassis_mass_kg;
   m.chassis.pitch_inertia_kgm2 = r.chassis_pitch_inertia_kgm2;
@@ -177,7 +177,7 @@ design::LinearModel LinearFromAbi(const upright_linear_model& l, const upright_r
   return m;
 }
 
-bool HasOutline(const RobotModel& robot) {
+bool HasOutline(const model::RobotModel& robot) {
   return robot.chassis.outline_front_m > robot.chassis.outline_rear_m;
 }
 

@@ -21,7 +21,7 @@ Result<void, ModuleError> CheckAbiModel(const upright_robot& robot,
 // and the chassis outline come when the host's struct carries them (else zero: readings without
 // quantisation, which only LineariseSensors would have used; an outline with front = rear, from
 // which no default tilt can be drawn: HasOutline).
-RobotModel RobotFromAbi(const upright_robot& robot, double control_rate_hz);
+model::RobotModel RobotFromAbi(const upright_robot& robot, double control_rate_hz);
 
 // The linear model for `input` (A_torque, B_torque or A_voltage, B_voltage), with E, the push
 // height and the equilibrium pitch as given. The fall rate comes from A (θ̈ = λ² θ: λ =
@@ -31,7 +31,7 @@ design::LinearModel LinearFromAbi(const upright_linear_model& linear, const upri
                                   design::InputKind input);
 
 // Whether `robot` (from RobotFromAbi) carries a chassis outline (front_m > rear_m).
-bool HasOutline(const RobotModel& robot);
+bool HasOutline(const model::RobotModel& robot);
 
 // Chassis, both wheels and the payload, kg.
 double TotalMass(const upright_robot& robot);

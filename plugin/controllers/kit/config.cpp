@@ -4,6 +4,7 @@
 #include <cctype>
 #include <charconv>
 #include <cmath>
+#include <numbers>
 #include <utility>
 
 #include "kit/abi_model.hpp"
@@ -157,7 +158,9 @@ CommonConfig ReadCommonConfig(ConfigReader* reader, const ModuleContext& context
     reader->Refuse(resolved.error());
   }
   reader->Number("tilt_filter_s", NumberRule::kPositive, &c.tilt_filter_s);
-  c.max_accel_m_s2 = kStandardGravity_m_s2 * std::tan(std::min(w.max_tilt_deg, 45.0) * kPi / 180);
+  reader->Number("bias_filter_s", NumberRule::kPositive, &c.bias_filter_s);
+  c.max_accel_m_s2 = model::kStandardGravity_m_s2 *
+                     std::tan(std::min(w.max_tilt_deg, 45.0) * std::numbers::pi / 180);
   reader->Number("max_accel_m_s2", NumberRule::kPositive, &c.max_accel_m_s2);
   return c;
 }

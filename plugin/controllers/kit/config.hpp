@@ -56,9 +56,14 @@ struct CommonConfig {
   design::InputKind input = design::InputKind::kTorque;  // `input` = torque | voltage
   // max_drift_m, max_speed_m_s, max_tilt_deg, ... (weights.hpp), resolved for the robot.
   design::DesignWeights weights;
-  // `tilt_filter_s`: the complementary filter's time constant; 0.5 s is common practice for
-  // balancing robots (slow enough to average out accelerations, fast enough for gyro bias).
+  // `tilt_filter_s`: the tilt filter's time constant τ (tilt_filter.hpp), how long the gyro alone
+  // carries the pitch; 0.5 s is common practice for balancing robots (slow enough to average out
+  // accelerations the encoders do not explain).
   double tilt_filter_s = 0.5;
+  // `bias_filter_s`: the time constant τ_b in which the tilt filter learns the pitch gyro's bias
+  // (about 4 % of a step in it left after 5 τ_b, less when τ_b > τ). Common practice: a few τ, so
+  // that an acceleration the filter misreads for a moment moves the bias little.
+  double bias_filter_s = 2;
   // `max_accel_m_s2`: how fast the speed reference may change. Default g tan(max_tilt_deg) (at
   // most g): the steady lean that acceleration takes is the tilt the weights accept.
   double max_accel_m_s2 = 0;

@@ -28,7 +28,7 @@ using ConfigEntries = std::vector<std::pair<std::string, std::string>>;
 struct ModuleContext {
   upright_robot robot_abi{};
   upright_linear_model linear_abi{};
-  RobotModel robot;  // rebuilt from robot_abi (abi_model.hpp)
+  model::RobotModel robot;  // rebuilt from robot_abi (abi_model.hpp)
   double rate_hz = 0;
   double period_s = 0;
   bool true_state_available = false;

@@ -28,19 +28,19 @@ const std::vector<const char*>& StateFeedbackLaw::DiagnosticNames() {
 
 Result<StateFeedbackLaw, ModuleError> StateFeedbackLaw::For(const design::LinearModel& plant,
                                                             const design::Gain& gain,
-                                                            double input_limit,
+                                                            const DriveLimits& limits,
                                                             const ReferenceTracker& tracker) {
   Result<SteadyMotion, ModuleError> steady = SteadyMotion::Of(plant);
   if (!steady) return Failure(std::move(steady.error()));
-  return StateFeedbackLaw(plant, gain, *steady, input_limit, tracker);
+  return StateFeedbackLaw(plant, gain, *steady, limits, tracker);
 }
 
 StateFeedbackLaw::StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain,
-                                   const SteadyMotion& steady, double input_limit,
+                                   const SteadyMotion& steady, const DriveLimits& limits,
                                    const ReferenceTracker& tracker)
     : gain_(gain),
       steady_(steady),
-      input_limit_(input_limit),
+      limits_(limits),
       equilibrium_pitch_rad_(plant.equilibrium_pitch_rad),
       tracker_(tracker) {}
 
@@ -51,7 +51,9 @@ void StateFeedbackLaw::Reset() {
 }
 
 const char* StateFeedbackLaw::Step(const upright_reference& reference,
-                                   const design::StateVector& state, upright_step_output* output) {
+                                   const design::StateVector& state,
+                                   const Eigen::Vector2d& wheel_speeds_rad_s,
+                                   upright_step_output* output) {
   if (const char* why = tracker_.Follow(reference)) return why;
   double lean_rad = 0;
   Eigen::Vector2d steady_input;
@@ -59,7 +61,10 @@ const char* StateFeedbackLaw::Step(const upright_reference& reference,
               &steady_input);
   tracker_.Error(state, &error_);
   error_(design::kPitch) -= lean_rad;
-  command_ = Clamped(steady_input - gain_ * error_, input_limit_);
+  command_ =
+      LimitWithPitchPriority(steady_input - gain_ * error_, limits_.At(wheel_speeds_rad_s(0)),
+                             limits_.At(wheel_speeds_rad_s(1)))
+          .command;
   output->command[0] = command_(0);
   output->command[1] = command_(1);
   double* d = output->diagnostics;

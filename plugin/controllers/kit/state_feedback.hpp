@@ -1,12 +1,14 @@
 // State-feedback law (internal to the built-in modules): each tick's state (estimated or true)
 // and reference in; the wheel commands u = u_ss − K e on the error from the steady motion the
 // reference asks for (integrated position and heading, speed, yaw rate, and the lean its
-// acceleration takes), limited per wheel, and the diagnostics every state-feedback module
-// reports, out.
+// acceleration takes), limited to what the drives can carry out at the wheels' speeds, balance
+// before heading (command_limit.hpp), and the diagnostics every state-feedback module reports,
+// out.
 #pragma once
 
 #include <vector>
 
+#include "kit/command_limit.hpp"
 #include "kit/config.hpp"
 #include "kit/module_context.hpp"
 #include "kit/tracking.hpp"
@@ -27,26 +29,29 @@ class StateFeedbackLaw {
   // The diagnostics Step writes, in order, into the first slots of the output.
   static const std::vector<const char*>& DiagnosticNames();
 
-  // `gain`: u = −K e, for `plant`'s input kind; `input_limit` per wheel, V or N·m; `tracker`
+  // `gain`: u = −K e, for `plant`'s input kind; `limits` the drive's, of that kind; `tracker`
   // as configured, at its reset state. UPRIGHT_UNSUPPORTED when `plant` cannot hold a steady
   // motion (SteadyMotion::Of).
   static Result<StateFeedbackLaw, ModuleError> For(const design::LinearModel& plant,
-                                                   const design::Gain& gain, double input_limit,
+                                                   const design::Gain& gain,
+                                                   const DriveLimits& limits,
                                                    const ReferenceTracker& tracker);
   void Reset();
   // Writes the commands and the diagnostics; nullptr, or a message in static storage.
+  // `wheel_speeds_rad_s`: each wheel's speed relative to the chassis, for the drive's limits.
   const char* Step(const upright_reference& reference, const design::StateVector& state,
-                   upright_step_output* output);
+                   const Eigen::Vector2d& wheel_speeds_rad_s, upright_step_output* output);
   // The commands of the latest Step (zero before the first).
   const Eigen::Vector2d& command() const { return command_; }
 
  private:
   StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain,
-                   const SteadyMotion& steady, double input_limit, const ReferenceTracker& tracker);
+                   const SteadyMotion& steady, const DriveLimits& limits,
+                   const ReferenceTracker& tracker);
 
   design::Gain gain_;
   SteadyMotion steady_;
-  double input_limit_;
+  DriveLimits limits_;
   double equilibrium_pitch_rad_;
   ReferenceTracker tracker_;
   design::StateVector error_ = design::StateVector::Zero();

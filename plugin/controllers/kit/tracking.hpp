@@ -1,7 +1,7 @@
 // Reference tracking (internal to the built-in modules): each tick's reference (forward speed,
 // yaw rate) and state in; the reference limited in acceleration and integrated into position
-// and heading, the error state the state-feedback modules act on, the steady lean and inputs a
-// reference motion takes, and the per-wheel command limit out.
+// and heading, the error state the state-feedback modules act on, and the steady lean and inputs a
+// reference motion takes, out.
 #pragma once
 
 #include <Eigen/Dense>
@@ -56,11 +56,5 @@ class SteadyMotion {
   Eigen::Matrix3d solve_;  // [θ_ss, u_L, u_R] = solve_ ([a, 0, 0] − speed_terms_ [v, r])
   Eigen::Matrix<double, 3, 2> speed_terms_;
 };
-
-// Each command limited to ±limit (the drive cuts there anyway; clamping here keeps what a module
-// believes it applied equal to what it asked for).
-inline Eigen::Vector2d Clamped(const Eigen::Vector2d& command, double limit) {
-  return command.cwiseMax(-limit).cwiseMin(limit);
-}
 
 }  // namespace upright::controllers

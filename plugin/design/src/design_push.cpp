@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <numbers>
 #include <sstream>
 #include <unsupported/Eigen/MatrixFunctions>
 
@@ -17,7 +18,7 @@ constexpr double kTimeConstantsAfter = 10;
 
 }  // namespace
 
-double DesignPush::peak_N() const { return kPi / 2 * impulse_Ns / duration_s; }
+double DesignPush::peak_N() const { return std::numbers::pi / 2 * impulse_Ns / duration_s; }
 
 DesignPush DesignPushFor(const LinearModel& plant, double push_scale_N) {
   // From A rather than fall_rate_1_s, so that a model rebuilt from the matrices alone (a module's)
@@ -50,7 +51,7 @@ Result<PushPeaks> LinearPushPeaks(const LinearModel& plant, const Gain& K,
   // ξ = [x; sin ωt; cos ωt]: ẋ = (A − BK) x + E₁ F_peak sin ωt, and the oscillator (ω = π / T)
   // that makes the half-sine, so one matrix exponential steps the pushed loop exactly.
   constexpr int n = kStates + 2;
-  const double omega = kPi / push.duration_s;
+  const double omega = std::numbers::pi / push.duration_s;
   Eigen::Matrix<double, n, n> pushed = Eigen::Matrix<double, n, n>::Zero();
   pushed.topLeftCorner<kStates, kStates>() = closed;
   pushed.block<kStates, 1>(0, kStates) = plant.E.col(0) * push.peak_N();

@@ -38,7 +38,8 @@ void NoteUnanalysedDelay(ControllerReport* report, double latency_s, double peri
 // The γ the H-infinity design sits at: the one asked for, factor × γ_opt, or the rule's
 // (ChooseGamma); the report notes which, and the rule's choice.
 Result<double> PickGamma(const DesignRequest& req, const LinearModel& plant,
-                         const Performance& perf, const RobotModel& model, HinfReport* report) {
+                         const Performance& perf, const model::RobotModel& model,
+                         HinfReport* report) {
   if (req.gamma > 0) {
     report->source = GammaSource::kGiven;
     return req.gamma;
@@ -98,7 +99,7 @@ Status DesignRequest::Validate() const {
   return Failure(why.str());
 }
 
-DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
+DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request) {
   DesignSet set;
   set.request = request;
   DesignRequest& req = set.request;
@@ -106,7 +107,7 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
   set.plant = Linearise(model, req.input, req.push_height_m);
   const LinearModel& plant = set.plant;
   if (req.push_scale_N == 0) {
-    req.push_scale_N = 0.1 * model.total_mass_kg() * kStandardGravity_m_s2;
+    req.push_scale_N = 0.1 * model.total_mass_kg() * model::kStandardGravity_m_s2;
   }
   set.limits = RobotLimits{GroundContact(model, plant.equilibrium_pitch_rad),
                            InputLimit(model, req.input), model.motor.current_limit_A};
@@ -194,6 +195,8 @@ DesignSet DesignAll(const RobotModel& model, const DesignRequest& request) {
     set.lqg.K_discrete = *lqr_d;
     set.lqg.L = filter.L;
     set.lqg.L_discrete = filter.L_discrete;
+    set.lqg.Ad = filter.Ad;
+    set.lqg.Bd = filter.Bd;
     set.lqg.sampled = SampledLqg(*lqr_d, filter, period_s);
     set.lqg.estimator_fastest_1_s =
         (plant.A - filter.L * filter.sensors.C).eigenvalues().cwiseAbs().maxCoeff();

@@ -31,13 +31,13 @@ Result<Tried> Try(const LinearModel& plant, const Performance& perf, const Curre
 
 }  // namespace
 
-PushLimits PushLimitsOf(const RobotModel& model, double equilibrium_pitch_rad) {
+PushLimits PushLimitsOf(const model::RobotModel& model, double equilibrium_pitch_rad) {
   return PushLimits{GroundContact(model, equilibrium_pitch_rad).smallest_rad(),
                     model.motor.current_limit_A};
 }
 
 Result<GammaChoice> ChooseGamma(const LinearModel& plant, const Performance& perf, double gamma_opt,
-                                const RobotModel& model) {
+                                const model::RobotModel& model) {
   if (!(gamma_opt > 0) || !std::isfinite(gamma_opt)) {
     std::ostringstream why;
     why << "gamma rule: gamma_opt = " << gamma_opt << ", must be > 0 and finite";
@@ -75,7 +75,7 @@ Result<GammaChoice> ChooseGamma(const LinearModel& plant, const Performance& per
 }
 
 std::vector<GammaPoint> GammaTradeOff(const LinearModel& plant, const Performance& perf,
-                                      double gamma_opt, const RobotModel& model) {
+                                      double gamma_opt, const model::RobotModel& model) {
   const CurrentMap current = MotorCurrent(model, plant.input);
   const DesignPush push = DesignPushFor(plant, perf.push_scale_N);
   const PushLimits limits = PushLimitsOf(model, plant.equilibrium_pitch_rad);

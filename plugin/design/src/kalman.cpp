@@ -1,4 +1,5 @@
 #include <cmath>
+#include <numbers>
 
 #include "upright/design/synthesis.hpp"
 #include "upright/model/conventions.hpp"
@@ -14,11 +15,11 @@ double QuantisationVariance(double step) { return step * step / 12; }
 
 }  // namespace
 
-SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel& plant) {
-  const SensorModel& s = model.sensors;
+SensorLinearisation LineariseSensors(const model::RobotModel& model, const LinearModel& plant) {
+  const model::SensorModel& s = model.sensors;
   const double r = model.wheel.radius_m, half_track = model.wheel.track_m / 2;
-  const double g = kStandardGravity_m_s2;
-  const double count_rad = 2 * kPi / s.encoder_counts_per_rev;
+  const double g = model::kStandardGravity_m_s2;
+  const double count_rad = 2 * std::numbers::pi / s.encoder_counts_per_rev;
   // A sampled white-noise density N gives σ² = N² f_s per sample (as the plant samples it).
   const double gyro_var = s.gyro_noise_rad_s_rthz * s.gyro_noise_rad_s_rthz * s.imu_rate_hz +
                           QuantisationVariance(s.gyro_resolution_rad_s);

@@ -16,9 +16,9 @@ struct Constants {
   double mb, L, alpha, j_pitch, mx, r, half_track, j_yaw;
 };
 
-Constants ConstantsOf(const RobotModel& model) {
+Constants ConstantsOf(const model::RobotModel& model) {
   const LumpedBody body = LumpBody(model);
-  const WheelModel& w = model.wheel;
+  const model::WheelModel& w = model.wheel;
   Constants c;
   c.mb = body.mass_kg;
   c.L = std::hypot(body.com_height_m, body.com_forward_m);
@@ -38,8 +38,8 @@ Constants ConstantsOf(const RobotModel& model) {
 
 }  // namespace
 
-LumpedBody LumpBody(const RobotModel& model) {
-  const ChassisModel& c = model.chassis;
+LumpedBody LumpBody(const model::RobotModel& model) {
+  const model::ChassisModel& c = model.chassis;
   LumpedBody b;
   b.mass_kg = c.mass_kg;
   b.com_height_m = c.com_height_m;
@@ -49,7 +49,7 @@ LumpedBody LumpBody(const RobotModel& model) {
   b.yaw_inertia_kgm2 = c.yaw_inertia_kgm2;
   if (!model.payload.present) return b;
   // Parallel-axis theorem (mechanics handbook, from memory); the payload is a uniform box.
-  const PayloadModel& p = model.payload;
+  const model::PayloadModel& p = model.payload;
   const double m = c.mass_kg + p.mass_kg;
   const double z = (c.mass_kg * c.com_height_m + p.mass_kg * p.z_m) / m;
   const double x = (c.mass_kg * c.com_forward_m + p.mass_kg * p.x_m) / m;
@@ -69,9 +69,9 @@ LumpedBody LumpBody(const RobotModel& model) {
   return b;
 }
 
-LinearModel Linearise(const RobotModel& model, InputKind input, double push_height_m) {
+LinearModel Linearise(const model::RobotModel& model, InputKind input, double push_height_m) {
   const Constants c = ConstantsOf(model);
-  const double g = kStandardGravity_m_s2;
+  const double g = model::kStandardGravity_m_s2;
   LinearModel lm;
   lm.input = input;
   lm.body = LumpBody(model);
@@ -98,10 +98,10 @@ LinearModel Linearise(const RobotModel& model, InputKind input, double push_heig
   lm.A(kPitchRate, kPitch) = per_pitch(1);
   const Eigen::Vector2d per_torque = accelerations(1 / c.r, -1);  // per N·m on one wheel
   const double yaw_per_torque = c.half_track / (c.r * c.j_yaw);   // ψ̈ per N·m, right wheel
-  for (int wheel : {kLeft, kRight}) {
+  for (int wheel : {model::kLeft, model::kRight}) {
     lm.B(kXDot, wheel) = per_torque(0);
     lm.B(kPitchRate, wheel) = per_torque(1);
-    lm.B(kYawRate, wheel) = wheel == kRight ? yaw_per_torque : -yaw_per_torque;
+    lm.B(kYawRate, wheel) = wheel == model::kRight ? yaw_per_torque : -yaw_per_torque;
   }
   const Eigen::Vector2d per_push = accelerations(1, lm.push_height_m * std::cos(c.alpha));
   const Eigen::Vector2d per_pitch_torque = accelerations(0, 1);
@@ -112,28 +112,28 @@ LinearModel Linearise(const RobotModel& model, InputKind input, double push_heig
     // τ = k_V V − c_m ω_rel with ω_rel the wheel speed relative to the chassis (back-EMF and
     // viscous friction): left (ẋ − d ψ̇)/r − θ̇, right (ẋ + d ψ̇)/r − θ̇ (DC motor equations,
     // handbook, from memory).
-    const MotorModel& m = model.motor;
+    const model::MotorModel& m = model.motor;
     const double k_v = m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A / m.resistance_ohm;
     const double c_m = m.gear_ratio * m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A *
                            m.back_emf_V_s_per_rad / m.resistance_ohm +
                        m.viscous_friction_Nm_s_per_rad;
     Eigen::Matrix<double, kInputs, kStates> rel_speed = Eigen::Matrix<double, kInputs, kStates>::Zero();
-    rel_speed.row(kLeft) << 0, 1 / c.r, 0, -1, 0, -c.half_track / c.r;
-    rel_speed.row(kRight) << 0, 1 / c.r, 0, -1, 0, c.half_track / c.r;
+    rel_speed.row(model::kLeft) << 0, 1 / c.r, 0, -1, 0, -c.half_track / c.r;
+    rel_speed.row(model::kRight) << 0, 1 / c.r, 0, -1, 0, c.half_track / c.r;
     lm.A -= c_m * lm.B * rel_speed;
     lm.B *= k_v;
   }
   return lm;
 }
 
-StateVector NonlinearDerivative(const RobotModel& model, const StateVector& x,
+StateVector NonlinearDerivative(const model::RobotModel& model, const StateVector& x,
                                 const Eigen::Vector2d& torque_Nm, const Eigen::Vector2d& w,
                                 double push_height_m) {
   const Constants c = ConstantsOf(model);
-  const double g = kStandardGravity_m_s2;
+  const double g = model::kStandardGravity_m_s2;
   const double phi = x(kPitch) + c.alpha, phi_dot = x(kPitchRate);
   const double mbl = c.mb * c.L;
-  const double u = torque_Nm(kLeft) + torque_Nm(kRight);
+  const double u = torque_Nm(model::kLeft) + torque_Nm(model::kRight);
   //   M_x ẍ + m_b L (cos φ φ̈ − sin φ φ̇²) = u/r + F
   //   m_b L cos φ ẍ + J φ̈ − m_b g L sin φ = −u + F h cos θ + T
   const double m11 = c.mx, m12 = mbl * std::cos(phi), m22 = c.j_pitch;
@@ -142,7 +142,8 @@ StateVector NonlinearDerivative(const RobotModel& model, const StateVector& x,
   const double det = m11 * m22 - m12 * m12;
   StateVector dx;
   dx << x(kXDot), (m22 * f1 - m12 * f2) / det, x(kPitchRate), (m11 * f2 - m12 * f1) / det,
-      x(kYawRate), c.half_track * (torque_Nm(kRight) - torque_Nm(kLeft)) / (c.r * c.j_yaw);
+      x(kYawRate),
+      c.half_track * (torque_Nm(model::kRight) - torque_Nm(model::kLeft)) / (c.r * c.j_yaw);
   return dx;
 }
 

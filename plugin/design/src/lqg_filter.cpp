@@ -4,16 +4,17 @@
 
 namespace upright::design {
 
-FilterNoise DefaultFilterNoise(const RobotModel& model, const LinearModel& plant) {
+FilterNoise DefaultFilterNoise(const model::RobotModel& model, const LinearModel& plant) {
   const double total_mass_kg = model.total_mass_kg();
   FilterNoise noise;
-  noise.push_sigma_N = 0.05 * total_mass_kg * kStandardGravity_m_s2;
-  noise.torque_sigma_Nm = 0.05 * plant.body.mass_kg * kStandardGravity_m_s2 * 0.1;
-  noise.yaw_torque_sigma_Nm = 0.05 * total_mass_kg * kStandardGravity_m_s2 * model.wheel.track_m / 2;
+  noise.push_sigma_N = 0.05 * total_mass_kg * model::kStandardGravity_m_s2;
+  noise.torque_sigma_Nm = 0.05 * plant.body.mass_kg * model::kStandardGravity_m_s2 * 0.1;
+  noise.yaw_torque_sigma_Nm =
+      0.05 * total_mass_kg * model::kStandardGravity_m_s2 * model.wheel.track_m / 2;
   return noise;
 }
 
-SensorLinearisation FilterSensors(const RobotModel& model, const LinearModel& plant,
+SensorLinearisation FilterSensors(const model::RobotModel& model, const LinearModel& plant,
                                   const FilterNoise& noise) {
   // The sensors, with the accelerometer's variance widened by the disturbances it feels
   // directly. f_x / g holds (ẍ + h θ̈) / g, into which this sample's push and pitch torque w enter
@@ -25,7 +26,7 @@ SensorLinearisation FilterSensors(const RobotModel& model, const LinearModel& pl
   SensorLinearisation sensors = LineariseSensors(model, plant);
   const double h = model.sensors.imu_z_m;
   const Eigen::RowVector2d F =
-      (plant.E.row(kXDot) + h * plant.E.row(kPitchRate)) / kStandardGravity_m_s2;
+      (plant.E.row(kXDot) + h * plant.E.row(kPitchRate)) / model::kStandardGravity_m_s2;
   const Eigen::Vector2d w_variance(noise.push_sigma_N * noise.push_sigma_N,
                                    noise.torque_sigma_Nm * noise.torque_sigma_Nm);
   constexpr int kAccelRow = SensorLinearisation::kAccelRow;
@@ -33,7 +34,8 @@ SensorLinearisation FilterSensors(const RobotModel& model, const LinearModel& pl
   return sensors;
 }
 
-Result<LqgFilter, SolveError> DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
+Result<LqgFilter, SolveError> DesignLqgFilter(const model::RobotModel& model,
+                                              const LinearModel& plant,
                                               const LinearModel& torque_plant,
                                               const FilterNoise& noise, double period_s) {
   LqgFilter f;
@@ -46,7 +48,7 @@ Result<LqgFilter, SolveError> DesignLqgFilter(const RobotModel& model, const Lin
   // the turn (the tabletop robot turned 95° of 143° in 5 s, against 137° with it).
   StateVector yaw_torque = StateVector::Zero();
   yaw_torque(kYawRate) =
-      torque_plant.B(kYawRate, kRight) * model.wheel.radius_m / (model.wheel.track_m / 2);
+      torque_plant.B(kYawRate, model::kRight) * model.wheel.radius_m / (model.wheel.track_m / 2);
   Eigen::MatrixXd inputs(kStates, kInputs + kDisturbances + 1);
   inputs << plant.B, plant.E, yaw_torque;
   const Result<ZohSystem, SolveError> sampled = DiscretiseZoh(plant.A, inputs, period_s);

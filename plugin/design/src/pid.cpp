@@ -1,6 +1,7 @@
 #include "upright/design/pid.hpp"
 
 #include <cmath>
+#include <numbers>
 
 #include "upright/model/conventions.hpp"
 
@@ -26,9 +27,9 @@ PidGains TunePid(const LinearModel& plant, double max_tilt_deg) {
   // on these robots. Per unit of the summed torque u = τ_L + τ_R:
   //   ξ̇ = v, v̇ = a_xθ θ + b_x u, θ̈ = λ² θ + b_θ u.
   const double lambda = plant.fall_rate_1_s;
-  const double b_theta = plant.B(kPitchRate, kLeft);
-  const double a_x_theta = plant.A(kXDot, kPitch), b_x = plant.B(kXDot, kLeft);
-  const double b_psi = plant.B(kYawRate, kRight);
+  const double b_theta = plant.B(kPitchRate, model::kLeft);
+  const double a_x_theta = plant.A(kXDot, kPitch), b_x = plant.B(kXDot, model::kLeft);
+  const double b_psi = plant.B(kYawRate, model::kRight);
   PidGains g;
   g.tilt_bandwidth_rad_s = 2 * lambda;
   g.speed_bandwidth_rad_s = lambda / 3;
@@ -53,7 +54,7 @@ PidGains TunePid(const LinearModel& plant, double max_tilt_deg) {
   g.tilt_kd_Nm_s_per_rad = k(3);
   g.speed_kp_rad_per_m_s = k(1) / k(2);
   g.speed_ki_rad_per_m = k(0) / k(2);
-  g.max_tilt_ref_rad = max_tilt_deg * kPi / 180;
+  g.max_tilt_ref_rad = max_tilt_deg * std::numbers::pi / 180;
   // Yaw-rate loop, PI: a first-order response at ω_y = λ, the integral's zero at ω_y / 4 so it
   // trims offsets without adding much overshoot (common practice).
   g.yaw_bandwidth_rad_s = lambda;

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <sstream>
 
 #include "upright/model/conventions.hpp"
@@ -9,7 +10,7 @@
 namespace upright::design {
 namespace {
 
-constexpr double kLyingFlat_rad = kPi / 2;
+constexpr double kLyingFlat_rad = std::numbers::pi / 2;
 
 // The first pitch past `from` (going up when `direction` is +1, down when −1) at which the
 // corner (x, z) of a body whose axle is r above the ground touches it, as the distance from
@@ -25,7 +26,8 @@ double FirstTouch(double x, double z, double r, double from, int direction) {
   for (const double root : {-beta + half_width, -beta - half_width}) {
     // The root's images θ + 2πk, the first of them strictly past `from` in `direction`.
     const double ahead = direction * (root - from);
-    const double distance = ahead - 2 * kPi * std::floor(ahead / (2 * kPi));
+    const double distance =
+        ahead - 2 * std::numbers::pi * std::floor(ahead / (2 * std::numbers::pi));
     if (distance > 0) nearest = std::min(nearest, distance);
   }
   return nearest;
@@ -33,8 +35,8 @@ double FirstTouch(double x, double z, double r, double from, int direction) {
 
 }  // namespace
 
-GroundContactTilt GroundContact(const RobotModel& model, double equilibrium) {
-  const ChassisModel& c = model.chassis;
+GroundContactTilt GroundContact(const model::RobotModel& model, double equilibrium) {
+  const model::ChassisModel& c = model.chassis;
   const double r = model.wheel.radius_m;
   GroundContactTilt tilt{kLyingFlat_rad, kLyingFlat_rad};
   for (const double x : {c.outline_front_m, c.outline_rear_m}) {
@@ -48,7 +50,7 @@ GroundContactTilt GroundContact(const RobotModel& model, double equilibrium) {
   return tilt;
 }
 
-Result<DesignWeights> WeightsForRobot(const DesignWeights& weights, const RobotModel& model,
+Result<DesignWeights> WeightsForRobot(const DesignWeights& weights, const model::RobotModel& model,
                                       double equilibrium_pitch_rad) {
   DesignWeights out = weights;
   if (out.max_tilt_deg == 0) {
@@ -58,13 +60,13 @@ Result<DesignWeights> WeightsForRobot(const DesignWeights& weights, const RobotM
           "the chassis outline touches the ground at the equilibrium pitch, so there is no "
           "ground-contact tilt to take the acceptable tilt from: set max_tilt_deg");
     }
-    out.max_tilt_deg = kTiltShareOfGroundContact * contact_rad * 180 / kPi;
+    out.max_tilt_deg = kTiltShareOfGroundContact * contact_rad * 180 / std::numbers::pi;
   }
   return out;
 }
 
-CurrentMap MotorCurrent(const RobotModel& model, InputKind input) {
-  const MotorModel& m = model.motor;
+CurrentMap MotorCurrent(const model::RobotModel& model, InputKind input) {
+  const model::MotorModel& m = model.motor;
   CurrentMap map;
   if (input == InputKind::kTorque) {
     map.per_input = 1 / (m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A);
@@ -73,8 +75,8 @@ CurrentMap MotorCurrent(const RobotModel& model, InputKind input) {
   const double r = model.wheel.radius_m, d = model.wheel.track_m / 2;
   const double per_rad_s = -m.gear_ratio * m.back_emf_V_s_per_rad / m.resistance_ohm;
   map.per_input = 1 / m.resistance_ohm;
-  map.per_state.row(kLeft) << 0, per_rad_s / r, 0, -per_rad_s, 0, -per_rad_s * d / r;
-  map.per_state.row(kRight) << 0, per_rad_s / r, 0, -per_rad_s, 0, per_rad_s * d / r;
+  map.per_state.row(model::kLeft) << 0, per_rad_s / r, 0, -per_rad_s, 0, -per_rad_s * d / r;
+  map.per_state.row(model::kRight) << 0, per_rad_s / r, 0, -per_rad_s, 0, per_rad_s * d / r;
   return map;
 }
 

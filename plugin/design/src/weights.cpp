@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <sstream>
 
 #include "upright/model/check.hpp"
@@ -33,8 +34,8 @@ Status DesignWeights::Validate() const {
   return Failure(why.str());
 }
 
-double InputLimit(const RobotModel& model, InputKind input) {
-  const MotorModel& m = model.motor;
+double InputLimit(const model::RobotModel& model, InputKind input) {
+  const model::MotorModel& m = model.motor;
   if (input == InputKind::kVoltage) return m.supply_V;
   return m.gear_ratio * m.gear_efficiency * m.torque_constant_Nm_per_A *
          std::min(m.supply_V / m.resistance_ohm, m.current_limit_A);
@@ -43,14 +44,15 @@ double InputLimit(const RobotModel& model, InputKind input) {
 StateMatrix StateWeight(const DesignWeights& w) {
   UPRIGHT_CHECK(w.max_tilt_deg > 0, "StateWeight: max_tilt_deg = %g, not resolved for the robot",
                 w.max_tilt_deg);
-  const double deg = kPi / 180;
+  const double deg = std::numbers::pi / 180;
   StateVector max;
   max << w.max_drift_m, w.max_speed_m_s, w.max_tilt_deg * deg, w.max_tilt_rate_deg_s * deg,
       w.max_yaw_deg * deg, w.max_yaw_rate_deg_s * deg;
   return max.cwiseProduct(max).cwiseInverse().asDiagonal();
 }
 
-Eigen::Matrix2d InputWeight(const DesignWeights& w, const RobotModel& model, InputKind input) {
+Eigen::Matrix2d InputWeight(const DesignWeights& w, const model::RobotModel& model,
+                            InputKind input) {
   const double max = w.max_input_fraction * InputLimit(model, input);
   return Eigen::Matrix2d::Identity() / (max * max);
 }

@@ -15,7 +15,7 @@ void CopyRowMajor(const Matrix& m, double* out) {
 
 }  // namespace
 
-upright_robot RobotForModule(const RobotModel& m) {
+upright_robot RobotForModule(const model::RobotModel& m) {
   upright_robot r{};
   r.struct_size = sizeof r;
   r.chassis_mass_kg = m.chassis.mass_kg;
@@ -56,7 +56,7 @@ upright_robot RobotForModule(const RobotModel& m) {
   return r;
 }
 
-upright_linear_model LinearForModule(const RobotModel& model) {
+upright_linear_model LinearForModule(const model::RobotModel& model) {
   const design::LinearModel torque = design::Linearise(model, design::InputKind::kTorque);
   const design::LinearModel voltage = design::Linearise(model, design::InputKind::kVoltage);
   upright_linear_model l{};

@@ -6,7 +6,7 @@
 
 namespace upright::host::internal {
 
-upright_robot RobotForModule(const RobotModel& model);
-upright_linear_model LinearForModule(const RobotModel& model);
+upright_robot RobotForModule(const model::RobotModel& model);
+upright_linear_model LinearForModule(const model::RobotModel& model);
 
 }  // namespace upright::host::internal

@@ -22,7 +22,7 @@ std::string Message(const char* buffer) {
 }  // namespace
 
 Result<std::unique_ptr<ControllerHost>> ControllerHost::Create(const ControllerSpec& spec,
-                                                               const RobotModel& model,
+                                                               const model::RobotModel& model,
                                                                double dt_s) {
   if (!spec.module) return Failure("ControllerSpec::module is null");
   const std::string who = "controller '" + spec.module->name() + "' (" + spec.module->path() + ")";

@@ -4,7 +4,7 @@
 #include <cmath>
 #include <limits>
 
-namespace upright {
+namespace upright::model {
 namespace {
 
 double Tolerance(double value, double limit, double scale) {
@@ -22,4 +22,4 @@ bool LessThan(double value, double limit, double scale) {
   return value < limit - Tolerance(value, limit, scale);
 }
 
-}  // namespace upright
+}  // namespace upright::model

@@ -4,7 +4,7 @@
 
 #include "model_schema.hpp"
 
-namespace upright {
+namespace upright::model {
 namespace {
 
 // The schema row for element.attribute that a RobotModel holds, or why there is none.
@@ -65,4 +65,4 @@ Status SetModelField(RobotModel* model, std::string_view element, std::string_vi
   return {};
 }
 
-}  // namespace upright
+}  // namespace upright::model

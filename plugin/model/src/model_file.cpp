@@ -8,7 +8,7 @@
 #include "model_schema.hpp"
 #include "upright/model/xml_reader.hpp"
 
-namespace upright {
+namespace upright::model {
 namespace {
 
 using internal::ElementRule;
@@ -223,4 +223,4 @@ Result<RobotModel, std::vector<FileError>> ParseModelText(std::string_view xml_t
   return Load(XmlDocument::Parse(xml_text, path), options);
 }
 
-}  // namespace upright
+}  // namespace upright::model

@@ -10,7 +10,7 @@
 #include "upright/model/model_file.hpp"
 #include "upright/model/seconds_hint.hpp"
 
-namespace upright::internal {
+namespace upright::model::internal {
 namespace {
 
 constexpr Limit Above(double value) { return {Bound::kOpen, value}; }
@@ -776,4 +776,4 @@ std::string RangeText(const FieldRule& rule) {
   return text.empty() ? "any" : text;
 }
 
-}  // namespace upright::internal
+}  // namespace upright::model::internal

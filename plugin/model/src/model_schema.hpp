@@ -10,7 +10,7 @@
 #include "upright/base/result.hpp"
 #include "upright/model/robot_model.hpp"
 
-namespace upright::internal {
+namespace upright::model::internal {
 
 // The root element of a model file and the schema version it states. Schema 2 renamed the root
 // (formerly <robot>) and the chassis inertia elements (formerly <inertia> and <box>).
@@ -101,5 +101,4 @@ Status CheckField(const FieldRule& rule, double value);
 // The allowed values as the documentation shows them: "> 0", "(0, 1]", "whole, >= 1", "any".
 std::string RangeText(const FieldRule& rule);
 
-
-}  // namespace upright::internal
+}  // namespace upright::model::internal

@@ -4,7 +4,7 @@
 #include "upright/base/number_text.hpp"
 #include "upright/model/model_file.hpp"
 
-namespace upright {
+namespace upright::model {
 namespace {
 
 std::string OccursText(const internal::ElementRule& rule) {
@@ -70,4 +70,4 @@ std::string ModelSchemaMarkdown() {
   return text;
 }
 
-}  // namespace upright
+}  // namespace upright::model

@@ -5,7 +5,7 @@
 #include "model_schema.hpp"
 #include "upright/model/model_file.hpp"
 
-namespace upright {
+namespace upright::model {
 
 Result<void, std::vector<std::string>> ValidateModel(const RobotModel& model) {
   internal::ModelDraft draft{.model = model};
@@ -32,4 +32,4 @@ Result<void, std::vector<std::string>> ValidateModel(const RobotModel& model) {
   return {};
 }
 
-}  // namespace upright
+}  // namespace upright::model

@@ -4,11 +4,11 @@
 
 #include "upright/base/number_text.hpp"
 
-namespace upright {
+namespace upright::model {
 
 std::string SecondsHint(double value_s) {
   return "the field is in seconds: " + ShortestFixedText(value_s) + " ms is " +
          ShortestFixedText(value_s / 1000);
 }
 
-}  // namespace upright
+}  // namespace upright::model

@@ -12,7 +12,7 @@
 #include <system_error>
 #include <utility>
 
-namespace upright {
+namespace upright::model {
 namespace internal {
 
 // One element, copied out of the parser's tree together with what the caller has asked of it.
@@ -518,4 +518,4 @@ std::vector<XmlElement> XmlElement::Peek(std::string_view name) const {
   return found;
 }
 
-}  // namespace upright
+}  // namespace upright::model

@@ -7,9 +7,8 @@
 
 namespace upright::sim {
 
-MotorOutput EvaluateMotor(const MotorModel& m, DriveMode mode, double command,
-                          double rel_speed_rad_s, double coulomb_band_rad_s,
-                          double torque_scale) {
+MotorOutput EvaluateMotor(const model::MotorModel& m, DriveMode mode, double command,
+                          double rel_speed_rad_s, double coulomb_band_rad_s, double torque_scale) {
   UPRIGHT_CHECK(torque_scale >= 0 && torque_scale <= 1, "torque_scale = %g", torque_scale);
   const double coulomb_Nm =
       m.coulomb_friction_Nm * std::clamp(rel_speed_rad_s / coulomb_band_rad_s, -1.0, 1.0);
@@ -51,7 +50,7 @@ MotorOutput EvaluateMotor(const MotorModel& m, DriveMode mode, double command,
   return out;
 }
 
-double MotorCoulombBand(const MotorModel& m, double spin_inertia_kgm2, double dt_s) {
+double MotorCoulombBand(const model::MotorModel& m, double spin_inertia_kgm2, double dt_s) {
   // Inside the band the friction acts as a damper of slope c / band; an explicit step stays well
   // inside its stability limit (slope · dt / I < 2) when slope · dt / I ≤ 0.5.
   const double stable_band = 2.0 * m.coulomb_friction_Nm * dt_s / spin_inertia_kgm2;

@@ -1,11 +1,11 @@
 #include "upright/sim/plant.hpp"
 
-#include <btBulletDynamicsCommon.h>
-
 #include <BulletDynamics/Featherstone/btMultiBody.h>
+#include <btBulletDynamicsCommon.h>
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <sstream>
 
 #include "contact_readout.hpp"
@@ -27,7 +27,7 @@ Status PlantOptions::Validate() const {
   } else if (!std::isfinite(initial.x_m) || !std::isfinite(initial.speed_m_s)) {
     why << "PlantOptions::initial x_m = " << initial.x_m << ", speed_m_s = " << initial.speed_m_s
         << ", must be finite";
-  } else if (!(std::abs(initial.pitch_rad) < kPi / 2)) {
+  } else if (!(std::abs(initial.pitch_rad) < std::numbers::pi / 2)) {
     why << "PlantOptions::initial.pitch_rad = " << initial.pitch_rad << ", must be in (-pi/2, pi/2)";
   } else if (fixed_chassis && !(fixed_height_m > 0 && std::isfinite(fixed_height_m))) {
     why << "PlantOptions::fixed_height_m = " << fixed_height_m << ", must be > 0";
@@ -45,7 +45,7 @@ namespace {
 
 // Rules that tie the model to the options: sample periods that are whole numbers of physics
 // steps, and damping terms the explicit step can integrate stably. The first broken one, if any.
-Status CheckModelAgainstOptions(const RobotModel& model, const PlantOptions& options) {
+Status CheckModelAgainstOptions(const model::RobotModel& model, const PlantOptions& options) {
   std::ostringstream why;
   const double dt = options.dt_s;
   auto whole_steps = [dt](double rate_hz) {
@@ -59,7 +59,7 @@ Status CheckModelAgainstOptions(const RobotModel& model, const PlantOptions& opt
     why << "imu rate_hz = " << model.sensors.imu_rate_hz << ": its period must be a whole number "
         << "of physics steps of dt_s = " << dt << " (or the IMU at least as fast as the physics)";
   } else {
-    const MotorModel& m = model.motor;
+    const model::MotorModel& m = model.motor;
     const double damping = m.viscous_friction_Nm_s_per_rad +
                            m.gear_ratio * m.gear_ratio * m.gear_efficiency *
                                m.torque_constant_Nm_per_A * m.back_emf_V_s_per_rad /
@@ -82,7 +82,7 @@ double SmoothSign(double x, double band) { return std::clamp(x / band, -1.0, 1.0
 
 class PlantImpl {
  public:
-  PlantImpl(const RobotModel& model, const PlantOptions& options)
+  PlantImpl(const model::RobotModel& model, const PlantOptions& options)
       : model_(model),
         options_(options),
         world_(options.dt_s, options.solver_iterations),
@@ -92,15 +92,15 @@ class PlantImpl {
     robot_ = BuildRobot(world_, model, options);
     coulomb_band_rad_s_ = MotorCoulombBand(model.motor, model.wheel.spin_inertia_kgm2, options.dt_s);
     const double rolling_Nm = model.wheel.rolling_resistance * model.total_mass_kg() *
-                              kStandardGravity_m_s2 / 2 * model.wheel.radius_m;
+                              model::kStandardGravity_m_s2 / 2 * model.wheel.radius_m;
     rolling_band_rad_s_ =
         std::max(1e-3, 2 * rolling_Nm * options.dt_s / model.wheel.spin_inertia_kgm2);
     payload_target_m_ = model.payload.x_m;
-    const PayloadModel& p = model.payload;
+    const model::PayloadModel& p = model.payload;
     // Carriage servo: critically damped at 20 Hz, well above the balance dynamics, so the payload
     // rides with the deck unless commanded (common practice for a stiff position loop; stable
     // at the physics step while ω·dt ≪ 2).
-    const double omega = 2 * kPi * 20.0;
+    const double omega = 2 * std::numbers::pi * 20.0;
     payload_stiffness_N_m_ = p.mass_kg * omega * omega;
     payload_damping_N_s_m_ = 2 * p.mass_kg * omega;
     pushes_.reserve(16);
@@ -161,7 +161,7 @@ class PlantImpl {
   }
   SensorSample Sense() const { return sensors_.Read(step_); }
 
-  const RobotModel model_;
+  const model::RobotModel model_;
   const PlantOptions options_;
   World world_;
   RobotBody robot_;
@@ -200,7 +200,7 @@ class PlantImpl {
       if (t1 <= p.start_s || t0 >= p.end_s()) continue;
       acting = true;
       const double f = p.MeanForce(t0, t1);
-      const double azimuth = p.direction_deg * kPi / 180;
+      const double azimuth = p.direction_deg * std::numbers::pi / 180;
       const btVector3 f_world = f * btVector3(std::cos(azimuth), std::sin(azimuth), 0);
       // Applied at height_m above the axle on the chassis's vertical axis.
       const btVector3 arm = base.getBasis() * (robot_.com_to_axle + btVector3(0, 0, p.height_m));
@@ -263,13 +263,14 @@ class PlantImpl {
 
     // IMU: rate from the body's angular velocity; specific force from the finite difference of
     // the IMU point's velocity over the step (the engine has no acceleration accessor).
-    const SensorModel& sm = model_.sensors;
+    const model::SensorModel& sm = model_.sensors;
     const btVector3 imu_arm = R * (robot_.com_to_axle + btVector3(sm.imu_x_m, sm.imu_y_m, sm.imu_z_m));
     const btVector3 imu_vel = v + w.cross(imu_arm);
     const btVector3 accel =
         step_ == 0 ? btVector3(0, 0, 0) : (imu_vel - imu_vel_prev_) / options_.dt_s;
     imu_vel_prev_ = imu_vel;
-    const btVector3 specific = R.transpose() * (accel + btVector3(0, 0, kStandardGravity_m_s2));
+    const btVector3 specific =
+        R.transpose() * (accel + btVector3(0, 0, model::kStandardGravity_m_s2));
     Measurement m;
     m.gyro_rad_s = {wb.x(), wb.y(), wb.z()};
     m.accel_m_s2 = {specific.x(), specific.y(), specific.z()};
@@ -291,8 +292,9 @@ class PlantImpl {
 
 }  // namespace internal
 
-Result<std::unique_ptr<Plant>> Plant::Create(const RobotModel& model, const PlantOptions& options) {
-  if (const auto valid_model = ValidateModel(model); !valid_model) {
+Result<std::unique_ptr<Plant>> Plant::Create(const model::RobotModel& model,
+                                             const PlantOptions& options) {
+  if (const auto valid_model = model::ValidateModel(model); !valid_model) {
     return Failure("robot model: " + valid_model.error().front());
   }
   if (Status valid = options.Validate(); !valid) return Failure(valid.error());
@@ -317,7 +319,7 @@ const TrueState& Plant::truth() const { return impl_->truth_; }
 SensorSample Plant::Sense() const { return impl_->Sense(); }
 const MotorState& Plant::motors() const { return impl_->motors_; }
 const ContactState& Plant::contact() const { return impl_->contact_; }
-const RobotModel& Plant::model() const { return impl_->model_; }
+const model::RobotModel& Plant::model() const { return impl_->model_; }
 const PlantOptions& Plant::options() const { return impl_->options_; }
 bool Plant::diverged() const { return impl_->diverged_; }
 

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <sstream>
 
 #include "upright/model/conventions.hpp"
@@ -13,7 +14,7 @@ namespace {
 double UnitIntegral(PushShape shape, double duration_s, double tau_s) {
   const double t = std::clamp(tau_s, 0.0, duration_s);
   if (shape == PushShape::kHalfSine) {
-    return duration_s / kPi * (1.0 - std::cos(kPi * t / duration_s));
+    return duration_s / std::numbers::pi * (1.0 - std::cos(std::numbers::pi * t / duration_s));
   }
   return t;  // impulse and step are flat
 }
@@ -23,7 +24,7 @@ double UnitIntegral(PushShape shape, double duration_s, double tau_s) {
 double Push::ForceAt(double t_s) const {
   const double tau = t_s - start_s;
   if (tau < 0 || tau >= duration_s) return 0;
-  if (shape == PushShape::kHalfSine) return peak_N * std::sin(kPi * tau / duration_s);
+  if (shape == PushShape::kHalfSine) return peak_N * std::sin(std::numbers::pi * tau / duration_s);
   return peak_N;
 }
 

@@ -52,10 +52,10 @@ std::unique_ptr<btCollisionShape> Box(double lx, double ly, double lz, const btV
 
 }  // namespace
 
-RobotBody BuildRobot(World& world, const RobotModel& model, const PlantOptions& options) {
-  const ChassisModel& c = model.chassis;
-  const WheelModel& w = model.wheel;
-  const PayloadModel& p = model.payload;
+RobotBody BuildRobot(World& world, const model::RobotModel& model, const PlantOptions& options) {
+  const model::ChassisModel& c = model.chassis;
+  const model::WheelModel& w = model.wheel;
+  const model::PayloadModel& p = model.payload;
   RobotBody robot;
   robot.has_payload = p.present;
   robot.com_to_axle = btVector3(-c.com_forward_m, 0, -c.com_height_m);

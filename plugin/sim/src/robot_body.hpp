@@ -30,6 +30,6 @@ struct RobotBody {
 
 // Builds the robot standing on the ground of `world` as options.initial says (or held in the
 // air when options.fixed_chassis), and adds it to the world.
-RobotBody BuildRobot(World& world, const RobotModel& model, const PlantOptions& options);
+RobotBody BuildRobot(World& world, const model::RobotModel& model, const PlantOptions& options);
 
 }  // namespace upright::sim::internal

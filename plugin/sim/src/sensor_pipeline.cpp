@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <numbers>
 
 #include "upright/model/conventions.hpp"
 
@@ -27,8 +28,8 @@ long StepsPerSample(double rate_hz, double dt_s) {
   return std::max(1L, std::lround(1.0 / (rate_hz * dt_s)));
 }
 
-SensorPipeline::SensorPipeline(const SensorModel& sensors, double control_rate_hz, double dt_s,
-                               std::uint64_t seed, bool noise)
+SensorPipeline::SensorPipeline(const model::SensorModel& sensors, double control_rate_hz,
+                               double dt_s, std::uint64_t seed, bool noise)
     : model_(sensors),
       dt_s_(dt_s),
       noise_(noise),
@@ -167,7 +168,7 @@ void SensorPipeline::AddFault(const SensorFault& fault) {
 }
 
 double SensorPipeline::QuantiseEncoder(double angle_rad) const {
-  const double count_rad = 2.0 * kPi / model_.encoder_counts_per_rev;
+  const double count_rad = 2.0 * std::numbers::pi / model_.encoder_counts_per_rev;
   return count_rad * std::floor(angle_rad / count_rad);
 }
 

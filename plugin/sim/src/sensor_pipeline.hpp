@@ -27,7 +27,7 @@ long StepsPerSample(double rate_hz, double dt_s);
 
 class SensorPipeline {
  public:
-  SensorPipeline(const SensorModel& sensors, double control_rate_hz, double dt_s,
+  SensorPipeline(const model::SensorModel& sensors, double control_rate_hz, double dt_s,
                  std::uint64_t seed, bool noise);
   // The exact measurement after physics step `step` (0 = the initial state, before any step).
   void Record(long step, const Measurement& exact);
@@ -62,7 +62,7 @@ class SensorPipeline {
   // The held IMU outputs from the latest sample's values, under the faults now known.
   void UpdateImuOutputs();
 
-  SensorModel model_;
+  model::SensorModel model_;
   double dt_s_;
   bool noise_;
   long latency_steps_, imu_steps_, control_steps_;

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <numbers>
 #include <sstream>
 
 #include "upright/model/conventions.hpp"
@@ -10,7 +11,7 @@ namespace upright::sim {
 namespace {
 
 // Height of a raised-cosine bump of unit peak at fraction u ∈ [0, 1] of its length.
-double BumpShape(double u) { return 0.5 * (1.0 - std::cos(2.0 * kPi * u)); }
+double BumpShape(double u) { return 0.5 * (1.0 - std::cos(2.0 * std::numbers::pi * u)); }
 
 double ProfileEnd(const Terrain& t) {
   double x = t.start_x_m;
@@ -23,7 +24,8 @@ double ProfileEnd(const Terrain& t) {
 double Terrain::HeightAt(double x_m) const {
   switch (kind) {
     case TerrainKind::kFlat: return 0;
-    case TerrainKind::kSlope: return x_m * std::tan(slope_deg * kPi / 180.0);
+    case TerrainKind::kSlope:
+      return x_m * std::tan(slope_deg * std::numbers::pi / 180.0);
     case TerrainKind::kProfile: break;
   }
   double x = start_x_m, z = 0;
@@ -49,7 +51,8 @@ double Terrain::HeightAt(double x_m) const {
 double Terrain::SlopeAt(double x_m) const {
   switch (kind) {
     case TerrainKind::kFlat: return 0;
-    case TerrainKind::kSlope: return std::tan(slope_deg * kPi / 180.0);
+    case TerrainKind::kSlope:
+      return std::tan(slope_deg * std::numbers::pi / 180.0);
     case TerrainKind::kProfile: break;
   }
   double x = start_x_m;
@@ -59,7 +62,7 @@ double Terrain::SlopeAt(double x_m) const {
       const double u = (x_m - x) / s.length_m;
       if (s.kind == SegmentKind::kRamp) return s.height_m / s.length_m;
       if (s.kind == SegmentKind::kBump) {
-        return s.height_m * kPi / s.length_m * std::sin(2.0 * kPi * u);
+        return s.height_m * std::numbers::pi / s.length_m * std::sin(2.0 * std::numbers::pi * u);
       }
       return 0;
     }
@@ -136,7 +139,7 @@ std::vector<std::pair<double, double>> ProfilePolyline(const Terrain& t, double 
         break;
       case SegmentKind::kBump: {
         // The bump's arc is at most L √(1 + (π h / L)²) long (its steepest slope is π h / L).
-        const double arc_m = std::hypot(s.length_m, kPi * s.height_m);
+        const double arc_m = std::hypot(s.length_m, std::numbers::pi * s.height_m);
         const int n = std::max(16, static_cast<int>(std::ceil(arc_m / max_piece_m)));
         for (int i = 1; i <= n; ++i) {
           const double u = static_cast<double>(i) / n;

@@ -1,16 +1,16 @@
 #include "world.hpp"
 
-#include <btBulletDynamicsCommon.h>
-
 #include <BulletCollision/CollisionDispatch/btInternalEdgeUtility.h>
 #include <BulletCollision/CollisionShapes/btTriangleInfoMap.h>
 #include <BulletDynamics/Featherstone/btMultiBody.h>
 #include <BulletDynamics/Featherstone/btMultiBodyConstraintSolver.h>
 #include <BulletDynamics/Featherstone/btMultiBodyDynamicsWorld.h>
 #include <BulletDynamics/Featherstone/btMultiBodyLinkCollider.h>
+#include <btBulletDynamicsCommon.h>
 
 #include <cmath>
 #include <mutex>
+#include <numbers>
 
 #include "upright/model/check.hpp"
 #include "upright/model/conventions.hpp"
@@ -83,7 +83,7 @@ World::World(double dt_s, int solver_iterations) : dt_s_(dt_s) {
   solver_ = std::make_unique<btMultiBodyConstraintSolver>();
   world_ = std::make_unique<btMultiBodyDynamicsWorld>(dispatcher_.get(), broadphase_.get(),
                                                       solver_.get(), config_.get());
-  world_->setGravity(btVector3(0, 0, -kStandardGravity_m_s2));
+  world_->setGravity(btVector3(0, 0, -model::kStandardGravity_m_s2));
   world_->getSolverInfo().m_numIterations = solver_iterations;
   world_->getDispatchInfo().m_deterministicOverlappingPairs = true;
 }
@@ -137,7 +137,8 @@ void World::AddGround(const Terrain& terrain, double mesh_cell_m) {
     btGenerateInternalEdgeInfo(mesh.get(), triangle_info_.get());
     ground_shape_ = std::move(mesh);
   } else {
-    const double slope = terrain.kind == TerrainKind::kSlope ? terrain.slope_deg * kPi / 180 : 0;
+    const double slope =
+        terrain.kind == TerrainKind::kSlope ? terrain.slope_deg * std::numbers::pi / 180 : 0;
     // The plane z = x tan(slope): unit normal (−sin, 0, cos) through the origin.
     ground_shape_ = std::make_unique<btStaticPlaneShape>(
         btVector3(-std::sin(slope), 0, std::cos(slope)), 0.0);

@@ -1,4 +1,4 @@
-#include "upright/runner/bisect.hpp"
+#include "upright/runner/envelope/bisect.hpp"
 
 #include <algorithm>
 #include <cmath>

@@ -1,4 +1,4 @@
-#include "upright/runner/envelope.hpp"
+#include "upright/runner/envelope/envelope.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -8,10 +8,10 @@
 
 #include "parameter_unit.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/modules.hpp"
-#include "upright/runner/parallel_for.hpp"
-#include "upright/runner/run_one.hpp"
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/run/modules.hpp"
+#include "upright/runner/run/parallel_for.hpp"
+#include "upright/runner/run/run_one.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 
 namespace upright::runner {
 namespace {

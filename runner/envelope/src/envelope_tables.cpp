@@ -4,10 +4,10 @@
 #include <cmath>
 
 #include "upright/base/number_text.hpp"
-#include "upright/runner/envelope_writer.hpp"
-#include "upright/runner/json_text.hpp"
-#include "upright/runner/scenario_info_json.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/json_text.hpp"
+#include "upright/runner/common/text_format.hpp"
+#include "upright/runner/envelope/envelope_writer.hpp"
+#include "upright/runner/tables/scenario_info_json.hpp"
 
 namespace upright::runner::internal {
 namespace {

@@ -5,7 +5,7 @@
 
 #include <string>
 
-#include "upright/runner/envelope.hpp"
+#include "upright/runner/envelope/envelope.hpp"
 
 namespace upright::runner::internal {
 

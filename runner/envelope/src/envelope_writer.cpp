@@ -1,12 +1,12 @@
 // WriteEnvelopeResults: builds each file's text from the result, then writes them one by one, each
 // atomically; manifest.json goes last, so its presence means the folder is complete.
-#include "upright/runner/envelope_writer.hpp"
+#include "upright/runner/envelope/envelope_writer.hpp"
 
 #include <filesystem>
 
 #include "envelope_tables.hpp"
-#include "upright/runner/atomic_file.hpp"
-#include "upright/runner/make_results_folder.hpp"
+#include "upright/runner/common/atomic_file.hpp"
+#include "upright/runner/tables/make_results_folder.hpp"
 
 namespace upright::runner {
 

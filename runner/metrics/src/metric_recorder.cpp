@@ -1,21 +1,22 @@
-#include "upright/runner/metric_recorder.hpp"
+#include "upright/runner/metrics/metric_recorder.hpp"
 
 #include <algorithm>
 #include <cmath>
 #include <cstddef>
 #include <limits>
+#include <numbers>
 #include <span>
 #include <utility>
 
 #include "upright/model/check.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/runner/step_response.hpp"
+#include "upright/runner/metrics/step_response.hpp"
 
 namespace upright::runner {
 namespace {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
-constexpr double kDeg = 180.0 / kPi;
+constexpr double kDeg = 180.0 / std::numbers::pi;
 // Sample indices computed from times are rounded with this slack (in samples), so a time that
 // lands on a sample up to rounding counts as that sample.
 constexpr double kIndexSlack = 1e-6;

@@ -1,4 +1,4 @@
-#include "upright/runner/metric_settings.hpp"
+#include "upright/runner/metrics/metric_settings.hpp"
 
 #include <cmath>
 #include <sstream>

@@ -1,4 +1,4 @@
-#include "upright/runner/module_log.hpp"
+#include "upright/runner/metrics/module_log.hpp"
 
 #include <algorithm>
 #include <cstring>

@@ -1,4 +1,4 @@
-#include "upright/runner/run_metrics.hpp"
+#include "upright/runner/metrics/run_metrics.hpp"
 
 namespace upright::runner {
 

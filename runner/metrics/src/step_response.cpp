@@ -1,4 +1,4 @@
-#include "upright/runner/step_response.hpp"
+#include "upright/runner/metrics/step_response.hpp"
 
 #include <cmath>
 #include <cstddef>

@@ -8,7 +8,7 @@
 #include "svg_axis.hpp"
 #include "upright/base/number_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 constexpr double kWidth = 600;
@@ -182,4 +182,4 @@ std::string RenderGapBars(const std::string& scenario, const std::vector<GapPair
   return svg;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -9,7 +9,7 @@
 #include <string>
 #include <vector>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 inline constexpr double kNoValue = std::numeric_limits<double>::quiet_NaN();
 
@@ -57,4 +57,4 @@ struct GapPair {
 // plant's (filled), with their values.
 std::string RenderGapBars(const std::string& scenario, const std::vector<GapPair>& pairs);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

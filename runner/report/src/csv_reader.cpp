@@ -1,4 +1,4 @@
-#include "upright/runner/csv_reader.hpp"
+#include "upright/runner/report/csv_reader.hpp"
 
 #include <charconv>
 #include <limits>
@@ -108,7 +108,7 @@ Result<CsvTable> ParseCsv(std::string_view text, const std::string& path) {
 }
 
 Result<CsvTable> ReadCsvFile(const std::string& path) {
-  const Result<std::string> text = report::ReadWholeFile(path);
+  const Result<std::string> text = internal::ReadWholeFile(path);
   if (!text) return Failure(text.error());
   return ParseCsv(*text, path);
 }

@@ -5,7 +5,7 @@
 
 #include "upright/model/check.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 std::vector<std::size_t> MinMaxDecimate(const std::vector<double>& values, std::size_t max_points) {
   UPRIGHT_CHECK(max_points >= 4, "max_points = %zu, must be >= 4", max_points);
@@ -49,4 +49,4 @@ std::vector<std::size_t> MinMaxDecimate(const std::vector<double>& values, std::
   return keep;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -5,7 +5,7 @@
 #include <cstddef>
 #include <vector>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 // The indices of the samples to plot, ascending. All of them when values.size() <= max_points;
 // otherwise min/max decimation: the samples are cut into max_points / 2 buckets of consecutive
@@ -15,4 +15,4 @@ namespace upright::runner::report {
 // the line stays a break. max_points must be at least 4 (UPRIGHT_CHECK).
 std::vector<std::size_t> MinMaxDecimate(const std::vector<double>& values, std::size_t max_points);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -9,9 +9,9 @@
 #include "sections.hpp"
 #include "survival_map.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/csv_reader.hpp"
+#include "upright/runner/report/csv_reader.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 namespace fs = std::filesystem;
@@ -227,4 +227,4 @@ Status AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& ma
   return {};
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -4,9 +4,9 @@
 
 #include "html_text.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/csv_reader.hpp"
+#include "upright/runner/report/csv_reader.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 HtmlTable::HtmlTable(std::vector<std::string> header, std::vector<bool> numeric)
     : header_(std::move(header)), numeric_(std::move(numeric)) {
@@ -45,4 +45,4 @@ HtmlCell NumberCell(const std::string& csv_cell) {
   return {SignificantText(value, 4, NanAs::kEmpty), true, ""};
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

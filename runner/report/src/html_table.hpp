@@ -5,7 +5,7 @@
 #include <string>
 #include <vector>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 struct HtmlCell {
   std::string text;       // plain text, escaped on output
@@ -31,4 +31,4 @@ class HtmlTable {
 // that does not apply), other text as it is.
 HtmlCell NumberCell(const std::string& csv_cell);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

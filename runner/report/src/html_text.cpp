@@ -1,6 +1,6 @@
 #include "html_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 std::string Escape(std::string_view text) {
   std::string out;
@@ -29,4 +29,4 @@ std::string Escape(std::string_view text) {
   return out;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

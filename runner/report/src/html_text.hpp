@@ -6,9 +6,9 @@
 #include <string>
 #include <string_view>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 // `text` with & < > " ' replaced by entity references, for element content and attribute values.
 std::string Escape(std::string_view text);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

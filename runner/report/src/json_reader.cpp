@@ -7,7 +7,7 @@
 
 #include "upright/base/number_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 using Json = nlohmann::ordered_json;
@@ -148,4 +148,4 @@ std::string NumberText(const Json& value) {
   return "";
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

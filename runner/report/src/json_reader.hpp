@@ -10,7 +10,7 @@
 
 #include "upright/base/result.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 // Containers open at once that a document may have; the one that opens beyond is refused.
 inline constexpr int kMaxJsonDepth = 64;
@@ -24,4 +24,4 @@ Result<nlohmann::ordered_json> ParseJson(std::string_view text, const std::strin
 // same double (as the program's manifests write them); "" for a value that is no number.
 std::string NumberText(const nlohmann::ordered_json& value);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

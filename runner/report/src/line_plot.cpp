@@ -10,7 +10,7 @@
 #include "svg_axis.hpp"
 #include "upright/base/number_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 constexpr double kWidth = 600;
@@ -226,4 +226,4 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
   return svg;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -12,7 +12,7 @@
 #include <string>
 #include <vector>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 struct PlotSeries {
   std::string name;       // legend text
@@ -52,4 +52,4 @@ struct LinePlot {
 // MinMaxDecimate before drawing.
 std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

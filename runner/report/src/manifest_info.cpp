@@ -6,7 +6,7 @@
 #include "json_reader.hpp"
 #include "read_file.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 using Json = nlohmann::ordered_json;
@@ -108,4 +108,4 @@ Result<ManifestInfo> ReadManifest(const std::string& dir) {
   return info;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

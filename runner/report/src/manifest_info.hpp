@@ -9,7 +9,7 @@
 
 #include "upright/base/result.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 struct ManifestScenario {
   std::string name, path, sha256;
@@ -48,4 +48,4 @@ struct ManifestInfo {
 // ("<path>:<line>: ...").
 Result<ManifestInfo> ReadManifest(const std::string& dir);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

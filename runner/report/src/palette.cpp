@@ -2,7 +2,7 @@
 
 #include <array>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 const SeriesStyle& StyleFor(std::size_t index) {
   static constexpr std::array<SeriesStyle, 6> kStyles = {{
@@ -16,4 +16,4 @@ const SeriesStyle& StyleFor(std::size_t index) {
   return kStyles[index % kStyles.size()];
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -4,7 +4,7 @@
 
 #include <cstddef>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 struct SeriesStyle {
   const char* colour;  // "#rrggbb"
@@ -19,4 +19,4 @@ const SeriesStyle& StyleFor(std::size_t index);
 // The linear twin's line: the controller's colour, thin, in this dotted pattern.
 inline constexpr const char* kTwinDash = "1 2.5";
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

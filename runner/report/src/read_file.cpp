@@ -5,7 +5,7 @@
 #include <fstream>
 #include <sstream>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 Result<std::string> ReadWholeFile(const std::string& path) {
   std::ifstream in(path, std::ios::binary);
@@ -16,4 +16,4 @@ Result<std::string> ReadWholeFile(const std::string& path) {
   return std::move(bytes).str();
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

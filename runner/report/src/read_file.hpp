@@ -5,10 +5,10 @@
 
 #include "upright/base/result.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 // The bytes of the file at `path`, or "cannot read <path>: <reason>" when it cannot be opened or
 // read.
 Result<std::string> ReadWholeFile(const std::string& path);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

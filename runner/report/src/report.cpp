@@ -1,4 +1,4 @@
-#include "upright/runner/report.hpp"
+#include "upright/runner/report/report.hpp"
 
 #include <algorithm>
 #include <filesystem>
@@ -7,7 +7,7 @@
 #include "report_page.hpp"
 #include "results_folder.hpp"
 #include "sections.hpp"
-#include "upright/runner/atomic_file.hpp"
+#include "upright/runner/common/atomic_file.hpp"
 
 namespace upright::runner {
 namespace {
@@ -71,22 +71,22 @@ tl::unexpected<ReportFailure> Refused(ReportProblem problem, std::string message
 }
 
 // One results folder's sections, each kind it holds, and its manifest's input files.
-Status AppendFolder(const report::ResultsFolder& folder, const ReportOptions& options,
-                    report::ReportPage* page) {
-  const Result<report::ManifestInfo> manifest = report::ReadManifest(folder.path);
+Status AppendFolder(const internal::ResultsFolder& folder, const ReportOptions& options,
+                    internal::ReportPage* page) {
+  const Result<internal::ManifestInfo> manifest = internal::ReadManifest(folder.path);
   if (!manifest) return Failure(manifest.error());
-  report::AddManifestInputs(*manifest, page);
+  internal::AddManifestInputs(*manifest, page);
   if (folder.run) {
-    if (Status added = report::AppendRunSection(folder, *manifest, options, page); !added) {
+    if (Status added = internal::AppendRunSection(folder, *manifest, options, page); !added) {
       return added;
     }
   }
   if (folder.envelope) {
-    if (Status added = report::AppendEnvelopeSection(folder, *manifest, page); !added) {
+    if (Status added = internal::AppendEnvelopeSection(folder, *manifest, page); !added) {
       return added;
     }
   }
-  if (folder.sweep) return report::AppendSweepSection(folder, *manifest, page);
+  if (folder.sweep) return internal::AppendSweepSection(folder, *manifest, page);
   return {};
 }
 
@@ -109,14 +109,14 @@ Result<ReportWritten, ReportFailure> MakeReport(const std::string& dir,
                    dir + ": no results found (looked for " + ReportLooksFor() + ")");
   }
 
-  report::ReportPage page;
+  internal::ReportPage page;
   // The folder's own name, not its path, so the page does not depend on where it lies.
   page.title = fs::path(dir).lexically_normal().filename().string();
   if (page.title.empty() || page.title == ".") {
     page.title = fs::absolute(dir).lexically_normal().parent_path().filename().string();
   }
   for (std::size_t i = 0; i < relative.size(); ++i) {
-    report::ResultsFolder folder;
+    internal::ResultsFolder folder;
     folder.relative = relative[i];
     folder.path = (fs::path(dir) / relative[i]).lexically_normal().string();
     folder.id = 'f' + std::to_string(i);
@@ -131,7 +131,7 @@ Result<ReportWritten, ReportFailure> MakeReport(const std::string& dir,
   ReportWritten written;
   written.path = (fs::path(dir) / kReportFileName).string();
   written.folders = relative.size();
-  const std::string html = report::PageHtml(page);
+  const std::string html = internal::PageHtml(page);
   if (Status saved = WriteFileAtomically(written.path, html); !saved) {
     return Refused(ReportProblem::kWriteFailed, saved.error());
   }

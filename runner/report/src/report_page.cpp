@@ -5,7 +5,7 @@
 
 #include "html_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 // Styles inline in the page: no stylesheet to fetch. Colours repeat what symbols and words say.
@@ -139,4 +139,4 @@ std::string PageHtml(const ReportPage& page) {
   return html;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

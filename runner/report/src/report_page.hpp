@@ -9,7 +9,7 @@
 
 #include "manifest_info.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 // The caution every report carries, word for word.
 inline constexpr const char* kCaution =
@@ -48,4 +48,4 @@ std::string AnchorId(std::string_view prefix, std::string_view text);
 // can be checked with an XML parser as well as shown by a browser.
 std::string PageHtml(const ReportPage& page);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -4,7 +4,7 @@
 
 #include <string>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 struct ResultsFolder {
   std::string path;       // to read from
@@ -15,4 +15,4 @@ struct ResultsFolder {
   std::string id;         // the prefix of its element ids ("f0-", "f1-", ...)
 };
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -14,14 +14,14 @@
 #include "sections.hpp"
 #include "trace_reader.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/csv_reader.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/metric_floors.hpp"
-#include "upright/runner/results_writer.hpp"
-#include "upright/runner/run_metrics.hpp"
-#include "upright/runner/verdict.hpp"
+#include "upright/runner/metrics/run_metrics.hpp"
+#include "upright/runner/report/csv_reader.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/metric_floors.hpp"
+#include "upright/runner/tables/results_writer.hpp"
+#include "upright/runner/tables/verdict.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 namespace fs = std::filesystem;
@@ -627,4 +627,4 @@ Status AppendRunSection(const ResultsFolder& folder, const ManifestInfo& manifes
   return {};
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

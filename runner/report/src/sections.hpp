@@ -9,9 +9,9 @@
 #include "report_page.hpp"
 #include "results_folder.hpp"
 #include "upright/base/result.hpp"
-#include "upright/runner/report.hpp"
+#include "upright/runner/report/report.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 // `upright run` / `demo`: the ranking, then per scenario the time plots of the first seed's
 // traces, the summary and comparison tables and the linear-vs-physics gap.
@@ -26,4 +26,4 @@ Status AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& ma
 Status AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifest,
                           ReportPage* page);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

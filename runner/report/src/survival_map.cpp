@@ -6,7 +6,7 @@
 #include "svg_axis.hpp"
 #include "upright/base/number_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 namespace {
 
 constexpr double kCellWidth = 40;
@@ -109,4 +109,4 @@ std::string RenderSurvivalMap(const SurvivalMap& map) {
   return svg;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

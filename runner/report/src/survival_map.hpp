@@ -7,7 +7,7 @@
 #include <string>
 #include <vector>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 enum class MapOutcome { kAll, kSome, kNone, kNotRun, kMissing };
 
@@ -24,4 +24,4 @@ struct SurvivalMap {
 // <svg data-chart="map">: the grid with its values on both axes and a key to the symbols.
 std::string RenderSurvivalMap(const SurvivalMap& map);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -6,7 +6,7 @@
 #include "html_text.hpp"
 #include "upright/base/number_text.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 std::vector<double> Axis::Ticks() const {
   std::vector<double> ticks;
@@ -74,4 +74,4 @@ void AppendSvgLine(std::string* svg, double x1, double y1, double x2, double y2,
   *svg += "/>";
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -7,7 +7,7 @@
 #include <string_view>
 #include <vector>
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 // A linear axis: data values from lo to hi (both multiples of step) onto pixels px_lo to px_hi.
 struct Axis {
@@ -39,4 +39,4 @@ void AppendSvgText(std::string* svg, double x, double y, std::string_view text,
 void AppendSvgLine(std::string* svg, double x1, double y1, double x2, double y2,
                    std::string_view attributes);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -6,10 +6,10 @@
 #include "html_table.hpp"
 #include "html_text.hpp"
 #include "sections.hpp"
-#include "upright/runner/csv_reader.hpp"
-#include "upright/runner/sweep_statistics.hpp"
+#include "upright/runner/common/sample_statistics.hpp"
+#include "upright/runner/report/csv_reader.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 namespace fs = std::filesystem;
 
@@ -75,4 +75,4 @@ Status AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manif
   return {};
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

@@ -2,9 +2,9 @@
 
 #include <cmath>
 
-#include "upright/runner/csv_reader.hpp"
+#include "upright/runner/report/csv_reader.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 Result<TraceSignals> ReadTrace(const std::string& path) {
   const Result<CsvTable> read = ReadCsvFile(path);
@@ -59,4 +59,4 @@ Result<TraceSignals> ReadTrace(const std::string& path) {
   return trace;
 }
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

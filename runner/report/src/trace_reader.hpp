@@ -8,7 +8,7 @@
 
 #include "upright/base/result.hpp"
 
-namespace upright::runner::report {
+namespace upright::runner::internal {
 
 struct TraceLabel {
   double time_s = 0;  // the time of the row that carries it
@@ -32,4 +32,4 @@ struct TraceSignals {
 // read or lacks a column the plots need.
 Result<TraceSignals> ReadTrace(const std::string& path);
 
-}  // namespace upright::runner::report
+}  // namespace upright::runner::internal

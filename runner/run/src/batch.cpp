@@ -1,12 +1,12 @@
-#include "upright/runner/batch.hpp"
+#include "upright/runner/run/batch.hpp"
 
 #include <algorithm>
 #include <chrono>
 #include <sstream>
 
-#include "upright/runner/modules.hpp"
-#include "upright/runner/parallel_for.hpp"
-#include "upright/runner/sha256.hpp"
+#include "upright/runner/common/sha256.hpp"
+#include "upright/runner/run/modules.hpp"
+#include "upright/runner/run/parallel_for.hpp"
 
 namespace upright::runner {
 namespace {

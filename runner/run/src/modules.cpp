@@ -1,4 +1,4 @@
-#include "upright/runner/modules.hpp"
+#include "upright/runner/run/modules.hpp"
 
 #include <memory>
 #include <string>

@@ -1,4 +1,4 @@
-#include "upright/runner/parallel_for.hpp"
+#include "upright/runner/run/parallel_for.hpp"
 
 #include <algorithm>
 #include <atomic>

@@ -1,4 +1,4 @@
-#include "upright/runner/run_one.hpp"
+#include "upright/runner/run/run_one.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -6,6 +6,7 @@
 #include <exception>
 #include <functional>
 #include <limits>
+#include <numbers>
 #include <sstream>
 #include <string_view>
 
@@ -15,15 +16,15 @@
 #include "upright/design/weights.hpp"
 #include "upright/host/controller_host.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/runner/linear_twin.hpp"
-#include "upright/runner/metric_recorder.hpp"
-#include "upright/runner/twin_gap.hpp"
+#include "upright/runner/metrics/metric_recorder.hpp"
+#include "upright/runner/twin/linear_twin.hpp"
+#include "upright/runner/twin/twin_gap.hpp"
 #include "upright/sim/plant.hpp"
 
 namespace upright::runner {
 namespace {
 
-constexpr double kDeg = 180 / kPi;
+constexpr double kDeg = 180 / std::numbers::pi;
 
 // The readings the metrics take after a step, the module's command held over it and that
 // command's limit (command_limit, V or N·m as the module commands); no allocation.
@@ -70,20 +71,20 @@ TraceRow Row(const sim::Plant& plant, const host::ControllerHost& host,
   r.drift_m = drift_m;
   r.gyro_y_rad_s = sensed.gyro_rad_s[1];
   r.accel_x_m_s2 = sensed.accel_m_s2[0];
-  r.encoder_left_rad = sensed.encoder_angle_rad[kLeft];
-  r.encoder_right_rad = sensed.encoder_angle_rad[kRight];
-  r.command_left = std::isfinite(command[kLeft]) ? command[kLeft] : 0;
-  r.command_right = std::isfinite(command[kRight]) ? command[kRight] : 0;
-  r.voltage_left_V = m[kLeft].voltage_V;
-  r.voltage_right_V = m[kRight].voltage_V;
-  r.current_left_A = m[kLeft].current_A;
-  r.current_right_A = m[kRight].current_A;
-  r.torque_left_Nm = m[kLeft].wheel_torque_Nm;
-  r.torque_right_Nm = m[kRight].wheel_torque_Nm;
-  r.load_left_N = c.wheels[kLeft].normal_N;
-  r.load_right_N = c.wheels[kRight].normal_N;
-  r.slip_left = c.wheels[kLeft].slip_ratio;
-  r.slip_right = c.wheels[kRight].slip_ratio;
+  r.encoder_left_rad = sensed.encoder_angle_rad[model::kLeft];
+  r.encoder_right_rad = sensed.encoder_angle_rad[model::kRight];
+  r.command_left = std::isfinite(command[model::kLeft]) ? command[model::kLeft] : 0;
+  r.command_right = std::isfinite(command[model::kRight]) ? command[model::kRight] : 0;
+  r.voltage_left_V = m[model::kLeft].voltage_V;
+  r.voltage_right_V = m[model::kRight].voltage_V;
+  r.current_left_A = m[model::kLeft].current_A;
+  r.current_right_A = m[model::kRight].current_A;
+  r.torque_left_Nm = m[model::kLeft].wheel_torque_Nm;
+  r.torque_right_Nm = m[model::kRight].wheel_torque_Nm;
+  r.load_left_N = c.wheels[model::kLeft].normal_N;
+  r.load_right_N = c.wheels[model::kRight].normal_N;
+  r.slip_left = c.wheels[model::kLeft].slip_ratio;
+  r.slip_right = c.wheels[model::kRight].slip_ratio;
   r.payload_x_m = s.payload_x_m;
   return r;
 }
@@ -206,7 +207,8 @@ struct RunLoop {
   double equilibrium_pitch_rad;
   // The limit on the module's command, of its kind: the supply voltage, or the stall torque at
   // the wheel — on the robot the module is given (its nominal one, not one a sweep or envelope
-  // changed), the limit the built-in controllers clamp at (design::InputLimit).
+  // changed), the most the built-in controllers command (design::InputLimit; at speed they clamp
+  // lower, where the back-EMF leaves less headroom).
   double command_limit;
   double fall_tilt_rad;
   bool drives_payload;

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <numbers>
 #include <string>
 
 #include "upright/base/number_text.hpp"
@@ -21,7 +22,7 @@ double Ramp(double time_s, double start_s, double length_s) {
 }  // namespace
 
 Timeline::Timeline(const Scenario& scenario) : scenario_(scenario) {
-  const RobotModel& robot = scenario.built_model();
+  const model::RobotModel& robot = scenario.built_model();
   payload_base_m_ = robot.payload.present ? robot.payload.x_m : 0.0;
   payload_target_m_ = payload_base_m_;
   path_x_m_ = scenario.initial.x_m;
@@ -120,9 +121,10 @@ std::vector<EventMark> Timeline::Marks(const Scenario& s) {
                                              " m over " + SignificantText(p.duration_s, 3) + " s"});
   }
   for (const auto& d : s.drives) {
-    marks.push_back({acts_at(d.start_s), "drive " + SignificantText(d.speed_m_s, 3) + " m/s, " +
-                                             SignificantText(d.yaw_rate_rad_s * 180 / kPi, 3) +
-                                             " deg/s over " + SignificantText(d.ramp_s, 3) + " s"});
+    marks.push_back(
+        {acts_at(d.start_s), "drive " + SignificantText(d.speed_m_s, 3) + " m/s, " +
+                                 SignificantText(d.yaw_rate_rad_s * 180 / std::numbers::pi, 3) +
+                                 " deg/s over " + SignificantText(d.ramp_s, 3) + " s"});
   }
   for (const auto& f : s.motor_faults) {
     marks.push_back({acts_at(f.start_s), std::string("motor fault ") + sim::ToString(f.side) +

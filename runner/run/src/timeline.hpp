@@ -8,8 +8,8 @@
 #include <vector>
 
 #include "upright/host/controller_host.hpp"
-#include "upright/runner/run_result.hpp"
-#include "upright/runner/scenario.hpp"
+#include "upright/runner/metrics/run_result.hpp"
+#include "upright/runner/scenario/scenario.hpp"
 
 namespace upright::runner::internal {
 

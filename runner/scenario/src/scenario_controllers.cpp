@@ -23,11 +23,11 @@ bool WholeStepsPeriod(double rate_hz, double dt_s) {
   return steps >= 1 && std::abs(steps - std::round(steps)) <= 1e-6 * steps;
 }
 
-void ReadSettings(XmlElement& element, const ReadContext& context, ControllerEntry* entry) {
+void ReadSettings(model::XmlElement& element, const ReadContext& context, ControllerEntry* entry) {
   std::map<std::string, int> first_line;
-  for (XmlElement setting : element.Children("setting")) {
-    const std::optional<std::string> key = setting.String("key", Presence::kRequired);
-    const std::optional<std::string> value = setting.String("value", Presence::kRequired);
+  for (model::XmlElement setting : element.Children("setting")) {
+    const std::optional<std::string> key = setting.String("key", model::Presence::kRequired);
+    const std::optional<std::string> value = setting.String("value", model::Presence::kRequired);
     if (!key) continue;
     if (key->empty()) {
       context.FieldError(setting, "key", "''", "must not be empty");
@@ -44,11 +44,11 @@ void ReadSettings(XmlElement& element, const ReadContext& context, ControllerEnt
   }
 }
 
-ControllerEntry ReadController(XmlElement element, const ReadContext& context,
+ControllerEntry ReadController(model::XmlElement element, const ReadContext& context,
                                std::map<std::string, int>* first_line) {
   ControllerEntry entry;
   entry.line = element.line();
-  if (std::optional<std::string> name = element.String("name", Presence::kRequired)) {
+  if (std::optional<std::string> name = element.String("name", model::Presence::kRequired)) {
     entry.name = *name;
     if (!IsSafeName(*name)) {
       context.FieldError(element, "name", Quote(*name), std::string(kSafeNameRule));
@@ -61,8 +61,8 @@ ControllerEntry ReadController(XmlElement element, const ReadContext& context,
   const bool builtin_given = element.Has("builtin");
   const bool file_given = element.Has("file");
   const std::optional<std::size_t> builtin =
-      element.Choice("builtin", kBuiltinNames, Presence::kOptional);
-  const std::optional<std::string> file = element.String("file", Presence::kOptional);
+      element.Choice("builtin", kBuiltinNames, model::Presence::kOptional);
+  const std::optional<std::string> file = element.String("file", model::Presence::kOptional);
   if (builtin_given == file_given) {
     context.Error(element, std::string("give exactly one of builtin or file (") +
                                (builtin_given ? "both" : "neither") + " given)");
@@ -98,12 +98,14 @@ ControllerEntry ReadController(XmlElement element, const ReadContext& context,
 
 }  // namespace
 
-void ReadControllers(XmlElement root, ReadContext& context, Scenario* scenario) {
-  std::optional<XmlElement> controllers = root.Child("controllers", Presence::kRequired);
+void ReadControllers(model::XmlElement root, ReadContext& context, Scenario* scenario) {
+  std::optional<model::XmlElement> controllers =
+      root.Child("controllers", model::Presence::kRequired);
   if (!controllers) return;
-  const std::optional<std::string> baseline = controllers->String("baseline", Presence::kOptional);
+  const std::optional<std::string> baseline =
+      controllers->String("baseline", model::Presence::kOptional);
   std::map<std::string, int> first_line;
-  for (XmlElement element : controllers->Children("controller")) {
+  for (model::XmlElement element : controllers->Children("controller")) {
     scenario->controllers.push_back(ReadController(element, context, &first_line));
   }
   if (scenario->controllers.empty()) {

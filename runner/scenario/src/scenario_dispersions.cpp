@@ -10,7 +10,7 @@
 #include <utility>
 #include <vector>
 
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 
 namespace upright::runner::internal {
 namespace {
@@ -30,26 +30,27 @@ std::string SameParameterKey(const std::string& param) {
 }
 
 // An attribute the other kind takes: reported when given, so a spread never silently ignores it.
-void RefuseOther(XmlElement& spread, const ReadContext& context, std::string_view attribute,
+void RefuseOther(model::XmlElement& spread, const ReadContext& context, std::string_view attribute,
                  const char* kind) {
   if (!spread.Has(attribute)) return;
-  const std::optional<std::string> text = spread.String(attribute, Presence::kOptional);
+  const std::optional<std::string> text = spread.String(attribute, model::Presence::kOptional);
   context.FieldError(spread, attribute, text.value_or(""),
                      std::string("only with kind=\"") + kind + "\"");
 }
 
 // One <spread>; nullopt when it is wrong (already reported).
-std::optional<Dispersion> ReadSpread(XmlElement spread, const ReadContext& context,
+std::optional<Dispersion> ReadSpread(model::XmlElement spread, const ReadContext& context,
                                      const Scenario& scenario, bool check_against_scenario,
                                      std::optional<std::string>* param_out) {
   Dispersion d;
   d.line = spread.line();
   bool ok = true;
-  const std::optional<std::string> param = spread.String("param", Presence::kRequired);
+  const std::optional<std::string> param = spread.String("param", model::Presence::kRequired);
   *param_out = param;
   ok = ok && param.has_value();
   d.param = param.value_or("");
-  const std::optional<std::size_t> kind = spread.Choice("kind", kKindNames, Presence::kRequired);
+  const std::optional<std::size_t> kind =
+      spread.Choice("kind", kKindNames, model::Presence::kRequired);
   ok = ok && kind.has_value();
   if (kind) d.kind = kKinds[*kind];
 
@@ -111,11 +112,12 @@ std::optional<Dispersion> ReadSpread(XmlElement spread, const ReadContext& conte
 
 }  // namespace
 
-void ReadDispersions(XmlElement root, ReadContext& context, Scenario* scenario) {
-  std::optional<XmlElement> dispersions = root.Child("dispersions", Presence::kOptional);
+void ReadDispersions(model::XmlElement root, ReadContext& context, Scenario* scenario) {
+  std::optional<model::XmlElement> dispersions =
+      root.Child("dispersions", model::Presence::kOptional);
   if (!dispersions) return;
   const bool check_against_scenario = context.model != nullptr && !context.doc->HasErrors();
-  const std::vector<XmlElement> spreads = dispersions->Children("spread");
+  const std::vector<model::XmlElement> spreads = dispersions->Children("spread");
   if (spreads.empty()) {
     context.Error(*dispersions,
                   "empty (expected at least one <spread param=\"...\" kind=\"normal\" sd=\"...\"/> "
@@ -123,7 +125,7 @@ void ReadDispersions(XmlElement root, ReadContext& context, Scenario* scenario) 
     return;
   }
   std::map<std::string, int> first_line;  // same-parameter key → line of its first spread
-  for (XmlElement spread : spreads) {
+  for (model::XmlElement spread : spreads) {
     std::optional<std::string> param;
     std::optional<Dispersion> d =
         ReadSpread(spread, context, *scenario, check_against_scenario, &param);

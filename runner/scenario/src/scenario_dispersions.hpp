@@ -8,6 +8,6 @@ namespace upright::runner::internal {
 
 // Reads <dispersions> into scenario->dispersions. Parameter paths and spread centres are checked
 // against the scenario only when nothing else in the file was wrong (they need the whole scenario).
-void ReadDispersions(XmlElement root, ReadContext& context, Scenario* scenario);
+void ReadDispersions(model::XmlElement root, ReadContext& context, Scenario* scenario);
 
 }  // namespace upright::runner::internal

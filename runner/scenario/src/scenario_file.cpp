@@ -1,9 +1,10 @@
-#include "upright/runner/scenario_file.hpp"
+#include "upright/runner/scenario/scenario_file.hpp"
 
 #include <algorithm>
 #include <charconv>
 #include <cmath>
 #include <filesystem>
+#include <numbers>
 #include <optional>
 #include <set>
 #include <string>
@@ -30,7 +31,7 @@ constexpr long long kSchemaVersion = 1;
 constexpr long long kMaxSeeds = 10000;
 
 // duration_s, dt_s, solver_iterations and sensor_noise on the root.
-void ReadRunSettings(XmlElement& root, ReadContext& context, Scenario* scenario) {
+void ReadRunSettings(model::XmlElement& root, ReadContext& context, Scenario* scenario) {
   bool ok = true;
   const bool dt_given = root.Has("dt_s");
   scenario->dt_s = internal::OptionalNumber(root, "dt_s", scenario->dt_s, &ok);
@@ -38,13 +39,14 @@ void ReadRunSettings(XmlElement& root, ReadContext& context, Scenario* scenario)
     // Too long a step is most often milliseconds written where seconds belong.
     context.FieldError(root, "dt_s", Num(scenario->dt_s),
                        scenario->dt_s > 0.01
-                           ? "must be in (0, 0.01]; " + SecondsHint(scenario->dt_s)
+                           ? "must be in (0, 0.01]; " + model::SecondsHint(scenario->dt_s)
                            : std::string("must be in (0, 0.01]"));
   } else if (ok) {
     context.dt_s = scenario->dt_s;
   }
 
-  if (const std::optional<double> duration = root.Double("duration_s", Presence::kRequired)) {
+  if (const std::optional<double> duration =
+          root.Double("duration_s", model::Presence::kRequired)) {
     scenario->duration_s = *duration;
     if (!(*duration > 0)) {
       context.FieldError(root, "duration_s", Num(*duration), "must be > 0");
@@ -65,7 +67,7 @@ void ReadRunSettings(XmlElement& root, ReadContext& context, Scenario* scenario)
   }
 
   if (const std::optional<long long> iterations =
-          root.Integer("solver_iterations", Presence::kOptional)) {
+          root.Integer("solver_iterations", model::Presence::kOptional)) {
     if (*iterations < 1 || *iterations > 1000) {
       context.FieldError(root, "solver_iterations", std::to_string(*iterations),
                          "must be in [1, 1000]");
@@ -78,10 +80,11 @@ void ReadRunSettings(XmlElement& root, ReadContext& context, Scenario* scenario)
 }
 
 // <description>: one or two sentences of text.
-void ReadDescription(XmlElement& root, const ReadContext& context, Scenario* scenario) {
-  std::optional<XmlElement> description = root.Child("description", Presence::kRequired);
+void ReadDescription(model::XmlElement& root, const ReadContext& context, Scenario* scenario) {
+  std::optional<model::XmlElement> description =
+      root.Child("description", model::Presence::kRequired);
   if (!description) return;
-  scenario->description = description->Text(Presence::kOptional).value_or("");
+  scenario->description = description->Text(model::Presence::kOptional).value_or("");
   if (scenario->description.empty()) {
     context.Error(*description,
                   "empty (expected one or two sentences saying what the scenario represents)");
@@ -90,11 +93,11 @@ void ReadDescription(XmlElement& root, const ReadContext& context, Scenario* sce
 
 // <robot file>: resolved against the scenario's folder, then loaded. True when the model loaded;
 // the model file's own problems go to *model_errors, to be listed after the scenario's.
-bool ReadRobot(XmlElement& root, ReadContext& context, Scenario* scenario,
-               std::vector<FileError>* model_errors) {
-  std::optional<XmlElement> robot = root.Child("robot", Presence::kRequired);
+bool ReadRobot(model::XmlElement& root, ReadContext& context, Scenario* scenario,
+               std::vector<model::FileError>* model_errors) {
+  std::optional<model::XmlElement> robot = root.Child("robot", model::Presence::kRequired);
   if (!robot) return false;
-  const std::optional<std::string> file = robot->String("file", Presence::kRequired);
+  const std::optional<std::string> file = robot->String("file", model::Presence::kRequired);
   if (!file) return false;
   context.model_file = *file;
   scenario->model_path = internal::ResolvePath(context.base_dir, *file);
@@ -106,7 +109,8 @@ bool ReadRobot(XmlElement& root, ReadContext& context, Scenario* scenario,
   }
   // The robot's rates are checked against this scenario's own step (CheckRobotRates), not the
   // default one.
-  auto loaded = LoadModelFile(scenario->model_path, ModelLoadOptions{.check_default_step = false});
+  auto loaded = model::LoadModelFile(scenario->model_path,
+                                     model::ModelLoadOptions{.check_default_step = false});
   if (!loaded) {
     context.FieldError(*robot, "file", Quote(*file),
                        "the robot model has " + std::to_string(loaded.error().size()) +
@@ -119,8 +123,8 @@ bool ReadRobot(XmlElement& root, ReadContext& context, Scenario* scenario,
   return true;
 }
 
-void ReadStart(XmlElement& root, const ReadContext& context, Scenario* scenario) {
-  std::optional<XmlElement> start = root.Child("start", Presence::kOptional);
+void ReadStart(model::XmlElement& root, const ReadContext& context, Scenario* scenario) {
+  std::optional<model::XmlElement> start = root.Child("start", model::Presence::kOptional);
   if (!start) return;
   bool ok = true;
   sim::InitialState& initial = scenario->initial;
@@ -131,11 +135,11 @@ void ReadStart(XmlElement& root, const ReadContext& context, Scenario* scenario)
   if (pitch_read && !(std::abs(pitch_deg) < 90)) {
     context.FieldError(*start, "pitch_deg", Num(pitch_deg), "must be in (-90, 90)");
   }
-  initial.pitch_rad = pitch_deg * kPi / 180.0;
+  initial.pitch_rad = pitch_deg * std::numbers::pi / 180.0;
 }
 
 // Whitespace-separated whole numbers >= 1, each once.
-void ReadSeedList(XmlElement& seeds, const std::string& list, const ReadContext& context,
+void ReadSeedList(model::XmlElement& seeds, const std::string& list, const ReadContext& context,
                   Scenario* scenario) {
   std::vector<std::uint64_t> values;
   std::set<std::uint64_t> seen;
@@ -169,14 +173,14 @@ void ReadSeedList(XmlElement& seeds, const std::string& list, const ReadContext&
 }
 
 // <seeds list="1 2 3"/> or <seeds count="N" first="K"/>; absent: the one seed 1.
-void ReadSeeds(XmlElement& root, const ReadContext& context, Scenario* scenario) {
-  std::optional<XmlElement> seeds = root.Child("seeds", Presence::kOptional);
+void ReadSeeds(model::XmlElement& root, const ReadContext& context, Scenario* scenario) {
+  std::optional<model::XmlElement> seeds = root.Child("seeds", model::Presence::kOptional);
   if (!seeds) return;
-  const std::optional<std::string> list = seeds->String("list", Presence::kOptional);
+  const std::optional<std::string> list = seeds->String("list", model::Presence::kOptional);
   const bool count_given = seeds->Has("count");
-  const std::optional<long long> count = seeds->Integer("count", Presence::kOptional);
+  const std::optional<long long> count = seeds->Integer("count", model::Presence::kOptional);
   const bool first_given = seeds->Has("first");
-  const std::optional<long long> first = seeds->Integer("first", Presence::kOptional);
+  const std::optional<long long> first = seeds->Integer("first", model::Presence::kOptional);
   if (list && count_given) {
     context.Error(*seeds, "give either list or count (with first), not both");
     return;
@@ -208,8 +212,8 @@ void ReadSeeds(XmlElement& root, const ReadContext& context, Scenario* scenario)
   }
 }
 
-void ReadMetrics(XmlElement& root, const ReadContext& context, Scenario* scenario) {
-  std::optional<XmlElement> metrics = root.Child("metrics", Presence::kOptional);
+void ReadMetrics(model::XmlElement& root, const ReadContext& context, Scenario* scenario) {
+  std::optional<model::XmlElement> metrics = root.Child("metrics", model::Presence::kOptional);
   if (!metrics) return;
   bool ok = true;
   MetricSettings& m = scenario->metrics;
@@ -224,14 +228,14 @@ void ReadMetrics(XmlElement& root, const ReadContext& context, Scenario* scenari
 
 // The plant needs the robot's control and IMU periods to be whole numbers of physics steps (an
 // IMU faster than the physics is sampled every step); same tolerance as the plant.
-void CheckRobotRates(XmlElement& root, const ReadContext& context) {
+void CheckRobotRates(model::XmlElement& root, const ReadContext& context) {
   if (context.model == nullptr || !context.dt_s) return;
   const double dt_s = *context.dt_s;
   auto whole_steps = [dt_s](double rate_hz) {
     const double steps = 1.0 / (rate_hz * dt_s);
     return std::abs(steps - std::round(steps)) < 1e-6 * steps;
   };
-  const RobotModel& model = *context.model;
+  const model::RobotModel& model = *context.model;
   if (!whole_steps(model.control_rate_hz)) {
     context.FieldError(root, "dt_s", Num(dt_s),
                        "the control period of " + context.Robot() +
@@ -247,14 +251,15 @@ void CheckRobotRates(XmlElement& root, const ReadContext& context) {
   }
 }
 
-ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::string& base_dir) {
+ScenarioLoadResult Load(model::XmlDocument doc, const std::string& path,
+                        const std::string& base_dir) {
   if (!doc.parsed()) return Failure(doc.errors());
-  XmlElement root = doc.Root();
+  model::XmlElement root = doc.Root();
   if (root.name() != "scenario") {
     doc.AddError(root.line(), "root element is <" + root.name() + ">, expected <scenario>");
     return Failure(doc.errors());
   }
-  const std::optional<long long> schema = root.Integer("schema", Presence::kRequired);
+  const std::optional<long long> schema = root.Integer("schema", model::Presence::kRequired);
   if (schema && *schema != kSchemaVersion) {
     doc.AddError(root.line(), "scenario schema = " + std::to_string(*schema) +
                                   ": unsupported schema version (supported: " +
@@ -267,7 +272,7 @@ ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::str
   ReadContext context;
   context.doc = &doc;
   context.base_dir = base_dir;
-  if (std::optional<std::string> name = root.String("name", Presence::kRequired)) {
+  if (std::optional<std::string> name = root.String("name", model::Presence::kRequired)) {
     scenario.name = *name;
     if (!internal::IsSafeName(*name)) {
       context.FieldError(root, "name", Quote(*name), std::string(internal::kSafeNameRule));
@@ -275,7 +280,7 @@ ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::str
   }
   ReadRunSettings(root, context, &scenario);
   ReadDescription(root, context, &scenario);
-  std::vector<FileError> model_errors;
+  std::vector<model::FileError> model_errors;
   if (ReadRobot(root, context, &scenario, &model_errors)) context.model = &scenario.model;
   internal::ReadGround(root, context, &scenario.terrain);
   ReadStart(root, context, &scenario);
@@ -287,7 +292,7 @@ ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::str
   internal::ReadDispersions(root, context, &scenario);  // last: it needs the whole scenario
   doc.ReportUnread();
 
-  std::vector<FileError> errors = doc.errors();
+  std::vector<model::FileError> errors = doc.errors();
   errors.insert(errors.end(), model_errors.begin(), model_errors.end());
   if (!errors.empty()) return Failure(std::move(errors));
   return scenario;
@@ -296,12 +301,13 @@ ScenarioLoadResult Load(XmlDocument doc, const std::string& path, const std::str
 }  // namespace
 
 ScenarioLoadResult LoadScenarioFile(const std::string& path) {
-  return Load(XmlDocument::Open(path), path, std::filesystem::path(path).parent_path().string());
+  return Load(model::XmlDocument::Open(path), path,
+              std::filesystem::path(path).parent_path().string());
 }
 
 ScenarioLoadResult ParseScenarioText(std::string_view xml_text, const std::string& path,
                                      const std::string& base_dir) {
-  return Load(XmlDocument::Parse(xml_text, path), path, base_dir);
+  return Load(model::XmlDocument::Parse(xml_text, path), path, base_dir);
 }
 
 }  // namespace upright::runner

@@ -22,13 +22,13 @@ constexpr std::array<SegmentKind, 4> kSegmentKinds = {SegmentKind::kRamp, Segmen
                                                       SegmentKind::kBump, SegmentKind::kCurb};
 
 struct ReadSegment {
-  XmlElement element;
+  model::XmlElement element;
   ProfileSegment segment;
   bool complete = true;  // every value it needs was read
 };
 
 // One segment's attributes: a curb has only a height, a plateau only a length.
-ReadSegment ReadOneSegment(XmlElement element, SegmentKind kind) {
+ReadSegment ReadOneSegment(model::XmlElement element, SegmentKind kind) {
   ReadSegment read{element, ProfileSegment{kind, 0, 0}, true};
   if (kind != SegmentKind::kCurb) {
     read.segment.length_m = RequiredNumber(element, "length_m", &read.complete);
@@ -40,11 +40,11 @@ ReadSegment ReadOneSegment(XmlElement element, SegmentKind kind) {
 }
 
 // The segments in file order, across the four element names.
-std::vector<ReadSegment> ReadSegments(XmlElement& ground) {
+std::vector<ReadSegment> ReadSegments(model::XmlElement& ground) {
   std::array<std::string_view, kSegmentKinds.size()> names;
   for (std::size_t i = 0; i < kSegmentKinds.size(); ++i) names[i] = sim::ToString(kSegmentKinds[i]);
   std::vector<ReadSegment> segments;
-  for (const XmlElement& element : ground.Children(names)) {
+  for (const model::XmlElement& element : ground.Children(names)) {
     const auto name = std::find(names.begin(), names.end(), element.name());
     segments.push_back(ReadOneSegment(element, kSegmentKinds[name - names.begin()]));
   }
@@ -54,9 +54,9 @@ std::vector<ReadSegment> ReadSegments(XmlElement& ground) {
 // Sim rules, each reported at the line of the element it concerns: the ground's own fields, then
 // every complete segment and region alone on default ground (the ones before it replaced by valid
 // stand-ins, so the index in the message is the element's own), then the whole terrain.
-void CheckTerrain(const Terrain& terrain, XmlElement& ground,
+void CheckTerrain(const Terrain& terrain, model::XmlElement& ground,
                   const std::vector<ReadSegment>& segments,
-                  const std::vector<std::pair<XmlElement, bool>>& regions,
+                  const std::vector<std::pair<model::XmlElement, bool>>& regions,
                   const ReadContext& context) {
   bool all_valid = true;
   Terrain probe = terrain;
@@ -98,8 +98,8 @@ void CheckTerrain(const Terrain& terrain, XmlElement& ground,
 
 }  // namespace
 
-void ReadGround(XmlElement root, ReadContext& context, sim::Terrain* terrain) {
-  std::optional<XmlElement> ground = root.Child("ground", Presence::kOptional);
+void ReadGround(model::XmlElement root, ReadContext& context, sim::Terrain* terrain) {
+  std::optional<model::XmlElement> ground = root.Child("ground", model::Presence::kOptional);
   if (!ground) return;
   bool ok = true;
   std::array<std::string_view, kTerrainKinds.size()> kind_names;
@@ -107,7 +107,8 @@ void ReadGround(XmlElement root, ReadContext& context, sim::Terrain* terrain) {
     kind_names[i] = sim::ToString(kTerrainKinds[i]);
   }
   const bool kind_given = ground->Has("kind");
-  const std::optional<std::size_t> kind = ground->Choice("kind", kind_names, Presence::kOptional);
+  const std::optional<std::size_t> kind =
+      ground->Choice("kind", kind_names, model::Presence::kOptional);
   const bool kind_known = !kind_given || kind.has_value();
   terrain->kind = kind ? kTerrainKinds[*kind] : TerrainKind::kFlat;
   const std::string kind_text = Quote(sim::ToString(terrain->kind));
@@ -116,7 +117,7 @@ void ReadGround(XmlElement root, ReadContext& context, sim::Terrain* terrain) {
   auto kind_attribute = [&](std::string_view attribute, TerrainKind owner, bool required,
                             double* field) {
     const bool given = ground->Has(attribute);
-    const std::optional<double> value = ground->Double(attribute, Presence::kOptional);
+    const std::optional<double> value = ground->Double(attribute, model::Presence::kOptional);
     if (value) *field = *value;
     if (given && !value) ok = false;
     if (!kind_known) return;
@@ -147,8 +148,8 @@ void ReadGround(XmlElement root, ReadContext& context, sim::Terrain* terrain) {
     ok = false;
   }
 
-  std::vector<std::pair<XmlElement, bool>> regions;
-  for (XmlElement element : ground->Children("friction")) {
+  std::vector<std::pair<model::XmlElement, bool>> regions;
+  for (model::XmlElement element : ground->Children("friction")) {
     bool complete = true;
     FrictionRegion region;
     region.start_x_m = RequiredNumber(element, "start_x_m", &complete);

@@ -1,10 +1,11 @@
 // Scenario parameters by path: parse "a/b[2].attr", find the number it names, and check what a new
 // value touches.
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 
 #include <algorithm>
 #include <cmath>
 #include <functional>
+#include <numbers>
 #include <sstream>
 
 #include "upright/base/number_text.hpp"
@@ -16,7 +17,7 @@
 namespace upright::runner {
 namespace {
 
-constexpr double kDeg = kPi / 180;
+constexpr double kDeg = std::numbers::pi / 180;
 
 struct Path {
   std::string element;    // "timeline/push", "robot/sensors/gyro", "ground"
@@ -155,7 +156,7 @@ Result<Slot> FindSlot(Scenario& s, const Path& p) {
 // The carriage target at the breakpoints of the payload shifts, each side of any jump, must stay
 // within the travel (the plant would clamp it; a scenario asking for more is wrong).
 Status PayloadWithinTravel(const Scenario& s) {
-  const RobotModel& robot = s.built_model();
+  const model::RobotModel& robot = s.built_model();
   if (s.payload_shifts.empty()) return {};
   if (!robot.payload.present) return Failure("robot '" + robot.name + "' has no payload to shift");
   std::vector<double> times;
@@ -177,8 +178,8 @@ Status PayloadWithinTravel(const Scenario& s) {
         target += f * p.distance_m;
         scale += std::abs(f * p.distance_m);
       }
-      if (!NoMoreThan(robot.payload.min_x_m, target, scale) ||
-          !NoMoreThan(target, robot.payload.max_x_m, scale)) {
+      if (!model::NoMoreThan(robot.payload.min_x_m, target, scale) ||
+          !model::NoMoreThan(target, robot.payload.max_x_m, scale)) {
         std::ostringstream why;
         why << "the payload target reaches " << Num(target) << " m at " << t
             << " s, outside the carriage travel [" << Num(robot.payload.min_x_m) << ", "
@@ -200,13 +201,13 @@ Status InRun(double start_s, double duration_s, const char* what) {
 
 // The timeline's events: each one's own rules and its start within the run.
 Status CheckEvents(const Scenario& s) {
-  const ChassisModel& chassis = s.built_model().chassis;
+  const model::ChassisModel& chassis = s.built_model().chassis;
   for (const auto& p : s.pushes) {
     if (Status valid = p.Validate(); !valid) return valid;
     if (Status in_run = InRun(p.start_s, s.duration_s, "push"); !in_run) return in_run;
     const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
-    if (!NoMoreThan(chassis.outline_bottom_m, p.height_m, scale_m) ||
-        !NoMoreThan(p.height_m, chassis.outline_top_m, scale_m)) {
+    if (!model::NoMoreThan(chassis.outline_bottom_m, p.height_m, scale_m) ||
+        !model::NoMoreThan(p.height_m, chassis.outline_top_m, scale_m)) {
       return Failure("push height_m = " + Num(p.height_m) +
                      ": must be within the chassis outline [" + Num(chassis.outline_bottom_m) +
                      ", " + Num(chassis.outline_top_m) + "] m");
@@ -235,11 +236,11 @@ Status CheckEvents(const Scenario& s) {
 Status Check(Scenario& s) {
   if (Status valid = s.terrain.Validate(); !valid) return valid;
   if (Status events = CheckEvents(s); !events) return events;
-  if (!(std::abs(s.initial.pitch_rad) < kPi / 2)) {
+  if (!(std::abs(s.initial.pitch_rad) < std::numbers::pi / 2)) {
     return Failure("start pitch_deg must be in (-90, 90)");
   }
   if (s.plant_model) {
-    const auto valid_model = ValidateModel(*s.plant_model);
+    const auto valid_model = model::ValidateModel(*s.plant_model);
     if (!valid_model) return Failure("robot: " + valid_model.error().front());
   }
   if (Status travel = PayloadWithinTravel(s); !travel) return travel;
@@ -284,7 +285,7 @@ Result<double> GetScenarioParameter(const Scenario& scenario, const std::string&
   if (!p) return Failure(p.error());
   std::string element;
   if (RobotElement(*p, &element)) {
-    return GetModelField(scenario.built_model(), element, p->attribute);
+    return model::GetModelField(scenario.built_model(), element, p->attribute);
   }
   Scenario copy = scenario;  // FindSlot hands out pointers into a scenario it may change
   const Result<Slot> slot = FindSlot(copy, *p);
@@ -300,8 +301,8 @@ Status SetScenarioParameter(Scenario* scenario, const std::string& path, double 
   Scenario changed = *scenario;
   std::string element;
   if (RobotElement(*p, &element)) {
-    RobotModel robot = changed.built_model();
-    if (Status set = SetModelField(&robot, element, p->attribute, value); !set) {
+    model::RobotModel robot = changed.built_model();
+    if (Status set = model::SetModelField(&robot, element, p->attribute, value); !set) {
       return Failure(path + " = " + Num(value) + ": " + set.error());
     }
     changed.plant_model = robot;

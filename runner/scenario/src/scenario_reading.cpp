@@ -10,11 +10,11 @@
 
 namespace upright::runner::internal {
 
-void ReadContext::Error(const XmlElement& element, const std::string& message) const {
+void ReadContext::Error(const model::XmlElement& element, const std::string& message) const {
   doc->AddError(element.line(), element.label() + ": " + message);
 }
 
-void ReadContext::FieldError(const XmlElement& element, std::string_view attribute,
+void ReadContext::FieldError(const model::XmlElement& element, std::string_view attribute,
                              const std::string& value, const std::string& rule) const {
   doc->AddError(element.line(),
                 element.label() + " " + std::string(attribute) + " = " + value + ": " + rule);
@@ -24,8 +24,8 @@ std::string ReadContext::Robot() const {
   return "robot '" + (model != nullptr ? model->name : std::string()) + "' (" + model_file + ")";
 }
 
-double RequiredNumber(XmlElement& element, std::string_view attribute, bool* ok) {
-  const std::optional<double> value = element.Double(attribute, Presence::kRequired);
+double RequiredNumber(model::XmlElement& element, std::string_view attribute, bool* ok) {
+  const std::optional<double> value = element.Double(attribute, model::Presence::kRequired);
   if (!value) {
     *ok = false;
     return 0;
@@ -33,9 +33,10 @@ double RequiredNumber(XmlElement& element, std::string_view attribute, bool* ok)
   return *value;
 }
 
-double OptionalNumber(XmlElement& element, std::string_view attribute, double fallback, bool* ok) {
+double OptionalNumber(model::XmlElement& element, std::string_view attribute, double fallback,
+                      bool* ok) {
   if (!element.Has(attribute)) return fallback;
-  const std::optional<double> value = element.Double(attribute, Presence::kOptional);
+  const std::optional<double> value = element.Double(attribute, model::Presence::kOptional);
   if (!value) {
     *ok = false;
     return fallback;
@@ -43,10 +44,11 @@ double OptionalNumber(XmlElement& element, std::string_view attribute, double fa
   return *value;
 }
 
-bool OptionalBool(XmlElement& element, std::string_view attribute, bool fallback, bool* ok) {
+bool OptionalBool(model::XmlElement& element, std::string_view attribute, bool fallback, bool* ok) {
   static constexpr std::array<std::string_view, 2> kBool = {"false", "true"};
   if (!element.Has(attribute)) return fallback;
-  const std::optional<std::size_t> choice = element.Choice(attribute, kBool, Presence::kOptional);
+  const std::optional<std::size_t> choice =
+      element.Choice(attribute, kBool, model::Presence::kOptional);
   if (!choice) {
     *ok = false;
     return fallback;
@@ -81,8 +83,8 @@ bool IsSafeName(std::string_view name) {
   return true;
 }
 
-std::optional<double> ReadEventStart(XmlElement& event, const ReadContext& context) {
-  const std::optional<double> at_s = event.Double("at_s", Presence::kRequired);
+std::optional<double> ReadEventStart(model::XmlElement& event, const ReadContext& context) {
+  const std::optional<double> at_s = event.Double("at_s", model::Presence::kRequired);
   if (!at_s) return std::nullopt;
   if (!context.duration_s) {
     if (*at_s >= 0) return at_s;

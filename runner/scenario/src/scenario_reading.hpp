@@ -10,33 +10,34 @@
 
 #include "upright/model/robot_model.hpp"
 #include "upright/model/xml_reader.hpp"
-#include "upright/runner/scenario.hpp"
+#include "upright/runner/scenario/scenario.hpp"
 
 namespace upright::runner::internal {
 
 struct ReadContext {
-  XmlDocument* doc = nullptr;
+  model::XmlDocument* doc = nullptr;
   std::string base_dir;               // relative file paths are taken from here
   std::optional<double> duration_s;   // set once the scenario's duration_s is valid
   std::optional<double> dt_s;         // set once the scenario's dt_s is valid
-  const RobotModel* model = nullptr;  // set once the robot model has loaded without errors
+  const model::RobotModel* model = nullptr;  // set once the robot model has loaded without errors
   std::string model_file;             // the robot file attribute as written, for messages
 
   // "label: message" at the element's line.
-  void Error(const XmlElement& element, const std::string& message) const;
+  void Error(const model::XmlElement& element, const std::string& message) const;
   // "label attribute = value: rule" at the element's line.
-  void FieldError(const XmlElement& element, std::string_view attribute, const std::string& value,
-                  const std::string& rule) const;
+  void FieldError(const model::XmlElement& element, std::string_view attribute,
+                  const std::string& value, const std::string& rule) const;
   // "robot 'name' (file)", for messages about the robot the scenario names.
   std::string Robot() const;
 };
 
 // Reading helpers that note a bad value in *ok (the reader has already reported it) and return
 // `fallback` (or 0) in its place, so reading can go on.
-double RequiredNumber(XmlElement& element, std::string_view attribute, bool* ok);
-double OptionalNumber(XmlElement& element, std::string_view attribute, double fallback, bool* ok);
+double RequiredNumber(model::XmlElement& element, std::string_view attribute, bool* ok);
+double OptionalNumber(model::XmlElement& element, std::string_view attribute, double fallback,
+                      bool* ok);
 // "true" or "false".
-bool OptionalBool(XmlElement& element, std::string_view attribute, bool fallback, bool* ok);
+bool OptionalBool(model::XmlElement& element, std::string_view attribute, bool fallback, bool* ok);
 
 // A number as written in messages: whole numbers in plain digits, others in the shortest form
 // that reads back exactly.
@@ -57,12 +58,12 @@ inline constexpr std::string_view kSafeNameRule =
     "must be letters, digits, '.', '_' or '-' (not '.' or '..'), since it names files";
 
 // The time an event starts: the required at_s, in [0, duration_s). nullopt when absent or bad.
-std::optional<double> ReadEventStart(XmlElement& event, const ReadContext& context);
+std::optional<double> ReadEventStart(model::XmlElement& event, const ReadContext& context);
 
 // Element readers; each reads every attribute and child it knows, even when it reports an error,
 // so that a single pass finds every problem.
-void ReadGround(XmlElement root, ReadContext& context, sim::Terrain* terrain);
-void ReadTimeline(XmlElement root, ReadContext& context, Scenario* scenario);
-void ReadControllers(XmlElement root, ReadContext& context, Scenario* scenario);
+void ReadGround(model::XmlElement root, ReadContext& context, sim::Terrain* terrain);
+void ReadTimeline(model::XmlElement root, ReadContext& context, Scenario* scenario);
+void ReadControllers(model::XmlElement root, ReadContext& context, Scenario* scenario);
 
 }  // namespace upright::runner::internal

@@ -4,6 +4,7 @@
 #include <array>
 #include <cmath>
 #include <limits>
+#include <numbers>
 #include <string>
 #include <utility>
 #include <vector>
@@ -15,7 +16,7 @@
 namespace upright::runner::internal {
 namespace {
 
-constexpr double kDegToRad = kPi / 180.0;
+constexpr double kDegToRad = std::numbers::pi / 180.0;
 
 template <typename Enum, std::size_t N>
 std::array<std::string_view, N> Names(const std::array<Enum, N>& values) {
@@ -41,7 +42,8 @@ void SortByStart(std::vector<Event>& events) {
                    [](const Event& a, const Event& b) { return a.start_s < b.start_s; });
 }
 
-void ReadPush(XmlElement element, const ReadContext& context, std::vector<sim::Push>* pushes) {
+void ReadPush(model::XmlElement element, const ReadContext& context,
+              std::vector<sim::Push>* pushes) {
   static const auto kShapeNames = Names(kShapes);
   bool ok = true;
   sim::Push push;
@@ -49,7 +51,7 @@ void ReadPush(XmlElement element, const ReadContext& context, std::vector<sim::P
   ok = ok && start.has_value();
   push.start_s = start.value_or(0);
   const std::optional<std::size_t> shape =
-      element.Choice("shape", kShapeNames, Presence::kRequired);
+      element.Choice("shape", kShapeNames, model::Presence::kRequired);
   ok = ok && shape.has_value();
   if (shape) push.shape = kShapes[*shape];
   push.peak_N = RequiredNumber(element, "peak_N", &ok);
@@ -68,10 +70,10 @@ void ReadPush(XmlElement element, const ReadContext& context, std::vector<sim::P
     if (Status valid = push.Validate(); !valid) context.Error(element, valid.error());
   }
   if (ok && context.model != nullptr) {
-    const ChassisModel& chassis = context.model->chassis;
+    const model::ChassisModel& chassis = context.model->chassis;
     const double scale_m = std::abs(chassis.outline_bottom_m) + std::abs(chassis.outline_top_m);
-    if (!NoMoreThan(chassis.outline_bottom_m, push.height_m, scale_m) ||
-        !NoMoreThan(push.height_m, chassis.outline_top_m, scale_m)) {
+    if (!model::NoMoreThan(chassis.outline_bottom_m, push.height_m, scale_m) ||
+        !model::NoMoreThan(push.height_m, chassis.outline_top_m, scale_m)) {
       context.FieldError(element, "height_m", Num(push.height_m),
                          "must be within the chassis outline [" + Num(chassis.outline_bottom_m) +
                              ", " + Num(chassis.outline_top_m) + "] of " + context.Robot() +
@@ -105,9 +107,9 @@ double CarriageTarget(double home_m, const std::vector<PayloadShift>& shifts, do
 // The target is piecewise linear in time, so its extremes lie at the shifts' starts and ends
 // (just before or at each). Reports the first time it leaves the travel, at the line of the shift
 // that starts or ends there.
-void CheckPayloadTravel(const std::vector<std::pair<PayloadShift, XmlElement>>& shifts,
+void CheckPayloadTravel(const std::vector<std::pair<PayloadShift, model::XmlElement>>& shifts,
                         const ReadContext& context) {
-  const PayloadModel& payload = context.model->payload;
+  const model::PayloadModel& payload = context.model->payload;
   std::vector<PayloadShift> plain;
   std::vector<std::pair<double, std::size_t>> breakpoints;  // time, shift
   for (std::size_t i = 0; i < shifts.size(); ++i) {
@@ -121,8 +123,8 @@ void CheckPayloadTravel(const std::vector<std::pair<PayloadShift, XmlElement>>& 
     for (const bool jumps_at_t : {false, true}) {
       double scale_m = 0;
       const double target_m = CarriageTarget(payload.x_m, plain, t_s, jumps_at_t, &scale_m);
-      if (NoMoreThan(payload.min_x_m, target_m, scale_m) &&
-          NoMoreThan(target_m, payload.max_x_m, scale_m)) {
+      if (model::NoMoreThan(payload.min_x_m, target_m, scale_m) &&
+          model::NoMoreThan(target_m, payload.max_x_m, scale_m)) {
         continue;
       }
       context.FieldError(shifts[i].second, "distance_m", Num(shifts[i].first.distance_m),
@@ -135,11 +137,11 @@ void CheckPayloadTravel(const std::vector<std::pair<PayloadShift, XmlElement>>& 
   }
 }
 
-void ReadPayloadShifts(XmlElement& timeline, const ReadContext& context,
+void ReadPayloadShifts(model::XmlElement& timeline, const ReadContext& context,
                        std::vector<PayloadShift>* payload_shifts) {
-  std::vector<std::pair<PayloadShift, XmlElement>> shifts;
+  std::vector<std::pair<PayloadShift, model::XmlElement>> shifts;
   bool ok = true;
-  for (XmlElement element : timeline.Children("payload_shift")) {
+  for (model::XmlElement element : timeline.Children("payload_shift")) {
     PayloadShift shift;
     const std::optional<double> start = ReadEventStart(element, context);
     ok = ok && start.has_value();
@@ -162,7 +164,8 @@ void ReadPayloadShifts(XmlElement& timeline, const ReadContext& context,
   for (const auto& shift : shifts) payload_shifts->push_back(shift.first);
 }
 
-void ReadDrive(XmlElement element, const ReadContext& context, std::vector<DriveChange>* drives) {
+void ReadDrive(model::XmlElement element, const ReadContext& context,
+               std::vector<DriveChange>* drives) {
   bool ok = true;
   DriveChange drive;
   drive.start_s = ReadEventStart(element, context).value_or(0);
@@ -173,7 +176,7 @@ void ReadDrive(XmlElement element, const ReadContext& context, std::vector<Drive
   drives->push_back(drive);
 }
 
-void ReadMotorFault(XmlElement element, const ReadContext& context,
+void ReadMotorFault(model::XmlElement element, const ReadContext& context,
                     std::vector<sim::MotorFault>* faults) {
   static const auto kSideNames = Names(kSides);
   bool ok = true;
@@ -181,7 +184,8 @@ void ReadMotorFault(XmlElement element, const ReadContext& context,
   const std::optional<double> start = ReadEventStart(element, context);
   ok = ok && start.has_value();
   fault.start_s = start.value_or(0);
-  const std::optional<std::size_t> side = element.Choice("side", kSideNames, Presence::kRequired);
+  const std::optional<std::size_t> side =
+      element.Choice("side", kSideNames, model::Presence::kRequired);
   ok = ok && side.has_value();
   if (side) fault.side = kSides[*side];
   bool scale_read = true;
@@ -197,7 +201,7 @@ void ReadMotorFault(XmlElement element, const ReadContext& context,
   faults->push_back(fault);
 }
 
-void ReadSensorFault(XmlElement element, const ReadContext& context,
+void ReadSensorFault(model::XmlElement element, const ReadContext& context,
                      std::vector<sim::SensorFault>* faults) {
   static const auto kChannelNames = Names(kChannels);
   static const auto kKindNames = Names(kFaultKinds);
@@ -207,10 +211,11 @@ void ReadSensorFault(XmlElement element, const ReadContext& context,
   ok = ok && start.has_value();
   fault.start_s = start.value_or(0);
   const std::optional<std::size_t> channel =
-      element.Choice("channel", kChannelNames, Presence::kRequired);
+      element.Choice("channel", kChannelNames, model::Presence::kRequired);
   ok = ok && channel.has_value();
   if (channel) fault.channel = kChannels[*channel];
-  const std::optional<std::size_t> kind = element.Choice("kind", kKindNames, Presence::kRequired);
+  const std::optional<std::size_t> kind =
+      element.Choice("kind", kKindNames, model::Presence::kRequired);
   ok = ok && kind.has_value();
   if (kind) fault.kind = kFaultKinds[*kind];
   // Only a bias has a value; a dropout reads 0 and a stuck channel holds its last reading.
@@ -239,20 +244,20 @@ void ReadSensorFault(XmlElement element, const ReadContext& context,
 
 }  // namespace
 
-void ReadTimeline(XmlElement root, ReadContext& context, Scenario* scenario) {
-  std::optional<XmlElement> timeline = root.Child("timeline", Presence::kOptional);
+void ReadTimeline(model::XmlElement root, ReadContext& context, Scenario* scenario) {
+  std::optional<model::XmlElement> timeline = root.Child("timeline", model::Presence::kOptional);
   if (!timeline) return;
-  for (XmlElement element : timeline->Children("push")) {
+  for (model::XmlElement element : timeline->Children("push")) {
     ReadPush(element, context, &scenario->pushes);
   }
   ReadPayloadShifts(*timeline, context, &scenario->payload_shifts);
-  for (XmlElement element : timeline->Children("drive")) {
+  for (model::XmlElement element : timeline->Children("drive")) {
     ReadDrive(element, context, &scenario->drives);
   }
-  for (XmlElement element : timeline->Children("motor_fault")) {
+  for (model::XmlElement element : timeline->Children("motor_fault")) {
     ReadMotorFault(element, context, &scenario->motor_faults);
   }
-  for (XmlElement element : timeline->Children("sensor_fault")) {
+  for (model::XmlElement element : timeline->Children("sensor_fault")) {
     ReadSensorFault(element, context, &scenario->sensor_faults);
   }
   SortByStart(scenario->pushes);

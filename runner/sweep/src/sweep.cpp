@@ -1,6 +1,6 @@
 // The sweep: every sample drawn first (cheap, in order), the modules loaded once, then
 // samples × controllers run on worker threads into fixed slots.
-#include "upright/runner/sweep.hpp"
+#include "upright/runner/sweep/sweep.hpp"
 
 #include <algorithm>
 #include <chrono>
@@ -8,9 +8,9 @@
 #include <utility>
 
 #include "upright/model/check.hpp"
-#include "upright/runner/modules.hpp"
-#include "upright/runner/parallel_for.hpp"
-#include "upright/runner/sweep_sampling.hpp"
+#include "upright/runner/run/modules.hpp"
+#include "upright/runner/run/parallel_for.hpp"
+#include "upright/runner/sweep/sweep_sampling.hpp"
 
 namespace upright::runner {
 

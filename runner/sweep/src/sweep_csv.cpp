@@ -1,9 +1,9 @@
 // sweep.csv: one row per sample × controller, sample by sample — the sampled values, the status
 // and every figure summary.csv has, in its column order.
 #include "upright/base/number_text.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/sweep_writer.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
+#include "upright/runner/sweep/sweep_writer.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
 
 namespace upright::runner {
 

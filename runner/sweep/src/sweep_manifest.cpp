@@ -1,9 +1,9 @@
 // manifest.json of a sweep: what was run (tool version, input hashes, seed, samples, the
 // dispersions and how samples are seeded) and how long it took.
-#include "upright/runner/json_text.hpp"
-#include "upright/runner/scenario_info_json.hpp"
-#include "upright/runner/sweep_sampling.hpp"
-#include "upright/runner/sweep_writer.hpp"
+#include "upright/runner/common/json_text.hpp"
+#include "upright/runner/sweep/sweep_sampling.hpp"
+#include "upright/runner/sweep/sweep_writer.hpp"
+#include "upright/runner/tables/scenario_info_json.hpp"
 
 namespace upright::runner {
 

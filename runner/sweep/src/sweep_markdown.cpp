@@ -8,9 +8,10 @@
 
 #include "upright/base/number_text.hpp"
 #include "upright/model/check.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/sweep_writer.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
+#include "upright/runner/sweep/sweep_writer.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/paired_tests.hpp"
 
 namespace upright::runner {
 namespace {

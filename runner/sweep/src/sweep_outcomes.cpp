@@ -2,7 +2,7 @@
 #include <algorithm>
 
 #include "upright/model/check.hpp"
-#include "upright/runner/sweep.hpp"
+#include "upright/runner/sweep/sweep.hpp"
 
 namespace upright::runner {
 namespace {

@@ -1,12 +1,12 @@
 // Sample i of a sweep: one sim::Random stream per dispersion, seeded from (sweep seed, i, k);
 // draws the parameter rejects are drawn again.
-#include "upright/runner/sweep_sampling.hpp"
+#include "upright/runner/sweep/sweep_sampling.hpp"
 
 #include <limits>
 #include <sstream>
 #include <utility>
 
-#include "upright/runner/scenario_parameter.hpp"
+#include "upright/runner/scenario/scenario_parameter.hpp"
 #include "upright/sim/random.hpp"
 
 namespace upright::runner {

@@ -1,11 +1,11 @@
 // WriteSweepResults: each file's text built from the result, then written atomically one by one;
 // manifest.json last, so its presence means the folder is complete.
-#include "upright/runner/sweep_writer.hpp"
+#include "upright/runner/sweep/sweep_writer.hpp"
 
 #include <filesystem>
 
-#include "upright/runner/atomic_file.hpp"
-#include "upright/runner/make_results_folder.hpp"
+#include "upright/runner/common/atomic_file.hpp"
+#include "upright/runner/tables/make_results_folder.hpp"
 
 namespace upright::runner {
 

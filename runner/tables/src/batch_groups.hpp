@@ -9,8 +9,8 @@
 #include <string>
 #include <vector>
 
-#include "upright/runner/played_run.hpp"
-#include "upright/runner/run_result.hpp"
+#include "upright/runner/metrics/run_result.hpp"
+#include "upright/runner/tables/played_run.hpp"
 
 namespace upright::runner::internal {
 

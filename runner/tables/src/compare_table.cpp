@@ -4,9 +4,9 @@
 
 #include "spread_text.hpp"
 #include "upright/base/number_text.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/paired_tests.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/paired_tests.hpp"
 
 namespace upright::runner::internal {
 namespace {

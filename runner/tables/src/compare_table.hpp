@@ -11,8 +11,8 @@
 #include <vector>
 
 #include "batch_groups.hpp"
-#include "upright/runner/metric_floors.hpp"
-#include "upright/runner/verdict.hpp"
+#include "upright/runner/tables/metric_floors.hpp"
+#include "upright/runner/tables/verdict.hpp"
 
 namespace upright::runner::internal {
 

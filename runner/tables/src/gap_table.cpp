@@ -1,7 +1,7 @@
 #include "gap_table.hpp"
 
 #include "upright/base/number_text.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {

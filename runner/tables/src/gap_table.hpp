@@ -7,7 +7,7 @@
 #include <vector>
 
 #include "batch_groups.hpp"
-#include "upright/runner/run_result.hpp"
+#include "upright/runner/metrics/run_result.hpp"
 
 namespace upright::runner::internal {
 

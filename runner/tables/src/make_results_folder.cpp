@@ -1,4 +1,4 @@
-#include "upright/runner/make_results_folder.hpp"
+#include "upright/runner/tables/make_results_folder.hpp"
 
 #include <filesystem>
 #include <system_error>

@@ -1,7 +1,7 @@
 #include "manifest_json.hpp"
 
-#include "upright/runner/json_text.hpp"
-#include "upright/runner/scenario_info_json.hpp"
+#include "upright/runner/common/json_text.hpp"
+#include "upright/runner/tables/scenario_info_json.hpp"
 
 namespace upright::runner::internal {
 namespace {

@@ -1,10 +1,10 @@
-#include "upright/runner/metric_columns.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
 
 #include <array>
 
 #include "upright/base/number_text.hpp"
-#include "upright/runner/played_run.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
+#include "upright/runner/tables/played_run.hpp"
 
 namespace upright::runner {
 namespace {

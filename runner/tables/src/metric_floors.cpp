@@ -1,6 +1,6 @@
-#include "upright/runner/metric_floors.hpp"
+#include "upright/runner/tables/metric_floors.hpp"
 
-#include "upright/runner/metric_columns.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
 
 namespace upright::runner {
 

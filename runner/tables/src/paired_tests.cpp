@@ -1,11 +1,11 @@
 // The exact McNemar test and the paired t-test.
-#include "upright/runner/paired_tests.hpp"
+#include "upright/runner/tables/paired_tests.hpp"
 
 #include <algorithm>
 #include <cmath>
 #include <limits>
 
-#include "upright/runner/student_t.hpp"
+#include "upright/runner/tables/student_t.hpp"
 
 namespace upright::runner {
 

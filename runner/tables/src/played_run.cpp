@@ -1,4 +1,4 @@
-#include "upright/runner/played_run.hpp"
+#include "upright/runner/tables/played_run.hpp"
 
 namespace upright::runner {
 

@@ -6,7 +6,7 @@
 #include <limits>
 
 #include "upright/base/number_text.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
 
 namespace upright::runner::internal {
 namespace {

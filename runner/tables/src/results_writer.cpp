@@ -1,6 +1,6 @@
 // WriteResults: builds each file's text from the batch, then writes them one by one, each
 // atomically; manifest.json goes last, so its presence means the folder is complete.
-#include "upright/runner/results_writer.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 
 #include <filesystem>
 #include <functional>
@@ -15,8 +15,8 @@
 #include "ranking_table.hpp"
 #include "summary_table.hpp"
 #include "trace_csv.hpp"
-#include "upright/runner/atomic_file.hpp"
-#include "upright/runner/make_results_folder.hpp"
+#include "upright/runner/common/atomic_file.hpp"
+#include "upright/runner/tables/make_results_folder.hpp"
 
 namespace upright::runner {
 namespace {

@@ -1,4 +1,4 @@
-#include "upright/runner/scenario_info_json.hpp"
+#include "upright/runner/tables/scenario_info_json.hpp"
 
 namespace upright::runner {
 

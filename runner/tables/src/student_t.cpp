@@ -1,5 +1,5 @@
 // The regularised incomplete beta function by its continued fraction, and Student's t from it.
-#include "upright/runner/student_t.hpp"
+#include "upright/runner/tables/student_t.hpp"
 
 #include <cmath>
 #include <limits>

@@ -3,8 +3,8 @@
 #include <cmath>
 
 #include "spread_text.hpp"
-#include "upright/runner/metric_columns.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
 
 namespace upright::runner::internal {
 namespace {

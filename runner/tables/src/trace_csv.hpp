@@ -5,7 +5,7 @@
 
 #include <string>
 
-#include "upright/runner/run_result.hpp"
+#include "upright/runner/metrics/run_result.hpp"
 
 namespace upright::runner::internal {
 

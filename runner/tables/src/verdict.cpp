@@ -1,9 +1,9 @@
-#include "upright/runner/verdict.hpp"
+#include "upright/runner/tables/verdict.hpp"
 
 #include <cmath>
 
 #include "upright/base/number_text.hpp"
-#include "upright/runner/text_format.hpp"
+#include "upright/runner/common/text_format.hpp"
 
 namespace upright::runner {
 

@@ -1,12 +1,13 @@
-#include "upright/runner/linear_twin.hpp"
+#include "upright/runner/twin/linear_twin.hpp"
 
 #include <cmath>
+#include <numbers>
 #include <string_view>
 
 #include "upright/base/number_text.hpp"
 #include "upright/model/conventions.hpp"
-#include "upright/runner/twin_dynamics.hpp"
-#include "upright/runner/twin_sensors.hpp"
+#include "upright/runner/twin/twin_dynamics.hpp"
+#include "upright/runner/twin/twin_sensors.hpp"
 
 namespace upright::runner {
 namespace {
@@ -40,7 +41,7 @@ void FillTruth(double time_s, const design::StateVector& x, double equilibrium_p
 // The robot's constant sensor biases, as the plant's sensors carry them: a bias held against
 // wheel friction makes a parked robot creep, and the twin would otherwise part from the plant on a
 // quiet run for that reason alone. Noise, quantisation and latency stay out.
-void AddSensorBiases(const SensorModel& m, sim::SensorSample* sensed) {
+void AddSensorBiases(const model::SensorModel& m, sim::SensorSample* sensed) {
   sensed->gyro_rad_s[0] += m.gyro_bias_x_rad_s;
   sensed->gyro_rad_s[1] += m.gyro_bias_y_rad_s;
   sensed->gyro_rad_s[2] += m.gyro_bias_z_rad_s;
@@ -56,7 +57,7 @@ void AddSensorBiases(const SensorModel& m, sim::SensorSample* sensed) {
 TwinRun PlayTwin(const Scenario& scenario, const ControllerEntry& entry, host::ControllerHost& host,
                  const TwinDynamics& dynamics, const DrivePlan& plan) {
   const std::size_t steps = plan.reference.size();
-  const RobotModel& robot = scenario.built_model();
+  const model::RobotModel& robot = scenario.built_model();
   const double equilibrium_pitch_rad = dynamics.linear().equilibrium_pitch_rad;
   const double dt_s = scenario.dt_s;
 
@@ -97,7 +98,7 @@ TwinRun PlayTwin(const Scenario& scenario, const ControllerEntry& entry, host::C
       break;
     }
     const auto command = host.command();
-    u = Eigen::Vector2d(command[kLeft], command[kRight]);
+    u = Eigen::Vector2d(command[model::kLeft], command[model::kRight]);
     const double x_before = x(kX), yaw_before = x(kYaw);
     dynamics.Step(step, u, &x);
     // The axle's ground track: the distance rolled along the step's mean heading.
@@ -105,7 +106,7 @@ TwinRun PlayTwin(const Scenario& scenario, const ControllerEntry& entry, host::C
     world_x_m += rolled * std::cos(heading);
     world_y_m += rolled * std::sin(heading);
     record(std::hypot(world_x_m - plan.path_x_m[i], world_y_m - plan.path_y_m[i]));
-    if (!x.allFinite() || std::abs(x(kPitch)) > kPi / 2) {
+    if (!x.allFinite() || std::abs(x(kPitch)) > std::numbers::pi / 2) {
       run.message = Stopped(time_s + dt_s, "the tilt left (-90, 90) deg, outside any linear model");
       break;
     }

@@ -1,6 +1,7 @@
-#include "upright/runner/twin_dynamics.hpp"
+#include "upright/runner/twin/twin_dynamics.hpp"
 
 #include <cmath>
+#include <numbers>
 
 #include "upright/design/riccati.hpp"
 #include "upright/model/check.hpp"
@@ -8,7 +9,7 @@
 
 namespace upright::runner {
 
-TwinDynamics::TwinDynamics(const RobotModel& model, design::InputKind input, double dt_s,
+TwinDynamics::TwinDynamics(const model::RobotModel& model, design::InputKind input, double dt_s,
                            const std::vector<sim::Push>& pushes)
     : linear_(design::Linearise(model, input)), dt_s_(dt_s), pushes_(pushes) {
   UPRIGHT_CHECK(dt_s > 0 && std::isfinite(dt_s), "dt_s = %g", dt_s);
@@ -21,7 +22,7 @@ TwinDynamics::TwinDynamics(const RobotModel& model, design::InputKind input, dou
   inputs.leftCols(design::kInputs) = linear_.B;
   for (const sim::Push& p : pushes) {
     e_.push_back(at_axle + p.height_m * per_metre);
-    x_part_.push_back(std::cos(p.direction_deg * kPi / 180));
+    x_part_.push_back(std::cos(p.direction_deg * std::numbers::pi / 180));
     inputs.col(design::kInputs + static_cast<int>(e_.size()) - 1) = e_.back();
   }
   // A model the plant accepted linearises to finite matrices, and dt_s is checked above.

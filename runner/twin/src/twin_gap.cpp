@@ -1,8 +1,9 @@
-#include "upright/runner/twin_gap.hpp"
+#include "upright/runner/twin/twin_gap.hpp"
 
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <numbers>
 
 #include "upright/base/number_text.hpp"
 #include "upright/model/check.hpp"
@@ -11,7 +12,7 @@
 namespace upright::runner {
 namespace {
 
-constexpr double kDeg = 180 / kPi;
+constexpr double kDeg = 180 / std::numbers::pi;
 
 double PeakAbs(const std::vector<double>& values) {
   double peak = 0;

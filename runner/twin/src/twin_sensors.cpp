@@ -1,4 +1,4 @@
-#include "upright/runner/twin_sensors.hpp"
+#include "upright/runner/twin/twin_sensors.hpp"
 
 #include <cmath>
 
@@ -6,7 +6,7 @@
 
 namespace upright::runner {
 
-TwinSensorGeometry SensorGeometry(const RobotModel& model, double equilibrium_pitch_rad,
+TwinSensorGeometry SensorGeometry(const model::RobotModel& model, double equilibrium_pitch_rad,
                                   double start_tilt_rad) {
   TwinSensorGeometry g;
   g.wheel_radius_m = model.wheel.radius_m;
@@ -23,7 +23,7 @@ sim::SensorSample IdealSensors(const TwinSensorGeometry& geometry, double time_s
                                const design::StateVector& x, const design::StateVector& dx) {
   using design::kPitch, design::kPitchRate, design::kX, design::kXDot, design::kYaw,
       design::kYawRate;
-  const double g = kStandardGravity_m_s2;
+  const double g = model::kStandardGravity_m_s2;
   const double pitch_rad = geometry.equilibrium_pitch_rad + x(kPitch);
   const double x_acc = dx(kXDot), pitch_acc = dx(kPitchRate), yaw_acc = dx(kYawRate);
   const double r = geometry.wheel_radius_m, d = geometry.half_track_m;

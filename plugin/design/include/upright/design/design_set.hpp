@@ -80,6 +80,7 @@ struct LqgReport : ControllerReport {
   SensorLinearisation sensors;  // the filter's (DesignLqgFilter: accelerometer row widened)
   Eigen::MatrixXd L;            // continuous Kalman–Bucy gain (for the analysis)
   Eigen::MatrixXd L_discrete;   // discrete measurement-update gain: the lqg module's
+  Eigen::MatrixXd Ad, Bd;       // the plant the filter predicts with, at the sample period (ZOH)
   // The fastest continuous estimator pole, max |eig(A − L C)|. Beyond the Nyquist rate
   // π · rate_hz the module's sampled filter cannot follow the continuous one the figures analyse.
   double estimator_fastest_1_s = 0;
@@ -111,6 +112,6 @@ struct DesignSet {
 
 // Every design for `model`. Weights the robot cannot resolve (WeightsForRobot) fail every
 // design with that reason.
-DesignSet DesignAll(const RobotModel& model, const DesignRequest& request);
+DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request);
 
 }  // namespace upright::design

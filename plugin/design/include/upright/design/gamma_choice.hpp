@@ -14,12 +14,12 @@
 namespace upright::design {
 
 // What the design push may reach on the linear loop: the smaller ground-contact tilt (beyond it
-// the chassis is on the ground) and the drive's current limit (MotorModel::current_limit_A).
+// the chassis is on the ground) and the drive's current limit (model::MotorModel::current_limit_A).
 struct PushLimits {
   double tilt_rad = 0;
   double current_A = 0;
 };
-PushLimits PushLimitsOf(const RobotModel& model, double equilibrium_pitch_rad);
+PushLimits PushLimitsOf(const model::RobotModel& model, double equilibrium_pitch_rad);
 
 // The range of γ / γ_opt the rule searches. Near γ_opt the Riccati solution, and with it the
 // gain, grows like 1 / (γ − γ_opt); at 10 γ_opt the gain is within 1 % of the LQR's on the demo
@@ -41,7 +41,7 @@ struct GammaChoice {
 // (the peaks fall as γ grows); when even the highest factor fails the limits, that factor, with
 // limits_met false. `performance` is the design's (weights and push scale), `gamma_opt` its γ_opt.
 Result<GammaChoice> ChooseGamma(const LinearModel& plant, const Performance& performance,
-                                double gamma_opt, const RobotModel& model);
+                                double gamma_opt, const model::RobotModel& model);
 
 // One row of the trade-off: the central H-infinity design at γ = factor × γ_opt, or the LQR
 // (factor and γ infinite: the limit of the H-infinity design as γ grows).
@@ -60,6 +60,6 @@ inline constexpr double kTradeOffFactors[] = {1.01, 1.1, 1.2, 1.5, 2, 3, 5};
 
 // The rows for kTradeOffFactors, then the LQR.
 std::vector<GammaPoint> GammaTradeOff(const LinearModel& plant, const Performance& performance,
-                                      double gamma_opt, const RobotModel& model);
+                                      double gamma_opt, const model::RobotModel& model);
 
 }  // namespace upright::design

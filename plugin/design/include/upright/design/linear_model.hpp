@@ -50,16 +50,16 @@ struct LinearModel {
   double fall_rate_1_s = 0;  // the unstable open-loop pole √(M_x m_b g l / Δ)
 };
 
-LumpedBody LumpBody(const RobotModel& model);
+LumpedBody LumpBody(const model::RobotModel& model);
 
 // Linearises `model` about upright at rest. push_height_m < 0 means "at the lumped COM height".
-LinearModel Linearise(const RobotModel& model, InputKind input, double push_height_m = -1);
+LinearModel Linearise(const model::RobotModel& model, InputKind input, double push_height_m = -1);
 
 // The nonlinear equations the linearisation comes from, for cross-checks: ẋ = f(x, u, w) with
 // wheel torques u and the pitch state measured from vertical. Planar wheeled inverted pendulum
 // with rolling wheels, exact; yaw with a constant yaw inertia (the yaw–pitch coupling terms are
 // products of rates, which vanish in the linearisation, and are left out).
-StateVector NonlinearDerivative(const RobotModel& model, const StateVector& x,
+StateVector NonlinearDerivative(const model::RobotModel& model, const StateVector& x,
                                 const Eigen::Vector2d& torque_Nm, const Eigen::Vector2d& w,
                                 double push_height_m);
 

@@ -23,7 +23,7 @@ struct FilterNoise {
 
 // Tuning defaults (common practice): a push of 5 % of the robot's weight, a pitch torque of 5 %
 // of the body's weight at 10 cm, a yaw torque of 5 % of the robot's weight at half the track.
-FilterNoise DefaultFilterNoise(const RobotModel& model, const LinearModel& plant);
+FilterNoise DefaultFilterNoise(const model::RobotModel& model, const LinearModel& plant);
 
 struct LqgFilter {
   SensorLinearisation sensors;  // y = C x + D u + v; Rv with the accelerometer row widened
@@ -36,13 +36,14 @@ struct LqgFilter {
 
 // The filter's sensors: LineariseSensors with the accelerometer's variance widened by the
 // disturbances it feels directly (see lqg_filter.cpp).
-SensorLinearisation FilterSensors(const RobotModel& model, const LinearModel& plant,
+SensorLinearisation FilterSensors(const model::RobotModel& model, const LinearModel& plant,
                                   const FilterNoise& noise);
 
 // The filter at period_s on `plant` (torque or voltage input), or why the Kalman designs failed.
 // `torque_plant` is the same robot with torque input: its yaw row turns the yaw torque into yaw
 // acceleration.
-Result<LqgFilter, SolveError> DesignLqgFilter(const RobotModel& model, const LinearModel& plant,
+Result<LqgFilter, SolveError> DesignLqgFilter(const model::RobotModel& model,
+                                              const LinearModel& plant,
                                               const LinearModel& torque_plant,
                                               const FilterNoise& noise, double period_s);
 

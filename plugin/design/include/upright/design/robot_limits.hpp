@@ -23,7 +23,7 @@ struct GroundContactTilt {
   double backward_rad = 0;  // leaning back
   double smallest_rad() const { return forward_rad < backward_rad ? forward_rad : backward_rad; }
 };
-GroundContactTilt GroundContact(const RobotModel& model, double equilibrium_pitch_rad);
+GroundContactTilt GroundContact(const model::RobotModel& model, double equilibrium_pitch_rad);
 
 // The default acceptable tilt of the weights, as a share of the smaller ground-contact tilt.
 // Bryson's maximum is a typical excursion, not a bound: on the demo robots the linear LQR loop's
@@ -38,7 +38,7 @@ inline constexpr double kTiltShareOfGroundContact = 0.2;
 // degrees. A field set
 // (> 0) stays as it is. Fails when the outline touches the ground at the equilibrium pitch
 // (there is no tilt to take a share of), naming the field to set instead.
-Result<DesignWeights> WeightsForRobot(const DesignWeights& weights, const RobotModel& model,
+Result<DesignWeights> WeightsForRobot(const DesignWeights& weights, const model::RobotModel& model,
                                       double equilibrium_pitch_rad);
 
 // A wheel motor's current on the linear model, per wheel [left, right]:
@@ -50,6 +50,6 @@ struct CurrentMap {
   Eigen::Matrix<double, kInputs, kStates> per_state =
       Eigen::Matrix<double, kInputs, kStates>::Zero();
 };
-CurrentMap MotorCurrent(const RobotModel& model, InputKind input);
+CurrentMap MotorCurrent(const model::RobotModel& model, InputKind input);
 
 }  // namespace upright::design

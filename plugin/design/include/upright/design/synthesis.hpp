@@ -79,7 +79,7 @@ struct SensorLinearisation {
   static constexpr int kMeasurements = 5;
   static constexpr int kAccelRow = 4;  // the accelerometer's row, f_x / g
 };
-SensorLinearisation LineariseSensors(const RobotModel& model, const LinearModel& plant);
+SensorLinearisation LineariseSensors(const model::RobotModel& model, const LinearModel& plant);
 
 // The filter itself, its noise and its sensors' widened accelerometer row: lqg_filter.hpp.
 

@@ -36,11 +36,12 @@ struct DesignWeights {
 
 // The largest per-wheel input: the stall torque at the wheel, n η K_t min(V_supply / R, I_max),
 // in N·m, or the supply voltage in V.
-double InputLimit(const RobotModel& model, InputKind input);
+double InputLimit(const model::RobotModel& model, InputKind input);
 
 // Bryson's rule: Q = diag(1 / max²) over the states, R = diag(1 / (fraction · limit)²). The
 // weights must be resolved for the robot first (max_tilt_deg > 0: an UPRIGHT_CHECK).
 StateMatrix StateWeight(const DesignWeights& weights);
-Eigen::Matrix2d InputWeight(const DesignWeights& weights, const RobotModel& model, InputKind input);
+Eigen::Matrix2d InputWeight(const DesignWeights& weights, const model::RobotModel& model,
+                            InputKind input);
 
 }  // namespace upright::design

@@ -42,7 +42,8 @@ class ControllerHost {
   // the plant's physics step; the controller period must be a whole number of them. A failure
   // naming the module when the spec is invalid or the module refuses.
   static Result<std::unique_ptr<ControllerHost>> Create(const ControllerSpec& spec,
-                                                        const RobotModel& model, double dt_s);
+                                                        const model::RobotModel& model,
+                                                        double dt_s);
   ~ControllerHost();
   ControllerHost(const ControllerHost&) = delete;
   ControllerHost& operator=(const ControllerHost&) = delete;

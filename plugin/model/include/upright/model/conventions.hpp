@@ -2,10 +2,11 @@
 // Nothing flows through this header at run time: it is constants and documentation.
 #pragma once
 
-namespace upright {
+namespace upright::model {
 
 // Units: SI everywhere inside the program (m, kg, s, rad, N, N·m, V, A). File fields and table
 // columns carry their unit in their name where it is not obvious (`max_tilt_deg`, `mass_kg`).
+// π is std::numbers::pi.
 //
 // World frame: x forward (the robot's initial heading), y left, z up; right-handed; gravity −z.
 // Body frame: fixed to the chassis, origin at the axle midpoint, same axes as the world frame when
@@ -25,8 +26,7 @@ namespace upright {
 //   and one standing still tilted forward by θ reads −g sin θ on x (tilt = atan2(−f_x, f_z)).
 
 inline constexpr double kStandardGravity_m_s2 = 9.80665;  // CGPM 1901 standard gravity
-inline constexpr double kPi = 3.14159265358979323846;
 inline constexpr int kLeft = 0;
 inline constexpr int kRight = 1;
 
-}  // namespace upright
+}  // namespace upright::model

@@ -4,7 +4,7 @@
 // together compares through these.
 #pragma once
 
-namespace upright {
+namespace upright::model {
 
 // The tolerance is kEdgeUlps · ε · scale (ε = 2^-52, the machine epsilon of double: 4 to 8 units
 // in the last place of scale), where scale is the largest of |value|, |limit| and the caller's
@@ -18,4 +18,4 @@ bool NoMoreThan(double value, double limit, double scale);
 // value < limit, a value within the tolerance below the limit counting as on it (refused).
 bool LessThan(double value, double limit, double scale);
 
-}  // namespace upright
+}  // namespace upright::model

@@ -4,7 +4,7 @@
 
 #include <string>
 
-namespace upright {
+namespace upright::model {
 
 struct FileError {
   std::string path;
@@ -16,4 +16,4 @@ struct FileError {
   }
 };
 
-}  // namespace upright
+}  // namespace upright::model

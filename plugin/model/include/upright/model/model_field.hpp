@@ -9,7 +9,7 @@
 #include "upright/base/result.hpp"
 #include "upright/model/robot_model.hpp"
 
-namespace upright {
+namespace upright::model {
 
 // The field's value in `model`; a failure ("no model field chassis.mass_k; fields: ...") when the
 // element or attribute names no field, or names one only files hold (the chassis box).
@@ -23,4 +23,4 @@ Result<double> GetModelField(const RobotModel& model, std::string_view element,
 Status SetModelField(RobotModel* model, std::string_view element, std::string_view attribute,
                      double value);
 
-}  // namespace upright
+}  // namespace upright::model

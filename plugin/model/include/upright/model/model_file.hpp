@@ -11,7 +11,7 @@
 #include "upright/model/file_error.hpp"
 #include "upright/model/robot_model.hpp"
 
-namespace upright {
+namespace upright::model {
 
 // The physics step of a scenario that gives no dt_s, and of sim::PlantOptions by default.
 inline constexpr double kDefaultPhysicsStep_s = 0.001;
@@ -40,4 +40,4 @@ Result<void, std::vector<std::string>> ValidateModel(const RobotModel& model);
 // generated from the same table the loader uses; models/README.md embeds it.
 std::string ModelSchemaMarkdown();
 
-}  // namespace upright
+}  // namespace upright::model

@@ -5,7 +5,7 @@
 
 #include <string>
 
-namespace upright {
+namespace upright::model {
 
 // The chassis (everything rigidly bolted to the body, without wheels or payload).
 struct ChassisModel {
@@ -101,4 +101,4 @@ struct RobotModel {
   friend bool operator==(const RobotModel&, const RobotModel&) = default;
 };
 
-}  // namespace upright
+}  // namespace upright::model

@@ -4,10 +4,10 @@
 
 #include <string>
 
-namespace upright {
+namespace upright::model {
 
 // "the field is in seconds: 5 ms is 0.005" for `value_s` = 5 (numbers in their shortest exact
 // decimal form, never in exponent notation).
 std::string SecondsHint(double value_s);
 
-}  // namespace upright
+}  // namespace upright::model

@@ -13,7 +13,7 @@
 
 #include "upright/model/file_error.hpp"
 
-namespace upright {
+namespace upright::model {
 
 namespace internal {
 struct XmlTree;
@@ -104,4 +104,4 @@ class XmlElement {
   std::size_t index_;
 };
 
-}  // namespace upright
+}  // namespace upright::model

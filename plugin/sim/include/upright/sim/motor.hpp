@@ -44,14 +44,14 @@ struct MotorOutput {
 // fault (faults.hpp): for s > 0 voltage and current are those of a healthy motor and only the
 // electromagnetic torque is scaled; s = 0 is an open circuit: V = 0, i = 0 (so no back-EMF
 // braking and no power drawn), no saturation, and only the friction terms remain.
-MotorOutput EvaluateMotor(const MotorModel& motor, DriveMode mode, double command,
+MotorOutput EvaluateMotor(const model::MotorModel& motor, DriveMode mode, double command,
                           double rel_speed_rad_s, double coulomb_band_rad_s,
                           double torque_scale = 1.0);
 
 // The speed band over which Coulomb friction ramps linearly from −c to +c: wide enough that the
 // explicit friction term stays stable at step dt_s on a wheel of spin inertia I, narrow enough
 // (≥ 1e-3 rad/s) to look like a sharp Coulomb law.
-double MotorCoulombBand(const MotorModel& motor, double spin_inertia_kgm2, double dt_s);
+double MotorCoulombBand(const model::MotorModel& motor, double spin_inertia_kgm2, double dt_s);
 
 const char* ToString(DriveMode mode);
 bool FromString(const std::string& text, DriveMode* mode);

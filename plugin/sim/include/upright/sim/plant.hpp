@@ -89,7 +89,7 @@ class PlantImpl;
 class Plant {
  public:
   // Builds the world; a failure naming the broken rule when the model or options are invalid.
-  static Result<std::unique_ptr<Plant>> Create(const RobotModel& model,
+  static Result<std::unique_ptr<Plant>> Create(const model::RobotModel& model,
                                                const PlantOptions& options);
   ~Plant();
   Plant(const Plant&) = delete;
@@ -119,7 +119,7 @@ class Plant {
   SensorSample Sense() const;
   const MotorState& motors() const;
   const ContactState& contact() const;
-  const RobotModel& model() const;
+  const model::RobotModel& model() const;
   const PlantOptions& options() const;
   // True once the physics state has become non-finite (a numeric failure); stepping stops.
   bool diverged() const;
