@@ -1,7 +1,10 @@
 // Built-in module `hinf`: H-infinity state feedback against a push. The state (estimated from the
 // sensors, or true) and the reference in each tick; wheel commands u = u_ss − K e out, K the
-// central H-infinity gain at γ by the rule of the design push (design::ChooseGamma, as
-// `upright design`), or gamma_factor × γ_opt, or the `gamma` given; designed at create.
+// central discrete-time H-infinity gain at the module's own rate (zero-order hold, the push held
+// over each period like the input; design::RobotDiscreteHinf), designed at create at
+// γ = factor × γ_opt, where γ_opt is the discrete problem's at that rate, not the continuous
+// one's, and the factor the design-push rule's (design::ChooseGamma on this discrete design, as
+// `upright design` chooses it), or the `gamma_factor` given; or at the `gamma` given.
 #include <memory>
 #include <sstream>
 
@@ -10,6 +13,7 @@
 #include "kit/module_adapter.hpp"
 #include "kit/state_estimator.hpp"
 #include "kit/state_feedback.hpp"
+#include "upright/design/discrete_hinf.hpp"
 #include "upright/design/gamma_choice.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
@@ -27,7 +31,7 @@ class HinfController {
     ConfigReader reader(context.config);
     const CommonConfig config = ReadCommonConfig(&reader, context, /*voltage_allowed=*/true);
     double gamma = 0;
-    double gamma_factor = 0;  // 0: γ by the rule, as `upright design` chooses it
+    double gamma_factor = 0;  // 0: the rule's factor, as `upright design` chooses it
     reader.Number("gamma", NumberRule::kPositive, &gamma);
     reader.Number("gamma_factor", NumberRule::kAboveOne, &gamma_factor);
     if (reader.Has("gamma") && reader.Has("gamma_factor")) {
@@ -41,7 +45,7 @@ class HinfController {
     // The disturbance w = 1 is a push of 10 % of the robot's weight, as in `upright design`.
     const double push_scale_N = 0.1 * TotalMass(context.robot_abi) * model::kStandardGravity_m_s2;
     const Result<design::GammaSearch, design::SolveError> search =
-        design::RobotOptimalGamma(plant, Q, R, push_scale_N);
+        design::RobotDiscreteOptimalGamma(plant, Q, R, push_scale_N, context.period_s);
     if (!search) {
       return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
                                  "H-infinity gamma search failed: " + search.error().message});
@@ -49,8 +53,9 @@ class HinfController {
     if (gamma == 0 && gamma_factor > 0) {
       gamma = gamma_factor * search->gamma_opt;
     } else if (gamma == 0) {
-      const Result<design::GammaChoice> choice = design::ChooseGamma(
-          plant, design::Performance{Q, R, push_scale_N}, search->gamma_opt, context.robot);
+      const Result<design::GammaChoice> choice =
+          design::ChooseGamma(plant, design::Performance{Q, R, push_scale_N}, search->gamma_opt,
+                              context.robot, context.period_s);
       if (!choice) {
         return Failure(ModuleError{UPRIGHT_UNSUPPORTED, "H-infinity " + choice.error()});
       }
@@ -58,13 +63,13 @@ class HinfController {
     } else if (!(gamma > search->gamma_opt)) {
       std::ostringstream why;
       why << "gamma = " << gamma << ": must be > gamma_opt = " << search->gamma_opt
-          << " for this robot and these weights";
+          << " for this robot, these weights and the rate " << context.rate_hz << " Hz";
       return Failure(ModuleError{UPRIGHT_BAD_CONFIG, why.str()});
     }
-    // The continuous-time gain, applied at the module's rate: at the demo robots' control rates
-    // (≥ 100 Hz, well above the closed-loop bandwidth) the sampling itself changes it little.
+    // The design includes the hold but not the sensors' latency or the state estimator, as
+    // `upright design`'s sampled loop does not.
     const Result<Eigen::MatrixXd, design::SolveError> hinf =
-        design::RobotHinf(plant, Q, R, push_scale_N, gamma);
+        design::RobotDiscreteHinf(plant, Q, R, push_scale_N, gamma, context.period_s);
     if (!hinf) {
       std::ostringstream why;
       why << "H-infinity design at gamma = " << gamma << " failed: " << hinf.error().message;
@@ -76,7 +81,8 @@ class HinfController {
       return Failure(declared.error());
     }
     std::ostringstream log;
-    log << "hinf: gamma = " << gamma << " (gamma_opt = " << search->gamma_opt << "), K =\n"
+    log << "hinf: discrete H-infinity at " << context.rate_hz << " Hz, gamma = " << gamma
+        << " (gamma_opt = " << search->gamma_opt << "), K =\n"
         << *hinf;
     context.Log(UPRIGHT_LOG_DEBUG, log.str());
     const EstimatorSettings estimator = SettingsFor(context, config, plant);

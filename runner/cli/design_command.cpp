@@ -225,6 +225,10 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   j.Number("gamma", d.hinf.gamma);
   j.Number("gamma_opt", d.hinf.gamma_opt);
   j.Number("norm", d.hinf.loop.push_norm);
+  WriteMatrix(j, "K_discrete", d.hinf.K_discrete);
+  j.Number("gamma_discrete", d.hinf.gamma_discrete);
+  j.Number("gamma_opt_discrete", d.hinf.gamma_opt_discrete);
+  j.Number("norm_discrete", d.hinf.norm_discrete);
   WriteGammaChoice(j, d.hinf);
   j.EndObject();
 
@@ -333,8 +337,9 @@ void PrintLimits(const DesignSet& d, bool tilt_given) {
       Figure(d.design_push.duration_s).c_str(), Figure(d.design_push.peak_N()).c_str());
 }
 
-// How γ was chosen, and the trade-off table over γ / γ_opt.
-void PrintGamma(const DesignSet& d) {
+// How γ was chosen, the hinf module's discrete design, and the trade-off table over γ / γ_opt of
+// that design.
+void PrintGamma(const DesignSet& d, double rate_hz) {
   const design::HinfReport& h = d.hinf;
   if (!(h.gamma_opt > 0)) return;
   const double deg = 180 / std::numbers::pi;
@@ -348,11 +353,11 @@ void PrintGamma(const DesignSet& d) {
       break;
     case design::GammaSource::kRule:
       why = h.choice.limits_met
-                ? "the smallest that keeps the design push within the ground-contact tilt and "
-                  "the current limit on the linear model"
-                : "NO gamma up to " + Figure(design::kGammaFactorHighest) +
-                      " x gamma_opt keeps the design push within the ground-contact tilt and "
-                      "the current limit on the linear model; the highest is used";
+                ? "the smallest factor whose design at the module's rate keeps the design push "
+                  "within the ground-contact tilt and the current limit on the linear model"
+                : "NO factor up to " + Figure(design::kGammaFactorHighest) +
+                      " keeps the design push within the ground-contact tilt and the current "
+                      "limit on the linear model at the module's rate; the highest is used";
       break;
   }
   if (h.gamma > 0) {
@@ -360,8 +365,18 @@ void PrintGamma(const DesignSet& d) {
                 SignificantText(h.gamma / h.gamma_opt, 3).c_str(),
                 SignificantText(h.gamma_opt, 5).c_str(), why.c_str());
   }
+  if (h.gamma_opt_discrete > 0 && h.gamma_discrete > 0) {
+    std::printf(
+        "the hinf module's design, discrete at %s Hz: gamma %s = %s x its gamma_opt %s, "
+        "sampled push norm %s\n",
+        SignificantText(rate_hz, 6).c_str(), SignificantText(h.gamma_discrete, 5).c_str(),
+        SignificantText(h.gamma_discrete / h.gamma_opt_discrete, 3).c_str(),
+        SignificantText(h.gamma_opt_discrete, 5).c_str(), Figure(h.norm_discrete).c_str());
+  }
   if (h.trade_off.empty()) return;
-  std::printf("gamma trade-off, the design push on the linear loop:\n");
+  std::printf(
+      "gamma trade-off of the module's design at %s Hz, the design push on the sampled loop:\n",
+      SignificantText(rate_hz, 6).c_str());
   std::printf("  %15s %10s %10s %16s %17s  %s\n", "gamma/gamma_opt", "||K||", "push norm",
               "peak tilt (deg)", "peak current (A)", "within limits");
   for (const design::GammaPoint& p : h.trade_off) {
@@ -398,7 +413,7 @@ void PrintText(const model::RobotModel& model, const DesignSet& d, bool tilt_giv
   const auto controllers = Controllers(d);
   PrintController(controllers[0].title, d.lqr, latency_s, rate_hz);
   PrintController(controllers[1].title, d.hinf, latency_s, rate_hz);
-  PrintGamma(d);
+  PrintGamma(d, rate_hz);
   PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
   const double nyquist_1_s = std::numbers::pi * d.request.rate_hz;
   if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {

@@ -156,10 +156,10 @@ void WriteStateFeedback(const design::DesignSet& d, HeaderText* h) {
   }
   if (Usable(d.hinf)) {
     h->Line();
-    h->Matrix("hinf_K", d.hinf.K,
-              "H-infinity state feedback at gamma = " + ShortestText(d.hinf.gamma) +
-                  " (gamma_opt " + ShortestText(d.hinf.gamma_opt) +
-                  "): the hinf module's K, the continuous design applied at the rate");
+    h->Matrix("hinf_K", d.hinf.K_discrete,
+              "H-infinity state feedback, discrete at the rate (zero-order hold) at gamma = " +
+                  ShortestText(d.hinf.gamma_discrete) + " (the discrete gamma_opt " +
+                  ShortestText(d.hinf.gamma_opt_discrete) + "): the hinf module's K");
   }
 }
 

@@ -97,7 +97,7 @@ const std::map<std::string, std::vector<std::string>>& JsonPaths() {
   static const std::map<std::string, std::vector<std::string>> paths = {
       {"equilibrium_pitch_rad", {"equilibrium_pitch_rad"}},
       {"lqr_K", {"lqr", "K_discrete"}},
-      {"hinf_K", {"hinf", "K"}},
+      {"hinf_K", {"hinf", "K_discrete"}},
       {"lqg_K", {"lqg", "K_discrete"}},
       {"lqg_Ad", {"lqg", "Ad"}},
       {"lqg_Bd", {"lqg", "Bd"}},

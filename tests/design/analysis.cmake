@@ -3,6 +3,9 @@
 upright_test(upright_hinf_norm_test
   SOURCES hinf_norm_test.cpp
   LIBS upright::design)
+upright_test(upright_discrete_norm_test
+  SOURCES discrete_norm_test.cpp
+  LIBS upright::design)
 upright_test(upright_margins_test
   SOURCES margins_test.cpp
   LIBS upright::design)

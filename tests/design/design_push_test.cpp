@@ -116,5 +116,81 @@ TEST(LinearPushPeaks, AgreeWithARungeKuttaIntegrationOfTheRobotsLoop) {
   }
 }
 
+TEST(SampledPushPeaks, AgreeWithARungeKuttaIntegrationOfTheHeldInput) {
+  // The discrete LQR of a demo robot at its rate, u_k = −K x(kT) held for T: the classical
+  // fourth-order Runge–Kutta method at a step dividing T (Press et al., Numerical Recipes, from
+  // memory), the input recomputed at each tick, gives the same peaks over 4 s.
+  for (const char* name : {"courier.xml", "tabletop.xml"}) {
+    const model::RobotModel model = Demo(name);
+    const DesignSet d = DesignAll(model, DesignRequest{});
+    ASSERT_TRUE(d.lqr.ok) << d.lqr.message;
+    const LinearModel& plant = d.plant;
+    const Gain K = d.lqr.K_discrete;
+    const double period_s = 1 / d.request.rate_hz;
+    const DesignPush push = DesignPushFor(plant, d.performance.push_scale_N);
+    const CurrentMap current = MotorCurrent(model, InputKind::kTorque);
+    Eigen::Vector2d u = Eigen::Vector2d::Zero();
+    const auto f = [&](double t, const StateVector& x) -> StateVector {
+      const double force =
+          t < push.duration_s ? push.peak_N() * std::sin(std::numbers::pi * t / push.duration_s)
+                              : 0;
+      return plant.A * x + plant.B * u + plant.E.col(0) * force;
+    };
+    constexpr int kPerPeriod = 250;
+    const double h = period_s / kPerPeriod;
+    StateVector x = StateVector::Zero();
+    double tilt = 0, amps = 0;
+    for (int k = 0; k < static_cast<int>(4 / period_s); ++k) {
+      u = -K * x;
+      amps = std::max(amps, current.per_input * u.cwiseAbs().maxCoeff());
+      for (int j = 0; j < kPerPeriod; ++j) {
+        const double t = static_cast<double>(k * kPerPeriod + j) * h;
+        const StateVector k1 = f(t, x), k2 = f(t + h / 2, x + h / 2 * k1),
+                          k3 = f(t + h / 2, x + h / 2 * k2), k4 = f(t + h, x + h * k3);
+        x += h / 6 * (k1 + 2 * k2 + 2 * k3 + k4);
+        tilt = std::max(tilt, std::abs(x(kPitch)));
+      }
+    }
+    const Result<PushPeaks> peaks = SampledPushPeaks(plant, K, current, push, period_s);
+    ASSERT_TRUE(Succeeded(peaks)) << name;
+    EXPECT_NEAR(peaks->tilt_rad, tilt, 1e-4 * tilt) << name;
+    EXPECT_NEAR(peaks->current_A, amps, 1e-6 * amps) << name;  // held: a tick's, exactly
+  }
+}
+
+TEST(SampledPushPeaks, TendToTheContinuousLoopsAsThePeriodShrinks) {
+  // A continuous gain held over T lags like half a period (common practice): the sampled peaks
+  // approach the continuous loop's, the gap about halving with T.
+  const model::RobotModel model = Demo("courier.xml");
+  const DesignSet d = DesignAll(model, DesignRequest{});
+  ASSERT_TRUE(d.lqr.ok) << d.lqr.message;
+  const DesignPush push = DesignPushFor(d.plant, d.performance.push_scale_N);
+  const CurrentMap current = MotorCurrent(model, InputKind::kTorque);
+  const Result<PushPeaks> continuous = LinearPushPeaks(d.plant, d.lqr.K, current, push);
+  ASSERT_TRUE(Succeeded(continuous));
+  double gap[3];
+  for (int k = 0; k < 3; ++k) {
+    const Result<PushPeaks> sampled =
+        SampledPushPeaks(d.plant, d.lqr.K, current, push, 4e-3 / (1 << k));
+    ASSERT_TRUE(Succeeded(sampled));
+    gap[k] = std::abs(sampled->tilt_rad - continuous->tilt_rad) / continuous->tilt_rad;
+  }
+  EXPECT_LT(gap[2], 0.01);
+  EXPECT_NEAR(gap[1] / gap[0], 0.5, 0.1);
+  EXPECT_NEAR(gap[2] / gap[1], 0.5, 0.1);
+}
+
+TEST(SampledPushPeaks, RefuseAPeriodThatIsNoneAndALoopItCannotHold) {
+  const model::RobotModel model = Demo("courier.xml");
+  const LinearModel plant = Linearise(model, InputKind::kTorque);
+  const DesignPush push = DesignPushFor(plant, 31.4);
+  const CurrentMap current = MotorCurrent(model, InputKind::kTorque);
+  EXPECT_FALSE(SampledPushPeaks(plant, Gain::Zero(), current, push, 0.005));  // open loop falls
+  const DesignSet d = DesignAll(model, DesignRequest{});
+  EXPECT_FALSE(SampledPushPeaks(plant, d.lqr.K_discrete, current, push, 0));
+  EXPECT_FALSE(SampledPushPeaks(plant, d.lqr.K_discrete, current, push, NAN));
+  EXPECT_FALSE(SampledPushPeaks(plant, d.lqr.K_discrete, current, DesignPush{0, 0.3}, 0.005));
+}
+
 }  // namespace
 }  // namespace upright::design

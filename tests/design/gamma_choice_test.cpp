@@ -1,6 +1,7 @@
-// The H-infinity γ rule and its trade-off table: the choice is the smallest γ whose design push
-// stays within the robot's limits, it meets the H-infinity bound, explicit settings win, and the
-// table runs from near γ_opt to the LQR as the theory says it must.
+// The H-infinity γ rule and its trade-off table, on the discrete design the hinf module runs at
+// the robot's control rate: the choice is the smallest γ whose design push stays within the
+// robot's limits, it meets the H-infinity bound, explicit settings win, and the table runs from
+// near γ_opt to the LQR as the theory says it must.
 #include "upright/design/gamma_choice.hpp"
 
 #include <gtest/gtest.h>
@@ -17,15 +18,18 @@
 namespace upright::design {
 namespace {
 
-// The design push on the central H-infinity loop at γ = factor × γ_opt of `d`.
+// The design push on the sampled loop of the discrete H-infinity design at γ = factor × the
+// discrete γ_opt of `d`, at its rate.
 PushPeaks PeaksAt(const model::RobotModel& model, const DesignSet& d, double factor) {
+  const double period_s = 1 / d.request.rate_hz;
   const Result<Eigen::MatrixXd, SolveError> K =
-      RobotHinf(d.plant, d.performance.Q, d.performance.R, d.performance.push_scale_N,
-                factor * d.hinf.gamma_opt);
+      RobotDiscreteHinf(d.plant, d.performance.Q, d.performance.R, d.performance.push_scale_N,
+                        factor * d.hinf.gamma_opt_discrete, period_s);
   EXPECT_TRUE(Succeeded(K));
-  const Result<PushPeaks> peaks = LinearPushPeaks(
+  const Result<PushPeaks> peaks = SampledPushPeaks(
       d.plant, K.value_or(Eigen::MatrixXd::Zero(kInputs, kStates)),
-      MotorCurrent(model, d.plant.input), DesignPushFor(d.plant, d.performance.push_scale_N));
+      MotorCurrent(model, d.plant.input), DesignPushFor(d.plant, d.performance.push_scale_N),
+      period_s);
   EXPECT_TRUE(Succeeded(peaks));
   return peaks.value_or(PushPeaks{});
 }
@@ -48,6 +52,9 @@ TEST_P(GammaRule, ChoosesTheSmallestGammaWhoseDesignPushStaysWithinTheLimits) {
   const PushLimits limits = PushLimitsOf(model_, design_.plant.equilibrium_pitch_rad);
   EXPECT_NEAR(limits.tilt_rad, design_.limits.ground_contact.smallest_rad(), 0);
   EXPECT_EQ(limits.current_A, model_.motor.current_limit_A);
+  // The factor is the discrete design's; the continuous one sits at the same factor of its own.
+  EXPECT_NEAR(h.gamma_discrete, h.choice.gamma, 1e-12 * h.gamma_discrete);
+  EXPECT_NEAR(h.choice.gamma, h.choice.factor * h.gamma_opt_discrete, 1e-12 * h.choice.gamma);
   EXPECT_NEAR(h.gamma, h.choice.factor * h.gamma_opt, 1e-12 * h.gamma);
   EXPECT_GT(h.choice.factor, kGammaFactorLowest);
   EXPECT_LT(h.choice.factor, kGammaFactorHighest);
@@ -56,7 +63,9 @@ TEST_P(GammaRule, ChoosesTheSmallestGammaWhoseDesignPushStaysWithinTheLimits) {
   EXPECT_TRUE(Within(at, limits));
   EXPECT_NEAR(at.tilt_rad, h.choice.peaks.tilt_rad, 1e-12);
   EXPECT_FALSE(Within(PeaksAt(model_, design_, h.choice.factor / 1.0101), limits));
-  // The H-infinity bound holds at the chosen γ (Doyle, Glover, Khargonekar and Francis 1989).
+  // The H-infinity bound holds at the chosen γ, sampled and continuous (Doyle, Glover,
+  // Khargonekar and Francis 1989; Başar and Bernhard 1995).
+  EXPECT_LT(h.norm_discrete, h.gamma_discrete);
   EXPECT_LT(h.loop.push_norm, h.gamma);
 }
 
@@ -69,7 +78,7 @@ TEST_P(GammaRule, TheTradeOffRunsFromNearTheOptimumToTheLqr) {
   ASSERT_EQ(rows.size(), std::size(kTradeOffFactors) + 1);
   for (std::size_t i = 0; i < rows.size(); ++i) {
     ASSERT_TRUE(rows[i].ok) << i;
-    EXPECT_GE(rows[i].push_norm, h.gamma_opt * (1 - 1e-4)) << i;
+    EXPECT_GE(rows[i].push_norm, h.gamma_opt_discrete * (1 - 1e-4)) << i;
     if (i + 1 < rows.size()) {
       EXPECT_EQ(rows[i].factor, kTradeOffFactors[i]);
       EXPECT_LT(rows[i].push_norm, rows[i].gamma) << i;
@@ -86,9 +95,13 @@ TEST_P(GammaRule, TheTradeOffRunsFromNearTheOptimumToTheLqr) {
   const GammaPoint& lqr = rows.back();
   EXPECT_TRUE(std::isinf(lqr.factor));
   EXPECT_TRUE(std::isinf(lqr.gamma));
-  Eigen::JacobiSVD<Eigen::MatrixXd> svd(Eigen::MatrixXd(design_.lqr.K));
+  // The discrete LQR at the rate, the lqr module's gain, and its sampled loop's push norm.
+  Eigen::JacobiSVD<Eigen::MatrixXd> svd(Eigen::MatrixXd(design_.lqr.K_discrete));
   EXPECT_NEAR(lqr.gain_norm, svd.singularValues()(0), 1e-12 * lqr.gain_norm);
-  EXPECT_NEAR(lqr.push_norm, design_.lqr.loop.push_norm, 1e-9 * lqr.push_norm);
+  const AnalysisResult<NormPeak> sampled = SampledPushNorm(
+      design_.plant, design_.lqr.K_discrete, design_.performance, 1 / design_.request.rate_hz);
+  ASSERT_TRUE(sampled.has_value());
+  EXPECT_NEAR(lqr.push_norm, sampled->norm, 1e-9 * lqr.push_norm);
   // The first row sits on the cliff: its gain is several times the LQR's.
   EXPECT_GT(rows.front().gain_norm, 3 * lqr.gain_norm);
 }
@@ -126,6 +139,8 @@ TEST(GammaRule, TakesTheHighestFactorAndSaysSoWhenNoneStaysWithinTheLimits) {
   EXPECT_EQ(d.hinf.choice.factor, kGammaFactorHighest);
   EXPECT_FALSE(d.hinf.choice.limits_met);
   EXPECT_NEAR(d.hinf.gamma, kGammaFactorHighest * d.hinf.gamma_opt, 1e-12 * d.hinf.gamma);
+  EXPECT_NEAR(d.hinf.gamma_discrete, kGammaFactorHighest * d.hinf.gamma_opt_discrete,
+              1e-12 * d.hinf.gamma_discrete);
 }
 
 TEST(GammaRule, AGivenGammaOrFactorWinsOverTheRule) {

@@ -105,8 +105,9 @@ TEST_P(SampledLoopTest, LqgPolesAreTheRegulatorsAndTheFiltersTogether) {
 }
 
 TEST_P(SampledLoopTest, DesignSamplesTheLawsTheModulesRun) {
-  // The discrete LQR is stable by construction (its Riccati solution; Franklin, Powell and
-  // Workman, ch. 9; from memory); PID is not sampled here.
+  // The discrete LQR and the discrete H-infinity design are stable by construction (their
+  // Riccati solutions; Franklin, Powell and Workman, ch. 9, and Başar and Bernhard, ch. 3; from
+  // memory); PID is not sampled here.
   const DesignSet d = DesignAll(model_, DesignRequest{});
   ASSERT_TRUE(d.all_ok());
   EXPECT_EQ(d.lqr.sampled.period_s, period_s_);
@@ -114,7 +115,10 @@ TEST_P(SampledLoopTest, DesignSamplesTheLawsTheModulesRun) {
   EXPECT_LT(Mismatch(SampledStateFeedback(plant_, d.lqr.K_discrete, period_s_).value().s,
                      d.lqr.sampled.s),
             1e-12);
-  EXPECT_LT(Mismatch(SampledStateFeedback(plant_, d.hinf.K, period_s_).value().s, d.hinf.sampled.s),
+  EXPECT_EQ(d.hinf.sampled.period_s, period_s_);
+  EXPECT_LT(d.hinf.sampled.max_abs_z, 1);
+  EXPECT_LT(Mismatch(SampledStateFeedback(plant_, d.hinf.K_discrete, period_s_).value().s,
+                     d.hinf.sampled.s),
             1e-12);
   EXPECT_FALSE(d.pid.sampled.analysed());
 }

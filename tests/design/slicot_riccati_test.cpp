@@ -1,6 +1,7 @@
-// The Riccati solvers against SLICOT's SB02OD (generalised Schur method on the extended pencil,
-// which never inverts R) and SB02MD (Schur method on the Hamiltonian), called through the
-// Fortran interface on random problems with fixed seeds.
+// The Riccati solvers, and the discrete H-infinity design on the indefinite DARE, against SLICOT's
+// SB02OD (generalised Schur method on the extended pencil, which never inverts R) and SB02MD
+// (Schur method on the Hamiltonian), called through the Fortran interface on random problems with
+// fixed seeds.
 #include <gtest/gtest.h>
 
 #include <cmath>
@@ -10,6 +11,7 @@
 #include <vector>
 
 #include "succeeded.hpp"
+#include "upright/design/discrete_hinf.hpp"
 #include "upright/design/riccati.hpp"
 
 extern "C" {
@@ -249,6 +251,57 @@ TEST(SlicotRiccati, DiscreteAgreesWithSb02od) {
     }
   }
   std::printf("DARE vs SB02OD: largest relative difference %.3g\n", worst);
+}
+
+TEST(SlicotRiccati, DiscreteHinfAgreesWithSb02od) {
+  // x⁺ = A x + B1 w + B2 u, z = [Q½ x; R½ u]: the discrete game as one DARE with B̃ = [B1 B2],
+  // R̃ = diag(−γ², R), which SB02OD takes as it is. γ is twice the smallest power of two at which
+  // our design succeeds; both X and the gain (the u rows of (R̃ + B̃ᵀX B̃)⁻¹ B̃ᵀX A from SLICOT's X)
+  // must agree, and SLICOT's X must meet the game's conditions there too.
+  double worst = 0;
+  for (int n = 2; n <= 8; n += 2) {
+    const int m = 1 + n % 3;
+    std::mt19937 rng(static_cast<unsigned>(6000 + n));
+    MatrixXd A = RandomMatrix(&rng, n, n);
+    A *= 1.2 / A.eigenvalues().cwiseAbs().maxCoeff();
+    const MatrixXd B1 = 0.5 * RandomMatrix(&rng, n, 1);
+    const MatrixXd B2 = RandomMatrix(&rng, n, m);
+    const MatrixXd C = RandomMatrix(&rng, n + m, n);
+    const MatrixXd D = RandomMatrix(&rng, n + m, m);
+    const MatrixXd Q = 0.5 * (C.transpose() * C + (C.transpose() * C).transpose());
+    MatrixXd Ru = D.transpose() * D + MatrixXd::Identity(m, m);
+    Ru = 0.5 * (Ru + Ru.transpose()).eval();
+    double feasible = 64;
+    ASSERT_TRUE(DiscreteHinfGain(A, B1, B2, Q, Ru, feasible).has_value()) << "n " << n;
+    while (feasible > 1e-3 && DiscreteHinfGain(A, B1, B2, Q, Ru, feasible / 2).has_value()) {
+      feasible /= 2;
+    }
+    const double gamma = 2 * feasible;
+    MatrixXd B(n, m + 1);
+    B << B1, B2;
+    MatrixXd R = MatrixXd::Zero(m + 1, m + 1);
+    R(0, 0) = -gamma * gamma;
+    R.bottomRightCorner(m, m) = Ru;
+    const std::string what = "n " + std::to_string(n) + " γ " + std::to_string(gamma);
+    const Reference reference = Sb02od('D', A, B, Q, R, MatrixXd());
+    ASSERT_EQ(reference.info, 0) << what;
+    MatrixXd X;
+    const Result<MatrixXd, SolveError> K = DiscreteHinfGain(A, B1, B2, Q, Ru, gamma, &X);
+    ASSERT_TRUE(Succeeded(K)) << what;
+    const MatrixXd& Xr = reference.X;
+    const MatrixXd K_reference =
+        (R + B.transpose() * Xr * B).fullPivLu().solve(B.transpose() * Xr * A).bottomRows(m);
+    EXPECT_GE(Eigen::SelfAdjointEigenSolver<MatrixXd>(Xr).eigenvalues().minCoeff(),
+              -1e-8 * Xr.norm())
+        << what;
+    EXPECT_GT(gamma * gamma - (B1.transpose() * Xr * B1)(0, 0), 0) << what;
+    const double difference =
+        std::max(RelativeDifference(X, Xr), RelativeDifference(*K, K_reference));
+    EXPECT_LT(difference, kAgreement) << what;
+    worst = std::max(worst, difference);
+  }
+  std::printf("discrete H-infinity vs SB02OD: largest relative difference of X and K %.3g\n",
+              worst);
 }
 
 TEST(SlicotRiccati, ContinuousAgreesWithSb02mdGivenG) {

@@ -5,6 +5,9 @@ upright_test(upright_linear_model_test
 upright_test(upright_synthesis_test
   SOURCES synthesis_test.cpp
   LIBS upright::design upright::sim upright::model)
+upright_test(upright_discrete_hinf_test
+  SOURCES discrete_hinf_test.cpp
+  LIBS upright::design upright::model)
 upright_test(upright_lqg_filter_test
   SOURCES lqg_filter_test.cpp
   LIBS upright::design upright::model)

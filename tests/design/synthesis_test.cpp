@@ -130,6 +130,23 @@ TEST(Synthesis, GammaIterationFindsTheScalarOptimum) {
   EXPECT_GE(unstable->gamma_opt, 1.0);
 }
 
+TEST(Synthesis, GammaIterationChecksItsLowerBound) {
+  // With b1 = 1e-9 in ẋ = −x + b1 w + u, γ_opt = b1/√2 (the closed form above scales with b1),
+  // far below the search's lower end, 1e-6 × the upper bound 2: the search must say that the
+  // lower end is feasible rather than return it as γ_opt.
+  const SolveError e =
+      FailureOf(OptimalGamma(M({{-1}}), M({{1e-9}}), M({{1}}), M({{1}}), M({{1}}), 2.0));
+  EXPECT_EQ(e.reason, SolveFailure::kInvalidInput);
+  EXPECT_NE(e.message.find("the lower bound gamma = 2e-06 (1e-06 x the upper bound) is feasible"),
+            std::string::npos)
+      << e.message;
+  // Just above that end, the same search finds it: b1 = 1e-5 gives γ_opt = 7.0711e-6 ≥ 2e-6.
+  const Result<GammaSearch, SolveError> small =
+      OptimalGamma(M({{-1}}), M({{1e-5}}), M({{1}}), M({{1}}), M({{1}}), 2.0, 1e-6);
+  ASSERT_TRUE(Succeeded(small));
+  EXPECT_NEAR(small->gamma_opt, 1e-5 / std::sqrt(2.0), 1e-5 * 1e-5);
+}
+
 TEST(Synthesis, KalmanBucyGainOfAFirstOrderSystem) {
   // ẋ = −x + w, y = x + v, Q = R = 1: −2P − P² + 1 = 0 → P = L = √2 − 1 (closed form, derived
   // by hand).
@@ -216,8 +233,14 @@ TEST(Synthesis, DemoRobotsGetEveryDesignWithHinfBelowGamma) {
     EXPECT_LE(d.hinf.gamma_opt, d.lqr.loop.push_norm * (1 + 1e-4)) << name;
     EXPECT_EQ(d.hinf.source, GammaSource::kRule) << name;
     EXPECT_TRUE(d.hinf.choice.limits_met) << name;
-    EXPECT_NEAR(d.hinf.gamma, d.hinf.choice.gamma, 0) << name;
+    EXPECT_NEAR(d.hinf.gamma_discrete, d.hinf.choice.gamma, 0) << name;
     EXPECT_LT(d.hinf.loop.push_norm, d.hinf.gamma) << name;
+    // The same of the discrete design the hinf module runs: its γ from its own γ_opt, its
+    // sampled loop's norm below it and not below γ_opt (no gain does better).
+    EXPECT_NEAR(d.hinf.gamma_discrete / d.hinf.gamma_opt_discrete, d.hinf.choice.factor, 1e-12)
+        << name;
+    EXPECT_LT(d.hinf.norm_discrete, d.hinf.gamma_discrete) << name;
+    EXPECT_GT(d.hinf.norm_discrete, d.hinf.gamma_opt_discrete / (1 + 1e-4)) << name;
     for (const auto& p : d.pid.loop.poles) EXPECT_LT(p.real(), 0) << name << " pid pole " << p;
   }
 }

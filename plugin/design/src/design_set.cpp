@@ -35,24 +35,26 @@ void NoteUnanalysedDelay(ControllerReport* report, double latency_s, double peri
   report->unanalysed_delay_s = latency_s + (report->sampled.analysed() ? 0 : period_s / 2);
 }
 
-// The γ the H-infinity design sits at: the one asked for, factor × γ_opt, or the rule's
-// (ChooseGamma); the report notes which, and the rule's choice.
-Result<double> PickGamma(const DesignRequest& req, const LinearModel& plant,
-                         const Performance& perf, const model::RobotModel& model,
-                         HinfReport* report) {
+// The γ / γ_opt the H-infinity designs sit at: the factor asked for, or the rule's (ChooseGamma
+// on the discrete design at period_s, the hinf module's); 0 when a γ is asked for instead. The
+// report notes which, and the rule's choice.
+Result<double> PickFactor(const DesignRequest& req, const LinearModel& plant,
+                          const Performance& perf, const model::RobotModel& model,
+                          double period_s, HinfReport* report) {
   if (req.gamma > 0) {
     report->source = GammaSource::kGiven;
-    return req.gamma;
+    return 0.0;
   }
   if (req.gamma_factor > 0) {
     report->source = GammaSource::kFactor;
-    return req.gamma_factor * report->gamma_opt;
+    return req.gamma_factor;
   }
   report->source = GammaSource::kRule;
-  const Result<GammaChoice> choice = ChooseGamma(plant, perf, report->gamma_opt, model);
+  const Result<GammaChoice> choice =
+      ChooseGamma(plant, perf, report->gamma_opt_discrete, model, period_s);
   if (!choice) return Failure(choice.error());
   report->choice = *choice;
-  return choice->gamma;
+  return choice->factor;
 }
 
 }  // namespace
@@ -143,37 +145,66 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
     set.lqr.message = lqr ? lqr_d.error().message : lqr.error().message;
   }
 
-  // H-infinity state feedback at the γ asked for, factor × γ_opt, or by the rule.
+  // H-infinity state feedback: the continuous design, and the discrete one at the sample rate that
+  // the hinf module runs, each with its own γ_opt, both at the same γ / γ_opt (the rule's on the
+  // discrete design, or the factor asked for), or both at the γ asked for.
   const Result<GammaSearch, SolveError> search =
       RobotOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N);
+  const Result<GammaSearch, SolveError> search_discrete =
+      RobotDiscreteOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N, period_s);
   if (!search) {
     set.hinf.message = search.error().message;
+  } else if (!search_discrete) {
+    set.hinf.message = search_discrete.error().message;
   } else {
     set.hinf.gamma_opt = search->gamma_opt;
-    set.hinf.trade_off = GammaTradeOff(plant, perf, search->gamma_opt, model);
-    const Result<double> gamma = PickGamma(req, plant, perf, model, &set.hinf);
-    if (!gamma) set.hinf.message = "H-infinity: " + gamma.error();
-    if (gamma) req.gamma = set.hinf.gamma = *gamma;
+    set.hinf.gamma_opt_discrete = search_discrete->gamma_opt;
+    set.hinf.trade_off =
+        GammaTradeOff(plant, perf, search_discrete->gamma_opt, model, period_s);
+    const Result<double> factor = PickFactor(req, plant, perf, model, period_s, &set.hinf);
+    if (!factor) set.hinf.message = "H-infinity: " + factor.error();
+    if (factor && req.gamma == 0) req.gamma = *factor * search->gamma_opt;
+    if (factor) set.hinf.gamma = req.gamma;
+    if (factor) {
+      set.hinf.gamma_discrete =
+          request.gamma == 0 ? *factor * search_discrete->gamma_opt : request.gamma;
+    }
   }
-  if (set.hinf.gamma > 0) {
+  if (search && search_discrete && set.hinf.gamma > 0) {
     const Result<Eigen::MatrixXd, SolveError> hinf =
         RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, req.gamma);
-    if (hinf) {
+    const Result<Eigen::MatrixXd, SolveError> hinf_d = RobotDiscreteHinf(
+        plant, perf.Q, perf.R, perf.push_scale_N, set.hinf.gamma_discrete, period_s);
+    if (!hinf) {
+      std::ostringstream why;
+      why << hinf.error().message << " (gamma_opt = " << search->gamma_opt << ")";
+      set.hinf.message = why.str();
+    } else if (!hinf_d) {
+      std::ostringstream why;
+      why << hinf_d.error().message << " (discrete gamma_opt = " << search_discrete->gamma_opt
+          << ")";
+      set.hinf.message = why.str();
+    } else {
       set.hinf.K = *hinf;
+      set.hinf.K_discrete = *hinf_d;
       Finish(&set.hinf, plant, FullState(), StateFeedback(*hinf), perf);
-      // The hinf module applies the continuous gain at the sample rate.
-      NoteSampled(&set.hinf, SampledStateFeedback(plant, *hinf, period_s));
+      NoteSampled(&set.hinf, SampledStateFeedback(plant, *hinf_d, period_s));
+      const AnalysisResult<NormPeak> sampled_norm = SampledPushNorm(plant, *hinf_d, perf, period_s);
+      set.hinf.norm_discrete = sampled_norm ? sampled_norm->norm : sampled_norm.error().found.norm;
       if (set.hinf.ok && !(set.hinf.loop.push_norm < req.gamma)) {
         set.hinf.ok = false;
         std::ostringstream why;
         why << "H-infinity: closed-loop norm " << set.hinf.loop.push_norm
             << " is not below gamma = " << req.gamma;
         set.hinf.message = why.str();
+      } else if (set.hinf.ok && !(set.hinf.norm_discrete < set.hinf.gamma_discrete)) {
+        set.hinf.ok = false;
+        std::ostringstream why;
+        why << "discrete H-infinity: the sampled loop's norm " << set.hinf.norm_discrete
+            << " is not below gamma = " << set.hinf.gamma_discrete;
+        if (!sampled_norm) why << " (" << sampled_norm.error().message << ")";
+        set.hinf.message = why.str();
       }
-    } else {
-      std::ostringstream why;
-      why << hinf.error().message << " (gamma_opt = " << search->gamma_opt << ")";
-      set.hinf.message = why.str();
     }
   }
 

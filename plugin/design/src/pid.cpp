@@ -55,8 +55,11 @@ PidGains TunePid(const LinearModel& plant, double max_tilt_deg) {
   g.speed_kp_rad_per_m_s = k(1) / k(2);
   g.speed_ki_rad_per_m = k(0) / k(2);
   g.max_tilt_ref_rad = max_tilt_deg * std::numbers::pi / 180;
-  // Yaw-rate loop, PI: a first-order response at ω_y = λ, the integral's zero at ω_y / 4 so it
-  // trims offsets without adding much overshoot (common practice).
+  // Yaw-rate loop, PI on ψ̈ = b_ψ τ_diff (common practice): kp = ω_y / b_ψ alone would give a
+  // first-order response at ω_y = λ; the integral, ki = kp ω_y / 4, trims offsets and makes the
+  // closed loop ω_y (s + ω_y/4) / (s + ω_y/2)², a critically damped double pole at −λ/2 with a
+  // zero at −λ/4. Its step response is 1 − e^{−at}(1 − at), a = λ/2: the zero overshoots it by
+  // e⁻² ≈ 13.5 % at t = 4/λ (derived by hand); the open loop crosses over at 1.03 λ.
   g.yaw_bandwidth_rad_s = lambda;
   g.yaw_kp_Nm_s_per_rad = g.yaw_bandwidth_rad_s / b_psi;
   g.yaw_ki_Nm_per_rad = g.yaw_kp_Nm_s_per_rad * g.yaw_bandwidth_rad_s / 4;

@@ -3,6 +3,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "gamma_bisection.hpp"
 #include "upright/design/closed_loop.hpp"
 
 namespace upright::design {
@@ -41,7 +42,8 @@ Gained HinfGain(const MatrixXd& A, const MatrixXd& B1, const MatrixXd& B2, const
   // AᵀX + XA − X [B1 B2] diag(−γ² I, R)⁻¹ [B1 B2]ᵀ X + Q = 0 with X ≥ 0 stabilising (Doyle,
   // Glover, Khargonekar and Francis, IEEE Trans. Automatic Control 34(8), 1989, the
   // full-information central controller; the form SLICOT SB10QD solves); F = −R⁻¹ B2ᵀ X, so
-  // K = R⁻¹ B2ᵀ X.
+  // K = R⁻¹ B2ᵀ X. Solved as [B1/γ B2] with diag(−I, R), the same equation, so that a small γ
+  // does not make the weight look singular.
   if (!(gamma > 0) || !std::isfinite(gamma)) {
     std::ostringstream why;
     why << "H-infinity: gamma = " << gamma << ", must be > 0";
@@ -49,9 +51,9 @@ Gained HinfGain(const MatrixXd& A, const MatrixXd& B1, const MatrixXd& B2, const
   }
   const auto nw = B1.cols(), nu = B2.cols();
   MatrixXd B(A.rows(), nw + nu);
-  B << B1, B2;
+  B << B1 / gamma, B2;
   MatrixXd Rt = MatrixXd::Zero(nw + nu, nw + nu);
-  Rt.topLeftCorner(nw, nw) = -gamma * gamma * MatrixXd::Identity(nw, nw);
+  Rt.topLeftCorner(nw, nw) = -MatrixXd::Identity(nw, nw);
   Rt.bottomRightCorner(nu, nu) = R;
   const auto care = SolveCare(A, B, Q, Rt);  // require_psd: X ≥ 0
   if (!care) {
@@ -66,23 +68,8 @@ Result<GammaSearch, SolveError> OptimalGamma(const MatrixXd& A, const MatrixXd& 
                                              const MatrixXd& B2, const MatrixXd& Q,
                                              const MatrixXd& R, double upper_gamma,
                                              double relative_gap) {
-  GammaSearch out;
-  double hi = upper_gamma;
-  if (!HinfGain(A, B1, B2, Q, R, hi)) {
-    std::ostringstream why;
-    why << "gamma search: the upper bound gamma = " << hi << " is infeasible";
-    return Failure(SolveError{SolveFailure::kNoStabilisingSolution, why.str()});
-  }
-  // Feasibility is monotone in γ; with no feedthrough from w to z the infimum is > 0, and a
-  // lower bound a million times smaller is infeasible for any loop worth designing.
-  double lo = 1e-6 * hi;
-  while (hi / lo > 1 + relative_gap && out.iterations < 200) {
-    const double mid = std::sqrt(lo * hi);
-    (HinfGain(A, B1, B2, Q, R, mid).has_value() ? hi : lo) = mid;
-    ++out.iterations;
-  }
-  out.gamma_opt = hi;
-  return out;
+  return internal::BisectGamma([&](double gamma) { return HinfGain(A, B1, B2, Q, R, gamma); },
+                               upper_gamma, relative_gap);
 }
 
 Gained KalmanBucyGain(const MatrixXd& A, const MatrixXd& C, const MatrixXd& Qc, const MatrixXd& Rc,

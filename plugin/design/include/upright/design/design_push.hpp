@@ -41,4 +41,13 @@ struct PushPeaks {
 Result<PushPeaks> LinearPushPeaks(const LinearModel& plant, const Gain& K,
                                   const CurrentMap& current, const DesignPush& push);
 
+// The same for the loop sampled at period_s > 0, as a module runs it: u_k = −K x(k T) held over
+// each period, the plant and the push continuous between the ticks. Solved exactly at 20 points
+// a period (and at the push's end), over the push and the ten slowest time constants of the
+// sampled loop after it (at most 10⁵ periods). Fails for a sampled loop that is not
+// asymptotically stable, a period that is not positive and finite, or a push of no size.
+Result<PushPeaks> SampledPushPeaks(const LinearModel& plant, const Gain& K,
+                                   const CurrentMap& current, const DesignPush& push,
+                                   double period_s);
+
 }  // namespace upright::design

@@ -8,6 +8,7 @@
 
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/design_push.hpp"
+#include "upright/design/discrete_hinf.hpp"
 #include "upright/design/gamma_choice.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/lqg_filter.hpp"
@@ -46,7 +47,7 @@ struct ControllerReport {
   bool supported = true;  // false: this controller is not offered for the requested input
   std::string message = "not designed";
   Gain K = Gain::Zero();          // continuous state feedback (LQG: its regulator)
-  Gain K_discrete = Gain::Zero(); // at the sample rate, zero-order hold (LQR, LQG)
+  Gain K_discrete = Gain::Zero();  // at the sample rate, zero-order hold (LQR, H-infinity, LQG)
   LoopAnalysis loop;
   // The loop as the module samples it (LQR and H-infinity with the true state, LQG with its
   // filter); not analysed for PID.
@@ -62,17 +63,27 @@ struct ControllerReport {
 
 // Where the H-infinity design's γ came from.
 enum class GammaSource {
-  kRule,    // ChooseGamma: the smallest keeping the design push within the robot's limits
+  kRule,    // ChooseGamma: the smallest factor keeping the design push within the robot's limits
   kFactor,  // DesignRequest::gamma_factor × γ_opt
   kGiven,   // DesignRequest::gamma
 };
 
+// K and the loop figures are the continuous design's, at gamma; K_discrete, the sampled loop and
+// the *_discrete figures are the hinf module's design at the sample rate (discrete_hinf.hpp). Both
+// sit at the same γ / γ_opt, each of its own γ_opt: the rule's factor, the one asked for, or a γ
+// given for both.
 struct HinfReport : ControllerReport {
-  double gamma = 0;
-  double gamma_opt = 0;
+  double gamma = 0;      // the continuous design's: factor × gamma_opt, or the γ asked for
+  double gamma_opt = 0;  // the continuous problem's γ_opt
+  // The discrete design's γ (factor × gamma_opt_discrete, or the γ asked for), the discrete
+  // problem's γ_opt at the sample rate, and the sampled loop's push norm (< gamma_discrete).
+  double gamma_discrete = 0;
+  double gamma_opt_discrete = 0;
+  double norm_discrete = 0;
   GammaSource source = GammaSource::kRule;
-  GammaChoice choice;  // the rule's, when source is kRule
-  // The trade-off over γ (GammaTradeOff), empty when γ_opt was not found.
+  GammaChoice choice;  // the rule's, on the discrete design, when source is kRule
+  // The trade-off over γ of the discrete design at the sample rate (GammaTradeOff), empty when a
+  // γ_opt was not found.
   std::vector<GammaPoint> trade_off;
 };
 

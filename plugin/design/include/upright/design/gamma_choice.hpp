@@ -7,6 +7,7 @@
 #include "upright/base/result.hpp"
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/design_push.hpp"
+#include "upright/design/discrete_hinf.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/robot_limits.hpp"
 #include "upright/model/robot_model.hpp"
@@ -34,6 +35,11 @@ struct GammaChoice {
   bool limits_met = false;  // false: not even kGammaFactorHighest keeps the push within them
 };
 
+// The designs the rule and the table look at: with period_s = 0 the continuous central controller
+// (RobotHinf) on the continuous loop; with period_s > 0 the discrete one at that period
+// (RobotDiscreteHinf, the hinf module's design), its loop sampled as the module runs it
+// (SampledPushPeaks, SampledPushNorm), and `gamma_opt` then the discrete problem's.
+//
 // The rule: the smallest γ from kGammaFactorLowest to kGammaFactorHighest times γ_opt whose
 // central H-infinity state feedback keeps the design push (design_push.hpp) within PushLimits on
 // the linear model — as robust to the worst push as the robot's chassis and motors allow, and
@@ -41,10 +47,12 @@ struct GammaChoice {
 // (the peaks fall as γ grows); when even the highest factor fails the limits, that factor, with
 // limits_met false. `performance` is the design's (weights and push scale), `gamma_opt` its γ_opt.
 Result<GammaChoice> ChooseGamma(const LinearModel& plant, const Performance& performance,
-                                double gamma_opt, const model::RobotModel& model);
+                                double gamma_opt, const model::RobotModel& model,
+                                double period_s = 0);
 
 // One row of the trade-off: the central H-infinity design at γ = factor × γ_opt, or the LQR
-// (factor and γ infinite: the limit of the H-infinity design as γ grows).
+// (factor and γ infinite: the limit of the H-infinity design as γ grows; the discrete LQR when
+// period_s > 0).
 struct GammaPoint {
   double factor = 0;
   double gamma = 0;
@@ -60,6 +68,7 @@ inline constexpr double kTradeOffFactors[] = {1.01, 1.1, 1.2, 1.5, 2, 3, 5};
 
 // The rows for kTradeOffFactors, then the LQR.
 std::vector<GammaPoint> GammaTradeOff(const LinearModel& plant, const Performance& performance,
-                                      double gamma_opt, const model::RobotModel& model);
+                                      double gamma_opt, const model::RobotModel& model,
+                                      double period_s = 0);
 
 }  // namespace upright::design

@@ -22,7 +22,8 @@ struct PidGains {
   double yaw_kp_Nm_s_per_rad = 0;
   double yaw_ki_Nm_per_rad = 0;
   double max_tilt_ref_rad = 0;
-  // The bandwidths the rule aimed at, for the report.
+  // The natural frequencies the rule places, for the report: the tilt and speed pairs', and the
+  // yaw loop's proportional crossover ω_y (its closed loop is a double pole at −ω_y/2).
   double tilt_bandwidth_rad_s = 0, speed_bandwidth_rad_s = 0, yaw_bandwidth_rad_s = 0;
 };
 

@@ -28,8 +28,8 @@ GroundContactTilt GroundContact(const model::RobotModel& model, double equilibri
 // The default acceptable tilt of the weights, as a share of the smaller ground-contact tilt.
 // Bryson's maximum is a typical excursion, not a bound: on the demo robots the linear LQR loop's
 // peak tilt under the design push (design_push.hpp) is 2.9–3.9 times it. A fifth keeps that peak
-// within 80 % of the ground-contact tilt on both (courier 8.8° of 11.2°, tabletop 11.0° of
-// 18.7°), the rest left for what the linear model leaves out; a quarter leaves the courier 14 %,
+// within 80 % of the ground-contact tilt on both (courier 8.8° of 11.2°, tabletop 11.0–11.1° of
+// 18.7°, continuous and sampled at the control rate), the rest left for what the linear model leaves out; a quarter leaves the courier 14 %,
 // a third 6 %, and at a half the design push puts its chassis on the ground.
 inline constexpr double kTiltShareOfGroundContact = 0.2;
 

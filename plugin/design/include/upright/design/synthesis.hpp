@@ -32,7 +32,8 @@ Result<Eigen::MatrixXd, SolveError> HinfGain(const Eigen::MatrixXd& A, const Eig
                                              const Eigen::MatrixXd& R, double gamma);
 
 // γ_opt by geometric bisection on the feasibility of HinfGain, from `upper_gamma` (which must be
-// feasible, e.g. 1.01 × the norm of any stabilising loop) down to a relative gap.
+// feasible, e.g. 1.01 × the norm of any stabilising loop) down to a relative gap; the lower end,
+// 1e-6 × upper_gamma, is checked to be infeasible (a failure otherwise: γ_opt lies below it).
 struct GammaSearch {
   double gamma_opt = 0;
   int iterations = 0;
