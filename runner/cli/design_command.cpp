@@ -59,8 +59,9 @@ std::string Verdict(const ControllerReport& c) {
       return "ok";
     case DesignStatus::kUnstableSampled:
       return "designed, but UNSTABLE as the module samples it at " +
-             Figure(1 / c.sampled.period_s) + " Hz (max |z| " + Figure(c.sampled.max_abs_z) +
-             " >= 1): the continuous figures below do not hold at this rate";
+             Figure(1 / c.sampled.period_s) + " Hz with the sensors' latency (max |z| " +
+             Figure(c.sampled.max_abs_z) +
+             " >= 1): the continuous figures below do not hold for the loop the module runs";
     case DesignStatus::kFailed:
       return "FAILED: " + c.message;
     case DesignStatus::kUnsupported:
@@ -103,8 +104,8 @@ void WritePoles(JsonText& j, std::string_view key, const std::vector<std::comple
   j.EndArray();
 }
 
-void WriteMargins(JsonText& j, const design::LoopMargins& m) {
-  j.BeginObject("margins");
+void WriteMargins(JsonText& j, const design::LoopMargins& m, std::string_view key = "margins") {
+  j.BeginObject(key);
   j.Number("gain_low", m.gain_low);
   j.Number("gain_high", m.gain_high);
   j.Number("phase_deg", m.phase_deg);
@@ -113,6 +114,23 @@ void WriteMargins(JsonText& j, const design::LoopMargins& m) {
   j.Number("disk_gain_high", m.disk_gain_high);
   j.Number("disk_phase_deg", m.disk_phase_deg);
   j.Number("delay_s", m.delay_s);
+  j.EndObject();
+}
+
+// The sampled loop with the latency: its poles and, when it is stable, its margins (the delay
+// margin beyond the latency).
+void WriteSampled(JsonText& j, const design::SampledPoles& poles,
+                  const design::SampledMargins& margins) {
+  if (!poles.analysed()) return;
+  j.BeginObject("sampled");
+  j.Number("rate_hz", 1 / poles.period_s);
+  j.Number("max_abs_z", poles.max_abs_z);
+  WritePoles(j, "poles", poles.s);
+  if (margins.analysed()) {
+    j.Number("latency_s", margins.latency_s);
+    WriteMargins(j, margins.worst_wheel, "margins");
+    WriteMargins(j, margins.both_wheels, "margins_both_wheels");
+  }
   j.EndObject();
 }
 
@@ -125,13 +143,8 @@ void WriteController(JsonText& j, const ControllerReport& c) {
   WritePoles(j, "poles", c.loop.poles);
   j.Number("push_norm", c.loop.push_norm);
   WriteMargins(j, c.loop.margins);
-  if (c.sampled.analysed()) {
-    j.BeginObject("sampled");
-    j.Number("rate_hz", 1 / c.sampled.period_s);
-    j.Number("max_abs_z", c.sampled.max_abs_z);
-    WritePoles(j, "poles", c.sampled.s);
-    j.EndObject();
-  }
+  WriteMargins(j, c.loop.both_wheels, "margins_both_wheels");
+  WriteSampled(j, c.sampled, c.sampled_margins);
   j.Number("unanalysed_delay_s", c.unanalysed_delay_s);
   j.Bool("delay_margin_short", c.delay_margin_short());
 }
@@ -243,6 +256,14 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   j.Number("estimator_fastest_1_s", d.lqg.estimator_fastest_1_s);
   j.EndObject();
 
+  j.BeginObject("lqr_delay_aware");
+  j.Bool("ok", d.lqr_delay_aware.ok);
+  j.String("message", d.lqr_delay_aware.message);
+  WriteMatrix(j, "K", d.lqr_delay_aware.K);
+  j.Integer("memory", d.lqr_delay_aware.memory);
+  WriteSampled(j, d.lqr_delay_aware.sampled, d.lqr_delay_aware.sampled_margins);
+  j.EndObject();
+
   j.BeginObject("pid");
   WriteController(j, d.pid);
   const design::PidGains& g = d.pid.gains;
@@ -284,6 +305,47 @@ void PrintPoles(const std::vector<std::complex<double>>& poles) {
   std::printf("\n");
 }
 
+// Margins as one line: the common gain range, phase and delay, and the disk margin with what it
+// guarantees; `delay_what` says what the delay margin is measured from.
+std::string MarginsLine(const design::LoopMargins& m, const char* disk_what,
+                        const char* delay_what) {
+  return "gain " + Figure(m.gain_low) + ".." + Figure(m.gain_high) + ", phase " +
+         Figure(m.phase_deg) + " deg, delay " + Figure(m.delay_s) + " s" + delay_what + "; " +
+         disk_what + "disk alpha " + Figure(m.disk_alpha) + " (gain " + Figure(m.disk_gain_low) +
+         ".." + Figure(m.disk_gain_high) + ", phase " + Figure(m.disk_phase_deg) + " deg)";
+}
+
+// Both wheels at once beside the loop-at-a-time figures, and what a lower gain margin of 0 means.
+void PrintBothWheels(const design::LoopMargins& worst, const design::LoopMargins& both) {
+  std::printf("input margins (both wheels at once): %s\n",
+              MarginsLine(both, "multi-loop ", "").c_str());
+  if (worst.gain_low == 0 && both.gain_low > 0) {
+    std::printf(
+        "note: the worst wheel's lower gain margin is 0 because either wheel alone can balance "
+        "the robot (the other at zero gain); both wheels together must keep a gain above %s\n",
+        Figure(both.gain_low).c_str());
+  }
+}
+
+// The sampled loop's margins (stable loops only): the delay margin beyond the latency.
+void PrintSampledMargins(const design::SampledMargins& m) {
+  if (!m.analysed()) return;
+  std::printf("sampled margins (worst wheel): %s\n",
+              MarginsLine(m.worst_wheel, "", " beyond the latency").c_str());
+  std::printf("sampled margins (both wheels at once): %s\n",
+              MarginsLine(m.both_wheels, "multi-loop ", " beyond the latency").c_str());
+}
+
+// The sampled loop's heading line and poles.
+void PrintSampledPoles(const design::SampledPoles& sampled, double latency_s) {
+  std::printf(
+      "sampled as the module runs it, at %s Hz with the sensors' %s s latency: max |z| %s (%s); "
+      "poles (1/s, log z / T):",
+      SignificantText(1 / sampled.period_s, 6).c_str(), Figure(latency_s).c_str(),
+      Figure(sampled.max_abs_z).c_str(), sampled.max_abs_z < 1 ? "stable" : "UNSTABLE");
+  PrintPoles(sampled.s);
+}
+
 void PrintController(const char* title, const ControllerReport& c, double latency_s,
                      double rate_hz) {
   std::printf("\n== %s: %s\n", title, Verdict(c).c_str());
@@ -300,15 +362,34 @@ void PrintController(const char* title, const ControllerReport& c, double latenc
         Figure(m.disk_alpha).c_str(), Figure(m.disk_gain_low).c_str(),
         Figure(m.disk_gain_high).c_str(), Figure(m.disk_phase_deg).c_str(),
         Figure(m.delay_s).c_str());
+    PrintBothWheels(m, c.loop.both_wheels);
     const std::string warning = DelayWarning(c, latency_s, rate_hz);
     if (!warning.empty()) std::printf("warning: %s\n", warning.c_str());
   }
   if (c.sampled.analysed()) {
-    std::printf("sampled as the module runs it, at %s Hz: max |z| %s (%s); poles (1/s, log z / T):",
-                SignificantText(1 / c.sampled.period_s, 6).c_str(),
-                Figure(c.sampled.max_abs_z).c_str(),
-                c.sampled.max_abs_z < 1 ? "stable" : "UNSTABLE");
-    PrintPoles(c.sampled.s);
+    PrintSampledPoles(c.sampled, latency_s);
+    PrintSampledMargins(c.sampled_margins);
+  }
+}
+
+// The delay-aware LQR: the gain on the state and the module's past commands, and its loop.
+void PrintDelayAware(const design::DelayAwareLqrReport& r, double latency_s) {
+  std::printf(
+      "\n== LQR on the delay-augmented model (lqr module, latency_compensation = true): %s\n",
+      r.ok ? "ok" : ("FAILED: " + r.message).c_str());
+  if (!r.ok) return;
+  std::printf("gain on the state and on each wheel's last %d command(s), oldest first:\n",
+              r.memory);
+  for (int i = 0; i < r.K.rows(); ++i) {
+    std::printf("  %16s", kInputNames[i]);
+    for (int k = 0; k < r.K.cols(); ++k) {
+      std::printf(" %s", SignificantText(r.K(i, k), 6).c_str());
+    }
+    std::printf("\n");
+  }
+  if (r.sampled.analysed()) {
+    PrintSampledPoles(r.sampled, latency_s);
+    PrintSampledMargins(r.sampled_margins);
   }
 }
 
@@ -424,6 +505,7 @@ void PrintText(const model::RobotModel& model, const DesignSet& d, bool tilt_giv
         Figure(d.lqg.estimator_fastest_1_s).c_str(), Figure(nyquist_1_s).c_str(),
         SignificantText(d.request.rate_hz, 6).c_str());
   }
+  PrintDelayAware(d.lqr_delay_aware, latency_s);
   PrintController(controllers[3].title, d.pid, latency_s, rate_hz);
   const design::PidGains& g = d.pid.gains;
   if (d.pid.ok) {
@@ -592,7 +674,8 @@ int RunDesign(const DesignOptions& options) {
     } else {
       Log().Warning(options.model_path + ": " + c.title +
                     ": unstable as the module samples it at " + Figure(set.request.rate_hz) +
-                    " Hz (max |z| " + Figure(c.report->sampled.max_abs_z) + ")");
+                    " Hz with the sensors' latency (max |z| " +
+                    Figure(c.report->sampled.max_abs_z) + ")");
     }
   }
   if (usable == offered) return kExitOk;

@@ -49,6 +49,21 @@ INSTANTIATE_TEST_SUITE_P(Builtins, Balance,
                                             ::testing::Values("courier", "tabletop")),
                          Name);
 
+TEST(LatencyCompensation, LqrBalancesBothRobotsWithItToo) {
+  // The same bounds as Balance, the lqr module designed on the delay-augmented model.
+  for (const char* robot : {"courier", "tabletop"}) {
+    RunSettings settings;
+    settings.config = {{"latency_compensation", "true"}};
+    const RunFigures f = RunBuiltin("lqr", robot, settings);
+    ASSERT_TRUE(f.ran) << f.error;
+    PrintFigures(std::string("lqr (latency compensation) on ") + robot, f);
+    EXPECT_FALSE(f.fell) << robot;
+    EXPECT_LT(f.rms_pitch_final_rad, 1 * kDeg) << robot;
+    EXPECT_LT(std::abs(f.final_pitch_rad), 1 * kDeg) << robot;
+    EXPECT_LT(f.max_abs_x_m, 0.5) << robot;
+  }
+}
+
 TEST(SpeedReference, LqrBringsTheCourierToHalfAMetrePerSecondWithinFiveSeconds) {
   // The reference ramps at g tan(2.23°) = 0.38 m/s² (the default max_accel_m_s2, at the courier's
   // acceptable tilt), so it reaches 0.5 m/s after about 1.3 s; the speed then settles as the

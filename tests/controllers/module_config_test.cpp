@@ -120,6 +120,14 @@ TEST(HinfModule, DeclaresItsGamma) {
   EXPECT_NE(std::find(names.begin(), names.end(), "gamma"), names.end());
 }
 
+TEST(LqrModule, RefusesALatencyCompensationThatIsNeitherTrueNorFalse) {
+  const std::string error = Refusal("lqr", {{"latency_compensation", "on"}});
+  EXPECT_NE(error.find("latency_compensation = on: must be one of false, true"), std::string::npos)
+      << error;
+  EXPECT_NE(Refusal("hinf", {{"latency_compensation", "true"}}).find("unknown key"),
+            std::string::npos);
+}
+
 TEST(LqrModule, KeyValuesMayCarrySurroundingSpaces) {
   EXPECT_TRUE(Succeeded(CreateBuiltin("lqr", DemoRobot("courier"),
                                       {{"max_tilt_deg", " 4 "}, {"state", " estimated"}}, false)));

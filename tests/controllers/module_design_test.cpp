@@ -70,6 +70,33 @@ TEST_P(DemoRobotDesign, LqrAppliesTheDiscreteGain) {
   ExpectCommand(tick, -design_.lqr.K_discrete * tick.truth);
 }
 
+TEST_P(DemoRobotDesign, LqrWithLatencyCompensationFeedsBackItsOwnPastCommands) {
+  // latency_compensation = true: the gain `upright design` reports for the delay-augmented
+  // model, on the state and on the module's last command (one per wheel at these latencies,
+  // under a period). The first tick has no past command; the second feeds back the first.
+  const design::DelayAwareLqrReport& aware = design_.lqr_delay_aware;
+  ASSERT_TRUE(aware.ok) << aware.message;
+  ASSERT_EQ(aware.memory, 1);
+  FirstTick tick = RunFirstTick("lqr", model_, {{"latency_compensation", "true"}});
+  const Eigen::MatrixXd K_state = aware.K.leftCols(design::kStates);
+  const Eigen::MatrixXd K_past = aware.K.rightCols(2);
+  ExpectCommand(tick, -K_state * tick.truth);
+  ASSERT_TRUE(tick.host);
+  sim::PlantOptions options;
+  options.initial.pitch_rad = -2 * kDeg;
+  options.drive = tick.host->drive();
+  auto built = sim::Plant::Create(model_, options);
+  ASSERT_TRUE(Succeeded(built));
+  const Eigen::Vector2d first(tick.command[0], tick.command[1]);
+  const sim::TrueState& s = (*built)->truth();
+  design::StateVector truth;
+  truth << 0, s.forward_speed_m_s, s.pitch_rad, s.pitch_rate_rad_s, 0, s.yaw_rate_rad_s;
+  // The same host, a fresh plant at −2°: its step count is 0, so the host ticks again.
+  ASSERT_TRUE(tick.host->Tick(**built, Reference{})) << tick.host->fault();
+  tick.command = tick.host->command();
+  ExpectCommand(tick, -K_state * truth - K_past * first);
+}
+
 TEST_P(DemoRobotDesign, LqrOnVoltageAppliesTheVoltageModelsDiscreteGain) {
   design::DesignRequest request;
   request.input = design::InputKind::kVoltage;

@@ -12,3 +12,6 @@ upright_test(upright_margins_test
 upright_test(upright_slicot_norm_test
   SOURCES slicot_norm_test.cpp
   LIBS upright::design ${UPRIGHT_SLICOT_LIBS})
+upright_test(upright_simultaneous_margins_test
+  SOURCES simultaneous_margins_test.cpp
+  LIBS upright::design upright::model)

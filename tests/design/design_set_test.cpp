@@ -58,38 +58,60 @@ TEST(DesignSet, UnanalysedDelayIsTheLatencyPlusHalfAPeriodWhereTheHoldIsNotAnaly
   request.rate_hz = 50;
   const DesignSet d = DesignAll(model, request);
   ASSERT_TRUE(d.lqr.ok && d.pid.ok) << d.lqr.message << "; " << d.pid.message;
-  // The sampled LQR loop includes the hold; the PID figures are continuous, and a zero-order
-  // hold lags like half a period (common practice).
-  EXPECT_DOUBLE_EQ(d.lqr.unanalysed_delay_s, 0.004);
-  EXPECT_DOUBLE_EQ(d.hinf.unanalysed_delay_s, 0.004);
-  EXPECT_DOUBLE_EQ(d.lqg.unanalysed_delay_s, 0.004);
+  // The sampled loops include the hold and the latency; the PID figures are continuous, and a
+  // zero-order hold lags like half a period (common practice).
+  EXPECT_EQ(d.lqr.unanalysed_delay_s, 0);
+  EXPECT_EQ(d.hinf.unanalysed_delay_s, 0);
+  EXPECT_EQ(d.lqg.unanalysed_delay_s, 0);
   EXPECT_DOUBLE_EQ(d.pid.unanalysed_delay_s, 0.004 + 0.5 / 50);
+  EXPECT_EQ(d.lqr.sampled_margins.latency_s, 0.004);
 }
 
 TEST(DesignSet, DelayMarginIsShortJustPastTheLatency) {
-  // The designs do not depend on the latency, so the LQR's delay margin at zero latency is the
-  // edge: a latency at the margin leaves the loop on the edge (not short), a latency past it is.
+  // The PID design does not depend on the latency, so its delay margin less half a period (the
+  // hold its continuous figures leave out) is the edge: a latency there leaves the loop on the
+  // edge (not short), a latency past it is.
+  // At 50 Hz the sampled loops analysed beside it hold few past inputs.
   model::RobotModel model = Demo("courier.xml");
   model.sensors.latency_s = 0;
-  const DesignSet at_zero = DesignAll(model, DesignRequest{});
-  ASSERT_TRUE(at_zero.lqr.ok) << at_zero.lqr.message;
-  const double margin_s = at_zero.lqr.loop.margins.delay_s;
-  ASSERT_TRUE(std::isfinite(margin_s) && margin_s > 0) << margin_s;
-  EXPECT_FALSE(at_zero.lqr.delay_margin_short());
+  DesignRequest request;
+  request.rate_hz = 50;
+  const DesignSet at_zero = DesignAll(model, request);
+  ASSERT_TRUE(at_zero.pid.ok) << at_zero.pid.message;
+  const double half_period_s = 0.5 / at_zero.request.rate_hz;
+  const double edge_s = at_zero.pid.loop.margins.delay_s - half_period_s;
+  ASSERT_TRUE(std::isfinite(edge_s) && edge_s > 0) << edge_s;
+  EXPECT_FALSE(at_zero.pid.delay_margin_short());
 
-  model.sensors.latency_s = margin_s;
-  const DesignSet at_margin = DesignAll(model, DesignRequest{});
-  EXPECT_EQ(at_margin.lqr.loop.margins.delay_s, margin_s);
-  EXPECT_FALSE(at_margin.lqr.delay_margin_short());
+  model.sensors.latency_s = edge_s * (1 - 1e-12);
+  const DesignSet at_edge = DesignAll(model, request);
+  EXPECT_EQ(at_edge.pid.loop.margins.delay_s, at_zero.pid.loop.margins.delay_s);
+  EXPECT_FALSE(at_edge.pid.delay_margin_short());
 
-  model.sensors.latency_s = margin_s * (1 + 1e-9);
-  const DesignSet past = DesignAll(model, DesignRequest{});
-  EXPECT_TRUE(past.lqr.delay_margin_short());
+  model.sensors.latency_s = edge_s * (1 + 1e-9);
+  const DesignSet past = DesignAll(model, request);
+  EXPECT_TRUE(past.pid.delay_margin_short());
 
   // A design that failed says nothing of its margins.
   ControllerReport failed;
   failed.unanalysed_delay_s = 1;
   EXPECT_FALSE(failed.delay_margin_short());
+}
+
+TEST(DesignSet, LatencyPastTheSampledDelayMarginMakesTheDesignUnstableSampled) {
+  // The latency is the same delay on both wheels, so the sampled both-wheels delay margin is the
+  // latency the loop can still take: the H-infinity design (which does not depend on the latency)
+  // stays ok just below latency + margin and is unstable as sampled just above.
+  model::RobotModel model = Demo("tabletop.xml");
+  const DesignSet nominal = DesignAll(model, DesignRequest{});
+  ASSERT_EQ(nominal.hinf.status(), DesignStatus::kOk) << nominal.hinf.message;
+  const double total_s = model.sensors.latency_s + nominal.hinf.sampled_margins.both_wheels.delay_s;
+  model.sensors.latency_s = total_s * (1 - 1e-6);
+  EXPECT_EQ(DesignAll(model, DesignRequest{}).hinf.status(), DesignStatus::kOk);
+  model.sensors.latency_s = total_s * (1 + 1e-6);
+  const DesignSet past = DesignAll(model, DesignRequest{});
+  EXPECT_EQ(past.hinf.status(), DesignStatus::kUnstableSampled);
+  EXPECT_FALSE(past.hinf.sampled_margins.analysed());  // no margins for an unstable loop
 }
 
 }  // namespace

@@ -17,3 +17,6 @@ upright_test(upright_sampled_loop_test
 upright_test(upright_design_set_test
   SOURCES design_set_test.cpp
   LIBS upright::design upright::model)
+upright_test(upright_delayed_loop_test
+  SOURCES delayed_loop_test.cpp
+  LIBS upright::design upright::model)

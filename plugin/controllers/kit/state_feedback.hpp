@@ -24,18 +24,28 @@ Result<design::Gain, ModuleError> DiscreteLqrFor(const ModuleContext& context,
                                                  const CommonConfig& config,
                                                  const design::LinearModel& plant);
 
+// The discrete LQR on the plant delayed by the sensors' latency (design::RobotDelayedLqr): its
+// gain on the state and then on the module's own past commands; UPRIGHT_UNSUPPORTED when the
+// design fails.
+Result<Eigen::MatrixXd, ModuleError> DelayedLqrFor(const ModuleContext& context,
+                                                   const CommonConfig& config,
+                                                   const design::LinearModel& plant);
+
 class StateFeedbackLaw {
  public:
   // The diagnostics Step writes, in order, into the first slots of the output.
   static const std::vector<const char*>& DiagnosticNames();
 
   // `gain`: u = −K e, for `plant`'s input kind; `limits` the drive's, of that kind; `tracker`
-  // as configured, at its reset state. UPRIGHT_UNSUPPORTED when `plant` cannot hold a steady
+  // as configured, at its reset state. `past_gain` (2 × 2·memory, or empty): the gain on the
+  // law's own past commands, each wheel's oldest first (design::RobotDelayedLqr's last columns),
+  // u = −K e − K_past (u_past − u_ss). UPRIGHT_UNSUPPORTED when `plant` cannot hold a steady
   // motion (SteadyMotion::Of).
   static Result<StateFeedbackLaw, ModuleError> For(const design::LinearModel& plant,
                                                    const design::Gain& gain,
                                                    const DriveLimits& limits,
-                                                   const ReferenceTracker& tracker);
+                                                   const ReferenceTracker& tracker,
+                                                   const Eigen::MatrixXd& past_gain = {});
   void Reset();
   // Writes the commands and the diagnostics; nullptr, or a message in static storage.
   // `wheel_speeds_rad_s`: each wheel's speed relative to the chassis, for the drive's limits.
@@ -47,7 +57,11 @@ class StateFeedbackLaw {
  private:
   StateFeedbackLaw(const design::LinearModel& plant, const design::Gain& gain,
                    const SteadyMotion& steady, const DriveLimits& limits,
-                   const ReferenceTracker& tracker);
+                   const ReferenceTracker& tracker, const Eigen::MatrixXd& past_gain);
+  // −K_past (u_past − u_ss) from the stored commands, then the stored commands aged by one
+  // with `command` the newest. Allocates nothing.
+  Eigen::Vector2d PastCorrection(const Eigen::Vector2d& steady_input) const;
+  void Remember(const Eigen::Vector2d& command);
 
   design::Gain gain_;
   SteadyMotion steady_;
@@ -56,6 +70,10 @@ class StateFeedbackLaw {
   ReferenceTracker tracker_;
   design::StateVector error_ = design::StateVector::Zero();
   Eigen::Vector2d command_ = Eigen::Vector2d::Zero();
+  Eigen::MatrixXd past_gain_;           // 2 × 2·memory_
+  int memory_ = 0;                      // past commands kept per wheel
+  Eigen::VectorXd past_;                // the commands, wheel by wheel, oldest first
+  mutable Eigen::VectorXd past_error_;  // past_ − u_ss, space for PastCorrection
 };
 
 }  // namespace upright::controllers

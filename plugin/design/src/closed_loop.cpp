@@ -6,6 +6,7 @@
 #include <vector>
 
 #include "upright/base/number_text.hpp"
+#include "upright/design/simultaneous_margins.hpp"
 
 namespace upright::design {
 namespace {
@@ -14,10 +15,12 @@ using Eigen::MatrixXd;
 
 // Plant with the controller's loop closed on every channel except `open` (−1: all closed), as one
 // state-space system with states [x; xc]. Its input is the plant input of channel `open` (or the
-// push w when open < 0); its output is u_c of that channel (or z).
+// push w when open < 0); its output is u_c of that channel (or z). kAllOpen: every channel open,
+// inputs the plant inputs, outputs u_c.
 struct Interconnection {
   MatrixXd A, B, C, D;
 };
+constexpr int kAllOpen = -2;
 
 // The plant as the loop sees it: states the controller never reads and that act on nothing
 // (position and heading, for a controller of speed and yaw rate only) are left out, since they
@@ -68,6 +71,9 @@ Interconnection Connect(const LoopPlant& plant, const LinearController& ctrl,
   if (open >= 0) {
     select_closed(open, open) = 0;
     select_open(open, 0) = 1;
+  } else if (open == kAllOpen) {
+    select_closed.setZero();
+    select_open = MatrixXd::Identity(kInputs, kInputs);
   }
   // u_c = Ux [x; xc]
   MatrixXd Ux(kInputs, n + nc);
@@ -84,7 +90,13 @@ Interconnection Connect(const LoopPlant& plant, const LinearController& ctrl,
     s.A.block(n, 0, nc, n) += ctrl.Bc * meas.Cy;
     s.A.bottomRightCorner(nc, nc) += ctrl.Ac;
   }
-  if (open >= 0) {
+  if (open == kAllOpen) {
+    s.B = MatrixXd::Zero(n + nc, kInputs);
+    s.B.topRows(n) = plant.B;
+    if (nc > 0) s.B.bottomRows(nc) = ctrl.Bc * meas.Dy;
+    s.C = -Ux;  // L = −(v → u_c) under negative feedback
+    s.D = MatrixXd::Zero(kInputs, kInputs);
+  } else if (open >= 0) {
     s.B = MatrixXd::Zero(n + nc, 1);
     s.B.topRows(n) = plant.B * select_open;
     if (nc > 0) s.B.bottomRows(nc) = ctrl.Bc * meas.Dy * select_open;
@@ -153,7 +165,12 @@ AnalysisResult<LoopAnalysis> AnalyseLoop(const LinearModel& plant, const Measure
   }
   const AnalysisResult<LoopMargins> margins = WorstOf(channels);
   out.margins = margins ? *margins : margins.error().found;
+  const Interconnection all_open = Connect(reduced, ctrl, nullptr, kAllOpen);
+  const AnalysisResult<LoopMargins> both =
+      SimultaneousMargins(BrokenLoop{all_open.A, all_open.B, all_open.C});
+  out.both_wheels = both ? *both : both.error().found;
   if (!margins) return stopped(margins.error().message);
+  if (!both) return stopped(both.error().message);
   if (!norm) return stopped(norm.error().message);
   return out;
 }

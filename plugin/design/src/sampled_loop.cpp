@@ -10,9 +10,11 @@ namespace {
 
 using Eigen::MatrixXd;
 
-// The poles of the sampled loop x_{k+1} = Φ x_k: z, their largest modulus, and s = log(z) / T
-// (the principal logarithm: a pole on the negative real axis shows as a ±π/T oscillation).
-SampledPoles FromTransition(const MatrixXd& phi, double period_s) {
+}  // namespace
+
+// z, their largest modulus, and s = log(z) / T (the principal logarithm: a pole on the negative
+// real axis shows as a ±π/T oscillation).
+SampledPoles PolesOfTransition(const MatrixXd& phi, double period_s) {
   SampledPoles out;
   out.period_s = period_s;
   const Eigen::VectorXcd z = phi.eigenvalues();
@@ -26,13 +28,11 @@ SampledPoles FromTransition(const MatrixXd& phi, double period_s) {
   return out;
 }
 
-}  // namespace
-
 Result<SampledPoles, SolveError> SampledStateFeedback(const LinearModel& plant, const Gain& K,
                                                       double period_s) {
   const Result<ZohSystem, SolveError> sampled = DiscretiseZoh(plant.A, plant.B, period_s);
   if (!sampled) return Failure(sampled.error());
-  return FromTransition(sampled->Ad - sampled->Bd * K, period_s);
+  return PolesOfTransition(sampled->Ad - sampled->Bd * K, period_s);
 }
 
 SampledPoles SampledLqg(const Gain& K, const LqgFilter& filter, double period_s) {
@@ -48,7 +48,7 @@ SampledPoles SampledLqg(const Gain& K, const LqgFilter& filter, double period_s)
   phi.topRows(kStates) = -Bd * K * estimate;
   phi.topLeftCorner(kStates, kStates) += Ad;
   phi.bottomRows(kStates) = (Ad - Bd * K) * estimate;
-  return FromTransition(phi, period_s);
+  return PolesOfTransition(phi, period_s);
 }
 
 }  // namespace upright::design

@@ -44,6 +44,9 @@ struct LoopAnalysis {
   double push_norm = 0;                     // ‖T_zw‖∞ (inf when unstable)
   LoopMargins margins;                      // worst over the two input channels
   std::vector<LoopMargins> channel_margins; // [left, right]
+  // Both wheels at once (simultaneous_margins.hpp): the common-mode gain, phase and delay margins
+  // and the multi-loop disk margin.
+  LoopMargins both_wheels;
 };
 
 // States the controller never reads and that act on nothing else (position and heading, for a

@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "upright/design/closed_loop.hpp"
+#include "upright/design/delayed_loop.hpp"
 #include "upright/design/design_push.hpp"
 #include "upright/design/discrete_hinf.hpp"
 #include "upright/design/gamma_choice.hpp"
@@ -49,11 +50,13 @@ struct ControllerReport {
   Gain K = Gain::Zero();          // continuous state feedback (LQG: its regulator)
   Gain K_discrete = Gain::Zero();  // at the sample rate, zero-order hold (LQR, H-infinity, LQG)
   LoopAnalysis loop;
-  // The loop as the module samples it (LQR and H-infinity with the true state, LQG with its
-  // filter); not analysed for PID.
+  // The loop as the module samples it, with the sensors' latency (LQR and H-infinity with the
+  // true state, LQG with its filter); not analysed for PID.
   SampledPoles sampled;
-  // The delay in the loop the module runs that none of the figures above include: the sensors'
-  // latency, plus half a control period (the hold) when the sampled loop is not analysed, s.
+  SampledMargins sampled_margins;
+  // The delay in the loop the module runs that none of the figures above include: 0 when the
+  // sampled loop is analysed (it includes the latency), otherwise the sensors' latency plus half
+  // a control period (the hold), s.
   double unanalysed_delay_s = 0;
 
   DesignStatus status() const;
@@ -108,6 +111,18 @@ struct RobotLimits {
   double current_limit_A = 0;        // the drive's
 };
 
+// The discrete LQR on the delay-augmented model (RobotDelayedLqr), as the lqr module runs it with
+// latency_compensation = true: its gain on the state the sensors report and on the module's own
+// past commands, and its sampled loop with the latency.
+struct DelayAwareLqrReport {
+  bool ok = false;
+  std::string message = "not designed";
+  Eigen::MatrixXd K;  // 2 × (6 + 2 · memory)
+  int memory = 0;     // past commands per wheel the gain reads
+  SampledPoles sampled;
+  SampledMargins sampled_margins;
+};
+
 struct DesignSet {
   LinearModel plant;
   DesignRequest request;  // with defaults resolved (rate, push scale, weights, γ)
@@ -118,6 +133,7 @@ struct DesignSet {
   HinfReport hinf;
   LqgReport lqg;
   PidReport pid;
+  DelayAwareLqrReport lqr_delay_aware;
   bool all_ok() const { return lqr.ok && hinf.ok && lqg.ok && pid.ok; }
 };
 

@@ -31,4 +31,7 @@ Result<SampledPoles, SolveError> SampledStateFeedback(const LinearModel& plant, 
 // period_s. State [x_k; p_k].
 SampledPoles SampledLqg(const Gain& K, const LqgFilter& filter, double period_s);
 
+// The poles of a sampled loop x_{k+1} = Φ x_k: log(z) / T sorted by real part, and max |z|.
+SampledPoles PolesOfTransition(const Eigen::MatrixXd& phi, double period_s);
+
 }  // namespace upright::design
