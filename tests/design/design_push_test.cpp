@@ -131,9 +131,9 @@ TEST(SampledPushPeaks, AgreeWithARungeKuttaIntegrationOfTheHeldInput) {
     const CurrentMap current = MotorCurrent(model, InputKind::kTorque);
     Eigen::Vector2d u = Eigen::Vector2d::Zero();
     const auto f = [&](double t, const StateVector& x) -> StateVector {
-      const double force =
-          t < push.duration_s ? push.peak_N() * std::sin(std::numbers::pi * t / push.duration_s)
-                              : 0;
+      const double force = t < push.duration_s
+                               ? push.peak_N() * std::sin(std::numbers::pi * t / push.duration_s)
+                               : 0;
       return plant.A * x + plant.B * u + plant.E.col(0) * force;
     };
     constexpr int kPerPeriod = 250;

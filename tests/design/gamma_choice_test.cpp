@@ -26,10 +26,10 @@ PushPeaks PeaksAt(const model::RobotModel& model, const DesignSet& d, double fac
       RobotDiscreteHinf(d.plant, d.performance.Q, d.performance.R, d.performance.push_scale_N,
                         factor * d.hinf.gamma_opt_discrete, period_s);
   EXPECT_TRUE(Succeeded(K));
-  const Result<PushPeaks> peaks = SampledPushPeaks(
-      d.plant, K.value_or(Eigen::MatrixXd::Zero(kInputs, kStates)),
-      MotorCurrent(model, d.plant.input), DesignPushFor(d.plant, d.performance.push_scale_N),
-      period_s);
+  const Result<PushPeaks> peaks =
+      SampledPushPeaks(d.plant, K.value_or(Eigen::MatrixXd::Zero(kInputs, kStates)),
+                       MotorCurrent(model, d.plant.input),
+                       DesignPushFor(d.plant, d.performance.push_scale_N), period_s);
   EXPECT_TRUE(Succeeded(peaks));
   return peaks.value_or(PushPeaks{});
 }

@@ -106,8 +106,8 @@ Result<PushPeaks> SampledPushPeaks(const LinearModel& plant, const Gain& K,
   M(kC, kS) = -omega;
   // The sampled loop, tick to tick, for its stability and slowest decay.
   const Eigen::Matrix<double, n, n> period = (M * period_s).exp();
-  const StateMatrix sampled = period.topLeftCorner<kStates, kStates>() -
-                              period.block<kStates, kInputs>(0, kStates) * K;
+  const StateMatrix sampled =
+      period.topLeftCorner<kStates, kStates>() - period.block<kStates, kInputs>(0, kStates) * K;
   double largest_z = 0;
   for (const auto& z : sampled.eigenvalues()) largest_z = std::max(largest_z, std::abs(z));
   if (!(largest_z < 1) || !sampled.allFinite()) {

@@ -64,8 +64,8 @@ void DesignDelayAwareLqr(DelayAwareLqrReport* report, const LinearModel& plant,
 // on the discrete design at period_s, the hinf module's); 0 when a γ is asked for instead. The
 // report notes which, and the rule's choice.
 Result<double> PickFactor(const DesignRequest& req, const LinearModel& plant,
-                          const Performance& perf, const model::RobotModel& model,
-                          double period_s, HinfReport* report) {
+                          const Performance& perf, const model::RobotModel& model, double period_s,
+                          HinfReport* report) {
   if (req.gamma > 0) {
     report->source = GammaSource::kGiven;
     return 0.0;
@@ -185,8 +185,7 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
   } else {
     set.hinf.gamma_opt = search->gamma_opt;
     set.hinf.gamma_opt_discrete = search_discrete->gamma_opt;
-    set.hinf.trade_off =
-        GammaTradeOff(plant, perf, search_discrete->gamma_opt, model, period_s);
+    set.hinf.trade_off = GammaTradeOff(plant, perf, search_discrete->gamma_opt, model, period_s);
     const Result<double> factor = PickFactor(req, plant, perf, model, period_s, &set.hinf);
     if (!factor) set.hinf.message = "H-infinity: " + factor.error();
     if (factor && req.gamma == 0) req.gamma = *factor * search->gamma_opt;

@@ -36,8 +36,7 @@ Result<PushPeaks> PeaksOf(const LinearModel& plant, const Gain& K, const Current
 }
 
 Result<Tried> Try(const LinearModel& plant, const Performance& perf, const CurrentMap& current,
-                  const DesignPush& push, const PushLimits& limits, double gamma,
-                  double period_s) {
+                  const DesignPush& push, const PushLimits& limits, double gamma, double period_s) {
   const Result<Eigen::MatrixXd, SolveError> K = HinfAt(plant, perf, gamma, period_s);
   if (!K) return Failure(K.error().message);
   const Result<PushPeaks> peaks = PeaksOf(plant, *K, current, push, period_s);
@@ -91,7 +90,8 @@ Result<GammaChoice> ChooseGamma(const LinearModel& plant, const Performance& per
 }
 
 std::vector<GammaPoint> GammaTradeOff(const LinearModel& plant, const Performance& perf,
-                                      double gamma_opt, const model::RobotModel& model, double period_s) {
+                                      double gamma_opt, const model::RobotModel& model,
+                                      double period_s) {
   const CurrentMap current = MotorCurrent(model, plant.input);
   const DesignPush push = DesignPushFor(plant, perf.push_scale_N);
   const PushLimits limits = PushLimitsOf(model, plant.equilibrium_pitch_rad);

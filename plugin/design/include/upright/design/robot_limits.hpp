@@ -29,8 +29,9 @@ GroundContactTilt GroundContact(const model::RobotModel& model, double equilibri
 // Bryson's maximum is a typical excursion, not a bound: on the demo robots the linear LQR loop's
 // peak tilt under the design push (design_push.hpp) is 2.9–3.9 times it. A fifth keeps that peak
 // within 80 % of the ground-contact tilt on both (courier 8.8° of 11.2°, tabletop 11.0–11.1° of
-// 18.7°, continuous and sampled at the control rate), the rest left for what the linear model leaves out; a quarter leaves the courier 14 %,
-// a third 6 %, and at a half the design push puts its chassis on the ground.
+// 18.7°, continuous and sampled at the control rate), the rest left for what the linear model
+// leaves out; a quarter leaves the courier 14 %, a third 6 %, and at a half the design push puts
+// its chassis on the ground.
 inline constexpr double kTiltShareOfGroundContact = 0.2;
 
 // `weights` with the fields left to the robot filled in: max_tilt_deg = 0 becomes
