@@ -22,6 +22,7 @@
 #include "robot_body.hpp"
 #include "upright/base/number_text.hpp"
 #include "upright/design/linear_model.hpp"
+#include "upright/design/robot_limits.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/host/module.hpp"
@@ -82,7 +83,9 @@ FloorLaw SameMotionLaw(const Scenario& scenario) {
   namespace design = upright::design;
   const RobotModel& model = scenario.built_model();
   const design::LinearModel linear = design::Linearise(model, design::InputKind::kTorque);
-  const design::DesignWeights weights;
+  const design::DesignWeights weights =
+      design::WeightsForRobot(design::DesignWeights{}, model, linear.equilibrium_pitch_rad)
+          .value_or(design::DesignWeights{.max_tilt_deg = 3});
   const auto gain =
       design::RobotLqr(linear, design::StateWeight(weights),
                        design::InputWeight(weights, model, design::InputKind::kTorque));

@@ -2,8 +2,9 @@
 // sensors, or true) and the reference in each tick; wheel commands u = u_ss − K e out, K the
 // central discrete-time H-infinity gain at the module's own rate (zero-order hold, the push held
 // over each period like the input; design::RobotDiscreteHinf), designed at create at
-// γ = gamma_factor × γ_opt (or the `gamma` given), where γ_opt is the discrete problem's at that
-// rate, not the continuous one's.
+// γ = factor × γ_opt, where γ_opt is the discrete problem's at that rate, not the continuous
+// one's, and the factor the design-push rule's (design::ChooseGamma on this discrete design, as
+// `upright design` chooses it), or the `gamma_factor` given; or at the `gamma` given.
 #include <memory>
 #include <sstream>
 
@@ -13,6 +14,7 @@
 #include "kit/state_estimator.hpp"
 #include "kit/state_feedback.hpp"
 #include "upright/design/discrete_hinf.hpp"
+#include "upright/design/gamma_choice.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
 #include "upright/model/conventions.hpp"
@@ -27,10 +29,9 @@ class HinfController {
   static Result<std::unique_ptr<HinfController>, ModuleError> Create(
       const ModuleContext& context, upright_create_result* result) {
     ConfigReader reader(context.config);
-    const CommonConfig config =
-        ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
+    const CommonConfig config = ReadCommonConfig(&reader, context, /*voltage_allowed=*/true);
     double gamma = 0;
-    double gamma_factor = 1.1;  // γ just above the optimum, as `upright design` reports
+    double gamma_factor = 0;  // 0: the rule's factor, as `upright design` chooses it
     reader.Number("gamma", NumberRule::kPositive, &gamma);
     reader.Number("gamma_factor", NumberRule::kAboveOne, &gamma_factor);
     if (reader.Has("gamma") && reader.Has("gamma_factor")) {
@@ -49,8 +50,16 @@ class HinfController {
       return Failure(ModuleError{UPRIGHT_UNSUPPORTED,
                                  "H-infinity gamma search failed: " + search.error().message});
     }
-    if (gamma == 0) {
+    if (gamma == 0 && gamma_factor > 0) {
       gamma = gamma_factor * search->gamma_opt;
+    } else if (gamma == 0) {
+      const Result<design::GammaChoice> choice =
+          design::ChooseGamma(plant, design::Performance{Q, R, push_scale_N}, search->gamma_opt,
+                              context.robot, context.period_s);
+      if (!choice) {
+        return Failure(ModuleError{UPRIGHT_UNSUPPORTED, "H-infinity " + choice.error()});
+      }
+      gamma = choice->gamma;
     } else if (!(gamma > search->gamma_opt)) {
       std::ostringstream why;
       why << "gamma = " << gamma << ": must be > gamma_opt = " << search->gamma_opt

@@ -63,8 +63,7 @@ class LqgController {
   static Result<std::unique_ptr<LqgController>, ModuleError> Create(const ModuleContext& context,
                                                                     upright_create_result* result) {
     ConfigReader reader(context.config);
-    const CommonConfig config =
-        ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
+    const CommonConfig config = ReadCommonConfig(&reader, context, /*voltage_allowed=*/true);
     if (auto read = reader.Finish(); !read) return Failure(read.error());
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, config.input);

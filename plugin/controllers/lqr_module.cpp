@@ -24,8 +24,7 @@ class LqrController {
   static Result<std::unique_ptr<LqrController>, ModuleError> Create(const ModuleContext& context,
                                                                     upright_create_result* result) {
     ConfigReader reader(context.config);
-    const CommonConfig config =
-        ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/true);
+    const CommonConfig config = ReadCommonConfig(&reader, context, /*voltage_allowed=*/true);
     int compensation = 0;
     reader.Choice("latency_compensation", {"false", "true"}, &compensation);
     if (auto read = reader.Finish(); !read) return Failure(read.error());

@@ -27,8 +27,7 @@ class PidController {
   static Result<std::unique_ptr<PidController>, ModuleError> Create(const ModuleContext& context,
                                                                     upright_create_result* result) {
     ConfigReader reader(context.config);
-    const CommonConfig config =
-        ReadCommonConfig(&reader, context.true_state_available, /*voltage_allowed=*/false);
+    const CommonConfig config = ReadCommonConfig(&reader, context, /*voltage_allowed=*/false);
     if (auto read = reader.Finish(); !read) return Failure(read.error());
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, design::InputKind::kTorque);

@@ -30,13 +30,16 @@ struct DesignOptions {
   std::string model_path;
   bool json = false;                  // one JSON object on stdout instead of text
   std::string input_text = "torque";  // --input, parsed into request.input
-  // As typed; absent: the request's own default (the model's rate, factor × γ_opt, the COM
-  // height, 10 % of the weight). When given, each must be a real value (> 0; height >= 0).
+  // As typed; absent: the request's own default (the model's rate, γ by the rule of the design
+  // push, the COM height, 10 % of the weight, a fifth of the ground-contact tilt). When given,
+  // each must be a real value (> 0; height >= 0; factor > 1).
   std::optional<double> rate_hz;        // --rate
   std::optional<double> gamma;          // --gamma
+  std::optional<double> gamma_factor;   // --gamma-factor
   std::optional<double> push_height_m;  // --push-height-m
   std::optional<double> push_scale_N;   // --push-scale-N
-  design::DesignRequest request;        // the other flags (weights, --gamma-factor)
+  std::optional<double> max_tilt_deg;   // --max-tilt-deg
+  design::DesignRequest request;        // the other flags (the other weights)
   std::string export_c_path;            // --export-c: also write the usable gains as a C header
 };
 

@@ -149,6 +149,64 @@ void WriteController(JsonText& j, const ControllerReport& c) {
   j.Bool("delay_margin_short", c.delay_margin_short());
 }
 
+// The robot's limits, the weights' maxima drawn from them and the design push.
+void WriteLimits(JsonText& j, const DesignSet& d) {
+  const double deg = 180 / std::numbers::pi;
+  j.BeginObject("limits");
+  j.Number("ground_contact_tilt_deg", d.limits.ground_contact.smallest_rad() * deg);
+  j.Number("ground_contact_forward_deg", d.limits.ground_contact.forward_rad * deg);
+  j.Number("ground_contact_backward_deg", d.limits.ground_contact.backward_rad * deg);
+  j.Number("input_limit", d.limits.input_limit);
+  j.Number("current_limit_A", d.limits.current_limit_A);
+  j.EndObject();
+  j.BeginObject("weights");
+  j.Number("max_tilt_deg", d.request.weights.max_tilt_deg);
+  j.Number("max_input_fraction", d.request.weights.max_input_fraction);
+  j.Number("max_input", d.request.weights.max_input_fraction * d.limits.input_limit);
+  j.EndObject();
+  j.BeginObject("design_push");
+  j.Number("impulse_Ns", d.design_push.impulse_Ns);
+  j.Number("duration_s", d.design_push.duration_s);
+  j.Number("peak_N", d.design_push.peak_N());
+  j.Number("height_m", d.plant.push_height_m);
+  j.EndObject();
+}
+
+const char* SourceName(design::GammaSource source) {
+  switch (source) {
+    case design::GammaSource::kRule:
+      return "rule";
+    case design::GammaSource::kFactor:
+      return "factor";
+    case design::GammaSource::kGiven:
+      return "given";
+  }
+  return "rule";
+}
+
+// Where γ came from and the trade-off over γ (the LQR row's factor and γ are null: infinite).
+void WriteGammaChoice(JsonText& j, const design::HinfReport& h) {
+  const double deg = 180 / std::numbers::pi;
+  j.Number("gamma_factor", h.gamma_opt > 0 ? h.gamma / h.gamma_opt : NAN);
+  j.String("gamma_source", SourceName(h.source));
+  if (h.source == design::GammaSource::kRule) j.Bool("gamma_limits_met", h.choice.limits_met);
+  j.BeginArray("gamma_table");
+  for (const design::GammaPoint& p : h.trade_off) {
+    j.BeginObject();
+    j.Number("gamma_factor", p.factor);
+    j.Number("gamma", p.gamma);
+    j.Bool("lqr", std::isinf(p.factor));
+    j.Bool("ok", p.ok);
+    j.Number("gain_norm", p.ok ? p.gain_norm : NAN);
+    j.Number("push_norm", p.ok ? p.push_norm : NAN);
+    j.Number("push_peak_tilt_deg", p.ok ? p.peaks.tilt_rad * deg : NAN);
+    j.Number("push_peak_current_A", p.ok ? p.peaks.current_A : NAN);
+    j.Bool("within_limits", p.within_limits);
+    j.EndObject();
+  }
+  j.EndArray();
+}
+
 std::string Json(const model::RobotModel& model, const DesignSet& d) {
   JsonText j;
   j.BeginObject();
@@ -168,6 +226,7 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   j.Number("equilibrium_pitch_rad", d.plant.equilibrium_pitch_rad);
   WriteMatrix(j, "Q", d.performance.Q);
   WriteMatrix(j, "R", d.performance.R);
+  WriteLimits(j, d);
 
   j.BeginObject("lqr");
   WriteController(j, d.lqr);
@@ -183,6 +242,7 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   j.Number("gamma_discrete", d.hinf.gamma_discrete);
   j.Number("gamma_opt_discrete", d.hinf.gamma_opt_discrete);
   j.Number("norm_discrete", d.hinf.norm_discrete);
+  WriteGammaChoice(j, d.hinf);
   j.EndObject();
 
   j.BeginObject("lqg");
@@ -333,7 +393,86 @@ void PrintDelayAware(const design::DelayAwareLqrReport& r, double latency_s) {
   }
 }
 
-void PrintText(const model::RobotModel& model, const DesignSet& d) {
+// The robot's limits, the weights' maxima drawn from them, and the design push.
+void PrintLimits(const DesignSet& d, bool tilt_given) {
+  const double deg = 180 / std::numbers::pi;
+  const design::GroundContactTilt& contact = d.limits.ground_contact;
+  const bool torque = d.plant.input == design::InputKind::kTorque;
+  const char* unit = torque ? "N·m" : "V";
+  std::printf(
+      "limits: the chassis outline meets the ground at %s deg of tilt (forward %s, back %s); "
+      "%s %s %s per wheel; current limit %s A\n",
+      Figure(contact.smallest_rad() * deg).c_str(), Figure(contact.forward_rad * deg).c_str(),
+      Figure(contact.backward_rad * deg).c_str(), torque ? "stall torque" : "supply",
+      Figure(d.limits.input_limit).c_str(), unit, Figure(d.limits.current_limit_A).c_str());
+  const design::DesignWeights& w = d.request.weights;
+  const std::string tilt_why = tilt_given ? "as given" : "a fifth of the ground-contact tilt";
+  std::printf("weights: max tilt %s deg (%s), max input %s %s (%s of the %s)\n",
+              Figure(w.max_tilt_deg).c_str(), tilt_why.c_str(),
+              Figure(w.max_input_fraction * d.limits.input_limit).c_str(), unit,
+              Figure(w.max_input_fraction).c_str(), torque ? "stall torque" : "supply");
+  std::printf(
+      "design push: %s N·s at %s m above the axle, a %s s half-sine peaking at %s N (the push "
+      "scale for 1 s, over two fall time constants)\n",
+      Figure(d.design_push.impulse_Ns).c_str(), SignificantText(d.plant.push_height_m, 3).c_str(),
+      Figure(d.design_push.duration_s).c_str(), Figure(d.design_push.peak_N()).c_str());
+}
+
+// How γ was chosen, the hinf module's discrete design, and the trade-off table over γ / γ_opt of
+// that design.
+void PrintGamma(const DesignSet& d, double rate_hz) {
+  const design::HinfReport& h = d.hinf;
+  if (!(h.gamma_opt > 0)) return;
+  const double deg = 180 / std::numbers::pi;
+  std::string why;
+  switch (h.source) {
+    case design::GammaSource::kGiven:
+      why = "as given (--gamma)";
+      break;
+    case design::GammaSource::kFactor:
+      why = "as given (--gamma-factor)";
+      break;
+    case design::GammaSource::kRule:
+      why = h.choice.limits_met
+                ? "the smallest factor whose design at the module's rate keeps the design push "
+                  "within the ground-contact tilt and the current limit on the linear model"
+                : "NO factor up to " + Figure(design::kGammaFactorHighest) +
+                      " keeps the design push within the ground-contact tilt and the current "
+                      "limit on the linear model at the module's rate; the highest is used";
+      break;
+  }
+  if (h.gamma > 0) {
+    std::printf("gamma %s = %s x gamma_opt %s: %s\n", SignificantText(h.gamma, 5).c_str(),
+                SignificantText(h.gamma / h.gamma_opt, 3).c_str(),
+                SignificantText(h.gamma_opt, 5).c_str(), why.c_str());
+  }
+  if (h.gamma_opt_discrete > 0 && h.gamma_discrete > 0) {
+    std::printf(
+        "the hinf module's design, discrete at %s Hz: gamma %s = %s x its gamma_opt %s, "
+        "sampled push norm %s\n",
+        SignificantText(rate_hz, 6).c_str(), SignificantText(h.gamma_discrete, 5).c_str(),
+        SignificantText(h.gamma_discrete / h.gamma_opt_discrete, 3).c_str(),
+        SignificantText(h.gamma_opt_discrete, 5).c_str(), Figure(h.norm_discrete).c_str());
+  }
+  if (h.trade_off.empty()) return;
+  std::printf(
+      "gamma trade-off of the module's design at %s Hz, the design push on the sampled loop:\n",
+      SignificantText(rate_hz, 6).c_str());
+  std::printf("  %15s %10s %10s %16s %17s  %s\n", "gamma/gamma_opt", "||K||", "push norm",
+              "peak tilt (deg)", "peak current (A)", "within limits");
+  for (const design::GammaPoint& p : h.trade_off) {
+    const std::string factor = std::isinf(p.factor) ? "inf (LQR)" : Figure(p.factor);
+    if (!p.ok) {
+      std::printf("  %15s %10s\n", factor.c_str(), "not designed");
+      continue;
+    }
+    std::printf("  %15s %10s %10s %16s %17s  %s\n", factor.c_str(), Figure(p.gain_norm).c_str(),
+                Figure(p.push_norm).c_str(), Figure(p.peaks.tilt_rad * deg).c_str(),
+                Figure(p.peaks.current_A).c_str(), p.within_limits ? "yes" : "no");
+  }
+}
+
+void PrintText(const model::RobotModel& model, const DesignSet& d, bool tilt_given) {
   const design::LinearModel& p = d.plant;
   std::printf("robot '%s': linearised about upright (%s input, controllers at %s Hz)\n",
               model.name.c_str(),
@@ -349,25 +488,13 @@ void PrintText(const model::RobotModel& model, const DesignSet& d) {
   std::printf("performance: push of %s N at %s m above the axle → z = [Q½ x; R½ u]\n",
               Figure(d.performance.push_scale_N).c_str(),
               SignificantText(p.push_height_m, 3).c_str());
+  PrintLimits(d, tilt_given);
   const double latency_s = model.sensors.latency_s;
   const double rate_hz = d.request.rate_hz;
   const auto controllers = Controllers(d);
   PrintController(controllers[0].title, d.lqr, latency_s, rate_hz);
   PrintController(controllers[1].title, d.hinf, latency_s, rate_hz);
-  if (d.hinf.gamma_opt > 0) {
-    std::printf("gamma %s = %s x gamma_opt %s\n", SignificantText(d.hinf.gamma, 5).c_str(),
-                SignificantText(d.hinf.gamma / d.hinf.gamma_opt, 3).c_str(),
-                SignificantText(d.hinf.gamma_opt, 5).c_str());
-  }
-  if (d.hinf.gamma_opt_discrete > 0) {
-    std::printf(
-        "the hinf module's design, discrete at %s Hz: gamma %s = %s x its gamma_opt %s, "
-        "sampled push norm %s\n",
-        SignificantText(rate_hz, 6).c_str(), SignificantText(d.hinf.gamma_discrete, 5).c_str(),
-        SignificantText(d.hinf.gamma_discrete / d.hinf.gamma_opt_discrete, 3).c_str(),
-        SignificantText(d.hinf.gamma_opt_discrete, 5).c_str(),
-        Figure(d.hinf.norm_discrete).c_str());
-  }
+  PrintGamma(d, rate_hz);
   PrintController(controllers[2].title, d.lqg, latency_s, rate_hz);
   const double nyquist_1_s = std::numbers::pi * d.request.rate_hz;
   if (d.lqg.ok && d.lqg.estimator_fastest_1_s > nyquist_1_s) {
@@ -437,9 +564,23 @@ Result<design::DesignRequest> ResolveFlags(const DesignOptions& o) {
   }
   if (o.gamma) {
     if (!(*o.gamma > 0) || !std::isfinite(*o.gamma)) {
-      return refuse("--gamma", *o.gamma, "> 0 (leave it out for --gamma-factor x gamma_opt)");
+      return refuse("--gamma", *o.gamma, "> 0 (leave it out for the rule of the design push)");
     }
     request.gamma = *o.gamma;
+  }
+  if (o.gamma_factor) {
+    if (!(*o.gamma_factor > 1) || !std::isfinite(*o.gamma_factor)) {
+      return refuse("--gamma-factor", *o.gamma_factor,
+                    "> 1 (leave it out for the rule of the design push)");
+    }
+    request.gamma_factor = *o.gamma_factor;
+  }
+  if (o.max_tilt_deg) {
+    if (!(*o.max_tilt_deg > 0) || !std::isfinite(*o.max_tilt_deg)) {
+      return refuse("--max-tilt-deg", *o.max_tilt_deg,
+                    "> 0 (leave it out for a fifth of the ground-contact tilt)");
+    }
+    request.weights.max_tilt_deg = *o.max_tilt_deg;
   }
   if (o.push_height_m) {
     if (!(*o.push_height_m >= 0) || !std::isfinite(*o.push_height_m)) {
@@ -508,7 +649,7 @@ int RunDesign(const DesignOptions& options) {
   if (options.json) {
     std::cout << Json(*loaded, set);
   } else {
-    PrintText(*loaded, set);
+    PrintText(*loaded, set, options.max_tilt_deg.has_value());
   }
   std::cout.flush();
   std::fflush(stdout);

@@ -55,9 +55,10 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   AddOptionalNumber(cmd, "--rate", &o->rate_hz,
                     "Controller sample rate, Hz, > 0 (default: the model's control rate_hz)");
   AddOptionalNumber(cmd, "--gamma", &o->gamma,
-                    "H-infinity gamma, > 0 (default: --gamma-factor x gamma_opt)");
-  cmd->add_option("--gamma-factor", r.gamma_factor, "gamma as a multiple of gamma_opt")
-      ->capture_default_str();
+                    "H-infinity gamma, > 0 (default: the smallest gamma whose design push stays "
+                    "within the ground-contact tilt and the current limit)");
+  AddOptionalNumber(cmd, "--gamma-factor", &o->gamma_factor,
+                    "gamma as a multiple of gamma_opt, > 1 (default: by the rule, as --gamma)");
   cmd->add_option("--input", o->input_text, "Design input: torque or voltage")
       ->check(CLI::IsMember({"torque", "voltage"}))
       ->capture_default_str();
@@ -69,8 +70,8 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
       ->capture_default_str();
   cmd->add_option("--max-speed-m-s", w.max_speed_m_s, "Weight: acceptable speed error")
       ->capture_default_str();
-  cmd->add_option("--max-tilt-deg", w.max_tilt_deg, "Weight: acceptable tilt")
-      ->capture_default_str();
+  AddOptionalNumber(cmd, "--max-tilt-deg", &o->max_tilt_deg,
+                    "Weight: acceptable tilt, > 0 (default: a fifth of the ground-contact tilt)");
   cmd->add_option("--max-tilt-rate-deg-s", w.max_tilt_rate_deg_s, "Weight: acceptable tilt rate")
       ->capture_default_str();
   cmd->add_option("--max-yaw-deg", w.max_yaw_deg, "Weight: acceptable heading error")

@@ -290,6 +290,43 @@ TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
   EXPECT_TRUE(IsMatrix(At(hinf, "K_discrete"), 2, 6)) << At(hinf, "K_discrete").dump();
   EXPECT_GT(NumberAt(hinf, "gamma_discrete"), NumberAt(hinf, "gamma_opt_discrete"));
   EXPECT_LT(NumberAt(hinf, "norm_discrete"), NumberAt(hinf, "gamma_discrete"));
+  EXPECT_NEAR(NumberAt(hinf, "gamma_factor"), NumberAt(hinf, "gamma") / NumberAt(hinf, "gamma_opt"),
+              1e-12);
+  // The discrete design at the module's rate sits at the same factor of its own γ_opt.
+  EXPECT_NEAR(NumberAt(hinf, "gamma_discrete") / NumberAt(hinf, "gamma_opt_discrete"),
+              NumberAt(hinf, "gamma_factor"), 1e-12);
+  EXPECT_EQ(StringAt(hinf, "gamma_source"), "rule");
+  EXPECT_TRUE(BoolAt(hinf, "gamma_limits_met"));
+  const Json& table = At(hinf, "gamma_table");
+  ASSERT_TRUE(table.is_array());
+  ASSERT_EQ(table.size(), 8u);
+  for (const Json& row : table) {
+    const bool lqr = BoolAt(row, "lqr");
+    EXPECT_EQ(At(row, "gamma_factor").is_null(), lqr) << row.dump();  // infinite: null
+    EXPECT_EQ(At(row, "gamma").is_null(), lqr) << row.dump();
+    EXPECT_TRUE(BoolAt(row, "ok")) << row.dump();
+    for (const char* figure :
+         {"gain_norm", "push_norm", "push_peak_tilt_deg", "push_peak_current_A"}) {
+      EXPECT_GT(NumberAt(row, figure), 0) << figure;
+    }
+    BoolAt(row, "within_limits");
+  }
+  EXPECT_TRUE(BoolAt(table.back(), "lqr"));
+  const Json& limits = At(json, "limits");
+  for (const char* figure : {"ground_contact_tilt_deg", "ground_contact_forward_deg",
+                             "ground_contact_backward_deg", "input_limit", "current_limit_A"}) {
+    EXPECT_GT(NumberAt(limits, figure), 0) << figure;
+  }
+  const Json& weights = At(json, "weights");
+  EXPECT_NEAR(NumberAt(weights, "max_tilt_deg"), 0.2 * NumberAt(limits, "ground_contact_tilt_deg"),
+              1e-12);
+  EXPECT_NEAR(NumberAt(weights, "max_input"),
+              NumberAt(weights, "max_input_fraction") * NumberAt(limits, "input_limit"), 1e-12);
+  const Json& push = At(json, "design_push");
+  EXPECT_NEAR(NumberAt(push, "impulse_Ns"), NumberAt(json, "push_scale_N") * 1.0, 1e-12);
+  EXPECT_NEAR(NumberAt(push, "duration_s"), 2 / NumberAt(json, "fall_rate_1_s"), 1e-12);
+  EXPECT_GT(NumberAt(push, "peak_N"), 0);
+  EXPECT_EQ(NumberAt(push, "height_m"), NumberAt(json, "push_height_m"));
   EXPECT_GT(NumberAt(At(json, "lqg"), "estimator_fastest_1_s"), 0);
   const Json& aware = At(json, "lqr_delay_aware");
   EXPECT_TRUE(BoolAt(aware, "ok"));
@@ -300,6 +337,46 @@ TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
   ExpectSampled(At(aware, "sampled"));
   EXPECT_EQ(r.output.front(), '{');
   EXPECT_EQ(r.output.back(), '\n');
+}
+
+TEST(Cli, DesignPrintsTheRobotsLimitsAndTheGammaTradeOff) {
+  // The rule's γ sits between the table's rows: every row below it (by more than the rule's 1 %
+  // resolution) lets the design push past a limit, every row above it keeps within them (the
+  // peaks fall as γ grows).
+  for (const char* name : {"courier.xml", "tabletop.xml"}) {
+    const Result text = RunUpright("design " + Models() + name);
+    EXPECT_EQ(text.exit_code, 0) << text.output;
+    for (const char* part :
+         {"limits: the chassis outline meets the ground at ", "weights: max tilt ",
+          "(a fifth of the ground-contact tilt), max input ", "(0.3 of the stall torque)",
+          "design push: ", "gamma/gamma_opt", "inf (LQR)",
+          "the smallest factor whose design at the module's rate keeps the design push within "
+          "the ground-contact tilt and the current limit on the linear model",
+          "gamma trade-off of the module's design at "}) {
+      EXPECT_NE(text.output.find(part), std::string::npos) << name << ": " << part;
+    }
+    const Json json = DesignJson(Models() + name);
+    const Json& hinf = At(json, "hinf");
+    const double chosen = NumberAt(hinf, "gamma_factor");
+    for (const Json& row : At(hinf, "gamma_table")) {
+      if (BoolAt(row, "lqr") || NumberAt(row, "gamma_factor") >= chosen) {
+        EXPECT_TRUE(BoolAt(row, "within_limits")) << name << ": " << row.dump();
+      } else if (NumberAt(row, "gamma_factor") < chosen / 1.0101) {
+        EXPECT_FALSE(BoolAt(row, "within_limits")) << name << ": " << row.dump();
+      }
+    }
+  }
+  const Result given =
+      RunUpright("design --gamma-factor 1.5 --max-tilt-deg 4 " + Models() + "courier.xml");
+  EXPECT_EQ(given.exit_code, 0) << given.output;
+  EXPECT_NE(given.output.find("x gamma_opt"), std::string::npos) << given.output;
+  EXPECT_NE(given.output.find("as given (--gamma-factor)"), std::string::npos) << given.output;
+  EXPECT_NE(given.output.find("weights: max tilt 4 deg (as given)"), std::string::npos)
+      << given.output;
+  const Json json = DesignJson("--gamma-factor 1.5 " + Models() + "courier.xml");
+  EXPECT_EQ(StringAt(At(json, "hinf"), "gamma_source"), "factor");
+  EXPECT_NEAR(NumberAt(At(json, "hinf"), "gamma_factor"), 1.5, 1e-12);
+  EXPECT_FALSE(At(json, "hinf").contains("gamma_limits_met"));
 }
 
 TEST(Cli, DesignNotesAnEstimatorFasterThanItsSamplingOnlyThen) {
@@ -420,8 +497,9 @@ TEST(Cli, DesignRejectsBadWeightsAsBadInput) {
 }
 
 TEST(Cli, DesignRefusesARateOfZeroByItsFlag) {
-  for (const char* args : {"--rate 0", "--rate -50", "--gamma 0", "--push-scale-N 0",
-                           "--push-height-m -0.1", "--gamma-factor 1"}) {
+  for (const char* args :
+       {"--rate 0", "--rate -50", "--gamma 0", "--push-scale-N 0", "--push-height-m -0.1",
+        "--gamma-factor 1", "--gamma-factor 0", "--max-tilt-deg 0"}) {
     const Result r = RunUpright(std::string("design ") + args + " " + Models() + "courier.xml");
     EXPECT_EQ(r.exit_code, 2) << args << "\n" << r.output;
     const std::string flag = std::string(args).substr(0, std::string(args).find(' '));

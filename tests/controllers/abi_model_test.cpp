@@ -1,9 +1,11 @@
 // The robot as a built-in module reads it from the C ABI: fields appended within version 1 (the
-// IMU resolutions) are read only when the host's struct reaches them, and checked when it does.
+// IMU resolutions, the chassis outline) are read only when the host's struct reaches them, and
+// checked when it does.
 #include "kit/abi_model.hpp"
 
 #include <gtest/gtest.h>
 
+#include <cmath>
 #include <cstddef>
 #include <string>
 
@@ -29,6 +31,11 @@ upright_robot ValidRobot() {
   r.encoder_counts_per_rev = 4096;
   r.gyro_resolution_rad_s = 1e-3;
   r.accel_resolution_m_s2 = 2e-3;
+  r.outline_front_m = 0.2;
+  r.outline_rear_m = -0.1;
+  r.outline_bottom_m = -0.05;
+  r.outline_top_m = 0.5;
+  r.outline_width_m = 0.3;
   return r;
 }
 
@@ -57,6 +64,39 @@ TEST(AbiModel, AStructFromBeforeTheResolutionsLeavesThemZeroAndUnchecked) {
   EXPECT_EQ(m.sensors.gyro_resolution_rad_s, 0);
   EXPECT_EQ(m.sensors.accel_resolution_m_s2, 0);
   EXPECT_EQ(CheckError(r), "");
+}
+
+TEST(AbiModel, ReadsTheOutlineWhenTheStructCarriesIt) {
+  const model::RobotModel m = RobotFromAbi(ValidRobot(), 200);
+  EXPECT_EQ(m.chassis.outline_front_m, 0.2);
+  EXPECT_EQ(m.chassis.outline_rear_m, -0.1);
+  EXPECT_EQ(m.chassis.outline_bottom_m, -0.05);
+  EXPECT_EQ(m.chassis.outline_top_m, 0.5);
+  EXPECT_EQ(m.chassis.outline_width_m, 0.3);
+  EXPECT_TRUE(HasOutline(m));
+}
+
+TEST(AbiModel, AStructFromBeforeTheOutlineLeavesItUnknownAndUnchecked) {
+  // A host built after the resolutions but before the outline: whatever lies past
+  // accel_resolution_m_s2 (here a box turned inside out) is not the module's to read.
+  upright_robot r = ValidRobot();
+  r.struct_size = offsetof(upright_robot, accel_resolution_m_s2) + sizeof(double);
+  r.outline_front_m = -1;
+  const model::RobotModel m = RobotFromAbi(r, 200);
+  EXPECT_FALSE(HasOutline(m));
+  EXPECT_EQ(m.sensors.accel_resolution_m_s2, 2e-3);
+  EXPECT_EQ(CheckError(r), "");
+}
+
+TEST(AbiModel, AnOutlineTurnedInsideOutIsRefused) {
+  upright_robot r = ValidRobot();
+  r.outline_top_m = -0.1;
+  EXPECT_EQ(CheckError(r),
+            "robot outline front_m = 0.2, rear_m = -0.1, bottom_m = -0.05, top_m = -0.1, width_m "
+            "= 0.3: must be finite, with front_m > rear_m, top_m > bottom_m and width_m > 0");
+  r = ValidRobot();
+  r.outline_width_m = NAN;
+  EXPECT_NE(CheckError(r), "");
 }
 
 TEST(AbiModel, ANegativeOrNonFiniteResolutionIsRefusedByName) {

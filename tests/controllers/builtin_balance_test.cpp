@@ -65,8 +65,9 @@ TEST(LatencyCompensation, LqrBalancesBothRobotsWithItToo) {
 }
 
 TEST(SpeedReference, LqrBringsTheCourierToHalfAMetrePerSecondWithinFiveSeconds) {
-  // The reference ramps at g tan(3°) = 0.51 m/s² (the default max_accel_m_s2), so it reaches
-  // 0.5 m/s after about 1 s; the speed then settles as the position error the ramp left closes.
+  // The reference ramps at g tan(2.23°) = 0.38 m/s² (the default max_accel_m_s2, at the courier's
+  // acceptable tilt), so it reaches 0.5 m/s after about 1.3 s; the speed then settles as the
+  // position error the ramp left closes.
   RunSettings settings;
   settings.duration_s = 5;
   settings.reference.forward_speed_m_s = 0.5;

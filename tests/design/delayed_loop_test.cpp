@@ -104,8 +104,11 @@ class DelayedLoopTest : public ::testing::TestWithParam<const char*> {
   model::RobotModel model_ = Demo(GetParam());
   LinearModel plant_ = Linearise(model_, InputKind::kTorque);
   double period_s_ = 1 / model_.control_rate_hz;
-  StateMatrix Q_ = StateWeight(DesignWeights{});
-  Eigen::Matrix2d R_ = InputWeight(DesignWeights{}, model_, InputKind::kTorque);
+  // The weights `upright design` uses for the robot.
+  DesignWeights weights_ =
+      WeightsForRobot(DesignWeights{}, model_, plant_.equilibrium_pitch_rad).value();
+  StateMatrix Q_ = StateWeight(weights_);
+  Eigen::Matrix2d R_ = InputWeight(weights_, model_, InputKind::kTorque);
 };
 
 TEST_P(DelayedLoopTest, WithoutLatencyThePolesAreThePlainSampledLoops) {

@@ -28,6 +28,11 @@ bool HasResolutions(const upright_robot& r) {
   return r.struct_size >= offsetof(upright_robot, accel_resolution_m_s2) + sizeof(double);
 }
 
+// Whether it reaches the chassis outline, added after them.
+bool HasOutline(const upright_robot& r) {
+  return r.struct_size >= offsetof(upright_robot, outline_width_m) + sizeof(double);
+}
+
 template <std::size_t N>
 bool AllFinite(const double (&values)[N]) {
   return std::all_of(values, values + N, [](double v) { return std::isfinite(v); });
@@ -83,6 +88,19 @@ Result<void, ModuleError> CheckAbiModel(const upright_robot& r, const upright_li
       }
     }
   }
+  if (HasOutline(r)) {
+    const double outline[] = {r.outline_front_m, r.outline_rear_m, r.outline_bottom_m,
+                              r.outline_top_m, r.outline_width_m};
+    if (!AllFinite(outline) || !(r.outline_front_m > r.outline_rear_m) ||
+        !(r.outline_top_m > r.outline_bottom_m) || !(r.outline_width_m > 0)) {
+      std::ostringstream why;
+      why << "robot outline front_m = " << r.outline_front_m << ", rear_m = " << r.outline_rear_m
+          << ", bottom_m = " << r.outline_bottom_m << ", top_m = " << r.outline_top_m
+          << ", width_m = " << r.outline_width_m
+          << ": must be finite, with front_m > rear_m, top_m > bottom_m and width_m > 0";
+      return Failure(ModuleError{UPRIGHT_UNSUPPORTED, why.str()});
+    }
+  }
   if (!AllFinite(l.A_torque) || !AllFinite(l.B_torque) || !AllFinite(l.A_voltage) ||
       !AllFinite(l.B_voltage) || !AllFinite(l.E)) {
     return Failure(ModuleError{UPRIGHT_UNSUPPORTED, "the linear model has a non-finite entry"});
@@ -127,6 +145,13 @@ model::RobotModel RobotFromAbi(const upright_robot& r, double control_rate_hz) {
     m.sensors.gyro_resolution_rad_s = r.gyro_resolution_rad_s;
     m.sensors.accel_resolution_m_s2 = r.accel_resolution_m_s2;
   }
+  if (HasOutline(r)) {
+    m.chassis.outline_front_m = r.outline_front_m;
+    m.chassis.outline_rear_m = r.outline_rear_m;
+    m.chassis.outline_bottom_m = r.outline_bottom_m;
+    m.chassis.outline_top_m = r.outline_top_m;
+    m.chassis.outline_width_m = r.outline_width_m;
+  }
   return m;
 }
 
@@ -150,6 +175,10 @@ design::LinearModel LinearFromAbi(const upright_linear_model& l, const upright_r
   static_assert(kStates == UPRIGHT_STATES && kInputs == UPRIGHT_INPUTS &&
                 design::kDisturbances == UPRIGHT_DISTURBANCES);
   return m;
+}
+
+bool HasOutline(const model::RobotModel& robot) {
+  return robot.chassis.outline_front_m > robot.chassis.outline_rear_m;
 }
 
 double TotalMass(const upright_robot& r) {

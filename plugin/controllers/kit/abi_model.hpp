@@ -16,10 +16,11 @@ Result<void, ModuleError> CheckAbiModel(const upright_robot& robot,
                                         const upright_linear_model& linear);
 
 // The robot as the design functions read it. Fields the ABI does not carry stay at their
-// defaults (zero): the chassis outline, wheel width, diameter inertia and rolling resistance,
-// motor friction, sensor biases, payload size and travel; none of the designs used here reads
-// them. The IMU resolutions come when the host's struct carries them (else zero: readings
-// without quantisation, which only LineariseSensors would have used).
+// defaults (zero): wheel width, diameter inertia and rolling resistance, motor friction, sensor
+// biases, payload size and travel; none of the designs used here reads them. The IMU resolutions
+// and the chassis outline come when the host's struct carries them (else zero: readings without
+// quantisation, which only LineariseSensors would have used; an outline with front = rear, from
+// which no default tilt can be drawn: HasOutline).
 model::RobotModel RobotFromAbi(const upright_robot& robot, double control_rate_hz);
 
 // The linear model for `input` (A_torque, B_torque or A_voltage, B_voltage), with E, the push
@@ -28,6 +29,9 @@ model::RobotModel RobotFromAbi(const upright_robot& robot, double control_rate_h
 // stay zero: only the mass is used, by the filter's default noise).
 design::LinearModel LinearFromAbi(const upright_linear_model& linear, const upright_robot& robot,
                                   design::InputKind input);
+
+// Whether `robot` (from RobotFromAbi) carries a chassis outline (front_m > rear_m).
+bool HasOutline(const model::RobotModel& robot);
 
 // Chassis, both wheels and the payload, kg.
 double TotalMass(const upright_robot& robot);

@@ -7,6 +7,8 @@
 #include <numbers>
 #include <utility>
 
+#include "kit/abi_model.hpp"
+#include "upright/design/robot_limits.hpp"
 #include "upright/model/conventions.hpp"
 
 namespace upright::controllers {
@@ -119,13 +121,13 @@ Result<void, ModuleError> ConfigReader::Finish() const {
   return {};
 }
 
-CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
+CommonConfig ReadCommonConfig(ConfigReader* reader, const ModuleContext& context,
                               bool voltage_allowed) {
   CommonConfig c;
   int state = 0;
   reader->Choice("state", {"estimated", "true"}, &state);
   c.state = state == 1 ? StateChoice::kTrue : StateChoice::kEstimated;
-  if (c.state == StateChoice::kTrue && !true_state_available) {
+  if (c.state == StateChoice::kTrue && !context.true_state_available) {
     reader->Refuse(
         "state = true: the host offers no true state (allow it in the scenario, or use "
         "state = estimated)");
@@ -144,6 +146,17 @@ CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
   reader->Number("max_yaw_deg", NumberRule::kPositive, &w.max_yaw_deg);
   reader->Number("max_yaw_rate_deg_s", NumberRule::kPositive, &w.max_yaw_rate_deg_s);
   reader->Number("max_input_fraction", NumberRule::kFraction, &w.max_input_fraction);
+  if (w.max_tilt_deg == 0 && !HasOutline(context.robot)) {
+    reader->Refuse(
+        "max_tilt_deg: the host's robot carries no chassis outline to take the default from (a "
+        "host older than the outline fields); give max_tilt_deg");
+  } else if (Result<design::DesignWeights> resolved = design::WeightsForRobot(
+                 w, context.robot, context.linear_abi.equilibrium_pitch_rad);
+             resolved) {
+    w = *resolved;
+  } else {
+    reader->Refuse(resolved.error());
+  }
   reader->Number("tilt_filter_s", NumberRule::kPositive, &c.tilt_filter_s);
   reader->Number("bias_filter_s", NumberRule::kPositive, &c.bias_filter_s);
   c.max_accel_m_s2 = model::kStandardGravity_m_s2 *

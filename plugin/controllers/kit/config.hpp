@@ -54,7 +54,8 @@ enum class StateChoice {
 struct CommonConfig {
   StateChoice state = StateChoice::kEstimated;           // `state` = estimated | true
   design::InputKind input = design::InputKind::kTorque;  // `input` = torque | voltage
-  design::DesignWeights weights;  // max_drift_m, max_speed_m_s, max_tilt_deg, ... (weights.hpp)
+  // max_drift_m, max_speed_m_s, max_tilt_deg, ... (weights.hpp), resolved for the robot.
+  design::DesignWeights weights;
   // `tilt_filter_s`: the tilt filter's time constant τ (tilt_filter.hpp), how long the gyro alone
   // carries the pitch; 0.5 s is common practice for balancing robots (slow enough to average out
   // accelerations the encoders do not explain).
@@ -68,10 +69,13 @@ struct CommonConfig {
   double max_accel_m_s2 = 0;
 };
 
-// Reads the common keys. `true_state_available` comes from the host: `state = true` without it
-// is a bad configuration. `voltage_allowed` false: `input = voltage` is one too. Problems go to
-// the reader, for its Finish().
-CommonConfig ReadCommonConfig(ConfigReader* reader, bool true_state_available,
+// Reads the common keys. `state = true` without the host's true state
+// (context.true_state_available) is a bad configuration; so is `input = voltage` when
+// `voltage_allowed` is false. Weights not given are left to the robot (design::WeightsForRobot:
+// the acceptable tilt from context.robot's outline), and a robot that cannot give them (a host
+// whose robot struct stops before the outline) is refused unless the key is given. Problems go
+// to the reader, for its Finish().
+CommonConfig ReadCommonConfig(ConfigReader* reader, const ModuleContext& context,
                               bool voltage_allowed);
 
 }  // namespace upright::controllers

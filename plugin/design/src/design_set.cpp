@@ -60,6 +60,28 @@ void DesignDelayAwareLqr(DelayAwareLqrReport* report, const LinearModel& plant,
   NoteSampledWithLatency(report, plant, SampledLaw{*gain, report->memory}, period_s, latency_s);
 }
 
+// The γ / γ_opt the H-infinity designs sit at: the factor asked for, or the rule's (ChooseGamma
+// on the discrete design at period_s, the hinf module's); 0 when a γ is asked for instead. The
+// report notes which, and the rule's choice.
+Result<double> PickFactor(const DesignRequest& req, const LinearModel& plant,
+                          const Performance& perf, const model::RobotModel& model, double period_s,
+                          HinfReport* report) {
+  if (req.gamma > 0) {
+    report->source = GammaSource::kGiven;
+    return 0.0;
+  }
+  if (req.gamma_factor > 0) {
+    report->source = GammaSource::kFactor;
+    return req.gamma_factor;
+  }
+  report->source = GammaSource::kRule;
+  const Result<GammaChoice> choice =
+      ChooseGamma(plant, perf, report->gamma_opt_discrete, model, period_s);
+  if (!choice) return Failure(choice.error());
+  report->choice = *choice;
+  return choice->factor;
+}
+
 }  // namespace
 
 const char* ToString(DesignStatus status) {
@@ -88,10 +110,11 @@ Status DesignRequest::Validate() const {
   if (!(rate_hz >= 0) || !std::isfinite(rate_hz)) {
     why << "DesignRequest::rate_hz = " << rate_hz << ", must be > 0 (or 0 for the model's)";
   } else if (!(gamma >= 0) || !std::isfinite(gamma)) {
-    why << "DesignRequest::gamma = " << gamma << ", must be > 0 (or 0 for " << gamma_factor
-        << " x gamma_opt)";
-  } else if (!(gamma_factor > 1) || !std::isfinite(gamma_factor)) {
-    why << "DesignRequest::gamma_factor = " << gamma_factor << ", must be > 1";
+    why << "DesignRequest::gamma = " << gamma << ", must be > 0 (or 0 for gamma_factor x "
+        << "gamma_opt)";
+  } else if (!(gamma_factor == 0 || gamma_factor > 1) || !std::isfinite(gamma_factor)) {
+    why << "DesignRequest::gamma_factor = " << gamma_factor
+        << ", must be > 1 (or 0 for the rule of the design push)";
   } else if (!(push_scale_N >= 0) || !std::isfinite(push_scale_N)) {
     why << "DesignRequest::push_scale_N = " << push_scale_N << ", must be >= 0";
   } else if (!std::isfinite(push_height_m)) {
@@ -113,6 +136,21 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
   if (req.push_scale_N == 0) {
     req.push_scale_N = 0.1 * model.total_mass_kg() * model::kStandardGravity_m_s2;
   }
+  set.limits = RobotLimits{GroundContact(model, plant.equilibrium_pitch_rad),
+                           InputLimit(model, req.input), model.motor.current_limit_A};
+  set.design_push = DesignPushFor(plant, req.push_scale_N);
+  if (Result<DesignWeights> resolved =
+          WeightsForRobot(req.weights, model, plant.equilibrium_pitch_rad);
+      resolved) {
+    req.weights = *resolved;
+  } else {
+    for (ControllerReport* report :
+         {&set.lqr, static_cast<ControllerReport*>(&set.hinf),
+          static_cast<ControllerReport*>(&set.lqg), static_cast<ControllerReport*>(&set.pid)}) {
+      report->message = resolved.error();
+    }
+    return set;
+  }
   const double period_s = 1 / req.rate_hz;
   const double latency_s = model.sensors.latency_s;
   Performance& perf = set.performance;
@@ -133,8 +171,9 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
     set.lqr.message = lqr ? lqr_d.error().message : lqr.error().message;
   }
 
-  // H-infinity state feedback at γ = factor × γ_opt, or the γ asked for: the continuous design,
-  // and the discrete one at the sample rate that the hinf module runs, each with its own γ_opt.
+  // H-infinity state feedback: the continuous design, and the discrete one at the sample rate that
+  // the hinf module runs, each with its own γ_opt, both at the same γ / γ_opt (the rule's on the
+  // discrete design, or the factor asked for), or both at the γ asked for.
   const Result<GammaSearch, SolveError> search =
       RobotOptimalGamma(plant, perf.Q, perf.R, perf.push_scale_N);
   const Result<GammaSearch, SolveError> search_discrete =
@@ -146,10 +185,17 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
   } else {
     set.hinf.gamma_opt = search->gamma_opt;
     set.hinf.gamma_opt_discrete = search_discrete->gamma_opt;
-    if (req.gamma == 0) req.gamma = req.gamma_factor * search->gamma_opt;
-    set.hinf.gamma = req.gamma;
-    set.hinf.gamma_discrete =
-        request.gamma == 0 ? req.gamma_factor * search_discrete->gamma_opt : request.gamma;
+    set.hinf.trade_off = GammaTradeOff(plant, perf, search_discrete->gamma_opt, model, period_s);
+    const Result<double> factor = PickFactor(req, plant, perf, model, period_s, &set.hinf);
+    if (!factor) set.hinf.message = "H-infinity: " + factor.error();
+    if (factor && req.gamma == 0) req.gamma = *factor * search->gamma_opt;
+    if (factor) set.hinf.gamma = req.gamma;
+    if (factor) {
+      set.hinf.gamma_discrete =
+          request.gamma == 0 ? *factor * search_discrete->gamma_opt : request.gamma;
+    }
+  }
+  if (search && search_discrete && set.hinf.gamma > 0) {
     const Result<Eigen::MatrixXd, SolveError> hinf =
         RobotHinf(plant, perf.Q, perf.R, perf.push_scale_N, req.gamma);
     const Result<Eigen::MatrixXd, SolveError> hinf_d = RobotDiscreteHinf(

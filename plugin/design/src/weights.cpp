@@ -5,18 +5,24 @@
 #include <numbers>
 #include <sstream>
 
+#include "upright/model/check.hpp"
 #include "upright/model/conventions.hpp"
 
 namespace upright::design {
 
 Status DesignWeights::Validate() const {
-  const std::pair<const char*, double> positive[] = {
-      {"max_drift_m", max_drift_m},         {"max_speed_m_s", max_speed_m_s},
-      {"max_tilt_deg", max_tilt_deg},       {"max_tilt_rate_deg_s", max_tilt_rate_deg_s},
-      {"max_yaw_deg", max_yaw_deg},         {"max_yaw_rate_deg_s", max_yaw_rate_deg_s}};
+  const std::pair<const char*, double> positive[] = {{"max_drift_m", max_drift_m},
+                                                     {"max_speed_m_s", max_speed_m_s},
+                                                     {"max_tilt_rate_deg_s", max_tilt_rate_deg_s},
+                                                     {"max_yaw_deg", max_yaw_deg},
+                                                     {"max_yaw_rate_deg_s", max_yaw_rate_deg_s}};
   std::ostringstream why;
+  if (!(max_tilt_deg >= 0) || !std::isfinite(max_tilt_deg)) {
+    why << "DesignWeights::max_tilt_deg = " << max_tilt_deg
+        << ", must be > 0 (or 0 for a fifth of the ground-contact tilt)";
+  }
   for (const auto& [name, value] : positive) {
-    if (!(value > 0) || !std::isfinite(value)) {
+    if (why.tellp() == 0 && (!(value > 0) || !std::isfinite(value))) {
       why << "DesignWeights::" << name << " = " << value << ", must be > 0";
       break;
     }
@@ -36,6 +42,8 @@ double InputLimit(const model::RobotModel& model, InputKind input) {
 }
 
 StateMatrix StateWeight(const DesignWeights& w) {
+  UPRIGHT_CHECK(w.max_tilt_deg > 0, "StateWeight: max_tilt_deg = %g, not resolved for the robot",
+                w.max_tilt_deg);
   const double deg = std::numbers::pi / 180;
   StateVector max;
   max << w.max_drift_m, w.max_speed_m_s, w.max_tilt_deg * deg, w.max_tilt_rate_deg_s * deg,

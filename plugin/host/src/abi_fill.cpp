@@ -48,6 +48,11 @@ upright_robot RobotForModule(const model::RobotModel& m) {
   r.payload_z_m = m.payload.present ? m.payload.z_m : 0.0;
   r.gyro_resolution_rad_s = m.sensors.gyro_resolution_rad_s;
   r.accel_resolution_m_s2 = m.sensors.accel_resolution_m_s2;
+  r.outline_front_m = m.chassis.outline_front_m;
+  r.outline_rear_m = m.chassis.outline_rear_m;
+  r.outline_bottom_m = m.chassis.outline_bottom_m;
+  r.outline_top_m = m.chassis.outline_top_m;
+  r.outline_width_m = m.chassis.outline_width_m;
   return r;
 }
 

@@ -82,6 +82,10 @@ typedef struct upright_robot {
   /* Added later in version 1: read them only when struct_size reaches past them
    * (offsetof + sizeof). Quantisation steps of the IMU's readings, 0 for none. */
   double gyro_resolution_rad_s, accel_resolution_m_s2;
+  /* Added later in version 1, read likewise: the chassis outline, the box in the body frame
+   * relative to the axle midpoint whose touching the ground is a fall (front > rear, top >
+   * bottom); the tilt at which it meets the ground follows from it and the wheel radius. */
+  double outline_front_m, outline_rear_m, outline_bottom_m, outline_top_m, outline_width_m;
 } upright_robot;
 
 /* The robot linearised about upright at rest (row-major): x' = A x + B u + E w, with u the wheel

@@ -4,13 +4,17 @@
 #pragma once
 
 #include <string>
+#include <vector>
 
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/delayed_loop.hpp"
+#include "upright/design/design_push.hpp"
 #include "upright/design/discrete_hinf.hpp"
+#include "upright/design/gamma_choice.hpp"
 #include "upright/design/linear_model.hpp"
 #include "upright/design/lqg_filter.hpp"
 #include "upright/design/pid.hpp"
+#include "upright/design/robot_limits.hpp"
 #include "upright/design/sampled_loop.hpp"
 #include "upright/design/synthesis.hpp"
 #include "upright/design/weights.hpp"
@@ -22,12 +26,12 @@ struct DesignRequest {
   InputKind input = InputKind::kTorque;
   double rate_hz = 0;           // controller sample rate; 0 = the model's control rate
   double gamma = 0;             // H-infinity γ; 0 = gamma_factor × γ_opt
-  double gamma_factor = 1.1;    // > 1
+  double gamma_factor = 0;      // > 1; 0 = by the rule of ChooseGamma (gamma_choice.hpp)
   double push_height_m = -1;    // < 0: at the lumped COM height
   double push_scale_N = 0;      // w = 1 means this push; 0 = 10 % of the robot's weight
-  DesignWeights weights;
-  // The first broken rule ("DesignRequest::gamma_factor = 1, must be > 1"); success when there is
-  // none.
+  DesignWeights weights;        // fields left to the robot resolved by WeightsForRobot
+  // The first broken rule ("DesignRequest::gamma_factor = 1, must be > 1 (or 0 ...)"); success
+  // when there is none.
   Status Validate() const;
 };
 
@@ -60,16 +64,30 @@ struct ControllerReport {
   bool delay_margin_short() const { return ok && loop.margins.delay_s < unanalysed_delay_s; }
 };
 
+// Where the H-infinity design's γ came from.
+enum class GammaSource {
+  kRule,    // ChooseGamma: the smallest factor keeping the design push within the robot's limits
+  kFactor,  // DesignRequest::gamma_factor × γ_opt
+  kGiven,   // DesignRequest::gamma
+};
+
 // K and the loop figures are the continuous design's, at gamma; K_discrete, the sampled loop and
-// the *_discrete figures are the hinf module's design at the sample rate (discrete_hinf.hpp).
+// the *_discrete figures are the hinf module's design at the sample rate (discrete_hinf.hpp). Both
+// sit at the same γ / γ_opt, each of its own γ_opt: the rule's factor, the one asked for, or a γ
+// given for both.
 struct HinfReport : ControllerReport {
-  double gamma = 0;      // the continuous design's: gamma_factor × gamma_opt, or the γ asked for
+  double gamma = 0;      // the continuous design's: factor × gamma_opt, or the γ asked for
   double gamma_opt = 0;  // the continuous problem's γ_opt
-  // The discrete design's γ (gamma_factor × gamma_opt_discrete, or the γ asked for), the discrete
+  // The discrete design's γ (factor × gamma_opt_discrete, or the γ asked for), the discrete
   // problem's γ_opt at the sample rate, and the sampled loop's push norm (< gamma_discrete).
   double gamma_discrete = 0;
   double gamma_opt_discrete = 0;
   double norm_discrete = 0;
+  GammaSource source = GammaSource::kRule;
+  GammaChoice choice;  // the rule's, on the discrete design, when source is kRule
+  // The trade-off over γ of the discrete design at the sample rate (GammaTradeOff), empty when a
+  // γ_opt was not found.
+  std::vector<GammaPoint> trade_off;
 };
 
 struct LqgReport : ControllerReport {
@@ -86,6 +104,13 @@ struct PidReport : ControllerReport {
   PidGains gains;
 };
 
+// The robot's limits the defaults and the γ rule draw on.
+struct RobotLimits {
+  GroundContactTilt ground_contact;  // GroundContact at the plant's equilibrium pitch
+  double input_limit = 0;            // InputLimit for the request's input: N·m or V per wheel
+  double current_limit_A = 0;        // the drive's
+};
+
 // The discrete LQR on the delay-augmented model (RobotDelayedLqr), as the lqr module runs it with
 // latency_compensation = true: its gain on the state the sensors report and on the module's own
 // past commands, and its sampled loop with the latency.
@@ -100,7 +125,9 @@ struct DelayAwareLqrReport {
 
 struct DesignSet {
   LinearModel plant;
-  DesignRequest request;  // with defaults resolved (rate, push scale, γ)
+  DesignRequest request;  // with defaults resolved (rate, push scale, weights, γ)
+  RobotLimits limits;
+  DesignPush design_push;  // DesignPushFor(plant, push scale)
   Performance performance;
   ControllerReport lqr;
   HinfReport hinf;
@@ -110,6 +137,8 @@ struct DesignSet {
   bool all_ok() const { return lqr.ok && hinf.ok && lqg.ok && pid.ok; }
 };
 
+// Every design for `model`. Weights the robot cannot resolve (WeightsForRobot) fail every
+// design with that reason.
 DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request);
 
 }  // namespace upright::design
