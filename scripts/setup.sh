@@ -11,6 +11,7 @@ packages=(
   libcli11-dev           # command line
   libexpected-dev        # Result/Status of fallible functions (tl::expected)
   nlohmann-json3-dev     # reading JSON (the manifests the report reads back)
+  libnlopt-cxx-dev       # NLopt: the derivative-free search of `upright tune`
   libgtest-dev           # tests
   libslicot-dev liblapack-dev libblas-dev gfortran   # reference checks of the control solvers
   python3 python3-numpy python3-scipy                # reference checks of the control solvers

@@ -11,6 +11,7 @@
 #include "log.hpp"
 #include "report_command.hpp"
 #include "sweep_command.hpp"
+#include "tune_command.hpp"
 #include "upright/base/result.hpp"
 #include "upright_version.hpp"
 
@@ -228,6 +229,9 @@ int main(int argc, char** argv) {
   upright::cli::EnvelopeCommandOptions envelope;
   auto* envelope_cmd = upright::cli::AddEnvelopeCommand(&app, &envelope);
 
+  upright::cli::TuneCommandOptions tune;
+  auto* tune_cmd = upright::cli::AddTuneCommand(&app, &tune);
+
   std::string report_dir;
   auto* report_cmd = upright::cli::AddReportCommand(&app, &report_dir);
 
@@ -255,6 +259,7 @@ int main(int argc, char** argv) {
   if (demo_cmd->parsed()) return upright::cli::RunDemo(demo);
   if (sweep_cmd->parsed()) return upright::cli::RunSweep(sweep);
   if (envelope_cmd->parsed()) return upright::cli::RunEnvelope(envelope);
+  if (tune_cmd->parsed()) return upright::cli::RunTune(tune);
   if (report_cmd->parsed()) return upright::cli::RunReport(report_dir);
   return upright::cli::kExitBadInput;
 }

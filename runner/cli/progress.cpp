@@ -32,7 +32,7 @@ ProgressLine::ProgressLine(ProgressOptions options)
       start_(std::chrono::steady_clock::now()),
       last_line_(start_) {}
 
-void ProgressLine::Show(std::size_t done, std::size_t all) {
+void ProgressLine::Show(std::size_t done, std::size_t all, const std::string& note) {
   done_ = done;
   const auto now = std::chrono::steady_clock::now();
   const double elapsed = Seconds(now - start_);
@@ -40,8 +40,9 @@ void ProgressLine::Show(std::size_t done, std::size_t all) {
   const double percent = 100.0 * static_cast<double>(done) / static_cast<double>(all);
   if (terminal_) {
     open_ = done != all;
-    std::fprintf(options_.stream, "\r  %zu/%zu runs  %3s %%  elapsed %s  left ~%s   ", done, all,
-                 FixedText(percent, 0).c_str(), Clock(elapsed).c_str(), Clock(eta).c_str());
+    std::fprintf(options_.stream, "\r  %zu/%zu runs%s%s  %3s %%  elapsed %s  left ~%s   ", done,
+                 all, note.empty() ? "" : "  ", note.c_str(), FixedText(percent, 0).c_str(),
+                 Clock(elapsed).c_str(), Clock(eta).c_str());
     if (done == all) std::fputc('\n', options_.stream);
     return;
   }
@@ -49,12 +50,13 @@ void ProgressLine::Show(std::size_t done, std::size_t all) {
   if (open_ && Seconds(now - last_line_) < options_.interval_s) return;
   last_line_ = now;
   if (done == all) {
-    std::fprintf(options_.stream, "%s: %zu/%zu runs, 100 %%, %s elapsed\n", options_.label.c_str(),
-                 done, all, Clock(elapsed).c_str());
+    std::fprintf(options_.stream, "%s: %zu/%zu runs%s%s, 100 %%, %s elapsed\n",
+                 options_.label.c_str(), done, all, note.empty() ? "" : ", ", note.c_str(),
+                 Clock(elapsed).c_str());
   } else {
-    std::fprintf(options_.stream, "%s: %zu/%zu runs, %s %%, %s elapsed, ~%s left\n",
-                 options_.label.c_str(), done, all, FixedText(percent, 0).c_str(),
-                 Clock(elapsed).c_str(), Clock(eta).c_str());
+    std::fprintf(options_.stream, "%s: %zu/%zu runs%s%s, %s %%, %s elapsed, ~%s left\n",
+                 options_.label.c_str(), done, all, note.empty() ? "" : ", ", note.c_str(),
+                 FixedText(percent, 0).c_str(), Clock(elapsed).c_str(), Clock(eta).c_str());
   }
   std::fflush(options_.stream);
 }

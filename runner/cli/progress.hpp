@@ -26,7 +26,8 @@ class ProgressLine {
 
   // Shows `done` of `all` runs: redraws the live line (ended with a newline when done == all),
   // or prints a plain line when the interval has passed since the last one, or done == all.
-  void Show(std::size_t done, std::size_t all);
+  // A `note` not empty ("best 3.21") follows the runs on either line.
+  void Show(std::size_t done, std::size_t all, const std::string& note = "");
 
   // A callback for the runner that calls Show; this line must outlive it.
   runner::ProgressFn Callback();

@@ -1,0 +1,134 @@
+// `upright tune`: scenario files (and optionally a tune file) in; every named controller's knobs
+// searched with a progress line (the best objective so far and the time left); tune.csv and
+// tune.md written and each controller's default and tuned objective printed with its element.
+#include "tune_command.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+#include "commands.hpp"
+#include "load_scenario.hpp"
+#include "log.hpp"
+#include "progress.hpp"
+#include "upright/base/number_text.hpp"
+#include "upright/runner/tune/tune.hpp"
+#include "upright/runner/tune/tune_file.hpp"
+#include "upright/runner/tune/tune_writer.hpp"
+#include "upright_version.hpp"
+
+namespace upright::cli {
+
+CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* o) {
+  auto* cmd = app->add_subcommand(
+      "tune",
+      "Tune each controller's settings on the physics plant: a seeded space-filling start, then "
+      "a derivative-free polish (NLopt), minimising an objective over the scenarios x seeds");
+  cmd->add_option("SCENARIO", o->scenario_paths, "Scenario files (.xml)")->required();
+  cmd->add_option("--controller", o->controllers,
+                  "A controller to tune, by name (repeatable; default: every controller of the "
+                  "first scenario); it must be in every scenario");
+  cmd->add_option("--budget", o->budget_runs,
+                  "Runs per controller: evaluations x (every scenario's seeds), the default "
+                  "setting's evaluation included")
+      ->check(CLI::Range(1, 100000000))
+      ->capture_default_str();
+  cmd->add_option("--seed", o->seed, "Search seed: the same seed tries the same settings")
+      ->capture_default_str();
+  cmd->add_option("--jobs", o->jobs, "Runs in parallel (0: one per core)")
+      ->check(CLI::Range(0, 1024))
+      ->capture_default_str();
+  cmd->add_option("--out", o->out_dir, "Results folder (default: results/<scenario name>-tune)");
+  cmd->add_option("--tune", o->tune_path,
+                  "Tune file (.xml): the knobs per controller and the objective (default: the "
+                  "built-ins' default knobs and the default objective)");
+  cmd->footer(
+      "Default objective: 1 x max_tilt_deg + 10 x max_drift_m (means over the runs); any run "
+      "that does not survive scores 1e6 x (1 + the share of time lost). Default knobs: lqr and "
+      "lqg max_tilt_deg 0.5-15, max_drift_m 0.05-5, max_input_fraction 0.05-1; hinf gamma_factor "
+      "1.05-20, max_drift_m, max_input_fraction; pid max_tilt_deg, tilt_filter_s 0.05-5 (all "
+      "log scale). Tune files: scenarios/README.md, \"Tune files\".");
+  return cmd;
+}
+
+int RunTune(const TuneCommandOptions& options) {
+  std::vector<runner::Scenario> scenarios;
+  for (const std::string& path : options.scenario_paths) {
+    Result<runner::Scenario> loaded = LoadScenarioForRun(path);
+    if (!loaded) {
+      Log().Error(loaded.error());
+      return kExitBadInput;
+    }
+    scenarios.push_back(std::move(*loaded));
+  }
+  runner::TuneSpec spec;
+  if (!options.tune_path.empty()) {
+    Result<runner::TuneSpec> read = runner::ReadTuneFile(options.tune_path);
+    if (!read) {
+      Log().Error(read.error() + "\n" + options.tune_path + ": invalid; nothing was run");
+      return kExitBadInput;
+    }
+    spec = std::move(*read);
+  }
+  runner::TuneOptions tune_options;
+  tune_options.controllers = options.controllers;
+  tune_options.budget_runs = options.budget_runs;
+  tune_options.seed = options.seed;
+  tune_options.jobs = options.jobs;
+  const Result<runner::TunePlan> planned = runner::PlanTune(scenarios, tune_options, spec);
+  if (!planned) {
+    Log().Error(planned.error() + "\n(nothing was run)");
+    return kExitBadInput;
+  }
+  const runner::TunePlan& plan = *planned;
+  if (const Status start = runner::CheckTuneStart(scenarios, plan, tune_options); !start) {
+    Log().Error(start.error() + "\n(nothing was run)");
+    return kExitBadInput;
+  }
+  const std::string out_dir =
+      options.out_dir.empty() ? "results/" + scenarios.front().name + "-tune" : options.out_dir;
+
+  Log().Info(Printf("upright tune: %zu controller(s) on %zu scenario(s); %d evaluations of %zu "
+                    "run(s) each per controller, search seed %llu",
+                    plan.controllers.size(), scenarios.size(), plan.evaluations,
+                    plan.runs_per_evaluation, static_cast<unsigned long long>(options.seed)));
+  Log().Info("  objective: " + plan.objective.Text() +
+             (plan.objective.bounds.empty() ? "" : ", subject to the bounds of " + plan.tune_path));
+  Log().Info(Printf("  at most %zu run(s) into %s", plan.max_runs, out_dir.c_str()));
+  ProgressLine progress_line({.label = "upright tune"});
+  runner::TuneProgressFn progress;
+  if (Log().ShowsProgress()) {
+    progress = [&progress_line](std::size_t done, std::size_t all, double best) {
+      progress_line.Show(done, all,
+                         std::isnan(best) ? "" : "best " + SignificantText(best, 4));
+    };
+  }
+  const runner::TuneResult result =
+      runner::RunTune(scenarios, tune_options, plan, UPRIGHT_VERSION, progress);
+  progress_line.Close();
+  if (const Status written = runner::WriteTuneResults(out_dir, result); !written) {
+    Log().Error(written.error());
+    return kExitFailed;
+  }
+  bool any_failed = false;
+  for (const runner::ControllerTune& tune : result.controllers) {
+    if (!tune.setup_error.empty()) {
+      any_failed = true;
+      Log().Out(LogLevel::kError, "  " + tune.controller + ": not tuned: " + tune.setup_error);
+      continue;
+    }
+    const runner::TuneEvaluation& base = tune.evaluations.front();
+    const runner::TuneEvaluation& best = tune.evaluations[tune.best];
+    Log().Info(Printf("  %s: objective %s (default) -> %s (tuned), %d/%d runs survived; %s",
+                      tune.controller.c_str(), SignificantText(base.score.objective, 6).c_str(),
+                      SignificantText(best.score.objective, 6).c_str(), best.score.survived,
+                      best.score.runs, runner::SettingsText(tune, best.values).c_str()));
+  }
+  Log().Info(Printf("%zu run(s); %s s on %d job(s)", result.runs,
+                    FixedText(result.wall_s, 1).c_str(), result.jobs));
+  Log().Info("tables: " + out_dir + "/tune.md (with each tuned <controller> element), " + out_dir +
+             "/tune.csv");
+  Log().Caution(kCaution);
+  return any_failed ? kExitFailed : kExitOk;
+}
+
+}  // namespace upright::cli

@@ -1,0 +1,145 @@
+#include "upright/runner/tune/tune_writer.hpp"
+
+#include <filesystem>
+#include <initializer_list>
+#include <string_view>
+
+#include "upright/base/number_text.hpp"
+#include "upright/runner/common/atomic_file.hpp"
+#include "upright/runner/common/text_format.hpp"
+#include "upright/runner/tables/make_results_folder.hpp"
+#include "upright/runner/tables/metric_columns.hpp"
+
+namespace upright::runner {
+namespace {
+
+std::string Number(double value) { return SignificantText(value, 6, NanAs::kEmpty); }
+
+// Appends every piece to *out (one append each, no temporaries).
+void Append(std::string* out, std::initializer_list<std::string_view> pieces) {
+  for (const std::string_view piece : pieces) out->append(piece);
+}
+
+// The objective as read: "1 × max_tilt_deg + 10 × max_drift_m", or a fall's score.
+std::string ObjectiveText(const EvaluationScore& score) {
+  if (score.objective >= kFallPenalty) {
+    return SignificantText(score.objective, 6) + " (" + std::to_string(score.runs - score.survived) +
+           " of " + std::to_string(score.runs) + " runs did not survive)";
+  }
+  return SignificantText(score.objective, 6);
+}
+
+std::string Percent(double from, double to) {
+  if (!(from != 0) || from >= kFallPenalty || to >= kFallPenalty) return "";
+  return SignedSignificantText(100 * (to - from) / from, 3) + " %";
+}
+
+}  // namespace
+
+std::string TuneCsv(const TuneResult& result) {
+  std::string csv = "controller,evaluation,stage,settings,objective,feasible,survived,runs";
+  for (const MetricBound& bound : result.plan.objective.bounds) {
+    csv += ",";
+    AppendCsvField(&csv, "worst " + bound.Text());
+  }
+  for (const MetricColumn& column : MetricColumns()) {
+    csv += ",mean_";
+    csv += column.name;
+  }
+  csv += ",failure\n";
+  for (const ControllerTune& tune : result.controllers) {
+    for (std::size_t i = 0; i < tune.evaluations.size(); ++i) {
+      const TuneEvaluation& e = tune.evaluations[i];
+      AppendCsvField(&csv, tune.controller);
+      Append(&csv, {",", std::to_string(i), ",", ToString(e.stage), ","});
+      AppendCsvField(&csv, SettingsText(tune, e.values));
+      Append(&csv, {",", SignificantText(e.score.objective, 9), ",", CsvBool(e.score.feasible()),
+                    ",", std::to_string(e.score.survived), ",", std::to_string(e.score.runs)});
+      for (const double worst : e.score.worst) Append(&csv, {",", Number(worst)});
+      for (const double mean : e.score.mean_metrics) Append(&csv, {",", Number(mean)});
+      csv += ",";
+      AppendCsvField(&csv, e.score.failure);
+      csv += "\n";
+    }
+  }
+  return csv;
+}
+
+std::string TuneMarkdown(const TuneResult& result) {
+  const TunePlan& plan = result.plan;
+  std::string md = "# Tune\n\n";
+  md += "Scenarios:";
+  for (const ScenarioInfo& s : result.scenarios) {
+    md += " " + s.name + " (" + std::to_string(s.seeds.size()) + " seed(s))";
+  }
+  md += ". Objective, lower is better: " + plan.objective.Text() +
+        ", each metric the mean over the runs; a setting where a run does not survive scores " +
+        SignificantText(kFallPenalty, 6) + " × (1 + the share of the runs' time lost).";
+  if (!plan.objective.bounds.empty()) {
+    md += " Subject to (the worst run):";
+    for (const MetricBound& bound : plan.objective.bounds) Append(&md, {" ", bound.Text(), ";"});
+  }
+  md += " Budget: " + std::to_string(plan.evaluations) + " evaluations of " +
+        std::to_string(plan.runs_per_evaluation) + " run(s) per controller, search seed " +
+        std::to_string(result.seed) + (plan.tune_path.empty() ? "" : ", knobs from " + plan.tune_path) +
+        ".\n";
+  for (const ControllerTune& tune : result.controllers) {
+    md += "\n## " + tune.controller + "\n\n";
+    if (!tune.setup_error.empty()) {
+      md += "Not tuned: " + tune.setup_error + "\n";
+      continue;
+    }
+    const TuneEvaluation& base = tune.evaluations.front();
+    const TuneEvaluation& best = tune.evaluations[tune.best];
+    md += "| | objective | survived | feasible |";
+    for (const MetricBound& bound : plan.objective.bounds) md += " worst " + MarkdownCell(bound.Text()) + " |";
+    md += "\n| --- | --- | --- | --- |";
+    for (std::size_t b = 0; b < plan.objective.bounds.size(); ++b) md += " --- |";
+    md += "\n";
+    const auto row = [&](const char* label, const TuneEvaluation& e) {
+      Append(&md, {"| ", label, " | ", MarkdownCell(ObjectiveText(e.score)), " | ",
+                   std::to_string(e.score.survived), "/", std::to_string(e.score.runs), " | ",
+                   e.score.feasible() ? "yes" : "no", " |"});
+      for (const double worst : e.score.worst) {
+        Append(&md, {" ", SignificantText(worst, 6), " |"});
+      }
+      md += "\n";
+    };
+    row("default", base);
+    row("tuned", best);
+    if (tune.best == 0) {
+      md += "\nNo setting searched beat the scenario's own: the tuned setting is the default.\n";
+    } else {
+      const std::string change = Percent(base.score.objective, best.score.objective);
+      md += "\nThe tuned setting is evaluation " + std::to_string(tune.best) + " (" +
+            ToString(best.stage) + " stage)" +
+            (change.empty() ? "" : "; objective " + change + " against the default") + ".\n";
+    }
+    md += "\n| setting | range | scale | default | tuned |\n| --- | --- | --- | --- | --- |\n";
+    for (std::size_t k = 0; k < tune.knobs.size(); ++k) {
+      const Knob& knob = tune.knobs[k];
+      md += "| " + MarkdownCell(knob.setting) + " | " + ShortestText(knob.lo) + " – " +
+            ShortestText(knob.hi) + " | " + ToString(knob.scale) + " | " +
+            (tune.default_text[k].empty() ? "module default" : MarkdownCell(tune.default_text[k])) +
+            " | " +
+            (best.values.empty() ? std::string("as the default") : ShortestText(best.values[k])) +
+            " |\n";
+    }
+    Append(&md, {"\n", std::to_string(tune.evaluations.size()),
+                 " evaluations. Ready to paste into a scenario's <controllers>:\n\n```xml\n",
+                 tune.element, "\n```\n"});
+  }
+  return md;
+}
+
+Status WriteTuneResults(const std::string& dir, const TuneResult& result) {
+  if (Status made = MakeResultsFolder(dir); !made) return made;
+  const std::filesystem::path root(dir);
+  if (Status written = WriteFileAtomically((root / "tune.csv").string(), TuneCsv(result));
+      !written) {
+    return written;
+  }
+  return WriteFileAtomically((root / "tune.md").string(), TuneMarkdown(result));
+}
+
+}  // namespace upright::runner
