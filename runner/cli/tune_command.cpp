@@ -37,6 +37,11 @@ CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* o) {
   cmd->add_option("--jobs", o->jobs, "Runs in parallel (0: one per core)")
       ->check(CLI::Range(0, 1024))
       ->capture_default_str();
+  cmd->add_option("--holdout", o->holdout_seeds,
+                  "Held-out seeds per scenario (the N after its own): the default and the tuned "
+                  "setting played again on seeds the search never saw (0: none)")
+      ->check(CLI::Range(0, 1000))
+      ->capture_default_str();
   cmd->add_option("--out", o->out_dir, "Results folder (default: results/<scenario name>-tune)");
   cmd->add_option("--tune", o->tune_path,
                   "Tune file (.xml): the knobs per controller and the objective (default: the "
@@ -74,6 +79,7 @@ int RunTune(const TuneCommandOptions& options) {
   tune_options.budget_runs = options.budget_runs;
   tune_options.seed = options.seed;
   tune_options.jobs = options.jobs;
+  tune_options.holdout_seeds = options.holdout_seeds;
   const Result<runner::TunePlan> planned = runner::PlanTune(scenarios, tune_options, spec);
   if (!planned) {
     Log().Error(planned.error() + "\n(nothing was run)");
@@ -87,10 +93,12 @@ int RunTune(const TuneCommandOptions& options) {
   const std::string out_dir =
       options.out_dir.empty() ? "results/" + scenarios.front().name + "-tune" : options.out_dir;
 
-  Log().Info(Printf("upright tune: %zu controller(s) on %zu scenario(s); %d evaluations of %zu "
-                    "run(s) each per controller, search seed %llu",
-                    plan.controllers.size(), scenarios.size(), plan.evaluations,
-                    plan.runs_per_evaluation, static_cast<unsigned long long>(options.seed)));
+  Log().Info(
+      Printf("upright tune: %zu controller(s) on %zu scenario(s); %d evaluations of %zu "
+             "run(s) each per controller, search seed %llu; %zu held-out run(s) each for the "
+             "default and the tuned setting",
+             plan.controllers.size(), scenarios.size(), plan.evaluations, plan.runs_per_evaluation,
+             static_cast<unsigned long long>(options.seed), plan.holdout_runs));
   Log().Info("  objective: " + plan.objective.Text() +
              (plan.objective.bounds.empty() ? "" : ", subject to the bounds of " + plan.tune_path));
   Log().Info(Printf("  at most %zu run(s) into %s", plan.max_runs, out_dir.c_str()));
@@ -98,8 +106,7 @@ int RunTune(const TuneCommandOptions& options) {
   runner::TuneProgressFn progress;
   if (Log().ShowsProgress()) {
     progress = [&progress_line](std::size_t done, std::size_t all, double best) {
-      progress_line.Show(done, all,
-                         std::isnan(best) ? "" : "best " + SignificantText(best, 4));
+      progress_line.Show(done, all, std::isnan(best) ? "" : "best " + SignificantText(best, 4));
     };
   }
   const runner::TuneResult result =
@@ -122,6 +129,12 @@ int RunTune(const TuneCommandOptions& options) {
                       tune.controller.c_str(), SignificantText(base.score.objective, 6).c_str(),
                       SignificantText(best.score.objective, 6).c_str(), best.score.survived,
                       best.score.runs, runner::SettingsText(tune, best.values).c_str()));
+    if (tune.held_out.size() == 2) {
+      Log().Info(Printf("    on held-out seeds: %s (default) -> %s (tuned), %d/%d runs survived",
+                        SignificantText(tune.held_out[0].score.objective, 6).c_str(),
+                        SignificantText(tune.held_out[1].score.objective, 6).c_str(),
+                        tune.held_out[1].score.survived, tune.held_out[1].score.runs));
+    }
   }
   Log().Info(Printf("%zu run(s); %s s on %d job(s)", result.runs,
                     FixedText(result.wall_s, 1).c_str(), result.jobs));

@@ -15,6 +15,7 @@ struct TuneCommandOptions {
   int budget_runs = 240;                    // --budget: runs per controller
   std::uint64_t seed = 1;                   // --seed: the search's start
   int jobs = 0;                             // --jobs: runs in parallel; 0: one per core
+  int holdout_seeds = 3;                    // --holdout: held-out seeds per scenario
   std::string out_dir;                      // --out; "": results/<first scenario name>-tune
   std::string tune_path;                    // --tune: a tune file; "": the default knobs
 };

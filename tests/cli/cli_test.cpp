@@ -848,4 +848,69 @@ TEST(Cli, DemoRunsTheWholeSuiteIntoResultsDemo) {
   EXPECT_GE(CountFiles(out / "traces"), 4 * scenarios);
 }
 
+// A one-controller shove of the courier, 2 s on one seed, for the tune tests.
+std::string TuneScenario() {
+  return WriteTemp("tune-shove.xml", R"(<scenario name="tune-shove" schema="1" duration_s="2">
+  <description>Test: a parked courier shoved once.</description>
+  <robot file=")" + Models() + R"(courier.xml"/>
+  <timeline>
+    <push at_s="0.5" shape="half-sine" peak_N="160" duration_s="0.3" height_m="0.45"/>
+  </timeline>
+  <controllers><controller name="lqr" builtin="lqr"/></controllers>
+  <seeds list="1"/>
+</scenario>
+)");
+}
+
+TEST(Cli, TuneRefusesABadTuneFileWithItsLineBeforeRunning) {
+  const std::string tune = WriteTemp("bad-tune.xml", R"(<tune schema="1">
+  <controller name="lqr">
+    <knob setting="max_tilt_deg" lo="5" hi="1"/>
+  </controller>
+</tune>
+)");
+  const std::string out = WriteTemp("tune-out-unused", "");
+  std::filesystem::remove(out);
+  const Result r = RunUpright("tune " + TuneScenario() + " --tune " + tune + " --out " + out);
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  EXPECT_NE(r.output.find(tune + ":3: knob max_tilt_deg: lo = 5 must be below hi = 1"),
+            std::string::npos)
+      << r.output;
+  EXPECT_NE(r.output.find("nothing was run"), std::string::npos) << r.output;
+  EXPECT_FALSE(std::filesystem::exists(out));
+}
+
+TEST(Cli, TuneRefusesAnUnknownControllerAndATooSmallBudget) {
+  const Result unknown = RunUpright("tune " + TuneScenario() + " --controller pd");
+  EXPECT_EQ(unknown.exit_code, 2) << unknown.output;
+  EXPECT_NE(unknown.output.find("no controller named pd (its controllers: lqr)"),
+            std::string::npos)
+      << unknown.output;
+  const Result small = RunUpright("tune " + TuneScenario() + " --budget 2");
+  EXPECT_EQ(small.exit_code, 2) << small.output;
+  EXPECT_NE(small.output.find("--budget 2 runs is too small"), std::string::npos)
+      << small.output;
+}
+
+TEST(Cli, TuneWritesItsTablesAndPrintsEachController) {
+  const std::string tune = WriteTemp("tilt-tune.xml", R"(<tune schema="1">
+  <controller name="lqr"><knob setting="max_tilt_deg" lo="1" hi="6"/></controller>
+</tune>
+)");
+  const auto out = std::filesystem::temp_directory_path() /
+                   ("upright_cli_tune_" + std::to_string(getpid()));
+  std::filesystem::remove_all(out);
+  const Result r = RunUpright("tune " + TuneScenario() + " --tune " + tune +
+                              " --budget 5 --holdout 1 --jobs 2 --out " + out.string());
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find("lqr: objective "), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find("on held-out seeds: "), std::string::npos) << r.output;
+  EXPECT_NE(r.output.find(" runs, best "), std::string::npos) << r.output;
+  EXPECT_TRUE(std::filesystem::exists(out / "tune.csv"));
+  std::ifstream md(out / "tune.md");
+  const std::string text((std::istreambuf_iterator<char>(md)), std::istreambuf_iterator<char>());
+  EXPECT_NE(text.find("<controller name=\"lqr\" builtin=\"lqr\""), std::string::npos) << text;
+  std::filesystem::remove_all(out);
+}
+
 }  // namespace

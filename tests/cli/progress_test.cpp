@@ -51,6 +51,21 @@ TEST(ProgressLine, OffATerminalEveryUpdatePrintsAPlainLineWhenTheIntervalIsZero)
   for (const auto& line : lines) EXPECT_EQ(line.find('\r'), std::string::npos) << line;
 }
 
+TEST(ProgressLine, ANoteFollowsTheRuns) {
+  std::FILE* log = std::tmpfile();
+  ASSERT_NE(log, nullptr);
+  {
+    ProgressLine progress({.label = "upright tune", .interval_s = 0, .stream = log});
+    progress.Show(1, 4, "best 17.76");
+    progress.Show(4, 4, "best 16.5");
+  }
+  const std::vector<std::string> lines = Lines(log);
+  std::fclose(log);
+  ASSERT_EQ(lines.size(), 2u);
+  EXPECT_EQ(lines[0].rfind("upright tune: 1/4 runs, best 17.76, 25 %, 0:", 0), 0u) << lines[0];
+  EXPECT_EQ(lines[1].rfind("upright tune: 4/4 runs, best 16.5, 100 %, 0:", 0), 0u) << lines[1];
+}
+
 TEST(ProgressLine, OffATerminalALongIntervalLeavesOnlyTheFinalLine) {
   std::FILE* log = std::tmpfile();
   ASSERT_NE(log, nullptr);

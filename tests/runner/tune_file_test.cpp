@@ -71,8 +71,7 @@ TEST(TuneFile, RefusesEachBrokenRuleAtItsLine) {
       {R"(<controller name="lqr"><knob setting="x" lo="1" hi="2" scale="cubic"/></controller>)",
        "t.xml:2:"},
       {R"(<controller name="lqr"><knob lo="1" hi="2"/></controller>)", "t.xml:2:"},
-      {R"(<controller name="lqr"><knob setting="x" lo="1" hi="2" step="1"/></controller>)",
-       "step"},
+      {R"(<controller name="lqr"><knob setting="x" lo="1" hi="2" step="1"/></controller>)", "step"},
       {R"(<controller name="lqr"/>)", "t.xml:2: controller lqr: no <knob>"},
       {"<controller name=\"lqr\"><knob setting=\"x\" lo=\"1\" hi=\"2\"/></controller>\n"
        "<controller name=\"lqr\"><knob setting=\"x\" lo=\"1\" hi=\"2\"/></controller>",
@@ -126,8 +125,8 @@ TEST(TuneObjective, ScoresSurvivorsByTheWeightedMeans) {
   EXPECT_NEAR(score.objective, 5, 1e-12);
   EXPECT_EQ(score.survived, 2);
   ASSERT_EQ(score.worst.size(), 1u);
-  EXPECT_EQ(score.worst[0], 20);      // the worst run's peak current
-  EXPECT_EQ(score.violation[0], 2);   // 20 − 18
+  EXPECT_EQ(score.worst[0], 20);     // the worst run's peak current
+  EXPECT_EQ(score.violation[0], 2);  // 20 − 18
   EXPECT_FALSE(score.feasible());
 }
 

@@ -1,14 +1,13 @@
 // Tunes end to end on the courier demo robot: the plan's defaults and refusals, the knob ends a
 // module refuses, and a small real tune of the lqr module whose tables are the same on one job and
 // on two, never worse than the default, with an element that pastes back into a scenario.
-#include "upright/runner/tune/tune.hpp"
-
 #include <gtest/gtest.h>
 
 #include <string>
 
 #include "run_test_support.hpp"
 #include "succeeded.hpp"
+#include "upright/runner/tune/tune.hpp"
 #include "upright/runner/tune/tune_writer.hpp"
 
 namespace upright::runner {
@@ -32,7 +31,8 @@ std::string ShoveText(const std::string& controllers, const std::string& seeds =
   </timeline>
   <controllers>)" +
          controllers + R"(</controllers>
-  <seeds list=")" + seeds +
+  <seeds list=")" +
+         seeds +
          R"("/>
 </scenario>)";
 }
@@ -52,9 +52,13 @@ TEST(TunePlan, TakesEveryControllerWithItsDefaultKnobs) {
   EXPECT_EQ(plan->controllers[1].name, "hinf");
   EXPECT_EQ(plan->controllers[1].knobs.front().setting, "gamma_factor");
   EXPECT_EQ(plan->controllers[3].knobs.size(), 2u);  // pid: tilt weight, tilt filter
-  EXPECT_EQ(plan->runs_per_evaluation, 2u);           // one scenario, two seeds
-  EXPECT_EQ(plan->evaluations, 20);                   // ⌊41 / 2⌋
-  EXPECT_EQ(plan->max_runs, 160u);                    // 4 × 20 × 2
+  EXPECT_EQ(plan->runs_per_evaluation, 2u);          // one scenario, two seeds
+  EXPECT_EQ(plan->evaluations, 20);                  // ⌊41 / 2⌋
+  // Three held-out seeds by default, after the scenario's largest.
+  ASSERT_EQ(plan->holdout_seeds.size(), 1u);
+  EXPECT_EQ(plan->holdout_seeds[0], (std::vector<std::uint64_t>{3, 4, 5}));
+  EXPECT_EQ(plan->holdout_runs, 3u);
+  EXPECT_EQ(plan->max_runs, 184u);  // 4 × (20 × 2 + 2 × 3): the default and tuned held out
 }
 
 TEST(TunePlan, RefusesWhatCannotBeTuned) {
@@ -68,8 +72,7 @@ TEST(TunePlan, RefusesWhatCannotBeTuned) {
   EXPECT_TRUE(Contains(FailureOf(PlanTune(scenarios, options, TuneSpec{})),
                        "no controller named mpc (its controllers: lqr, hinf, lqg, pid)"));
   options.controllers = {"lqr", "lqr"};
-  EXPECT_TRUE(
-      Contains(FailureOf(PlanTune(scenarios, options, TuneSpec{})), "lqr is given twice"));
+  EXPECT_TRUE(Contains(FailureOf(PlanTune(scenarios, options, TuneSpec{})), "lqr is given twice"));
   // A tune file naming a controller that is not tuned.
   options.controllers = {"lqr"};
   const Result<TuneSpec> spec = ParseTuneText(R"(<tune schema="1">
@@ -97,8 +100,9 @@ TEST(TunePlan, RefusesKnobEndsTheModuleRefuses) {
   ASSERT_TRUE(Succeeded(plan));
   const std::string why = FailureOf(CheckTuneStart(scenarios, *plan, options));
   // The controller's line in the scenario, the end refused and the module's own reason.
-  EXPECT_TRUE(Contains(why, "test.xml:7: controller lqr: refuses the knobs' upper ends "
-                            "(max_input_fraction = 2)"))
+  EXPECT_TRUE(Contains(why,
+                       "test.xml:7: controller lqr: refuses the knobs' upper ends "
+                       "(max_input_fraction = 2)"))
       << why;
   EXPECT_TRUE(Contains(why, "max_input_fraction")) << why;
 }
@@ -112,7 +116,8 @@ TuneResult SmallTune(int jobs) {
                                               "t.xml");
   EXPECT_TRUE(Succeeded(spec));
   TuneOptions options;
-  options.budget_runs = 8;  // the default and 7 settings of one seed
+  options.budget_runs = 8;    // the default and 7 settings of one seed
+  options.holdout_seeds = 2;  // seeds 2 and 3
   options.jobs = jobs;
   const Result<TunePlan> plan = PlanTune(scenarios, options, *spec);
   EXPECT_TRUE(Succeeded(plan));
@@ -130,7 +135,13 @@ TEST(TuneRun, GivesTheSameTablesOnOneJobAndOnTwo) {
   const ControllerTune& lqr = one.controllers[0];
   EXPECT_TRUE(lqr.setup_error.empty()) << lqr.setup_error;
   EXPECT_LE(lqr.evaluations.size(), 8u);
-  EXPECT_EQ(one.runs, lqr.evaluations.size());  // one run per evaluation
+  // One run per evaluation, and two held-out runs each for the default and the tuned setting.
+  EXPECT_EQ(one.runs, lqr.evaluations.size() + 4);
+  EXPECT_EQ(one.plan.holdout_seeds[0], (std::vector<std::uint64_t>{2, 3}));
+  ASSERT_EQ(lqr.held_out.size(), 2u);
+  EXPECT_EQ(lqr.held_out[0].score.runs, 2);
+  EXPECT_TRUE(lqr.held_out[0].values.empty());  // the default setting
+  EXPECT_EQ(lqr.held_out[1].values, lqr.evaluations[lqr.best].values);
   EXPECT_EQ(lqr.evaluations[0].stage, EvaluationStage::kDefault);
   EXPECT_EQ(lqr.evaluations[1].stage, EvaluationStage::kGlobal);
   // The tuned setting is the best evaluated, the default among them.

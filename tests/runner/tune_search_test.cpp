@@ -8,10 +8,10 @@
 #include <cmath>
 #include <numbers>
 
+#include "succeeded.hpp"
 #include "upright/runner/metrics/metric_recorder.hpp"
 #include "upright/runner/tune/knob.hpp"
 #include "upright/runner/tune/search.hpp"
-#include "succeeded.hpp"
 
 namespace upright::runner {
 namespace {
@@ -123,10 +123,10 @@ TEST(TuneSearch, StopsOnTheActiveConstraint) {
 }
 
 TEST(TuneSearch, RanksMeetingTheBoundsBeforeTheObjective) {
-  EXPECT_TRUE(Better({5, {0}}, {1, {0.1}}));     // met beats missed, whatever the objective
-  EXPECT_TRUE(Better({1, {-1}}, {2, {0}}));      // both met: the lower objective
-  EXPECT_TRUE(Better({9, {0.1}}, {1, {0.2}}));   // both missed: the smaller miss
-  EXPECT_FALSE(Better({1, {}}, {1, {}}));        // a tie keeps the earlier
+  EXPECT_TRUE(Better({5, {0}}, {1, {0.1}}));    // met beats missed, whatever the objective
+  EXPECT_TRUE(Better({1, {-1}}, {2, {0}}));     // both met: the lower objective
+  EXPECT_TRUE(Better({9, {0.1}}, {1, {0.2}}));  // both missed: the smaller miss
+  EXPECT_FALSE(Better({1, {}}, {1, {}}));       // a tie keeps the earlier
 }
 
 TEST(TuneSearch, TheStartIsALatinHypercubeFixedByTheSeed) {

@@ -39,8 +39,8 @@ Status Objective::Validate() const {
   if (terms.empty()) return Failure("the objective has no term (give at least one <term>)");
   for (const ObjectiveTerm& term : terms) {
     if (!Column(term.metric)) {
-      return Failure("term metric = " + term.metric + ": no such metric (metrics: " +
-                     ColumnNames() + ")");
+      return Failure("term metric = " + term.metric +
+                     ": no such metric (metrics: " + ColumnNames() + ")");
     }
     if (!(std::isfinite(term.weight) && term.weight > 0)) {
       return Failure("term " + term.metric + ": weight = " + ShortestText(term.weight) +
@@ -49,8 +49,8 @@ Status Objective::Validate() const {
   }
   for (const MetricBound& bound : bounds) {
     if (!Column(bound.metric)) {
-      return Failure("bound metric = " + bound.metric + ": no such metric (metrics: " +
-                     ColumnNames() + ")");
+      return Failure("bound metric = " + bound.metric +
+                     ": no such metric (metrics: " + ColumnNames() + ")");
     }
     if (!std::isfinite(bound.limit)) {
       return Failure("bound " + bound.metric + ": the limit must be finite");
@@ -116,15 +116,16 @@ EvaluationScore ScoreRuns(const Objective& objective, std::span<const RunResult>
     return columns.size();
   };
   if (score.survived < score.runs || runs.empty()) {
-    score.objective = kFallPenalty * (1 + (runs.empty() ? 1 : lost / static_cast<double>(runs.size())));
+    score.objective =
+        kFallPenalty * (1 + (runs.empty() ? 1 : lost / static_cast<double>(runs.size())));
   } else {
     double sum = 0;
     for (const ObjectiveTerm& term : objective.terms) {
       const std::size_t c = index_of(term.metric);
       // Every run survived; a figure undefined on one of them (a settling time never reached)
       // makes the term undefined.
-      const double mean = c < columns.size() && counts[c] == score.runs ? score.mean_metrics[c]
-                                                                        : kNaN;
+      const double mean =
+          c < columns.size() && counts[c] == score.runs ? score.mean_metrics[c] : kNaN;
       sum += term.weight * mean;
     }
     score.objective = std::isfinite(sum) ? std::min(sum, kFallPenalty) : kFallPenalty;
@@ -144,8 +145,8 @@ EvaluationScore ScoreRuns(const Objective& objective, std::span<const RunResult>
       }
     }
     score.worst.push_back(worst);
-    const double miss = bound.kind == MetricBound::Kind::kAtMost ? worst - bound.limit
-                                                                 : bound.limit - worst;
+    const double miss =
+        bound.kind == MetricBound::Kind::kAtMost ? worst - bound.limit : bound.limit - worst;
     score.violation.push_back(std::isnan(miss) ? kFallPenalty : miss);
   }
   return score;

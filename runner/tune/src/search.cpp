@@ -22,8 +22,7 @@ double Misses(const PointScore& score) {
 // n points of a Latin hypercube in [0, 1]^d: each axis cut into n equal strata, one point per
 // stratum on every axis, strata paired by seeded shuffles and each point placed at random
 // within its cell. The first point drawn is the box's centre when n is 1.
-std::vector<std::vector<double>> LatinHypercube(std::size_t n, std::size_t d,
-                                                std::uint64_t seed) {
+std::vector<std::vector<double>> LatinHypercube(std::size_t n, std::size_t d, std::uint64_t seed) {
   sim::Random random(seed);
   std::vector<std::vector<double>> points(n, std::vector<double>(d, 0.5));
   if (n == 1) return points;
@@ -36,7 +35,8 @@ std::vector<std::vector<double>> LatinHypercube(std::size_t n, std::size_t d,
       std::swap(strata[i], strata[j]);
     }
     for (std::size_t i = 0; i < n; ++i) {
-      points[i][axis] = (static_cast<double>(strata[i]) + random.Uniform()) / static_cast<double>(n);
+      points[i][axis] =
+          (static_cast<double>(strata[i]) + random.Uniform()) / static_cast<double>(n);
     }
   }
   return points;
@@ -131,8 +131,7 @@ SearchResult Search(const SearchOptions& options, const BatchObjective& objectiv
 
   // BOBYQA needs two or more variables in NLopt; COBYLA takes one, and any constraints.
   const bool constrained = options.constraints > 0;
-  const nlopt::algorithm algorithm =
-      constrained || n < 2 ? nlopt::LN_COBYLA : nlopt::LN_BOBYQA;
+  const nlopt::algorithm algorithm = constrained || n < 2 ? nlopt::LN_COBYLA : nlopt::LN_BOBYQA;
   nlopt::opt opt(algorithm, static_cast<unsigned>(n));
   Polish polish{objective, &result, options.evaluations - global, {}, {}, false};
   opt.set_lower_bounds(std::vector<double>(n, 0.0));

@@ -61,12 +61,23 @@ std::string XmlEscaped(const std::string& text) {
   std::string out;
   for (const char c : text) {
     switch (c) {
-      case '&': out += "&amp;"; break;
-      case '<': out += "&lt;"; break;
-      case '>': out += "&gt;"; break;
-      case '"': out += "&quot;"; break;
-      case '\'': out += "&apos;"; break;
-      default: out += c;
+      case '&':
+        out += "&amp;";
+        break;
+      case '<':
+        out += "&lt;";
+        break;
+      case '>':
+        out += "&gt;";
+        break;
+      case '"':
+        out += "&quot;";
+        break;
+      case '\'':
+        out += "&apos;";
+        break;
+      default:
+        out += c;
     }
   }
   return out;
@@ -75,8 +86,7 @@ std::string XmlEscaped(const std::string& text) {
 // `entry` as a scenario file's <controller> element.
 std::string ControllerElement(const ControllerEntry& entry) {
   std::string xml = "<controller name=\"" + XmlEscaped(entry.name) + "\" " +
-                    (entry.builtin ? "builtin" : "file") + "=\"" + XmlEscaped(entry.module) +
-                    "\"";
+                    (entry.builtin ? "builtin" : "file") + "=\"" + XmlEscaped(entry.module) + "\"";
   if (entry.rate_hz > 0) xml += " rate_hz=\"" + ShortestText(entry.rate_hz) + "\"";
   if (entry.true_state) xml += " true_state=\"true\"";
   if (entry.config.empty()) return xml + "/>";
@@ -91,9 +101,14 @@ std::string ControllerElement(const ControllerEntry& entry) {
 
 const char* ToString(EvaluationStage stage) {
   switch (stage) {
-    case EvaluationStage::kDefault: return "default";
-    case EvaluationStage::kGlobal: return "global";
-    case EvaluationStage::kLocal: return "local";
+    case EvaluationStage::kDefault:
+      return "default";
+    case EvaluationStage::kGlobal:
+      return "global";
+    case EvaluationStage::kLocal:
+      return "local";
+    case EvaluationStage::kHeldOut:
+      return "held_out";
   }
   return "?";
 }
@@ -104,6 +119,8 @@ Status TuneOptions::Validate() const {
     why << "TuneOptions::budget_runs = " << budget_runs << ", must be >= 1";
   } else if (jobs < 0) {
     why << "TuneOptions::jobs = " << jobs << ", must be >= 0 (0: one per core)";
+  } else if (holdout_seeds < 0 || holdout_seeds > 1000) {
+    why << "TuneOptions::holdout_seeds = " << holdout_seeds << ", must be in [0, 1000]";
   } else {
     return {};
   }
@@ -144,7 +161,8 @@ Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOpti
           known += (known.empty() ? "" : ", ") + entry.name;
         }
         return Failure(scenario.path + ": no controller named " + name +
-                       " (its controllers: " + known + "); a tuned controller must be in every "
+                       " (its controllers: " + known +
+                       "); a tuned controller must be in every "
                        "scenario");
       }
       controller.entry.push_back(static_cast<std::size_t>(it - scenario.controllers.begin()));
@@ -160,7 +178,8 @@ Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOpti
     if (controller.knobs.empty()) {
       return Failure(Where(first.path, entry.line) + "controller " + name +
                      " is a module file: it has no default knobs; name its settings to tune in "
-                     "a tune file (--tune FILE, <controller name=\"" + name + "\"><knob .../>)");
+                     "a tune file (--tune FILE, <controller name=\"" +
+                     name + "\"><knob .../>)");
     }
     for (const Knob& knob : controller.knobs) {
       if (Status valid = knob.Validate(); !valid) {
@@ -182,8 +201,8 @@ Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOpti
     }
   }
   for (const Scenario& scenario : scenarios) plan.runs_per_evaluation += scenario.seeds.size();
-  plan.evaluations = static_cast<int>(static_cast<std::size_t>(options.budget_runs) /
-                                      plan.runs_per_evaluation);
+  plan.evaluations =
+      static_cast<int>(static_cast<std::size_t>(options.budget_runs) / plan.runs_per_evaluation);
   // The default setting's evaluation and at least two of the search's.
   if (plan.evaluations < 3) {
     return Failure("--budget " + std::to_string(options.budget_runs) +
@@ -193,8 +212,18 @@ Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOpti
                    "setting and two of the search): give --budget " +
                    std::to_string(3 * plan.runs_per_evaluation) + " or more");
   }
-  plan.max_runs = plan.controllers.size() * static_cast<std::size_t>(plan.evaluations) *
-                  plan.runs_per_evaluation;
+  for (const Scenario& scenario : scenarios) {
+    std::vector<std::uint64_t> held_out;
+    const std::uint64_t last = *std::max_element(scenario.seeds.begin(), scenario.seeds.end());
+    for (int i = 1; i <= options.holdout_seeds; ++i) {
+      held_out.push_back(last + static_cast<std::uint64_t>(i));
+    }
+    plan.holdout_runs += held_out.size();
+    plan.holdout_seeds.push_back(std::move(held_out));
+  }
+  plan.max_runs = plan.controllers.size() *
+                  (static_cast<std::size_t>(plan.evaluations) * plan.runs_per_evaluation +
+                   2 * plan.holdout_runs);
   return plan;
 }
 
@@ -219,8 +248,8 @@ Status CheckTuneStart(const std::vector<Scenario>& scenarios, const TunePlan& pl
             settings += (settings.empty() ? "" : ", ") + controller.knobs[k].setting + " = " +
                         ValueText(values[k]);
           }
-          return Failure(where + "refuses the knobs' " + (u == 0 ? "lower" : "upper") +
-                         " ends (" + settings + "): " + start.error() +
+          return Failure(where + "refuses the knobs' " + (u == 0 ? "lower" : "upper") + " ends (" +
+                         settings + "): " + start.error() +
                          (plan.tune_path.empty() ? "" : " (knobs from " + plan.tune_path + ")"));
         }
       }
@@ -244,11 +273,14 @@ namespace {
 // progress count.
 class ControllerTuner {
  public:
-  ControllerTuner(const std::vector<Scenario>& scenarios, const TunePlan& plan,
+  // `seeds`: per scenario, the seeds every evaluation plays.
+  ControllerTuner(const std::vector<Scenario>& scenarios,
+                  std::vector<std::vector<std::uint64_t>> seeds, const TunePlan& plan,
                   const ControllerTunePlan& controller, const LoadedModule* const* modules,
-                  std::size_t jobs, std::size_t* done, std::size_t total,
+                  std::size_t jobs, std::size_t* done, std::size_t* total,
                   const TuneProgressFn& progress)
       : scenarios_(scenarios),
+        seeds_(std::move(seeds)),
         plan_(plan),
         controller_(controller),
         modules_(modules),
@@ -256,13 +288,19 @@ class ControllerTuner {
         done_(done),
         total_(total),
         progress_(progress) {
-    for (const Scenario& scenario : scenarios) {
-      for (const std::uint64_t seed : scenario.seeds) {
-        (void)seed;
-        durations_.push_back(scenario.duration_s);
-      }
+    for (std::size_t s = 0; s < scenarios.size(); ++s) {
+      durations_.insert(durations_.end(), seeds_[s].size(), scenarios[s].duration_s);
     }
   }
+
+  // From here on the progress shows `best` whatever is evaluated.
+  void FreezeBest(double best) {
+    best_ = best;
+    frozen_ = true;
+  }
+
+  // The runs of one evaluation.
+  std::size_t RunsPerEvaluation() const { return durations_.size(); }
 
   // Plays each setting (empty: the scenarios' own) on every scenario and seed, all the runs of
   // the batch in parallel; their scores in order.
@@ -283,7 +321,7 @@ class ControllerTuner {
     std::vector<Task> tasks;
     for (std::size_t p = 0; p < settings.size(); ++p) {
       for (std::size_t s = 0; s < scenarios_.size(); ++s) {
-        for (const std::uint64_t seed : scenarios_[s].seeds) {
+        for (const std::uint64_t seed : seeds_[s]) {
           tasks.push_back({p * scenarios_.size() + s, s, seed});
         }
       }
@@ -299,35 +337,36 @@ class ControllerTuner {
         },
         [&] {
           ++*done_;
-          if (progress_) progress_(*done_, total_, best_);
+          if (progress_) progress_(*done_, *total_, best_);
         });
     std::vector<EvaluationScore> scores;
-    const std::size_t per = plan_.runs_per_evaluation;
+    const std::size_t per = RunsPerEvaluation();
     for (std::size_t p = 0; p < settings.size(); ++p) {
-      scores.push_back(ScoreRuns(plan_.objective,
-                                 std::span<const RunResult>(runs).subspan(p * per, per),
-                                 durations_));
-      if (std::isnan(best_) || scores.back().objective < best_) best_ = scores.back().objective;
+      scores.push_back(ScoreRuns(
+          plan_.objective, std::span<const RunResult>(runs).subspan(p * per, per), durations_));
+      if (!frozen_ && (std::isnan(best_) || scores.back().objective < best_)) {
+        best_ = scores.back().objective;
+      }
     }
     return scores;
   }
 
  private:
   const std::vector<Scenario>& scenarios_;
+  std::vector<std::vector<std::uint64_t>> seeds_;
   const TunePlan& plan_;
   const ControllerTunePlan& controller_;
   const LoadedModule* const* modules_;
   std::size_t jobs_;
   std::size_t* done_;
-  std::size_t total_;
+  std::size_t* total_;
   const TuneProgressFn& progress_;
   std::vector<double> durations_;
   double best_ = kNaN;
+  bool frozen_ = false;
 };
 
-PointScore AsPointScore(const EvaluationScore& score) {
-  return {score.objective, score.violation};
-}
+PointScore AsPointScore(const EvaluationScore& score) { return {score.objective, score.violation}; }
 
 }  // namespace
 
@@ -346,6 +385,11 @@ TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& op
   result.jobs = static_cast<int>(jobs);
   const ModuleSet modules(scenarios, options.module_dirs);
   std::size_t done = 0;
+  std::size_t total = plan.max_runs;  // shrinks by what a controller leaves unused
+  const std::size_t controller_runs =
+      static_cast<std::size_t>(plan.evaluations) * plan.runs_per_evaluation + 2 * plan.holdout_runs;
+  std::vector<std::vector<std::uint64_t>> search_seeds;
+  for (const Scenario& scenario : scenarios) search_seeds.push_back(scenario.seeds);
   for (const ControllerTunePlan& controller : plan.controllers) {
     ControllerTune tune;
     tune.controller = controller.name;
@@ -364,12 +408,12 @@ TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& op
       }
     }
     if (!tune.setup_error.empty()) {
-      done += static_cast<std::size_t>(plan.evaluations) * plan.runs_per_evaluation;
+      total -= controller_runs;
       result.controllers.push_back(std::move(tune));
       continue;
     }
-    ControllerTuner tuner(scenarios, plan, controller, per_scenario.data(), jobs, &done,
-                          plan.max_runs, progress);
+    ControllerTuner tuner(scenarios, search_seeds, plan, controller, per_scenario.data(), jobs,
+                          &done, &total, progress);
     // The default setting first: the yardstick of the tuned one.
     tune.evaluations.push_back(
         {EvaluationStage::kDefault, {}, tuner.Evaluate({std::vector<double>{}}).front()});
@@ -386,18 +430,17 @@ TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& op
       }
       return values;
     };
-    const SearchResult found =
-        Search(search, [&](const std::vector<std::vector<double>>& points) {
-          std::vector<std::vector<double>> settings;
-          for (const auto& point : points) settings.push_back(values_of(point));
-          std::vector<PointScore> scores;
-          const std::vector<EvaluationScore> evaluated = tuner.Evaluate(settings);
-          for (std::size_t i = 0; i < points.size(); ++i) {
-            tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i]});
-            scores.push_back(AsPointScore(evaluated[i]));
-          }
-          return scores;
-        });
+    const SearchResult found = Search(search, [&](const std::vector<std::vector<double>>& points) {
+      std::vector<std::vector<double>> settings;
+      for (const auto& point : points) settings.push_back(values_of(point));
+      std::vector<PointScore> scores;
+      const std::vector<EvaluationScore> evaluated = tuner.Evaluate(settings);
+      for (std::size_t i = 0; i < points.size(); ++i) {
+        tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i]});
+        scores.push_back(AsPointScore(evaluated[i]));
+      }
+      return scores;
+    });
     // The stage of each evaluation as the search recorded it (one evaluation per record).
     for (std::size_t i = 0; i < found.history.size(); ++i) {
       tune.evaluations[i + 1].stage = found.history[i].stage == SearchStage::kGlobal
@@ -415,9 +458,21 @@ TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& op
     tune.element = ControllerElement(
         best_values.empty() ? entry : WithValues(entry, controller.knobs, best_values));
     // Runs the budget planned but the search did not use (a polish that converged early).
-    done += static_cast<std::size_t>(plan.evaluations - static_cast<int>(tune.evaluations.size())) *
-            plan.runs_per_evaluation;
+    total -=
+        static_cast<std::size_t>(plan.evaluations - static_cast<int>(tune.evaluations.size())) *
+        plan.runs_per_evaluation;
     result.runs += tune.evaluations.size() * plan.runs_per_evaluation;
+    if (plan.holdout_runs > 0) {
+      // The default and the tuned setting again, on seeds the search never saw.
+      ControllerTuner held_out(scenarios, plan.holdout_seeds, plan, controller, per_scenario.data(),
+                               jobs, &done, &total, progress);
+      held_out.FreezeBest(tune.evaluations[tune.best].score.objective);
+      const std::vector<EvaluationScore> scores =
+          held_out.Evaluate({std::vector<double>{}, best_values});
+      tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0]});
+      tune.held_out.push_back({EvaluationStage::kHeldOut, best_values, scores[1]});
+      result.runs += 2 * plan.holdout_runs;
+    }
     result.controllers.push_back(std::move(tune));
   }
   result.wall_s =

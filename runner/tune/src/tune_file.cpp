@@ -118,8 +118,7 @@ Result<TuneSpec> Load(model::XmlDocument doc, const std::string& path) {
   TuneSpec spec;
   spec.path = path;
   for (model::XmlElement controller : root.Children("controller")) {
-    const std::optional<std::string> name =
-        controller.String("name", model::Presence::kRequired);
+    const std::optional<std::string> name = controller.String("name", model::Presence::kRequired);
     if (!name) continue;
     if (const auto [first, inserted] = spec.controller_lines.emplace(*name, controller.line());
         !inserted) {

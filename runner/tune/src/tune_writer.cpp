@@ -3,6 +3,8 @@
 #include <filesystem>
 #include <initializer_list>
 #include <string_view>
+#include <utility>
+#include <vector>
 
 #include "upright/base/number_text.hpp"
 #include "upright/runner/common/atomic_file.hpp"
@@ -23,8 +25,9 @@ void Append(std::string* out, std::initializer_list<std::string_view> pieces) {
 // The objective as read: "1 × max_tilt_deg + 10 × max_drift_m", or a fall's score.
 std::string ObjectiveText(const EvaluationScore& score) {
   if (score.objective >= kFallPenalty) {
-    return SignificantText(score.objective, 6) + " (" + std::to_string(score.runs - score.survived) +
-           " of " + std::to_string(score.runs) + " runs did not survive)";
+    return SignificantText(score.objective, 6) + " (" +
+           std::to_string(score.runs - score.survived) + " of " + std::to_string(score.runs) +
+           " runs did not survive)";
   }
   return SignificantText(score.objective, 6);
 }
@@ -48,8 +51,16 @@ std::string TuneCsv(const TuneResult& result) {
   }
   csv += ",failure\n";
   for (const ControllerTune& tune : result.controllers) {
+    // The search's evaluations, then the held-out ones numbered as the setting they replay.
+    std::vector<std::pair<std::size_t, const TuneEvaluation*>> rows;
     for (std::size_t i = 0; i < tune.evaluations.size(); ++i) {
-      const TuneEvaluation& e = tune.evaluations[i];
+      rows.emplace_back(i, &tune.evaluations[i]);
+    }
+    for (std::size_t i = 0; i < tune.held_out.size(); ++i) {
+      rows.emplace_back(i == 0 ? 0 : tune.best, &tune.held_out[i]);
+    }
+    for (const auto& [i, evaluation] : rows) {
+      const TuneEvaluation& e = *evaluation;
       AppendCsvField(&csv, tune.controller);
       Append(&csv, {",", std::to_string(i), ",", ToString(e.stage), ","});
       AppendCsvField(&csv, SettingsText(tune, e.values));
@@ -79,10 +90,20 @@ std::string TuneMarkdown(const TuneResult& result) {
     md += " Subject to (the worst run):";
     for (const MetricBound& bound : plan.objective.bounds) Append(&md, {" ", bound.Text(), ";"});
   }
+  if (plan.holdout_runs > 0) {
+    md += " Held-out seeds, never seen by the search:";
+    for (std::size_t s = 0; s < result.scenarios.size(); ++s) {
+      Append(&md, {" ", result.scenarios[s].name});
+      for (const std::uint64_t seed : plan.holdout_seeds[s]) {
+        Append(&md, {" ", std::to_string(seed)});
+      }
+      md += ";";
+    }
+  }
   md += " Budget: " + std::to_string(plan.evaluations) + " evaluations of " +
         std::to_string(plan.runs_per_evaluation) + " run(s) per controller, search seed " +
-        std::to_string(result.seed) + (plan.tune_path.empty() ? "" : ", knobs from " + plan.tune_path) +
-        ".\n";
+        std::to_string(result.seed) +
+        (plan.tune_path.empty() ? "" : ", knobs from " + plan.tune_path) + ".\n";
   for (const ControllerTune& tune : result.controllers) {
     md += "\n## " + tune.controller + "\n\n";
     if (!tune.setup_error.empty()) {
@@ -92,7 +113,8 @@ std::string TuneMarkdown(const TuneResult& result) {
     const TuneEvaluation& base = tune.evaluations.front();
     const TuneEvaluation& best = tune.evaluations[tune.best];
     md += "| | objective | survived | feasible |";
-    for (const MetricBound& bound : plan.objective.bounds) md += " worst " + MarkdownCell(bound.Text()) + " |";
+    for (const MetricBound& bound : plan.objective.bounds)
+      md += " worst " + MarkdownCell(bound.Text()) + " |";
     md += "\n| --- | --- | --- | --- |";
     for (std::size_t b = 0; b < plan.objective.bounds.size(); ++b) md += " --- |";
     md += "\n";
@@ -107,6 +129,10 @@ std::string TuneMarkdown(const TuneResult& result) {
     };
     row("default", base);
     row("tuned", best);
+    if (tune.held_out.size() == 2) {
+      row("default, held-out seeds", tune.held_out[0]);
+      row("tuned, held-out seeds", tune.held_out[1]);
+    }
     if (tune.best == 0) {
       md += "\nNo setting searched beat the scenario's own: the tuned setting is the default.\n";
     } else {

@@ -25,14 +25,14 @@ using BatchObjective =
     std::function<std::vector<PointScore>(const std::vector<std::vector<double>>& points)>;
 
 struct SearchOptions {
-  std::size_t dimensions = 1;  // n >= 1
+  std::size_t dimensions = 1;   // n >= 1
   std::size_t constraints = 0;  // the number of constraint values every score carries
   int evaluations = 40;         // the budget, >= 2
   // Points of the space-filling start; 0: 40 % of the budget, at least 1 and leaving one for the
   // polish.
   int global_points = 0;
-  std::uint64_t seed = 1;  // the start's points
-  double local_step = 0.1;  // the polish's first step, in units of the box
+  std::uint64_t seed = 1;         // the start's points
+  double local_step = 0.1;        // the polish's first step, in units of the box
   double local_tolerance = 1e-4;  // the polish stops once steps are this small (box units)
   Status Validate() const;
 };

@@ -25,9 +25,13 @@ struct TuneOptions {
   // The controllers to tune, by name; empty: every controller of the first scenario. Each must
   // be in every scenario.
   std::vector<std::string> controllers;
-  int budget_runs = 240;    // runs per controller, the default setting's evaluation included
-  std::uint64_t seed = 1;   // the search's start
-  int jobs = 0;             // worker threads; 0: one per hardware thread
+  int budget_runs = 240;   // runs per controller, the default setting's evaluation included
+  std::uint64_t seed = 1;  // the search's start
+  int jobs = 0;            // worker threads; 0: one per hardware thread
+  // Per scenario, seeds the search never sees (the N after the largest of the scenario's own)
+  // on which the default and the tuned settings are played again once the search is done; 0:
+  // none. Their runs come on top of the budget.
+  int holdout_seeds = 3;
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
   Status Validate() const;
@@ -45,10 +49,13 @@ struct ControllerTunePlan {
 struct TunePlan {
   std::vector<ControllerTunePlan> controllers;
   Objective objective;
-  std::string tune_path;  // "" without a tune file
+  std::string tune_path;                // "" without a tune file
   std::size_t runs_per_evaluation = 0;  // Σ over scenarios of their seeds
-  int evaluations = 0;  // per controller, the default setting's included
-  std::size_t max_runs = 0;  // in all
+  int evaluations = 0;                  // per controller, the default setting's included
+  // Per scenario, the held-out seeds (TuneOptions::holdout_seeds); empty lists without them.
+  std::vector<std::vector<std::uint64_t>> holdout_seeds;
+  std::size_t holdout_runs = 0;  // per held-out evaluation: Σ over scenarios
+  std::size_t max_runs = 0;      // in all, the held-out runs included
 };
 
 // Checks the options, the spec and the scenarios together and fills in the defaults; otherwise
@@ -61,8 +68,8 @@ Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOpti
 Status CheckTuneStart(const std::vector<Scenario>& scenarios, const TunePlan& plan,
                       const TuneOptions& options);
 
-enum class EvaluationStage { kDefault, kGlobal, kLocal };
-const char* ToString(EvaluationStage stage);  // "default", "global", "local"
+enum class EvaluationStage { kDefault, kGlobal, kLocal, kHeldOut };
+const char* ToString(EvaluationStage stage);  // "default", "global", "local", "held_out"
 
 struct TuneEvaluation {
   EvaluationStage stage = EvaluationStage::kDefault;
@@ -78,7 +85,9 @@ struct ControllerTune {
   std::vector<std::string> default_text;
   std::vector<TuneEvaluation> evaluations;  // the default first, then in the order searched
   std::size_t best = 0;                     // index into evaluations (Better, default included)
-  std::string setup_error;                  // the module could not be loaded: nothing searched
+  // With held-out seeds: the default setting and the tuned one played on them (stage kHeldOut).
+  std::vector<TuneEvaluation> held_out;
+  std::string setup_error;  // the module could not be loaded: nothing searched
   // The first scenario's <controller> element with the best setting's values in place.
   std::string element;
 };
