@@ -883,13 +883,11 @@ TEST(Cli, TuneRefusesABadTuneFileWithItsLineBeforeRunning) {
 TEST(Cli, TuneRefusesAnUnknownControllerAndATooSmallBudget) {
   const Result unknown = RunUpright("tune " + TuneScenario() + " --controller pd");
   EXPECT_EQ(unknown.exit_code, 2) << unknown.output;
-  EXPECT_NE(unknown.output.find("no controller named pd (its controllers: lqr)"),
-            std::string::npos)
+  EXPECT_NE(unknown.output.find("no controller named pd (its controllers: lqr)"), std::string::npos)
       << unknown.output;
   const Result small = RunUpright("tune " + TuneScenario() + " --budget 2");
   EXPECT_EQ(small.exit_code, 2) << small.output;
-  EXPECT_NE(small.output.find("--budget 2 runs is too small"), std::string::npos)
-      << small.output;
+  EXPECT_NE(small.output.find("--budget 2 runs is too small"), std::string::npos) << small.output;
 }
 
 TEST(Cli, TuneWritesItsTablesAndPrintsEachController) {
@@ -897,8 +895,8 @@ TEST(Cli, TuneWritesItsTablesAndPrintsEachController) {
   <controller name="lqr"><knob setting="max_tilt_deg" lo="1" hi="6"/></controller>
 </tune>
 )");
-  const auto out = std::filesystem::temp_directory_path() /
-                   ("upright_cli_tune_" + std::to_string(getpid()));
+  const auto out =
+      std::filesystem::temp_directory_path() / ("upright_cli_tune_" + std::to_string(getpid()));
   std::filesystem::remove_all(out);
   const Result r = RunUpright("tune " + TuneScenario() + " --tune " + tune +
                               " --budget 5 --holdout 1 --jobs 2 --out " + out.string());
