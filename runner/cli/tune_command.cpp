@@ -105,8 +105,18 @@ int RunTune(const TuneCommandOptions& options) {
   ProgressLine progress_line({.label = "upright tune"});
   runner::TuneProgressFn progress;
   if (Log().ShowsProgress()) {
-    progress = [&progress_line](std::size_t done, std::size_t all, double best) {
-      progress_line.Show(done, all, std::isnan(best) ? "" : "best " + SignificantText(best, 4));
+    progress = [&progress_line, &plan](std::size_t done, std::size_t all,
+                                       const std::vector<double>& best) {
+      // "best lqr 16.5, pid 16.88": each controller's best objective so far, once it has one.
+      std::string note;
+      for (std::size_t c = 0; c < best.size(); ++c) {
+        if (std::isnan(best[c])) continue;
+        note += note.empty() ? "best " : ", ";
+        note += plan.controllers[c].name;
+        note += ' ';
+        note += SignificantText(best[c], 4);
+      }
+      progress_line.Show(done, all, note);
     };
   }
   const runner::TuneResult result =

@@ -1,6 +1,6 @@
 // Tunes end to end on the courier demo robot: the plan's defaults and refusals, the knob ends a
-// module refuses, and a small real tune of the lqr module whose tables are the same on one job and
-// on two, never worse than the default, with an element that pastes back into a scenario.
+// module refuses, and a small real tune of the lqr and pid modules whose tables are the same on one
+// job and on two, never worse than the default, with an element that pastes back into a scenario.
 #include <gtest/gtest.h>
 
 #include <string>
@@ -107,11 +107,13 @@ TEST(TunePlan, RefusesKnobEndsTheModuleRefuses) {
   EXPECT_TRUE(Contains(why, "max_input_fraction")) << why;
 }
 
+// Two controllers tuned side by side on one knob each (on two jobs, one job each).
 TuneResult SmallTune(int jobs) {
-  const std::vector<Scenario> scenarios = {
-      ScenarioFromText(ShoveText(R"(<controller name="lqr" builtin="lqr"/>)"))};
+  const std::vector<Scenario> scenarios = {ScenarioFromText(ShoveText(
+      R"(<controller name="lqr" builtin="lqr"/><controller name="pid" builtin="pid"/>)"))};
   const Result<TuneSpec> spec = ParseTuneText(R"(<tune schema="1">
   <controller name="lqr"><knob setting="max_tilt_deg" lo="0.5" hi="8"/></controller>
+  <controller name="pid"><knob setting="max_tilt_deg" lo="0.5" hi="8"/></controller>
 </tune>)",
                                               "t.xml");
   EXPECT_TRUE(Succeeded(spec));
@@ -131,12 +133,13 @@ TEST(TuneRun, GivesTheSameTablesOnOneJobAndOnTwo) {
   EXPECT_EQ(two.jobs, 2);
   EXPECT_EQ(TuneCsv(one), TuneCsv(two));
   EXPECT_EQ(TuneMarkdown(one), TuneMarkdown(two));
-  ASSERT_EQ(one.controllers.size(), 1u);
+  ASSERT_EQ(one.controllers.size(), 2u);
+  EXPECT_EQ(one.controllers[1].controller, "pid");
   const ControllerTune& lqr = one.controllers[0];
   EXPECT_TRUE(lqr.setup_error.empty()) << lqr.setup_error;
   EXPECT_LE(lqr.evaluations.size(), 8u);
   // One run per evaluation, and two held-out runs each for the default and the tuned setting.
-  EXPECT_EQ(one.runs, lqr.evaluations.size() + 4);
+  EXPECT_EQ(one.runs, lqr.evaluations.size() + one.controllers[1].evaluations.size() + 8);
   EXPECT_EQ(one.plan.holdout_seeds[0], (std::vector<std::uint64_t>{2, 3}));
   ASSERT_EQ(lqr.held_out.size(), 2u);
   EXPECT_EQ(lqr.held_out[0].score.runs, 2);

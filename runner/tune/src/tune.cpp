@@ -4,6 +4,7 @@
 #include <chrono>
 #include <cmath>
 #include <limits>
+#include <mutex>
 #include <sstream>
 #include <utility>
 
@@ -269,35 +270,63 @@ std::string SettingsText(const ControllerTune& controller, const std::vector<dou
 
 namespace {
 
-// One controller's tune: its scenarios cut to it, its module, and the runs it adds to the
-// progress count.
+// The progress of a whole tune, shared by the controllers tuned side by side: runs done, runs
+// still expected (which shrink when a search ends early), and each controller's best objective;
+// the callback is called under its lock.
+class TuneProgress {
+ public:
+  TuneProgress(std::size_t total, std::size_t controllers, const TuneProgressFn& progress)
+      : total_(total), best_(controllers, kNaN), progress_(progress) {}
+
+  void RunDone() {
+    std::lock_guard<std::mutex> lock(mutex_);
+    ++done_;
+    if (progress_) progress_(done_, total_, best_);
+  }
+  // `runs` fewer runs are expected.
+  void Shrink(std::size_t runs) {
+    std::lock_guard<std::mutex> lock(mutex_);
+    total_ -= runs;
+  }
+  // Controller c has scored `objective`.
+  void Offer(std::size_t c, double objective) {
+    std::lock_guard<std::mutex> lock(mutex_);
+    if (std::isnan(best_[c]) || objective < best_[c]) best_[c] = objective;
+  }
+
+ private:
+  std::mutex mutex_;
+  std::size_t done_ = 0;
+  std::size_t total_;
+  std::vector<double> best_;
+  const TuneProgressFn& progress_;
+};
+
+// One controller's evaluations: its scenarios cut to it with a setting in place, played on the
+// seeds given with the runs of a batch in parallel, and scored.
 class ControllerTuner {
  public:
-  // `seeds`: per scenario, the seeds every evaluation plays.
+  // `seeds`: per scenario, the seeds every evaluation plays; `index`: the controller's place in
+  // the plan, for the progress.
   ControllerTuner(const std::vector<Scenario>& scenarios,
                   std::vector<std::vector<std::uint64_t>> seeds, const TunePlan& plan,
-                  const ControllerTunePlan& controller, const LoadedModule* const* modules,
-                  std::size_t jobs, std::size_t* done, std::size_t* total,
-                  const TuneProgressFn& progress)
+                  std::size_t index, const LoadedModule* const* modules, std::size_t jobs,
+                  TuneProgress* progress)
       : scenarios_(scenarios),
         seeds_(std::move(seeds)),
         plan_(plan),
-        controller_(controller),
+        index_(index),
+        controller_(plan.controllers[index]),
         modules_(modules),
         jobs_(jobs),
-        done_(done),
-        total_(total),
         progress_(progress) {
     for (std::size_t s = 0; s < scenarios.size(); ++s) {
       durations_.insert(durations_.end(), seeds_[s].size(), scenarios[s].duration_s);
     }
   }
 
-  // From here on the progress shows `best` whatever is evaluated.
-  void FreezeBest(double best) {
-    best_ = best;
-    frozen_ = true;
-  }
+  // The scores do not count towards the controller's best in the progress (held-out seeds).
+  void KeepOutOfTheBest() { offer_best_ = false; }
 
   // The runs of one evaluation.
   std::size_t RunsPerEvaluation() const { return durations_.size(); }
@@ -335,18 +364,13 @@ class ControllerTuner {
           const Task& t = tasks[i];
           runs[i] = RunOneSafely(cut[t.scenario], 0, t.seed, *modules_[t.module], run_options);
         },
-        [&] {
-          ++*done_;
-          if (progress_) progress_(*done_, *total_, best_);
-        });
+        [&] { progress_->RunDone(); });
     std::vector<EvaluationScore> scores;
     const std::size_t per = RunsPerEvaluation();
     for (std::size_t p = 0; p < settings.size(); ++p) {
       scores.push_back(ScoreRuns(
           plan_.objective, std::span<const RunResult>(runs).subspan(p * per, per), durations_));
-      if (!frozen_ && (std::isnan(best_) || scores.back().objective < best_)) {
-        best_ = scores.back().objective;
-      }
+      if (offer_best_) progress_->Offer(index_, scores.back().objective);
     }
     return scores;
   }
@@ -355,18 +379,105 @@ class ControllerTuner {
   const std::vector<Scenario>& scenarios_;
   std::vector<std::vector<std::uint64_t>> seeds_;
   const TunePlan& plan_;
+  std::size_t index_;
   const ControllerTunePlan& controller_;
   const LoadedModule* const* modules_;
   std::size_t jobs_;
-  std::size_t* done_;
-  std::size_t* total_;
-  const TuneProgressFn& progress_;
+  TuneProgress* progress_;
   std::vector<double> durations_;
-  double best_ = kNaN;
-  bool frozen_ = false;
+  bool offer_best_ = true;
 };
 
 PointScore AsPointScore(const EvaluationScore& score) { return {score.objective, score.violation}; }
+
+// Controller `index` of the plan tuned: its default setting, the search, the held-out replays.
+ControllerTune TuneController(const std::vector<Scenario>& scenarios, const TuneOptions& options,
+                              const TunePlan& plan, std::size_t index, const ModuleSet& modules,
+                              std::size_t jobs, TuneProgress* progress) {
+  const ControllerTunePlan& controller = plan.controllers[index];
+  ControllerTune tune;
+  tune.controller = controller.name;
+  tune.knobs = controller.knobs;
+  const ControllerEntry& entry = scenarios.front().controllers[controller.entry.front()];
+  for (const Knob& knob : controller.knobs) {
+    const auto it = std::find_if(entry.config.begin(), entry.config.end(),
+                                 [&](const auto& kv) { return kv.first == knob.setting; });
+    tune.default_text.push_back(it == entry.config.end() ? "" : it->second);
+  }
+  std::vector<const LoadedModule*> per_scenario;
+  for (std::size_t s = 0; s < scenarios.size(); ++s) {
+    per_scenario.push_back(&modules.Get(scenarios[s].controllers[controller.entry[s]]));
+    if (!*per_scenario.back() && tune.setup_error.empty()) {
+      tune.setup_error = per_scenario.back()->error();
+    }
+  }
+  if (!tune.setup_error.empty()) {
+    progress->Shrink(static_cast<std::size_t>(plan.evaluations) * plan.runs_per_evaluation +
+                     2 * plan.holdout_runs);
+    return tune;
+  }
+  std::vector<std::vector<std::uint64_t>> search_seeds;
+  for (const Scenario& scenario : scenarios) search_seeds.push_back(scenario.seeds);
+  ControllerTuner tuner(scenarios, search_seeds, plan, index, per_scenario.data(), jobs, progress);
+  // The default setting first: the yardstick of the tuned one.
+  tune.evaluations.push_back(
+      {EvaluationStage::kDefault, {}, tuner.Evaluate({std::vector<double>{}}).front()});
+
+  SearchOptions search;
+  search.dimensions = controller.knobs.size();
+  search.constraints = plan.objective.bounds.size();
+  search.evaluations = plan.evaluations - 1;
+  search.seed = options.seed;
+  const auto values_of = [&](const std::vector<double>& point) {
+    std::vector<double> values;
+    for (std::size_t k = 0; k < point.size(); ++k) {
+      values.push_back(controller.knobs[k].ValueAt(point[k]));
+    }
+    return values;
+  };
+  const SearchResult found = Search(search, [&](const std::vector<std::vector<double>>& points) {
+    std::vector<std::vector<double>> settings;
+    for (const auto& point : points) settings.push_back(values_of(point));
+    std::vector<PointScore> scores;
+    const std::vector<EvaluationScore> evaluated = tuner.Evaluate(settings);
+    for (std::size_t i = 0; i < points.size(); ++i) {
+      tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i]});
+      scores.push_back(AsPointScore(evaluated[i]));
+    }
+    return scores;
+  });
+  // The stage of each evaluation as the search recorded it (one evaluation per record).
+  for (std::size_t i = 0; i < found.history.size(); ++i) {
+    tune.evaluations[i + 1].stage = found.history[i].stage == SearchStage::kGlobal
+                                        ? EvaluationStage::kGlobal
+                                        : EvaluationStage::kLocal;
+  }
+  tune.best = 0;
+  for (std::size_t i = 1; i < tune.evaluations.size(); ++i) {
+    if (Better(AsPointScore(tune.evaluations[i].score),
+               AsPointScore(tune.evaluations[tune.best].score))) {
+      tune.best = i;
+    }
+  }
+  const std::vector<double>& best_values = tune.evaluations[tune.best].values;
+  tune.element = ControllerElement(
+      best_values.empty() ? entry : WithValues(entry, controller.knobs, best_values));
+  // Runs the budget planned but the search did not use (a polish that converged early).
+  progress->Shrink(
+      static_cast<std::size_t>(plan.evaluations - static_cast<int>(tune.evaluations.size())) *
+      plan.runs_per_evaluation);
+  if (plan.holdout_runs > 0) {
+    // The default and the tuned setting again, on seeds the search never saw.
+    ControllerTuner held_out(scenarios, plan.holdout_seeds, plan, index, per_scenario.data(), jobs,
+                             progress);
+    held_out.KeepOutOfTheBest();
+    const std::vector<EvaluationScore> scores =
+        held_out.Evaluate({std::vector<double>{}, best_values});
+    tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0]});
+    tune.held_out.push_back({EvaluationStage::kHeldOut, best_values, scores[1]});
+  }
+  return tune;
+}
 
 }  // namespace
 
@@ -384,96 +495,23 @@ TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& op
   const std::size_t jobs = JobsWanted(options.jobs);
   result.jobs = static_cast<int>(jobs);
   const ModuleSet modules(scenarios, options.module_dirs);
-  std::size_t done = 0;
-  std::size_t total = plan.max_runs;  // shrinks by what a controller leaves unused
-  const std::size_t controller_runs =
-      static_cast<std::size_t>(plan.evaluations) * plan.runs_per_evaluation + 2 * plan.holdout_runs;
-  std::vector<std::vector<std::uint64_t>> search_seeds;
-  for (const Scenario& scenario : scenarios) search_seeds.push_back(scenario.seeds);
-  for (const ControllerTunePlan& controller : plan.controllers) {
-    ControllerTune tune;
-    tune.controller = controller.name;
-    tune.knobs = controller.knobs;
-    const ControllerEntry& entry = scenarios.front().controllers[controller.entry.front()];
-    for (const Knob& knob : controller.knobs) {
-      const auto it = std::find_if(entry.config.begin(), entry.config.end(),
-                                   [&](const auto& kv) { return kv.first == knob.setting; });
-      tune.default_text.push_back(it == entry.config.end() ? "" : it->second);
-    }
-    std::vector<const LoadedModule*> per_scenario;
-    for (std::size_t s = 0; s < scenarios.size(); ++s) {
-      per_scenario.push_back(&modules.Get(scenarios[s].controllers[controller.entry[s]]));
-      if (!*per_scenario.back() && tune.setup_error.empty()) {
-        tune.setup_error = per_scenario.back()->error();
-      }
-    }
-    if (!tune.setup_error.empty()) {
-      total -= controller_runs;
-      result.controllers.push_back(std::move(tune));
-      continue;
-    }
-    ControllerTuner tuner(scenarios, search_seeds, plan, controller, per_scenario.data(), jobs,
-                          &done, &total, progress);
-    // The default setting first: the yardstick of the tuned one.
-    tune.evaluations.push_back(
-        {EvaluationStage::kDefault, {}, tuner.Evaluate({std::vector<double>{}}).front()});
-
-    SearchOptions search;
-    search.dimensions = controller.knobs.size();
-    search.constraints = plan.objective.bounds.size();
-    search.evaluations = plan.evaluations - 1;
-    search.seed = options.seed;
-    const auto values_of = [&](const std::vector<double>& point) {
-      std::vector<double> values;
-      for (std::size_t k = 0; k < point.size(); ++k) {
-        values.push_back(controller.knobs[k].ValueAt(point[k]));
-      }
-      return values;
-    };
-    const SearchResult found = Search(search, [&](const std::vector<std::vector<double>>& points) {
-      std::vector<std::vector<double>> settings;
-      for (const auto& point : points) settings.push_back(values_of(point));
-      std::vector<PointScore> scores;
-      const std::vector<EvaluationScore> evaluated = tuner.Evaluate(settings);
-      for (std::size_t i = 0; i < points.size(); ++i) {
-        tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i]});
-        scores.push_back(AsPointScore(evaluated[i]));
-      }
-      return scores;
-    });
-    // The stage of each evaluation as the search recorded it (one evaluation per record).
-    for (std::size_t i = 0; i < found.history.size(); ++i) {
-      tune.evaluations[i + 1].stage = found.history[i].stage == SearchStage::kGlobal
-                                          ? EvaluationStage::kGlobal
-                                          : EvaluationStage::kLocal;
-    }
-    tune.best = 0;
-    for (std::size_t i = 1; i < tune.evaluations.size(); ++i) {
-      if (Better(AsPointScore(tune.evaluations[i].score),
-                 AsPointScore(tune.evaluations[tune.best].score))) {
-        tune.best = i;
-      }
-    }
-    const std::vector<double>& best_values = tune.evaluations[tune.best].values;
-    tune.element = ControllerElement(
-        best_values.empty() ? entry : WithValues(entry, controller.knobs, best_values));
-    // Runs the budget planned but the search did not use (a polish that converged early).
-    total -=
-        static_cast<std::size_t>(plan.evaluations - static_cast<int>(tune.evaluations.size())) *
-        plan.runs_per_evaluation;
-    result.runs += tune.evaluations.size() * plan.runs_per_evaluation;
-    if (plan.holdout_runs > 0) {
-      // The default and the tuned setting again, on seeds the search never saw.
-      ControllerTuner held_out(scenarios, plan.holdout_seeds, plan, controller, per_scenario.data(),
-                               jobs, &done, &total, progress);
-      held_out.FreezeBest(tune.evaluations[tune.best].score.objective);
-      const std::vector<EvaluationScore> scores =
-          held_out.Evaluate({std::vector<double>{}, best_values});
-      tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0]});
-      tune.held_out.push_back({EvaluationStage::kHeldOut, best_values, scores[1]});
-      result.runs += 2 * plan.holdout_runs;
-    }
-    result.controllers.push_back(std::move(tune));
+  // Controllers side by side, each on its share of the jobs: a polish plays one setting at a
+  // time, so one controller alone would leave cores idle. Each controller's result depends on
+  // nothing the others do.
+  const std::size_t n = plan.controllers.size();
+  const std::size_t side_by_side = std::max<std::size_t>(1, std::min(jobs, n));
+  const std::size_t jobs_each = (jobs + side_by_side - 1) / side_by_side;
+  TuneProgress shared(plan.max_runs, n, progress);
+  result.controllers.resize(n);
+  ParallelFor(n, side_by_side,
+              [&](std::size_t c) {
+                result.controllers[c] =
+                    TuneController(scenarios, options, plan, c, modules, jobs_each, &shared);
+              },
+              {});
+  for (const ControllerTune& tune : result.controllers) {
+    if (!tune.setup_error.empty()) continue;
+    result.runs += tune.evaluations.size() * plan.runs_per_evaluation + 2 * plan.holdout_runs;
   }
   result.wall_s =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();

@@ -97,7 +97,7 @@ std::string TuneMarkdown(const TuneResult& result) {
       for (const std::uint64_t seed : plan.holdout_seeds[s]) {
         Append(&md, {" ", std::to_string(seed)});
       }
-      md += ";";
+      md += s + 1 < result.scenarios.size() ? ";" : ".";
     }
   }
   md += " Budget: " + std::to_string(plan.evaluations) + " evaluations of " +

@@ -34,6 +34,7 @@ struct TuneOptions {
   int holdout_seeds = 3;
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
+  // Fine when valid; otherwise the broken rule, naming the field and value.
   Status Validate() const;
 };
 
@@ -103,11 +104,13 @@ struct TuneResult {
   double wall_s = 0;  // the console only; never in a file
 };
 
-// Called after each run with runs done, runs expected and the best objective so far of the
-// controller being tuned (NaN before its first evaluation), one call at a time.
-using TuneProgressFn = std::function<void(std::size_t done, std::size_t total, double best)>;
+// Called after each run with runs done, runs expected and each controller's best objective so
+// far, in plan order (NaN before its first evaluation), one call at a time.
+using TuneProgressFn =
+    std::function<void(std::size_t done, std::size_t total, const std::vector<double>& best)>;
 
-// Runs the plan, controller after controller.
+// Runs the plan: the controllers side by side (at most one per job), each on its share of the
+// jobs; each controller's result depends neither on the jobs nor on the other controllers.
 TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& options,
                    const TunePlan& plan, const std::string& tool_version,
                    const TuneProgressFn& progress);
