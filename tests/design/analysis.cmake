@@ -15,3 +15,17 @@ upright_test(upright_slicot_norm_test
 upright_test(upright_simultaneous_margins_test
   SOURCES simultaneous_margins_test.cpp
   LIBS upright::design upright::model)
+
+# The design pictures' curves: loops at the wheel inputs and their frequency responses against
+# closed forms and published examples, and against SciPy through a small program.
+upright_test(upright_loop_response_test
+  SOURCES loop_response_test.cpp
+  LIBS upright::design upright::model)
+add_executable(upright_design_curves_tool design_curves_tool.cpp)
+target_link_libraries(upright_design_curves_tool PRIVATE upright::design upright::model
+                      upright_warnings)
+add_test(NAME upright_scipy_design_curves
+  COMMAND ${UPRIGHT_REFERENCE_PYTHON} ${CMAKE_CURRENT_SOURCE_DIR}/scipy_design_curves_test.py
+          $<TARGET_FILE:upright_design_curves_tool> ${PROJECT_SOURCE_DIR}/models/courier.xml
+          ${PROJECT_SOURCE_DIR}/models/tabletop.xml)
+set_tests_properties(upright_scipy_design_curves PROPERTIES TIMEOUT 300)

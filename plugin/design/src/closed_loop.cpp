@@ -117,6 +117,11 @@ Interconnection Connect(const LoopPlant& plant, const LinearController& ctrl,
   return s;
 }
 
+// A controller with feedthrough on a sensor that feels the input: the loop has no explicit form.
+bool AlgebraicLoop(const Measurement& meas, const LinearController& ctrl) {
+  return ctrl.Dc.size() > 0 && meas.Dy.size() > 0 && (ctrl.Dc * meas.Dy).norm() > 0;
+}
+
 }  // namespace
 
 Measurement FullState() {
@@ -139,7 +144,7 @@ AnalysisResult<LoopAnalysis> AnalyseLoop(const LinearModel& plant, const Measure
   const auto stopped = [&out](std::string why) {
     return Failure(AnalysisFailure<LoopAnalysis>{std::move(why), std::move(out)});
   };
-  if (ctrl.Dc.size() > 0 && meas.Dy.size() > 0 && (ctrl.Dc * meas.Dy).norm() > 0) {
+  if (AlgebraicLoop(meas, ctrl)) {
     return stopped("controller feedthrough on a sensor that feels the input (an algebraic loop)");
   }
   const LoopPlant reduced = Reduce(plant, meas, performance.Q);
@@ -173,6 +178,38 @@ AnalysisResult<LoopAnalysis> AnalyseLoop(const LinearModel& plant, const Measure
   if (!both) return stopped(both.error().message);
   if (!norm) return stopped(norm.error().message);
   return out;
+}
+
+BrokenLoop LoopAtWheels(const LinearModel& plant, const Measurement& meas,
+                        const LinearController& ctrl) {
+  if (AlgebraicLoop(meas, ctrl)) return {};
+  const Interconnection open =
+      Connect(Reduce(plant, meas, StateMatrix::Zero()), ctrl, nullptr, kAllOpen);
+  return BrokenLoop{open.A, open.B, open.C};
+}
+
+StateSpace PushedLoop(const LinearModel& plant, const Measurement& meas,
+                      const LinearController& ctrl) {
+  if (AlgebraicLoop(meas, ctrl)) return {};
+  // Every state kept: Reduce with every state read keeps them all.
+  LoopPlant full =
+      Reduce(plant, {MatrixXd::Identity(kStates, kStates), meas.Dy}, StateMatrix::Zero());
+  full.meas = meas;
+  Performance unit;
+  unit.Q = StateMatrix::Zero();
+  unit.R = Eigen::Matrix2d::Zero();
+  unit.push_scale_N = 1;
+  const Interconnection closed = Connect(full, ctrl, &unit, -1);
+  const int nc = ctrl.states();
+  StateSpace pushed;
+  pushed.A = closed.A;
+  pushed.B = closed.B;
+  pushed.C = MatrixXd::Zero(kStates + kInputs, kStates + nc);
+  pushed.C.topLeftCorner(kStates, kStates).setIdentity();
+  pushed.C.bottomLeftCorner(kInputs, kStates) = ctrl.Dc * meas.Cy;
+  if (nc > 0) pushed.C.bottomRightCorner(kInputs, nc) = ctrl.Cc;
+  pushed.D = MatrixXd::Zero(kStates + kInputs, 1);
+  return pushed;
 }
 
 }  // namespace upright::design

@@ -13,6 +13,8 @@ namespace {
 void Finish(ControllerReport* report, const LinearModel& plant, const Measurement& meas,
             const LinearController& ctrl, const Performance& perf) {
   const AnalysisResult<LoopAnalysis> analysis = AnalyseLoop(plant, meas, ctrl, perf);
+  report->measurement = meas;
+  report->controller = ctrl;
   report->loop = analysis ? *analysis : analysis.error().found;
   report->ok = analysis.has_value();
   report->message = analysis ? "ok" : analysis.error().message;
@@ -38,6 +40,7 @@ void NoteSampledWithLatency(Report* report, const LinearModel& plant, const Samp
     return;
   }
   report->sampled = loop->poles;
+  report->sampled_loop = loop->open;
   if (!(loop->poles.max_abs_z < 1)) return;  // no margins for an unstable loop
   const AnalysisResult<SampledMargins> margins =
       AnalyseSampledMargins(plant, law, period_s, latency_s);

@@ -11,6 +11,7 @@
 
 #include "upright/design/analysis.hpp"
 #include "upright/design/linear_model.hpp"
+#include "upright/design/simultaneous_margins.hpp"
 
 namespace upright::design {
 
@@ -56,5 +57,17 @@ struct LoopAnalysis {
 AnalysisResult<LoopAnalysis> AnalyseLoop(const LinearModel& plant, const Measurement& measurement,
                                          const LinearController& controller,
                                          const Performance& performance);
+
+// The loop broken at both wheel inputs, continuous, as AnalyseLoop's margins read it (the same
+// states left out): L(s) = C (sI − A)⁻¹ B under unit negative feedback. An algebraic loop (see
+// AnalyseLoop) gives an empty loop.
+BrokenLoop LoopAtWheels(const LinearModel& plant, const Measurement& measurement,
+                        const LinearController& controller);
+
+// The closed loop driven by the push force alone (N, along +x at the model's push height), every
+// state kept: states [x; xc], outputs [x; u] (kStates + kInputs rows). An algebraic loop gives an
+// empty system.
+StateSpace PushedLoop(const LinearModel& plant, const Measurement& measurement,
+                      const LinearController& controller);
 
 }  // namespace upright::design

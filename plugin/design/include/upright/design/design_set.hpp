@@ -54,6 +54,12 @@ struct ControllerReport {
   // true state, LQG with its filter); not analysed for PID.
   SampledPoles sampled;
   SampledMargins sampled_margins;
+  // The loops the figures come from, for pictures (loop_response.hpp, push_response.hpp): the
+  // continuous controller and what it measures, and the sampled loop with the latency broken at
+  // the wheel inputs (period 0 when not analysed).
+  Measurement measurement;
+  LinearController controller;
+  BrokenLoop sampled_loop;
   // The delay in the loop the module runs that none of the figures above include: 0 when the
   // sampled loop is analysed (it includes the latency), otherwise the sensors' latency plus half
   // a control period (the hold), s.
@@ -121,6 +127,7 @@ struct DelayAwareLqrReport {
   int memory = 0;     // past commands per wheel the gain reads
   SampledPoles sampled;
   SampledMargins sampled_margins;
+  BrokenLoop sampled_loop;  // broken at the wheel inputs, with the latency
 };
 
 struct DesignSet {
