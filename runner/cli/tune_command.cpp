@@ -86,9 +86,9 @@ int RunTune(const TuneCommandOptions& options) {
     return kExitBadInput;
   }
   const runner::TunePlan& plan = *planned;
-  if (const Status start = runner::CheckTuneStart(scenarios, plan, tune_options); !start) {
-    Log().Error(start.error() + "\n(nothing was run)");
-    return kExitBadInput;
+  if (const auto start = runner::CheckTuneStart(scenarios, plan, tune_options); !start) {
+    Log().Error(start.error().message + "\n(nothing was run)");
+    return start.error().module_missing ? kExitFailed : kExitBadInput;
   }
   const std::string out_dir =
       options.out_dir.empty() ? "results/" + scenarios.front().name + "-tune" : options.out_dir;

@@ -24,8 +24,8 @@ struct TuneCommandOptions {
 CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* options);
 
 // Runs the tune and writes tune.csv and tune.md. Exit 2 on bad input (an invalid scenario or tune
-// file, an unknown controller, a budget too small, knob ends a module refuses; nothing runs), 1
-// when a module will not load or the results cannot be written.
+// file, an unknown controller, a budget too small, knob ends a module refuses), 1 when a module
+// will not load (in both cases nothing runs) or the results cannot be written.
 int RunTune(const TuneCommandOptions& options);
 
 }  // namespace upright::cli

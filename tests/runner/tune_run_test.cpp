@@ -3,6 +3,7 @@
 // job and on two, never worse than the default, with an element that pastes back into a scenario.
 #include <gtest/gtest.h>
 
+#include <fstream>
 #include <string>
 
 #include "run_test_support.hpp"
@@ -98,13 +99,38 @@ TEST(TunePlan, RefusesKnobEndsTheModuleRefuses) {
   options.budget_runs = 10;
   const Result<TunePlan> plan = PlanTune(scenarios, options, *spec);
   ASSERT_TRUE(Succeeded(plan));
-  const std::string why = FailureOf(CheckTuneStart(scenarios, *plan, options));
+  const TuneStartFailure failure = FailureOf(CheckTuneStart(scenarios, *plan, options));
+  EXPECT_FALSE(failure.module_missing);
+  const std::string& why = failure.message;
   // The controller's line in the scenario, the end refused and the module's own reason.
   EXPECT_TRUE(Contains(why,
                        "test.xml:7: controller lqr: refuses the knobs' upper ends "
                        "(max_input_fraction = 2)"))
       << why;
   EXPECT_TRUE(Contains(why, "max_input_fraction")) << why;
+}
+
+TEST(TunePlan, TellsAModuleThatWillNotLoadFromRefusedSettings) {
+  const auto dir = ScratchDir("tune-module");
+  const std::string module = (dir / "not_a_module.so").string();
+  std::ofstream(module) << "not a shared object";
+  const std::vector<Scenario> scenarios = {
+      ScenarioFromText(ShoveText(R"(<controller name="mine" file=")" + module + R"("/>)"))};
+  // A module file has no default knobs.
+  TuneOptions options;
+  options.budget_runs = 10;
+  EXPECT_TRUE(Contains(FailureOf(PlanTune(scenarios, options, TuneSpec{})),
+                       "test.xml:7: controller mine is a module file: it has no default knobs"));
+  const Result<TuneSpec> spec = ParseTuneText(R"(<tune schema="1">
+  <controller name="mine"><knob setting="gain" lo="1" hi="2"/></controller>
+</tune>)",
+                                              "t.xml");
+  ASSERT_TRUE(Succeeded(spec));
+  const Result<TunePlan> plan = PlanTune(scenarios, options, *spec);
+  ASSERT_TRUE(Succeeded(plan));
+  const TuneStartFailure failure = FailureOf(CheckTuneStart(scenarios, *plan, options));
+  EXPECT_TRUE(failure.module_missing);
+  EXPECT_TRUE(Contains(failure.message, "test.xml:7: controller mine: ")) << failure.message;
 }
 
 // Two controllers tuned side by side on one knob each (on two jobs, one job each).

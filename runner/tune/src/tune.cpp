@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <filesystem>
 #include <limits>
 #include <mutex>
 #include <sstream>
@@ -86,8 +87,11 @@ std::string XmlEscaped(const std::string& text) {
 
 // `entry` as a scenario file's <controller> element.
 std::string ControllerElement(const ControllerEntry& entry) {
+  // A module file by its absolute path, so the element reads the same from any scenario folder.
+  const std::string module =
+      entry.builtin ? entry.module : std::filesystem::absolute(entry.module).string();
   std::string xml = "<controller name=\"" + XmlEscaped(entry.name) + "\" " +
-                    (entry.builtin ? "builtin" : "file") + "=\"" + XmlEscaped(entry.module) + "\"";
+                    (entry.builtin ? "builtin" : "file") + "=\"" + XmlEscaped(module) + "\"";
   if (entry.rate_hz > 0) xml += " rate_hz=\"" + ShortestText(entry.rate_hz) + "\"";
   if (entry.true_state) xml += " true_state=\"true\"";
   if (entry.config.empty()) return xml + "/>";
@@ -228,8 +232,8 @@ Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOpti
   return plan;
 }
 
-Status CheckTuneStart(const std::vector<Scenario>& scenarios, const TunePlan& plan,
-                      const TuneOptions& options) {
+Result<void, TuneStartFailure> CheckTuneStart(const std::vector<Scenario>& scenarios,
+                                              const TunePlan& plan, const TuneOptions& options) {
   const ModuleSet modules(scenarios, options.module_dirs);
   for (const ControllerTunePlan& controller : plan.controllers) {
     for (std::size_t s = 0; s < scenarios.size(); ++s) {
@@ -238,7 +242,7 @@ Status CheckTuneStart(const std::vector<Scenario>& scenarios, const TunePlan& pl
       const LoadedModule& module = modules.Get(scenario.controllers[entry]);
       const std::string where = Where(scenario.path, scenario.controllers[entry].line) +
                                 "controller " + controller.name + ": ";
-      if (!module) return Failure(where + module.error());
+      if (!module) return Failure(TuneStartFailure{true, where + module.error()});
       for (const double u : {0.0, 1.0}) {
         std::vector<double> values;
         for (const Knob& knob : controller.knobs) values.push_back(knob.ValueAt(u));
@@ -249,9 +253,10 @@ Status CheckTuneStart(const std::vector<Scenario>& scenarios, const TunePlan& pl
             settings += (settings.empty() ? "" : ", ") + controller.knobs[k].setting + " = " +
                         ValueText(values[k]);
           }
-          return Failure(where + "refuses the knobs' " + (u == 0 ? "lower" : "upper") + " ends (" +
+          return Failure(TuneStartFailure{
+              false, where + "refuses the knobs' " + (u == 0 ? "lower" : "upper") + " ends (" +
                          settings + "): " + start.error() +
-                         (plan.tune_path.empty() ? "" : " (knobs from " + plan.tune_path + ")"));
+                         (plan.tune_path.empty() ? "" : " (knobs from " + plan.tune_path + ")")});
         }
       }
     }

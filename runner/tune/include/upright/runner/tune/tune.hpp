@@ -64,10 +64,16 @@ struct TunePlan {
 Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOptions& options,
                           const TuneSpec& spec);
 
+// Why a tune cannot start: a module that will not load, or knob ends a module refuses.
+struct TuneStartFailure {
+  bool module_missing = false;  // the module would not load (rather than refusing settings)
+  std::string message;          // "path:line: controller lqr: ..."
+};
+
 // Whether every controller's module loads and accepts both ends of its knobs' ranges (every knob
 // at lo, then every knob at hi) in every scenario; nothing is stepped.
-Status CheckTuneStart(const std::vector<Scenario>& scenarios, const TunePlan& plan,
-                      const TuneOptions& options);
+Result<void, TuneStartFailure> CheckTuneStart(const std::vector<Scenario>& scenarios,
+                                              const TunePlan& plan, const TuneOptions& options);
 
 enum class EvaluationStage { kDefault, kGlobal, kLocal, kHeldOut };
 const char* ToString(EvaluationStage stage);  // "default", "global", "local", "held_out"
