@@ -89,7 +89,7 @@ TEST(Cli, AnUnknownCommandIsNamedWithTheNearestAndTheList) {
   EXPECT_EQ(r.exit_code, 2) << r.output;
   EXPECT_NE(r.output.find("unknown command 'desing'; did you mean 'design'?"), std::string::npos)
       << r.output;
-  EXPECT_NE(r.output.find("commands: check, design, run, demo, sweep, envelope, report"),
+  EXPECT_NE(r.output.find("commands: check, design, run, demo, sweep, envelope, tune, report"),
             std::string::npos)
       << r.output;
   // Nothing near enough: no suggestion, still the list.
