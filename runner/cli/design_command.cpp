@@ -352,6 +352,11 @@ void PrintController(const char* title, const ControllerReport& c, double latenc
                      double rate_hz) {
   std::printf("\n== %s: %s\n", title, Verdict(c).c_str());
   if (c.K.norm() > 0) PrintMatrix("gain K (u = -K x), N·m or V per state unit", c.K, true);
+  if (c.K_discrete.norm() > 0) {
+    const std::string heading = "gain the module applies at " + Figure(rate_hz) +
+                              " Hz (u_k = -K x_k, zero-order hold; --export-c writes it)";
+    PrintMatrix(heading.c_str(), c.K_discrete, true);
+  }
   if (!c.loop.poles.empty()) {
     std::printf("closed-loop poles (1/s):");
     PrintPoles(c.loop.poles);
