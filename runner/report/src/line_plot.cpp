@@ -41,7 +41,8 @@ std::string SeriesPath(const LinePlot& plot, const PlotSeries& s, const Axis& x,
   long last_x = 0, last_y = 0;
   for (const std::size_t i : keep) {
     const double v = s.value[i];
-    const double at = i < s.time_s.size() ? AxisValue(plot, s.time_s[i]) : NAN;
+    const double at = i < s.time_s.size() ? AxisValue(plot, s.time_s[i])
+                                           : std::numeric_limits<double>::quiet_NaN();
     if (!std::isfinite(v) || !std::isfinite(at)) {
       pen_down = false;
       continue;
@@ -174,14 +175,15 @@ void AppendEvents(std::string* svg, const std::vector<PlotEvent>& events, const 
 
 // Marks: a cross on the line and its text beside it, moved up (or down) a line at a time until
 // it clears the texts already placed.
-void AppendMarks(std::string* svg, const std::vector<PlotMark>& marks, const Axis& x, const Axis& y,
-                 double top, double bottom) {
+void AppendMarks(std::string* svg, const LinePlot& plot, const Axis& x, const Axis& y, double top,
+                 double bottom) {
+  const std::vector<PlotMark>& marks = plot.marks;
   struct Box {
     double x0, x1, y;
   };
   std::vector<Box> placed;
   for (const PlotMark& m : marks) {
-    const double px = x.ToPixel(m.time_s);
+    const double px = x.ToPixel(AxisValue(plot, m.time_s));
     const double py = std::isfinite(m.value) ? y.ToPixel(m.value) : bottom;
     const std::string colour = StyleFor(m.style).colour;
     *svg += "<g class=\"mark\"><path d=\"M" + PixelText(px - 5) + " " + PixelText(py - 5) +
@@ -318,7 +320,7 @@ std::string RenderLinePlot(const LinePlot& plot, std::size_t max_points) {
   }
   svg += "</g>";
   if (clip) svg += "</svg>";
-  AppendMarks(&svg, plot.marks, x, y, top, bottom);
+  AppendMarks(&svg, plot, x, y, top, bottom);
   svg += "</svg>";
   return svg;
 }
