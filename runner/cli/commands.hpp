@@ -41,13 +41,15 @@ struct DesignOptions {
   std::optional<double> max_tilt_deg;   // --max-tilt-deg
   design::DesignRequest request;        // the other flags (the other weights)
   std::string export_c_path;            // --export-c: also write the usable gains as a C header
+  std::string report_dir;  // --report: also write the design pictures' folder and its report
 };
 
 // `upright design MODEL`: linear model, controller gains, poles, norms and margins, a status per
 // controller. Exit 0 when every design offered for the input is usable (made, and stable as the
 // module samples it), 3 when some are and some are not (each says why in place), 1 when none is,
 // 2 on bad input (the message names the flag). With --export-c the usable designs' gains are
-// written as a C header too (gains_header.hpp); when that fails, exit 1.
+// written as a C header too (gains_header.hpp); with --report the designs' curves and margins go
+// to that folder (design_folder.hpp) with its report.html; when either fails, exit 1.
 int RunDesign(const DesignOptions& options);
 
 struct RunCommandOptions {

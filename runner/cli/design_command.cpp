@@ -5,8 +5,8 @@
 #include <array>
 #include <cmath>
 #include <complex>
-#include <filesystem>
 #include <cstdio>
+#include <filesystem>
 #include <iostream>
 #include <numbers>
 #include <string>
@@ -15,6 +15,7 @@
 #include <vector>
 
 #include "commands.hpp"
+#include "design_folder.hpp"
 #include "gains_header.hpp"
 #include "log.hpp"
 #include "upright/base/number_text.hpp"
@@ -24,6 +25,7 @@
 #include "upright/runner/common/atomic_file.hpp"
 #include "upright/runner/common/json_text.hpp"
 #include "upright/runner/common/sha256.hpp"
+#include "upright/runner/report/report.hpp"
 #include "upright_version.hpp"
 
 namespace upright::cli {
@@ -350,6 +352,11 @@ void PrintController(const char* title, const ControllerReport& c, double latenc
                      double rate_hz) {
   std::printf("\n== %s: %s\n", title, Verdict(c).c_str());
   if (c.K.norm() > 0) PrintMatrix("gain K (u = -K x), N·m or V per state unit", c.K, true);
+  if (c.K_discrete.norm() > 0) {
+    const std::string heading = "gain the module applies at " + Figure(rate_hz) +
+                              " Hz (u_k = -K x_k, zero-order hold; --export-c writes it)";
+    PrintMatrix(heading.c_str(), c.K_discrete, true);
+  }
   if (!c.loop.poles.empty()) {
     std::printf("closed-loop poles (1/s):");
     PrintPoles(c.loop.poles);
@@ -623,6 +630,42 @@ Status ExportGains(const DesignOptions& options, const model::RobotModel& model,
   return runner::WriteFileAtomically(options.export_c_path, *header);
 }
 
+// --report names a folder, or a path where one can be made (checked before anything is
+// designed).
+Status CheckReportDir(const std::string& dir) {
+  namespace fs = std::filesystem;
+  std::error_code error;
+  if (fs::exists(dir, error) && !fs::is_directory(dir, error)) {
+    return Failure("--report " + dir + ": is a file, not a folder");
+  }
+  return {};
+}
+
+// Writes the designs' pictures and margins into the folder, then its report.
+Status WriteDesignReport(const DesignOptions& options, const model::RobotModel& model,
+                         const DesignSet& set) {
+  std::error_code error;
+  std::filesystem::create_directories(options.report_dir, error);
+  if (error) {
+    return Failure("--report " + options.report_dir +
+                   ": cannot make the folder: " + error.message());
+  }
+  const Result<std::string> sha = runner::Sha256OfFile(options.model_path);
+  if (!sha) return Failure(sha.error());
+  if (Status written = WriteDesignFolder(options.report_dir, {.model = &model,
+                                                              .set = &set,
+                                                              .model_path = options.model_path,
+                                                              .model_sha256 = *sha,
+                                                              .version = UPRIGHT_VERSION});
+      !written) {
+    return written;
+  }
+  const Result<std::string> report = runner::WriteReport(options.report_dir);
+  if (!report) return Failure(report.error());
+  Log().Info("design report: " + *report);
+  return {};
+}
+
 }  // namespace
 
 int RunDesign(const DesignOptions& options) {
@@ -635,6 +678,12 @@ int RunDesign(const DesignOptions& options) {
   if (!options.export_c_path.empty()) {
     if (const Status path = CheckExportPath(options.export_c_path); !path) {
       Log().Error(path.error());
+      return kExitBadInput;
+    }
+  }
+  if (!options.report_dir.empty()) {
+    if (const Status dir = CheckReportDir(options.report_dir); !dir) {
+      Log().Error(dir.error());
       return kExitBadInput;
     }
   }
@@ -659,6 +708,12 @@ int RunDesign(const DesignOptions& options) {
       return kExitFailed;
     }
     Log().Info("gains for firmware: " + options.export_c_path);
+  }
+  if (!options.report_dir.empty()) {
+    if (const Status written = WriteDesignReport(options, *loaded, set); !written) {
+      Log().Error(written.error());
+      return kExitFailed;
+    }
   }
 
   // Each unusable design once more on stderr, then the count a script can act on.

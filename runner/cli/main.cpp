@@ -53,6 +53,10 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   cmd->add_option("--export-c", o->export_c_path,
                   "Also write the usable designs' gains at the rate as a C header (FILE.h) for "
                   "firmware, with the model file's SHA-256, state order, units and signs");
+  cmd->add_option("--report", o->report_dir,
+                  "Also write the designs' pictures to DIR (created if missing): Bode and Nyquist "
+                  "plots of the loop at the wheels, the linear response to the design push and "
+                  "the margins, as CSV files and DIR/report.html");
   AddOptionalNumber(cmd, "--rate", &o->rate_hz,
                     "Controller sample rate, Hz, > 0 (default: the model's control rate_hz)");
   AddOptionalNumber(cmd, "--gamma", &o->gamma,

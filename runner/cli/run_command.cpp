@@ -11,6 +11,7 @@
 
 #include "commands.hpp"
 #include "data_folders.hpp"
+#include "design_folder.hpp"
 #include "envelope_command.hpp"
 #include "log.hpp"
 #include "module_messages.hpp"
@@ -233,6 +234,25 @@ int RunDemo(const RunCommandOptions& options) {
   sweep.caution = false;
   Log().Info("\nupright demo: the same shove on 50 robots drawn from its spreads");
   if (const int code = RunSweep(sweep); code != kExitOk) return code;
+
+  // The demo robots' default designs: the pictures of the loops the modules above ran.
+  Log().Info("\nupright demo: the designs' loops and design push on the linear model");
+  std::vector<fs::path> models;
+  std::error_code error;
+  for (fs::directory_iterator it(folder.parent_path() / "models", error), end; !error && it != end;
+       it.increment(error)) {
+    if (it->path().extension() == ".xml") models.push_back(it->path());
+  }
+  std::sort(models.begin(), models.end());
+  for (const fs::path& model : models) {
+    const std::string dir = demo.out_dir + "/design-" + model.stem().string();
+    if (const Status written = WriteDefaultDesignFolder(model.string(), dir, UPRIGHT_VERSION);
+        !written) {
+      Log().Error(written.error());
+      return kExitFailed;
+    }
+    Log().Info("  " + dir);
+  }
 
   const Result<std::string> report_path = runner::WriteReport(demo.out_dir);
   if (!report_path) {

@@ -140,9 +140,11 @@ TEST(UnwrappedPhaseDeg, FollowsTurnsAndRestartsAfterAGap) {
   for (int k = 0; k <= 70; ++k) EXPECT_NEAR(phase[k], -k * 0.05 * 360, 1e-9) << k;
   const std::vector<double> gap =
       UnwrappedPhaseDeg({Cd(-1, 0), Cd(std::nan(""), 0), Cd(0, -1)});
-  EXPECT_EQ(gap[0], 180);
+  EXPECT_EQ(gap[0], -180);
   EXPECT_TRUE(std::isnan(gap[1]));
   EXPECT_EQ(gap[2], -90);
+  // The first value's phase is read as a lag: +90° shows as −270°.
+  EXPECT_EQ(UnwrappedPhaseDeg({Cd(0, 1), Cd(1, 1)}), (std::vector<double>{-270, -315}));
 }
 
 // The robot's loops: each controller's, continuous, as the design made it.

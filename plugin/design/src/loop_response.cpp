@@ -101,8 +101,8 @@ std::vector<double> UnwrappedPhaseDeg(const std::vector<std::complex<double>>& v
       have_previous = false;
       continue;
     }
-    double p = std::arg(v) * kDeg;  // (−180, 180]
-    if (p == -180) p = 180;
+    double p = std::arg(v) * kDeg;  // [−180, 180]
+    if (p > 0) p -= 360;            // (−360, 0]
     if (have_previous) p -= 360 * std::round((p - previous) / 360);
     phase.push_back(p);
     previous = p;

@@ -9,6 +9,7 @@
 #pragma once
 
 #include <cstddef>
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -17,9 +18,10 @@ namespace upright::runner::internal {
 struct PlotSeries {
   std::string name;       // legend text
   std::size_t style = 0;  // palette index (StyleFor)
-  bool twin = false;      // the linear twin: thin, dotted, in the style's colour
-  std::vector<double> time_s;
-  std::vector<double> value;  // NaN: a break in the line
+  bool twin = false;      // the linear twin (or a sampled curve): thin, dotted, the style's colour
+  std::vector<double> time_s;  // the x values: time in s on a time plot
+  std::vector<double> value;   // NaN: a break in the line
+  bool guide = false;  // a reference line (a limit, the unit circle): thin grey, not in the legend
 };
 
 // A disturbance: a dashed vertical line tagged `tag` ("E1"); `label` shows on hover.
@@ -46,6 +48,21 @@ struct LinePlot {
   std::vector<PlotSeries> series;
   std::vector<PlotEvent> events;
   std::vector<PlotMark> marks;
+
+  // Other kinds of plot (frequency responses, Nyquist): the x axis's title; x on a log scale
+  // with a tick a decade (from the data's smallest positive x, not from 0; x <= 0 left out);
+  // a fixed window [x_lo, x_hi] × [y_lo, y_hi] where both bounds of an axis are finite (lines
+  // clipped at its edge); with equal_aspect the y window is centred on the middle of y_lo and
+  // y_hi and sized so a unit is as long on both axes; the figure's height in pixels.
+  std::string x_label = "time (s)";
+  bool x_log10 = false;
+  double x_lo = kFromData, x_hi = kFromData, y_lo = kFromData, y_hi = kFromData;
+  bool equal_aspect = false;
+  double height_px = 250;
+  // The legend also names the dotted lines: "" for the linear twin's words.
+  std::string twin_legend;
+
+  static constexpr double kFromData = std::numeric_limits<double>::quiet_NaN();
 };
 
 // The plot as one <svg> element. Each series is thinned to at most `max_points` samples by

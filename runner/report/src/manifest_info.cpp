@@ -105,6 +105,30 @@ Result<ManifestInfo> ReadManifest(const std::string& dir) {
     info.sweep_seed = NumberText(*seed);
   }
   if (const Json* n = Member(root, "samples", &Json::is_number)) info.samples = NumberText(*n);
+  if (const Json* m = Member(root, "model", &Json::is_object)) {
+    ManifestScenario model;
+    model.model_name = StringOf(*m, "name");
+    model.model_path = StringOf(*m, "path");
+    model.model_sha256 = StringOf(*m, "sha256");
+    info.scenarios.push_back(model);
+  }
+  ManifestDesign& d = info.design;
+  d.input = StringOf(root, "input");
+  const auto number = [](const Json& object, const char* key, double* out) {
+    if (const Json* n = Member(object, key, &Json::is_number)) *out = n->get<double>();
+  };
+  number(root, "rate_hz", &d.rate_hz);
+  number(root, "latency_s", &d.latency_s);
+  number(root, "fall_rate_1_s", &d.fall_rate_1_s);
+  number(root, "ground_contact_forward_deg", &d.ground_contact_forward_deg);
+  number(root, "ground_contact_backward_deg", &d.ground_contact_backward_deg);
+  number(root, "current_limit_A", &d.current_limit_A);
+  if (const Json* push = Member(root, "design_push", &Json::is_object)) {
+    number(*push, "impulse_Ns", &d.push_impulse_Ns);
+    number(*push, "duration_s", &d.push_duration_s);
+    number(*push, "peak_N", &d.push_peak_N);
+    number(*push, "height_m", &d.push_height_m);
+  }
   return info;
 }
 

@@ -1,9 +1,11 @@
 // What the report takes from a results folder's manifest.json: the tool version, the input files
-// with their SHA-256, the trace of each run, and the envelope's parameters or the sweep's spreads.
+// with their SHA-256, the trace of each run, and the envelope's parameters, the sweep's spreads or
+// the design's robot and push.
 // Fields the manifest lacks stay empty; timings are never read, so the report does not vary.
 #pragma once
 
 #include <cstdint>
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -33,6 +35,18 @@ struct ManifestParameter {
   bool has_scenario_value = false;
 };
 
+// `upright design --report`: the robot designed for and the figures its pictures are drawn
+// against (NaN where the manifest lacks them).
+struct ManifestDesign {
+  std::string input;  // "torque" or "voltage"
+  double rate_hz = kNoNumber, latency_s = kNoNumber, fall_rate_1_s = kNoNumber;
+  double push_impulse_Ns = kNoNumber, push_duration_s = kNoNumber, push_peak_N = kNoNumber;
+  double push_height_m = kNoNumber;
+  double ground_contact_forward_deg = kNoNumber, ground_contact_backward_deg = kNoNumber;
+  double current_limit_A = kNoNumber;
+  static constexpr double kNoNumber = std::numeric_limits<double>::quiet_NaN();
+};
+
 struct ManifestInfo {
   bool present = false;  // manifest.json was there and parsed
   std::string tool_version;
@@ -42,6 +56,8 @@ struct ManifestInfo {
   std::vector<ManifestParameter> parameters;   // envelope: the parameter, then parameter2
   std::vector<ManifestParameter> dispersions;  // sweep: the spreads in file order
   std::string sweep_seed, samples;             // sweep: as the manifest writes them
+  // design: the model (in scenarios, as the one entry's model_* fields) and these figures
+  ManifestDesign design;
 };
 
 // Reads <dir>/manifest.json. A missing file gives present = false; a malformed one fails

@@ -25,7 +25,8 @@ bool HasFile(const fs::path& dir, const char* name) {
 // order; traces/ folders hold no tables and are skipped.
 void Collect(const fs::path& root, const fs::path& dir, int depth,
              std::vector<std::string>* found) {
-  if (HasFile(dir, "summary.csv") || HasFile(dir, "envelope.csv") || HasFile(dir, "sweep.csv")) {
+  if (HasFile(dir, "summary.csv") || HasFile(dir, "envelope.csv") || HasFile(dir, "sweep.csv") ||
+      HasFile(dir, "loop_response.csv")) {
     found->push_back(dir == root ? "." : dir.lexically_relative(root).generic_string());
   }
   if (depth >= kMaxDepth) return;
@@ -51,8 +52,9 @@ Status ReportOptions::Validate() const {
 }
 
 std::string ReportLooksFor() {
-  return "summary.csv (upright run, demo), envelope.csv (upright envelope) or sweep.csv "
-         "(upright sweep), in the folder or in subfolders up to " +
+  return "summary.csv (upright run, demo), envelope.csv (upright envelope), sweep.csv "
+         "(upright sweep) or loop_response.csv (upright design --report), in the folder or in "
+         "subfolders up to " +
          std::to_string(kMaxDepth) + " levels down";
 }
 
@@ -86,7 +88,12 @@ Status AppendFolder(const internal::ResultsFolder& folder, const ReportOptions& 
       return added;
     }
   }
-  if (folder.sweep) return internal::AppendSweepSection(folder, *manifest, page);
+  if (folder.sweep) {
+    if (Status added = internal::AppendSweepSection(folder, *manifest, page); !added) {
+      return added;
+    }
+  }
+  if (folder.design) return internal::AppendDesignSection(folder, *manifest, options, page);
   return {};
 }
 
@@ -124,6 +131,7 @@ Result<ReportWritten, ReportFailure> MakeReport(const std::string& dir,
     folder.run = HasFile(folder.path, "summary.csv");
     folder.envelope = HasFile(folder.path, "envelope.csv");
     folder.sweep = HasFile(folder.path, "sweep.csv");
+    folder.design = HasFile(folder.path, "loop_response.csv");
     if (Status added = AppendFolder(folder, options, &page); !added) {
       return Refused(ReportProblem::kBadInput, added.error());
     }

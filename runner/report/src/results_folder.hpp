@@ -12,6 +12,7 @@ struct ResultsFolder {
   bool run = false;       // summary.csv: upright run or demo
   bool envelope = false;  // envelope.csv
   bool sweep = false;     // sweep.csv
+  bool design = false;    // loop_response.csv: upright design --report
   std::string id;         // the prefix of its element ids ("f0-", "f1-", ...)
 };
 

@@ -26,4 +26,9 @@ Status AppendEnvelopeSection(const ResultsFolder& folder, const ManifestInfo& ma
 Status AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manifest,
                           ReportPage* page);
 
+// `upright design --report`: each design's margins, the Bode and Nyquist plots of its loop at the
+// wheels (one wheel, both alike; continuous and sampled) and its linear push response.
+Status AppendDesignSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                           const ReportOptions& options, ReportPage* page);
+
 }  // namespace upright::runner::internal

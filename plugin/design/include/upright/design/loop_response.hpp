@@ -31,9 +31,10 @@ std::vector<std::complex<double>> FrequencyResponse(const StateSpace& siso, doub
 // (0 < lo < hi, per_decade ≥ 1; otherwise empty).
 std::vector<double> LogFrequencies(double lo_rad_s, double hi_rad_s, int per_decade);
 
-// The phase of each value in degrees, the first in (−180, 180], each next one moved by whole
-// turns to within 180° of the one before (unwrapped along the curve). A non-finite value gives
-// NaN and the unwrapping starts again after it.
+// The phase of each value in degrees, the first in (−360, 0] (a loop's phase read as a lag, as
+// Bode plots show it), each next one moved by whole turns to within 180° of the one before
+// (unwrapped along the curve). A non-finite value gives NaN and the unwrapping starts again
+// after it, in (−360, 0].
 std::vector<double> UnwrappedPhaseDeg(const std::vector<std::complex<double>>& values);
 
 }  // namespace upright::design

@@ -1,7 +1,8 @@
-// The HTML report: a results folder (of `upright run` / `demo`, `envelope` or `sweep`, or a folder
-// holding such folders) in; one self-contained report.html beside the results out — time plots
-// per scenario, the tables, envelope, map, sweep and gap charts as inline SVG, the input files
-// with their SHA-256 and the safety caution. No script, no link, nothing fetched.
+// The HTML report: a results folder (of `upright run` / `demo`, `envelope`, `sweep` or `design
+// --report`, or a folder holding such folders) in; one self-contained report.html beside the
+// results out — time plots per scenario, the tables, envelope, map, sweep and gap charts, the
+// designs' Bode, Nyquist and push-response plots as inline SVG, the input files with their
+// SHA-256 and the safety caution. No script, no link, nothing fetched.
 #pragma once
 
 #include <cstddef>
@@ -45,8 +46,8 @@ struct ReportFailure {
 std::string ReportLooksFor();
 
 // The results folders under `dir`, relative to it ("." first, then subfolders in sorted order;
-// at most 3 levels down, traces/ skipped): folders holding summary.csv, envelope.csv or
-// sweep.csv.
+// at most 3 levels down, traces/ skipped): folders holding summary.csv, envelope.csv, sweep.csv
+// or loop_response.csv.
 std::vector<std::string> FindResultsFolders(const std::string& dir);
 
 // Builds the report of `dir` and writes it atomically to <dir>/report.html. The bytes depend only
