@@ -16,6 +16,7 @@ packages=(
   libslicot-dev liblapack-dev libblas-dev gfortran   # reference checks of the control solvers
   python3 python3-numpy python3-scipy                # reference checks of the control solvers
   chromium               # the report test renders the HTML report headless
+  clang libclang-rt-14-dev   # fuzzing the file readers (libFuzzer with sanitizers, fuzz/)
 )
 
 missing=()

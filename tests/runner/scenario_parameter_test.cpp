@@ -124,6 +124,13 @@ TEST(ScenarioParameter, RefusesWhatTheScenarioCannotHoldAndLeavesItUnchanged) {
   EXPECT_EQ(Refusal(&s, "timeline/push[0].peak_N", 1),
             "parameter 'timeline/push[0].peak_N': an index is [1], [2], ... after the last "
             "element");
+  // An index beyond any count of elements (past 2^64 - 1) is refused, not thrown (a fuzzed input
+  // once aborted the reader this way).
+  EXPECT_EQ(Refusal(&s, "timeline/push[99999999999999999999].peak_N", 1),
+            "parameter 'timeline/push[99999999999999999999].peak_N': an index is [1], [2], ... "
+            "after the last element");
+  EXPECT_EQ(Refusal(&s, "timeline/push[18446744073709551615].peak_N", 1),
+            "timeline/push[18446744073709551615].peak_N: the scenario has 2 <push> elements");
   EXPECT_EQ(Refusal(&s, "peak_N", 1),
             "parameter 'peak_N': expected element path '.' attribute, as in "
             "timeline/push[1].peak_N");

@@ -244,7 +244,10 @@ Result<std::string> MarginsTable(const std::string& path) {
     std::vector<HtmlCell> cells = {
         {row[c[0]], false, ""},
         {row[c[1]], false, ""},
-        {made ? LoopWords(row[c[3]]) : row[c[2]], false, ""},
+        {made ? (row[c[3]] == "one_wheel" ? "one wheel (the worse of the two)"
+                                          : LoopWords(row[c[3]]))
+              : row[c[2]],
+         false, ""},
         {row[c[4]] == "sampled" ? "sampled, with the latency" : row[c[4]], false, ""}};
     for (int k = 5; k <= 10; ++k) cells.push_back(NumberCell(row[c[k]]));
     table.AddRow(std::move(cells));
@@ -268,7 +271,7 @@ Status AppendDesignSection(const ResultsFolder& folder, const ManifestInfo& mani
   const std::string heading = "Design: " + (robot.empty() ? folder.relative : robot);
   page->toc.push_back({section_id, heading, 1});
   std::string html = "<section><h2 id=\"" + section_id + "\">" + Escape(heading) + "</h2>";
-  html += "<p>The built-in designs of `upright design` on the robot's linear model (" +
+  html += "<p>The built-in designs of <code>upright design</code> on the robot's linear model (" +
           Escape(d.input) + " input; the modules run at " + Figure(d.rate_hz, " Hz") +
           " and read sensors " + Figure(d.latency_s * 1e3, " ms") +
           " old). The loop is broken at the wheel inputs, L under negative feedback: "

@@ -65,13 +65,17 @@ void ForEachObject(const Json& root, const char* key, Visit visit) {
 }  // namespace
 
 Result<ManifestInfo> ReadManifest(const std::string& dir) {
-  ManifestInfo info;
   const std::string path = (std::filesystem::path(dir) / "manifest.json").string();
   std::error_code ec;
-  if (!std::filesystem::is_regular_file(path, ec)) return info;
+  if (!std::filesystem::is_regular_file(path, ec)) return ManifestInfo{};
   const Result<std::string> text = ReadWholeFile(path);
   if (!text) return Failure(text.error());
-  const Result<Json> parsed = ParseJson(*text, path);
+  return ParseManifest(*text, path);
+}
+
+Result<ManifestInfo> ParseManifest(std::string_view text, const std::string& path) {
+  ManifestInfo info;
+  const Result<Json> parsed = ParseJson(text, path);
   if (!parsed) return Failure(parsed.error());
   const Json& root = *parsed;
   if (!root.is_object()) return Failure(path + ":1: the manifest is not a JSON object");

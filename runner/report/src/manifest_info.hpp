@@ -7,6 +7,7 @@
 #include <cstdint>
 #include <limits>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include "upright/base/result.hpp"
@@ -63,5 +64,8 @@ struct ManifestInfo {
 // Reads <dir>/manifest.json. A missing file gives present = false; a malformed one fails
 // ("<path>:<line>: ...").
 Result<ManifestInfo> ReadManifest(const std::string& dir);
+
+// The same from the manifest's text; `path` is used only in messages.
+Result<ManifestInfo> ParseManifest(std::string_view text, const std::string& path);
 
 }  // namespace upright::runner::internal

@@ -3,6 +3,7 @@
 #include "upright/runner/scenario/scenario_parameter.hpp"
 
 #include <algorithm>
+#include <charconv>
 #include <cmath>
 #include <functional>
 #include <numbers>
@@ -38,12 +39,16 @@ Result<Path> ParsePath(const std::string& text) {
   if (open != std::string::npos) {
     const auto close = element.find(']', open);
     const std::string digits = element.substr(open + 1, close - open - 1);
+    // An index too large for a count of elements is refused like any other bad index.
+    std::size_t index = 0;
+    const char* end = digits.data() + digits.size();
+    const auto [stop, error] = std::from_chars(digits.data(), end, index);
     if (close != element.size() - 1 || digits.empty() ||
         !std::all_of(digits.begin(), digits.end(), [](char c) { return c >= '0' && c <= '9'; }) ||
-        std::stoul(digits) == 0) {
+        error != std::errc() || stop != end || index == 0) {
       return Failure("parameter '" + text + "': an index is [1], [2], ... after the last element");
     }
-    path.index = std::stoul(digits);
+    path.index = index;
     element = element.substr(0, open);
   }
   path.element = element;
