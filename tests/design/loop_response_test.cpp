@@ -14,6 +14,7 @@
 #include <vector>
 
 #include "demo_robot.hpp"
+#include "spinning_body.hpp"
 #include "succeeded.hpp"
 #include "upright/design/closed_loop.hpp"
 #include "upright/design/design_set.hpp"
@@ -26,15 +27,7 @@ using Cd = std::complex<double>;
 using Eigen::MatrixXd;
 constexpr double kPi = std::numbers::pi;
 
-// The spinning body of [SPG2020]: 1/(s² + a²) [s − a², a(s + 1); −a(s + 1), s − a²] under K = I,
-// realised as ẋ = [0 a; −a 0] x + u, y = [1 a; −a 1] x (derived by hand).
-BrokenLoop SpinningBody(double a) {
-  BrokenLoop l;
-  l.A = (MatrixXd(2, 2) << 0, a, -a, 0).finished();
-  l.B = MatrixXd::Identity(2, 2);
-  l.C = (MatrixXd(2, 2) << 1, a, -a, 1).finished();
-  return l;
-}
+using testing::SpinningBody;
 
 TEST(LoopAtInput, SpinningBodyWithTheOtherLoopClosedIsAnIntegrator) {
   // With loop 2 closed, A − b₂c₂ = [0 a; 0 −1], and c₁ (sI − A + b₂c₂)⁻¹ b₁ = [1 a] [1/s; 0] = 1/s

@@ -14,6 +14,7 @@
 #include <vector>
 
 #include "demo_robot.hpp"
+#include "spinning_body.hpp"
 #include "succeeded.hpp"
 #include "upright/design/design_set.hpp"
 
@@ -26,16 +27,7 @@ constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr double kPi = std::numbers::pi;
 constexpr double kDeg = 180 / kPi;
 
-// The spinning body of [SPG2020] (and of Doyle's classic loop-at-a-time counterexample): plant
-// 1/(s² + a²) [s − a², a(s + 1); −a(s + 1), s − a²] under K = I, realised as ẋ = [0 a; −a 0] x + u,
-// y = [1 a; −a 1] x (C (sI − A)⁻¹ B gives the matrix above; derived by hand).
-BrokenLoop SpinningBody(double a) {
-  BrokenLoop l;
-  l.A = (MatrixXd(2, 2) << 0, a, -a, 0).finished();
-  l.B = MatrixXd::Identity(2, 2);
-  l.C = (MatrixXd(2, 2) << 1, a, -a, 1).finished();
-  return l;
-}
+using testing::SpinningBody;
 
 // k / (s³ + a2 s² + a1 s + a0) in companion form, as a one-input loop.
 BrokenLoop ThirdOrder(double k, double a2, double a1, double a0) {

@@ -20,6 +20,16 @@ constexpr double kTimeConstantsAfter = 10;
 
 double DesignPush::peak_N() const { return std::numbers::pi / 2 * impulse_Ns / duration_s; }
 
+Status DesignPush::Validate() const {
+  if (impulse_Ns > 0 && std::isfinite(impulse_Ns) && duration_s > 0 && std::isfinite(duration_s)) {
+    return {};
+  }
+  std::ostringstream why;
+  why << "design push: impulse " << impulse_Ns << " N s over " << duration_s
+      << " s, both must be > 0 and finite";
+  return Failure(why.str());
+}
+
 DesignPush DesignPushFor(const LinearModel& plant, double push_scale_N) {
   // From A rather than fall_rate_1_s, so that a model rebuilt from the matrices alone (a module's)
   // gets the same push to the last bit.
@@ -29,13 +39,7 @@ DesignPush DesignPushFor(const LinearModel& plant, double push_scale_N) {
 
 Result<PushPeaks> LinearPushPeaks(const LinearModel& plant, const Gain& K,
                                   const CurrentMap& current, const DesignPush& push) {
-  if (!(push.impulse_Ns > 0 && std::isfinite(push.impulse_Ns) && push.duration_s > 0 &&
-        std::isfinite(push.duration_s))) {
-    std::ostringstream why;
-    why << "design push: impulse " << push.impulse_Ns << " N s over " << push.duration_s
-        << " s, both must be > 0 and finite";
-    return Failure(why.str());
-  }
+  if (Status valid = push.Validate(); !valid) return Failure(valid.error());
   const StateMatrix closed = plant.A - plant.B * K;
   const Eigen::VectorXcd poles = closed.eigenvalues();
   double slowest_decay = std::numeric_limits<double>::infinity();
@@ -82,13 +86,7 @@ Result<PushPeaks> LinearPushPeaks(const LinearModel& plant, const Gain& K,
 Result<PushPeaks> SampledPushPeaks(const LinearModel& plant, const Gain& K,
                                    const CurrentMap& current, const DesignPush& push,
                                    double period_s) {
-  if (!(push.impulse_Ns > 0 && std::isfinite(push.impulse_Ns) && push.duration_s > 0 &&
-        std::isfinite(push.duration_s))) {
-    std::ostringstream why;
-    why << "design push: impulse " << push.impulse_Ns << " N s over " << push.duration_s
-        << " s, both must be > 0 and finite";
-    return Failure(why.str());
-  }
+  if (Status valid = push.Validate(); !valid) return Failure(valid.error());
   if (!(period_s > 0) || !std::isfinite(period_s)) {
     std::ostringstream why;
     why << "design push: period " << period_s << " s, must be > 0 and finite";

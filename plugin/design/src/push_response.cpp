@@ -47,13 +47,7 @@ Result<PushResponse> ResponseToPush(const StateSpace& pushed, const CurrentMap& 
       pushed.C.cols() != n || pushed.C.rows() != kStates + kInputs || n < kStates) {
     return Failure("push response: the loop must take the push force and give [x; u]");
   }
-  if (!(push.impulse_Ns > 0 && std::isfinite(push.impulse_Ns) && push.duration_s > 0 &&
-        std::isfinite(push.duration_s))) {
-    std::ostringstream why;
-    why << "push response: impulse " << push.impulse_Ns << " N s over " << push.duration_s
-        << " s, both must be > 0 and finite";
-    return Failure(why.str());
-  }
+  if (Status valid = push.Validate(); !valid) return Failure(valid.error());
   const Result<double> after_s = TimeAfterPush(pushed.A);
   if (!after_s) return Failure(after_s.error());
 

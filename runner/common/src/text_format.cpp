@@ -18,6 +18,33 @@ void AppendCsvField(std::string* out, std::string_view text) {
   out->push_back('"');
 }
 
+std::string XmlEscaped(std::string_view text) {
+  std::string out;
+  out.reserve(text.size());
+  for (const char c : text) {
+    switch (c) {
+      case '&':
+        out += "&amp;";
+        break;
+      case '<':
+        out += "&lt;";
+        break;
+      case '>':
+        out += "&gt;";
+        break;
+      case '"':
+        out += "&quot;";
+        break;
+      case '\'':
+        out += "&#39;";
+        break;
+      default:
+        out += c;
+    }
+  }
+  return out;
+}
+
 const char* CsvBool(bool value) { return value ? "true" : "false"; }
 
 std::string MarkdownCell(std::string_view text) {

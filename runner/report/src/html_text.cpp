@@ -1,32 +1,9 @@
 #include "html_text.hpp"
 
+#include "upright/runner/common/text_format.hpp"
+
 namespace upright::runner::internal {
 
-std::string Escape(std::string_view text) {
-  std::string out;
-  out.reserve(text.size());
-  for (const char c : text) {
-    switch (c) {
-      case '&':
-        out += "&amp;";
-        break;
-      case '<':
-        out += "&lt;";
-        break;
-      case '>':
-        out += "&gt;";
-        break;
-      case '"':
-        out += "&quot;";
-        break;
-      case '\'':
-        out += "&#39;";
-        break;
-      default:
-        out += c;
-    }
-  }
-  return out;
-}
+std::string Escape(std::string_view text) { return XmlEscaped(text); }
 
 }  // namespace upright::runner::internal

@@ -5,38 +5,9 @@
 #include <utility>
 
 #include "upright/base/number_text.hpp"
+#include "upright/runner/common/text_format.hpp"
 
 namespace upright::runner::internal {
-namespace {
-
-// XML attribute text with the five special characters escaped.
-std::string XmlEscaped(const std::string& text) {
-  std::string out;
-  for (const char c : text) {
-    switch (c) {
-      case '&':
-        out += "&amp;";
-        break;
-      case '<':
-        out += "&lt;";
-        break;
-      case '>':
-        out += "&gt;";
-        break;
-      case '"':
-        out += "&quot;";
-        break;
-      case '\'':
-        out += "&apos;";
-        break;
-      default:
-        out += c;
-    }
-  }
-  return out;
-}
-
-}  // namespace
 
 std::string Where(const std::string& path, int line) {
   if (path.empty()) return "";

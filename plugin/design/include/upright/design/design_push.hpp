@@ -20,6 +20,9 @@ struct DesignPush {
   double duration_s = 0;  // of the half-sine, s
   // The half-sine's peak force, π/2 × impulse / duration, N.
   double peak_N() const;
+  // Fine for a positive, finite impulse and duration; otherwise "design push: impulse ... N s
+  // over ... s, both must be > 0 and finite".
+  Status Validate() const;
 };
 
 // The design push for `plant` and the design's push scale: impulse push_scale_N × 1 s over

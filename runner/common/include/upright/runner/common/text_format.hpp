@@ -13,6 +13,10 @@ namespace upright::runner {
 // holds a comma, a double quote, CR or LF, with each double quote doubled; as is otherwise.
 void AppendCsvField(std::string* out, std::string_view text);
 
+// `text` with & < > " ' replaced by entity references, for XML or HTML element content and
+// attribute values (the report's page, a tuned <controller> element).
+std::string XmlEscaped(std::string_view text);
+
 // A yes/no cell of every CSV file: "true" or "false".
 const char* CsvBool(bool value);
 
