@@ -278,9 +278,10 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   j.Number("yaw_ki_Nm_per_rad", g.yaw_ki_Nm_per_rad);
   j.Number("max_tilt_ref_rad", g.max_tilt_ref_rad);
   j.EndObject();
-  // Where the rule placed the poles: the request's pid_poles, and what they came to in rad/s.
+  // Where the rule placed the poles: the request's pid_poles, and what they came to in rad/s
+  // ("poles" is the closed loop's, as for every controller).
   const design::PidPoles& poles = d.request.pid_poles;
-  j.BeginObject("poles");
+  j.BeginObject("pole_choices");
   j.Number("tilt_pole_factor", poles.tilt_pole_factor);
   j.Number("tilt_damping", poles.tilt_damping);
   j.Number("speed_pole_factor", poles.speed_pole_factor);
