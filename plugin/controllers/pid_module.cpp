@@ -7,6 +7,7 @@
 #include <cmath>
 #include <memory>
 #include <sstream>
+#include <string>
 
 #include "kit/abi_model.hpp"
 #include "kit/command_limit.hpp"
@@ -28,10 +29,11 @@ class PidController {
                                                                     upright_create_result* result) {
     ConfigReader reader(context.config);
     const CommonConfig config = ReadCommonConfig(&reader, context, /*voltage_allowed=*/false);
+    const design::PidPoles poles = ReadPoles(&reader);
     if (auto read = reader.Finish(); !read) return Failure(read.error());
     const design::LinearModel plant =
         LinearFromAbi(context.linear_abi, context.robot_abi, design::InputKind::kTorque);
-    const design::PidGains gains = design::TunePid(plant, config.weights.max_tilt_deg);
+    const design::PidGains gains = design::TunePid(plant, poles, config.weights.max_tilt_deg);
     const double all[] = {gains.tilt_kp_Nm_per_rad,   gains.tilt_kd_Nm_s_per_rad,
                           gains.speed_kp_rad_per_m_s, gains.speed_ki_rad_per_m,
                           gains.yaw_kp_Nm_s_per_rad,  gains.yaw_ki_Nm_per_rad};
@@ -66,6 +68,28 @@ class PidController {
     source_.Reset();
     tracker_.Reset();
     speed_integral_m_ = yaw_integral_rad_ = 0;
+  }
+
+  // The pole choices of the tuning rule (design::PidPoles), each key its field, defaults the
+  // rule's; a set PidPoles::Validate refuses goes to the reader in the keys' terms
+  // ("speed_pole_factor = 1: must be at most half of tilt_pole_factor = 1 (...)").
+  static design::PidPoles ReadPoles(ConfigReader* reader) {
+    design::PidPoles poles;
+    reader->Number("tilt_pole_factor", NumberRule::kPositive, &poles.tilt_pole_factor);
+    reader->Number("tilt_damping", NumberRule::kPositive, &poles.tilt_damping);
+    reader->Number("speed_pole_factor", NumberRule::kPositive, &poles.speed_pole_factor);
+    reader->Number("speed_damping", NumberRule::kPositive, &poles.speed_damping);
+    reader->Number("yaw_pole_factor", NumberRule::kPositive, &poles.yaw_pole_factor);
+    if (Status valid = poles.Validate(); !valid) {
+      std::string why = valid.error();
+      const std::string prefix = "PidPoles::";
+      if (why.rfind(prefix, 0) == 0) why.erase(0, prefix.size());
+      if (const auto comma = why.find(", must"); comma != std::string::npos) {
+        why.replace(comma, 1, ":");
+      }
+      reader->Refuse(why);
+    }
+    return poles;
   }
 
   // The cascade of pid.hpp, on the speed reference as limited in acceleration:

@@ -278,6 +278,19 @@ std::string Json(const model::RobotModel& model, const DesignSet& d) {
   j.Number("yaw_ki_Nm_per_rad", g.yaw_ki_Nm_per_rad);
   j.Number("max_tilt_ref_rad", g.max_tilt_ref_rad);
   j.EndObject();
+  // Where the rule placed the poles: the request's pid_poles, and what they came to in rad/s
+  // ("poles" is the closed loop's, as for every controller).
+  const design::PidPoles& poles = d.request.pid_poles;
+  j.BeginObject("pole_choices");
+  j.Number("tilt_pole_factor", poles.tilt_pole_factor);
+  j.Number("tilt_damping", poles.tilt_damping);
+  j.Number("speed_pole_factor", poles.speed_pole_factor);
+  j.Number("speed_damping", poles.speed_damping);
+  j.Number("yaw_pole_factor", poles.yaw_pole_factor);
+  j.Number("tilt_bandwidth_rad_s", g.tilt_bandwidth_rad_s);
+  j.Number("speed_bandwidth_rad_s", g.speed_bandwidth_rad_s);
+  j.Number("yaw_bandwidth_rad_s", g.yaw_bandwidth_rad_s);
+  j.EndObject();
   j.EndObject();
   j.EndObject();
   return j.text();
@@ -522,6 +535,14 @@ void PrintText(const model::RobotModel& model, const DesignSet& d, bool tilt_giv
         Figure(g.tilt_kp_Nm_per_rad).c_str(), Figure(g.tilt_kd_Nm_s_per_rad).c_str(),
         Figure(g.speed_kp_rad_per_m_s).c_str(), Figure(g.speed_ki_rad_per_m).c_str(),
         Figure(g.yaw_kp_Nm_s_per_rad).c_str(), Figure(g.yaw_ki_Nm_per_rad).c_str());
+    const design::PidPoles& p = d.request.pid_poles;
+    std::printf(
+        "poles placed: tilt pair %s rad/s (%s × fall rate), damping %s; speed pair %s rad/s "
+        "(%s ×), damping %s; yaw loop %s rad/s (%s ×)\n",
+        Figure(g.tilt_bandwidth_rad_s).c_str(), Figure(p.tilt_pole_factor).c_str(),
+        Figure(g.tilt_damping).c_str(), Figure(g.speed_bandwidth_rad_s).c_str(),
+        Figure(p.speed_pole_factor).c_str(), Figure(g.speed_damping).c_str(),
+        Figure(g.yaw_bandwidth_rad_s).c_str(), Figure(p.yaw_pole_factor).c_str());
   }
   std::printf(
       "\nLinear-model figures only: check them on the plant (upright run) and on hardware "
@@ -538,6 +559,11 @@ constexpr std::pair<const char*, const char*> kFlags[] = {
     {"DesignWeights::max_yaw_deg", "--max-yaw-deg"},
     {"DesignWeights::max_yaw_rate_deg_s", "--max-yaw-rate-deg-s"},
     {"DesignWeights::max_input_fraction", "--max-input-fraction"},
+    {"PidPoles::tilt_pole_factor", "--tilt-pole-factor"},
+    {"PidPoles::tilt_damping", "--tilt-damping"},
+    {"PidPoles::speed_pole_factor", "--speed-pole-factor"},
+    {"PidPoles::speed_damping", "--speed-damping"},
+    {"PidPoles::yaw_pole_factor", "--yaw-pole-factor"},
 };
 
 // "DesignWeights::max_tilt_deg = -1, must be > 0" as the user typed it:

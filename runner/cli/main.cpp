@@ -86,6 +86,23 @@ void AddDesignOptions(CLI::App* cmd, upright::cli::DesignOptions* o) {
   cmd->add_option("--max-input-fraction", w.max_input_fraction,
                   "Weight: acceptable wheel input, as a fraction of stall torque or supply")
       ->capture_default_str();
+  auto& poles = r.pid_poles;
+  cmd->add_option("--tilt-pole-factor", poles.tilt_pole_factor,
+                  "PID: the tilt pair's natural frequency over the fall rate, > 0")
+      ->capture_default_str();
+  cmd->add_option("--tilt-damping", poles.tilt_damping,
+                  "PID: the tilt pair's damping ratio, in [0.2, 1]")
+      ->capture_default_str();
+  cmd->add_option("--speed-pole-factor", poles.speed_pole_factor,
+                  "PID: the speed pair's natural frequency over the fall rate, at most half the "
+                  "tilt pole factor")
+      ->capture_default_str();
+  cmd->add_option("--speed-damping", poles.speed_damping,
+                  "PID: the speed pair's damping ratio, in [0.2, 1]")
+      ->capture_default_str();
+  cmd->add_option("--yaw-pole-factor", poles.yaw_pole_factor,
+                  "PID: the yaw-rate loop's crossover over the fall rate, > 0")
+      ->capture_default_str();
   cmd->footer(
       "Each controller gets a status: ok; designed but unstable as the module samples it at the "
       "rate; failed (with the reason); or not offered for the input (PID with voltage).\n"

@@ -56,8 +56,10 @@ CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* o) {
       "Default objective: 1 x max_tilt_deg + 10 x max_drift_m (means over the runs); any run "
       "that does not survive scores 1e6 x (1 + the share of time lost). Default knobs: lqr and "
       "lqg max_tilt_deg 0.5-15, max_drift_m 0.05-5, max_input_fraction 0.05-1; hinf gamma_factor "
-      "1.05-20, max_drift_m, max_input_fraction; pid max_tilt_deg, tilt_filter_s 0.05-5 (all "
-      "log scale). Tune files: scenarios/README.md, \"Tune files\".");
+      "1.05-20, max_drift_m, max_input_fraction; pid tilt_pole_factor 1-6, speed_pole_factor "
+      "0.1-1, max_tilt_deg, tilt_filter_s 0.05-5 (all log scale); a setting the controller "
+      "refuses scores as one whose runs all fell at the start. Tune files: scenarios/README.md, "
+      "\"Tune files\".");
   return cmd;
 }
 

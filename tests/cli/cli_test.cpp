@@ -349,6 +349,17 @@ TEST(Cli, DesignJsonCarriesTheDocumentedKeys) {
   EXPECT_GT(NumberAt(push, "peak_N"), 0);
   EXPECT_EQ(NumberAt(push, "height_m"), NumberAt(json, "push_height_m"));
   EXPECT_GT(NumberAt(At(json, "lqg"), "estimator_fastest_1_s"), 0);
+  // The PID's pole choices, the rule's defaults, and the pairs' frequencies they give.
+  const Json& choices = At(At(json, "pid"), "pole_choices");
+  const double fall_rate = NumberAt(json, "fall_rate_1_s");
+  EXPECT_EQ(NumberAt(choices, "tilt_pole_factor"), 2);
+  EXPECT_EQ(NumberAt(choices, "tilt_damping"), 0.7);
+  EXPECT_EQ(NumberAt(choices, "speed_pole_factor"), 1.0 / 3);
+  EXPECT_EQ(NumberAt(choices, "speed_damping"), 0.9);
+  EXPECT_EQ(NumberAt(choices, "yaw_pole_factor"), 1);
+  EXPECT_NEAR(NumberAt(choices, "tilt_bandwidth_rad_s"), 2 * fall_rate, 1e-12 * fall_rate);
+  EXPECT_NEAR(NumberAt(choices, "speed_bandwidth_rad_s"), fall_rate / 3, 1e-12 * fall_rate);
+  EXPECT_NEAR(NumberAt(choices, "yaw_bandwidth_rad_s"), fall_rate, 1e-12 * fall_rate);
   const Json& aware = At(json, "lqr_delay_aware");
   EXPECT_TRUE(BoolAt(aware, "ok"));
   StringAt(aware, "message");
@@ -515,6 +526,34 @@ TEST(Cli, DesignRejectsBadWeightsAsBadInput) {
   EXPECT_EQ(r.exit_code, 2) << r.output;
   EXPECT_NE(r.output.find("--max-tilt-deg = -1: must be > 0"), std::string::npos) << r.output;
   EXPECT_EQ(r.output.find("DesignWeights"), std::string::npos) << r.output;
+}
+
+TEST(Cli, DesignPlacesThePidPolesItsFlagsAskForAndRefusesTheRestByFlag) {
+  const Result r = RunUpright(
+      "design --json --tilt-pole-factor 3 --speed-pole-factor 0.5 " + Models() + "courier.xml", "",
+      "2>/dev/null");
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  const Json json = Json::parse(r.output, nullptr, /*allow_exceptions=*/false);
+  ASSERT_TRUE(json.is_object()) << r.output;
+  const Json& choices = At(At(json, "pid"), "pole_choices");
+  const double fall_rate = NumberAt(json, "fall_rate_1_s");
+  EXPECT_EQ(NumberAt(choices, "tilt_pole_factor"), 3);
+  EXPECT_EQ(NumberAt(choices, "speed_pole_factor"), 0.5);
+  EXPECT_NEAR(NumberAt(choices, "tilt_bandwidth_rad_s"), 3 * fall_rate, 1e-12 * fall_rate);
+  EXPECT_NEAR(NumberAt(choices, "speed_bandwidth_rad_s"), fall_rate / 2, 1e-12 * fall_rate);
+  const Result text = RunUpright("design --tilt-pole-factor 3 " + Models() + "courier.xml");
+  EXPECT_NE(text.output.find("poles placed: tilt pair "), std::string::npos) << text.output;
+  EXPECT_NE(text.output.find("(3 × fall rate), damping 0.7"), std::string::npos) << text.output;
+  for (const auto& [args, expected] :
+       {std::pair<std::string, std::string>{"--speed-pole-factor 2",
+                                            "--speed-pole-factor = 2: must be at most half of "
+                                            "tilt_pole_factor = 2"},
+        {"--tilt-damping 0.1", "--tilt-damping = 0.1: must be in [0.2, 1]"},
+        {"--yaw-pole-factor 0", "--yaw-pole-factor = 0: must be > 0 and finite"}}) {
+    const Result refused = RunUpright("design " + args + " " + Models() + "courier.xml");
+    EXPECT_EQ(refused.exit_code, 2) << args << "\n" << refused.output;
+    EXPECT_EQ(refused.output.rfind(expected, 0), 0u) << args << "\n" << refused.output;
+  }
 }
 
 TEST(Cli, DesignRefusesARateOfZeroByItsFlag) {

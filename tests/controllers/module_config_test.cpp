@@ -95,6 +95,36 @@ TEST(PidModule, RefusesVoltageCommands) {
       << error;
 }
 
+TEST(PidModule, RefusesPoleChoicesOutsideTheRuleInTheKeysTerms) {
+  // design::PidPoles::Validate's rules, worded with the module's keys.
+  const std::pair<Config, std::string> cases[] = {
+      {{{"tilt_pole_factor", "0"}}, "tilt_pole_factor = 0: must be > 0"},
+      {{{"speed_pole_factor", "1"}, {"tilt_pole_factor", "1.5"}},
+       "speed_pole_factor = 1: must be at most half of tilt_pole_factor = 1.5 (the speed loop "
+       "slower than the tilt loop it steers)"},
+      {{{"speed_pole_factor", "1.5"}},
+       "speed_pole_factor = 1.5: must be at most half of "
+       "tilt_pole_factor = 2"},
+      {{{"tilt_damping", "0.1"}}, "tilt_damping = 0.1: must be in [0.2, 1]"},
+      {{{"speed_damping", "2"}}, "speed_damping = 2: must be in [0.2, 1]"},
+      {{{"yaw_pole_factor", "fast"}}, "yaw_pole_factor = fast: must be a finite decimal number"},
+  };
+  for (const auto& [config, message] : cases) {
+    const std::string error = Refusal("pid", config);
+    EXPECT_NE(error.find("status 2"), std::string::npos) << error;
+    EXPECT_NE(error.find(message), std::string::npos) << error;
+  }
+  // The pole keys are the pid module's alone.
+  EXPECT_NE(Refusal("lqr", {{"tilt_pole_factor", "3"}}).find("unknown key tilt_pole_factor"),
+            std::string::npos);
+  EXPECT_TRUE(Succeeded(CreateBuiltin("pid", DemoRobot("courier"),
+                                      {{"tilt_pole_factor", "1"},
+                                       {"speed_pole_factor", "0.5"},
+                                       {"tilt_damping", "0.2"},
+                                       {"speed_damping", "1"}},
+                                      false)));
+}
+
 TEST(HinfModule, RefusesAGammaAtOrBelowTheOptimum) {
   const std::string error = Refusal("hinf", {{"gamma", "0.001"}});
   EXPECT_NE(error.find("status 2"), std::string::npos) << error;

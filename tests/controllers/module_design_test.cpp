@@ -201,6 +201,35 @@ TEST_P(DemoRobotDesign, PidAppliesItsTunedTiltGains) {
   ExpectCommand(tick, Eigen::Vector2d(each + speed_term, each + speed_term));
 }
 
+TEST_P(DemoRobotDesign, PidPlacesThePolesItsSettingsAskFor) {
+  // The pole keys reach the rule: the module's first command is that of the gains
+  // design::DesignAll computes for the same PidPoles, and not that of the defaults.
+  design::DesignRequest request;
+  request.pid_poles = {.tilt_pole_factor = 3.5,
+                       .tilt_damping = 0.5,
+                       .speed_pole_factor = 0.25,
+                       .speed_damping = 0.8,
+                       .yaw_pole_factor = 2};
+  const design::PidGains g = design::DesignAll(model_, request).pid.gains;
+  const FirstTick tick = RunFirstTick("pid", model_,
+                                      {{"tilt_pole_factor", "3.5"},
+                                       {"tilt_damping", "0.5"},
+                                       {"speed_pole_factor", "0.25"},
+                                       {"speed_damping", "0.8"},
+                                       {"yaw_pole_factor", "2"}});
+  const double each = (g.tilt_kp_Nm_per_rad * tick.truth(design::kPitch) +
+                       g.tilt_kd_Nm_s_per_rad * tick.truth(design::kPitchRate)) /
+                      2;
+  const double speed_term =
+      g.tilt_kp_Nm_per_rad *
+      (g.speed_kp_rad_per_m_s + g.speed_ki_rad_per_m / model_.control_rate_hz) *
+      tick.truth(design::kXDot) / 2;
+  ExpectCommand(tick, Eigen::Vector2d(each + speed_term, each + speed_term));
+  // The defaults' command differs by far more than the tolerance: the tilt gain is not theirs.
+  EXPECT_GT(std::abs(g.tilt_kp_Nm_per_rad - design_.pid.gains.tilt_kp_Nm_per_rad),
+            0.1 * design_.pid.gains.tilt_kp_Nm_per_rad);
+}
+
 INSTANTIATE_TEST_SUITE_P(Robots, DemoRobotDesign, ::testing::Values("courier", "tabletop"));
 
 }  // namespace

@@ -45,7 +45,8 @@ class PidWindup : public ::testing::Test {
 
   model::RobotModel model_ = DemoRobot("courier");
   design::LinearModel plant_ = design::Linearise(model_, design::InputKind::kTorque);
-  design::PidGains gains_ = design::TunePid(plant_, design::DesignWeights{}.max_tilt_deg);
+  design::PidGains gains_ =
+      design::TunePid(plant_, design::PidPoles{}, design::DesignWeights{}.max_tilt_deg);
   double stall_Nm_ = design::InputLimit(model_, design::InputKind::kTorque);
   double period_s_ = 1 / model_.control_rate_hz;
   std::unique_ptr<ControllerHost> host_;

@@ -20,3 +20,6 @@ upright_test(upright_design_set_test
 upright_test(upright_delayed_loop_test
   SOURCES delayed_loop_test.cpp
   LIBS upright::design upright::model)
+upright_test(upright_pid_poles_test
+  SOURCES pid_poles_test.cpp
+  LIBS upright::design upright::model)

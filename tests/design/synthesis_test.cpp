@@ -260,7 +260,7 @@ TEST(Synthesis, PidCascadePlacesTheClosedLoopPolesItAimedAt) {
   // −ω_y/2 (derived). The analysed loop (x and ψ left out: the cascade does not read them) must
   // have exactly these six poles.
   const LinearModel plant = Linearise(Demo("courier.xml"), InputKind::kTorque);
-  const PidGains g = TunePid(plant, 3);
+  const PidGains g = TunePid(plant, PidPoles{}, 3);
   Measurement meas;
   LinearController ctrl;
   PidAsLinearController(g, &meas, &ctrl);

@@ -31,7 +31,7 @@ TEST(TunePlan, TakesEveryControllerWithItsDefaultKnobs) {
   ASSERT_EQ(plan->controllers.size(), 4u);
   EXPECT_EQ(plan->controllers[1].name, "hinf");
   EXPECT_EQ(plan->controllers[1].knobs.front().setting, "gamma_factor");
-  EXPECT_EQ(plan->controllers[3].knobs.size(), 2u);  // pid: tilt weight, tilt filter
+  EXPECT_EQ(plan->controllers[3].knobs.size(), 4u);  // pid: two pole factors, clamp, filter
   EXPECT_EQ(plan->runs_per_evaluation, 2u);          // one scenario, two seeds
   EXPECT_EQ(plan->evaluations, 20);                  // ⌊41 / 2⌋
   // Three held-out seeds by default, after the scenario's largest.

@@ -124,6 +124,8 @@ Status DesignRequest::Validate() const {
     why << "DesignRequest::push_height_m = " << push_height_m << ", must be finite";
   } else if (Status valid_weights = weights.Validate(); !valid_weights) {
     why << valid_weights.error();
+  } else if (Status valid_poles = pid_poles.Validate(); !valid_poles) {
+    why << valid_poles.error();
   }
   if (why.tellp() == 0) return {};
   return Failure(why.str());
@@ -276,7 +278,7 @@ DesignSet DesignAll(const model::RobotModel& model, const DesignRequest& request
     set.pid.supported = false;
     set.pid.message = "the PID cascade is tuned for torque input only";
   } else {
-    set.pid.gains = TunePid(plant, req.weights.max_tilt_deg);
+    set.pid.gains = TunePid(plant, req.pid_poles, req.weights.max_tilt_deg);
     Measurement meas;
     LinearController ctrl;
     PidAsLinearController(set.pid.gains, &meas, &ctrl);

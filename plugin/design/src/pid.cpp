@@ -2,6 +2,7 @@
 
 #include <cmath>
 #include <numbers>
+#include <sstream>
 
 #include "upright/model/conventions.hpp"
 
@@ -17,22 +18,55 @@ Eigen::Vector4d TwoPairs(double w1, double z1, double w2, double z2) {
 
 }  // namespace
 
-PidGains TunePid(const LinearModel& plant, double max_tilt_deg) {
+Status PidPoles::Validate() const {
+  // Any pairs can be placed on the linear model, but the gains read as a cascade only while the
+  // speed loop is the slower one: it sets the tilt reference the tilt loop follows, and the tilt
+  // reference clamp governs the speed loop alone. A factor of 2 at least between the pairs keeps
+  // them apart (cascades are commonly tuned 3 to 10 times apart, common practice; the default
+  // rule has 6). Damping is kept within [0.2, 1]: below 0.2 a pair overshoots a step by more than
+  // half (e^(−πζ/√(1−ζ²)) = 0.53), and above 1 a pair splits into two real poles, the slower of
+  // which would reach into the other pair's band and void the separation the rule keeps.
+  std::ostringstream why;
+  const auto damping_ok = [](double z) { return z >= 0.2 && z <= 1; };
+  if (!(tilt_pole_factor > 0) || !std::isfinite(tilt_pole_factor)) {
+    why << "PidPoles::tilt_pole_factor = " << tilt_pole_factor << ", must be > 0 and finite";
+  } else if (!(speed_pole_factor > 0) || !std::isfinite(speed_pole_factor)) {
+    why << "PidPoles::speed_pole_factor = " << speed_pole_factor << ", must be > 0 and finite";
+  } else if (!(speed_pole_factor <= tilt_pole_factor / 2)) {
+    why << "PidPoles::speed_pole_factor = " << speed_pole_factor
+        << ", must be at most half of tilt_pole_factor = " << tilt_pole_factor
+        << " (the speed loop slower than the tilt loop it steers)";
+  } else if (!damping_ok(tilt_damping)) {
+    why << "PidPoles::tilt_damping = " << tilt_damping << ", must be in [0.2, 1]";
+  } else if (!damping_ok(speed_damping)) {
+    why << "PidPoles::speed_damping = " << speed_damping << ", must be in [0.2, 1]";
+  } else if (!(yaw_pole_factor > 0) || !std::isfinite(yaw_pole_factor)) {
+    why << "PidPoles::yaw_pole_factor = " << yaw_pole_factor << ", must be > 0 and finite";
+  }
+  if (why.tellp() == 0) return {};
+  return Failure(why.str());
+}
+
+PidGains TunePid(const LinearModel& plant, const PidPoles& poles, double max_tilt_deg) {
   // The rule: the cascade's four gains are those of a state feedback u = k_ξ ξ + k_v v + k_θ θ +
   // k_ω θ̇ (ξ = ∫v, what the speed integrator holds) on the planar model, placing the closed-loop
-  // poles at two pairs — the tilt pair at ω = 2λ, ζ = 0.7 (twice as fast as the robot falls,
-  // well damped) and the speed pair at ω_s = λ/3, ζ_s = 0.9 (slow enough to stay apart from the
-  // tilt loop). Pole-placement rules of this kind are common practice for balancing robots; a
-  // cascade tuned loop by loop, ignoring that a wheel torque also drives the axle, is unstable
-  // on these robots. Per unit of the summed torque u = τ_L + τ_R:
+  // poles at two pairs — by default the tilt pair at ω = 2λ, ζ = 0.7 (twice as fast as the robot
+  // falls, well damped) and the speed pair at ω_s = λ/3, ζ_s = 0.9 (slow enough to stay apart
+  // from the tilt loop); PidPoles moves them. Pole-placement rules of this kind are common
+  // practice for balancing robots; a cascade tuned loop by loop, ignoring that a wheel torque
+  // also drives the axle, is unstable on these robots. Per unit of the summed torque
+  // u = τ_L + τ_R:
   //   ξ̇ = v, v̇ = a_xθ θ + b_x u, θ̈ = λ² θ + b_θ u.
   const double lambda = plant.fall_rate_1_s;
   const double b_theta = plant.B(kPitchRate, model::kLeft);
   const double a_x_theta = plant.A(kXDot, kPitch), b_x = plant.B(kXDot, model::kLeft);
   const double b_psi = plant.B(kYawRate, model::kRight);
   PidGains g;
-  g.tilt_bandwidth_rad_s = 2 * lambda;
-  g.speed_bandwidth_rad_s = lambda / 3;
+  g.tilt_bandwidth_rad_s = poles.tilt_pole_factor * lambda;
+  // λ divided by the factor's reciprocal: the default factor 1/3 gives λ/3 to the last bit.
+  g.speed_bandwidth_rad_s = lambda / (1 / poles.speed_pole_factor);
+  g.tilt_damping = poles.tilt_damping;
+  g.speed_damping = poles.speed_damping;
   Eigen::Matrix4d a;
   a << 0, 1, 0, 0,  //
       0, 0, a_x_theta, 0,  //
@@ -42,7 +76,8 @@ PidGains TunePid(const LinearModel& plant, double max_tilt_deg) {
   // Ackermann's formula (handbook, from memory): u = −K z with K = [0 0 0 1] 𝒞⁻¹ φ(A).
   Eigen::Matrix4d controllability;
   controllability << b, a * b, a * a * b, a * a * a * b;
-  const Eigen::Vector4d c = TwoPairs(g.tilt_bandwidth_rad_s, 0.7, g.speed_bandwidth_rad_s, 0.9);
+  const Eigen::Vector4d c =
+      TwoPairs(g.tilt_bandwidth_rad_s, g.tilt_damping, g.speed_bandwidth_rad_s, g.speed_damping);
   const Eigen::Matrix4d a2 = a * a;
   const Eigen::Matrix4d phi =
       a2 * a2 + c(0) * a2 * a + c(1) * a2 + c(2) * a + c(3) * Eigen::Matrix4d::Identity();
@@ -56,11 +91,12 @@ PidGains TunePid(const LinearModel& plant, double max_tilt_deg) {
   g.speed_ki_rad_per_m = k(0) / k(2);
   g.max_tilt_ref_rad = max_tilt_deg * std::numbers::pi / 180;
   // Yaw-rate loop, PI on ψ̈ = b_ψ τ_diff (common practice): kp = ω_y / b_ψ alone would give a
-  // first-order response at ω_y = λ; the integral, ki = kp ω_y / 4, trims offsets and makes the
-  // closed loop ω_y (s + ω_y/4) / (s + ω_y/2)², a critically damped double pole at −λ/2 with a
-  // zero at −λ/4. Its step response is 1 − e^{−at}(1 − at), a = λ/2: the zero overshoots it by
-  // e⁻² ≈ 13.5 % at t = 4/λ (derived by hand); the open loop crosses over at 1.03 λ.
-  g.yaw_bandwidth_rad_s = lambda;
+  // first-order response at ω_y (by default λ); the integral, ki = kp ω_y / 4, trims offsets and
+  // makes the closed loop ω_y (s + ω_y/4) / (s + ω_y/2)², a critically damped double pole at
+  // −ω_y/2 with a zero at −ω_y/4. Its step response is 1 − e^{−at}(1 − at), a = ω_y/2: the zero
+  // overshoots it by e⁻² ≈ 13.5 % at t = 4/ω_y (derived by hand); the open loop crosses over at
+  // 1.03 ω_y.
+  g.yaw_bandwidth_rad_s = poles.yaw_pole_factor * lambda;
   g.yaw_kp_Nm_s_per_rad = g.yaw_bandwidth_rad_s / b_psi;
   g.yaw_ki_Nm_per_rad = g.yaw_kp_Nm_s_per_rad * g.yaw_bandwidth_rad_s / 4;
   return g;

@@ -30,6 +30,7 @@ struct DesignRequest {
   double push_height_m = -1;    // < 0: at the lumped COM height
   double push_scale_N = 0;      // w = 1 means this push; 0 = 10 % of the robot's weight
   DesignWeights weights;        // fields left to the robot resolved by WeightsForRobot
+  PidPoles pid_poles;           // where the PID rule places its poles (pid.hpp)
   // The first broken rule ("DesignRequest::gamma_factor = 1, must be > 1 (or 0 ...)"); success
   // when there is none.
   Status Validate() const;
