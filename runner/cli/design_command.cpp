@@ -535,14 +535,14 @@ void PrintText(const model::RobotModel& model, const DesignSet& d, bool tilt_giv
         Figure(g.tilt_kp_Nm_per_rad).c_str(), Figure(g.tilt_kd_Nm_s_per_rad).c_str(),
         Figure(g.speed_kp_rad_per_m_s).c_str(), Figure(g.speed_ki_rad_per_m).c_str(),
         Figure(g.yaw_kp_Nm_s_per_rad).c_str(), Figure(g.yaw_ki_Nm_per_rad).c_str());
-    const design::PidPoles& p = d.request.pid_poles;
+    const design::PidPoles& poles = d.request.pid_poles;
     std::printf(
         "poles placed: tilt pair %s rad/s (%s × fall rate), damping %s; speed pair %s rad/s "
         "(%s ×), damping %s; yaw loop %s rad/s (%s ×)\n",
-        Figure(g.tilt_bandwidth_rad_s).c_str(), Figure(p.tilt_pole_factor).c_str(),
+        Figure(g.tilt_bandwidth_rad_s).c_str(), Figure(poles.tilt_pole_factor).c_str(),
         Figure(g.tilt_damping).c_str(), Figure(g.speed_bandwidth_rad_s).c_str(),
-        Figure(p.speed_pole_factor).c_str(), Figure(g.speed_damping).c_str(),
-        Figure(g.yaw_bandwidth_rad_s).c_str(), Figure(p.yaw_pole_factor).c_str());
+        Figure(poles.speed_pole_factor).c_str(), Figure(g.speed_damping).c_str(),
+        Figure(g.yaw_bandwidth_rad_s).c_str(), Figure(poles.yaw_pole_factor).c_str());
   }
   std::printf(
       "\nLinear-model figures only: check them on the plant (upright run) and on hardware "
