@@ -217,6 +217,10 @@ TEST(EvaluationLog, FindsAnEvaluationOnlyWithTheSameValuesBitForBit) {
   EXPECT_EQ((*log)->Find("lqr", EvaluationStage::kLocal, 6, e.values), nullptr);
   EXPECT_EQ((*log)->Find("lqr", EvaluationStage::kGlobal, 7, e.values), nullptr);
   EXPECT_EQ((*log)->Find("pid", EvaluationStage::kLocal, 7, e.values), nullptr);
+  // A tune started anew replaces the log.
+  log->reset();
+  ASSERT_TRUE(Succeeded(EvaluationLog::Start(path, header)));
+  EXPECT_EQ(ReadFile(path), header.Line());
 }
 
 TEST(EvaluationLog, RefusesAMissingLogAndABrokenLineWithItsLine) {
