@@ -11,6 +11,7 @@
 #include "log.hpp"
 #include "progress.hpp"
 #include "upright/base/number_text.hpp"
+#include "upright/runner/run/batch.hpp"
 #include "upright/runner/tables/make_results_folder.hpp"
 #include "upright/runner/tune/evaluation_log.hpp"
 #include "upright/runner/tune/tune.hpp"
@@ -38,6 +39,11 @@ CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* o) {
       ->capture_default_str();
   cmd->add_option("--jobs", o->jobs, "Runs in parallel (0: one per core)")
       ->check(CLI::Range(0, 1024))
+      ->capture_default_str();
+  cmd->add_option("--seeds", o->seed_count,
+                  "Noise seeds 1..N for every scenario in the search (0: each file's own); the "
+                  "held-out seeds follow the largest")
+      ->check(CLI::Range(0, 100000))
       ->capture_default_str();
   cmd->add_option("--holdout", o->holdout_seeds,
                   "Held-out seeds per scenario (the N after its own): the default and the tuned "
@@ -68,6 +74,7 @@ int RunTune(const TuneCommandOptions& options) {
       Log().Error(loaded.error());
       return kExitBadInput;
     }
+    loaded->seeds = runner::RunSeeds(*loaded, options.seed_count);
     scenarios.push_back(std::move(*loaded));
   }
   runner::TuneSpec spec;
@@ -181,7 +188,7 @@ int RunTune(const TuneCommandOptions& options) {
                     FixedText(result.wall_s, 1).c_str(), result.jobs));
   Log().Info("tables: " + out_dir + "/tune.md (with each tuned <controller> element), " + out_dir +
              "/tune.csv; evaluation log " + log_path);
-  Log().Caution(kCaution);
+  if (options.caution) Log().Caution(kCaution);
   return any_failed ? kExitFailed : kExitOk;
 }
 

@@ -4,6 +4,7 @@
 #include <atomic>
 #include <chrono>
 #include <cmath>
+#include <iterator>
 #include <limits>
 #include <mutex>
 #include <span>
@@ -131,9 +132,12 @@ class ControllerTuner {
   std::size_t RunsPerEvaluation() const { return durations_.size(); }
 
   // Scores each setting at `stage`: as the evaluation log holds it (the same index, the same
-  // values bit for bit), or played and then appended to the log.
+  // values bit for bit), or played and then appended to the log. With `kept`, every setting is
+  // played (its runs are wanted) and handed back as Play hands them; one the log holds already
+  // is not appended again.
   std::vector<EvaluationScore> Evaluate(const std::vector<std::vector<double>>& settings,
-                                        EvaluationStage stage) {
+                                        EvaluationStage stage,
+                                        std::vector<std::vector<RunResult>>* kept = nullptr) {
     const std::size_t first = next_index_;
     next_index_ += settings.size();
     std::vector<EvaluationScore> scores(settings.size());
@@ -142,7 +146,7 @@ class ControllerTuner {
     for (std::size_t p = 0; p < settings.size(); ++p) {
       const EvaluationScore* logged =
           log_ == nullptr ? nullptr : log_->Find(controller_.name, stage, first + p, settings[p]);
-      if (logged == nullptr) {
+      if (logged == nullptr || kept != nullptr) {
         played.push_back(p);
         to_play.push_back(settings[p]);
         continue;
@@ -152,12 +156,15 @@ class ControllerTuner {
       if (offer_best_) progress_->Offer(index_, logged->objective);
     }
     if (to_play.empty()) return scores;
-    const std::vector<EvaluationScore> fresh =
-        Play(to_play, [&](std::size_t q, const EvaluationScore& score) {
-          if (log_ != nullptr) {
-            log_->Append({controller_.name, stage, first + played[q], to_play[q], score});
+    const std::vector<EvaluationScore> fresh = Play(
+        to_play,
+        [&](std::size_t q, const EvaluationScore& score) {
+          const std::size_t i = first + played[q];
+          if (log_ != nullptr && log_->Find(controller_.name, stage, i, to_play[q]) == nullptr) {
+            log_->Append({controller_.name, stage, i, to_play[q], score});
           }
-        });
+        },
+        kept);
     for (std::size_t q = 0; q < played.size(); ++q) scores[played[q]] = fresh[q];
     return scores;
   }
@@ -165,10 +172,13 @@ class ControllerTuner {
  private:
   // Plays each setting (empty: the scenarios' own) on every scenario and seed, all the runs of
   // the batch in parallel; their scores in order. `scored(p, score)` is called on the thread
-  // that played setting p's last run, as soon as its runs are all done.
+  // that played setting p's last run, as soon as its runs are all done. With `kept`, the runs are
+  // traced (at the runner's default rate) and handed back there, per setting, scenario by
+  // scenario, seed by seed.
   std::vector<EvaluationScore> Play(
       const std::vector<std::vector<double>>& settings,
-      const std::function<void(std::size_t, const EvaluationScore&)>& scored) {
+      const std::function<void(std::size_t, const EvaluationScore&)>& scored,
+      std::vector<std::vector<RunResult>>* kept) {
     // Scenario copies per setting and scenario, then one task per run.
     std::vector<Scenario> cut;
     for (const auto& values : settings) {
@@ -191,7 +201,7 @@ class ControllerTuner {
       }
     }
     RunOptions run_options;
-    run_options.trace_rate_hz = 0;
+    if (kept == nullptr) run_options.trace_rate_hz = 0;
     std::vector<RunResult> runs(tasks.size());
     const std::size_t per = RunsPerEvaluation();
     std::vector<EvaluationScore> scores(settings.size());
@@ -213,6 +223,13 @@ class ControllerTuner {
         [&] { progress_->RunDone(); });
     for (const EvaluationScore& score : scores) {
       if (offer_best_) progress_->Offer(index_, score.objective);
+    }
+    if (kept != nullptr) {
+      kept->clear();
+      for (std::size_t p = 0; p < settings.size(); ++p) {
+        kept->emplace_back(std::make_move_iterator(runs.begin() + p * per),
+                           std::make_move_iterator(runs.begin() + (p + 1) * per));
+      }
     }
     return scores;
   }
@@ -267,7 +284,8 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
   tune.evaluations.push_back(
       {EvaluationStage::kDefault,
        {},
-       tuner.Evaluate({std::vector<double>{}}, EvaluationStage::kDefault).front()});
+       tuner.Evaluate({std::vector<double>{}}, EvaluationStage::kDefault).front(),
+       {}});
 
   SearchOptions search;
   search.dimensions = controller.knobs.size();
@@ -290,7 +308,7 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
         tuner.Evaluate(settings, tune.evaluations.size() == 1 ? EvaluationStage::kGlobal
                                                               : EvaluationStage::kLocal);
     for (std::size_t i = 0; i < points.size(); ++i) {
-      tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i]});
+      tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i], {}});
       scores.push_back(AsPointScore(evaluated[i]));
     }
     return scores;
@@ -320,11 +338,14 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
     ControllerTuner held_out(scenarios, plan.holdout_seeds, plan, index, per_scenario.data(), jobs,
                              progress);
     held_out.KeepOutOfTheBest();
+    // Played even on a resume: their runs, traces and all, make the ranking folders.
     held_out.LogTo(log);
+    std::vector<std::vector<RunResult>> runs;
     const std::vector<EvaluationScore> scores =
-        held_out.Evaluate({std::vector<double>{}, best_values}, EvaluationStage::kHeldOut);
-    tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0]});
-    tune.held_out.push_back({EvaluationStage::kHeldOut, best_values, scores[1]});
+        held_out.Evaluate({std::vector<double>{}, best_values}, EvaluationStage::kHeldOut, &runs);
+    tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0], std::move(runs[0])});
+    tune.held_out.push_back(
+        {EvaluationStage::kHeldOut, best_values, scores[1], std::move(runs[1])});
   }
   return tune;
 }
