@@ -303,6 +303,11 @@ TEST(EvaluationLog, RefusesTheLogOfAnotherSeedBudgetOrScenario) {
                        "budget is 9 here, 8 in the log"));
   EXPECT_TRUE(Contains(refusal(MakeTuneLogHeader(scenarios, options, *plan, "0.9.1")),
                        "version is 0.9.1 here, 0.9.0 in the log"));
+  // The scenario played on other seeds (--seeds).
+  std::vector<Scenario> reseeded = scenarios;
+  reseeded[0].seeds = {1, 2};
+  EXPECT_TRUE(Contains(refusal(MakeTuneLogHeader(reseeded, options, *plan, "0.9.0")),
+                       "seeds 1 is 1 2 here, 1 in the log"));
   // The same scenario shoved harder: its file's SHA-256 differs.
   const std::vector<Scenario> harder = {scenario_at("shove.xml", ShoveText("170"))};
   const auto scenario_field = std::find_if(header.fields.begin(), header.fields.end(),
@@ -382,12 +387,16 @@ TEST(TuneResume, GivesTheTablesOfAnUninterruptedTuneAndPlaysOnlyWhatWasNotLogged
     EXPECT_EQ(ReadFile(path), full_log) << cut.lines;
   }
 
-  // A whole log replays everything: nothing is played.
+  // A whole log replays the search: only the held-out evaluations are played, for their runs
+  // (two settings of two runs per controller), and they are not logged twice.
   auto log = EvaluationLog::Resume(path, tune.Header());
   ASSERT_TRUE(Succeeded(log));
   const TuneResult replayed = tune.Run(log->get());
-  EXPECT_EQ(replayed.played_runs, 0u);
+  EXPECT_EQ(replayed.played_runs, 2u * 2 * 2);
   EXPECT_EQ(TuneCsv(replayed), TuneCsv(full));
+  EXPECT_EQ(TuneMarkdown(replayed), TuneMarkdown(full));
+  log->reset();
+  EXPECT_EQ(ReadFile(path), full_log);
 }
 
 }  // namespace

@@ -268,6 +268,12 @@ TuneLogHeader MakeTuneLogHeader(const std::vector<Scenario>& scenarios, const Tu
   for (const Scenario& scenario : scenarios) {
     f.emplace_back("scenario", Sha256OfFile(scenario.path).value_or(""));
     f.emplace_back("robot", Sha256OfFile(scenario.model_path).value_or(""));
+    std::string seeds;
+    for (const std::uint64_t seed : scenario.seeds) {
+      if (!seeds.empty()) seeds += ' ';
+      seeds += std::to_string(seed);
+    }
+    f.emplace_back("seeds", seeds);
   }
   f.emplace_back("tune", plan.tune_path.empty() ? "-" : Sha256OfFile(plan.tune_path).value_or(""));
   for (const ControllerTunePlan& controller : plan.controllers) {

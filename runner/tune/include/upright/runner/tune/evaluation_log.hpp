@@ -2,7 +2,8 @@
 // tuned, then one line per evaluation appended and flushed as soon as it is scored, so a tune cut
 // short resumes where it stopped. Plain text, one record a line, fields separated by tabs:
 //   header:     upright-tune-log  format=1  version=...  controller=NAME...  budget=N  seed=N
-//               holdout=N  scenario=SHA-256  robot=SHA-256 (per scenario)  tune=SHA-256 or -
+//               holdout=N  scenario=SHA-256  robot=SHA-256  seeds=N N... (per scenario)
+//               tune=SHA-256 or -
 //               module=NAME:SHA-256 (per module file)
 //   evaluation: controller  stage  index  values  objective  runs  survived  worst  violation
 //               mean_metrics  failure
@@ -40,8 +41,8 @@ struct TuneLogHeader {
 };
 
 // The header of a tune of `scenarios` with `options` and `plan` by the program at `tool_version`:
-// the files' SHA-256 (an unreadable file hashes as ""), the controllers, budget, seed and
-// held-out seeds. The jobs are left out: they change nothing tuned.
+// the files' SHA-256 (an unreadable file hashes as ""), each scenario's seeds, the controllers,
+// budget, seed and held-out seeds. The jobs are left out: they change nothing tuned.
 TuneLogHeader MakeTuneLogHeader(const std::vector<Scenario>& scenarios, const TuneOptions& options,
                                 const TunePlan& plan, const std::string& tool_version);
 
