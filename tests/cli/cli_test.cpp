@@ -9,6 +9,7 @@
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <iterator>
 #include <nlohmann/json.hpp>
 #include <string>
 #include <utility>
@@ -846,6 +847,15 @@ TEST(Cli, DemoRunsTheWholeSuiteIntoResultsDemo) {
     scenarios += e.path().extension() == ".xml";
   }
   EXPECT_GE(CountFiles(out / "traces"), 4 * scenarios);
+  // The tune, with the four built-ins ranked at their best and as designed on held-out seeds.
+  EXPECT_TRUE(std::filesystem::is_regular_file(out / "tune" / "tune.md"));
+  for (const char* replay : {"tuned", "defaults"}) {
+    std::ifstream in(out / "tune" / replay / "ranking.csv");
+    std::string ranking((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    for (const char* controller : {",lqr,", ",hinf,", ",lqg,", ",pid,"}) {
+      EXPECT_NE(ranking.find(controller), std::string::npos) << replay << ": " << ranking;
+    }
+  }
 }
 
 // A one-controller shove of the courier, 2 s on one seed, for the tune tests.
