@@ -565,6 +565,30 @@ TEST(Cli, CheckAcceptsEveryDemoScenario) {
       << r.output;
 }
 
+// A ground whose mesh the physics engine cannot hold (it crashed in the run before `check`
+// refused it) is refused with its line, and nothing else in the file is blamed.
+TEST(Cli, CheckRefusesAGroundBeyondThePhysicsEnginesMeshLimit) {
+  const std::string demo = std::string(UPRIGHT_SOURCE_DIR) + "/scenarios/courier-curb-up.xml";
+  std::ifstream in(demo);
+  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  for (const auto& [from, to] : {std::pair<std::string, std::string>{"../models/", Models()},
+                                 {"<plateau length_m=\"10\"/>", "<plateau length_m=\"70000\"/>"}}) {
+    const auto at = text.find(from);
+    ASSERT_NE(at, std::string::npos) << from;
+    text.replace(at, from.size(), to);
+  }
+  const std::string path = WriteTemp("long-plateau.xml", text);
+  const Result r = RunUpright("check " + path);
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  // At 0.2 m cells: 260 pieces over the 52 m lead-in from −50 m, the curb, 350000 over the
+  // plateau and 1000 over the 200 m beyond, by 30 cells across its 6 m, two triangles each.
+  EXPECT_NE(r.output.find(path + LineOf(demo, "<ground") +
+                          " ground: Terrain: the profile's ground mesh would hold 21075660 "
+                          "triangles at 0.2 m cells"),
+            std::string::npos)
+      << r.output;
+}
+
 // A controller element the short scenario ends with: it lands on line 10.
 constexpr int kExtraControllerLine = 10;
 
