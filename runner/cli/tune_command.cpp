@@ -115,22 +115,26 @@ int RunTune(const TuneCommandOptions& options) {
              (plan.objective.bounds.empty() ? "" : ", subject to the bounds of " + plan.tune_path));
   Log().Info(Printf("  at most %zu run(s) into %s", plan.max_runs, out_dir.c_str()));
   // The evaluation log, written as the tune goes: replayed with --resume, otherwise replaced.
-  if (const Status made = options.resume ? Status{} : runner::MakeResultsFolder(out_dir); !made) {
-    Log().Error(made.error());
-    return kExitFailed;
-  }
   const std::string log_path = out_dir + "/" + runner::kEvaluationLogName;
-  const runner::TuneLogHeader header =
-      runner::MakeTuneLogHeader(scenarios, tune_options, plan, UPRIGHT_VERSION);
-  Result<std::unique_ptr<runner::EvaluationLog>> log =
-      options.resume ? runner::EvaluationLog::Resume(log_path, header)
-                     : runner::EvaluationLog::Start(log_path, header);
-  if (!log) {
-    Log().Error(log.error() + "\n(nothing was run)");
-    return options.resume ? kExitBadInput : kExitFailed;
-  }
-  if (options.resume) {
-    Log().Info(Printf("  resuming: %zu evaluation(s) in %s", (*log)->logged(), log_path.c_str()));
+  std::unique_ptr<runner::EvaluationLog> log;
+  if (options.evaluation_log || options.resume) {
+    if (const Status made = options.resume ? Status{} : runner::MakeResultsFolder(out_dir); !made) {
+      Log().Error(made.error());
+      return kExitFailed;
+    }
+    const runner::TuneLogHeader header =
+        runner::MakeTuneLogHeader(scenarios, tune_options, plan, UPRIGHT_VERSION);
+    Result<std::unique_ptr<runner::EvaluationLog>> opened =
+        options.resume ? runner::EvaluationLog::Resume(log_path, header)
+                       : runner::EvaluationLog::Start(log_path, header);
+    if (!opened) {
+      Log().Error(opened.error() + "\n(nothing was run)");
+      return options.resume ? kExitBadInput : kExitFailed;
+    }
+    log = std::move(*opened);
+    if (options.resume) {
+      Log().Info(Printf("  resuming: %zu evaluation(s) in %s", log->logged(), log_path.c_str()));
+    }
   }
   ProgressLine progress_line({.label = "upright tune"});
   runner::TuneProgressFn progress;
@@ -150,9 +154,9 @@ int RunTune(const TuneCommandOptions& options) {
     };
   }
   const runner::TuneResult result =
-      runner::RunTune(scenarios, tune_options, plan, UPRIGHT_VERSION, progress, log->get());
+      runner::RunTune(scenarios, tune_options, plan, UPRIGHT_VERSION, progress, log.get());
   progress_line.Close();
-  if (const std::string failed = (*log)->write_error(); !failed.empty()) {
+  if (const std::string failed = log ? log->write_error() : ""; !failed.empty()) {
     Log().Warning(failed + "; a resume would replay only the evaluations before it");
   }
   if (const Status written = runner::WriteTuneResults(out_dir, result); !written) {
@@ -187,7 +191,7 @@ int RunTune(const TuneCommandOptions& options) {
                               .c_str(),
                     FixedText(result.wall_s, 1).c_str(), result.jobs));
   Log().Info("tables: " + out_dir + "/tune.md (with each tuned <controller> element), " + out_dir +
-             "/tune.csv; evaluation log " + log_path);
+             "/tune.csv" + (log ? "; evaluation log " + log_path : ""));
   if (options.caution) Log().Caution(kCaution);
   return any_failed ? kExitFailed : kExitOk;
 }

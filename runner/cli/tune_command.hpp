@@ -21,6 +21,7 @@ struct TuneCommandOptions {
   std::string tune_path;                    // --tune: a tune file; "": the default knobs
   bool caution = true;  // close with the safety line (demo prints it once itself)
   bool resume = false;  // --resume: replay the evaluations in the results folder's tune.log
+  bool evaluation_log = true;  // write tune.log as the tune goes (the demo, never resumed: no)
 };
 
 // Adds the `tune` subcommand to `app`, parsing into `options`; returns it.

@@ -362,13 +362,15 @@ Result<LoggedEvaluation> ParseEvaluationLogLine(std::string_view line) {
 Result<std::unique_ptr<EvaluationLog>> EvaluationLog::Start(const std::string& path,
                                                             const TuneLogHeader& header) {
   std::FILE* file = std::fopen(path.c_str(), "wb");
-  if (file == nullptr)
-    return Failure(path + ": cannot write the evaluation log: " + OsError(errno));
-  std::unique_ptr<EvaluationLog> log(new EvaluationLog(path, file));
-  const std::string line = header.Line();
-  if (std::fwrite(line.data(), 1, line.size(), file) != line.size() || std::fflush(file) != 0) {
+  if (file == nullptr) {
     return Failure(path + ": cannot write the evaluation log: " + OsError(errno));
   }
+  const std::string line = header.Line();
+  const bool written =
+      std::fwrite(line.data(), 1, line.size(), file) == line.size() && std::fflush(file) == 0;
+  const int why = errno;
+  std::unique_ptr<EvaluationLog> log(new EvaluationLog(path, file));
+  if (!written) return Failure(path + ": cannot write the evaluation log: " + OsError(why));
   return log;
 }
 
@@ -407,8 +409,9 @@ Result<std::unique_ptr<EvaluationLog>> EvaluationLog::Resume(const std::string& 
     if (error) return Failure(path + ": cannot cut the log's last line: " + error.message());
   }
   std::FILE* file = std::fopen(path.c_str(), "ab");
-  if (file == nullptr)
+  if (file == nullptr) {
     return Failure(path + ": cannot append to the evaluation log: " + OsError(errno));
+  }
   std::unique_ptr<EvaluationLog> log(new EvaluationLog(path, file));
   log->logged_ = std::move(logged);
   return log;
