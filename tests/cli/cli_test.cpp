@@ -1,6 +1,7 @@
 // End-to-end tests of the `upright` program: exit codes, messages with path:line, runs and the
 // demo suite.
 #include <gtest/gtest.h>
+#include <sys/stat.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -129,6 +130,25 @@ TEST(Cli, CheckRejectsAMissingFileAndAnUnknownRoot) {
   const Result r = RunUpright("check " + other);
   EXPECT_EQ(r.exit_code, 2);
   EXPECT_NE(r.output.find("<vehicle>"), std::string::npos) << r.output;
+}
+
+// A device would be read without end and a FIFO would block: check, run and design refuse both
+// by what they are, before reading.
+TEST(Cli, RefusesADeviceAndAFifoAsInputFiles) {
+  const std::string fifo = WriteTemp("fifo.xml", "");
+  std::filesystem::remove(fifo);
+  ASSERT_EQ(::mkfifo(fifo.c_str(), 0600), 0);
+  for (const char* command : {"check", "run", "design"}) {
+    for (const auto& [path, kind] :
+         {std::pair<std::string, std::string>{"/dev/zero", "a character device"},
+          {fifo, "a FIFO"}}) {
+      const Result r = RunUpright(std::string(command) + " " + path);
+      EXPECT_EQ(r.exit_code, 2) << command << " " << path << ": " << r.output;
+      EXPECT_NE(r.output.find(path + ": not a regular file (" + kind + ")"), std::string::npos)
+          << command << ": " << r.output;
+    }
+  }
+  std::filesystem::remove(fifo);
 }
 
 TEST(Cli, CheckTellsASchemaOneModelTheNamesThatReplacedItsOwn) {
