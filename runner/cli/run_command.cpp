@@ -256,6 +256,7 @@ int RunDemo(const RunCommandOptions& options) {
   tune.jobs = demo.batch.jobs;
   tune.out_dir = demo.out_dir + "/tune";
   tune.caution = false;
+  tune.evaluation_log = false;  // the demo is not resumed: its folder stays the same bytes
   Log().Info("\nupright demo: each controller tuned on three courier scenarios");
   if (const int code = RunTune(tune); code != kExitOk) return code;
 

@@ -12,6 +12,8 @@
 #include "progress.hpp"
 #include "upright/base/number_text.hpp"
 #include "upright/runner/run/batch.hpp"
+#include "upright/runner/tables/make_results_folder.hpp"
+#include "upright/runner/tune/evaluation_log.hpp"
 #include "upright/runner/tune/tune.hpp"
 #include "upright/runner/tune/tune_file.hpp"
 #include "upright/runner/tune/tune_writer.hpp"
@@ -52,6 +54,9 @@ CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* o) {
   cmd->add_option("--tune", o->tune_path,
                   "Tune file (.xml): the knobs per controller and the objective (default: the "
                   "built-ins' default knobs and the default objective)");
+  cmd->add_flag("--resume", o->resume,
+                "Resume an interrupted tune from the results folder's tune.log: its evaluations "
+                "are taken as logged, the rest are played (the same inputs and options only)");
   cmd->footer(
       "Default objective: 1 x max_tilt_deg + 10 x max_drift_m (means over the runs); any run "
       "that does not survive scores 1e6 x (1 + the share of time lost). Default knobs: lqr and "
@@ -111,6 +116,28 @@ int RunTune(const TuneCommandOptions& options) {
   Log().Info("  objective: " + plan.objective.Text() +
              (plan.objective.bounds.empty() ? "" : ", subject to the bounds of " + plan.tune_path));
   Log().Info(Printf("  at most %zu run(s) into %s", plan.max_runs, out_dir.c_str()));
+  // The evaluation log, written as the tune goes: replayed with --resume, otherwise replaced.
+  const std::string log_path = out_dir + "/" + runner::kEvaluationLogName;
+  std::unique_ptr<runner::EvaluationLog> log;
+  if (options.evaluation_log || options.resume) {
+    if (const Status made = options.resume ? Status{} : runner::MakeResultsFolder(out_dir); !made) {
+      Log().Error(made.error());
+      return kExitFailed;
+    }
+    const runner::TuneLogHeader header =
+        runner::MakeTuneLogHeader(scenarios, tune_options, plan, UPRIGHT_VERSION);
+    Result<std::unique_ptr<runner::EvaluationLog>> opened =
+        options.resume ? runner::EvaluationLog::Resume(log_path, header)
+                       : runner::EvaluationLog::Start(log_path, header);
+    if (!opened) {
+      Log().Error(opened.error() + "\n(nothing was run)");
+      return options.resume ? kExitBadInput : kExitFailed;
+    }
+    log = std::move(*opened);
+    if (options.resume) {
+      Log().Info(Printf("  resuming: %zu evaluation(s) in %s", log->logged(), log_path.c_str()));
+    }
+  }
   ProgressLine progress_line({.label = "upright tune"});
   runner::TuneProgressFn progress;
   if (Log().ShowsProgress()) {
@@ -129,8 +156,11 @@ int RunTune(const TuneCommandOptions& options) {
     };
   }
   const runner::TuneResult result =
-      runner::RunTune(scenarios, tune_options, plan, UPRIGHT_VERSION, progress);
+      runner::RunTune(scenarios, tune_options, plan, UPRIGHT_VERSION, progress, log.get());
   progress_line.Close();
+  if (const std::string failed = log ? log->write_error() : ""; !failed.empty()) {
+    Log().Warning(failed + "; a resume would replay only the evaluations before it");
+  }
   if (const Status written = runner::WriteTuneResults(out_dir, result); !written) {
     Log().Error(written.error());
     return kExitFailed;
@@ -155,10 +185,15 @@ int RunTune(const TuneCommandOptions& options) {
                         tune.held_out[1].score.survived, tune.held_out[1].score.runs));
     }
   }
-  Log().Info(Printf("%zu run(s); %s s on %d job(s)", result.runs,
+  Log().Info(Printf("%zu run(s)%s; %s s on %d job(s)", result.runs,
+                    result.played_runs == result.runs
+                        ? ""
+                        : Printf(" (%zu replayed from %s)", result.runs - result.played_runs,
+                                 runner::kEvaluationLogName)
+                              .c_str(),
                     FixedText(result.wall_s, 1).c_str(), result.jobs));
   Log().Info("tables: " + out_dir + "/tune.md (with each tuned <controller> element), " + out_dir +
-             "/tune.csv");
+             "/tune.csv" + (log ? "; evaluation log " + log_path : ""));
   if (options.caution) Log().Caution(kCaution);
   return any_failed ? kExitFailed : kExitOk;
 }

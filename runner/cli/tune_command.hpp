@@ -20,6 +20,8 @@ struct TuneCommandOptions {
   std::string out_dir;                      // --out; "": results/<first scenario name>-tune
   std::string tune_path;                    // --tune: a tune file; "": the default knobs
   bool caution = true;  // close with the safety line (demo prints it once itself)
+  bool resume = false;  // --resume: replay the evaluations in the results folder's tune.log
+  bool evaluation_log = true;  // write tune.log as the tune goes (the demo, never resumed: no)
 };
 
 // Adds the `tune` subcommand to `app`, parsing into `options`; returns it.
@@ -27,7 +29,8 @@ CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* options);
 
 // Runs the tune and writes tune.csv and tune.md. Exit 2 on bad input (an invalid scenario or tune
 // file, an unknown controller, a budget too small, knob ends a module refuses), 1 when a module
-// will not load (in both cases nothing runs) or the results cannot be written.
+// will not load (in both cases nothing runs) or the results cannot be written. With --resume, a
+// missing log, one of another tune or with a line that does not read is bad input.
 int RunTune(const TuneCommandOptions& options);
 
 }  // namespace upright::cli

@@ -1004,4 +1004,42 @@ TEST(Cli, TuneWritesItsTablesAndPrintsEachController) {
   std::filesystem::remove_all(out);
 }
 
+TEST(Cli, TuneResumesFromItsLogAndRefusesAnotherTunesLog) {
+  const auto out = std::filesystem::temp_directory_path() /
+                   ("upright_cli_tune_resume_" + std::to_string(getpid()));
+  std::filesystem::remove_all(out);
+  const std::string tune =
+      "tune " + TuneScenario() + " --budget 4 --holdout 1 --jobs 1 --out " + out.string();
+  const Result first = RunUpright(tune);
+  ASSERT_EQ(first.exit_code, 0) << first.output;
+  const auto read = [](const std::filesystem::path& path) {
+    std::ifstream in(path, std::ios::binary);
+    return std::string((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  };
+  const std::string csv = read(out / "tune.csv");
+  const std::string log = read(out / "tune.log");
+  // The header and lqr's first two evaluations (one run each), then a line cut short.
+  std::size_t end = 0;
+  for (int i = 0; i < 3; ++i) end = log.find('\n', end) + 1;
+  std::ofstream(out / "tune.log", std::ios::binary) << log.substr(0, end + 10);
+  const Result resumed = RunUpright(tune + " --resume");
+  EXPECT_EQ(resumed.exit_code, 0) << resumed.output;
+  EXPECT_NE(resumed.output.find("resuming: 2 evaluation(s) in " + (out / "tune.log").string()),
+            std::string::npos)
+      << resumed.output;
+  EXPECT_NE(resumed.output.find(" run(s) (2 replayed from tune.log); "), std::string::npos)
+      << resumed.output;
+  EXPECT_EQ(read(out / "tune.csv"), csv);
+  EXPECT_EQ(read(out / "tune.log"), log);
+  // Another seed is another tune: refused as bad input, nothing run or written.
+  const Result other = RunUpright(tune + " --seed 2 --resume");
+  EXPECT_EQ(other.exit_code, 2) << other.output;
+  EXPECT_NE(other.output.find((out / "tune.log").string() +
+                              ":1: the log is of another tune: seed is 2 here, 1 in the log"),
+            std::string::npos)
+      << other.output;
+  EXPECT_EQ(read(out / "tune.log"), log);
+  std::filesystem::remove_all(out);
+}
+
 }  // namespace

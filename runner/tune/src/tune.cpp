@@ -1,6 +1,7 @@
 #include "upright/runner/tune/tune.hpp"
 
 #include <algorithm>
+#include <atomic>
 #include <chrono>
 #include <cmath>
 #include <iterator>
@@ -14,6 +15,7 @@
 #include "upright/runner/run/modules.hpp"
 #include "upright/runner/run/parallel_for.hpp"
 #include "upright/runner/run/run_one.hpp"
+#include "upright/runner/tune/evaluation_log.hpp"
 
 namespace upright::runner {
 
@@ -64,7 +66,19 @@ class TuneProgress {
   void RunDone() {
     std::lock_guard<std::mutex> lock(mutex_);
     ++done_;
+    ++played_;
     if (progress_) progress_(done_, total_, best_);
+  }
+  // `runs` runs replayed from the evaluation log: done without being played.
+  void Replayed(std::size_t runs) {
+    std::lock_guard<std::mutex> lock(mutex_);
+    done_ += runs;
+    if (progress_) progress_(done_, total_, best_);
+  }
+  // The runs played so far.
+  std::size_t played() {
+    std::lock_guard<std::mutex> lock(mutex_);
+    return played_;
   }
   // `runs` fewer runs are expected.
   void Shrink(std::size_t runs) {
@@ -80,6 +94,7 @@ class TuneProgress {
  private:
   std::mutex mutex_;
   std::size_t done_ = 0;
+  std::size_t played_ = 0;
   std::size_t total_;
   std::vector<double> best_;
   const TuneProgressFn& progress_;
@@ -110,15 +125,60 @@ class ControllerTuner {
 
   // The scores do not count towards the controller's best in the progress (held-out seeds).
   void KeepOutOfTheBest() { offer_best_ = false; }
+  // Evaluations are looked up in `log` and those played appended to it.
+  void LogTo(EvaluationLog* log) { log_ = log; }
 
   // The runs of one evaluation.
   std::size_t RunsPerEvaluation() const { return durations_.size(); }
 
-  // Plays each setting (empty: the scenarios' own) on every scenario and seed, all the runs of
-  // the batch in parallel; their scores in order. With `kept`, the runs are traced (at the
-  // runner's default rate) and handed back there, per setting, scenario by scenario, seed by seed.
+  // Scores each setting at `stage`: as the evaluation log holds it (the same index, the same
+  // values bit for bit), or played and then appended to the log. With `kept`, every setting is
+  // played (its runs are wanted) and handed back as Play hands them; one the log holds already
+  // is not appended again.
   std::vector<EvaluationScore> Evaluate(const std::vector<std::vector<double>>& settings,
+                                        EvaluationStage stage,
                                         std::vector<std::vector<RunResult>>* kept = nullptr) {
+    const std::size_t first = next_index_;
+    next_index_ += settings.size();
+    std::vector<EvaluationScore> scores(settings.size());
+    std::vector<std::size_t> played;  // into settings
+    std::vector<std::vector<double>> to_play;
+    for (std::size_t p = 0; p < settings.size(); ++p) {
+      const EvaluationScore* logged =
+          log_ == nullptr ? nullptr : log_->Find(controller_.name, stage, first + p, settings[p]);
+      if (logged == nullptr || kept != nullptr) {
+        played.push_back(p);
+        to_play.push_back(settings[p]);
+        continue;
+      }
+      scores[p] = *logged;
+      progress_->Replayed(RunsPerEvaluation());
+      if (offer_best_) progress_->Offer(index_, logged->objective);
+    }
+    if (to_play.empty()) return scores;
+    const std::vector<EvaluationScore> fresh = Play(
+        to_play,
+        [&](std::size_t q, const EvaluationScore& score) {
+          const std::size_t i = first + played[q];
+          if (log_ != nullptr && log_->Find(controller_.name, stage, i, to_play[q]) == nullptr) {
+            log_->Append({controller_.name, stage, i, to_play[q], score});
+          }
+        },
+        kept);
+    for (std::size_t q = 0; q < played.size(); ++q) scores[played[q]] = fresh[q];
+    return scores;
+  }
+
+ private:
+  // Plays each setting (empty: the scenarios' own) on every scenario and seed, all the runs of
+  // the batch in parallel; their scores in order. `scored(p, score)` is called on the thread
+  // that played setting p's last run, as soon as its runs are all done. With `kept`, the runs are
+  // traced (at the runner's default rate) and handed back there, per setting, scenario by
+  // scenario, seed by seed.
+  std::vector<EvaluationScore> Play(
+      const std::vector<std::vector<double>>& settings,
+      const std::function<void(std::size_t, const EvaluationScore&)>& scored,
+      std::vector<std::vector<RunResult>>* kept) {
     // Scenario copies per setting and scenario, then one task per run.
     std::vector<Scenario> cut;
     for (const auto& values : settings) {
@@ -143,19 +203,26 @@ class ControllerTuner {
     RunOptions run_options;
     if (kept == nullptr) run_options.trace_rate_hz = 0;
     std::vector<RunResult> runs(tasks.size());
+    const std::size_t per = RunsPerEvaluation();
+    std::vector<EvaluationScore> scores(settings.size());
+    std::vector<std::atomic<std::size_t>> left(settings.size());  // runs still to play
+    for (std::atomic<std::size_t>& l : left) l = per;
     ParallelFor(
         tasks.size(), jobs_,
         [&](std::size_t i) {
           const Task& t = tasks[i];
           runs[i] = RunOneSafely(cut[t.scenario], 0, t.seed, *modules_[t.module], run_options);
+          const std::size_t p = i / per;
+          if (left[p].fetch_sub(1) == 1) {
+            scores[p] =
+                ScoreRuns(plan_.objective, std::span<const RunResult>(runs).subspan(p * per, per),
+                          durations_);
+            if (scored) scored(p, scores[p]);
+          }
         },
         [&] { progress_->RunDone(); });
-    std::vector<EvaluationScore> scores;
-    const std::size_t per = RunsPerEvaluation();
-    for (std::size_t p = 0; p < settings.size(); ++p) {
-      scores.push_back(ScoreRuns(
-          plan_.objective, std::span<const RunResult>(runs).subspan(p * per, per), durations_));
-      if (offer_best_) progress_->Offer(index_, scores.back().objective);
+    for (const EvaluationScore& score : scores) {
+      if (offer_best_) progress_->Offer(index_, score.objective);
     }
     if (kept != nullptr) {
       kept->clear();
@@ -167,7 +234,6 @@ class ControllerTuner {
     return scores;
   }
 
- private:
   const std::vector<Scenario>& scenarios_;
   std::vector<std::vector<std::uint64_t>> seeds_;
   const TunePlan& plan_;
@@ -178,6 +244,8 @@ class ControllerTuner {
   TuneProgress* progress_;
   std::vector<double> durations_;
   bool offer_best_ = true;
+  EvaluationLog* log_ = nullptr;
+  std::size_t next_index_ = 0;  // the next evaluation's index in the log
 };
 
 PointScore AsPointScore(const EvaluationScore& score) { return {score.objective, score.violation}; }
@@ -185,7 +253,7 @@ PointScore AsPointScore(const EvaluationScore& score) { return {score.objective,
 // Controller `index` of the plan tuned: its default setting, the search, the held-out replays.
 ControllerTune TuneController(const std::vector<Scenario>& scenarios, const TuneOptions& options,
                               const TunePlan& plan, std::size_t index, const ModuleSet& modules,
-                              std::size_t jobs, TuneProgress* progress) {
+                              std::size_t jobs, TuneProgress* progress, EvaluationLog* log) {
   const ControllerTunePlan& controller = plan.controllers[index];
   ControllerTune tune;
   tune.controller = controller.name;
@@ -211,9 +279,13 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
   std::vector<std::vector<std::uint64_t>> search_seeds;
   for (const Scenario& scenario : scenarios) search_seeds.push_back(scenario.seeds);
   ControllerTuner tuner(scenarios, search_seeds, plan, index, per_scenario.data(), jobs, progress);
+  tuner.LogTo(log);
   // The default setting first: the yardstick of the tuned one.
   tune.evaluations.push_back(
-      {EvaluationStage::kDefault, {}, tuner.Evaluate({std::vector<double>{}}).front(), {}});
+      {EvaluationStage::kDefault,
+       {},
+       tuner.Evaluate({std::vector<double>{}}, EvaluationStage::kDefault).front(),
+       {}});
 
   SearchOptions search;
   search.dimensions = controller.knobs.size();
@@ -231,7 +303,10 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
     std::vector<std::vector<double>> settings;
     for (const auto& point : points) settings.push_back(values_of(point));
     std::vector<PointScore> scores;
-    const std::vector<EvaluationScore> evaluated = tuner.Evaluate(settings);
+    // The search's first batch is its space-filling start.
+    const std::vector<EvaluationScore> evaluated =
+        tuner.Evaluate(settings, tune.evaluations.size() == 1 ? EvaluationStage::kGlobal
+                                                              : EvaluationStage::kLocal);
     for (std::size_t i = 0; i < points.size(); ++i) {
       tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i], {}});
       scores.push_back(AsPointScore(evaluated[i]));
@@ -263,9 +338,11 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
     ControllerTuner held_out(scenarios, plan.holdout_seeds, plan, index, per_scenario.data(), jobs,
                              progress);
     held_out.KeepOutOfTheBest();
+    // Played even on a resume: their runs, traces and all, make the ranking folders.
+    held_out.LogTo(log);
     std::vector<std::vector<RunResult>> runs;
     const std::vector<EvaluationScore> scores =
-        held_out.Evaluate({std::vector<double>{}, best_values}, &runs);
+        held_out.Evaluate({std::vector<double>{}, best_values}, EvaluationStage::kHeldOut, &runs);
     tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0], std::move(runs[0])});
     tune.held_out.push_back(
         {EvaluationStage::kHeldOut, best_values, scores[1], std::move(runs[1])});
@@ -277,7 +354,7 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
 
 TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& options,
                    const TunePlan& plan, const std::string& tool_version,
-                   const TuneProgressFn& progress) {
+                   const TuneProgressFn& progress, EvaluationLog* log) {
   const auto wall_start = std::chrono::steady_clock::now();
   TuneResult result;
   result.tool_version = tool_version;
@@ -300,13 +377,14 @@ TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& op
   ParallelFor(n, side_by_side,
               [&](std::size_t c) {
                 result.controllers[c] =
-                    TuneController(scenarios, options, plan, c, modules, jobs_each, &shared);
+                    TuneController(scenarios, options, plan, c, modules, jobs_each, &shared, log);
               },
               {});
   for (const ControllerTune& tune : result.controllers) {
     if (!tune.setup_error.empty()) continue;
     result.runs += tune.evaluations.size() * plan.runs_per_evaluation + 2 * plan.holdout_runs;
   }
+  result.played_runs = shared.played();
   result.wall_s =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - wall_start).count();
   return result;

@@ -49,6 +49,8 @@ struct ControllerTune {
   std::string element;
 };
 
+class EvaluationLog;  // evaluation_log.hpp
+
 struct TuneResult {
   std::string tool_version;
   std::vector<ScenarioInfo> scenarios;
@@ -57,7 +59,8 @@ struct TuneResult {
   std::vector<ControllerTune> controllers;  // plan order
   int jobs = 1;
   std::size_t runs = 0;
-  double wall_s = 0;  // the console only; never in a file
+  std::size_t played_runs = 0;  // of those, the runs played here (not replayed from a log)
+  double wall_s = 0;            // the console only; never in a file
 };
 
 // Called after each run with runs done, runs expected and each controller's best objective so
@@ -67,9 +70,11 @@ using TuneProgressFn =
 
 // Runs the plan: the controllers side by side (at most one per job), each on its share of the
 // jobs; each controller's result depends neither on the jobs nor on the other controllers.
+// With a `log`, an evaluation found there is not played again (its runs count as done in the
+// progress) and each one played is appended to it.
 TuneResult RunTune(const std::vector<Scenario>& scenarios, const TuneOptions& options,
                    const TunePlan& plan, const std::string& tool_version,
-                   const TuneProgressFn& progress);
+                   const TuneProgressFn& progress, EvaluationLog* log = nullptr);
 
 // The settings text of `controller` with `values` for its knobs: "max_tilt_deg=3.2 max_drift_m=1".
 std::string SettingsText(const ControllerTune& controller, const std::vector<double>& values);
