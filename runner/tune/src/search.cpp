@@ -85,6 +85,13 @@ std::vector<std::vector<double>> LatinHypercube(std::size_t n, std::size_t d, st
   return points;
 }
 
+int GlobalPoints(const SearchOptions& options) {
+  return options.global_points > 0
+             ? options.global_points
+             : std::clamp(static_cast<int>(std::lround(0.4 * options.evaluations)), 1,
+                          options.evaluations - 1);
+}
+
 int PolishFrom(const SearchOptions& options, PolishAlgorithm algorithm, std::size_t from,
                int budget, const BatchObjective& objective, SearchResult* result) {
   if (budget <= 0) return 0;
@@ -156,10 +163,7 @@ SearchResult Search(const SearchOptions& options, const BatchObjective& objectiv
   const Status valid = options.Validate();
   UPRIGHT_CHECK(valid, "%s", valid ? "" : valid.error().c_str());
   const std::size_t n = options.dimensions;
-  const int global = options.global_points > 0
-                         ? options.global_points
-                         : std::clamp(static_cast<int>(std::lround(0.4 * options.evaluations)), 1,
-                                      options.evaluations - 1);
+  const int global = internal::GlobalPoints(options);
   SearchResult result;
   const std::vector<std::vector<double>> start =
       internal::LatinHypercube(static_cast<std::size_t>(global), n, options.seed);

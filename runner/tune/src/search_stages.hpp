@@ -15,6 +15,10 @@ namespace upright::runner::internal {
 // within its cell. The first point drawn is the box's centre when n is 1.
 std::vector<std::vector<double>> LatinHypercube(std::size_t n, std::size_t d, std::uint64_t seed);
 
+// The points of the space-filling start: options.global_points, or 40 % of the budget, at least
+// one and leaving one for the polish.
+int GlobalPoints(const SearchOptions& options);
+
 enum class PolishAlgorithm {
   kAuto,    // BOBYQA; COBYLA with constraints or a single dimension (NLopt's BOBYQA needs two)
   kCobyla,  // COBYLA always (a kinked objective, where BOBYQA's quadratic model does poorly)
