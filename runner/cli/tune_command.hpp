@@ -18,6 +18,7 @@ struct TuneCommandOptions {
   int holdout_seeds = 3;                    // --holdout: held-out seeds per scenario
   std::string out_dir;                      // --out; "": results/<first scenario name>-tune
   std::string tune_path;                    // --tune: a tune file; "": the default knobs
+  std::vector<std::string> pareto_metrics;  // --pareto A,B: two metrics' front; empty: none
 };
 
 // Adds the `tune` subcommand to `app`, parsing into `options`; returns it.

@@ -1,6 +1,6 @@
 // The results folder of a tune: tune.csv (every evaluation) and tune.md (per controller the
 // default against the tuned objective, the settings and a ready-to-paste <controller> element),
-// each written atomically.
+// and with Pareto metrics pareto.csv (pareto_writer.hpp), each written atomically.
 #pragma once
 
 #include <string>
@@ -14,7 +14,7 @@ namespace upright::runner {
 std::string TuneCsv(const TuneResult& result);
 std::string TuneMarkdown(const TuneResult& result);
 
-// Creates `dir` if needed and writes both files; otherwise why not.
+// Creates `dir` if needed and writes the files; otherwise why not.
 Status WriteTuneResults(const std::string& dir, const TuneResult& result);
 
 }  // namespace upright::runner
