@@ -156,6 +156,50 @@ TEST(ParetoSearch, KeepsTheFrontWithinTheBounds) {
   EXPECT_NEAR(highest, 1, 0.01);  // the second metric's end, on the active bound
 }
 
+TEST(ParetoSearch, ReachesTheMiddleOfAConcaveFront) {
+  // f1 = x, f2 = 1 − x² on x ∈ [0, 1]: every x is Pareto optimal and the front f2 = 1 − f1² bows
+  // away from the origin, so a weighted sum of f1 and f2 (concave in x) is least at an end for
+  // every weighting. The equal Chebyshev weighting is least where its two terms meet:
+  // (x − z1)/r1 = (1 − x² − z2)/r2 with z and r the start's ideal point and ranges, a quadratic
+  // in x (derived by hand); the augmentation moves it by about ρ = 1e-3 (common practice: 0.01).
+  ParetoSearchOptions options;
+  options.search.dimensions = 1;
+  options.search.evaluations = 40;
+  options.weightings = 3;  // weights 1, 0.5, 0
+  const ParetoSearchResult found =
+      ParetoSearch(options, [](const std::vector<std::vector<double>>& points) {
+        std::vector<ParetoScore> scores;
+        for (const auto& p : points) scores.push_back({p[0], 1 - p[0] * p[0], {}, 0});
+        return scores;
+      });
+  ASSERT_EQ(found.weights, (std::vector<double>{1, 0.5, 0}));
+  double lo[2] = {INFINITY, INFINITY}, hi[2] = {-INFINITY, -INFINITY};
+  for (const ParetoRecord& record : found.history) {
+    if (record.weighting != -1) continue;
+    lo[0] = std::min(lo[0], record.score.first);
+    hi[0] = std::max(hi[0], record.score.first);
+    lo[1] = std::min(lo[1], record.score.second);
+    hi[1] = std::max(hi[1], record.score.second);
+  }
+  const double r1 = hi[0] - lo[0], r2 = hi[1] - lo[1];
+  // x²/r2 + x/r1 − ((1 − z2)/r2 + z1/r1) = 0, its positive root.
+  const double qa = 1 / r2, qb = 1 / r1, qc = -((1 - lo[1]) / r2 + lo[0] / r1);
+  const double meet = (-qb + std::sqrt(qb * qb - 4 * qa * qc)) / (2 * qa);
+  EXPECT_NEAR(meet, 0.618, 0.05);  // (√5 − 1)/2 when z = 0 and r = 1
+  // The middle polish's best point.
+  double best_x = NAN, best = INFINITY;
+  for (const ParetoRecord& record : found.history) {
+    if (record.weighting != 1) continue;
+    const double a = (record.score.first - lo[0]) / r1, b = (record.score.second - lo[1]) / r2;
+    const double value = std::max(0.5 * a, 0.5 * b) + 1e-3 * (a + b);
+    if (value < best) {
+      best = value;
+      best_x = record.point[0];
+    }
+  }
+  EXPECT_NEAR(best_x, meet, 0.01);
+}
+
 TEST(ParetoSearch, IsFixedByTheSeed) {
   const ParetoSearchResult one = Schaffer(30, INFINITY, 7);
   const ParetoSearchResult two = Schaffer(30, INFINITY, 7);
