@@ -6,6 +6,7 @@
 #include <string>
 
 #include "tables_test_support.hpp"
+#include "upright/runner/tables/ranking.hpp"
 
 namespace upright::runner {
 namespace {
@@ -57,6 +58,23 @@ TEST(RankingTable, AControllerScoredOnFewerScenariosIsRankedApart) {
   EXPECT_NE(md.find("| 2 | pid | 2/2 |"), std::string::npos) << md;
   EXPECT_NE(md.find("| 1 of 2 (partial, ranked apart) |"), std::string::npos) << md;
   EXPECT_NE(md.find("| 2 of 2 |"), std::string::npos) << md;
+}
+
+// The standings other tables quote (a tune's ranking at their best) are ranking.csv's rows.
+TEST(RankingTable, StandingsAreTheRankingRows) {
+  const BatchResult batch = PartialBatch();
+  const std::vector<ControllerStanding> standings = RankBatch(batch);
+  const CsvRecords csv = ReadRecords(WriteTables(batch, "standings") / "ranking.csv");
+  ASSERT_EQ(standings.size(), csv.rows.size());
+  for (std::size_t i = 0; i < standings.size(); ++i) {
+    EXPECT_EQ(standings[i].name, csv.rows[i].at("controller"));
+    EXPECT_EQ(std::to_string(standings[i].rank), csv.rows[i].at("rank"));
+    EXPECT_EQ(std::to_string(standings[i].survived), csv.rows[i].at("survived"));
+    EXPECT_EQ(std::to_string(standings[i].runs), csv.rows[i].at("runs"));
+    EXPECT_EQ(standings[i].partial ? "true" : "false", csv.rows[i].at("partial"));
+  }
+  EXPECT_EQ(standings[0].survived, 3);  // lqr: 3 of 4
+  EXPECT_TRUE(standings[1].partial);    // pid: one scenario of two
 }
 
 // A run not played counts as not survived and its figures stay out of the score; the values left

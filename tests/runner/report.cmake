@@ -6,7 +6,7 @@
 # Reaches the report's internal readers and chart helpers on purpose.
 upright_test(upright_runner_report_test
   SOURCES report_csv_test.cpp report_json_test.cpp report_charts_test.cpp report_test.cpp
-          report_browser_test.cpp report_design_test.cpp
+          report_browser_test.cpp report_design_test.cpp report_tune_test.cpp
   LIBS upright::runner tinyxml2::tinyxml2 nlohmann_json::nlohmann_json)
 target_include_directories(upright_runner_report_test
   PRIVATE ${PROJECT_SOURCE_DIR}/runner/report/src)

@@ -8,40 +8,19 @@
 
 #include "run_test_support.hpp"
 #include "succeeded.hpp"
+#include "tune_test_scenarios.hpp"
 #include "upright/runner/tune/tune.hpp"
 #include "upright/runner/tune/tune_writer.hpp"
 
 namespace upright::runner {
 namespace {
 
+using testing::Contains;
+using testing::kAllFour;
 using testing::ReadFile;
 using testing::ScenarioFromText;
 using testing::ScratchDir;
-
-bool Contains(const std::string& text, const std::string& part) {
-  return text.find(part) != std::string::npos;
-}
-
-// A parked courier shoved once, for 2.5 s, on `seeds`.
-std::string ShoveText(const std::string& controllers, const std::string& seeds = "1") {
-  return R"(<scenario name="shove" schema="1" duration_s="2.5">
-  <description>Test: a parked courier shoved once.</description>
-  <robot file="../models/courier.xml"/>
-  <timeline>
-    <push at_s="0.5" shape="half-sine" peak_N="160" duration_s="0.3" height_m="0.45"/>
-  </timeline>
-  <controllers>)" +
-         controllers + R"(</controllers>
-  <seeds list=")" +
-         seeds +
-         R"("/>
-</scenario>)";
-}
-
-const char* kAllFour = R"(<controller name="lqr" builtin="lqr"/>
-    <controller name="hinf" builtin="hinf"/>
-    <controller name="lqg" builtin="lqg"/>
-    <controller name="pid" builtin="pid"/>)";
+using testing::ShoveText;
 
 TEST(TunePlan, TakesEveryControllerWithItsDefaultKnobs) {
   const std::vector<Scenario> scenarios = {ScenarioFromText(ShoveText(kAllFour, "1 2"))};

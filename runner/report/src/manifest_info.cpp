@@ -133,6 +133,26 @@ Result<ManifestInfo> ParseManifest(std::string_view text, const std::string& pat
     number(*push, "peak_N", &d.push_peak_N);
     number(*push, "height_m", &d.push_height_m);
   }
+  if (info.command == "tune") {
+    ManifestTune& t = info.tune;
+    t.objective = StringOf(root, "objective");
+    if (const Json* bounds = Member(root, "bounds", &Json::is_array)) {
+      for (const Json& b : *bounds) {
+        if (b.is_string()) t.bounds.push_back(b.get<std::string>());
+      }
+    }
+    for (const auto& [key, out] :
+         {std::pair{"search_seed", &t.search_seed}, std::pair{"evaluations", &t.evaluations},
+          std::pair{"runs_per_evaluation", &t.runs_per_evaluation}}) {
+      if (const Json* n = Member(root, key, &Json::is_number)) *out = NumberText(*n);
+    }
+    ForEachObject(root, "controllers", [&](const Json& c) {
+      const Json* best = Member(c, "best_evaluation", &Json::is_number_unsigned);
+      t.best_evaluation.emplace_back(
+          StringOf(c, "name"),
+          best != nullptr ? static_cast<long>(best->get<std::uint64_t>()) : -1L);
+    });
+  }
   return info;
 }
 

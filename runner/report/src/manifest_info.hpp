@@ -8,6 +8,7 @@
 #include <limits>
 #include <string>
 #include <string_view>
+#include <utility>
 #include <vector>
 
 #include "upright/base/result.hpp"
@@ -48,6 +49,16 @@ struct ManifestDesign {
   static constexpr double kNoNumber = std::numeric_limits<double>::quiet_NaN();
 };
 
+// `upright tune`: what was searched, as the manifest writes it.
+struct ManifestTune {
+  std::string objective;            // "1 × max_tilt_deg + 10 × max_drift_m"
+  std::vector<std::string> bounds;  // "peak_current_A <= 18"
+  std::string search_seed, evaluations, runs_per_evaluation;  // as written
+  // Per controller tuned, its name and the evaluation number of its tuned setting in tune.csv
+  // (-1 when it was not tuned).
+  std::vector<std::pair<std::string, long>> best_evaluation;
+};
+
 struct ManifestInfo {
   bool present = false;  // manifest.json was there and parsed
   std::string tool_version;
@@ -59,6 +70,7 @@ struct ManifestInfo {
   std::string sweep_seed, samples;             // sweep: as the manifest writes them
   // design: the model (in scenarios, as the one entry's model_* fields) and these figures
   ManifestDesign design;
+  ManifestTune tune;  // tune: what was searched
 };
 
 // Reads <dir>/manifest.json. A missing file gives present = false; a malformed one fails

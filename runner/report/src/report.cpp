@@ -26,7 +26,7 @@ bool HasFile(const fs::path& dir, const char* name) {
 void Collect(const fs::path& root, const fs::path& dir, int depth,
              std::vector<std::string>* found) {
   if (HasFile(dir, "summary.csv") || HasFile(dir, "envelope.csv") || HasFile(dir, "sweep.csv") ||
-      HasFile(dir, "loop_response.csv")) {
+      HasFile(dir, "loop_response.csv") || HasFile(dir, "tune.csv")) {
     found->push_back(dir == root ? "." : dir.lexically_relative(root).generic_string());
   }
   if (depth >= kMaxDepth) return;
@@ -53,7 +53,8 @@ Status ReportOptions::Validate() const {
 
 std::string ReportLooksFor() {
   return "summary.csv (upright run, demo), envelope.csv (upright envelope), sweep.csv "
-         "(upright sweep) or loop_response.csv (upright design --report), in the folder or in "
+         "(upright sweep), loop_response.csv (upright design --report) or tune.csv (upright "
+         "tune), in the folder or in "
          "subfolders up to " +
          std::to_string(kMaxDepth) + " levels down";
 }
@@ -93,7 +94,12 @@ Status AppendFolder(const internal::ResultsFolder& folder, const ReportOptions& 
       return added;
     }
   }
-  if (folder.design) return internal::AppendDesignSection(folder, *manifest, options, page);
+  if (folder.design) {
+    if (Status added = internal::AppendDesignSection(folder, *manifest, options, page); !added) {
+      return added;
+    }
+  }
+  if (folder.tune) return internal::AppendTuneSection(folder, *manifest, options, page);
   return {};
 }
 
@@ -132,6 +138,7 @@ Result<ReportWritten, ReportFailure> MakeReport(const std::string& dir,
     folder.envelope = HasFile(folder.path, "envelope.csv");
     folder.sweep = HasFile(folder.path, "sweep.csv");
     folder.design = HasFile(folder.path, "loop_response.csv");
+    folder.tune = HasFile(folder.path, "tune.csv");
     if (Status added = AppendFolder(folder, options, &page); !added) {
       return Refused(ReportProblem::kBadInput, added.error());
     }

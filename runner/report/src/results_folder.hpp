@@ -13,6 +13,7 @@ struct ResultsFolder {
   bool envelope = false;  // envelope.csv
   bool sweep = false;     // sweep.csv
   bool design = false;    // loop_response.csv: upright design --report
+  bool tune = false;      // tune.csv: upright tune
   std::string id;         // the prefix of its element ids ("f0-", "f1-", ...)
 };
 

@@ -31,4 +31,9 @@ Status AppendSweepSection(const ResultsFolder& folder, const ManifestInfo& manif
 Status AppendDesignSection(const ResultsFolder& folder, const ManifestInfo& manifest,
                            const ReportOptions& options, ReportPage* page);
 
+// `upright tune`: each controller's best objective over the search, default against tuned, and
+// the ranking at their best beside the ranking as designed.
+Status AppendTuneSection(const ResultsFolder& folder, const ManifestInfo& manifest,
+                         const ReportOptions& options, ReportPage* page);
+
 }  // namespace upright::runner::internal

@@ -7,6 +7,7 @@
 
 #include "upright/base/number_text.hpp"
 #include "upright/runner/common/text_format.hpp"
+#include "upright/runner/tables/ranking.hpp"
 
 namespace upright::runner::internal {
 namespace {
@@ -256,3 +257,17 @@ std::string RankingMarkdown(const std::vector<ScenarioGroup>& groups) {
 }
 
 }  // namespace upright::runner::internal
+
+namespace upright::runner {
+
+std::vector<ControllerStanding> RankBatch(const BatchResult& batch) {
+  const std::vector<internal::ScenarioGroup> groups = internal::GroupBatch(batch);
+  std::vector<ControllerStanding> standings;
+  for (const internal::RankedController& c : internal::RankControllers(groups)) {
+    standings.push_back(
+        {c.name, static_cast<int>(standings.size()) + 1, c.runs, c.survived, c.score, c.partial});
+  }
+  return standings;
+}
+
+}  // namespace upright::runner

@@ -29,7 +29,9 @@ std::string ParetoCsv(const TuneResult& result) {
       csv += SignificantText(e.score.mean_metrics[columns[0]], 6, NanAs::kEmpty);
       csv += ",";
       csv += SignificantText(e.score.mean_metrics[columns[1]], 6, NanAs::kEmpty);
-      csv += "," + std::to_string(i) + ",";
+      csv += ",";
+      csv += std::to_string(i);
+      csv += ",";
       AppendCsvField(&csv, SettingsText(tune, e.values));
       csv += "\n";
     }

@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
+#include <iterator>
 #include <limits>
 #include <mutex>
 #include <span>
@@ -115,8 +116,10 @@ class ControllerTuner {
   std::size_t RunsPerEvaluation() const { return durations_.size(); }
 
   // Plays each setting (empty: the scenarios' own) on every scenario and seed, all the runs of
-  // the batch in parallel; their scores in order.
-  std::vector<EvaluationScore> Evaluate(const std::vector<std::vector<double>>& settings) {
+  // the batch in parallel; their scores in order. With `kept`, the runs are traced (at the
+  // runner's default rate) and handed back there, per setting, scenario by scenario, seed by seed.
+  std::vector<EvaluationScore> Evaluate(const std::vector<std::vector<double>>& settings,
+                                        std::vector<std::vector<RunResult>>* kept = nullptr) {
     // Scenario copies per setting and scenario, then one task per run.
     std::vector<Scenario> cut;
     for (const auto& values : settings) {
@@ -139,7 +142,7 @@ class ControllerTuner {
       }
     }
     RunOptions run_options;
-    run_options.trace_rate_hz = 0;
+    if (kept == nullptr) run_options.trace_rate_hz = 0;
     std::vector<RunResult> runs(tasks.size());
     ParallelFor(
         tasks.size(), jobs_,
@@ -154,6 +157,13 @@ class ControllerTuner {
       scores.push_back(ScoreRuns(
           plan_.objective, std::span<const RunResult>(runs).subspan(p * per, per), durations_));
       if (offer_best_) progress_->Offer(index_, scores.back().objective);
+    }
+    if (kept != nullptr) {
+      kept->clear();
+      for (std::size_t p = 0; p < settings.size(); ++p) {
+        kept->emplace_back(std::make_move_iterator(runs.begin() + p * per),
+                           std::make_move_iterator(runs.begin() + (p + 1) * per));
+      }
     }
     return scores;
   }
@@ -204,7 +214,7 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
   ControllerTuner tuner(scenarios, search_seeds, plan, index, per_scenario.data(), jobs, progress);
   // The default setting first: the yardstick of the tuned one.
   tune.evaluations.push_back(
-      {EvaluationStage::kDefault, {}, tuner.Evaluate({std::vector<double>{}}).front()});
+      {EvaluationStage::kDefault, {}, tuner.Evaluate({std::vector<double>{}}).front(), {}});
 
   SearchOptions search;
   search.dimensions = controller.knobs.size();
@@ -224,7 +234,7 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
     for (const auto& point : points) settings.push_back(values_of(point));
     const std::vector<EvaluationScore> evaluated = tuner.Evaluate(settings);
     for (std::size_t i = 0; i < points.size(); ++i) {
-      tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i]});
+      tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i], {}});
     }
     return evaluated;
   };
@@ -264,10 +274,12 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
     ControllerTuner held_out(scenarios, plan.holdout_seeds, plan, index, per_scenario.data(), jobs,
                              progress);
     held_out.KeepOutOfTheBest();
+    std::vector<std::vector<RunResult>> runs;
     const std::vector<EvaluationScore> scores =
-        held_out.Evaluate({std::vector<double>{}, best_values});
-    tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0]});
-    tune.held_out.push_back({EvaluationStage::kHeldOut, best_values, scores[1]});
+        held_out.Evaluate({std::vector<double>{}, best_values}, &runs);
+    tune.held_out.push_back({EvaluationStage::kHeldOut, {}, scores[0], std::move(runs[0])});
+    tune.held_out.push_back(
+        {EvaluationStage::kHeldOut, best_values, scores[1], std::move(runs[1])});
   }
   return tune;
 }

@@ -6,11 +6,15 @@
 #include <utility>
 #include <vector>
 
+#include "held_out_batch.hpp"
+#include "tune_manifest.hpp"
 #include "upright/base/number_text.hpp"
 #include "upright/runner/common/atomic_file.hpp"
 #include "upright/runner/common/text_format.hpp"
 #include "upright/runner/tables/make_results_folder.hpp"
 #include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/ranking.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 #include "upright/runner/tune/pareto_writer.hpp"
 
 namespace upright::runner {
@@ -38,7 +42,63 @@ std::string Percent(double from, double to) {
   return SignedSignificantText(100 * (to - from) / from, 3) + " %";
 }
 
+// "ranking at their best": the tuned settings ranked on the held-out seeds by ranking.md's rule,
+// beside the default settings' ranking on the same seeds.
+void AppendRankingAtTheirBest(const TuneResult& result, std::string* md) {
+  *md += "\n## Ranking at their best\n\n";
+  const BatchResult defaults = internal::HeldOutBatch(result, false);
+  const BatchResult tuned = internal::HeldOutBatch(result, true);
+  if (tuned.runs.empty()) {
+    *md +=
+        "No held-out seeds (--holdout 0), so no ranking: one on the seeds the search saw would "
+        "flatter every tuned setting by the noise it was fitted to.\n";
+    return;
+  }
+  *md += std::string(kTunedFolder) + "/ and " + kDefaultsFolder +
+         "/ hold every controller's tuned and default setting played on the held-out seeds, each "
+         "with its summary, comparison and ranking. Ranked as ranking.md ranks (survival over "
+         "all runs first, then the weighted score relative to the best controller in each "
+         "scenario; lower is better): the tuned settings below, the defaults' rank beside. A "
+         "score is relative to the others in its own ranking, so compare ranks and survival "
+         "across the two, not scores.\n\n";
+  const std::vector<ControllerStanding> at_best = RankBatch(tuned);
+  const std::vector<ControllerStanding> as_designed = RankBatch(defaults);
+  *md +=
+      "| rank at their best | controller | survived | score | objective, held-out | rank as "
+      "designed | survived | score | objective, held-out |\n"
+      "| ---: | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |\n";
+  for (const ControllerStanding& best : at_best) {
+    const ControllerStanding* before = nullptr;
+    for (const ControllerStanding& d : as_designed) {
+      if (d.name == best.name) before = &d;
+    }
+    const ControllerTune* tune = nullptr;
+    for (const ControllerTune& t : result.controllers) {
+      if (t.controller == best.name) tune = &t;
+    }
+    const auto objective = [](const TuneEvaluation& e) {
+      return e.score.objective >= kFallPenalty ? std::string("falls")
+                                               : SignificantText(e.score.objective, 4);
+    };
+    Append(md, {"| ", std::to_string(best.rank), best.partial ? " (partial)" : "", " | ",
+                MarkdownCell(best.name), " | ", std::to_string(best.survived), "/",
+                std::to_string(best.runs), " | ", SignificantText(best.score, 3, NanAs::kDash),
+                " | ", tune ? objective(tune->held_out[1]) : "", " | "});
+    if (before != nullptr) {
+      Append(md, {std::to_string(before->rank), before->partial ? " (partial)" : "", " | ",
+                  std::to_string(before->survived), "/", std::to_string(before->runs), " | ",
+                  SignificantText(before->score, 3, NanAs::kDash), " | ",
+                  tune ? objective(tune->held_out[0]) : "", " |\n"});
+    } else {
+      *md += "— | | | |\n";
+    }
+  }
+}
+
 }  // namespace
+
+const char* const kTunedFolder = "tuned";
+const char* const kDefaultsFolder = "defaults";
 
 std::string TuneCsv(const TuneResult& result) {
   std::string csv = "controller,evaluation,stage,settings,objective,feasible,survived,runs";
@@ -158,6 +218,7 @@ std::string TuneMarkdown(const TuneResult& result) {
                  tune.element, "\n```\n"});
     md += ParetoFrontMarkdown(result, tune);
   }
+  AppendRankingAtTheirBest(result, &md);
   return md;
 }
 
@@ -174,7 +235,28 @@ Status WriteTuneResults(const std::string& dir, const TuneResult& result) {
       return written;
     }
   }
-  return WriteFileAtomically((root / "tune.md").string(), TuneMarkdown(result));
+  if (Status written = WriteFileAtomically((root / "tune.md").string(), TuneMarkdown(result));
+      !written) {
+    return written;
+  }
+  // The held-out replays as results folders of their own, so the usual tables and the report
+  // read them; without held-out seeds, none (and none left from an earlier tune).
+  for (const bool tuned : {false, true}) {
+    const std::filesystem::path folder = root / (tuned ? kTunedFolder : kDefaultsFolder);
+    const BatchResult batch = internal::HeldOutBatch(result, tuned);
+    if (!batch.runs.empty()) {
+      if (Status batch_written = WriteResults(folder.string(), batch); !batch_written) {
+        return batch_written;
+      }
+      continue;
+    }
+    std::error_code error;
+    if (std::filesystem::is_regular_file(folder / "summary.csv", error)) {
+      std::filesystem::remove_all(folder, error);
+      if (error) return Failure(folder.string() + ": cannot remove: " + error.message());
+    }
+  }
+  return WriteFileAtomically((root / "manifest.json").string(), internal::TuneManifestJson(result));
 }
 
 }  // namespace upright::runner

@@ -29,6 +29,9 @@ struct TuneEvaluation {
   EvaluationStage stage = EvaluationStage::kDefault;
   std::vector<double> values;  // per knob; empty for the default setting (the scenarios' own)
   EvaluationScore score;
+  // The held-out evaluations' runs with their traces (scenario by scenario, seed by seed), for
+  // the ranking folders; empty for the search's evaluations.
+  std::vector<RunResult> runs;
 };
 
 struct ControllerTune {
