@@ -11,6 +11,7 @@
 #include "log.hpp"
 #include "progress.hpp"
 #include "upright/base/number_text.hpp"
+#include "upright/runner/run/batch.hpp"
 #include "upright/runner/tune/tune.hpp"
 #include "upright/runner/tune/tune_file.hpp"
 #include "upright/runner/tune/tune_writer.hpp"
@@ -36,6 +37,11 @@ CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* o) {
       ->capture_default_str();
   cmd->add_option("--jobs", o->jobs, "Runs in parallel (0: one per core)")
       ->check(CLI::Range(0, 1024))
+      ->capture_default_str();
+  cmd->add_option("--seeds", o->seed_count,
+                  "Noise seeds 1..N for every scenario in the search (0: each file's own); the "
+                  "held-out seeds follow the largest")
+      ->check(CLI::Range(0, 100000))
       ->capture_default_str();
   cmd->add_option("--holdout", o->holdout_seeds,
                   "Held-out seeds per scenario (the N after its own): the default and the tuned "
@@ -70,6 +76,7 @@ int RunTune(const TuneCommandOptions& options) {
       Log().Error(loaded.error());
       return kExitBadInput;
     }
+    loaded->seeds = runner::RunSeeds(*loaded, options.seed_count);
     scenarios.push_back(std::move(*loaded));
   }
   runner::TuneSpec spec;
@@ -165,7 +172,7 @@ int RunTune(const TuneCommandOptions& options) {
                     FixedText(result.wall_s, 1).c_str(), result.jobs));
   Log().Info("tables: " + out_dir + "/tune.md (with each tuned <controller> element), " + out_dir +
              "/tune.csv" + (plan.pareto_metrics.empty() ? "" : ", " + out_dir + "/pareto.csv"));
-  Log().Caution(kCaution);
+  if (options.caution) Log().Caution(kCaution);
   return any_failed ? kExitFailed : kExitOk;
 }
 

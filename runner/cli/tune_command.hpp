@@ -16,9 +16,11 @@ struct TuneCommandOptions {
   std::uint64_t seed = 1;                   // --seed: the search's start
   int jobs = 0;                             // --jobs: runs in parallel; 0: one per core
   int holdout_seeds = 3;                    // --holdout: held-out seeds per scenario
+  int seed_count = 0;  // --seeds: the search's seeds 1..N in every scenario; 0: each file's own
   std::string out_dir;                      // --out; "": results/<first scenario name>-tune
   std::string tune_path;                    // --tune: a tune file; "": the default knobs
   std::vector<std::string> pareto_metrics;  // --pareto A,B: two metrics' front; empty: none
+  bool caution = true;  // close with the safety line (demo prints it once itself)
 };
 
 // Adds the `tune` subcommand to `app`, parsing into `options`; returns it.
