@@ -9,6 +9,7 @@
 #include "commands.hpp"
 #include "log.hpp"
 #include "module_messages.hpp"
+#include "upright/base/read_file.hpp"
 #include "upright/model/model_file.hpp"
 #include "upright/runner/run/modules.hpp"
 #include "upright/runner/run/run_one.hpp"
@@ -20,8 +21,9 @@ namespace {
 // The root element's name, or "" when the file cannot be read or parsed (the loader then
 // reports why, with a line).
 std::string RootName(const std::string& path) {
+  const Result<std::string> text = ReadRegularFile(path, kMaxInputFileBytes);
   tinyxml2::XMLDocument doc;
-  if (doc.LoadFile(path.c_str()) != tinyxml2::XML_SUCCESS) return "";
+  if (!text || doc.Parse(text->data(), text->size()) != tinyxml2::XML_SUCCESS) return "";
   const auto* root = doc.RootElement();
   return root ? root->Name() : "";
 }

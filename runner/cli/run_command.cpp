@@ -19,6 +19,7 @@
 #include "sweep_command.hpp"
 #include "tune_command.hpp"
 #include "upright/base/number_text.hpp"
+#include "upright/base/read_file.hpp"
 #include "upright/runner/report/report.hpp"
 #include "upright/runner/run/batch.hpp"
 #include "upright/runner/scenario/scenario_file.hpp"
@@ -51,8 +52,9 @@ std::vector<std::string> ScenarioFilesIn(const fs::path& folder, std::error_code
   std::vector<std::string> files;
   for (const auto& entry : fs::directory_iterator(folder, *ec)) {
     if (entry.path().extension() != ".xml" || !entry.is_regular_file()) continue;
+    const Result<std::string> text = ReadRegularFile(entry.path().string(), kMaxInputFileBytes);
     tinyxml2::XMLDocument doc;
-    if (doc.LoadFile(entry.path().string().c_str()) == tinyxml2::XML_SUCCESS &&
+    if (text && doc.Parse(text->data(), text->size()) == tinyxml2::XML_SUCCESS &&
         doc.RootElement() != nullptr && std::string(doc.RootElement()->Name()) != "scenario") {
       continue;
     }

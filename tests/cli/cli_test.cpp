@@ -1,6 +1,7 @@
 // End-to-end tests of the `upright` program: exit codes, messages with path:line, runs and the
 // demo suite.
 #include <gtest/gtest.h>
+#include <sys/stat.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -9,6 +10,7 @@
 #include <cstdio>
 #include <filesystem>
 #include <fstream>
+#include <iterator>
 #include <nlohmann/json.hpp>
 #include <string>
 #include <utility>
@@ -128,6 +130,25 @@ TEST(Cli, CheckRejectsAMissingFileAndAnUnknownRoot) {
   const Result r = RunUpright("check " + other);
   EXPECT_EQ(r.exit_code, 2);
   EXPECT_NE(r.output.find("<vehicle>"), std::string::npos) << r.output;
+}
+
+// A device would be read without end and a FIFO would block: check, run and design refuse both
+// by what they are, before reading.
+TEST(Cli, RefusesADeviceAndAFifoAsInputFiles) {
+  const std::string fifo = WriteTemp("fifo.xml", "");
+  std::filesystem::remove(fifo);
+  ASSERT_EQ(::mkfifo(fifo.c_str(), 0600), 0);
+  for (const char* command : {"check", "run", "design"}) {
+    for (const auto& [path, kind] :
+         {std::pair<std::string, std::string>{"/dev/zero", "a character device"},
+          {fifo, "a FIFO"}}) {
+      const Result r = RunUpright(std::string(command) + " " + path);
+      EXPECT_EQ(r.exit_code, 2) << command << " " << path << ": " << r.output;
+      EXPECT_NE(r.output.find(path + ": not a regular file (" + kind + ")"), std::string::npos)
+          << command << ": " << r.output;
+    }
+  }
+  std::filesystem::remove(fifo);
 }
 
 TEST(Cli, CheckTellsASchemaOneModelTheNamesThatReplacedItsOwn) {
@@ -564,6 +585,30 @@ TEST(Cli, CheckAcceptsEveryDemoScenario) {
       << r.output;
 }
 
+// A ground whose mesh the physics engine cannot hold (it crashed in the run before `check`
+// refused it) is refused with its line, and nothing else in the file is blamed.
+TEST(Cli, CheckRefusesAGroundBeyondThePhysicsEnginesMeshLimit) {
+  const std::string demo = std::string(UPRIGHT_SOURCE_DIR) + "/scenarios/courier-curb-up.xml";
+  std::ifstream in(demo);
+  std::string text((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+  for (const auto& [from, to] : {std::pair<std::string, std::string>{"../models/", Models()},
+                                 {"<plateau length_m=\"10\"/>", "<plateau length_m=\"70000\"/>"}}) {
+    const auto at = text.find(from);
+    ASSERT_NE(at, std::string::npos) << from;
+    text.replace(at, from.size(), to);
+  }
+  const std::string path = WriteTemp("long-plateau.xml", text);
+  const Result r = RunUpright("check " + path);
+  EXPECT_EQ(r.exit_code, 2) << r.output;
+  // At 0.2 m cells: 260 pieces over the 52 m lead-in from −50 m, the curb, 350000 over the
+  // plateau and 1000 over the 200 m beyond, by 30 cells across its 6 m, two triangles each.
+  EXPECT_NE(r.output.find(path + LineOf(demo, "<ground") +
+                          " ground: Terrain: the profile's ground mesh would hold 21075660 "
+                          "triangles at 0.2 m cells"),
+            std::string::npos)
+      << r.output;
+}
+
 // A controller element the short scenario ends with: it lands on line 10.
 constexpr int kExtraControllerLine = 10;
 
@@ -846,6 +891,15 @@ TEST(Cli, DemoRunsTheWholeSuiteIntoResultsDemo) {
     scenarios += e.path().extension() == ".xml";
   }
   EXPECT_GE(CountFiles(out / "traces"), 4 * scenarios);
+  // The tune, with the four built-ins ranked at their best and as designed on held-out seeds.
+  EXPECT_TRUE(std::filesystem::is_regular_file(out / "tune" / "tune.md"));
+  for (const char* replay : {"tuned", "defaults"}) {
+    std::ifstream in(out / "tune" / replay / "ranking.csv");
+    std::string ranking((std::istreambuf_iterator<char>(in)), std::istreambuf_iterator<char>());
+    for (const char* controller : {",lqr,", ",hinf,", ",lqg,", ",pid,"}) {
+      EXPECT_NE(ranking.find(controller), std::string::npos) << replay << ": " << ranking;
+    }
+  }
 }
 
 // A one-controller shove of the courier, 2 s on one seed, for the tune tests.

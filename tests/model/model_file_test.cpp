@@ -474,6 +474,15 @@ TEST(ModelFile, RejectsValueAboveMaximum) {
             Lines{"mini.xml:6: wheels friction = 3.5: must be in (0, 3]"});
 }
 
+// A rate below 1 Hz is no balance controller and, at 1e-300 Hz, a period of more steps than any
+// integer holds: the bound is 1 Hz.
+TEST(ModelFile, RejectsAControlRateBelowOneHertz) {
+  EXPECT_EQ(Errors(Edit(R"(<control rate_hz="200"/>)", R"(<control rate_hz="1e-300"/>)")),
+            Lines{"mini.xml:13: control rate_hz = 1e-300: must be in [1, 100000]"});
+  EXPECT_EQ(Errors(Edit(R"(<control rate_hz="200"/>)", R"(<control rate_hz="0.999"/>)")),
+            Lines{"mini.xml:13: control rate_hz = 0.999: must be in [1, 100000]"});
+}
+
 TEST(ModelFile, RejectsGearEfficiencyAboveOne) {
   EXPECT_EQ(Errors(Edit(R"(gear_ratio="10")", R"(gear_ratio="10" gear_efficiency="1.05")")),
             Lines{"mini.xml:7: motor gear_efficiency = 1.05: must be in (0, 1]"});

@@ -131,6 +131,31 @@ TEST(EnvelopePlan, RefusesBadInputWithTheReason) {
   options.param2 = options.param;
   error = refusal(options);
   EXPECT_NE(error.find("param2"), std::string::npos) << error;
+
+  // Ends each finite, but a width that is not (its default tolerance would be infinite too).
+  options = PeakOptions();
+  options.lo = -1e308;
+  options.hi = 1e308;
+  options.tol.reset();
+  error = refusal(options);
+  EXPECT_NE(error.find("the range from -1e+308 to 1e+308 is wider than a number holds"),
+            std::string::npos)
+      << error;
+
+  // A tolerance finer than 2^-52 of the range: a bisection to it could not end. At exactly
+  // 2^-52 of the range it plans 52 halvings and 54 probes a seed and controller.
+  options = PeakOptions();
+  options.lo = 0;
+  options.hi = 1;
+  options.tol = 0x1p-53;
+  error = refusal(options);
+  EXPECT_NE(error.find("is finer than a number resolves across the range 0 to 1"),
+            std::string::npos)
+      << error;
+  options.tol = 0x1p-52;
+  const Result<EnvelopePlan> finest = PlanEnvelope(s, options);
+  ASSERT_TRUE(finest) << finest.error();
+  EXPECT_EQ(finest->max_runs, 54 * s.controllers.size() * finest->seeds.size());
 }
 
 TEST(Envelope, PushPeakIsBracketedAndTheSurvivedValueSurvives) {

@@ -25,6 +25,7 @@
 #include "upright/runner/common/sha256.hpp"
 #include "upright/runner/report/csv_reader.hpp"
 #include "upright/runner/tables/metric_columns.hpp"
+#include "upright/runner/tables/results_writer.hpp"
 #include "upright/runner/tables/verdict.hpp"
 
 namespace upright::runner {
@@ -313,6 +314,37 @@ TEST(Report, AMalformedTableIsRefusedWithItsLine) {
             (dir / "summary.csv").string() +
                 ":2: a quoted field is never closed (expected a closing '\"')");
   EXPECT_FALSE(fs::exists(dir / kReportFileName));
+}
+
+// A manifest naming a trace outside the results folder (absolute, up and out, or a link inside
+// that leads out) is refused rather than read: the report reads only the folder's own files.
+TEST(Report, ATraceOutsideTheResultsFolderIsRefused) {
+  const testing::SmallRun& run = SmallRunFolder();
+  const std::string manifest = ReadFile(run.dir / "manifest.json");
+  const std::string first = "\"traces/" + TraceFileName(run.batch.runs.front()) + "\"";
+  ASSERT_NE(manifest.find(first), std::string::npos) << manifest;
+  const fs::path outside = ScratchDir("report-outside") / "elsewhere.csv";
+  fs::copy_file(run.dir / "traces" / TraceFileName(run.batch.runs.front()), outside,
+                fs::copy_options::overwrite_existing);
+  const std::string seed = std::to_string(run.batch.runs.front().seed);
+  for (const std::string& named :
+       {outside.string(), "../" + outside.parent_path().filename().string() + "/elsewhere.csv",
+        std::string("traces/link.csv")}) {
+    const fs::path dir = ScratchDir("report-trace-outside");
+    fs::copy(run.dir, dir, fs::copy_options::recursive | fs::copy_options::overwrite_existing);
+    fs::create_symlink(outside, dir / "traces" / "link.csv");
+    std::string edited = manifest;
+    edited.replace(edited.find(first), first.size(), "\"" + named + "\"");
+    std::ofstream(dir / "manifest.json") << edited;
+    const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+    ASSERT_FALSE(made) << named;
+    EXPECT_EQ(made.error().problem, ReportProblem::kBadInput);
+    EXPECT_EQ(made.error().message,
+              (dir / "manifest.json").string() + ": the trace of " +
+                  run.batch.runs.front().scenario + " " + run.batch.runs.front().controller +
+                  " seed " + seed + ", '" + named +
+                  "', lies outside the results folder; the report reads only files inside it");
+  }
 }
 
 // A sweep table whose yes/no cells are not true/false (another writer's 1 and 0) is refused at

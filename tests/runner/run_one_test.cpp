@@ -73,6 +73,25 @@ std::string ShoveText(double peak_N, const std::string& lqr_settings = "",
 </scenario>)";
 }
 
+// A trace rate so slow its period outlasts the run (1e-300 Hz: 1e303 steps, beyond any integer)
+// is bounded before it becomes a step count: the first row and the last (every trace ends on
+// the run's last step), the run itself unchanged.
+TEST(RunOne, ATraceSlowerThanTheRunKeepsItsFirstAndLastRows) {
+  const Scenario s = ScenarioFromText(ShoveText(60));
+  RunOptions slow;
+  slow.trace_rate_hz = 1e-300;
+  const RunResult r = RunOne(s, 0, 7, BuiltinModule("lqr"), slow);
+  EXPECT_EQ(r.metrics.status, RunStatus::kOk) << r.metrics.message;
+  ASSERT_EQ(r.trace.rows.size(), 2u);
+  EXPECT_EQ(r.trace.rows[0].time_s, 0);
+  EXPECT_NEAR(r.trace.rows[1].time_s, 3.0, 1e-9);
+  EXPECT_NEAR(r.trace.rate_hz, 1 / 3.001, 1e-12);  // one row per 3001 steps of 1 ms
+  RunOptions none;
+  none.trace_rate_hz = 0;
+  EXPECT_EQ(RunOne(s, 0, 7, BuiltinModule("lqr"), none).metrics.max_tilt_deg,
+            r.metrics.max_tilt_deg);
+}
+
 TEST(RunOne, SurvivesAModestPushWithATraceAtTheAskedRate) {
   const Scenario s = ScenarioFromText(ShoveText(60));
   RunOptions options;

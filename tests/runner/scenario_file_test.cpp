@@ -523,6 +523,19 @@ TEST_F(ScenarioFileTest, ChecksTheRobotRatesAgainstItsOwnStep) {
                   "the IMU at least as fast as the physics"});
 }
 
+TEST_F(ScenarioFileTest, BoundsARunToTenMillionSteps) {
+  // Exactly 1e7 steps of 1 ms is a run; one step more is refused before any memory is taken
+  // (1e5 s at 1 ms once ran without end, holding its whole trace).
+  EXPECT_TRUE(Parse(Root(R"(duration_s="10000" dt_s="0.001")")).has_value());
+  EXPECT_EQ(Errors(Root(R"(duration_s="10000.001" dt_s="0.001")")),
+            Lines{"t.xml:1: scenario duration_s = 10000.001: is 10000001 physics steps of dt_s = "
+                  "0.001; a run takes at most 1e7 (its metrics and trace are held in memory): "
+                  "shorten it or lengthen dt_s"});
+  EXPECT_EQ(Errors(Root(R"(duration_s="100000" dt_s="0.001")")).size(), 1u);
+  // A tiny step makes as many steps of a short run.
+  EXPECT_EQ(Errors(Root(R"(duration_s="8" dt_s="1e-10")")).size(), 1u);
+}
+
 TEST_F(ScenarioFileTest, RequiresRobotRatesOfWholeSteps) {
   // Control 200 Hz at 3 ms: 1.67 steps a period.
   EXPECT_EQ(Errors(Root(R"(duration_s="3" dt_s="0.003")")),
@@ -957,6 +970,12 @@ TEST_F(ScenarioFileTest, RequiresControllerRateOfWholeSteps) {
             Lines{"t.xml:8: controllers/controller rate_hz = 2000" + rule});
   EXPECT_TRUE(
       Parse(Controllers(R"(    <controller name="x" builtin="lqr" rate_hz="250"/>)")).has_value());
+  // A period as long as the 8 s run acts once; a longer one never would.
+  EXPECT_TRUE(Parse(Controllers(R"(    <controller name="x" builtin="lqr" rate_hz="0.125"/>)"))
+                  .has_value());
+  EXPECT_EQ(Errors(Controllers(R"(    <controller name="x" builtin="lqr" rate_hz="1e-300"/>)")),
+            Lines{"t.xml:8: controllers/controller rate_hz = 1e-300: its period is longer than "
+                  "the run (duration_s = 8): the controller would never act"});
 }
 
 TEST_F(ScenarioFileTest, RequiresUniqueSettingKeys) {

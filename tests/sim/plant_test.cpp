@@ -358,6 +358,38 @@ TEST(Plant, WheelsCarryHalfTheWeightFromTheFirstStepOnProfileTerrain) {
   EXPECT_LT(worst_accel, 0.002);
 }
 
+TEST(Plant, WheelsCarryTheRobotOnTheLargestGroundThePhysicsEngineHolds) {
+  // A 1 m wide level profile whose mesh at 0.2 m cells has 2097150 triangles, the most below
+  // Bullet's 2^21 − 1 (btQuantizedBvh.h; the count is checked in terrain_test.cpp), with wheels
+  // small enough for the finest cell, standing near the far end where the triangle indices are
+  // largest: carried as on flat ground, (M + 2 m_w) g / 2 per wheel (statics; 0.1 %).
+  model::RobotModel model = MakeTestRobot();
+  model.wheel.radius_m = 0.05;
+  model.chassis.outline_bottom_m = -0.04;  // clear of the ground on the smaller wheels
+  ASSERT_EQ(MeshCellFor(model.wheel.radius_m), kFinestMeshCell_m);
+  PlantOptions options = Unpowered();
+  options.terrain.kind = TerrainKind::kProfile;
+  options.terrain.start_x_m = 1;
+  options.terrain.width_m = 1;
+  options.terrain.segments = {{SegmentKind::kPlateau, 41691.99, 0}};
+  ASSERT_EQ(ProfileMeshTriangles(options.terrain, kFinestMeshCell_m), 2097150);
+  options.initial.x_m = 41600;
+  auto plant = MakePlant(model, options);
+  ASSERT_NE(plant, nullptr);
+  const double expected = RollingMass(model) * kG / 2;
+  double worst_load = 0;
+  for (int k = 1; k <= 50; ++k) {
+    plant->Step();
+    for (int side : {model::kLeft, model::kRight}) {
+      ASSERT_TRUE(plant->contact().wheels[side].touching) << "step " << k;
+      const double load = plant->contact().wheels[side].normal_N;
+      worst_load = std::max(worst_load, std::abs(load - expected) / expected);
+    }
+  }
+  EXPECT_LT(worst_load, 0.001);
+  EXPECT_NEAR(plant->truth().z_m, 0.05, 1e-3);  // the axle one radius above the ground
+}
+
 TEST(Plant, ForwardWheelTorqueGivesPositiveTractionAndPitchesTheChassisBack) {
   const model::RobotModel model = MakeTestRobot();
   auto plant = MakePlant(model, Unpowered());

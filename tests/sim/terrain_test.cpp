@@ -286,3 +286,54 @@ TEST(Terrain, KindNamesRoundTrip) {
 
 }  // namespace
 }  // namespace upright::sim
+
+namespace upright::sim {
+namespace {
+
+// A level profile 1 m wide (five 0.2 m cells across) from x = 1 with one plateau `length_m`
+// long; extent 200 m, so the mesh runs from −50 m.
+Terrain LongPlateau(double length_m) {
+  Terrain t;
+  t.kind = TerrainKind::kProfile;
+  t.start_x_m = 1;
+  t.width_m = 1;
+  t.segments = {{SegmentKind::kPlateau, length_m, 0}};
+  return t;
+}
+
+TEST(Terrain, MeshTriangleCountIsTheBuiltMeshs) {
+  // Two triangles per cell: (polyline vertices − 1) × cells across, for every kind of segment.
+  for (const double cell : {1.0, 0.25, 0.07}) {
+    const Terrain t = MakeProfile();
+    const double across = std::ceil(t.width_m / cell);
+    EXPECT_EQ(ProfileMeshTriangles(t, cell),
+              2 * static_cast<double>(ProfilePolyline(t, cell).size() - 1) * across)
+        << "cell " << cell;
+  }
+  EXPECT_EQ(MeshCellFor(0.02), kFinestMeshCell_m);  // a small wheel: the finest cell
+  EXPECT_EQ(MeshCellFor(0.1), 0.4);
+  EXPECT_EQ(MeshCellFor(0.5), 1.0);
+}
+
+TEST(Terrain, RefusesAGroundBeyondThePhysicsEnginesMeshLimit) {
+  // Vertices at 0.2 m: 255 over the 51 m lead-in, 208460 over the plateau, 1000 over the 200 m
+  // extent, so 2 × 209715 × 5 = 2097150 triangles, the most below 2^21 − 1 = 2097151
+  // (btQuantizedBvh.h); a plateau one cell longer makes 2097160.
+  const Terrain at_limit = LongPlateau(41691.99);
+  EXPECT_EQ(ProfileMeshTriangles(at_limit, kFinestMeshCell_m), 2097150);
+  EXPECT_TRUE(Succeeded(at_limit.Validate()));
+  const Terrain over = LongPlateau(41692.19);
+  EXPECT_EQ(ProfileMeshTriangles(over, kFinestMeshCell_m), 2097160);
+  const std::string why = FailureOf(over.Validate());
+  EXPECT_NE(why.find("would hold 2097160 triangles at 0.2 m cells"), std::string::npos) << why;
+  EXPECT_NE(why.find("at most 2097151 (2^21 - 1)"), std::string::npos) << why;
+  // Far beyond: no overflow on the way to the count, and refused.
+  EXPECT_FALSE(LongPlateau(70000).Validate());
+  Terrain wide = LongPlateau(1);
+  wide.width_m = 2000;
+  EXPECT_FALSE(wide.Validate());
+  EXPECT_FALSE(LongPlateau(1e300).Validate());
+}
+
+}  // namespace
+}  // namespace upright::sim

@@ -28,8 +28,9 @@ Result<std::unique_ptr<ControllerHost>> ControllerHost::Create(const ControllerS
   const std::string who = "controller '" + spec.module->name() + "' (" + spec.module->path() + ")";
   const double rate_hz = spec.rate_hz > 0 ? spec.rate_hz : model.control_rate_hz;
   const double steps = 1 / (rate_hz * dt_s);
+  // At most 2^31 steps a period, so the count converts exactly (no run takes as many).
   if (!(spec.rate_hz >= 0) || !std::isfinite(spec.rate_hz) || !(steps >= 1) ||
-      std::abs(steps - std::round(steps)) > 1e-6 * steps) {
+      !(steps <= 2147483648.0) || std::abs(steps - std::round(steps)) > 1e-6 * steps) {
     std::ostringstream why;
     why << who << ": rate_hz = " << rate_hz << " must give a period of a whole number (>= 1) of "
         << "physics steps of " << dt_s << " s";

@@ -335,7 +335,7 @@ constexpr FieldRule kFieldRules[] = {
      .unit = "Hz",
      .field = [](ModelDraft& d) { return &d.model.sensors.imu_rate_hz; },
      .required = true,
-     .min = Above(0),
+     .min = AtLeast(1),
      .max = AtMost(100000),
      .meaning = "the IMU's own sample rate"},
     {.element = "sensors/imu",
@@ -441,7 +441,7 @@ constexpr FieldRule kFieldRules[] = {
      .unit = "Hz",
      .field = [](ModelDraft& d) { return &d.model.control_rate_hz; },
      .required = true,
-     .min = Above(0),
+     .min = AtLeast(1),
      .max = AtMost(100000),
      .meaning = "the rate the balance controller runs at"},
     // <payload>

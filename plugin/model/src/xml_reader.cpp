@@ -4,13 +4,13 @@
 
 #include <algorithm>
 #include <cctype>
-#include <cerrno>
 #include <charconv>
 #include <cmath>
-#include <cstdio>
 #include <cstring>
 #include <system_error>
 #include <utility>
+
+#include "upright/base/read_file.hpp"
 
 namespace upright::model {
 namespace internal {
@@ -288,26 +288,14 @@ XmlDocument& XmlDocument::operator=(XmlDocument&&) noexcept = default;
 XmlDocument::~XmlDocument() = default;
 
 XmlDocument XmlDocument::Open(const std::string& path) {
-  std::FILE* file = std::fopen(path.c_str(), "rb");
-  if (file == nullptr) {
+  Result<std::string> text = ReadRegularFile(path, kMaxInputFileBytes);
+  if (!text) {
     auto tree = std::make_unique<XmlTree>();
     tree->path = path;
-    tree->Error(0, std::string("cannot open file: ") + std::strerror(errno));
+    tree->Error(0, std::move(text.error()));
     return XmlDocument(std::move(tree));
   }
-  std::string text;
-  char buffer[4096];
-  std::size_t count = 0;
-  while ((count = std::fread(buffer, 1, sizeof buffer, file)) > 0) text.append(buffer, count);
-  const bool failed = std::ferror(file) != 0;
-  std::fclose(file);
-  if (failed) {
-    auto tree = std::make_unique<XmlTree>();
-    tree->path = path;
-    tree->Error(0, "cannot read file");
-    return XmlDocument(std::move(tree));
-  }
-  return Parse(text, path);
+  return Parse(*text, path);
 }
 
 XmlDocument XmlDocument::Parse(std::string_view text, const std::string& path) {

@@ -88,7 +88,7 @@ class PlantImpl {
         world_(options.dt_s, options.solver_iterations),
         sensors_(model.sensors, model.control_rate_hz, options.dt_s, options.seed,
                  options.sensor_noise) {
-    world_.AddGround(options.terrain, std::clamp(4 * model.wheel.radius_m, 0.2, 1.0));
+    world_.AddGround(options.terrain, MeshCellFor(model.wheel.radius_m));
     robot_ = BuildRobot(world_, model, options);
     coulomb_band_rad_s_ = MotorCoulombBand(model.motor, model.wheel.spin_inertia_kgm2, options.dt_s);
     const double rolling_Nm = model.wheel.rolling_resistance * model.total_mass_kg() *

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <iomanip>
 #include <numbers>
 #include <sstream>
 
@@ -19,7 +20,40 @@ double ProfileEnd(const Terrain& t) {
   return x;
 }
 
+// The pieces a stretch `length_m` long is split into so none is longer than `max_piece_m`, and
+// at least `at_least`; a double, so a huge stretch cannot overflow.
+double PiecesFor(double length_m, double max_piece_m, double at_least) {
+  return std::max(at_least, std::ceil(length_m / max_piece_m));
+}
+
 }  // namespace
+
+double MeshCellFor(double wheel_radius_m) {
+  return std::clamp(4 * wheel_radius_m, kFinestMeshCell_m, 1.0);
+}
+
+double ProfileMeshTriangles(const Terrain& t, double mesh_cell_m) {
+  const double x_begin = std::min(t.start_x_m, 0.0) - t.extent_m / 4;
+  double points = 1 + PiecesFor(t.start_x_m - x_begin, mesh_cell_m, 1);
+  for (const auto& s : t.segments) {
+    switch (s.kind) {
+      case SegmentKind::kCurb:
+        points += 1;
+        break;
+      case SegmentKind::kRamp:
+        points += PiecesFor(std::hypot(s.length_m, s.height_m), mesh_cell_m, 1);
+        break;
+      case SegmentKind::kPlateau:
+        points += PiecesFor(s.length_m, mesh_cell_m, 1);
+        break;
+      case SegmentKind::kBump:
+        points += PiecesFor(std::hypot(s.length_m, std::numbers::pi * s.height_m), mesh_cell_m, 16);
+        break;
+    }
+  }
+  points += PiecesFor(t.extent_m, mesh_cell_m, 1);
+  return 2 * (points - 1) * PiecesFor(t.width_m, mesh_cell_m, 1);
+}
 
 double Terrain::HeightAt(double x_m) const {
   switch (kind) {
@@ -105,6 +139,17 @@ Status Terrain::Validate() const {
       why << name << ".friction = " << r.friction << ", must be in [0, 3]";
     }
   }
+  if (why.tellp() == 0 && kind == TerrainKind::kProfile) {
+    const double triangles = ProfileMeshTriangles(*this, kFinestMeshCell_m);
+    if (!(triangles <= kMaxGroundTriangles)) {
+      why << "Terrain: the profile's ground mesh would hold " << std::fixed << std::setprecision(0)
+          << triangles << " triangles at " << std::defaultfloat << std::setprecision(6)
+          << kFinestMeshCell_m << " m cells (from " << (std::min(start_x_m, 0.0) - extent_m / 4)
+          << " m to " << extent_m << " m past its end, " << width_m
+          << " m wide); the physics engine holds at most " << std::fixed << std::setprecision(0)
+          << kMaxGroundTriangles << " (2^21 - 1): shorten the profile or narrow it";
+    }
+  }
   if (why.tellp() == 0) return {};
   return Failure(why.str());
 }
@@ -116,7 +161,7 @@ std::vector<std::pair<double, double>> ProfilePolyline(const Terrain& t, double 
   // Flat lead-in split into pieces no longer than max_piece_m, so triangles stay of similar size.
   auto add_line_to = [&](double x1, double z1) {
     const auto [x0, z0] = pts.back();
-    const int n = std::max(1, static_cast<int>(std::ceil(std::hypot(x1 - x0, z1 - z0) / max_piece_m)));
+    const int n = static_cast<int>(PiecesFor(std::hypot(x1 - x0, z1 - z0), max_piece_m, 1));
     for (int i = 1; i <= n; ++i) pts.emplace_back(x0 + (x1 - x0) * i / n, z0 + (z1 - z0) * i / n);
   };
   pts.emplace_back(x_begin, 0.0);
@@ -140,7 +185,7 @@ std::vector<std::pair<double, double>> ProfilePolyline(const Terrain& t, double 
       case SegmentKind::kBump: {
         // The bump's arc is at most L √(1 + (π h / L)²) long (its steepest slope is π h / L).
         const double arc_m = std::hypot(s.length_m, std::numbers::pi * s.height_m);
-        const int n = std::max(16, static_cast<int>(std::ceil(arc_m / max_piece_m)));
+        const int n = static_cast<int>(PiecesFor(arc_m, max_piece_m, 16));
         for (int i = 1; i <= n; ++i) {
           const double u = static_cast<double>(i) / n;
           pts.emplace_back(x + u * s.length_m, z + s.height_m * BumpShape(u));

@@ -40,8 +40,15 @@ Result<ParameterAxis> ResolveAxis(const Scenario& scenario, const std::string& p
         path + ": range start " + Num(axis.lo) + " must be below its end " + Num(axis.hi) +
         (lo && hi ? "" : " (defaults: 0.25 and 4 times the scenario's value " + Num(v) + ")"));
   }
+  if (!std::isfinite(axis.hi - axis.lo)) {
+    return Failure(path + ": the range from " + Num(axis.lo) + " to " + Num(axis.hi) +
+                   " is wider than a number holds (its width is not finite); narrow it");
+  }
   return axis;
 }
+
+// The most halvings a bisection may take: a double's 52 fraction bits.
+constexpr double kFinestBisection = 4503599627370496.0;  // 2^52
 
 // k + 2 probes for a bisection from width w to tol, k = ⌈log2(w / tol)⌉ (bisect.hpp).
 std::size_t BracketedProbes(double width, double tol) {
@@ -152,6 +159,13 @@ Result<EnvelopePlan> PlanEnvelope(const Scenario& scenario, const EnvelopeOption
   if (!axis) return Failure(axis.error());
   p.axis = *axis;
   p.tol = options.tol ? *options.tol : (p.axis.hi - p.axis.lo) / 200;
+  // Halving the range more than 52 times splits it finer than a double resolves across it.
+  if (!((p.axis.hi - p.axis.lo) / p.tol <= kFinestBisection)) {
+    return Failure("tolerance " + Num(p.tol) +
+                   " is finer than a number resolves across the range " + Num(p.axis.lo) + " to " +
+                   Num(p.axis.hi) + "; give at least " +
+                   Num((p.axis.hi - p.axis.lo) / kFinestBisection));
+  }
   if (!options.param2.empty()) {
     const Result<ParameterAxis> axis2 =
         ResolveAxis(scenario, options.param2, options.lo2, options.hi2);

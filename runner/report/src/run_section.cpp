@@ -114,12 +114,26 @@ double LastFinite(const std::vector<double>& values) {
   return kNoValue;
 }
 
-std::string TracePath(const ResultsFolder& folder, const ManifestInfo& manifest,
-                      const RunRow& run) {
+// The trace file of `run`: the manifest's, which must lie inside the results folder (after
+// links are followed), else traces/<TraceFileName>.
+Result<std::string> TracePath(const ResultsFolder& folder, const ManifestInfo& manifest,
+                              const RunRow& run) {
   for (const ManifestRun& m : manifest.runs) {
     if (m.scenario == run.scenario && m.controller == run.controller && m.seed == run.seed &&
         !m.trace.empty()) {
-      return (fs::path(folder.path) / m.trace).string();
+      const fs::path path = fs::path(folder.path) / m.trace;
+      std::error_code ec;
+      const fs::path inside = fs::weakly_canonical(folder.path, ec);
+      const fs::path resolved = fs::weakly_canonical(path, ec);
+      const fs::path relative = resolved.lexically_relative(inside);
+      if (ec || fs::path(m.trace).is_absolute() || relative.empty() || *relative.begin() == "..") {
+        return Failure((fs::path(folder.path) / "manifest.json").string() + ": the trace of " +
+                       run.scenario + " " + run.controller + " seed " + run.seed_text + ", '" +
+                       m.trace +
+                       "', lies outside the results folder; the report reads only files inside "
+                       "it");
+      }
+      return path.string();
     }
   }
   RunResult named;
@@ -153,7 +167,9 @@ Result<PlottedRuns> LoadPlottedRuns(const ResultsFolder& folder, const ManifestI
       }
     }
     if (t.run == nullptr) continue;
-    const std::string path = TracePath(folder, manifest, *t.run);
+    const Result<std::string> traced = TracePath(folder, manifest, *t.run);
+    if (!traced) return Failure(traced.error());
+    const std::string& path = *traced;
     std::error_code ec;
     if (!fs::is_regular_file(path, ec)) {
       if (t.run->status != "setup_failed") plotted.missing.push_back(t.controller);

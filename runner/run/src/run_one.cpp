@@ -245,14 +245,19 @@ RunLoop::RunLoop(const Scenario& run_scenario, const RunOptions& run_options, si
                      !run_scenario.payload_shifts.empty()),
       quiet_from_s(run_options.stop_when_settled ? internal::Timeline::QuietFrom(run_scenario)
                                                  : std::numeric_limits<double>::infinity()),
-      hold_steps(std::max(1L, std::lround(run_options.settle_hold_s / run_scenario.dt_s))),
+      // Bounded before the conversion: a hold longer than the run is as good as the run's length.
+      hold_steps(std::max(1L, std::lround(std::min(run_options.settle_hold_s / run_scenario.dt_s,
+                                                   static_cast<double>(total_steps) + 1)))),
       tilt_band_rad(run_scenario.metrics.tilt_band_deg / kDeg) {}
 
 // The storage the steps fill, reserved before the first: the trace (its rate, marks and first
 // row) and the linear twin's comparison series.
 void ReserveRecords(RunLoop& run, Trace* trace) {
   if (run.options.trace_rate_hz > 0) {
-    run.trace_every = std::max(1L, std::lround(1.0 / (run.options.trace_rate_hz * run.dt_s)));
+    // Bounded before the conversion: a trace slower than one row a run keeps its first row only.
+    run.trace_every =
+        std::max(1L, std::lround(std::min(1.0 / (run.options.trace_rate_hz * run.dt_s),
+                                          static_cast<double>(run.total_steps) + 1)));
     trace->rate_hz = 1.0 / (static_cast<double>(run.trace_every) * run.dt_s);
     trace->rows.reserve(static_cast<std::size_t>(run.total_steps / run.trace_every + 2));
     trace->marks = internal::Timeline::Marks(run.scenario);

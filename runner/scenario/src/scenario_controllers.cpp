@@ -84,6 +84,10 @@ ControllerEntry ReadController(model::XmlElement element, const ReadContext& con
     if (!(entry.rate_hz > 0)) {
       context.FieldError(element, "rate_hz", Num(entry.rate_hz),
                          "must be > 0 (leave it out for the robot's control rate)");
+    } else if (context.duration_s && !(entry.rate_hz * *context.duration_s >= 1)) {
+      context.FieldError(element, "rate_hz", Num(entry.rate_hz),
+                         "its period is longer than the run (duration_s = " +
+                             Num(*context.duration_s) + "): the controller would never act");
     } else if (context.dt_s && !WholeStepsPeriod(entry.rate_hz, *context.dt_s)) {
       context.FieldError(element, "rate_hz", Num(entry.rate_hz),
                          "its period must be a whole number (>= 1) of physics steps of dt_s = " +

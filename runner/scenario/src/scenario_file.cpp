@@ -58,6 +58,11 @@ void ReadRunSettings(model::XmlElement& root, ReadContext& context, Scenario* sc
             root, "duration_s", Num(*duration),
             "must be a whole number of physics steps of dt_s = " + Num(*context.dt_s) + " (it is " +
                 internal::Approx(steps) + " steps)");
+      } else if (whole > kMaxRunSteps) {
+        context.FieldError(root, "duration_s", Num(*duration),
+                           "is " + Num(whole) + " physics steps of dt_s = " + Num(*context.dt_s) +
+                               "; a run takes at most 1e7 (its metrics and trace are held in "
+                               "memory): shorten it or lengthen dt_s");
       } else {
         context.duration_s = *duration;
       }

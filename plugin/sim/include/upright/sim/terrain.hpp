@@ -54,6 +54,20 @@ struct Terrain {
   Status Validate() const;
 };
 
+// The size of a profile mesh's cells for a wheel of `wheel_radius_m`: four radii, within
+// [kFinestMeshCell_m, 1] m, so a wheel spans few triangles at once.
+inline constexpr double kFinestMeshCell_m = 0.2;
+double MeshCellFor(double wheel_radius_m);
+
+// The physics engine's limit on a triangle mesh: its quantized bounding-volume tree keeps 10 of
+// a node's 31 index bits for the mesh part, leaving "at most 2^21 (2097152) (minus one)"
+// triangles (Bullet 3.24, BulletCollision/BroadphaseCollision/btQuantizedBvh.h).
+inline constexpr double kMaxGroundTriangles = 2097151;  // 2^21 − 1
+
+// The triangles of a profile terrain's mesh at cells of `mesh_cell_m` (two per cell), counted in
+// doubles without building it, so a huge profile gives a huge count rather than an overflow.
+double ProfileMeshTriangles(const Terrain& terrain, double mesh_cell_m);
+
 // The (x, z) polyline of a profile terrain, from -extent/4 to its end + extent; bumps are
 // subdivided so no piece is longer than `max_piece_m`. Exposed for the mesh builder and tests.
 std::vector<std::pair<double, double>> ProfilePolyline(const Terrain& terrain, double max_piece_m);

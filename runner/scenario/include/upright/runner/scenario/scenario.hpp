@@ -51,6 +51,11 @@ struct ControllerEntry {
   int line = 0;             // the <controller> element's line in the scenario file, for messages
 };
 
+// The most physics steps a run may take (duration_s / dt_s): 2.8 h at 1 kHz. A run keeps 16 bytes
+// of metrics a step (160 MB at the limit) and its trace rows (about 290 bytes each; 290 MB for
+// 10⁴ s at 100 Hz), and costs about 7 µs a step (70 s at the limit).
+inline constexpr double kMaxRunSteps = 1e7;
+
 struct Scenario {
   std::string name;         // from the file; names the results folder and table rows;
                             // [A-Za-z0-9._-]+
@@ -62,7 +67,7 @@ struct Scenario {
   // robot parameter); the plant is built from it.
   std::optional<model::RobotModel> plant_model;
 
-  double duration_s = 10;                      // a whole number of physics steps
+  double duration_s = 10;  // a whole number of physics steps, at most kMaxRunSteps
   double dt_s = model::kDefaultPhysicsStep_s;  // physics step
   int solver_iterations = 10;
   sim::Terrain terrain;
