@@ -105,7 +105,10 @@ TEST(TunePareto, TheFrontIsTheNonDominatedEvaluationsWhateverTheJobs) {
   EXPECT_EQ(static_cast<std::size_t>(std::count(csv.begin(), csv.end(), '\n')),
             1 + lqr.pareto.size());
   EXPECT_TRUE(Contains(csv, "controller,mean_max_tilt_deg,mean_max_drift_m,evaluation,settings\n"));
-  EXPECT_TRUE(Contains(csv, "," + std::to_string(lqr.pareto.front()) + ",")) << csv;
+  std::string first_row = ",";
+  first_row += std::to_string(lqr.pareto.front());
+  first_row += ",";
+  EXPECT_TRUE(Contains(csv, first_row)) << csv;
   const std::string md = TuneMarkdown(one);
   EXPECT_TRUE(Contains(md, "Pareto front of mean max_tilt_deg against mean max_drift_m"));
   EXPECT_TRUE(Contains(md, "### Pareto front: max_tilt_deg against max_drift_m"));
