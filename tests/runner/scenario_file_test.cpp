@@ -464,6 +464,10 @@ TEST_F(ScenarioFileTest, RejectsNamesUnfitForFiles) {
   EXPECT_EQ(Errors(Edit(R"(name="t")", R"(name="..")")),
             Lines{"t.xml:1: scenario name = '..'" + rule});
   EXPECT_EQ(Errors(Edit(R"(name="t")", R"(name="")")), Lines{"t.xml:1: scenario name = ''" + rule});
+  // A newline and a terminal's set-title sequence (character references) are printed escaped,
+  // so the problem stays on its line and nothing reaches the terminal.
+  EXPECT_EQ(Errors(Edit(R"(name="t")", R"(name="a&#10;b&#27;]0;x&#7;")")),
+            Lines{"t.xml:1: scenario name = 'a\\nb\\x1b]0;x\\x07'" + rule});
 }
 
 TEST_F(ScenarioFileTest, RequiresPositiveDuration) {
