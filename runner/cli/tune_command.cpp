@@ -57,6 +57,13 @@ CLI::App* AddTuneCommand(CLI::App* app, TuneCommandOptions* o) {
   cmd->add_flag("--resume", o->resume,
                 "Resume an interrupted tune from the results folder's tune.log: its evaluations "
                 "are taken as logged, the rest are played (the same inputs and options only)");
+  cmd->add_option("--pareto", o->pareto_metrics,
+                  "METRIC,METRIC: each controller's Pareto front of the two metrics' means "
+                  "(both minimised; the columns of summary.csv that compare judges, e.g. "
+                  "max_tilt_deg,energy_J) is searched instead of the objective alone, and "
+                  "written to pareto.csv and tune.md")
+      ->delimiter(',')
+      ->expected(1, 2);
   cmd->footer(
       "Default objective: 1 x max_tilt_deg + 10 x max_drift_m (means over the runs); any run "
       "that does not survive scores 1e6 x (1 + the share of time lost). Default knobs: lqr and "
@@ -94,6 +101,7 @@ int RunTune(const TuneCommandOptions& options) {
   tune_options.seed = options.seed;
   tune_options.jobs = options.jobs;
   tune_options.holdout_seeds = options.holdout_seeds;
+  tune_options.pareto_metrics = options.pareto_metrics;
   const Result<runner::TunePlan> planned = runner::PlanTune(scenarios, tune_options, spec);
   if (!planned) {
     Log().Error(planned.error() + "\n(nothing was run)");
@@ -115,6 +123,10 @@ int RunTune(const TuneCommandOptions& options) {
              static_cast<unsigned long long>(options.seed), plan.holdout_runs));
   Log().Info("  objective: " + plan.objective.Text() +
              (plan.objective.bounds.empty() ? "" : ", subject to the bounds of " + plan.tune_path));
+  if (!plan.pareto_metrics.empty()) {
+    Log().Info("  searched: the Pareto front of " + plan.pareto_metrics[0] + " against " +
+               plan.pareto_metrics[1] + " (both minimised)");
+  }
   Log().Info(Printf("  at most %zu run(s) into %s", plan.max_runs, out_dir.c_str()));
   // The evaluation log, written as the tune goes: replayed with --resume, otherwise replaced.
   const std::string log_path = out_dir + "/" + runner::kEvaluationLogName;
@@ -184,6 +196,9 @@ int RunTune(const TuneCommandOptions& options) {
                         SignificantText(tune.held_out[1].score.objective, 6).c_str(),
                         tune.held_out[1].score.survived, tune.held_out[1].score.runs));
     }
+    if (!plan.pareto_metrics.empty()) {
+      Log().Info(Printf("    Pareto front: %zu setting(s)", tune.pareto.size()));
+    }
   }
   Log().Info(Printf("%zu run(s)%s; %s s on %d job(s)", result.runs,
                     result.played_runs == result.runs
@@ -193,7 +208,8 @@ int RunTune(const TuneCommandOptions& options) {
                               .c_str(),
                     FixedText(result.wall_s, 1).c_str(), result.jobs));
   Log().Info("tables: " + out_dir + "/tune.md (with each tuned <controller> element), " + out_dir +
-             "/tune.csv" + (log ? "; evaluation log " + log_path : ""));
+             "/tune.csv" + (plan.pareto_metrics.empty() ? "" : ", " + out_dir + "/pareto.csv") +
+             (log ? "; evaluation log " + log_path : ""));
   if (options.caution) Log().Caution(kCaution);
   return any_failed ? kExitFailed : kExitOk;
 }

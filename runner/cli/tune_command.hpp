@@ -19,6 +19,7 @@ struct TuneCommandOptions {
   int seed_count = 0;  // --seeds: the search's seeds 1..N in every scenario; 0: each file's own
   std::string out_dir;                      // --out; "": results/<first scenario name>-tune
   std::string tune_path;                    // --tune: a tune file; "": the default knobs
+  std::vector<std::string> pareto_metrics;  // --pareto A,B: two metrics' front; empty: none
   bool caution = true;  // close with the safety line (demo prints it once itself)
   bool resume = false;  // --resume: replay the evaluations in the results folder's tune.log
   bool evaluation_log = true;  // write tune.log as the tune goes (the demo, never resumed: no)

@@ -1039,6 +1039,35 @@ TEST(Cli, TuneResumesFromItsLogAndRefusesAnotherTunesLog) {
             std::string::npos)
       << other.output;
   EXPECT_EQ(read(out / "tune.log"), log);
+}
+
+TEST(Cli, TuneParetoRefusesAMetricItCannotTradeAndWritesTheFront) {
+  const Result bad = RunUpright("tune " + TuneScenario() + " --pareto max_tilt_deg,fall_time_s");
+  EXPECT_EQ(bad.exit_code, 2) << bad.output;
+  EXPECT_NE(bad.output.find("fall_time_s is no metric a front can trade"), std::string::npos)
+      << bad.output;
+  EXPECT_NE(bad.output.find("nothing was run"), std::string::npos) << bad.output;
+  const std::string tune = WriteTemp("pareto-tune.xml", R"(<tune schema="1">
+  <controller name="lqr"><knob setting="max_tilt_deg" lo="1" hi="6"/></controller>
+</tune>
+)");
+  const auto out =
+      std::filesystem::temp_directory_path() / ("upright_cli_pareto_" + std::to_string(getpid()));
+  std::filesystem::remove_all(out);
+  const Result r =
+      RunUpright("tune " + TuneScenario() + " --tune " + tune +
+                 " --budget 5 --holdout 0 --pareto max_tilt_deg,energy_J --out " + out.string());
+  EXPECT_EQ(r.exit_code, 0) << r.output;
+  EXPECT_NE(r.output.find("searched: the Pareto front of max_tilt_deg against energy_J"),
+            std::string::npos)
+      << r.output;
+  EXPECT_NE(r.output.find("Pareto front: "), std::string::npos) << r.output;
+  std::ifstream csv(out / "pareto.csv");
+  std::string header;
+  std::getline(csv, header);
+  EXPECT_EQ(header, "controller,mean_max_tilt_deg,mean_energy_J,evaluation,settings");
+  std::string row;
+  EXPECT_TRUE(std::getline(csv, row) && row.rfind("lqr,", 0) == 0) << row;
   std::filesystem::remove_all(out);
 }
 

@@ -265,6 +265,10 @@ TuneLogHeader MakeTuneLogHeader(const std::vector<Scenario>& scenarios, const Tu
   f.emplace_back("budget", std::to_string(options.budget_runs));
   f.emplace_back("seed", std::to_string(options.seed));
   f.emplace_back("holdout", std::to_string(options.holdout_seeds));
+  // What is searched: a Pareto front asks for other settings after the start.
+  f.emplace_back("pareto", plan.pareto_metrics.empty()
+                               ? std::string("none")
+                               : plan.pareto_metrics[0] + "," + plan.pareto_metrics[1]);
   for (const Scenario& scenario : scenarios) {
     f.emplace_back("scenario", Sha256OfFile(scenario.path).value_or(""));
     f.emplace_back("robot", Sha256OfFile(scenario.model_path).value_or(""));

@@ -7,6 +7,7 @@
 #include <sstream>
 #include <stdexcept>
 
+#include "search_stages.hpp"
 #include "upright/model/check.hpp"
 #include "upright/sim/random.hpp"
 
@@ -17,29 +18,6 @@ double Misses(const PointScore& score) {
   double sum = 0;
   for (const double c : score.constraints) sum += std::max(0.0, c);
   return sum;
-}
-
-// n points of a Latin hypercube in [0, 1]^d: each axis cut into n equal strata, one point per
-// stratum on every axis, strata paired by seeded shuffles and each point placed at random
-// within its cell. The first point drawn is the box's centre when n is 1.
-std::vector<std::vector<double>> LatinHypercube(std::size_t n, std::size_t d, std::uint64_t seed) {
-  sim::Random random(seed);
-  std::vector<std::vector<double>> points(n, std::vector<double>(d, 0.5));
-  if (n == 1) return points;
-  std::vector<std::size_t> strata(n);
-  for (std::size_t axis = 0; axis < d; ++axis) {
-    std::iota(strata.begin(), strata.end(), 0);
-    // Fisher–Yates with our own generator (std::shuffle's order is not fixed by the standard).
-    for (std::size_t i = n - 1; i > 0; --i) {
-      const auto j = static_cast<std::size_t>(random.NextU64() % (i + 1));
-      std::swap(strata[i], strata[j]);
-    }
-    for (std::size_t i = 0; i < n; ++i) {
-      points[i][axis] =
-          (static_cast<double>(strata[i]) + random.Uniform()) / static_cast<double>(n);
-    }
-  }
-  return points;
 }
 
 // The polish's state, shared with NLopt's callbacks: the history it adds to, what is left of the
@@ -85,6 +63,77 @@ void PolishConstraints(unsigned m, double* out, unsigned n, const double* x, dou
 
 }  // namespace
 
+namespace internal {
+
+std::vector<std::vector<double>> LatinHypercube(std::size_t n, std::size_t d, std::uint64_t seed) {
+  sim::Random random(seed);
+  std::vector<std::vector<double>> points(n, std::vector<double>(d, 0.5));
+  if (n == 1) return points;
+  std::vector<std::size_t> strata(n);
+  for (std::size_t axis = 0; axis < d; ++axis) {
+    std::iota(strata.begin(), strata.end(), 0);
+    // Fisher–Yates with our own generator (std::shuffle's order is not fixed by the standard).
+    for (std::size_t i = n - 1; i > 0; --i) {
+      const auto j = static_cast<std::size_t>(random.NextU64() % (i + 1));
+      std::swap(strata[i], strata[j]);
+    }
+    for (std::size_t i = 0; i < n; ++i) {
+      points[i][axis] =
+          (static_cast<double>(strata[i]) + random.Uniform()) / static_cast<double>(n);
+    }
+  }
+  return points;
+}
+
+int GlobalPoints(const SearchOptions& options) {
+  return options.global_points > 0
+             ? options.global_points
+             : std::clamp(static_cast<int>(std::lround(0.4 * options.evaluations)), 1,
+                          options.evaluations - 1);
+}
+
+int PolishFrom(const SearchOptions& options, PolishAlgorithm algorithm, std::size_t from,
+               int budget, const BatchObjective& objective, SearchResult* result) {
+  if (budget <= 0) return 0;
+  const std::size_t n = options.dimensions;
+  const bool constrained = options.constraints > 0;
+  // NLopt's BOBYQA needs two or more variables; COBYLA takes one, and any constraints.
+  const bool cobyla = algorithm == PolishAlgorithm::kCobyla || constrained || n < 2;
+  nlopt::opt opt(cobyla ? nlopt::LN_COBYLA : nlopt::LN_BOBYQA, static_cast<unsigned>(n));
+  Polish polish{objective, result, budget, {}, {}, false};
+  opt.set_lower_bounds(std::vector<double>(n, 0.0));
+  opt.set_upper_bounds(std::vector<double>(n, 1.0));
+  opt.set_min_objective(PolishObjective, &polish);
+  if (constrained) {
+    opt.add_inequality_mconstraint(PolishConstraints, &polish,
+                                   std::vector<double>(options.constraints, 0.0));
+  }
+  opt.set_maxeval(polish.left + 1);  // the budget is kept by Polish; this is a backstop
+  opt.set_xtol_abs(options.local_tolerance);
+  // The first step, kept inside the box from the start point.
+  std::vector<double> x = result->history.at(from).point;
+  std::vector<double> step(n);
+  for (std::size_t i = 0; i < n; ++i) {
+    step[i] = std::min(options.local_step, std::max(x[i], 1 - x[i]));
+  }
+  opt.set_initial_step(step);
+  // The polish's first call repeats its start point, which Polish answers from the start's
+  // score without spending an evaluation.
+  polish.last_point = x;
+  polish.last_score = result->history[from].score;
+  double value = 0;
+  try {
+    opt.optimize(x, value);
+  } catch (const nlopt::forced_stop&) {
+    // The budget ran out: the history holds every point scored.
+  } catch (const std::exception&) {
+    // NLopt's round-off and invalid-argument stops: the history still holds every point scored.
+  }
+  return budget - polish.left;
+}
+
+}  // namespace internal
+
 Status SearchOptions::Validate() const {
   std::ostringstream why;
   if (dimensions < 1) {
@@ -114,13 +163,10 @@ SearchResult Search(const SearchOptions& options, const BatchObjective& objectiv
   const Status valid = options.Validate();
   UPRIGHT_CHECK(valid, "%s", valid ? "" : valid.error().c_str());
   const std::size_t n = options.dimensions;
-  const int global = options.global_points > 0
-                         ? options.global_points
-                         : std::clamp(static_cast<int>(std::lround(0.4 * options.evaluations)), 1,
-                                      options.evaluations - 1);
+  const int global = internal::GlobalPoints(options);
   SearchResult result;
   const std::vector<std::vector<double>> start =
-      LatinHypercube(static_cast<std::size_t>(global), n, options.seed);
+      internal::LatinHypercube(static_cast<std::size_t>(global), n, options.seed);
   const std::vector<PointScore> scores = objective(start);
   UPRIGHT_CHECK(scores.size() == start.size(), "a batch objective returned %zu scores for %zu",
                 scores.size(), start.size());
@@ -129,39 +175,8 @@ SearchResult Search(const SearchOptions& options, const BatchObjective& objectiv
     if (Better(scores[i], result.history[result.best].score)) result.best = i;
   }
 
-  // BOBYQA needs two or more variables in NLopt; COBYLA takes one, and any constraints.
-  const bool constrained = options.constraints > 0;
-  const nlopt::algorithm algorithm = constrained || n < 2 ? nlopt::LN_COBYLA : nlopt::LN_BOBYQA;
-  nlopt::opt opt(algorithm, static_cast<unsigned>(n));
-  Polish polish{objective, &result, options.evaluations - global, {}, {}, false};
-  opt.set_lower_bounds(std::vector<double>(n, 0.0));
-  opt.set_upper_bounds(std::vector<double>(n, 1.0));
-  opt.set_min_objective(PolishObjective, &polish);
-  if (constrained) {
-    opt.add_inequality_mconstraint(PolishConstraints, &polish,
-                                   std::vector<double>(options.constraints, 0.0));
-  }
-  opt.set_maxeval(polish.left + 1);  // the budget is kept by Polish; this is a backstop
-  opt.set_xtol_abs(options.local_tolerance);
-  // The first step, kept inside the box from the start point.
-  std::vector<double> x = result.history[result.best].point;
-  std::vector<double> step(n);
-  for (std::size_t i = 0; i < n; ++i) {
-    step[i] = std::min(options.local_step, std::max(x[i], 1 - x[i]));
-  }
-  opt.set_initial_step(step);
-  // The polish starts from the best point of the start: its first call repeats that point,
-  // which Polish answers from the start's score without spending an evaluation.
-  polish.last_point = x;
-  polish.last_score = result.history[result.best].score;
-  double value = 0;
-  try {
-    opt.optimize(x, value);
-  } catch (const nlopt::forced_stop&) {
-    // The budget ran out: the history holds every point scored.
-  } catch (const std::exception&) {
-    // NLopt's round-off and invalid-argument stops: the history still holds every point scored.
-  }
+  internal::PolishFrom(options, internal::PolishAlgorithm::kAuto, result.best,
+                       options.evaluations - global, objective, &result);
   return result;
 }
 

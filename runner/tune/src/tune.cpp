@@ -11,6 +11,7 @@
 #include <utility>
 
 #include "evaluation_setting.hpp"
+#include "pareto_tune.hpp"
 #include "upright/runner/run/batch.hpp"
 #include "upright/runner/run/modules.hpp"
 #include "upright/runner/run/parallel_for.hpp"
@@ -299,25 +300,35 @@ ControllerTune TuneController(const std::vector<Scenario>& scenarios, const Tune
     }
     return values;
   };
-  const SearchResult found = Search(search, [&](const std::vector<std::vector<double>>& points) {
+  // Plays a batch of points; each evaluation kept (stage set below).
+  const internal::EvaluateBatch evaluate = [&](const std::vector<std::vector<double>>& points) {
     std::vector<std::vector<double>> settings;
     for (const auto& point : points) settings.push_back(values_of(point));
-    std::vector<PointScore> scores;
     // The search's first batch is its space-filling start.
     const std::vector<EvaluationScore> evaluated =
         tuner.Evaluate(settings, tune.evaluations.size() == 1 ? EvaluationStage::kGlobal
                                                               : EvaluationStage::kLocal);
     for (std::size_t i = 0; i < points.size(); ++i) {
       tune.evaluations.push_back({EvaluationStage::kGlobal, settings[i], evaluated[i], {}});
-      scores.push_back(AsPointScore(evaluated[i]));
     }
-    return scores;
-  });
+    return evaluated;
+  };
+  std::vector<SearchStage> stages;
+  if (plan.pareto_metrics.empty()) {
+    const SearchResult found = Search(search, [&](const std::vector<std::vector<double>>& points) {
+      std::vector<PointScore> scores;
+      for (const EvaluationScore& score : evaluate(points)) scores.push_back(AsPointScore(score));
+      return scores;
+    });
+    for (const SearchRecord& record : found.history) stages.push_back(record.stage);
+  } else {
+    stages = internal::SearchPareto(search, plan.pareto_metrics, evaluate);
+    tune.pareto = internal::ParetoFrontOf(tune.evaluations, plan.pareto_metrics);
+  }
   // The stage of each evaluation as the search recorded it (one evaluation per record).
-  for (std::size_t i = 0; i < found.history.size(); ++i) {
-    tune.evaluations[i + 1].stage = found.history[i].stage == SearchStage::kGlobal
-                                        ? EvaluationStage::kGlobal
-                                        : EvaluationStage::kLocal;
+  for (std::size_t i = 0; i < stages.size(); ++i) {
+    tune.evaluations[i + 1].stage =
+        stages[i] == SearchStage::kGlobal ? EvaluationStage::kGlobal : EvaluationStage::kLocal;
   }
   tune.best = 0;
   for (std::size_t i = 1; i < tune.evaluations.size(); ++i) {

@@ -7,6 +7,7 @@
 #include "evaluation_setting.hpp"
 #include "upright/runner/run/modules.hpp"
 #include "upright/runner/run/run_one.hpp"
+#include "upright/runner/tune/pareto.hpp"
 
 namespace upright::runner {
 
@@ -23,7 +24,7 @@ Status TuneOptions::Validate() const {
   } else if (holdout_seeds < 0 || holdout_seeds > 1000) {
     why << "TuneOptions::holdout_seeds = " << holdout_seeds << ", must be in [0, 1000]";
   } else {
-    return {};
+    return ValidateParetoMetrics(pareto_metrics);
   }
   return Failure(why.str());
 }
@@ -38,6 +39,7 @@ Result<TunePlan> PlanTune(const std::vector<Scenario>& scenarios, const TuneOpti
   TunePlan plan;
   plan.objective = spec.objective;
   plan.tune_path = spec.path;
+  plan.pareto_metrics = options.pareto_metrics;
   const Scenario& first = scenarios.front();
   std::vector<std::string> names = options.controllers;
   if (names.empty()) {

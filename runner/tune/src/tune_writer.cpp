@@ -15,6 +15,7 @@
 #include "upright/runner/tables/metric_columns.hpp"
 #include "upright/runner/tables/ranking.hpp"
 #include "upright/runner/tables/results_writer.hpp"
+#include "upright/runner/tune/pareto_writer.hpp"
 
 namespace upright::runner {
 namespace {
@@ -164,6 +165,7 @@ std::string TuneMarkdown(const TuneResult& result) {
         std::to_string(plan.runs_per_evaluation) + " run(s) per controller, search seed " +
         std::to_string(result.seed) +
         (plan.tune_path.empty() ? "" : ", knobs from " + plan.tune_path) + ".\n";
+  md += ParetoSearchedMarkdown(result);
   for (const ControllerTune& tune : result.controllers) {
     md += "\n## " + tune.controller + "\n\n";
     if (!tune.setup_error.empty()) {
@@ -214,6 +216,7 @@ std::string TuneMarkdown(const TuneResult& result) {
     Append(&md, {"\n", std::to_string(tune.evaluations.size()),
                  " evaluations. Ready to paste into a scenario's <controllers>:\n\n```xml\n",
                  tune.element, "\n```\n"});
+    md += ParetoFrontMarkdown(result, tune);
   }
   AppendRankingAtTheirBest(result, &md);
   return md;
@@ -225,6 +228,12 @@ Status WriteTuneResults(const std::string& dir, const TuneResult& result) {
   if (Status written = WriteFileAtomically((root / "tune.csv").string(), TuneCsv(result));
       !written) {
     return written;
+  }
+  if (!result.plan.pareto_metrics.empty()) {
+    if (Status written = WriteFileAtomically((root / "pareto.csv").string(), ParetoCsv(result));
+        !written) {
+      return written;
+    }
   }
   if (Status written = WriteFileAtomically((root / "tune.md").string(), TuneMarkdown(result));
       !written) {

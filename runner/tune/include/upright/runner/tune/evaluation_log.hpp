@@ -42,7 +42,8 @@ struct TuneLogHeader {
 
 // The header of a tune of `scenarios` with `options` and `plan` by the program at `tool_version`:
 // the files' SHA-256 (an unreadable file hashes as ""), each scenario's seeds, the controllers,
-// budget, seed and held-out seeds. The jobs are left out: they change nothing tuned.
+// budget, seed, held-out seeds and Pareto metrics. The jobs are left out: they change nothing
+// tuned.
 TuneLogHeader MakeTuneLogHeader(const std::vector<Scenario>& scenarios, const TuneOptions& options,
                                 const TunePlan& plan, const std::string& tool_version);
 

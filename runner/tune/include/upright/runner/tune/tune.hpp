@@ -42,6 +42,9 @@ struct ControllerTune {
   std::vector<std::string> default_text;
   std::vector<TuneEvaluation> evaluations;  // the default first, then in the order searched
   std::size_t best = 0;                     // index into evaluations (Better, default included)
+  // With TunePlan::pareto_metrics: the evaluations on the front (NonDominated, the default
+  // included), as indices into `evaluations` sorted by the first metric ascending; else empty.
+  std::vector<std::size_t> pareto;
   // With held-out seeds: the default setting and the tuned one played on them (stage kHeldOut).
   std::vector<TuneEvaluation> held_out;
   std::string setup_error;  // the module could not be loaded: nothing searched

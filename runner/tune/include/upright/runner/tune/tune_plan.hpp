@@ -29,6 +29,9 @@ struct TuneOptions {
   int holdout_seeds = 3;
   // Where built-in modules are looked for; empty: host::DefaultModuleDirs().
   std::vector<std::string> module_dirs;
+  // Empty, or two metric column names (pareto.hpp, both minimised): each controller's Pareto
+  // front of their means is searched instead of the objective alone (pareto_search.hpp).
+  std::vector<std::string> pareto_metrics;
   // Fine when valid; otherwise the broken rule, naming the field and value.
   Status Validate() const;
 };
@@ -52,6 +55,9 @@ struct TunePlan {
   std::vector<std::vector<std::uint64_t>> holdout_seeds;
   std::size_t holdout_runs = 0;  // per held-out evaluation: Σ over scenarios
   std::size_t max_runs = 0;      // in all, the held-out runs included
+  // TuneOptions::pareto_metrics: empty, or the two metrics whose front is searched (both
+  // minimised, each the mean over the runs).
+  std::vector<std::string> pareto_metrics;
 };
 
 // Checks the options, the spec and the scenarios together and fills in the defaults; otherwise

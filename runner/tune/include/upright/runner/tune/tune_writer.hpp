@@ -1,7 +1,7 @@
 // The results folder of a tune: tune.csv (every evaluation), tune.md (per controller the default
 // against the tuned objective, the settings and a ready-to-paste <controller> element, then the
-// ranking at their best), the held-out replays as results folders, and manifest.json, each file
-// written atomically.
+// ranking at their best), with Pareto metrics pareto.csv, the held-out replays as results folders,
+// and manifest.json, each file written atomically.
 #pragma once
 
 #include <string>
@@ -20,8 +20,8 @@ std::string TuneCsv(const TuneResult& result);
 std::string TuneMarkdown(const TuneResult& result);
 
 // Creates `dir` if needed and writes tune.csv, tune.md, the held-out replays' results folders
-// (kTunedFolder, kDefaultsFolder; with held-out seeds only) and, last, manifest.json; otherwise
-// why not.
+// (kTunedFolder, kDefaultsFolder; with held-out seeds only), with Pareto metrics pareto.csv
+// (pareto_writer.hpp) and, last, manifest.json; otherwise why not.
 Status WriteTuneResults(const std::string& dir, const TuneResult& result);
 
 }  // namespace upright::runner
