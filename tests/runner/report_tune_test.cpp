@@ -72,6 +72,10 @@ pid,1,global,max_tilt_deg=6,25,true,3,3,
   "controllers": [{"name": "lqr", "best_evaluation": 2}, {"name": "pid", "best_evaluation": 1}]
 }
 )";
+  // The fronts of max_tilt_deg against energy_J: two settings of lqr, one of pid.
+  std::ofstream(dir / "pareto.csv")
+      << "controller,mean_max_tilt_deg,mean_energy_J,evaluation,settings\n"
+      << "lqr,7.5,30,2,max_tilt_deg=3\nlqr,8.5,20,4,max_tilt_deg=5\npid,6,40,1,max_tilt_deg=6\n";
   for (const auto& [folder, rows] : {std::pair{"tuned", "1,pid,3,3\n2,lqr,3,3\n"},
                                      std::pair{"defaults", "1,lqr,3,3\n2,pid,0,3\n"}}) {
     fs::create_directories(dir / folder);
@@ -112,6 +116,13 @@ TEST(TuneReport, DrawsTheSearchTheTunedSettingsAndTheRankingAtTheirBest) {
   EXPECT_NE(legend.find("lqr"), std::string::npos);
   EXPECT_NE(legend.find("pid"), std::string::npos);
 
+  // The fronts: a line and a mark per setting, each controller in its style, named on its axes.
+  const XMLElement* fronts = PlotOf(root, "tune-pareto");
+  ASSERT_NE(fronts, nullptr);
+  const std::string text = TextOf(fronts);
+  EXPECT_NE(text.find("max_tilt_deg (mean over the runs)"), std::string::npos) << text;
+  EXPECT_NE(text.find("energy_J"), std::string::npos) << text;
+
   const auto tuned = TableRows(root, "Default against tuned objective");
   ASSERT_EQ(tuned.size(), 2u);
   EXPECT_EQ(tuned[0], (std::vector<std::string>{"lqr", "20", "18", "20.5", "18.5", "2 (global)",
@@ -122,6 +133,16 @@ TEST(TuneReport, DrawsTheSearchTheTunedSettingsAndTheRankingAtTheirBest) {
   ASSERT_EQ(ranking.size(), 2u);
   EXPECT_EQ(ranking[0], (std::vector<std::string>{"1", "pid", "3/3", "2", "0/3"}));
   EXPECT_EQ(ranking[1], (std::vector<std::string>{"2", "lqr", "3/3", "1", "3/3"}));
+}
+
+TEST(TuneReport, AFrontThatIsNotNumbersIsRefusedWithItsLine) {
+  const fs::path dir = TuneFolder("tune-report-front");
+  std::ofstream(dir / "pareto.csv") << "controller,mean_max_tilt_deg,mean_energy_J,evaluation,"
+                                       "settings\nlqr,7.5,30,2,a\nlqr,tall,20,4,b\n";
+  const Result<ReportWritten, ReportFailure> made = MakeReport(dir.string());
+  ASSERT_FALSE(made);
+  EXPECT_EQ(made.error().message,
+            (dir / "pareto.csv").string() + ":3: a front's figures must be numbers");
 }
 
 TEST(TuneReport, ATuneTableWithoutItsColumnsIsRefusedWithItsLine) {

@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
+#include <limits>
 #include <map>
 
 #include "html_table.hpp"
@@ -51,6 +52,59 @@ std::map<std::string, std::pair<std::string, std::string>> ReadStandings(const f
     standings[row[name]] = {row[rank], row[survived] + "/" + row[runs]};
   }
   return standings;
+}
+
+// pareto.csv, when the tune searched fronts: each controller's front as a line through its
+// settings (sorted by the first metric, as the file is), each setting marked.
+Result<std::string> ParetoPlot(const std::string& folder, const ReportOptions& options) {
+  const fs::path path = fs::path(folder) / "pareto.csv";
+  std::error_code ec;
+  if (!fs::is_regular_file(path, ec)) return std::string();
+  const Result<CsvTable> read = ReadCsvFile(path.string());
+  if (!read) return Failure(read.error());
+  const CsvTable& table = *read;
+  if (table.header.size() < 3 || table.header[0] != "controller" ||
+      table.header[1].rfind("mean_", 0) != 0 || table.header[2].rfind("mean_", 0) != 0) {
+    return Failure(path.string() +
+                   ":1: expected the columns controller, mean_<metric>, mean_<metric>");
+  }
+  LinePlot plot;
+  plot.kind = "tune-pareto";
+  plot.title = "Pareto fronts: the settings no other setting beats on both (tune.md, pareto.csv)";
+  plot.x_label = table.header[1].substr(5) + " (mean over the runs)";
+  plot.y_label = table.header[2].substr(5);
+  constexpr double kInf = std::numeric_limits<double>::infinity();
+  double x_lo = kInf, x_hi = -kInf, y_lo = kInf, y_hi = -kInf;
+  for (std::size_t r = 0; r < table.rows.size(); ++r) {
+    const auto& row = table.rows[r];
+    if (plot.series.empty() || plot.series.back().name != row[0]) {
+      plot.series.push_back({row[0], plot.series.size(), false, {}, {}});
+    }
+    const double x = CsvNumber(row[1]), y = CsvNumber(row[2]);
+    if (!std::isfinite(x) || !std::isfinite(y)) {
+      return Failure(path.string() + ":" + std::to_string(table.lines[r]) +
+                     ": a front's figures must be numbers");
+    }
+    plot.series.back().time_s.push_back(x);
+    plot.series.back().value.push_back(y);
+    plot.marks.push_back({x, y, plot.series.back().style, ""});
+    x_lo = std::min(x_lo, x);
+    x_hi = std::max(x_hi, x);
+    y_lo = std::min(y_lo, y);
+    y_hi = std::max(y_hi, y);
+  }
+  if (plot.series.empty()) return std::string();
+  // A margin of a tenth of the span (or of the value, for a front of one point) on each side.
+  const auto pad = [](double lo, double hi) {
+    const double span = hi > lo ? hi - lo : std::max(std::abs(hi), 1.0);
+    return 0.1 * span;
+  };
+  const double px = pad(x_lo, x_hi), py = pad(y_lo, y_hi);
+  plot.x_lo = x_lo - px;
+  plot.x_hi = x_hi + px;
+  plot.y_lo = y_lo - py;
+  plot.y_hi = y_hi + py;
+  return RenderLinePlot(plot, options.max_points);
 }
 
 }  // namespace
@@ -140,6 +194,9 @@ Status AppendTuneSection(const ResultsFolder& folder, const ManifestInfo& manife
       "Every figure holds on this model and these scenarios only; tune.csv has every "
       "evaluation.</p>";
   html += RenderLinePlot(convergence, options.max_points);
+  const Result<std::string> fronts = ParetoPlot(folder.path, options);
+  if (!fronts) return Failure(fronts.error());
+  html += *fronts;
 
   HtmlTable results({"controller", "default", "tuned", "held-out: default", "held-out: tuned",
                      "tuned evaluation", "tuned setting"},

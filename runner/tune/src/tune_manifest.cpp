@@ -47,6 +47,9 @@ std::string TuneManifestJson(const TuneResult& result) {
   json.BeginArray("bounds");
   for (const MetricBound& bound : plan.objective.bounds) json.String("", bound.Text());
   json.EndArray();
+  json.BeginArray("pareto_metrics");  // empty: the objective alone was searched
+  for (const std::string& metric : plan.pareto_metrics) json.String("", metric);
+  json.EndArray();
   json.BeginArray("controllers");
   for (const ControllerTune& tune : result.controllers) {
     json.BeginObject();
