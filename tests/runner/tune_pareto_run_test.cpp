@@ -8,6 +8,7 @@
 
 #include "run_test_support.hpp"
 #include "succeeded.hpp"
+#include "tune_test_scenarios.hpp"
 #include "upright/runner/tune/pareto.hpp"
 #include "upright/runner/tune/pareto_writer.hpp"
 #include "upright/runner/tune/tune.hpp"
@@ -16,25 +17,15 @@
 namespace upright::runner {
 namespace {
 
+using testing::Contains;
 using testing::ReadFile;
 using testing::ScenarioFromText;
 using testing::ScratchDir;
-
-bool Contains(const std::string& text, const std::string& part) {
-  return text.find(part) != std::string::npos;
-}
+using testing::ShoveText;
 
 // A parked courier shoved once, for 2.5 s, on seed 1, balanced by the lqr module.
 Scenario Shove() {
-  return ScenarioFromText(R"(<scenario name="shove" schema="1" duration_s="2.5">
-  <description>Test: a parked courier shoved once.</description>
-  <robot file="../models/courier.xml"/>
-  <timeline>
-    <push at_s="0.5" shape="half-sine" peak_N="160" duration_s="0.3" height_m="0.45"/>
-  </timeline>
-  <controllers><controller name="lqr" builtin="lqr"/></controllers>
-  <seeds list="1"/>
-</scenario>)");
+  return ScenarioFromText(ShoveText(R"(<controller name="lqr" builtin="lqr"/>)"));
 }
 
 // The lqr module's tilt weight tuned for the front of peak tilt against peak drift.

@@ -7,6 +7,7 @@
 
 #include "run_test_support.hpp"
 #include "succeeded.hpp"
+#include "tune_test_scenarios.hpp"
 #include "upright/base/number_text.hpp"
 #include "upright/design/pid.hpp"
 #include "upright/runner/tune/tune.hpp"
@@ -15,23 +16,13 @@
 namespace upright::runner {
 namespace {
 
+using testing::Contains;
 using testing::ScenarioFromText;
-
-bool Contains(const std::string& text, const std::string& part) {
-  return text.find(part) != std::string::npos;
-}
+using testing::ShoveText;
 
 // A parked courier shoved once, for 2.5 s, on seed 1, with the pid module alone.
 Scenario PidShove() {
-  return ScenarioFromText(R"(<scenario name="shove" schema="1" duration_s="2.5">
-  <description>Test: a parked courier shoved once.</description>
-  <robot file="../models/courier.xml"/>
-  <timeline>
-    <push at_s="0.5" shape="half-sine" peak_N="160" duration_s="0.3" height_m="0.45"/>
-  </timeline>
-  <controllers><controller name="pid" builtin="pid"/></controllers>
-  <seeds list="1"/>
-</scenario>)");
+  return ScenarioFromText(ShoveText(R"(<controller name="pid" builtin="pid"/>)"));
 }
 
 // The knobs' values of evaluation `e`, by setting.

@@ -16,6 +16,7 @@
 
 #include "run_test_support.hpp"
 #include "succeeded.hpp"
+#include "tune_test_scenarios.hpp"
 #include "upright/runner/common/sha256.hpp"
 #include "upright/runner/tables/metric_columns.hpp"
 #include "upright/runner/tune/evaluation_log.hpp"
@@ -25,13 +26,10 @@
 namespace upright::runner {
 namespace {
 
+using testing::Contains;
 using testing::ReadFile;
 using testing::ScenarioFromText;
 using testing::ScratchDir;
-
-bool Contains(const std::string& text, const std::string& part) {
-  return text.find(part) != std::string::npos;
-}
 
 std::uint64_t Bits(double value) { return std::bit_cast<std::uint64_t>(value); }
 
