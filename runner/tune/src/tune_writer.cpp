@@ -164,7 +164,12 @@ std::string TuneMarkdown(const TuneResult& result) {
   md += " Budget: " + std::to_string(plan.evaluations) + " evaluations of " +
         std::to_string(plan.runs_per_evaluation) + " run(s) per controller, search seed " +
         std::to_string(result.seed) +
-        (plan.tune_path.empty() ? "" : ", knobs from " + plan.tune_path) + ".\n";
+        // The file's name alone, so the table does not depend on where it lies (the manifest has
+        // its path and SHA-256).
+        (plan.tune_path.empty() ? ""
+                                : ", knobs and objective from " +
+                                      std::filesystem::path(plan.tune_path).filename().string()) +
+        ".\n";
   md += ParetoSearchedMarkdown(result);
   for (const ControllerTune& tune : result.controllers) {
     md += "\n## " + tune.controller + "\n\n";
